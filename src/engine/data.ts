@@ -1,0 +1,53 @@
+/**
+ * Columnar data as the engine sees it. Structured-clone safe (typed arrays and plain objects only),
+ * so a Dataset crosses the worker boundary unchanged and can be transferred.
+ *
+ * - numeric: Float64Array, NaN marks a missing cell.
+ * - categorical: Int32Array of level codes into `levels`, -1 marks a missing cell.
+ *   A binary column is a categorical column with two levels.
+ */
+export interface NumericColumn {
+  kind: 'numeric';
+  name: string;
+  values: Float64Array;
+}
+
+export interface CategoricalColumn {
+  kind: 'categorical';
+  name: string;
+  codes: Int32Array;
+  levels: string[];
+}
+
+export type Column = NumericColumn | CategoricalColumn;
+
+export interface Dataset {
+  nRows: number;
+  columns: Column[];
+}
+
+/** Finds a column by name or throws a FulcraError naming the column and the columns that exist. */
+export function getColumn(data: Dataset, name: string): Column {
+  const col = data.columns.find((c) => c.name === name);
+  if (!col) {
+    const known = data.columns.map((c) => c.name).join(', ');
+    throw new FulcraError('unknown-column', `There is no column named "${name}". Columns are: ${known}.`);
+  }
+  return col;
+}
+
+export function isMissing(col: Column, row: number): boolean {
+  return col.kind === 'numeric' ? Number.isNaN(col.values[row]) : col.codes[row] < 0;
+}
+
+/** A typed error with a code, for invalid arguments (bad data yields warnings instead). */
+export class FulcraError extends Error {
+  constructor(
+    readonly code: string,
+    message: string,
+    readonly suggestion?: string,
+  ) {
+    super(message);
+    this.name = 'FulcraError';
+  }
+}

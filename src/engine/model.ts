@@ -1,0 +1,117 @@
+import type { EngineWarning } from './warnings';
+
+/** One term of the model, as the user states it. Term names are used in every table, test and report. */
+export type TermSpec =
+  | { type: 'main'; column: string; reference?: string }
+  | { type: 'spline'; column: string; knots: 3 | 4 | 5 }
+  | { type: 'interaction'; columns: [string, string] };
+
+export interface ModelSpec {
+  outcome: string;
+  /** The outcome level counted as the event. For a numeric 0/1 outcome, "1". */
+  event?: string;
+  terms: TermSpec[];
+}
+
+export type FitMethod = 'ml' | 'ridge' | 'firth';
+
+export interface FitOptions {
+  /** 'ml' = maximum likelihood; 'ridge' = L2 at `lambda`; 'firth' = Jeffreys-prior penalised likelihood. */
+  method: FitMethod;
+  /** Ridge strength on the standardised scale: objective −(1/n)·loglik + (λ/2)·‖β_std‖², intercept unpenalised. */
+  lambda: number;
+  /** Convergence: relative change in deviance (and max |Δβ| on the standardised scale) below tol. */
+  tol: number;
+  maxIter: number;
+  /** Confidence level for every interval. */
+  level: number;
+  /** Compute profile-likelihood CIs (root finding). */
+  profile: boolean;
+}
+
+export const defaultFitOptions: FitOptions = {
+  method: 'ml',
+  lambda: 0,
+  tol: 1e-10,
+  maxIter: 50,
+  level: 0.95,
+  profile: true,
+};
+
+/** One design column (intercept first). */
+export interface CoefficientRow {
+  name: string;
+  /** Name of the term this column belongs to ("(Intercept)" for the intercept). */
+  term: string;
+  estimate: number;
+  /** null for penalised fits other than Firth, where no valid inference table exists. */
+  se: number | null;
+  z: number | null;
+  p: number | null;
+  waldLower: number | null;
+  waldUpper: number | null;
+  profileLower: number | null;
+  profileUpper: number | null;
+  oddsRatio: number;
+  /** Dropped because it is a linear combination of earlier columns (aliased). estimate is 0 then. */
+  aliased: boolean;
+}
+
+export interface TermRow {
+  name: string;
+  /** Indices into `coefficients`. */
+  columns: number[];
+  df: number;
+  /** Likelihood-ratio test of dropping the whole term (multi-df for categorical and spline terms). */
+  lrChi2: number | null;
+  lrP: number | null;
+}
+
+/** What is needed to re-create the design for new data (scoring, external validation). */
+export interface DesignRecipe {
+  outcome: string;
+  event: string;
+  terms: Array<
+    | { type: 'numeric'; name: string; column: string }
+    | { type: 'categorical'; name: string; column: string; levels: string[]; reference: string }
+    | { type: 'spline'; name: string; column: string; knots: number[] }
+    | { type: 'interaction'; name: string; parts: [string, string] }
+  >;
+  /** Design column names, intercept first; same order as coefficients. */
+  columnNames: string[];
+}
+
+export interface FitResult {
+  method: FitMethod;
+  lambda: number;
+  level: number;
+  converged: boolean;
+  iterations: number;
+  coefficients: CoefficientRow[];
+  terms: TermRow[];
+  /** Unpenalised −2·loglik at the estimate and for the intercept-only model. */
+  deviance: number;
+  nullDeviance: number;
+  logLik: number;
+  aic: number;
+  bic: number;
+  /** Model likelihood-ratio test against the intercept-only model. */
+  modelLrChi2: number;
+  modelDf: number;
+  modelLrP: number;
+  nUsed: number;
+  nDropped: number;
+  /** Rows dropped because of a missing value, per column name. */
+  droppedByColumn: Record<string, number>;
+  events: number;
+  nonEvents: number;
+  /** Number of estimated non-intercept parameters. */
+  parameters: number;
+  eventsPerParameter: number;
+  /** Covariance matrix of the estimates, row-major, intercept first (null where not valid). */
+  covariance: number[] | null;
+  recipe: DesignRecipe;
+  warnings: import('./warnings').EngineWarning[];
+}
+
+export type { EngineWarning };
