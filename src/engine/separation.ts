@@ -1,0 +1,35 @@
+import type { NewtonResult } from './newton';
+
+export interface SeparationCheck {
+  kind: 'none' | 'complete' | 'quasi';
+  /** Design columns (indices into the fitted design) whose coefficients diverge. */
+  columns: number[];
+  /** Rows whose fitted risk equals the outcome to within 1e-8. */
+  determinedRows: number;
+}
+
+/**
+ * Detects complete and quasi-complete separation (Albert & Anderson 1984, Biometrika 71:1) from a maximum-likelihood
+ * Newton run with recordPath: under separation the coefficients move by a roughly constant amount per iteration
+ * without converging while some fitted risks reach 0 or 1. Complete: every row is determined; quasi: some are.
+ * The diverging columns are those whose change over the last five iterations is at least 5% of the largest
+ * (on the standardised scale).
+ */
+export function detectSeparation(fit: NewtonResult, y: ArrayLike<number>): SeparationCheck {
+  const n = y.length;
+  let determined = 0;
+  for (let i = 0; i < n; i++) {
+    const r = y[i] === 1 ? 1 - fit.fitted[i] : fit.fitted[i];
+    if (r < 1e-8) determined++;
+  }
+  const path = fit.path ?? [];
+  if (fit.converged || determined === 0 || path.length < 2) return { kind: 'none', columns: [], determinedRows: determined };
+  const a = path[Math.max(0, path.length - 6)], b = path[path.length - 1];
+  const p = b.length;
+  let max = 0;
+  for (let j = 1; j < p; j++) max = Math.max(max, Math.abs(b[j] - a[j]));
+  if (!(max > 0.5)) return { kind: 'none', columns: [], determinedRows: determined };
+  const columns: number[] = [];
+  for (let j = 1; j < p; j++) if (Math.abs(b[j] - a[j]) >= 0.05 * max) columns.push(j);
+  return { kind: determined === n ? 'complete' : 'quasi', columns, determinedRows: determined };
+}
