@@ -1,0 +1,102 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { atThreshold, costThresholds, decisionTheoryThreshold, expectedCostCurve, prepareThresholds } from '../../../src/engine/threshold';
+import { rocCurve } from '../../../src/engine/roc';
+
+const brute = (y: Float64Array, p: Float64Array, t: number, w?: Float64Array) => {
+  let tp = 0, fp = 0, fn = 0, tn = 0;
+  for (let i = 0; i < y.length; i++) {
+    const wi = w ? w[i] : 1;
+    const flag = p[i] >= t;
+    if (y[i] === 1) { if (flag) tp += wi; else fn += wi; } else if (flag) fp += wi; else tn += wi;
+  }
+  return { tp, fp, fn, tn };
+};
+
+const sample = fc.array(fc.record({ y: fc.constantFrom(0, 1), p: fc.integer({ min: 0, max: 20 }).map((k) => k / 20), w: fc.integer({ min: 0, max: 4 }) }), { minLength: 1, maxLength: 60 });
+
+describe('prepared thresholds (flag rule: risk ≥ threshold)', () => {
+  it('gives the same confusion matrix as a brute-force count at any threshold (property)', () => {
+    fc.assert(fc.property(sample, fc.double({ min: -0.1, max: 1.1, noNaN: true }), fc.boolean(), (rows, t, weighted) => {
+      const y = Float64Array.from(rows, (r) => r.y);
+      const p = Float64Array.from(rows, (r) => r.p);
+      const w = weighted ? Float64Array.from(rows, (r) => r.w) : undefined;
+      const prep = prepareThresholds(y, p, w);
+      for (const tt of [t, p[0], p[rows.length - 1]]) {
+        const m = atThreshold(prep, tt);
+        const b = brute(y, p, tt, w);
+        expect([m.tp, m.fp, m.fn, m.tn]).toEqual([b.tp, b.fp, b.fn, b.tn]);
+      }
+    }), { numRuns: 300 });
+  });
+  it('finds the empirically cheapest threshold that a brute-force scan over all cut points finds (property)', () => {
+    fc.assert(fc.property(sample, fc.integer({ min: 1, max: 10 }), fc.integer({ min: 1, max: 10 }), (rows, cfn, cfp) => {
+      const y = Float64Array.from(rows, (r) => r.y);
+      const p = Float64Array.from(rows, (r) => r.p);
+      const costs = { falseNegative: cfn, falsePositive: cfp };
+      const res = costThresholds(prepareThresholds(y, p), costs);
+      let best = Infinity;
+      for (const t of [...Array.from(p), 2]) {
+        const b = brute(y, p, t);
+        best = Math.min(best, (100 * (cfn * b.fn + cfp * b.fp)) / y.length);
+      }
+      expect(res.empirical.expectedCostPer100).toBeCloseTo(best, 10);
+      const at = brute(y, p, res.empirical.threshold ?? 2);
+      expect((100 * (cfn * at.fn + cfp * at.fp)) / y.length).toBeCloseTo(best, 10);
+    }), { numRuns: 200 });
+  });
+  it('reports sensitivity, specificity, PPV, NPV, likelihood ratios and cost at a threshold (hand-counted example)', () => {
+    // 10 cases: risks ≥ 0.5 flag 3 of 4 events and 2 of 6 non-events
+    const y = new Float64Array([1, 1, 1, 1, 0, 0, 0, 0, 0, 0]);
+    const p = new Float64Array([0.9, 0.7, 0.5, 0.2, 0.6, 0.5, 0.3, 0.2, 0.1, 0.1]);
+    const m = atThreshold(prepareThresholds(y, p), 0.5, { costs: { falseNegative: 10, falsePositive: 1 } });
+    expect([m.tp, m.fp, m.fn, m.tn]).toEqual([3, 2, 1, 4]);
+    expect(m.sensitivity.estimate).toBe(0.75);
+    expect(m.specificity.estimate).toBeCloseTo(4 / 6, 15);
+    expect(m.ppv.estimate).toBe(0.6);
+    expect(m.npv.estimate).toBe(0.8);
+    expect(m.lrPositive).toBeCloseTo(0.75 / (2 / 6), 14);
+    expect(m.lrNegative).toBeCloseTo(0.25 / (4 / 6), 14);
+    expect(m.fractionFlagged.estimate).toBe(0.5);
+    expect(m.expectedCostPer100).toBeCloseTo((100 * (10 * 1 + 1 * 2)) / 10, 12);
+    expect(m.sensitivity.method).toBe('wilson');
+    expect(atThreshold(prepareThresholds(y, p), 0.5, { ciMethod: 'clopper-pearson' }).sensitivity.method).toBe('clopper-pearson');
+    expect(m.flagRule).toMatch(/greater than or equal/);
+  });
+  it('leaves LR+ undefined (null) when nothing is flagged among non-events and sensitivity is 0', () => {
+    const m = atThreshold(prepareThresholds(new Float64Array([1, 0]), new Float64Array([0.2, 0.1])), 0.5);
+    expect(m.lrPositive).toBeNull();
+    expect(m.ppv.estimate).toBeNull();
+  });
+  it('puts the decision-theory threshold at C_FP/(C_FP + C_FN + B) (arithmetic of the formula)', () => {
+    expect(decisionTheoryThreshold({ falseNegative: 9, falsePositive: 1 })).toBeCloseTo(0.1, 15);
+    expect(decisionTheoryThreshold({ falseNegative: 3, falsePositive: 1, truePositiveBenefit: 1 })).toBeCloseTo(0.2, 15);
+    const r = costThresholds(prepareThresholds(new Float64Array([0, 1]), new Float64Array([0.2, 0.8])), { falseNegative: 9, falsePositive: 1 });
+    expect(r.decisionTheory.assumptions.join(' ')).toMatch(/calibrated/);
+    expect(r.empirical.assumptions.join(' ')).toMatch(/optimistic/);
+    expect(() => decisionTheoryThreshold({ falseNegative: -1, falsePositive: 1 })).toThrow(/falseNegative/);
+  });
+  it('gives an expected-cost curve that agrees with atThreshold at every grid point', () => {
+    const y = new Float64Array([1, 0, 1, 0, 0, 1, 0, 0]);
+    const p = new Float64Array([0.9, 0.4, 0.35, 0.3, 0.05, 0.6, 0.62, 0.2]);
+    const prep = prepareThresholds(y, p);
+    const costs = { falseNegative: 5, falsePositive: 1 };
+    const c = expectedCostCurve(prep, costs);
+    expect(c.thresholds.length).toBe(99);
+    c.thresholds.forEach((t, i) => expect(c.costPer100[i]).toBeCloseTo(atThreshold(prep, t, { costs }).expectedCostPer100!, 12));
+  });
+  it('thins a ROC curve of 100 000 distinct scores to at most 500 points, keeping both ends and the AUC', () => {
+    const n = 100_000;
+    const y = new Float64Array(n);
+    const s = new Float64Array(n);
+    for (let i = 0; i < n; i++) { y[i] = i % 3 === 0 ? 1 : 0; s[i] = Math.sin(i) + y[i]; }
+    const full = rocCurve(y, s);
+    const thin = rocCurve(y, s, { maxPoints: 500 });
+    expect(thin.fpr.length).toBeLessThanOrEqual(500);
+    expect(thin.fpr.length).toBeGreaterThan(400);
+    expect([thin.fpr[0], thin.tpr[0]]).toEqual([0, 0]);
+    expect([thin.fpr.at(-1), thin.tpr.at(-1)]).toEqual([1, 1]);
+    expect(thin.auc).toBe(full.auc);
+    expect(full.nPointsFull).toBe(n + 1);
+  });
+});
