@@ -1,0 +1,176 @@
+import { penalisedLogistic } from './coordinateDescent';
+import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks } from './crossValidation';
+import { FulcraError, type Dataset } from './data';
+import { buildDesign } from './design';
+import { validateFitOptions } from './fit';
+import { defaultFitOptions, type DesignRecipe, type FitOptions, type ModelSpec } from './model';
+import { newtonLogistic } from './newton';
+import { warning, type EngineWarning } from './warnings';
+
+/**
+ * Elastic-net penalty with its λ chosen by cross-validation (or fixed). α = 1 lasso, α = 0 ridge;
+ * glmnet conventions (see coordinateDescent.ts).
+ */
+export interface PenaltySelection {
+  alpha: number;
+  /** A fixed λ, or the CV choice: 'cv-min' (smallest CV error) or 'cv-1se' (one-standard-error rule). */
+  lambda: number | 'cv-min' | 'cv-1se';
+  folds: number;
+  criterion: CvCriterion;
+  nLambda: number;
+}
+
+export const defaultPenaltySelection: PenaltySelection = { alpha: 1, lambda: 'cv-1se', folds: 10, criterion: 'deviance', nLambda: 100 };
+
+/**
+ * Everything needed to re-run a model building procedure from scratch, as a plain record (it crosses the
+ * worker boundary): data, model specification, fit options, and an optional penalty with λ selection.
+ * When `penalty` is set it replaces fitOptions.method; otherwise method 'ml', 'firth' or 'ridge' (fixed λ).
+ */
+export interface Pipeline {
+  data: Dataset;
+  spec: ModelSpec;
+  fitOptions: Partial<FitOptions>;
+  penalty: PenaltySelection | null;
+  /** Seeds the cross-validation folds of λ selection. */
+  seed: number;
+}
+
+/** The design (intercept first, column-major) a pipeline is fitted on; fixed once from the full data. */
+export interface PipelineDesign {
+  X: Float64Array;
+  n: number;
+  p: number;
+  y: Float64Array;
+  columnNames: string[];
+  recipe: DesignRecipe;
+  warnings: EngineWarning[];
+  /** Non-intercept columns centred and scaled (unit population SD; constant columns only centred), for Newton fits. */
+  Z: Float64Array;
+  center: Float64Array;
+  scale: Float64Array;
+}
+
+/** The outcome of one run of the procedure. */
+export interface ProcedureFit {
+  /** Original scale, intercept first, in design column order. */
+  beta: Float64Array;
+  /** λ used (0 for maximum likelihood and Firth). */
+  lambda: number;
+  converged: boolean;
+  cv: CvResult | null;
+}
+
+/** A fitted pipeline as a scoring model: coefficients aligned with recipe.columnNames. */
+export interface PipelineFit {
+  method: 'ml' | 'firth' | 'ridge' | 'elastic-net';
+  alpha: number | null;
+  lambda: number;
+  coefficients: { name: string; estimate: number; oddsRatio: number }[];
+  recipe: DesignRecipe;
+  converged: boolean;
+  cv: CvResult | null;
+  warnings: EngineWarning[];
+}
+
+/** Builds the design of a pipeline (complete cases, reference levels and spline knots from the full data). */
+export function pipelineDesign(pipeline: Pipeline): PipelineDesign {
+  const d = buildDesign(pipeline.data, pipeline.spec);
+  return withStandardised({ X: d.X, n: d.n, p: d.p, y: d.y, columnNames: d.columnNames, recipe: d.recipe, warnings: d.warnings });
+}
+
+/** Adds the centred and scaled copy of the design used by the Newton fits (better conditioned). */
+export function withStandardised(d: Omit<PipelineDesign, 'Z' | 'center' | 'scale'>): PipelineDesign {
+  const { X, n, p } = d;
+  const Z = Float64Array.from(X), center = new Float64Array(p), scale = new Float64Array(p).fill(1);
+  for (let j = 1; j < p; j++) {
+    const col = X.subarray(j * n, (j + 1) * n);
+    let m = 0;
+    for (let i = 0; i < n; i++) m += col[i] / n;
+    let v = 0;
+    for (let i = 0; i < n; i++) v += (col[i] - m) ** 2 / n;
+    center[j] = m;
+    scale[j] = v > 0 ? Math.sqrt(v) : 1;
+    for (let i = 0; i < n; i++) Z[j * n + i] = (col[i] - m) / scale[j];
+  }
+  return { ...d, Z, center, scale };
+}
+
+function checkPenalty(s: PenaltySelection): void {
+  if (!(s.alpha >= 0 && s.alpha <= 1)) throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${s.alpha}.`);
+  if (typeof s.lambda === 'number' ? !(s.lambda >= 0 && Number.isFinite(s.lambda)) : s.lambda !== 'cv-min' && s.lambda !== 'cv-1se') {
+    throw new FulcraError('bad-lambda', `lambda must be a number ≥ 0, "cv-min" or "cv-1se"; got ${String(s.lambda)}.`);
+  }
+}
+
+/**
+ * Runs the model-building procedure on a design with case weights (bootstrap counts; 0 leaves a row out).
+ * Includes λ selection by cross-validation when the pipeline asks for it, so validation repeats it.
+ */
+export async function fitProcedure(
+  d: PipelineDesign,
+  pipeline: Pick<Pipeline, 'fitOptions' | 'penalty'>,
+  weights: Float64Array | undefined,
+  seed: number,
+  hooks?: LongRunHooks,
+): Promise<ProcedureFit> {
+  const o = validateFitOptions(pipeline.fitOptions);
+  const { n, p } = d;
+  const problem = { X: d.X.subarray(n), n, p: p - 1, y: d.y, weights };
+  const pen = pipeline.penalty ? { ...defaultPenaltySelection, ...pipeline.penalty } : null;
+  if (pen) {
+    checkPenalty(pen);
+    if (p === 1) return { beta: interceptOnly(d.y, weights), lambda: 0, converged: true, cv: null };
+    if (typeof pen.lambda === 'number') {
+      const f = penalisedLogistic(problem, pen.alpha, pen.lambda, { tol: o.tol, maxIter: Math.max(o.maxIter, 100) });
+      return { beta: f.coefficients, lambda: pen.lambda, converged: f.converged, cv: null };
+    }
+    const cv = await crossValidateLambda(problem, pen.alpha, { folds: pen.folds, seed, criterion: pen.criterion, nLambda: pen.nLambda }, hooks);
+    const k = pen.lambda === 'cv-min' ? cv.indexMin : cv.index1se;
+    return { beta: Float64Array.from(cv.fullPath.coefficients[k]), lambda: cv.path[k].lambda, converged: cv.fullPath.converged, cv };
+  }
+  if (o.method === 'ridge') {
+    if (p === 1) return { beta: interceptOnly(d.y, weights), lambda: o.lambda, converged: true, cv: null };
+    const f = penalisedLogistic(problem, 0, o.lambda, { tol: o.tol, maxIter: Math.max(o.maxIter, 100) });
+    return { beta: f.coefficients, lambda: o.lambda, converged: f.converged, cv: null };
+  }
+  const f = newtonLogistic({ X: d.Z, n, p, y: d.y, weights, firth: o.method === 'firth' }, { tol: o.tol, maxIter: o.maxIter });
+  const beta = new Float64Array(p);
+  beta[0] = f.beta[0];
+  for (let j = 1; j < p; j++) {
+    beta[j] = f.beta[j] / d.scale[j];
+    beta[0] -= beta[j] * d.center[j];
+  }
+  return { beta, lambda: 0, converged: f.converged, cv: null };
+}
+
+function interceptOnly(y: Float64Array, weights?: Float64Array): Float64Array {
+  let sw = 0, sy = 0;
+  for (let i = 0; i < y.length; i++) {
+    const w = weights ? weights[i] : 1;
+    sw += w;
+    sy += w * y[i];
+  }
+  return Float64Array.of(Math.log(sy / (sw - sy)));
+}
+
+/** Fits a pipeline on its full data and returns it as a scoring model (coefficients with the recipe). */
+export async function fitPipeline(pipeline: Pipeline, hooks?: LongRunHooks): Promise<PipelineFit> {
+  const d = pipelineDesign(pipeline);
+  const f = await fitProcedure(d, pipeline, undefined, pipeline.seed, hooks);
+  const method = pipeline.penalty ? 'elastic-net' : (pipeline.fitOptions.method ?? defaultFitOptions.method);
+  const warnings = [...d.warnings, ...(f.cv?.warnings ?? [])];
+  if (!f.converged) {
+    warnings.push(warning('not-converged', 'The model fit did not converge.', 'Raise the iteration limit, or use a penalty or Firth correction if the data separate.'));
+  }
+  return {
+    method,
+    alpha: pipeline.penalty ? pipeline.penalty.alpha : method === 'ridge' ? 0 : null,
+    lambda: f.lambda,
+    coefficients: d.columnNames.map((name, j) => ({ name, estimate: f.beta[j], oddsRatio: Math.exp(f.beta[j]) })),
+    recipe: d.recipe,
+    converged: f.converged,
+    cv: f.cv,
+    warnings,
+  };
+}
