@@ -1,0 +1,201 @@
+import { FulcraError, type Column, type Dataset } from '../../engine/data';
+import type { FitOptions, ModelSpec, TermSpec } from '../../engine/model';
+import { base64ToBytes, bytesToBase64 } from './base64';
+import { datasetChecksum } from './checksum';
+import { FieldChecker, parseJsonFile } from './validate';
+
+/** Current workspace-file schema version (the value of the `fulcraWorkspace` field). */
+export const WORKSPACE_FILE_VERSION = 1;
+
+/** Everything the user set up, in plain structured-clone-safe form (the same record goes to IndexedDB). */
+export interface Workspace {
+  /** Name of the imported data file. */
+  fileName: string | null;
+  data: Dataset | null;
+  /** Outcome, event level and terms (roles of the columns). */
+  spec: ModelSpec | null;
+  fitOptions: Partial<FitOptions>;
+  seed: number | null;
+  threshold: number | null;
+  costs: { falseNegative: number; falsePositive: number } | null;
+  freeText: { purpose?: string; setting?: string; population?: string; notes?: string };
+  /** Further workbench state (JSON-safe: column type overrides, chosen tabs…), kept as is. */
+  extra?: Record<string, unknown>;
+}
+
+/**
+ * Workspace file, schema version 1 (JSON, suggested extension `.fulcra-workspace.json`):
+ * `{ fulcraWorkspace: 1, fulcraVersion, saved (ISO 8601), dataChecksum (SHA-256 hex or null), workspace }`
+ * where `workspace` is a Workspace whose `data.columns[i]` is encoded compactly:
+ * numeric `{kind, name, values: base64 of little-endian float64}`, categorical
+ * `{kind, name, levels, codes: base64 of little-endian int32}` (NaN and −1 keep meaning "missing").
+ */
+export interface WorkspaceFileInfo {
+  fulcraVersion: string;
+  saved: string;
+  dataChecksum: string | null;
+}
+
+/** Serialises a workspace to the versioned JSON file text. */
+export function workspaceToJson(ws: Workspace, info: { fulcraVersion: string; saved?: string }): string {
+  const file = {
+    fulcraWorkspace: WORKSPACE_FILE_VERSION,
+    fulcraVersion: info.fulcraVersion,
+    saved: info.saved ?? new Date().toISOString(),
+    dataChecksum: ws.data ? datasetChecksum(ws.data) : null,
+    workspace: { ...ws, data: ws.data ? encodeDataset(ws.data) : null },
+  };
+  return JSON.stringify(file) + '\n';
+}
+
+/**
+ * Reads a workspace file, checking the schema version, every field's type and the data checksum. Throws
+ * FulcraError 'workspace-file-version' (not a workspace file or another version) or 'workspace-file-invalid'
+ * (not JSON, missing/wrong field, damaged data) naming the field.
+ */
+export function readWorkspaceFile(text: string): { workspace: Workspace; info: WorkspaceFileInfo } {
+  const raw = parseJsonFile(text, 'workspace-file-invalid', 'Fulcra workspace file');
+  const c = new FieldChecker('workspace-file-invalid', 'workspace file');
+  const o = c.object(raw, '(file)');
+  if (!('fulcraWorkspace' in o)) {
+    const hint = 'fulcraModel' in o ? ' It looks like a model file; open it with "Open model".' : '';
+    throw new FulcraError('workspace-file-version', `This is not a Fulcra workspace file (it has no "fulcraWorkspace" field).${hint}`, 'Choose a file saved with "Save workspace".');
+  }
+  if (o.fulcraWorkspace !== WORKSPACE_FILE_VERSION) {
+    throw new FulcraError('workspace-file-version', `This workspace file has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`, 'Open it with the Fulcra version that saved it.');
+  }
+  const info: WorkspaceFileInfo = {
+    fulcraVersion: c.string(o.fulcraVersion, 'fulcraVersion'),
+    saved: c.string(o.saved, 'saved'),
+    dataChecksum: o.dataChecksum === null ? null : c.string(o.dataChecksum, 'dataChecksum'),
+  };
+  const w = c.object(o.workspace, 'workspace');
+  const data = w.data === null ? null : decodeDataset(c, w.data);
+  if (data && info.dataChecksum !== null && datasetChecksum(data) !== info.dataChecksum) {
+    c.fail('workspace.data', 'does not match its checksum (the data were changed or damaged)');
+  }
+  return { workspace: checkWorkspaceFields(c, w, data), info };
+}
+
+/** Validates the non-data fields of a workspace record (from a file or from IndexedDB). */
+export function checkWorkspaceFields(c: FieldChecker, w: Record<string, unknown>, data: Dataset | null): Workspace {
+  const costs = w.costs === null || w.costs === undefined ? null : c.object(w.costs, 'workspace.costs');
+  const ft = w.freeText === undefined ? {} : c.object(w.freeText, 'workspace.freeText');
+  const ws: Workspace = {
+    fileName: w.fileName === null || w.fileName === undefined ? null : c.string(w.fileName, 'workspace.fileName'),
+    data,
+    spec: w.spec === null || w.spec === undefined ? null : checkSpec(c, w.spec),
+    fitOptions: w.fitOptions === undefined ? {} : checkFitOptions(c, w.fitOptions),
+    seed: w.seed === null || w.seed === undefined ? null : c.finite(w.seed, 'workspace.seed'),
+    threshold: w.threshold === null || w.threshold === undefined ? null : c.finite(w.threshold, 'workspace.threshold'),
+    costs: costs ? { falseNegative: c.finite(costs.falseNegative, 'workspace.costs.falseNegative'), falsePositive: c.finite(costs.falsePositive, 'workspace.costs.falsePositive') } : null,
+    freeText: Object.fromEntries(Object.entries(ft).map(([k, v]) => [k, c.string(v, `workspace.freeText.${k}`)])),
+  };
+  if (w.extra !== undefined) ws.extra = c.object(w.extra, 'workspace.extra');
+  return ws;
+}
+
+function checkSpec(c: FieldChecker, v: unknown): ModelSpec {
+  const s = c.object(v, 'workspace.spec');
+  const terms = c.array(s.terms, 'workspace.spec.terms').map((x, i): TermSpec => {
+    const p = `workspace.spec.terms[${i}]`;
+    const t = c.object(x, p);
+    const type = c.oneOf(t.type, ['main', 'spline', 'interaction'] as const, `${p}.type`);
+    if (type === 'main') {
+      const out: TermSpec = { type, column: c.string(t.column, `${p}.column`) };
+      if (t.reference !== undefined) out.reference = c.string(t.reference, `${p}.reference`);
+      return out;
+    }
+    if (type === 'spline') {
+      const k = c.number(t.knots, `${p}.knots`);
+      if (k !== 3 && k !== 4 && k !== 5) c.fail(`${p}.knots`, 'must be 3, 4 or 5');
+      return { type, column: c.string(t.column, `${p}.column`), knots: k };
+    }
+    const cols = c.stringArray(t.columns, `${p}.columns`);
+    if (cols.length !== 2) c.fail(`${p}.columns`, 'must name exactly two columns');
+    return { type, columns: [cols[0], cols[1]] };
+  });
+  const spec: ModelSpec = { outcome: c.string(s.outcome, 'workspace.spec.outcome'), terms };
+  if (s.event !== undefined) spec.event = c.string(s.event, 'workspace.spec.event');
+  return spec;
+}
+
+function checkFitOptions(c: FieldChecker, v: unknown): Partial<FitOptions> {
+  const o = c.object(v, 'workspace.fitOptions');
+  const out: Partial<FitOptions> = {};
+  if (o.method !== undefined) out.method = c.oneOf(o.method, ['ml', 'ridge', 'firth'] as const, 'workspace.fitOptions.method');
+  for (const k of ['lambda', 'tol', 'maxIter', 'level'] as const) if (o[k] !== undefined) out[k] = c.number(o[k], `workspace.fitOptions.${k}`);
+  if (o.profile !== undefined) out.profile = c.boolean(o.profile, 'workspace.fitOptions.profile');
+  return out;
+}
+
+type EncodedColumn =
+  | { kind: 'numeric'; name: string; values: string }
+  | { kind: 'categorical'; name: string; levels: string[]; codes: string };
+
+/** Encodes a Dataset's columns as base64 of their little-endian bytes (float64 values, int32 codes). */
+export function encodeDataset(data: Dataset): { nRows: number; columns: EncodedColumn[] } {
+  return {
+    nRows: data.nRows,
+    columns: data.columns.map((col): EncodedColumn => {
+      if (col.kind === 'numeric') {
+        const buf = new Uint8Array(col.values.length * 8);
+        const view = new DataView(buf.buffer);
+        col.values.forEach((v, i) => view.setFloat64(8 * i, v, true));
+        return { kind: 'numeric', name: col.name, values: bytesToBase64(buf) };
+      }
+      const buf = new Uint8Array(col.codes.length * 4);
+      const view = new DataView(buf.buffer);
+      col.codes.forEach((v, i) => view.setInt32(4 * i, v, true));
+      return { kind: 'categorical', name: col.name, levels: [...col.levels], codes: bytesToBase64(buf) };
+    }),
+  };
+}
+
+function decodeDataset(c: FieldChecker, v: unknown): Dataset {
+  const d = c.object(v, 'workspace.data');
+  const nRows = c.number(d.nRows, 'workspace.data.nRows');
+  if (!Number.isInteger(nRows) || nRows < 0) c.fail('workspace.data.nRows', 'must be a whole number ≥ 0');
+  const columns = c.array(d.columns, 'workspace.data.columns').map((x, i): Column => {
+    const p = `workspace.data.columns[${i}]`;
+    const col = c.object(x, p);
+    const kind = c.oneOf(col.kind, ['numeric', 'categorical'] as const, `${p}.kind`);
+    const name = c.string(col.name, `${p}.name`);
+    const field = kind === 'numeric' ? 'values' : 'codes';
+    const bytes = base64ToBytes(c.string(col[field], `${p}.${field}`));
+    const width = kind === 'numeric' ? 8 : 4;
+    if (!bytes) c.fail(`${p}.${field}`, 'is not valid base64');
+    if (bytes.length !== nRows * width) c.fail(`${p}.${field}`, `holds ${bytes.length / width} values; nRows is ${nRows}`);
+    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    if (kind === 'numeric') {
+      return { kind, name, values: Float64Array.from({ length: nRows }, (_, r) => view.getFloat64(8 * r, true)) };
+    }
+    const levels = c.stringArray(col.levels, `${p}.levels`);
+    const codes = Int32Array.from({ length: nRows }, (_, r) => view.getInt32(4 * r, true));
+    const bad = codes.findIndex((k) => k < -1 || k >= levels.length);
+    if (bad >= 0) c.fail(`${p}.codes`, `has code ${codes[bad]} at row ${bad + 1}, outside the ${levels.length} levels`);
+    return { kind, name, levels, codes };
+  });
+  return { nRows, columns };
+}
+
+/** gzip (RFC 1952) of the workspace file text, for large data: suggested extension `.fulcra-workspace.json.gz`. */
+export async function workspaceToGzip(ws: Workspace, info: { fulcraVersion: string; saved?: string }): Promise<Uint8Array> {
+  const stream = new Blob([workspaceToJson(ws, info)]).stream().pipeThrough(new CompressionStream('gzip'));
+  return new Uint8Array(await new Response(stream).arrayBuffer());
+}
+
+/** Reads a workspace file given as bytes, plain UTF-8 JSON or gzip-compressed (detected by its magic bytes 1f 8b). */
+export async function readWorkspaceBytes(bytes: Uint8Array): Promise<{ workspace: Workspace; info: WorkspaceFileInfo }> {
+  if (bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b) {
+    let text: string;
+    try {
+      const stream = new Blob([new Uint8Array(bytes)]).stream().pipeThrough(new DecompressionStream('gzip'));
+      text = await new Response(stream).text();
+    } catch (e) {
+      throw new FulcraError('workspace-file-invalid', `This compressed workspace file is damaged (${(e as Error).message}).`, 'Export the workspace again.');
+    }
+    return readWorkspaceFile(text);
+  }
+  return readWorkspaceFile(new TextDecoder('utf-8').decode(bytes));
+}
