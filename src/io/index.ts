@@ -1,0 +1,6 @@
+export { importFile, importText, importTransferables } from './importFile';
+export { listSheets } from './importXlsx';
+export { proposeOutcomeEvent, type OutcomeProposal } from './outcome';
+export { defaultImportOptions, resolveImportOptions } from './options';
+export { DEFAULT_MISSING_TOKENS } from './cellText';
+export type * from './types';
