@@ -1,0 +1,166 @@
+import { FulcraError } from '../engine/data';
+
+/** Parsed command line of `npm run fit`. */
+export interface FitArgs {
+  file: string;
+  outcome: string;
+  event?: string;
+  predictors?: string[];
+  categorical: string[];
+  reference: Record<string, string>;
+  splines: Record<string, 3 | 4 | 5>;
+  interactions: Array<[string, string]>;
+  ridge?: number;
+  firth: boolean;
+  penalty?: 'ridge' | 'lasso' | 'enet';
+  alpha?: number;
+  costs?: { fn: number; fp: number };
+  threshold?: number;
+  bootstrap?: number;
+  seed: number;
+  cv?: number;
+  test?: string;
+  delimiter?: string;
+  decimal?: '.' | ',';
+  sheet?: string;
+  json: boolean;
+  help: boolean;
+}
+
+export const usage = `Usage: npm run fit -- FILE --outcome COLUMN [options]
+
+Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the same engine as the page.
+
+  --outcome COL            outcome column (required)
+  --event VALUE            outcome level counted as the event (proposed automatically for yes/no, 1/0, ...)
+  --predictors a,b,c       predictor columns (default: every other usable column)
+  --categorical a,b        treat these columns as categorical
+  --reference a=LEVEL      reference level of a categorical predictor (repeatable; default the most frequent)
+  --spline a=K             restricted cubic spline with K = 3, 4 or 5 knots (repeatable)
+  --interaction a:b        pairwise interaction (repeatable)
+  --firth                  Firth's penalised likelihood (for small samples and separation)
+  --ridge LAMBDA           ridge at a fixed lambda (standardised scale)
+  --penalty ridge|lasso|enet   penalised fit with lambda chosen by cross-validation
+  --alpha A                elastic-net mixing (0..1, default 0.5 for enet)
+  --costs FN:FP            cost of a missed case and of a false alarm (e.g. 10:1)
+  --threshold P            probability cut-off to report the confusion matrix at
+  --bootstrap B            bootstrap optimism correction with B resamples
+  --cv K                   k-fold cross-validation (for --penalty, and repeated-CV validation)
+  --seed S                 random seed (default 1)
+  --test FILE              external validation on a second file with the same columns
+  --delimiter D            override the detected delimiter (, ; tab |)
+  --decimal . | ,          override the detected decimal mark
+  --sheet NAME             sheet of an .xlsx file
+  --json                   print the full result record as JSON
+  --help                   this text
+`;
+
+const numberArg = (flag: string, v: string | undefined): number => {
+  const x = Number(v);
+  if (v === undefined || v.trim() === '' || !Number.isFinite(x)) {
+    throw new FulcraError('bad-argument', `${flag} needs a number, got "${v ?? ''}".`);
+  }
+  return x;
+};
+
+/** Parses argv (without node and script) into FitArgs; throws FulcraError naming the bad flag. */
+export function parseFitArgs(argv: string[]): FitArgs {
+  const a: FitArgs = {
+    file: '', outcome: '', categorical: [], reference: {}, splines: {}, interactions: [],
+    firth: false, seed: 1, json: false, help: false,
+  };
+  const list = (v: string | undefined) => (v ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  for (let i = 0; i < argv.length; i++) {
+    const flag = argv[i];
+    const value = () => {
+      const v = argv[++i];
+      if (v === undefined) throw new FulcraError('bad-argument', `${flag} needs a value.`);
+      return v;
+    };
+    switch (flag) {
+      case '--outcome': a.outcome = value(); break;
+      case '--event': a.event = value(); break;
+      case '--predictors': a.predictors = list(value()); break;
+      case '--categorical': a.categorical.push(...list(value())); break;
+      case '--reference': {
+        const [col, level] = splitOnce(value(), '=', flag);
+        a.reference[col] = level;
+        break;
+      }
+      case '--spline': {
+        const [col, k] = splitOnce(value(), '=', flag);
+        const knots = numberArg(flag, k);
+        if (knots !== 3 && knots !== 4 && knots !== 5) {
+          throw new FulcraError('bad-argument', `--spline ${col}=${k}: the number of knots must be 3, 4 or 5.`);
+        }
+        a.splines[col] = knots;
+        break;
+      }
+      case '--interaction': {
+        const [x, y] = splitOnce(value(), ':', flag);
+        a.interactions.push([x, y]);
+        break;
+      }
+      case '--firth': a.firth = true; break;
+      case '--ridge': a.ridge = numberArg(flag, value()); break;
+      case '--penalty': {
+        const v = value();
+        if (v !== 'ridge' && v !== 'lasso' && v !== 'enet') {
+          throw new FulcraError('bad-argument', `--penalty must be ridge, lasso or enet, got "${v}".`);
+        }
+        a.penalty = v;
+        break;
+      }
+      case '--alpha': a.alpha = numberArg(flag, value()); break;
+      case '--costs': {
+        const [fn, fp] = splitOnce(value(), ':', flag);
+        a.costs = { fn: numberArg('--costs FN', fn), fp: numberArg('--costs FP', fp) };
+        if (!(a.costs.fn > 0 && a.costs.fp > 0)) {
+          throw new FulcraError('bad-argument', '--costs FN:FP needs two positive numbers, e.g. 10:1.');
+        }
+        break;
+      }
+      case '--threshold': a.threshold = numberArg(flag, value()); break;
+      case '--bootstrap': a.bootstrap = numberArg(flag, value()); break;
+      case '--cv': a.cv = numberArg(flag, value()); break;
+      case '--seed': a.seed = numberArg(flag, value()); break;
+      case '--test': a.test = value(); break;
+      case '--delimiter': {
+        const v = value();
+        a.delimiter = v === 'tab' ? '\t' : v;
+        break;
+      }
+      case '--decimal': {
+        const v = value();
+        if (v !== '.' && v !== ',') throw new FulcraError('bad-argument', `--decimal must be . or , (got "${v}").`);
+        a.decimal = v;
+        break;
+      }
+      case '--sheet': a.sheet = value(); break;
+      case '--json': a.json = true; break;
+      case '--help': case '-h': a.help = true; break;
+      default:
+        if (flag.startsWith('--')) throw new FulcraError('bad-argument', `Unknown option ${flag}. See --help.`);
+        if (a.file) throw new FulcraError('bad-argument', `Only one data file, got "${a.file}" and "${flag}".`);
+        a.file = flag;
+    }
+  }
+  if (a.help) return a;
+  if (!a.file) throw new FulcraError('bad-argument', 'Name the data file, e.g. npm run fit -- data.csv --outcome y.');
+  if (!a.outcome) throw new FulcraError('bad-argument', 'Name the outcome column with --outcome COLUMN.');
+  if (a.threshold !== undefined && !(a.threshold > 0 && a.threshold < 1)) {
+    throw new FulcraError('bad-argument', `--threshold must be between 0 and 1, got ${a.threshold}.`);
+  }
+  if (a.firth && (a.ridge !== undefined || a.penalty)) {
+    throw new FulcraError('bad-argument', 'Choose one of --firth, --ridge and --penalty.');
+  }
+  return a;
+}
+
+function splitOnce(v: string, sep: string, flag: string): [string, string] {
+  const k = v.indexOf(sep);
+  if (k <= 0 || k === v.length - 1) {
+    throw new FulcraError('bad-argument', `${flag} expects NAME${sep}VALUE, got "${v}".`);
+  }
+  return [v.slice(0, k), v.slice(k + 1)];
+}

@@ -1,0 +1,61 @@
+import { execFileSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { FulcraError } from '../../src/engine/data';
+import { parseFitArgs } from '../../src/cli/args';
+
+const ref = JSON.parse(readFileSync('tests/fixtures/reference/fit-birthwt.json', 'utf8'));
+const relErr = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
+
+describe('npm run fit', () => {
+  it('prints a JSON record that matches R glm() on MASS::birthwt (R 4.2.2 stats::glm, fixture fit-birthwt.json)', () => {
+    const stdout = execFileSync('npx', ['tsx', 'src/cli/fit.ts', 'tests/fixtures/data/birthwt.csv', '--outcome', 'low',
+      '--predictors', 'age,lwt,race,smoke,ptl,ht,ui', '--categorical', 'race', '--reference', 'race=1', '--json'], { encoding: 'utf8' });
+    const run = JSON.parse(stdout);
+    const coefs = run.fit.coefficients as { estimate: number; se: number; profileLower: number; profileUpper: number }[];
+    expect(coefs).toHaveLength(ref.coef.length);
+    coefs.forEach((c, j) => {
+      expect(relErr(c.estimate, ref.coef[j])).toBeLessThan(1e-6);
+      expect(relErr(c.se, ref.se[j])).toBeLessThan(1e-5);
+    });
+    expect(relErr(run.fit.deviance, ref.deviance)).toBeLessThan(1e-8);
+    expect(relErr(run.fit.aic, ref.aic)).toBeLessThan(1e-8);
+    expect(run.evaluation.auc.auc).toBeGreaterThan(0.5);
+    expect(run.fit.warnings.map((w: { code: string }) => w.code)).toContain('low-events-per-parameter');
+  }, 60_000);
+
+  it('exits with a message naming the column when the outcome does not exist', () => {
+    let stderr = '';
+    try {
+      execFileSync('npx', ['tsx', 'src/cli/fit.ts', 'tests/fixtures/data/birthwt.csv', '--outcome', 'lowbw'], { encoding: 'utf8', stdio: 'pipe' });
+    } catch (e) {
+      stderr = String((e as { stderr: string }).stderr);
+      expect((e as { status: number }).status).toBe(2);
+    }
+    expect(stderr).toContain('"lowbw"');
+  }, 60_000);
+});
+
+describe('parseFitArgs', () => {
+  it('reads every option', () => {
+    const a = parseFitArgs(['d.csv', '--outcome', 'y', '--event', 'yes', '--predictors', 'a,b', '--categorical', 'b',
+      '--reference', 'b=low', '--spline', 'a=4', '--interaction', 'a:b', '--costs', '10:1', '--threshold', '0.2',
+      '--bootstrap', '50', '--seed', '7', '--json']);
+    expect(a).toMatchObject({ file: 'd.csv', outcome: 'y', event: 'yes', predictors: ['a', 'b'], categorical: ['b'],
+      reference: { b: 'low' }, splines: { a: 4 }, interactions: [['a', 'b']], costs: { fn: 10, fp: 1 }, threshold: 0.2,
+      bootstrap: 50, seed: 7, json: true });
+  });
+
+  it.each([
+    [['d.csv'], 'outcome'],
+    [['--outcome', 'y'], 'data file'],
+    [['d.csv', '--outcome', 'y', '--threshold', '1.5'], 'between 0 and 1'],
+    [['d.csv', '--outcome', 'y', '--costs', '10'], 'NAME:VALUE'],
+    [['d.csv', '--outcome', 'y', '--spline', 'a=7'], '3, 4 or 5'],
+    [['d.csv', '--outcome', 'y', '--firth', '--ridge', '1'], 'one of'],
+    [['d.csv', '--outcome', 'y', '--frobnicate'], 'Unknown option'],
+  ])('rejects %j with a message', (argv, text) => {
+    expect(() => parseFitArgs(argv)).toThrow(FulcraError);
+    expect(() => parseFitArgs(argv)).toThrow(text);
+  });
+});
