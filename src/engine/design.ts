@@ -36,11 +36,21 @@ function columnsOfTerm(t: RecipeTerm): string[] {
   return t.type === 'interaction' ? [...t.parts] : [t.column];
 }
 
-/** Reads a column as numbers (categorical levels are parsed as numbers) or throws naming the column. */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** A plain decimal number written as text ("1.5", "-2e3"); NaN for anything else (blank, hex, "Infinity"). */
+export function parseDecimal(text: string): number {
+  const t = text.trim();
+  if (!DECIMAL.test(t)) return NaN;
+  const v = Number(t);
+  return Number.isFinite(v) ? v : NaN;
+}
+
+/** Reads a column as numbers (categorical levels are parsed as decimals) or throws naming the column. */
 function numericGetter(col: Column): Getter {
   if (col.kind === 'numeric') return (r) => col.values[r];
-  const parsed = col.levels.map((l) => Number(l));
-  const bad = col.levels.findIndex((l, i) => l.trim() === '' || !Number.isFinite(parsed[i]));
+  const parsed = col.levels.map(parseDecimal);
+  const bad = col.levels.findIndex((_, i) => Number.isNaN(parsed[i]));
   if (bad >= 0) throw new FulcraError('not-numeric', `Column "${col.name}" must be numeric but has the value "${col.levels[bad]}".`);
   return (r) => (col.codes[r] < 0 ? NaN : parsed[col.codes[r]]);
 }
@@ -169,6 +179,16 @@ export function designFromRecipe(
     for (const c of cs) blocks.push({ name: c.name, term: t.name, values: c.values });
   }
 
+  for (const b of blocks) {
+    const bad = b.values.findIndex((v) => !Number.isFinite(v));
+    if (bad >= 0) {
+      throw new FulcraError(
+        'design-overflow',
+        `The design column "${b.name}" of term "${b.term}" is ${b.values[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
+        'Rescale the predictor (e.g. other units) before fitting.',
+      );
+    }
+  }
   const p = blocks.length + 1;
   const X = new Float64Array(n * p);
   X.fill(1, 0, n);

@@ -65,6 +65,7 @@ export interface PreparedFit {
   warnings: EngineWarning[];
 }
 
+/** Builds the design, checks the outcome classes, standardises, drops aliased columns and sets up the problem. */
 export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): PreparedFit {
   const design = buildDesign(data, spec);
   const warnings = [...design.warnings];
@@ -101,8 +102,9 @@ export function originalScaleBeta(prep: PreparedFit, betaKept: ArrayLike<number>
   const out = new Float64Array(p);
   out[0] = b[0];
   for (let j = 1; j < p; j++) {
+    if (b[j] === 0) continue;
     out[j] = b[j] / prep.std.scale[j];
-    out[0] -= (b[j] * prep.std.center[j]) / prep.std.scale[j];
+    out[0] -= b[j] * prep.std.centerOverScale[j];
   }
   return out;
 }
@@ -150,7 +152,7 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   }
 
   const beta = originalScaleBeta(prep, nr.beta);
-  const A = destandardiseMap(std.center, std.scale);
+  const A = destandardiseMap(std);
   let covariance: Float64Array | null = null;
   if (!ridge) {
     const inv = choleskyInverse(cholesky(nr.information, pk));
@@ -173,7 +175,7 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
     const Zk = problem.X;
     const shift = (sign: 1 | -1) => keep.forEach((j, k) => {
       if (j === 0) return;
-      const c = (sign * std.center[j]) / std.scale[j];
+      const c = sign * std.centerOverScale[j];
       for (let i = 0; i < n; i++) Zk[k * n + i] += c;
     });
     shift(1);

@@ -1,6 +1,7 @@
 import { FulcraError, type Dataset } from './data';
 import { designFromRecipe } from './design';
-import { caseLoss } from './loss';
+import { cholesky, choleskyLogDet } from './linalg';
+import { caseLoss, crossProductWeighted, sigmoid } from './loss';
 import type { FitResult } from './model';
 import { newtonLogistic } from './newton';
 import { standardise } from './standardise';
@@ -27,12 +28,15 @@ export interface LossSurface {
   minimum: number;
   /** Newton iterates (start first) projected on the two coefficients. */
   path: { x: number[]; y: number[] };
-  /** What z is: mean cross-entropy, plus the ridge penalty (λ/2)·Σβ_std² for ridge fits. Firth's penalty is not added. */
-  objective: 'cross-entropy' | 'cross-entropy+ridge';
+  /**
+   * What z is: mean cross-entropy, plus the ridge penalty (λ/2)·Σβ_std² for ridge fits, or Firth's −½·log det(X'WX)/n
+   * (X the standardised design, so up to a constant) for Firth fits when n·p²·G² ≤ 3e8 (else plain cross-entropy).
+   */
+  objective: 'cross-entropy' | 'cross-entropy+ridge' | 'cross-entropy+firth';
 }
 
 /**
- * Objective surface for the loss plot: mean cross-entropy (plus the ridge penalty for ridge fits) over a grid of two
+ * Objective surface for the loss plot: mean cross-entropy (plus the ridge or Firth penalty) over a grid of two
  * coefficients around the estimate, the others held at their estimates, with the Newton path from the zero start
  * re-run on the same data and projected on the pair. Coefficients on the original scale.
  */
@@ -51,7 +55,7 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   const { X, n, p } = d;
   const y = d.y!;
   const beta = coefs.map((c) => c.estimate);
-  const { Z, center, scale } = standardise(X, n, p);
+  const { Z, scale, centerOverScale } = standardise(X, n, p);
   const keep = coefs.flatMap((c, k) => (c.aliased ? [] : [k]));
   const Zk = new Float64Array(n * keep.length);
   keep.forEach((c, k) => Zk.set(Z.subarray(c * n, (c + 1) * n), k * n));
@@ -63,7 +67,7 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   const toOriginal = (bk: Float64Array): [number, number] => {
     const full = new Float64Array(p);
     keep.forEach((c, k) => (full[c] = bk[k]));
-    const orig = (c: number) => (c === 0 ? full[0] - full.reduce((s, b, m) => (m === 0 ? s : s + (b * center[m]) / scale[m]), 0) : full[c] / scale[c]);
+    const orig = (c: number) => (c === 0 ? full[0] - full.reduce((s, b, m) => (m === 0 || b === 0 ? s : s + b * centerOverScale[m]), 0) : full[c] / scale[c]);
     return [orig(i), orig(j)];
   };
   const pts = [toOriginal(new Float64Array(keep.length)), ...(nr.path ?? []).map(toOriginal)];
@@ -72,12 +76,22 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   for (let c = 0; c < p; c++) for (let r = 0; r < n; r++) etaBase[r] += beta[c] * X[c * n + r];
   let penBase = 0;
   if (ridge) for (let c = 1; c < p; c++) if (c !== i && c !== j) penBase += (beta[c] * scale[c]) ** 2;
+  const pk = keep.length;
+  // Firth's penalty −½·log det(X'WX)/n needs X'WX at every grid point: only within a work budget.
+  const firth = result.method === 'firth' && n * pk * pk * grid * grid <= 3e8;
+  const w = firth ? new Float64Array(n) : null;
+  const info = new Float64Array(pk * pk), work = new Float64Array(1024);
   const objective = (bi: number, bj: number): number => {
     const di = bi - beta[i], dj = bj - beta[j];
     let s = 0;
-    for (let r = 0; r < n; r++) s += caseLoss(etaBase[r] + di * X[i * n + r] + dj * X[j * n + r], y[r]);
+    for (let r = 0; r < n; r++) {
+      const e = etaBase[r] + di * X[i * n + r] + dj * X[j * n + r];
+      s += caseLoss(e, y[r]);
+      if (w) w[r] = sigmoid(e) * sigmoid(-e);
+    }
     let pen = 0;
     if (ridge) pen = 0.5 * result.lambda * (penBase + (i > 0 ? (bi * scale[i]) ** 2 : 0) + (j > 0 ? (bj * scale[j]) ** 2 : 0));
+    if (w) pen -= (0.5 * choleskyLogDet(cholesky(crossProductWeighted(Zk, n, pk, w, info, work), pk))) / n;
     return s / n + pen;
   };
   const axis = (k: number, c: 0 | 1): number[] => {
@@ -95,6 +109,6 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
     nameX: coefs[i].name, nameY: coefs[j].name, x, y: yy, z,
     estimate: [beta[i], beta[j]], minimum: objective(beta[i], beta[j]),
     path: { x: pts.map((q) => q[0]), y: pts.map((q) => q[1]) },
-    objective: ridge ? 'cross-entropy+ridge' : 'cross-entropy',
+    objective: ridge ? 'cross-entropy+ridge' : firth ? 'cross-entropy+firth' : 'cross-entropy',
   };
 }

@@ -1,5 +1,5 @@
 import { FulcraError, type Column, type Dataset } from './data';
-import { designFromRecipe } from './design';
+import { designFromRecipe, parseDecimal } from './design';
 import { qnorm } from './distributions';
 import { sigmoid } from './loss';
 import type { FitResult } from './model';
@@ -33,6 +33,16 @@ export function predict(result: FitResult, data: Dataset): Prediction {
   const zc = qnorm(0.5 + result.level / 2);
   const eta = new Float64Array(n), risk = new Float64Array(n), lower = new Float64Array(n), upper = new Float64Array(n);
   for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) eta[i] += beta[j] * X[j * n + i];
+  for (let i = 0; i < n; i++) {
+    if (Number.isFinite(eta[i])) continue;
+    let worst = 1;
+    for (let j = 2; j < p; j++) if (Math.abs(beta[j] * X[j * n + i]) > Math.abs(beta[worst] * X[worst * n + i])) worst = j;
+    throw new FulcraError(
+      'value-out-of-range',
+      `Row ${d.rowsUsed[i] + 1}: the value of "${d.columnNames[worst]}" is so extreme that the risk score cannot be computed.`,
+      'Check the value and its units.',
+    );
+  }
   const x = new Float64Array(p);
   for (let i = 0; i < n; i++) {
     risk[i] = sigmoid(eta[i]);
@@ -45,7 +55,7 @@ export function predict(result: FitResult, data: Dataset): Prediction {
       for (let b = 0; b < p; b++) s += V[a * p + b] * x[b];
       v += x[a] * s;
     }
-    const se = Math.sqrt(Math.max(v, 0));
+    const se = Number.isFinite(v) ? Math.sqrt(Math.max(v, 0)) : Infinity;
     lower[i] = sigmoid(eta[i] - zc * se);
     upper[i] = sigmoid(eta[i] + zc * se);
   }
@@ -64,12 +74,12 @@ export function predictOne(result: FitResult, record: Record<string, number | st
   const needed = new Set(result.recipe.terms.flatMap((t) => (t.type === 'interaction' ? [...t.parts] : [t.column])));
   const columns: Column[] = [...needed].map((name) => {
     const v = record[name];
-    if (v === null || v === undefined || v === '' || (typeof v === 'number' && Number.isNaN(v))) {
+    if (v === null || v === undefined || (typeof v === 'string' && v.trim() === '') || (typeof v === 'number' && Number.isNaN(v))) {
       throw new FulcraError('missing-value', `No value was given for "${name}".`);
     }
-    if (categorical.has(name)) return { kind: 'categorical', name, codes: Int32Array.of(0), levels: [String(v)] };
-    const x = Number(v);
-    if (!Number.isFinite(x)) throw new FulcraError('not-numeric', `"${name}" must be a number, got "${v}".`);
+    if (categorical.has(name)) return { kind: 'categorical', name, codes: Int32Array.of(0), levels: [String(v).trim()] };
+    const x = typeof v === 'number' ? v : parseDecimal(v);
+    if (!Number.isFinite(x)) throw new FulcraError('not-numeric', `"${name}" must be a plain decimal number, got "${v}".`);
     return { kind: 'numeric', name, values: Float64Array.of(x) };
   });
   const r = predict(result, { nRows: 1, columns });

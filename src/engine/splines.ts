@@ -44,12 +44,14 @@ export function rcsKnots(values: ArrayLike<number>, k: 3 | 4 | 5, column: string
 export function rcsBasis(x: number, knots: number[], out: Float64Array | number[] = new Float64Array(knots.length - 2)): Float64Array | number[] {
   const k = knots.length;
   const tk = knots[k - 1], tk1 = knots[k - 2];
-  const norm = (tk - knots[0]) ** 2;
-  const cube = (v: number) => (v > 0 ? v * v * v : 0);
+  // ((x − t)/s)³·s equals (x − t)³/s² but neither overflows nor underflows for any scale of x (s = t_k − t₁).
+  const s = tk - knots[0];
+  const cube = (v: number) => (v > 0 ? (v / s) ** 3 : 0);
   const a = cube(x - tk1), b = cube(x - tk);
+  const r = tk - tk1;
   for (let j = 0; j < k - 2; j++) {
     const tj = knots[j];
-    out[j] = (cube(x - tj) - (a * (tk - tj)) / (tk - tk1) + (b * (tk1 - tj)) / (tk - tk1)) / norm;
+    out[j] = (cube(x - tj) - (a * (tk - tj)) / r + (b * (tk1 - tj)) / r) * s;
   }
   return out;
 }

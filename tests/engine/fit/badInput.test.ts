@@ -154,3 +154,38 @@ describe('options', () => {
     expect(r.coefficients[1].se).not.toBeNull();
   });
 });
+
+describe('extreme scales', () => {
+  const y = [0, 1, 0, 0, 1, 1, 0, 1, 1, 0, 0, 1];
+  const base = fit(dataset({ y, x, z }), { outcome: 'y', terms: main('x', 'z') }, { profile: false });
+
+  it('gives the same fit for a predictor in units of 1e300 or 1e-170 (coefficient scaled back)', () => {
+    for (const c of [1e300, 1e-170]) {
+      const r = fit(dataset({ y, x: x.map((v) => v * c), z }), { outcome: 'y', terms: main('x', 'z') }, { profile: false });
+      expect(r.coefficients[1].aliased).toBe(false);
+      expect(r.coefficients[1].estimate * c).toBeCloseTo(base.coefficients[1].estimate, 8);
+      expect(r.coefficients[0].estimate).toBeCloseTo(base.coefficients[0].estimate, 8);
+      expect(finiteEverywhere(r)).toBe(true);
+    }
+  });
+
+  it('keeps the intercept finite next to a constant predictor of 1e307', () => {
+    const r = fit(dataset({ y, x, c: x.map(() => 1e307) }), { outcome: 'y', terms: main('x', 'c') }, { profile: false });
+    expect(r.coefficients[2].aliased).toBe(true);
+    expect(finiteEverywhere(r)).toBe(true);
+  });
+
+  it('fits a spline of a predictor in units of 1e150 like one in ordinary units', () => {
+    const spec = (col: string) => ({ outcome: 'y', terms: [{ type: 'spline' as const, column: col, knots: 3 as const }] });
+    const a = fit(dataset({ y, x }), spec('x'), { profile: false });
+    const b = fit(dataset({ y, x: x.map((v) => v * 1e150) }), spec('x'), { profile: false });
+    expect(b.deviance).toBeCloseTo(a.deviance, 8);
+    expect(finiteEverywhere(b)).toBe(true);
+  });
+
+  it('refuses a design column that overflows (design-overflow) naming the term', () => {
+    const big = x.map((v) => 1e300 * v);
+    expect(() => fit(dataset({ y, x: big, z: z.map((v) => 1e9 * v) }), { outcome: 'y', terms: [...main('x', 'z'), { type: 'interaction', columns: ['x', 'z'] }] }))
+      .toThrow(/"x:z"/);
+  });
+});

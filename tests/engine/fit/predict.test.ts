@@ -37,6 +37,18 @@ describe('predict', () => {
     expect(() => predictOne(r, { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 0 })).toThrow(/"ui"/);
   });
 
+  it('reads only plain decimals from a typed record: blank is missing, hexadecimal is refused', () => {
+    const rec = { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 0, ui: 1 };
+    expect(predictOne(r, { ...rec, lwt: '182' }).risk).toBeCloseTo(predictOne(r, rec).risk, 12);
+    expect(() => predictOne(r, { ...rec, lwt: '   ' })).toThrow(/No value was given for "lwt"/);
+    expect(() => predictOne(r, { ...rec, lwt: '0x10' })).toThrow(/"lwt" must be a plain decimal/);
+  });
+
+  it('refuses a value so extreme that the risk score overflows, naming row and column', () => {
+    const rec = { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 1.7e308, ui: 1 }; // β_ht ≈ 1.83
+    expect(() => predictOne(r, rec)).toThrow(/Row 1: the value of "ht"/);
+  });
+
   it('names row and column of an unseen category and skips rows with a missing predictor', () => {
     const bad: Dataset = { nRows: 2, columns: [
       ...['age', 'lwt', 'smoke', 'ptl', 'ht', 'ui'].map((name) => ({ kind: 'numeric' as const, name, values: Float64Array.of(20, name === 'lwt' ? NaN : 1) })),
@@ -72,5 +84,15 @@ describe('lossSurface', () => {
     const s = lossSurface(rr, data, { i: 1, j: 2, grid: 11 });
     expect(s.objective).toBe('cross-entropy+ridge');
     expect(Math.min(...s.z)).toBeGreaterThanOrEqual(s.minimum - 1e-12);
+  });
+});
+
+describe('lossSurface (Firth)', () => {
+  it('includes Firth\'s penalty so that the estimate is the grid minimum', () => {
+    const rf = fit(data, spec, { method: 'firth', profile: false });
+    const s = lossSurface(rf, data, { i: 1, j: 7, grid: 15 });
+    expect(s.objective).toBe('cross-entropy+firth');
+    expect(Math.min(...s.z)).toBeGreaterThanOrEqual(s.minimum - 1e-12);
+    expect(s.path.x[s.path.x.length - 1]).toBeCloseTo(s.estimate[0], 8);
   });
 });
