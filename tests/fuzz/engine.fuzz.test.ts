@@ -1,0 +1,111 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { FulcraError } from '../../src/engine/data';
+import { evaluate } from '../../src/engine/evaluate';
+import { fit } from '../../src/engine/fit';
+import type { FitMethod, FitResult } from '../../src/engine/model';
+import { predict } from '../../src/engine/predict';
+import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/threshold';
+import { buildCase, engineCase, type EngineCase, type PredictorKind } from './engineData';
+import { nonFinitePaths, stem } from './walk';
+
+/** Runs `f`; a thrown FulcraError is an allowed outcome (returned), anything else is re-thrown. */
+function guarded<T>(f: () => T): { value: T } | { error: FulcraError } {
+  try {
+    return { value: f() };
+  } catch (e) {
+    if (e instanceof FulcraError) return { error: e };
+    throw e;
+  }
+}
+
+const codes = (r: { warnings: { code: string }[] }) => new Set(r.warnings.map((w) => w.code));
+
+/** Warnings/errors the planted problems must produce (the warnings channel names each problem). */
+function checkPlanted(c: EngineCase, method: FitMethod, out: { value: FitResult } | { error: FulcraError }): void {
+  const kinds = new Set(c.predictors.map((p) => p.kind));
+  if (kinds.has('all-missing')) {
+    expect('error' in out && out.error.code).toBe('no-complete-rows');
+    return;
+  }
+  if ('error' in out) {
+    // The only data problems allowed to stop a fit: no usable rows, a single outcome class, a categorical
+    // outcome whose only level left is not the event, a spline on a column with too few distinct values, an
+    // interaction whose products leave the double range.
+    expect(['no-complete-rows', 'one-outcome-class', 'unknown-event-level', 'spline-knots-tied', 'spline-no-data', 'design-overflow']).toContain(out.error.code);
+    return;
+  }
+  const r = out.value;
+  const w = codes(r);
+  if (kinds.has('constant') || kinds.has('single-level')) expect([...w].some((k) => k === 'aliased' || k === 'constant-predictor'), [...w].join(',')).toBe(true);
+  // A copy of a varying column is aliased; a copy of a constant column is just another constant one.
+  const source = (j: number): PredictorKind['kind'] => {
+    const k = c.predictors[j];
+    return k.kind === 'duplicate' ? (j === 0 ? 'normal' : source(k.of % j)) : k.kind;
+  };
+  const copiesVarying = c.predictors.some((p, j) => p.kind === 'duplicate' && j > 0 && !['constant', 'single-level'].includes(source(j)));
+  if (copiesVarying) expect(w.has('aliased'), [...w].join(',')).toBe(true);
+  if (r.nDropped > 0) expect(w.has('rows-dropped')).toBe(true);
+  if (method === 'ridge') expect(w.has('penalised-no-inference')).toBe(true);
+  if (method === 'ml' && kinds.has('separator')) {
+    expect([...w].some((k) => k === 'complete-separation' || k === 'quasi-separation' || k === 'aliased'), [...w].join(',')).toBe(true);
+  }
+  if (!r.converged && method !== 'ml') expect(w.has('not-converged'), [...w].join(',')).toBe(true);
+}
+
+/** predict: lower/upper are documented NaN when the fit has no covariance. */
+const predictNaN = (r: FitResult) => (path: string, v: number) => Number.isNaN(v) && r.covariance === null && (stem(path) === 'lower' || stem(path) === 'upper');
+
+/**
+ * Known bug (hostileEngine.repro.test.ts, calibrationCurve.ts): when the risk at the 1st/99th percentile of eta rounds
+ * to exactly 0 or 1, the calibration curve's grid ends at logit ±Infinity and its last points are NaN. Tolerated
+ * only in exactly that case and only on those three arrays; remove when fixed.
+ */
+function knownCalibrationGridBug(eta: Float64Array): (path: string, v: number) => boolean {
+  const s = eta.slice().sort();
+  const q = (p: number) => { const h = (s.length - 1) * p, lo = Math.floor(h); return s[lo] + (h - lo) * (s[Math.min(lo + 1, s.length - 1)] - s[lo]); };
+  const r = (e: number) => 1 / (1 + Math.exp(-e));
+  const hit = r(q(0.99)) === 1 || r(q(0.01)) === 0;
+  return (path, v) => hit && Number.isNaN(v) && /^calibrationCurve\.(observed|lower|upper)\[/.test(path);
+}
+
+const SETTINGS = { numRuns: 120, seed: 20261202, endOnFailure: true } as const;
+
+describe('engine under hostile designs', () => {
+  for (const method of ['ml', 'firth', 'ridge'] as const) {
+    it(`fit/predict/evaluate/threshold (${method}) throw only FulcraError and return only finite numbers`, () => {
+      fc.assert(
+        fc.property(engineCase, fc.boolean(), fc.double({ min: 0, max: 1, noNaN: true }), (c, profile, t) => {
+          const { data, spec, y01 } = buildCase(c);
+          const out = guarded(() => fit(data, spec, { method, lambda: method === 'ridge' ? 0.05 : 0, profile: profile && c.n <= 80 }));
+          checkPlanted(c, method, out);
+          if ('error' in out) return;
+          const r = out.value;
+          expect(nonFinitePaths(r), 'fit result').toEqual([]);
+
+          const pr = guarded(() => predict(r, data));
+          if ('error' in pr) throw pr.error; // the data the model was fitted on must score
+          expect(nonFinitePaths(pr.value, predictNaN(r)), 'prediction').toEqual([]);
+
+          const rows = Array.from(pr.value.rowsUsed).map((row, k) => ({ row, k })).filter(({ row }) => {
+            const oc = data.columns[0];
+            return oc.kind === 'numeric' ? !Number.isNaN(oc.values[row]) : oc.codes[row] >= 0;
+          });
+          const y = Float64Array.from(rows, ({ row }) => y01[row]);
+          const risk = Float64Array.from(rows, ({ k }) => pr.value.risk[k]);
+          const eta = Float64Array.from(rows, ({ k }) => pr.value.eta[k]);
+          const costs = { falseNegative: 5, falsePositive: 1 };
+          const ev = guarded(() => evaluate(y, risk, { eta, costs }));
+          if ('error' in ev) throw ev.error; // risks from a fit are valid input
+          expect(nonFinitePaths(ev.value, knownCalibrationGridBug(eta)), 'evaluation').toEqual([]);
+
+          const prep = prepareThresholds(y, risk);
+          for (const th of [0, t, 1]) expect(nonFinitePaths(atThreshold(prep, th, { costs })), `atThreshold ${th}`).toEqual([]);
+          expect(nonFinitePaths(costThresholds(prep, costs)), 'costThresholds').toEqual([]);
+          expect(nonFinitePaths(expectedCostCurve(prep, costs)), 'expectedCostCurve').toEqual([]);
+        }),
+        SETTINGS,
+      );
+    });
+  }
+});

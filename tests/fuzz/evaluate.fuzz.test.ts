@@ -1,0 +1,76 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { FulcraError } from '../../src/engine/data';
+import { evaluate } from '../../src/engine/evaluate';
+import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/threshold';
+import { nonFinitePaths } from './walk';
+
+/** Risks that stress the logit scale and the sort: exact 0 and 1, the smallest normals, 1 − ε, heavy ties. */
+const risk = fc.oneof(
+  { weight: 4, arbitrary: fc.double({ min: 0, max: 1, noNaN: true }) },
+  { weight: 2, arbitrary: fc.constantFrom(0, 1, 1e-300, 5e-324, 1 - 2 ** -53, 0.5, 1e-12, 1 - 1e-12) },
+);
+const scored = fc.array(fc.tuple(fc.constantFrom(0, 1), risk, fc.constantFrom(0, 1, 1, 2, 0.5, 1e-9)), { minLength: 1, maxLength: 120 });
+const costs = fc.record({
+  falseNegative: fc.constantFrom(0, 1, 5, 1e6),
+  falsePositive: fc.constantFrom(0.001, 1, 3),
+  truePositiveBenefit: fc.constantFrom(undefined, 0, 2),
+});
+
+/**
+ * Known bugs, each reproduced in hostileEvaluate.repro.test.ts and tolerated only where it shows; remove when fixed:
+ * NaN precision/AP when a distinct risk carries weight 0 (prCurve.ts), an infinite Hosmer–Lemeshow statistic from a
+ * tiny expected count (hosmerLemeshow.ts), NaN expected cost when every weight is 0 (threshold.ts).
+ */
+function knownBugs(weights: Float64Array | undefined): (path: string, v: number) => boolean {
+  const zeroWeight = !!weights && weights.some((w) => w === 0);
+  const allZero = !!weights && weights.every((w) => w === 0);
+  return (path, v) =>
+    (zeroWeight && Number.isNaN(v) && /^pr\.(precision\[|averagePrecision$)/.test(path)) ||
+    (path === 'hosmerLemeshow.statistic' && v === Infinity) ||
+    (allZero && Number.isNaN(v) && /(expectedCostPer100|costPer100\[)/.test(path));
+}
+
+function allowedError(f: () => void): void {
+  try {
+    f();
+  } catch (e) {
+    if (!(e instanceof FulcraError)) throw e;
+  }
+}
+
+describe('evaluation and thresholds under hostile predictions', () => {
+  it('evaluate() throws only FulcraError and every number in its record is finite', () => {
+    fc.assert(
+      fc.property(scored, fc.boolean(), costs, (rows, weighted, c) => {
+        const y = Float64Array.from(rows, (r) => r[0]);
+        const p = Float64Array.from(rows, (r) => r[1]);
+        const weights = weighted ? Float64Array.from(rows, (r) => r[2]) : undefined;
+        allowedError(() => {
+          const ev = evaluate(y, p, { weights, costs: c });
+          expect(nonFinitePaths(ev, knownBugs(weights)), 'evaluation').toEqual([]);
+          const events = rows.filter((r) => r[0] === 1).length;
+          if (events === 0 || events === rows.length) expect(ev.warnings.length).toBeGreaterThan(0);
+        });
+      }),
+      { numRuns: 250, seed: 424242, endOnFailure: true },
+    );
+  });
+
+  it('threshold functions throw only FulcraError and return finite numbers at any threshold in [0, 1]', () => {
+    fc.assert(
+      fc.property(scored, fc.boolean(), costs, fc.constantFrom(0, 1, 0.5, 1e-300, 1 - 2 ** -53), (rows, weighted, c, t) => {
+        const y = Float64Array.from(rows, (r) => r[0]);
+        const p = Float64Array.from(rows, (r) => r[1]);
+        const weights = weighted ? Float64Array.from(rows, (r) => r[2]) : undefined;
+        allowedError(() => {
+          const prep = prepareThresholds(y, p, weights);
+          expect(nonFinitePaths(atThreshold(prep, t, { costs: c })), 'atThreshold').toEqual([]);
+          expect(nonFinitePaths(costThresholds(prep, c), knownBugs(weights)), 'costThresholds').toEqual([]);
+          expect(nonFinitePaths(expectedCostCurve(prep, c), knownBugs(weights)), 'expectedCostCurve').toEqual([]);
+        });
+      }),
+      { numRuns: 300, seed: 5150, endOnFailure: true },
+    );
+  });
+});

@@ -1,0 +1,80 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { bootstrapValidation } from '../../src/engine/bootstrap';
+import { FulcraError, type Dataset } from '../../src/engine/data';
+import { fitPipeline, type Pipeline } from '../../src/engine/pipeline';
+import { createRng } from '../../src/engine/rng';
+import { buildCase, engineCase } from './engineData';
+import { nonFinitePaths, stem } from './walk';
+
+/**
+ * Known bug (reproduced below): pipeline.ts:170 reports oddsRatio = exp(β) unclamped, so a large coefficient (a
+ * predictor in tiny units, or separation) gives Infinity. Tolerated only on that field; remove when fixed.
+ */
+const knownOddsRatioBug = (path: string, v: number) => v === Infinity && stem(path) === 'coefficients.oddsRatio';
+
+async function allowFulcraError<T>(run: () => Promise<T>): Promise<T | null> {
+  try {
+    return await run();
+  } catch (e) {
+    if (e instanceof FulcraError) return null;
+    throw e;
+  }
+}
+
+// Small cases only: the bootstrap re-runs the whole procedure per replicate.
+const smallCase = engineCase.map((c) => ({ ...c, n: 5 + (c.n % 80) }));
+
+describe('penalised pipelines and bootstrap validation under hostile designs', () => {
+  it('fitPipeline (lasso at a fixed λ, and ML) and a 3-replicate bootstrap throw only FulcraError and return finite numbers', async () => {
+    await fc.assert(
+      fc.asyncProperty(smallCase, fc.boolean(), async (c, lasso) => {
+        const { data, spec } = buildCase(c);
+        const pipeline: Pipeline = {
+          data, spec, seed: 1,
+          fitOptions: lasso ? {} : { method: 'ml' },
+          penalty: lasso ? { alpha: 1, lambda: 0.02, folds: 3, criterion: 'deviance', nLambda: 8 } : null,
+        };
+        const f = await allowFulcraError(() => fitPipeline(pipeline));
+        if (f) expect(nonFinitePaths(f, knownOddsRatioBug), 'fitPipeline').toEqual([]);
+        const b = await allowFulcraError(() => bootstrapValidation(pipeline, { B: 3, seed: 7 }));
+        if (b) expect(nonFinitePaths(b), 'bootstrap').toEqual([]);
+      }),
+      { numRuns: 60, seed: 314159, endOnFailure: true },
+    );
+  }, 120_000);
+
+  // pipeline.ts:170: oddsRatio: Math.exp(f.beta[j]) overflows for β > 709.78. fit.ts reports Number.MAX_VALUE in this
+  // case; do the same here (or null with a warning). Same pattern, not observed: recalibration.ts:109, rubin.ts:189/193.
+  it.fails('reports a finite odds ratio for a predictor measured in units of 1e-8', async () => {
+    const n = 60, rng = createRng(5);
+    const x = Float64Array.from({ length: n }, () => 1e-8 * rng.normal());
+    const y = Float64Array.from(x, (v) => (rng.next() < 1 / (1 + Math.exp(-v * 1e8)) ? 1 : 0));
+    const data: Dataset = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x', values: x }] };
+    const f = await fitPipeline({ data, spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] }, fitOptions: { method: 'ml' }, penalty: null, seed: 1 });
+    expect(f.coefficients[1].estimate).toBeGreaterThan(710);
+    expect(nonFinitePaths(f)).toEqual([]);
+  });
+  // pipeline.ts:91 (withStandardised, ML/Firth path) and coordinateDescent.ts:72 (standardise, penalised path) square
+  // deviations of ~1e300 (overflow to Infinity) or ~1e-170 (underflow to 0), so a varying predictor is treated as
+  // constant: its coefficient is silently 0 and no warning says so. This path serves penalised fits and bootstrap
+  // validation. Fix: as standardise.ts now does, work on x / max|x|.
+  for (const unit of [1e300, 1e-170]) {
+    for (const lasso of [false, true]) {
+      it.fails(`estimates a predictor in units of ${unit} like the same predictor in units of 1 (${lasso ? 'lasso' : 'ML'} pipeline)`, async () => {
+        const n = 60, rng = createRng(5);
+        const u = Float64Array.from({ length: n }, () => rng.normal());
+        const y = Float64Array.from(u, (v) => (rng.next() < 1 / (1 + Math.exp(-v)) ? 1 : 0));
+        const run = (x: Float64Array) => fitPipeline({
+          data: { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x', values: x }] },
+          spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] }, seed: 1, fitOptions: { method: 'ml' },
+          penalty: lasso ? { alpha: 1, lambda: 0.01, folds: 3, criterion: 'deviance', nLambda: 8 } : null,
+        });
+        const ref = (await run(u)).coefficients[1].estimate;
+        const scaled = (await run(u.map((v) => v * unit))).coefficients[1].estimate * unit;
+        expect(ref).not.toBe(0);
+        expect(scaled).toBeCloseTo(ref, 6);
+      });
+    }
+  }
+});

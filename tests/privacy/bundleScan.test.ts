@@ -1,0 +1,100 @@
+import { execFile } from 'node:child_process';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { promisify } from 'node:util';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { codeWithoutComments, describeFindings, scanCode, scanNetworkCalls, type Finding } from './scan';
+
+const ROOT = fileURLToPath(new URL('../../', import.meta.url));
+const SCAN_DIR = '/tmp/fulcra-dist-scan';
+
+/**
+ * Library strings that name a web address but are never requested, each with the reason it is harmless:
+ * React's production build puts the link to its error decoder into error message text (react.dev/errors/<code>);
+ * core-js (bundled by jsPDF's optional SVG renderer) records its licence and repository in its version record;
+ * jsPDF uses a placeholder XML namespace name for XMP metadata.
+ */
+const INERT_LIBRARY_LINKS: readonly RegExp[] = [
+  /^https:\/\/react\.dev\/errors\/$/,
+  /^https:\/\/github\.com\/zloirock\/core-js(?:\/blob\/v[\d.]+\/LICENSE)?$/,
+  /^http:\/\/jspdf\.default\.namespaceuri\/$/,
+];
+
+/**
+ * Known open finding (see the it.fails below): jsPDF's output('pdfobjectnewwindow') writes a page that loads
+ * pdfobject from cdnjs. Fulcra never asks for that output (sourceScan checks it), but the address ships in the
+ * bundle. Tolerated in the host check only until it is stripped.
+ */
+const JSPDF_CDN = /^https:\/\/cdnjs\.cloudflare\.com\/ajax\/libs\/pdfobject\//;
+
+function walk(dir: string): string[] {
+  return readdirSync(dir).flatMap((name) => {
+    const p = join(dir, name);
+    return statSync(p).isDirectory() ? walk(p) : [p];
+  });
+}
+
+const newest = (files: string[]) => Math.max(0, ...files.map((f) => statSync(f).mtimeMs));
+
+/**
+ * The built app: dist/ when it holds a build at least as new as src/ and index.html; otherwise a fresh
+ * `vite build` into /tmp/fulcra-dist-scan (a build, no server).
+ */
+async function builtDir(): Promise<string> {
+  const dist = join(ROOT, 'dist');
+  const hasJs = (d: string) => existsSync(d) && walk(d).some((f) => f.endsWith('.js'));
+  const sources = [...walk(join(ROOT, 'src')), join(ROOT, 'index.html')];
+  if (hasJs(dist) && newest(walk(dist)) >= newest(sources)) return dist;
+  // NODE_ENV=production: the test runner sets NODE_ENV=test, which would make a development build of React.
+  await promisify(execFile)('npx', ['vite', 'build', '--outDir', SCAN_DIR, '--emptyOutDir', '--logLevel', 'error'],
+    { cwd: ROOT, maxBuffer: 16 << 20, env: { ...process.env, NODE_ENV: 'production' } });
+  if (!hasJs(SCAN_DIR)) throw new Error(`vite build wrote no JavaScript to ${SCAN_DIR}`);
+  return SCAN_DIR;
+}
+
+describe('built bundle privacy scan', () => {
+  let dir = '';
+  let files: string[] = [];
+  beforeAll(async () => {
+    dir = await builtDir();
+    files = walk(dir).filter((f) => /\.(js|mjs|html|css)$/.test(f));
+  }, 600_000);
+
+  it('has the app and the worker in the bundle', () => {
+    expect(files.some((f) => f.endsWith('.html'))).toBe(true);
+    expect(files.filter((f) => f.endsWith('.js')).length).toBeGreaterThanOrEqual(2);
+  });
+
+  it('makes no fetch/XMLHttpRequest/WebSocket/EventSource/sendBeacon/importScripts call to an outside address', () => {
+    const findings: Finding[] = [];
+    for (const f of files) if (!f.endsWith('.css')) findings.push(...scanNetworkCalls(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f)));
+    expect(findings, describeFindings(findings)).toEqual([]);
+  });
+
+  it('names no http(s) host in its code other than XML namespaces, the loopback address and documented inert library links', () => {
+    const findings: Finding[] = [];
+    for (const f of files) {
+      const all = scanCode(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f), [...INERT_LIBRARY_LINKS, JSPDF_CDN]);
+      findings.push(...all.filter((x) => x.what === 'absolute URL'));
+    }
+    expect(findings, describeFindings(findings)).toEqual([]);
+  });
+
+  // jspdf (node_modules/jspdf, output 'pdfobjectnewwindow') carries a cdnjs script address. Fix (lead, vite.config.ts):
+  // a small transform plugin that blanks that string in jspdf's module, or a patched jspdf build; also consider
+  // aliasing jsPDF's optional html2canvas/canvg/dompurify imports to an empty module (Fulcra uses none of them).
+  it.fails('carries no third-party CDN address (jsPDF pdfobject) in the bundle', () => {
+    const hits = files.filter((f) => f.endsWith('.js')).flatMap((f) =>
+      [...codeWithoutComments(readFileSync(f, 'utf8'), f).matchAll(/https?:\/\/[^\s'"`]+/g)].map((m) => m[0]).filter((u) => JSPDF_CDN.test(u)));
+    expect(hits).toEqual([]);
+  });
+
+  it('loads nothing from another origin in its HTML (scripts, styles, fonts, images)', () => {
+    for (const f of files.filter((x) => x.endsWith('.html'))) {
+      const html = readFileSync(f, 'utf8');
+      const external = [...html.matchAll(/\b(?:src|href)\s*=\s*["']?((?:https?:)?\/\/[^"'\s>]+)/gi)].map((m) => m[1]);
+      expect(external, relative(dir, f)).toEqual([]);
+    }
+  });
+});
