@@ -1,6 +1,6 @@
 import { FulcraError } from './data';
 import { qnorm } from './distributions';
-import { fitSmallLogistic } from './calibration';
+import { fitSmallLogistic, RISK_CLIP } from './calibration';
 import { warning, type EngineWarning } from './warnings';
 
 /** Quantile of sorted data, R's type 7 (linear interpolation between order statistics). */
@@ -143,7 +143,7 @@ export function calibrationCurve(y: Float64Array, eta: Float64Array, options: Ca
   const upper: number[] = [];
   const x = new Float64Array(p);
   for (let g = 0; g < gridSize; g++) {
-    const pg = pLo + ((pHi - pLo) * g) / (gridSize - 1);
+    const pg = Math.min(1 - RISK_CLIP, Math.max(RISK_CLIP, pLo + ((pHi - pLo) * g) / (gridSize - 1)));
     const e = Math.log(pg / (1 - pg));
     x[0] = 1;
     x[1] = e;

@@ -66,13 +66,18 @@ export function standardise(problem: PenalisedProblem): Standardised {
   const mean = new Float64Array(p), sd = new Float64Array(p), constant: boolean[] = [];
   for (let j = 0; j < p; j++) {
     const o = j * n;
+    // Moments of x/M (M = max |x|) so that columns in units of 1e300 or 1e-300 neither overflow nor underflow.
+    let M = 0;
+    for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
+    if (!(M > 0)) { mean[j] = 0; sd[j] = 0; constant.push(true); continue; }
     let m = 0;
-    for (let i = 0; i < n; i++) m += w[i] * X[o + i];
+    for (let i = 0; i < n; i++) m += w[i] * (X[o + i] / M);
     let v = 0;
-    for (let i = 0; i < n; i++) v += w[i] * (X[o + i] - m) ** 2;
-    mean[j] = m;
-    sd[j] = Math.sqrt(v);
-    constant.push(!(sd[j] > 1e-12 * (Math.abs(m) + 1)));
+    for (let i = 0; i < n; i++) v += w[i] * (X[o + i] / M - m) ** 2;
+    const s = Math.sqrt(v);
+    mean[j] = m * M;
+    sd[j] = s * M;
+    constant.push(!(s > 1e-12 * Math.abs(m)));
   }
   return { X, n, p, y, w, mean, sd, constant, ybar };
 }

@@ -69,6 +69,7 @@ export function hosmerLemeshow(y: Float64Array, p: Float64Array, g = 10): Hosmer
     if (e[k] > 0) stat += (o[k] - e[k]) ** 2 / e[k]; else if (o[k] > 0) zeroExpected = true;
     if (e0 > 0) stat += (n[k] - o[k] - e0) ** 2 / e0; else if (n[k] - o[k] > 0) zeroExpected = true;
   }
+  if (!Number.isFinite(stat)) zeroExpected = true;
   if (groups.length < 3 || zeroExpected) {
     warnings.push(groups.length < 3
       ? warning('hl-too-few-groups', `Only ${groups.length} group(s) of distinct risk could be formed, so the Hosmer–Lemeshow test cannot be computed.`, 'Use the calibration curve instead.')

@@ -1,3 +1,4 @@
+import { oddsRatio } from './oddsRatio';
 import { penalisedLogistic } from './coordinateDescent';
 import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks } from './crossValidation';
 import { FulcraError, type Dataset } from './data';
@@ -5,6 +6,7 @@ import { buildDesign } from './design';
 import { validateFitOptions } from './fit';
 import { defaultFitOptions, type DesignRecipe, type FitOptions, type ModelSpec } from './model';
 import { newtonLogistic } from './newton';
+import { standardise } from './standardise';
 import { warning, type EngineWarning } from './warnings';
 
 /**
@@ -49,6 +51,8 @@ export interface PipelineDesign {
   Z: Float64Array;
   center: Float64Array;
   scale: Float64Array;
+  /** center/scale computed without overflow (for the intercept on the original scale). */
+  centerOverScale: Float64Array;
 }
 
 /** The outcome of one run of the procedure. */
@@ -80,20 +84,9 @@ export function pipelineDesign(pipeline: Pipeline): PipelineDesign {
 }
 
 /** Adds the centred and scaled copy of the design used by the Newton fits (better conditioned). */
-export function withStandardised(d: Omit<PipelineDesign, 'Z' | 'center' | 'scale'>): PipelineDesign {
-  const { X, n, p } = d;
-  const Z = Float64Array.from(X), center = new Float64Array(p), scale = new Float64Array(p).fill(1);
-  for (let j = 1; j < p; j++) {
-    const col = X.subarray(j * n, (j + 1) * n);
-    let m = 0;
-    for (let i = 0; i < n; i++) m += col[i] / n;
-    let v = 0;
-    for (let i = 0; i < n; i++) v += (col[i] - m) ** 2 / n;
-    center[j] = m;
-    scale[j] = v > 0 ? Math.sqrt(v) : 1;
-    for (let i = 0; i < n; i++) Z[j * n + i] = (col[i] - m) / scale[j];
-  }
-  return { ...d, Z, center, scale };
+export function withStandardised(d: Omit<PipelineDesign, 'Z' | 'center' | 'scale' | 'centerOverScale'>): PipelineDesign {
+  const { Z, center, scale, centerOverScale } = standardise(d.X, d.n, d.p);
+  return { ...d, Z, center, scale, centerOverScale };
 }
 
 function checkPenalty(s: PenaltySelection): void {
@@ -139,7 +132,7 @@ export async function fitProcedure(
   beta[0] = f.beta[0];
   for (let j = 1; j < p; j++) {
     beta[j] = f.beta[j] / d.scale[j];
-    beta[0] -= beta[j] * d.center[j];
+    beta[0] -= f.beta[j] * d.centerOverScale[j];
   }
   return { beta, lambda: 0, converged: f.converged, cv: null };
 }
@@ -167,7 +160,7 @@ export async function fitPipeline(pipeline: Pipeline, hooks?: LongRunHooks): Pro
     method,
     alpha: pipeline.penalty ? pipeline.penalty.alpha : method === 'ridge' ? 0 : null,
     lambda: f.lambda,
-    coefficients: d.columnNames.map((name, j) => ({ name, estimate: f.beta[j], oddsRatio: Math.exp(f.beta[j]) })),
+    coefficients: d.columnNames.map((name, j) => ({ name, estimate: f.beta[j], oddsRatio: oddsRatio(f.beta[j]) })),
     recipe: d.recipe,
     converged: f.converged,
     cv: f.cv,

@@ -38,6 +38,7 @@ export function prFromPrepared(prep: PreparedThresholds, maxPoints = 500): PrCur
   const step = maxPoints < K + 1 ? 1 / Math.max(1, maxPoints - 1) : 0;
   let nextMark = step;
   for (let k = K - 1; k >= 0; k--) {
+    if (tp[k] + fp[k] === 0) continue; // zero-weight risks above every weighted case flag nothing
     const r = tp[k] / E;
     const pr = tp[k] / (tp[k] + fp[k]);
     ap += (r - r0) * pr;

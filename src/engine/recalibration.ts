@@ -1,3 +1,4 @@
+import { oddsRatio } from './oddsRatio';
 import { fitSmallLogistic, type IntervalEstimate } from './calibration';
 import { FulcraError } from './data';
 import { qnorm } from './distributions';
@@ -106,7 +107,7 @@ export function recalibratedModel(model: ScoringModel, r: Recalibration): Recali
   const a = r.intercept.estimate, b = r.slope ? r.slope.estimate : 1;
   const coefficients = model.coefficients.map((c, j) => {
     const estimate = j === 0 ? a + b * c.estimate : b * c.estimate;
-    return { name: c.name, estimate, oddsRatio: Math.exp(estimate) };
+    return { name: c.name, estimate, oddsRatio: oddsRatio(estimate) };
   });
   return { kind: r.kind, recipe: model.recipe, coefficients, a, b };
 }

@@ -1,3 +1,4 @@
+import { oddsRatio } from './oddsRatio';
 import { FulcraError } from './data';
 import { pchisqUpper, pt, qt } from './distributions';
 import { cholesky, choleskyInverse } from './linalg';
@@ -186,11 +187,11 @@ export function poolCoefficients(fits: FitResult[], level = 0.95): PooledCoeffic
     const mean = estimates.reduce((s, e) => s + e[j], 0) / m;
     if (!r) {
       return { ...first, estimate: mean, se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null,
-        oddsRatio: Math.exp(mean), aliased: fits.some((f) => f.coefficients[j].aliased), t: null, m,
+        oddsRatio: oddsRatio(mean), aliased: fits.some((f) => f.coefficients[j].aliased), t: null, m,
         within: null, between: null, total: null, dfcom, df: null, riv: null, lambda: null, fmi: null };
     }
     return { name, term: first.term, estimate: r.estimate, se: r.se, z: r.statistic, p: r.p, waldLower: r.lower, waldUpper: r.upper,
-      profileLower: null, profileUpper: null, oddsRatio: Math.exp(r.estimate), aliased: false, t: r.statistic, m,
+      profileLower: null, profileUpper: null, oddsRatio: oddsRatio(r.estimate), aliased: false, t: r.statistic, m,
       within: r.within, between: r.between, total: r.total, dfcom, df: r.df, riv: r.riv, lambda: r.lambda, fmi: r.fmi };
   });
   const aliasedSome = names.filter((_, j) => fits.some((f) => f.coefficients[j].aliased));

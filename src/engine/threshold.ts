@@ -34,6 +34,9 @@ export function checkScoredOutcome(y: Float64Array, s: Float64Array, weights?: F
     }
     if (weights && !(weights[i] >= 0 && Number.isFinite(weights[i]))) throw new FulcraError('bad-weight', `Weights must be finite and ≥ 0; row ${i + 1} is ${weights[i]}.`);
   }
+  if (weights && y.length > 0 && weights.every((w) => w === 0)) {
+    throw new FulcraError('bad-weight', 'Every case weight is 0, so there is nothing to evaluate.', 'Give at least one case a positive weight.');
+  }
 }
 
 /** Sorts once and accumulates counts (see PreparedThresholds). O(n log n); works for any score, not only risks. */

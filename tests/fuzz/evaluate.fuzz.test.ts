@@ -17,20 +17,6 @@ const costs = fc.record({
   truePositiveBenefit: fc.constantFrom(undefined, 0, 2),
 });
 
-/**
- * Known bugs, each reproduced in hostileEvaluate.repro.test.ts and tolerated only where it shows; remove when fixed:
- * NaN precision/AP when a distinct risk carries weight 0 (prCurve.ts), an infinite Hosmer–Lemeshow statistic from a
- * tiny expected count (hosmerLemeshow.ts), NaN expected cost when every weight is 0 (threshold.ts).
- */
-function knownBugs(weights: Float64Array | undefined): (path: string, v: number) => boolean {
-  const zeroWeight = !!weights && weights.some((w) => w === 0);
-  const allZero = !!weights && weights.every((w) => w === 0);
-  return (path, v) =>
-    (zeroWeight && Number.isNaN(v) && /^pr\.(precision\[|averagePrecision$)/.test(path)) ||
-    (path === 'hosmerLemeshow.statistic' && v === Infinity) ||
-    (allZero && Number.isNaN(v) && /(expectedCostPer100|costPer100\[)/.test(path));
-}
-
 function allowedError(f: () => void): void {
   try {
     f();
@@ -48,7 +34,7 @@ describe('evaluation and thresholds under hostile predictions', () => {
         const weights = weighted ? Float64Array.from(rows, (r) => r[2]) : undefined;
         allowedError(() => {
           const ev = evaluate(y, p, { weights, costs: c });
-          expect(nonFinitePaths(ev, knownBugs(weights)), 'evaluation').toEqual([]);
+          expect(nonFinitePaths(ev), 'evaluation').toEqual([]);
           const events = rows.filter((r) => r[0] === 1).length;
           if (events === 0 || events === rows.length) expect(ev.warnings.length).toBeGreaterThan(0);
         });
@@ -66,8 +52,8 @@ describe('evaluation and thresholds under hostile predictions', () => {
         allowedError(() => {
           const prep = prepareThresholds(y, p, weights);
           expect(nonFinitePaths(atThreshold(prep, t, { costs: c })), 'atThreshold').toEqual([]);
-          expect(nonFinitePaths(costThresholds(prep, c), knownBugs(weights)), 'costThresholds').toEqual([]);
-          expect(nonFinitePaths(expectedCostCurve(prep, c), knownBugs(weights)), 'expectedCostCurve').toEqual([]);
+          expect(nonFinitePaths(costThresholds(prep, c)), 'costThresholds').toEqual([]);
+          expect(nonFinitePaths(expectedCostCurve(prep, c)), 'expectedCostCurve').toEqual([]);
         });
       }),
       { numRuns: 300, seed: 5150, endOnFailure: true },

@@ -21,6 +21,7 @@ describe('prepared thresholds (flag rule: risk ≥ threshold)', () => {
       const y = Float64Array.from(rows, (r) => r.y);
       const p = Float64Array.from(rows, (r) => r.p);
       const w = weighted ? Float64Array.from(rows, (r) => r.w) : undefined;
+      fc.pre(!w || w.some((x) => x > 0)); // all-zero weights are refused (bad-weight)
       const prep = prepareThresholds(y, p, w);
       for (const tt of [t, p[0], p[rows.length - 1]]) {
         const m = atThreshold(prep, tt);
