@@ -1,0 +1,57 @@
+import { generateDemo } from '../src/engine/demo';
+import { fit } from '../src/engine/fit';
+import { expect, expectNoSidewaysScroll, shot, test } from './guard';
+
+test('demo → fitted odds ratios equal the engine run in Node → threshold → score a case', async ({ page }) => {
+  await page.goto('/');
+  await shot(page, '00-start');
+  await expectNoSidewaysScroll(page);
+  await page.getByRole('button', { name: /Surgical-site infections/ }).click();
+  const table = page.getByTestId('odds-table');
+  await expect(table).toBeVisible({ timeout: 30_000 });
+  await shot(page, '01-model');
+  await expectNoSidewaysScroll(page);
+  await shot(page, '01-model-full', true);
+
+  const demo = generateDemo('ssi');
+  const ref = fit(demo.dataset, demo.spec, { method: 'ml', level: 0.95, profile: true });
+  for (const c of ref.coefficients) {
+    const cell = table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`);
+    await expect(cell).toHaveText(c.estimate.toFixed(4).replace('-', '−'));
+  }
+
+  await page.getByRole('button', { name: 'Risk curve & loss' }).click();
+  await expect(page.getByText('Predicted risk against one predictor')).toBeVisible();
+  await page.waitForTimeout(500);
+  await shot(page, '02-shape');
+  await expectNoSidewaysScroll(page);
+
+  await page.getByRole('button', { name: 'Discrimination & calibration' }).click();
+  await expect(page.getByTestId('metrics')).toBeVisible();
+  await shot(page, '03-performance');
+  await expectNoSidewaysScroll(page);
+
+  await page.getByRole('button', { name: 'Cut-off & costs' }).click();
+  const tp = page.getByTestId('tp');
+  await expect(tp).toBeVisible();
+  const before = await tp.textContent();
+  const slider = page.getByRole('slider');
+  await slider.focus();
+  await slider.fill('0.4');
+  await expect(page.getByTestId('cutoff-value')).toHaveText('40.0%');
+  await expect(tp).not.toHaveText(before ?? '');
+  await shot(page, '04-cutoff');
+  await expectNoSidewaysScroll(page);
+
+  await page.getByRole('button', { name: 'Score & validate' }).click();
+  await page.getByRole('button', { name: 'Predict the risk' }).click();
+  await expect(page.getByTestId('score-result')).toContainText('Predicted risk');
+  await shot(page, '05-score');
+  await expectNoSidewaysScroll(page);
+
+  await page.getByRole('button', { name: 'Data & roles' }).click();
+  await expect(page.getByRole('grid', { name: 'Data rows' })).toBeVisible();
+  await shot(page, '06-data');
+  await expectNoSidewaysScroll(page);
+  await shot(page, '06-data-full', true);
+});

@@ -1,0 +1,167 @@
+/**
+ * Named actions: `perform(state, input) → new state`, pure and testable without React or a worker.
+ * Effects (worker calls) live in controller.ts and feed their results back through these actions.
+ */
+import type { MissingReport } from '../engine/missingReport';
+import type { EngineWarning, ModelSpec } from '../engine/model';
+import type {
+  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, RiskCurveView,
+  ScoreView, ThresholdView, ValidationView,
+} from '../worker/protocol';
+import { initialState, type AppState, type ImportSettings, type Job, type Notice, type PredictorRole, type ViewId } from './appState';
+
+type Perform<I> = (state: AppState, input: I) => AppState;
+
+const invalidateFit = (s: AppState): AppState => (s.fit ? { ...s, fitStale: true } : s);
+
+export const showView: Perform<ViewId> = (s, view) => ({ ...s, view });
+
+/** Changes how files are read; a new file starts with no per-column type choices. */
+export const setImportSettings: Perform<Partial<ImportSettings>> = (s, settings) => ({ ...s, importSettings: { ...s.importSettings, ...settings } });
+
+/** A new data set replaces everything that was computed from the previous one; roles come from the demo spec. */
+export const dataLoaded: Perform<DataSummary> = (s, data) => {
+  const roles: Record<string, PredictorRole> = {};
+  for (const c of data.columns) roles[c.name] = { include: false, reference: null, knots: 0 };
+  let outcome: string | null = null;
+  let event: string | null = null;
+  if (data.suggestedSpec) {
+    outcome = data.suggestedSpec.outcome;
+    event = data.suggestedSpec.event ?? null;
+    for (const t of data.suggestedSpec.terms) {
+      if (t.type === 'main') roles[t.column] = { include: true, reference: t.reference ?? null, knots: 0 };
+      if (t.type === 'spline') roles[t.column] = { include: true, reference: null, knots: t.knots };
+    }
+  }
+  const reread = s.data !== null && data.source.kind === 'file' && s.data.source.kind === 'file' && s.data.source.name === data.source.name;
+  if (reread) {
+    const names = new Set(data.columns.map((c) => c.name));
+    for (const [name, r] of Object.entries(s.roles)) if (names.has(name)) roles[name] = r;
+    if (s.outcome && names.has(s.outcome)) { outcome = s.outcome; event = s.event; }
+  }
+  const base: AppState = {
+    ...initialState, costs: s.costs, notices: s.notices, importSettings: s.importSettings,
+    nextNoticeId: s.nextNoticeId, jobs: s.jobs, data, roles, outcome, event,
+    interactions: reread ? s.interactions.filter(([a, b]) => roles[a]?.include && roles[b]?.include) : [],
+  };
+  return withWarnings(base, data.warnings);
+};
+
+export const chooseOutcome: Perform<{ column: string | null; event?: string | null }> = (s, { column, event }) => {
+  if (!s.data || column === null) return invalidateFit({ ...s, outcome: null, event: null });
+  const col = s.data.columns.find((c) => c.name === column);
+  if (!col) return s;
+  const ev = event ?? col.proposedEvent ?? (col.levels.length === 2 ? col.levels[1] : null);
+  const roles = { ...s.roles, [column]: { ...s.roles[column], include: false } };
+  return invalidateFit({ ...s, outcome: column, event: ev, roles });
+};
+
+export const chooseEvent: Perform<string | null> = (s, event) => invalidateFit({ ...s, event });
+
+export const setPredictor: Perform<{ column: string; role: Partial<PredictorRole> }> = (s, { column, role }) => {
+  if (column === s.outcome && role.include) return s;
+  const prev = s.roles[column] ?? { include: false, reference: null, knots: 0 };
+  const roles = { ...s.roles, [column]: { ...prev, ...role } };
+  const interactions = roles[column].include ? s.interactions : s.interactions.filter((p) => !p.includes(column));
+  return invalidateFit({ ...s, roles, interactions });
+};
+
+export const toggleInteraction: Perform<[string, string]> = (s, pair) => {
+  const key = (p: [string, string]) => [...p].sort().join('\u0000');
+  const exists = s.interactions.some((p) => key(p) === key(pair));
+  const interactions = exists ? s.interactions.filter((p) => key(p) !== key(pair)) : [...s.interactions, pair];
+  return invalidateFit({ ...s, interactions });
+};
+
+export const chooseMethod: Perform<MethodChoice> = (s, method) => invalidateFit({ ...s, method });
+export const setAlpha: Perform<number> = (s, alpha) =>
+  Number.isFinite(alpha) ? invalidateFit({ ...s, alpha: Math.min(1, Math.max(0, alpha)) }) : s;
+export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => invalidateFit({ ...s, lambdaRule });
+export const setLevel: Perform<number> = (s, level) =>
+  level > 0.5 && level < 1 ? invalidateFit({ ...s, level }) : s;
+
+/** A fit replaces every result derived from the previous fit. */
+export const fitDone: Perform<FitView> = (s, fit) => {
+  const cleared: AppState = {
+    ...s, fit, fitStale: false, thresholdView: null, costView: null, imputed: null, riskCurve: null, lossSurface: null, validation: null,
+    validationStatus: 'idle', score: null, batch: null, external: null,
+    notices: s.notices.filter((n) => n.kind === 'error' || !n.code),
+  };
+  return withWarnings(cleared, fit.warnings);
+};
+
+export const setCosts: Perform<Partial<Costs>> = (s, costs) => {
+  const next = { ...s.costs, ...costs };
+  if (!(next.missedCase > 0) || !(next.falseAlarm > 0)) return s;
+  return { ...s, costs: next };
+};
+
+export const setThreshold: Perform<number> = (s, t) =>
+  Number.isFinite(t) ? { ...s, threshold: Math.min(0.999, Math.max(0.001, t)) } : s;
+
+export const costsDone: Perform<CostView> = (s, costView) => ({ ...s, costView });
+export const dropReportDone: Perform<MissingReport | null> = (s, dropReport) => ({ ...s, dropReport });
+export const thresholdDone: Perform<ThresholdView> = (s, thresholdView) => ({ ...s, thresholdView });
+export const imputedDone: Perform<ImputedView> = (s, imputed) => withWarnings({ ...s, imputed }, imputed.warnings);
+export const riskCurveDone: Perform<RiskCurveView> = (s, riskCurve) => ({ ...s, riskCurve });
+export const lossSurfaceDone: Perform<LossSurfaceView> = (s, lossSurface) => ({ ...s, lossSurface });
+export const scoreDone: Perform<ScoreView> = (s, score) => ({ ...s, score });
+export const batchDone: Perform<BatchScoreView> = (s, batch) => withWarnings({ ...s, batch }, batch.warnings);
+export const externalDone: Perform<ExternalView> = (s, external) => withWarnings({ ...s, external }, external.warnings);
+
+export const validationStarted: Perform<void> = (s) => ({ ...s, validationStatus: 'running' });
+export const validationDone: Perform<ValidationView> = (s, validation) =>
+  withWarnings({ ...s, validation, validationStatus: 'done' }, validation.warnings);
+export const validationCancelled: Perform<void> = (s) => ({ ...s, validationStatus: 'cancelled' });
+export const validationFailed: Perform<void> = (s) => ({ ...s, validationStatus: 'idle' });
+
+export const jobStarted: Perform<Job> = (s, job) => ({ ...s, jobs: [...s.jobs.filter((j) => j.id !== job.id), job] });
+export const jobProgress: Perform<{ id: string; done: number; total: number }> = (s, { id, done, total }) => ({
+  ...s, jobs: s.jobs.map((j) => (j.id === id ? { ...j, done, total } : j)),
+});
+export const jobEnded: Perform<string> = (s, id) => ({ ...s, jobs: s.jobs.filter((j) => j.id !== id) });
+
+/** Adds a notice; the same text is not shown twice. */
+export const notify: Perform<Omit<Notice, 'id'>> = (s, n) => {
+  if (s.notices.some((m) => m.text === n.text && m.kind === n.kind)) return s;
+  return { ...s, notices: [...s.notices, { ...n, id: s.nextNoticeId }], nextNoticeId: s.nextNoticeId + 1 };
+};
+
+export const dismiss: Perform<number> = (s, id) => ({ ...s, notices: s.notices.filter((n) => n.id !== id) });
+
+/** The worker stopped: everything held in it is gone. */
+export const workerLost: Perform<string> = (s, text) =>
+  notify({ ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs },
+    { kind: 'error', text, suggestion: 'Open your file or a demo again.', action: 'reload' });
+
+const REMEDY: Record<string, Notice['action']> = {
+  'complete-separation': 'use-firth',
+  'quasi-separation': 'use-firth',
+  'few-events': 'use-ridge',
+  'low-events-per-parameter': 'use-ridge',
+};
+
+export function withWarnings(s: AppState, warnings: readonly EngineWarning[]): AppState {
+  return warnings.reduce<AppState>((acc, w) => notify(acc, {
+    kind: 'warning', text: w.message, suggestion: w.suggestion, code: w.code, action: REMEDY[w.code],
+  }), s);
+}
+
+/** The model as the engine reads it, or the reason it cannot be fitted yet. */
+export function buildSpec(s: AppState): { spec: ModelSpec } | { problem: string } {
+  if (!s.data) return { problem: 'Open a file or a demo first.' };
+  if (!s.outcome) return { problem: 'Choose the outcome column.' };
+  if (!s.event) return { problem: `Choose which value of ${s.outcome} counts as the event.` };
+  const terms: ModelSpec['terms'] = [];
+  for (const c of s.data.columns) {
+    const r = s.roles[c.name];
+    if (!r?.include || c.name === s.outcome) continue;
+    if (r.knots > 0 && c.kind === 'numeric') terms.push({ type: 'spline', column: c.name, knots: r.knots as 3 | 4 | 5 });
+    else terms.push(r.reference ? { type: 'main', column: c.name, reference: r.reference } : { type: 'main', column: c.name });
+  }
+  if (terms.length === 0) return { problem: 'Choose at least one predictor.' };
+  for (const [a, b] of s.interactions) {
+    if (s.roles[a]?.include && s.roles[b]?.include) terms.push({ type: 'interaction', columns: [a, b] });
+  }
+  return { spec: { outcome: s.outcome, event: s.event, terms } };
+}

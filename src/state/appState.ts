@@ -1,0 +1,128 @@
+import type { MissingReport } from '../engine/missingReport';
+import type { ColumnType, ImportOptions } from '../io/types';
+import type { EngineWarning, ModelSpec, TermSpec } from '../engine/model';
+import type {
+  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, RiskCurveView,
+  ScoreView, ThresholdView, ValidationView,
+} from '../worker/protocol';
+
+export type ViewId = 'data' | 'model' | 'shape' | 'performance' | 'cutoff' | 'score';
+
+export interface PredictorRole {
+  include: boolean;
+  reference: string | null;
+  /** 0 = linear; 3–5 = restricted cubic spline with that many knots. */
+  knots: 0 | 3 | 4 | 5;
+}
+
+export interface Notice {
+  id: number;
+  kind: 'error' | 'warning' | 'info';
+  text: string;
+  suggestion?: string;
+  /** A one-click remedy the notice offers. */
+  action?: 'use-firth' | 'use-ridge' | 'reload';
+  code?: string;
+}
+
+export interface Job {
+  id: string;
+  label: string;
+  done: number;
+  total: number;
+  cancellable: boolean;
+}
+
+/** How to read the next file (manual overrides of what the importer detects). */
+export interface ImportSettings {
+  delimiter: 'auto' | ',' | ';' | '\t' | '|';
+  decimal: 'auto' | '.' | ',';
+  encoding: 'auto' | 'utf-8' | 'windows-1252';
+  header: 'auto' | 'yes' | 'no';
+  sheet: string | null;
+  /** Per column name: the type the user chose instead of the inferred one. */
+  columnTypes: Record<string, ColumnType>;
+}
+
+export const defaultImportSettings: ImportSettings = { delimiter: 'auto', decimal: 'auto', encoding: 'auto', header: 'auto', sheet: null, columnTypes: {} };
+
+export interface AppState {
+  view: ViewId;
+  importSettings: ImportSettings;
+  data: DataSummary | null;
+  outcome: string | null;
+  event: string | null;
+  roles: Record<string, PredictorRole>;
+  interactions: [string, string][];
+  method: MethodChoice;
+  alpha: number;
+  lambdaRule: 'min' | '1se';
+  level: number;
+  fit: FitView | null;
+  /** The model settings changed after the last fit. */
+  fitStale: boolean;
+  costs: Costs;
+  threshold: number;
+  thresholdView: ThresholdView | null;
+  /** Rows the current roles would drop (complete-case analysis). */
+  dropReport: MissingReport | null;
+  costView: CostView | null;
+  riskCurve: RiskCurveView | null;
+  lossSurface: LossSurfaceView | null;
+  validation: ValidationView | null;
+  /** The same model pooled over multiple imputations (shown beside the complete-case fit). */
+  imputed: ImputedView | null;
+  validationStatus: 'idle' | 'running' | 'done' | 'cancelled';
+  score: ScoreView | null;
+  batch: BatchScoreView | null;
+  external: ExternalView | null;
+  jobs: Job[];
+  notices: Notice[];
+  nextNoticeId: number;
+}
+
+export const initialState: AppState = {
+  view: 'data',
+  importSettings: defaultImportSettings,
+  data: null,
+  outcome: null,
+  event: null,
+  roles: {},
+  interactions: [],
+  method: 'ml',
+  alpha: 0.5,
+  lambdaRule: '1se',
+  level: 0.95,
+  fit: null,
+  fitStale: false,
+  costs: { missedCase: 10, falseAlarm: 1 },
+  threshold: 0.5,
+  thresholdView: null,
+  dropReport: null,
+  costView: null,
+  riskCurve: null,
+  lossSurface: null,
+  validation: null,
+  imputed: null,
+  validationStatus: 'idle',
+  score: null,
+  batch: null,
+  external: null,
+  jobs: [],
+  notices: [],
+  nextNoticeId: 1,
+};
+
+export type { EngineWarning, ModelSpec, TermSpec };
+
+/** The importer's options for the current settings. */
+export function importOptionsOf(s: ImportSettings): ImportOptions {
+  return {
+    delimiter: s.delimiter,
+    decimal: s.decimal,
+    encoding: s.encoding,
+    header: s.header === 'auto' ? 'auto' : s.header === 'yes',
+    ...(s.sheet !== null ? { sheet: s.sheet } : {}),
+    columnTypes: s.columnTypes,
+  };
+}

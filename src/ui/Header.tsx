@@ -1,0 +1,19 @@
+import { useApp } from './context';
+
+export function Header() {
+  const source = useApp((s) => s.data?.source ?? null);
+  return (
+    <header className="top">
+      <a className="skip" href="#main">Skip to content</a>
+      <h1>Fulcra</h1>
+      <span className="tagline">risk models on your own spreadsheet</span>
+      {source && (
+        <span className="source" data-testid="source">
+          {source.name}
+          {source.kind === 'demo' && <strong className="invented"> · invented data</strong>}
+        </span>
+      )}
+      <span className="local" title="All calculations run in a Web Worker in this tab; nothing is uploaded.">Runs only on this computer</span>
+    </header>
+  );
+}

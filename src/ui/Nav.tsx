@@ -1,0 +1,36 @@
+import type { ViewId } from '../state/appState';
+import { useApp, useEnv } from './context';
+
+const VIEWS: { id: ViewId; label: string; needsFit: boolean }[] = [
+  { id: 'data', label: 'Data & roles', needsFit: false },
+  { id: 'model', label: 'Odds ratios', needsFit: false },
+  { id: 'shape', label: 'Risk curve & loss', needsFit: true },
+  { id: 'performance', label: 'Discrimination & calibration', needsFit: true },
+  { id: 'cutoff', label: 'Cut-off & costs', needsFit: true },
+  { id: 'score', label: 'Score & validate', needsFit: true },
+];
+
+export function Nav() {
+  const { ctl } = useEnv();
+  const view = useApp((s) => s.view);
+  const fitted = useApp((s) => s.fit !== null);
+  return (
+    <nav aria-label="Workbench views" className="side">
+      <ul>
+        {VIEWS.map((v) => (
+          <li key={v.id}>
+            <button
+              type="button"
+              aria-current={view === v.id ? 'page' : undefined}
+              disabled={v.needsFit && !fitted}
+              onClick={() => ctl.show(v.id)}
+            >
+              {v.label}
+            </button>
+          </li>
+        ))}
+      </ul>
+      <p className="caution-mini">Not a medical device. Follow local governance and licensed clinical judgement.</p>
+    </nav>
+  );
+}

@@ -1,0 +1,61 @@
+import { useId } from 'react';
+import * as A from '../../state/actions';
+import type { MethodChoice } from '../../worker/protocol';
+import { useApp, useEnv } from '../context';
+import { NumberField } from '../NumberField';
+
+const METHODS: { id: MethodChoice; label: string; hint: string }[] = [
+  { id: 'ml', label: 'Standard (maximum likelihood)', hint: 'Odds ratios with Wald and profile-likelihood intervals.' },
+  { id: 'firth', label: 'Firth (penalised likelihood)', hint: 'For small samples, rare events or separation.' },
+  { id: 'ridge', label: 'Ridge', hint: 'Shrinks all coefficients; strength chosen by 10-fold cross-validation.' },
+  { id: 'lasso', label: 'Lasso', hint: 'Shrinks and drops predictors; strength chosen by cross-validation.' },
+  { id: 'elasticnet', label: 'Elastic net', hint: 'A mix of ridge and lasso; strength chosen by cross-validation.' },
+];
+
+/** Fitting method, interval level and the Fit button. */
+export function FitControls() {
+  const { store, ctl } = useEnv();
+  const id = useId();
+  const method = useApp((s) => s.method);
+  const alpha = useApp((s) => s.alpha);
+  const rule = useApp((s) => s.lambdaRule);
+  const level = useApp((s) => s.level);
+  const stale = useApp((s) => s.fitStale);
+  const busy = useApp((s) => s.jobs.length > 0);
+  const penalised = method === 'ridge' || method === 'lasso' || method === 'elasticnet';
+  return (
+    <section className="fit-controls" aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Fitting</h2>
+      <fieldset>
+        <legend>Method</legend>
+        {METHODS.map((m) => (
+          <label key={m.id} title={m.hint}>
+            <input type="radio" name={`${id}-method`} value={m.id} checked={method === m.id} onChange={() => store.apply(A.chooseMethod, m.id)} /> {m.label}
+          </label>
+        ))}
+      </fieldset>
+      <div className="row">
+        {method === 'elasticnet' && (
+          <NumberField label="Lasso share α (0 = ridge, 1 = lasso)" min={0.05} max={0.95} step={0.05} value={alpha} valid={(v) => v > 0 && v < 1} onChange={(v) => store.apply(A.setAlpha, v)} />
+        )}
+        {penalised && (
+          <label>Penalty chosen by
+            <select value={rule} onChange={(e) => store.apply(A.setLambdaRule, e.target.value as 'min' | '1se')}>
+              <option value="1se">one-standard-error rule (simpler model)</option>
+              <option value="min">lowest cross-validated deviance</option>
+            </select>
+          </label>
+        )}
+        {!penalised && (
+          <label>Interval level
+            <select value={level} onChange={(e) => store.apply(A.setLevel, Number(e.target.value))}>
+              <option value={0.9}>90%</option><option value={0.95}>95%</option><option value={0.99}>99%</option>
+            </select>
+          </label>
+        )}
+      </div>
+      <button type="button" className="primary" disabled={busy} onClick={() => void ctl.fitModel()}>Fit the model</button>
+      {stale && <p className="stale" role="status">The settings changed since the last fit: results shown are for the previous model.</p>}
+    </section>
+  );
+}

@@ -1,0 +1,89 @@
+/**
+ * Main-thread bridge to the engine worker: creates the worker, forwards calls through Comlink, keeps only the
+ * latest of a stream of cheap queries (the threshold slider), reports every failure in one place, and restarts
+ * the worker when it crashes. Cancellation ('cancelled') is silent.
+ */
+import * as Comlink from 'comlink';
+import type { FulcraApi } from '../worker/api';
+import { createEngineWorker } from './engineWorker';
+
+export type Api = Comlink.Remote<FulcraApi>;
+
+export interface WorkerClientHooks {
+  /** Any failure other than a cancellation, already worded for the user. */
+  onError(message: string, suggestion?: string): void;
+  /** The worker died and was restarted empty. */
+  onCrash(message: string): void;
+}
+
+export interface WorkerClient {
+  call<T>(run: (api: Api) => Promise<T>): Promise<T | undefined>;
+  /** Runs `run` unless a newer call with the same key arrives first; stale calls resolve to undefined. */
+  latest<T>(key: string, run: (api: Api) => Promise<T>): Promise<T | undefined>;
+  progress(fn: (done: number, total: number) => void): (done: number, total: number) => void;
+  transfer<T>(value: T, buffers: Transferable[]): T;
+  cancel(jobId: string): void;
+  terminate(): void;
+}
+
+export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
+  let worker: Worker;
+  let api: Api;
+  /** Settles every call still waiting on a worker that died. */
+  let lost: (reason: unknown) => void = () => {};
+  let lostPromise: Promise<never>;
+  const armLost = () => {
+    lostPromise = new Promise<never>((_, reject) => { lost = reject; });
+    lostPromise.catch(() => {});
+  };
+  const start = () => {
+    armLost();
+    worker = createEngineWorker();
+    worker.addEventListener('error', (e) => {
+      e.preventDefault();
+      worker.terminate();
+      lost({ code: 'worker-lost' });
+      start();
+      hooks.onCrash(`The calculation engine stopped unexpectedly${e.message ? ` (${e.message})` : ''} and was restarted.`);
+    });
+    api = Comlink.wrap<FulcraApi>(worker);
+  };
+  start();
+  const guard = <T>(p: Promise<T>): Promise<T> => Promise.race([p, lostPromise]);
+
+  const report = (err: unknown): undefined => {
+    const e = err as { code?: string; message?: string; suggestion?: string };
+    if (e?.code === 'cancelled' || e?.code === 'worker-lost') return undefined;
+    hooks.onError(e?.message ?? String(err), e?.suggestion);
+    return undefined;
+  };
+
+  const pending = new Map<string, { run: (api: Api) => Promise<unknown>; resolve: (v: unknown) => void }>();
+  const inFlight = new Set<string>();
+
+  const pump = (key: string) => {
+    const next = pending.get(key);
+    if (!next || inFlight.has(key)) return;
+    pending.delete(key);
+    inFlight.add(key);
+    guard(next.run(api)).then(next.resolve, (err) => next.resolve(report(err))).finally(() => {
+      inFlight.delete(key);
+      pump(key);
+    });
+  };
+
+  return {
+    call: (run) => guard(run(api)).catch(report),
+    latest<T>(key: string, run: (api: Api) => Promise<T>) {
+      return new Promise<T | undefined>((resolve) => {
+        pending.get(key)?.resolve(undefined);
+        pending.set(key, { run, resolve: resolve as (v: unknown) => void });
+        pump(key);
+      });
+    },
+    progress: (fn) => Comlink.proxy(fn),
+    transfer: (value, buffers) => Comlink.transfer(value, buffers),
+    cancel: (jobId) => { void api.cancel(jobId); },
+    terminate: () => worker.terminate(),
+  };
+}

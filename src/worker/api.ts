@@ -1,0 +1,103 @@
+/**
+ * The worker's api: the only place the engine and the importer run for the page. Holds the loaded data and the
+ * current model; every call returns plain records. Errors leave as plain {code, message, suggestion} objects
+ * (Comlink would drop an Error's extra fields); cancellation raises code 'cancelled'.
+ */
+import * as Comlink from 'comlink';
+import type { DemoId } from '../engine/demo';
+import type { ModelSpec } from '../engine/model';
+import type { ImportOptions } from '../io/types';
+import { missingReport } from '../engine/missingReport';
+import { costView, thresholdAt } from './cutoffOps';
+import { loadDemo, loadImported } from './dataOps';
+import { readBytes, readPasted } from './ioOps';
+import { checkImportBudget } from './budget';
+import { fitWithImputation } from './imputeOps';
+import { fitModel } from './modelOps';
+import { rowsWindow } from './profile';
+import type { Costs, FitRequest, Progress, ReportText } from './protocol';
+import { createSession, openJob, requireData, tick, type Session } from './session';
+import { modelFileText, modelReport, pmmlText } from './reportOps';
+import { scoreImported, scoreOne } from './scoreOps';
+import { riskCurve } from './shapeOps';
+import { externalValidate, lossSurface, validate } from './validateOps';
+
+async function guarded<T>(session: Session, jobId: string | null, run: () => Promise<T> | T): Promise<T> {
+  try {
+    return await run();
+  } catch (err) {
+    const e = err as { code?: string; message?: string; suggestion?: string };
+    throw { code: e?.code ?? 'internal', message: e?.message ?? String(err), suggestion: e?.suggestion };
+  } finally {
+    if (jobId) session.signals.delete(jobId);
+  }
+}
+
+function checkedBytes(bytes: ArrayBuffer, name: string, held: Session['data']): ArrayBuffer {
+  checkImportBudget(bytes, name, held);
+  return bytes;
+}
+
+/** The calls the page can make; one session (data set + current model) per api. */
+export function createApi() {
+  const session = createSession();
+  let typical: Record<string, string | number> = {};
+  const guard = <T>(jobId: string | null, run: () => Promise<T> | T) => guarded(session, jobId, run);
+  const hooksFor = (jobId: string, onProgress?: Progress) => ({
+    signal: openJob(session, jobId),
+    tick,
+    onProgress: onProgress ? (done: number, total: number) => void onProgress(done, total) : undefined,
+  });
+  return {
+    loadDemo: (id: DemoId) => guard(null, () => loadDemo(session, id)),
+    importFile: (bytes: ArrayBuffer, name: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
+      const h = hooksFor(jobId, onProgress);
+      return guard(jobId, async () => loadImported(session, await readBytes(checkedBytes(bytes, name, session.data), name, options, {
+        signal: h.signal, tick, onProgress: onProgress ? (f) => void onProgress(Math.round(f * 100), 100) : undefined,
+      }), 'file', name));
+    },
+    importText: (text: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
+      const h = hooksFor(jobId, onProgress);
+      return guard(jobId, async () => loadImported(session, await readPasted(text, options, { signal: h.signal, tick }), 'paste', 'pasted cells'));
+    },
+    getRows: (start: number, count: number) => guard(null, () => rowsWindow(requireData(session), start, count)),
+    dropReport: (spec: ModelSpec) => guard(null, () => missingReport(requireData(session), spec)),
+    fitModel: (req: FitRequest, jobId: string, onProgress?: Progress) =>
+      guard(jobId, async () => {
+        const view = await fitModel(session, req, hooksFor(jobId, onProgress));
+        typical = view.typical;
+        return view;
+      }),
+    fitImputed: (req: FitRequest, jobId: string, onProgress?: Progress) =>
+      guard(jobId, () => fitWithImputation(session, req, hooksFor(jobId, onProgress))),
+    threshold: (t: number, costs: Costs) => guard(null, () => thresholdAt(session, t, costs)),
+    costs: (costs: Costs) => guard(null, () => costView(session, costs)),
+    riskCurve: (predictor: string) => guard(null, () => riskCurve(session, predictor, typical)),
+    lossSurface: (a: number, b: number) => guard(null, () => lossSurface(session, a, b)),
+    validate: (replicates: number, jobId: string, onProgress?: Progress) =>
+      guard(jobId, () => validate(session, replicates, hooksFor(jobId, onProgress))),
+    scoreOne: (values: Record<string, string | number | null>, threshold: number) => guard(null, () => scoreOne(session, values, threshold)),
+    scoreBatch: (bytes: ArrayBuffer, name: string, threshold: number, jobId: string, onProgress?: Progress) => {
+      const h = hooksFor(jobId, onProgress);
+      return guard(jobId, async () => scoreImported(session, await readBytes(bytes, name, {}, { signal: h.signal, tick }), threshold));
+    },
+    externalValidate: (bytes: ArrayBuffer, name: string, jobId: string, onProgress?: Progress) => {
+      const h = hooksFor(jobId, onProgress);
+      return guard(jobId, async () => externalValidate(session, await readBytes(bytes, name, {}, { signal: h.signal, tick })));
+    },
+    modelReport: (costs: Costs, threshold: number, created: string, text: ReportText) =>
+      guard(null, () => {
+        const bytes = modelReport(session, costs, threshold, created, text);
+        return Comlink.transfer(bytes, [bytes.buffer]);
+      }),
+    modelFile: (costs: Costs, threshold: number, created: string, text: ReportText) =>
+      guard(null, () => modelFileText(session, costs, threshold, created, text)),
+    pmml: (created: string) => guard(null, () => pmmlText(session, created)),
+    cancel: (jobId: string) => {
+      const s = session.signals.get(jobId);
+      if (s) s.aborted = true;
+    },
+  };
+}
+
+export type FulcraApi = ReturnType<typeof createApi>;

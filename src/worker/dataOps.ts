@@ -1,0 +1,82 @@
+import type { Dataset } from '../engine/data';
+import { generateDemo, type DemoId } from '../engine/demo';
+import { proposeOutcomeEvent } from '../io';
+import type { ColumnInfo, ImportResult } from '../io/types';
+import { profileColumn } from './profile';
+import type { ColumnView, DataSummary } from './protocol';
+import type { Session } from './session';
+
+/** Loads an invented demo into the session. */
+export function loadDemo(s: Session, id: DemoId): DataSummary {
+  const demo = generateDemo(id);
+  return setData(s, demo.dataset, {
+    source: { kind: 'demo', name: demo.title, notice: demo.notice },
+    nRows: demo.dataset.nRows,
+    columns: demo.dataset.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
+    warnings: [],
+    suggestedSpec: demo.spec,
+    truth: demo.truth,
+    format: null,
+  });
+}
+
+/** Loads an import result into the session, keeping the importer's types, reasons and profiles. */
+export function loadImported(s: Session, result: ImportResult, kind: 'file' | 'paste', name: string): DataSummary {
+  const columns = result.dataset.columns.map((col, k) => fromInfo(col, result.columns[k]));
+  return setData(s, result.dataset, {
+    source: { kind, name, notice: null },
+    nRows: result.dataset.nRows,
+    columns,
+    warnings: result.warnings,
+    suggestedSpec: null,
+    truth: null,
+    format: result.format,
+  });
+}
+
+function setData(s: Session, data: Dataset, summary: DataSummary): DataSummary {
+  s.data = data;
+  s.summary = summary;
+  s.fit = null;
+  s.request = null;
+  s.y = null;
+  s.risk = null;
+  s.prepared = null;
+  s.evaluation = null;
+  s.validation = null;
+  s.sampleSize = null;
+  return summary;
+}
+
+function fromInfo(col: Dataset['columns'][number], info: ColumnInfo | undefined): ColumnView {
+  const base = profileColumn(col);
+  if (!info) return base;
+  const p = info.profile;
+  const bins = p.histogram
+    ? p.histogram.counts.map((count, b) => ({ label: `${fmt(p.histogram!.edges[b])}–${fmt(p.histogram!.edges[b + 1])}`, count }))
+    : (p.topLevels ?? []).map((l) => ({ label: l.level, count: l.count }));
+  const type = info.type === 'empty' ? 'text' : info.type;
+  return {
+    ...base,
+    type,
+    reason: info.reason + (info.note ? ` ${info.note}` : ''),
+    modelling: info.modelling,
+    levels: info.modelling ? base.levels : [],
+    missing: p.missing,
+    distinct: p.distinct,
+    min: Number.isFinite(p.min) ? p.min : null,
+    median: Number.isFinite(p.median) ? p.median : null,
+    max: Number.isFinite(p.max) ? p.max : null,
+    bins,
+    proposedEvent: proposedEvent(col),
+  };
+}
+
+function fmt(x: number): string {
+  return Number.isInteger(x) ? String(x) : x.toPrecision(3);
+}
+
+function proposedEvent(col: Dataset['columns'][number]): string | null {
+  const p = proposeOutcomeEvent(col);
+  return p.status === 'proposed' ? p.event : null;
+}

@@ -1,0 +1,146 @@
+import { FulcraError, type Dataset } from '../engine/data';
+import { designFromRecipe } from '../engine/design';
+import { fit } from '../engine/fit';
+import type { FitResult } from '../engine/model';
+import { fitPipeline, type Pipeline } from '../engine/pipeline';
+import { coxSnellR2, riley2020SampleSize, type SampleSizeResult } from '../engine/sampleSize';
+import { prepareThresholds } from '../engine/threshold';
+import { warning, type EngineWarning } from '../engine/warnings';
+import { scoreDesign } from '../engine/externalValidation';
+import { sigmoid } from '../engine/loss';
+import { checkFitBudget } from './budget';
+import { performanceView } from './performance';
+import type { FitRequest, FitView, OddsRow } from './protocol';
+import { requireData, tick, type Session } from './session';
+
+type Hooks = { onProgress?: (d: number, t: number) => void; signal?: { aborted: boolean } };
+
+/** The pipeline record (data + spec + options + penalty) that fitting and bootstrap validation both run. */
+export function toPipeline(data: Dataset, req: FitRequest): Pipeline {
+  const penalised = req.method === 'ridge' || req.method === 'lasso' || req.method === 'elasticnet';
+  return {
+    data,
+    spec: req.spec,
+    fitOptions: { method: req.method === 'firth' ? 'firth' : 'ml', level: req.level, profile: req.profile },
+    penalty: penalised
+      ? { alpha: req.method === 'ridge' ? 0 : req.method === 'lasso' ? 1 : req.alpha, lambda: req.lambdaRule === 'min' ? 'cv-min' : 'cv-1se', folds: 10, criterion: 'deviance', nLambda: 100 }
+      : null,
+    seed: 1,
+  };
+}
+
+/** Fits the requested model, then computes its apparent performance and prepares the cut-off queries. */
+export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promise<FitView> {
+  const data = requireData(s);
+  checkFitBudget(data, req.spec, req.profile);
+  let result: FitResult;
+  let lambda: FitView['lambda'] = null;
+  const extra: EngineWarning[] = [];
+  if (req.method === 'ml' || req.method === 'firth') {
+    result = fit(data, req.spec, { method: req.method, level: req.level, profile: req.profile });
+  } else {
+    const pipeline = toPipeline(data, req);
+    const pf = await fitPipeline(pipeline, { ...hooks, tick });
+    const cv = pf.cv!;
+    lambda = {
+      alpha: pf.alpha ?? 0, lambdaMin: cv.path[cv.indexMin].lambda, lambda1se: cv.path[cv.index1se].lambda, chosen: pf.lambda,
+      rule: req.lambdaRule, path: cv.path.map((r) => ({ lambda: r.lambda, cvError: r.error, cvSe: r.se, nonzero: r.nonzero })),
+    };
+    extra.push(...pf.warnings);
+    if (req.method === 'ridge') {
+      result = fit(data, req.spec, { method: 'ridge', lambda: pf.lambda, level: req.level, profile: false });
+    } else {
+      const base = fit(data, req.spec, { method: 'ml', level: req.level, profile: false });
+      result = penalisedRecord(base, pf.coefficients.map((c) => c.estimate), data, pf.lambda);
+      extra.push(warning('penalised-no-inference', 'Penalised estimates are shrunk towards zero on purpose, so no valid confidence intervals or p-values exist for them.', 'Use bootstrap validation to judge the model; use the standard or Firth fit if you need intervals.'));
+    }
+  }
+  const d = designFromRecipe(result.recipe, data);
+  if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${result.recipe.outcome}" is missing.`);
+  const eta = scoreDesign(result, d.X, d.n);
+  const risk = eta.map(sigmoid);
+  const { view: performance, record } = performanceView(d.y, risk, eta, req.level);
+  s.fit = result;
+  s.request = req;
+  s.y = d.y;
+  s.risk = risk;
+  s.prepared = record.prepared ?? prepareThresholds(d.y, risk);
+  s.evaluation = { ...record, prepared: null };
+  s.validation = null;
+  const sampleSize = sampleSizeCheck(result);
+  s.sampleSize = sampleSize.record;
+  const warnings = dedupe([...result.warnings, ...extra, ...performance.warnings]);
+  return {
+    request: req, fit: result, rows: oddsRows(s, result), lambda, performance,
+    sampleSize: sampleSize.view, typical: typicalValues(data, result, d.rowsUsed), rowsUsed: d.n, warnings,
+  };
+}
+
+function dedupe(ws: EngineWarning[]): EngineWarning[] {
+  return ws.filter((w, i) => ws.findIndex((u) => u.code === w.code && u.message === w.message) === i);
+}
+
+/** A penalised (lasso / elastic-net) fit in the FitResult shape: no inference, deviance at the penalised estimate. */
+function penalisedRecord(base: FitResult, beta: number[], data: Dataset, lambda: number): FitResult {
+  const d = designFromRecipe(base.recipe, data);
+  const risk = scoreDesign({ recipe: base.recipe, coefficients: beta.map((estimate) => ({ estimate })) as { name: string; estimate: number }[] }, d.X, d.n).map(sigmoid);
+  let ll = 0;
+  for (let i = 0; i < d.n; i++) ll += d.y![i] === 1 ? Math.log(Math.max(risk[i], 1e-300)) : Math.log(Math.max(1 - risk[i], 1e-300));
+  const nonzero = beta.slice(1).filter((b) => b !== 0).length;
+  return {
+    ...base, method: 'ridge', lambda,
+    coefficients: base.coefficients.map((c, j) => ({
+      ...c, estimate: beta[j], oddsRatio: Math.exp(beta[j]), se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null,
+    })),
+    terms: base.terms.map((t) => ({ ...t, lrChi2: null, lrP: null })),
+    deviance: -2 * ll, logLik: ll, aic: NaN, bic: NaN, modelLrChi2: base.nullDeviance + 2 * ll, modelDf: nonzero, modelLrP: NaN,
+    covariance: null, warnings: base.warnings.filter((w) => w.code !== 'complete-separation' && w.code !== 'quasi-separation'),
+  };
+}
+
+function oddsRows(s: Session, f: FitResult): OddsRow[] {
+  const truth = s.summary?.truth ?? null;
+  const truthOf = (name: string): number | null => {
+    if (!truth) return null;
+    if (name === '(Intercept)') return truth.find((t) => t.column === null)?.value ?? null;
+    const hit = truth.find((t) => t.column !== null && (t.level === undefined ? name === t.column : name === `${t.column}=${t.level}`));
+    return hit ? hit.value : null;
+  };
+  return f.coefficients.map((c) => ({
+    name: c.name, term: c.term, estimate: c.estimate, oddsRatio: c.oddsRatio, se: c.se, p: c.p,
+    waldLower: c.waldLower, waldUpper: c.waldUpper, profileLower: c.profileLower, profileUpper: c.profileUpper,
+    aliased: c.aliased, truth: truthOf(c.name),
+  }));
+}
+
+function sampleSizeCheck(f: FitResult): { view: FitView['sampleSize']; record: SampleSizeResult | null } {
+  try {
+    const phi = f.events / f.nUsed;
+    let r2: number | undefined;
+    try { r2 = coxSnellR2(f.deviance, f.nullDeviance, f.nUsed); } catch { r2 = undefined; }
+    const input = { parameters: Math.max(1, f.parameters), outcomeProportion: phi, actual: { n: f.nUsed, events: f.events } };
+    let res;
+    try {
+      res = riley2020SampleSize({ ...input, r2cs: r2 !== undefined && r2 > 0 ? r2 : undefined });
+    } catch {
+      res = riley2020SampleSize(input);
+    }
+    return { view: { lines: res.summary, warnings: res.warnings }, record: res };
+  } catch (e) {
+    return { view: { lines: [`The sample-size check could not be computed: ${(e as Error).message}`], warnings: [] }, record: null };
+  }
+}
+
+/** Median of each numeric predictor and the reference level of each categorical one, over the rows used. */
+function typicalValues(data: Dataset, f: FitResult, rows: Int32Array): Record<string, string | number> {
+  const out: Record<string, string | number> = {};
+  for (const t of f.recipe.terms) {
+    if (t.type === 'interaction') continue;
+    if (t.type === 'categorical') { out[t.column] = t.reference; continue; }
+    const col = data.columns.find((c) => c.name === t.column);
+    if (!col || col.kind !== 'numeric') continue;
+    const v = Float64Array.from(rows, (r) => col.values[r]).sort();
+    out[t.column] = v.length ? v[Math.floor((v.length - 1) / 2)] : NaN;
+  }
+  return out;
+}
