@@ -35,7 +35,9 @@ export function summarise(r: FitRun): string {
       out.push(table(['Term', 'df', 'LR χ²', 'p'], f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)])));
       out.push('');
     }
-    out.push(`Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`);
+    out.push(f.modelLrChi2 === null
+      ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); no LR test, AIC or BIC for a penalised fit`
+      : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`);
   } else {
     const p = r.penalised!;
     const kind = p.alpha === 1 ? 'lasso' : p.alpha === 0 ? 'ridge' : `elastic net (α = ${p.alpha})`;

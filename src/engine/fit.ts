@@ -229,15 +229,16 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
     warnings.push(warning('low-events-per-parameter', `${eventsPerParameter.toFixed(1)} ${events <= nonEvents ? 'events' : 'non-events'} per estimated coefficient (fewer than the common rule of thumb of 10); estimates may be biased away from zero and the model may be overfitted.`, 'Consider fewer predictors, Firth\'s method, or a ridge penalty, and validate internally.'));
   }
   if (ridge) {
-    warnings.push(warning('penalised-no-inference', `Ridge estimates (λ = ${o.lambda}) are shrunk towards zero on purpose, so standard errors, p-values and confidence intervals are not valid and are not shown; the model likelihood-ratio statistic is descriptive only.`, 'Use bootstrap validation to judge the model, or refit with maximum likelihood or Firth for an inference table.'));
+    warnings.push(warning('penalised-no-inference', `Ridge estimates (λ = ${o.lambda.toPrecision(4)}) are shrunk towards zero on purpose, so standard errors, p-values, confidence intervals, likelihood-ratio tests and AIC/BIC are not valid and are not shown.`, 'Use bootstrap validation to judge the model, or refit with maximum likelihood or Firth for an inference table.'));
   }
 
   return {
     method: o.method, lambda: ridge ? o.lambda : 0, level: o.level,
     converged: nr.converged, iterations: nr.iterations,
     coefficients, terms,
-    deviance, nullDeviance: nullDev, logLik: nr.logLik, aic, bic,
-    modelLrChi2, modelDf, modelLrP,
+    deviance, nullDeviance: nullDev, logLik: nr.logLik,
+    aic: ridge ? null : aic, bic: ridge ? null : bic,
+    modelLrChi2: ridge ? null : modelLrChi2, modelDf, modelLrP: ridge ? null : modelLrP,
     nUsed: n, nDropped: design.nDropped, droppedByColumn: design.droppedByColumn,
     events, nonEvents, parameters, eventsPerParameter,
     covariance: covariance ? Array.from(covariance) : null,

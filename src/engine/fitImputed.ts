@@ -67,7 +67,7 @@ export async function fitImputed(data: Dataset, spec: ModelSpec, imp: MiceResult
   const imputedRows = new Set<number>();
   for (const c of imp.imputed) for (const i of c.rows) imputedRows.add(i);
   return {
-    ...pooled, warnings, method: fits[0].method, nRows: data.nRows, nImputedRows: imputedRows.size,
+    ...pooled, warnings, method: fits[0].method as FitOptions['method'], nRows: data.nRows, nImputedRows: imputedRows.size,
     nExcluded: keep ? data.nRows - keep.length : 0,
     events: fits.reduce((s, f) => s + f.events, 0) / imp.m, nonEvents: fits.reduce((s, f) => s + f.nonEvents, 0) / imp.m, notConverged,
   };

@@ -13,11 +13,20 @@ export interface ModelSpec {
   terms: TermSpec[];
 }
 
-export type FitMethod = 'ml' | 'ridge' | 'firth';
+/**
+ * 'ml', 'ridge' and 'firth' come from fit(); 'lasso' and 'elastic-net' (and ridge with λ chosen by
+ * cross-validation) from the penalised pipeline, whose records carry no inference.
+ */
+export type FitMethod = 'ml' | 'ridge' | 'firth' | 'lasso' | 'elastic-net';
+
+/** Penalised fits: estimates are shrunk on purpose, so no SEs, p-values or CIs are reported. */
+export function isPenalised(method: FitMethod): boolean {
+  return method === 'ridge' || method === 'lasso' || method === 'elastic-net';
+}
 
 export interface FitOptions {
   /** 'ml' = maximum likelihood; 'ridge' = L2 at `lambda`; 'firth' = Jeffreys-prior penalised likelihood. */
-  method: FitMethod;
+  method: 'ml' | 'ridge' | 'firth';
   /** Ridge strength on the standardised scale: objective −(1/n)·loglik + (λ/2)·‖β_std‖², intercept unpenalised. */
   lambda: number;
   /** Convergence: relative change in deviance (and max |Δβ| on the standardised scale) below tol. */
@@ -84,6 +93,8 @@ export interface DesignRecipe {
 export interface FitResult {
   method: FitMethod;
   lambda: number;
+  /** Elastic-net mixing (1 = lasso, 0 = ridge) for penalised-pipeline fits; absent otherwise. */
+  alpha?: number;
   level: number;
   converged: boolean;
   iterations: number;
@@ -93,12 +104,13 @@ export interface FitResult {
   deviance: number;
   nullDeviance: number;
   logLik: number;
-  aic: number;
-  bic: number;
-  /** Model likelihood-ratio test against the intercept-only model. */
-  modelLrChi2: number;
+  /** null for penalised fits (the penalised estimate is not a likelihood maximum). */
+  aic: number | null;
+  bic: number | null;
+  /** Model likelihood-ratio test against the intercept-only model; null for penalised fits. */
+  modelLrChi2: number | null;
   modelDf: number;
-  modelLrP: number;
+  modelLrP: number | null;
   nUsed: number;
   nDropped: number;
   /** Rows dropped because of a missing value, per column name. */

@@ -4,7 +4,7 @@ import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks
 import { FulcraError, type Dataset } from './data';
 import { buildDesign } from './design';
 import { validateFitOptions } from './fit';
-import { defaultFitOptions, type DesignRecipe, type FitOptions, type ModelSpec } from './model';
+import { defaultFitOptions, type DesignRecipe, type FitMethod, type FitOptions, type ModelSpec } from './model';
 import { newtonLogistic } from './newton';
 import { standardise } from './standardise';
 import { warning, type EngineWarning } from './warnings';
@@ -67,7 +67,7 @@ export interface ProcedureFit {
 
 /** A fitted pipeline as a scoring model: coefficients aligned with recipe.columnNames. */
 export interface PipelineFit {
-  method: 'ml' | 'firth' | 'ridge' | 'elastic-net';
+  method: FitMethod;
   alpha: number | null;
   lambda: number;
   coefficients: { name: string; estimate: number; oddsRatio: number }[];
@@ -151,7 +151,8 @@ function interceptOnly(y: Float64Array, weights?: Float64Array): Float64Array {
 export async function fitPipeline(pipeline: Pipeline, hooks?: LongRunHooks): Promise<PipelineFit> {
   const d = pipelineDesign(pipeline);
   const f = await fitProcedure(d, pipeline, undefined, pipeline.seed, hooks);
-  const method = pipeline.penalty ? 'elastic-net' : (pipeline.fitOptions.method ?? defaultFitOptions.method);
+  const a = pipeline.penalty?.alpha;
+  const method: FitMethod = pipeline.penalty ? (a === 1 ? 'lasso' : a === 0 ? 'ridge' : 'elastic-net') : (pipeline.fitOptions.method ?? defaultFitOptions.method);
   const warnings = [...d.warnings, ...(f.cv?.warnings ?? [])];
   if (!f.converged) {
     warnings.push(warning('not-converged', 'The model fit did not converge.', 'Raise the iteration limit, or use a penalty or Firth correction if the data separate.'));

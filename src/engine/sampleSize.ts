@@ -78,7 +78,7 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   const fromFit = input.r2cs === undefined && input.fitted !== undefined;
   const r2 = input.r2cs ?? (input.fitted ? coxSnellR2(input.fitted.deviance, input.fitted.nullDeviance, input.fitted.n) : 0.15 * maxR2);
   const source: SampleSizeResult['r2csSource'] = input.r2cs !== undefined ? 'given' : fromFit ? 'fitted-model' : 'default-15-percent-of-max';
-  if (!(r2 > 0 && r2 < maxR2)) throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome proportion of ${phi}, got ${r2}.`);
+  if (!(r2 > 0 && r2 < maxR2)) throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome proportion of ${Number(phi.toPrecision(3))}, got ${r2}.`);
   if (!(r2 < S)) throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² (${r2}) must be below the target shrinkage (${S}).`);
   const warnings: EngineWarning[] = [];
   if (fromFit) {
@@ -99,7 +99,7 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   for (const c of criteria) c.text += ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events per parameter).`;
   const bindingC = criteria.reduce((a, b) => (b.n > a.n ? b : a));
   const summary = [
-    `With ${P} candidate parameter${P === 1 ? '' : 's'}, an outcome proportion of ${phi} and a Cox–Snell R² of ${r2.toFixed(3)}${source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)'}, the model needs at least ${bindingC.n} cases (${bindingC.events} events, ${bindingC.eventsPerParameter.toFixed(1)} events per parameter).`,
+    `With ${P} candidate parameter${P === 1 ? '' : 's'}, an outcome proportion of ${Number(phi.toPrecision(3))} and a Cox–Snell R² of ${r2.toFixed(3)}${source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)'}, the model needs at least ${bindingC.n} cases (${bindingC.events} events, ${bindingC.eventsPerParameter.toFixed(1)} events per parameter).`,
     `The binding requirement is criterion (${bindingC.id}).`,
     ...criteria.map((c) => c.text),
   ];

@@ -1,3 +1,4 @@
+import { oddsRatio } from '../engine/oddsRatio';
 import { FulcraError, type Dataset } from '../engine/data';
 import { designFromRecipe } from '../engine/design';
 import { fit } from '../engine/fit';
@@ -51,7 +52,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promi
       result = fit(data, req.spec, { method: 'ridge', lambda: pf.lambda, level: req.level, profile: false });
     } else {
       const base = fit(data, req.spec, { method: 'ml', level: req.level, profile: false });
-      result = penalisedRecord(base, pf.coefficients.map((c) => c.estimate), data, pf.lambda);
+      result = penalisedRecord(base, pf.coefficients.map((c) => c.estimate), data, pf.lambda, pf.alpha ?? 1);
       extra.push(warning('penalised-no-inference', 'Penalised estimates are shrunk towards zero on purpose, so no valid confidence intervals or p-values exist for them.', 'Use bootstrap validation to judge the model; use the standard or Firth fit if you need intervals.'));
     }
   }
@@ -81,19 +82,19 @@ function dedupe(ws: EngineWarning[]): EngineWarning[] {
 }
 
 /** A penalised (lasso / elastic-net) fit in the FitResult shape: no inference, deviance at the penalised estimate. */
-function penalisedRecord(base: FitResult, beta: number[], data: Dataset, lambda: number): FitResult {
+function penalisedRecord(base: FitResult, beta: number[], data: Dataset, lambda: number, alpha: number): FitResult {
   const d = designFromRecipe(base.recipe, data);
   const risk = scoreDesign({ recipe: base.recipe, coefficients: beta.map((estimate) => ({ estimate })) as { name: string; estimate: number }[] }, d.X, d.n).map(sigmoid);
   let ll = 0;
   for (let i = 0; i < d.n; i++) ll += d.y![i] === 1 ? Math.log(Math.max(risk[i], 1e-300)) : Math.log(Math.max(1 - risk[i], 1e-300));
   const nonzero = beta.slice(1).filter((b) => b !== 0).length;
   return {
-    ...base, method: 'ridge', lambda,
+    ...base, method: alpha === 1 ? 'lasso' : alpha === 0 ? 'ridge' : 'elastic-net', alpha, lambda,
     coefficients: base.coefficients.map((c, j) => ({
-      ...c, estimate: beta[j], oddsRatio: Math.exp(beta[j]), se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null,
+      ...c, estimate: beta[j], oddsRatio: oddsRatio(beta[j]), se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null,
     })),
     terms: base.terms.map((t) => ({ ...t, lrChi2: null, lrP: null })),
-    deviance: -2 * ll, logLik: ll, aic: NaN, bic: NaN, modelLrChi2: base.nullDeviance + 2 * ll, modelDf: nonzero, modelLrP: NaN,
+    deviance: -2 * ll, logLik: ll, aic: null, bic: null, modelLrChi2: null, modelDf: nonzero, modelLrP: null,
     covariance: null, warnings: base.warnings.filter((w) => w.code !== 'complete-separation' && w.code !== 'quasi-separation'),
   };
 }

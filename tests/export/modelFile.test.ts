@@ -68,7 +68,7 @@ describe('model file', () => {
       [(f) => f.coefficients.pop(), /"coefficients" has 10 rows but recipe\.columnNames has 11/],
       [(f) => (f.recipe.terms[2].reference = '9'), /"recipe\.terms\[2\]\.reference" \("9"\) is not one of the levels/],
       [(f) => (f.covariance = [1, 2]), /"covariance" must have 121 entries/],
-      [(f) => (f.fit.method = 'lasso'), /"fit\.method" must be one of ml, ridge, firth/],
+      [(f) => (f.fit.method = 'boosted'), /"fit\.method" must be one of ml, ridge, firth, lasso, elastic-net/],
     ];
     for (const [edit, message] of cases) {
       const f = JSON.parse(saved());

@@ -167,7 +167,7 @@ describe('model-summary PDF with little to report', () => {
     expect(text).toContain('10. Cautions');
     expect(text).not.toContain('Decision threshold');
     expect(text).toContain('Intervals: none (not valid for this method).');
-    expect(text).toContain('not reported (no valid intervals after ridge shrinkage)');
+    expect(text).toContain('not reported (no valid intervals after penalised shrinkage)');
   });
 
   it('builds from a model re-opened from its file, with the same equation', () => {

@@ -46,11 +46,11 @@ export interface ModelFile {
     deviance: number;
     nullDeviance: number;
     logLik: number;
-    aic: number;
-    bic: number;
-    modelLrChi2: number;
+    aic: number | null;
+    bic: number | null;
+    modelLrChi2: number | null;
     modelDf: number;
-    modelLrP: number;
+    modelLrP: number | null;
   };
   training: {
     fileName: string | null;

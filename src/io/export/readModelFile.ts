@@ -54,6 +54,7 @@ export function readModelFile(text: string): ModelFile {
   if (covariance && covariance.length !== coefs.length * coefs.length) c.fail('covariance', `must have ${coefs.length * coefs.length} entries (p×p), has ${covariance.length}`);
   const f = c.object(o.fit, 'fit');
   const num = (k: string) => c.number(f[k], `fit.${k}`);
+  const numOrNull = (k: string) => (f[k] === null ? null : num(k));
   const t = c.object(o.training, 'training');
   const th = o.threshold === null || o.threshold === undefined ? null : c.object(o.threshold, 'threshold');
   const notes = o.notes === undefined ? {} : c.object(o.notes, 'notes');
@@ -74,11 +75,11 @@ export function readModelFile(text: string): ModelFile {
     terms,
     covariance,
     fit: {
-      method: c.oneOf(f.method, ['ml', 'ridge', 'firth'] as const, 'fit.method'),
+      method: c.oneOf(f.method, ['ml', 'ridge', 'firth', 'lasso', 'elastic-net'] as const, 'fit.method'),
       lambda: num('lambda'), level: num('level'), converged: c.boolean(f.converged, 'fit.converged'), iterations: num('iterations'),
       nUsed: num('nUsed'), nDropped: num('nDropped'), events: num('events'), nonEvents: num('nonEvents'), parameters: num('parameters'),
-      deviance: num('deviance'), nullDeviance: num('nullDeviance'), logLik: num('logLik'), aic: num('aic'), bic: num('bic'),
-      modelLrChi2: num('modelLrChi2'), modelDf: num('modelDf'), modelLrP: num('modelLrP'),
+      deviance: num('deviance'), nullDeviance: num('nullDeviance'), logLik: num('logLik'), aic: numOrNull('aic'), bic: numOrNull('bic'),
+      modelLrChi2: numOrNull('modelLrChi2'), modelDf: num('modelDf'), modelLrP: numOrNull('modelLrP'),
     },
     training: {
       fileName: t.fileName === null || t.fileName === undefined ? null : c.string(t.fileName, 'training.fileName'),

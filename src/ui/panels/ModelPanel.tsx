@@ -52,10 +52,17 @@ function FitSummary({ view }: { view: FitView }) {
         <p>Penalty λ = {num(view.lambda.chosen, 5)} ({view.lambda.rule === '1se' ? 'one-standard-error rule' : 'lowest CV deviance'};
           λ at the minimum {num(view.lambda.lambdaMin, 5)}, by the 1-SE rule {num(view.lambda.lambda1se, 5)}; α = {num(view.lambda.alpha, 2)}).</p>
       )}
-      <p>
-        Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors: likelihood-ratio χ² = {num(f.modelLrChi2, 2)} on {f.modelDf} df,
-        p {pValue(f.modelLrP).startsWith('<') ? pValue(f.modelLrP) : `= ${pValue(f.modelLrP)}`}. AIC {num(f.aic, 1)}, BIC {num(f.bic, 1)}.
-      </p>
+      {f.modelLrChi2 === null || f.modelLrP === null ? (
+        <p>
+          Deviance {num(f.deviance, 2)} at the shrunken estimates vs {num(f.nullDeviance, 2)} without predictors. No likelihood-ratio
+          test, AIC or BIC: the penalised estimate is not a likelihood maximum.
+        </p>
+      ) : (
+        <p>
+          Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors: likelihood-ratio χ² = {num(f.modelLrChi2, 2)} on {f.modelDf} df,
+          p {pValue(f.modelLrP).startsWith('<') ? pValue(f.modelLrP) : `= ${pValue(f.modelLrP)}`}. AIC {num(f.aic, 1)}, BIC {num(f.bic, 1)}.
+        </p>
+      )}
     </section>
   );
 }

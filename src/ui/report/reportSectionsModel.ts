@@ -1,3 +1,4 @@
+import { isPenalised } from '../../engine/model';
 import type { FitResult } from '../../engine/model';
 import { modelEquation, riskFormula } from './equation';
 import { DASH, formatCount, formatFixed, formatOr, formatP, formatPercent, formatPlain, formatSig, levelText } from './format';
@@ -93,13 +94,15 @@ export function method(L: PdfLayout, input: ReportInput): void {
   } else if (m.method === 'firth') {
     text = 'Logistic regression with Firth\u2019s penalised likelihood (Jeffreys prior; Firth 1993, Biometrika 80:27), which reduces small-sample bias and gives finite estimates under separation (Heinze & Schemper 2002, Stat Med 21:2409).';
   } else {
-    text = `Ridge (L2) penalised logistic regression, \u03bb = ${formatSig(m.lambda, 4)} on the standardised scale (intercept not penalised). \u03bb chosen by: ${input.lambdaChoice ?? 'set by the user'}. Coefficients are shrunk towards zero; standard errors, p-values and intervals of a ridge fit are not valid and are not reported.`;
+    const kind = m.method === 'lasso' ? 'Lasso (L1)' : m.method === 'elastic-net' ? `Elastic-net (\u03b1 = ${formatSig(m.alpha ?? 0.5, 3)}: L1 share)` : 'Ridge (L2)';
+    text = `${kind} penalised logistic regression, \u03bb = ${formatSig(m.lambda, 4)} on the standardised scale (intercept not penalised). \u03bb chosen by: ${input.lambdaChoice ?? 'set by the user'}. Coefficients are shrunk towards zero on purpose; standard errors, p-values and intervals of a penalised fit are not valid and are not reported.`;
   }
+  const penalised = isPenalised(m.method);
   const rows: [string, string][] = [
     ['Method', text],
     ['Convergence', m.converged ? `converged in ${m.iterations} iterations` : `did NOT converge after ${m.iterations} iterations; estimates are unreliable`],
-    ['Intervals', m.method === 'ridge' ? 'not reported (no valid intervals after ridge shrinkage)' : `${levelText(m.level)} confidence intervals; profile likelihood where available, otherwise Wald`],
-    ['Fit', m.method === 'ridge'
+    ['Intervals', penalised ? 'not reported (no valid intervals after penalised shrinkage)' : `${levelText(m.level)} confidence intervals; profile likelihood where available, otherwise Wald`],
+    ['Fit', penalised
       ? `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}), unpenalised, at the shrunken estimates`
       : `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}); likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`],
   ];
