@@ -1,0 +1,95 @@
+import { readFileSync } from 'node:fs';
+import { bootstrapValidation } from '../../engine/bootstrap';
+import type { Dataset } from '../../engine/data';
+import { fit } from '../../engine/fit';
+import { lossSurface } from '../../engine/lossSurface';
+import type { ModelSpec } from '../../engine/model';
+import { createRng } from '../../engine/rng';
+import { atThreshold, prepareThresholds } from '../../engine/threshold';
+import { importFile } from '../../io';
+import { ensureSynth, readBin, type SynthFiles } from './synth';
+
+/** One timed measurement of the benchmark besides the model fits. */
+export interface Measurement {
+  name: string;
+  value: number;
+  unit: string;
+  detail: string;
+  /** CPU seconds (user + system) of the timed part: on a shared machine this is steadier than wall time. */
+  cpuSeconds?: number;
+}
+
+const seconds = (t0: bigint): number => Number(process.hrtime.bigint() - t0) / 1e9;
+const cpu = (c0: NodeJS.CpuUsage): number => { const c = process.cpuUsage(c0); return (c.user + c.system) / 1e6; };
+
+/** The synthetic data set as an engine Dataset (numeric x1..xp and y). */
+export function synthDataset(f: SynthFiles): Dataset {
+  const X = readBin(f.xBin);
+  const columns: Dataset['columns'] = [];
+  for (let j = 0; j < f.p; j++) columns.push({ kind: 'numeric', name: `x${j + 1}`, values: X.slice(j * f.n, (j + 1) * f.n) });
+  columns.push({ kind: 'numeric', name: 'y', values: readBin(f.yBin) });
+  return { nRows: f.n, columns };
+}
+
+const mainEffects = (p: number): ModelSpec => ({ outcome: 'y', event: '1', terms: Array.from({ length: p }, (_, j) => ({ type: 'main' as const, column: `x${j + 1}` })) });
+
+/** CSV import throughput through src/io importFile (the worker's import) on a synthetic file. */
+export async function csvImport(dir: string, n: number, p: number, seed: number): Promise<Measurement> {
+  const f = ensureSynth(dir, n, p, seed);
+  const bytes = new Uint8Array(readFileSync(f.csv));
+  const c0 = process.cpuUsage(), t0 = process.hrtime.bigint();
+  const r = await importFile(bytes, 'bench.csv');
+  const s = seconds(t0), c = cpu(c0);
+  const ok = r.dataset.nRows === n && r.dataset.columns.length === p + 1;
+  return {
+    name: `CSV import ${n}×${p + 1}`, value: bytes.byteLength / 1e6 / s, unit: 'MB/s', cpuSeconds: c,
+    detail: `${(bytes.byteLength / 1e6).toFixed(1)} MB in ${s.toFixed(2)} s through importFile (file already in memory)${ok ? '' : '; WRONG SHAPE ' + r.dataset.nRows + '×' + r.dataset.columns.length}`,
+  };
+}
+
+/** prepareThresholds once, then the median time of `queries` atThreshold calls at random thresholds. */
+export function thresholdQueries(n: number, queries: number, seed: number): Measurement[] {
+  const rng = createRng(seed);
+  const risk = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const r = 1 / (1 + Math.exp(-(1.4 * rng.normal() - 1.2)));
+    risk[i] = Math.round(r * 1e6) / 1e6;
+    y[i] = rng.next() < r ? 1 : 0;
+  }
+  const c0 = process.cpuUsage();
+  let t0 = process.hrtime.bigint();
+  const prep = prepareThresholds(y, risk);
+  const prepS = seconds(t0), prepC = cpu(c0);
+  const times = new Float64Array(queries);
+  let sink = 0;
+  for (let q = 0; q < queries; q++) {
+    const t = rng.next();
+    t0 = process.hrtime.bigint();
+    sink += atThreshold(prep, t, { costs: { falseNegative: 10, falsePositive: 1 } }).tp;
+    times[q] = seconds(t0);
+  }
+  times.sort();
+  return [
+    { name: `threshold query at n = ${n}`, value: times[queries >> 1] * 1e3, unit: 'ms', detail: `median of ${queries} atThreshold calls (99th percentile ${(times[Math.floor(queries * 0.99)] * 1e3).toFixed(4)} ms) after one prepareThresholds; checksum ${sink}` },
+    { name: `threshold prepare at n = ${n}`, value: prepS, unit: 's', cpuSeconds: prepC, detail: 'prepareThresholds (one sort)' },
+  ];
+}
+
+/** Optimism-corrected bootstrap (the whole ML procedure per replicate). */
+export async function bootstrap(dir: string, n: number, p: number, B: number, seed: number): Promise<Measurement> {
+  const data = synthDataset(ensureSynth(dir, n, p, seed));
+  const c0 = process.cpuUsage(), t0 = process.hrtime.bigint();
+  const r = await bootstrapValidation({ data, spec: mainEffects(p), fitOptions: {}, penalty: null, seed: 1 }, { B, seed: 1 });
+  const s = seconds(t0), c = cpu(c0);
+  return { name: `bootstrap B = ${B} at ${n}×${p}`, value: s, unit: 's', cpuSeconds: c, detail: `bootstrapValidation; ${r.failed} failed replicates, corrected AUC ${r.rows[0].corrected?.toFixed(4)}` };
+}
+
+/** Loss surface on a G×G grid for the first two slopes of an ML fit. */
+export function surface(dir: string, n: number, p: number, grid: number, seed: number): Measurement {
+  const data = synthDataset(ensureSynth(dir, n, p, seed));
+  const res = fit(data, mainEffects(p), { profile: false });
+  const c0 = process.cpuUsage(), t0 = process.hrtime.bigint();
+  const ls = lossSurface(res, data, { i: 1, j: 2, grid });
+  const s = seconds(t0), c = cpu(c0);
+  return { name: `loss surface ${grid}×${grid} at ${n}×${p}`, value: s, unit: 's', cpuSeconds: c, detail: `lossSurface (grid + Newton path); ${ls.z.length} points` };
+}

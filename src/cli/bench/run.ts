@@ -1,0 +1,97 @@
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { join } from 'node:path';
+import type { FitChildArgs, FitChildResult } from './fitChild';
+import type { SynthFiles } from './synth';
+import type { SolverName } from './solvers';
+
+const here = join(process.cwd(), 'src', 'cli', 'bench');
+
+/** One timed fit: Fulcra or a reference library. */
+export interface FitTiming {
+  who: string;
+  library: string;
+  seconds: number[];
+  cpuSeconds: number[];
+  median: number;
+  iterations: number | null;
+  beta: number[];
+  /** max_j |β_j − β*_j| / |β*_j| against the tightly converged β*. */
+  gap: number | null;
+  maxRssBytes?: number;
+  /** Peak RSS minus the RSS of the runtime before the data were loaded. */
+  addedRssBytes?: number;
+  notes: string[];
+}
+
+export const median = (v: number[]): number => {
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+};
+
+export const maxRelGap = (b: number[], ref: number[]): number => {
+  let g = 0;
+  for (let j = 0; j < ref.length; j++) g = Math.max(g, Math.abs(b[j] - ref[j]) / Math.max(Math.abs(ref[j]), 1e-300));
+  return g;
+};
+
+/** Threads the reference libraries may use: stated in the output; the caller's settings win. */
+export function referenceThreads(): Record<string, string> {
+  const cores = String(availableParallelism());
+  return { OPENBLAS_NUM_THREADS: process.env.OPENBLAS_NUM_THREADS ?? cores, OMP_NUM_THREADS: process.env.OMP_NUM_THREADS ?? cores };
+}
+
+function runJson(cmd: string, args: string[], env?: Record<string, string>): { ok: true; value: any } | { ok: false; error: string } {
+  const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28, env: { ...process.env, ...env } });
+  if (r.error) return { ok: false, error: String(r.error.message) };
+  if (r.status !== 0) return { ok: false, error: (r.stderr || r.stdout || `exit ${r.status}`).trim().split('\n').slice(-3).join(' | ') };
+  const line = r.stdout.trim().split('\n').pop() ?? '';
+  try {
+    return { ok: true, value: JSON.parse(line) };
+  } catch {
+    return { ok: false, error: `unreadable output: ${line.slice(0, 200)}` };
+  }
+}
+
+export function fulcraFit(f: SynthFiles, solver: SolverName, repeats: number, polish: boolean, threads = 1): { timing: FitTiming; tight?: number[] } | { error: string } {
+  const args: FitChildArgs = { xBin: f.xBin, yBin: f.yBin, n: f.n, p: f.p, solver, tol: 1e-10, repeats, polish, threads };
+  const r = runJson(process.execPath, ['--import', 'tsx', join(here, 'fitChild.ts'), JSON.stringify(args)]);
+  if (!r.ok) return { error: r.error };
+  const v = r.value as FitChildResult;
+  const library = solver === 'engine'
+    ? 'Fulcra newtonLogistic (src/engine/newton.ts, tol 1e-10), Node, 1 thread'
+    : `Fulcra prototype fastNewtonLogistic (src/cli/bench/fastNewton.ts: subsampled Hessian + one exact Hessian), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads pool for the full-data passes, started before the timer)`}`;
+  return {
+    timing: {
+      who: solver === 'engine' ? 'Fulcra engine' : threads === 1 ? 'Fulcra prototype' : `Fulcra prototype ×${threads}`, library, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
+      median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, maxRssBytes: v.maxRssBytes,
+      addedRssBytes: v.maxRssBytes - v.baselineRssBytes,
+      notes: [v.converged ? '' : 'not converged', `peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`].filter(Boolean),
+    },
+    tight: v.tight,
+  };
+}
+
+export function sklearnFit(f: SynthFiles, solver: 'newton-cholesky' | 'lbfgs', repeats: number): FitTiming | { error: string } {
+  const py = '/usr/bin/python3';
+  if (!existsSync(py)) return { error: `${py} not found` };
+  const r = runJson(py, [join(here, 'reference', 'sklearn_fit.py'), f.xBin, f.yBin, String(f.n), String(f.p), solver, '1e-10', String(repeats)], referenceThreads());
+  if (!r.ok) return { error: r.error };
+  const v = r.value;
+  return {
+    who: `sklearn ${solver}`, library: `${v.library}; BLAS ${v.threads.join(', ')}`, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
+    median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, notes: v.warnings,
+  };
+}
+
+export function glmFit(f: SynthFiles, repeats: number): FitTiming | { error: string } {
+  const r = runJson('Rscript', [join(here, 'reference', 'glm_fit.R'), f.xBin, f.yBin, String(f.n), String(f.p), '1e-10', String(repeats)], referenceThreads());
+  if (!r.ok) return { error: r.error };
+  const v = r.value;
+  return {
+    who: 'R glm.fit', library: `${v.library} (LINPACK QR, no multithreaded BLAS in the IRLS loop)`, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
+    median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, notes: v.converged ? [] : ['not converged'],
+  };
+}
