@@ -6,6 +6,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { expect, test, type Page } from '@playwright/test';
 import { generateDemo } from '../src/engine/demo';
 import { fit } from '../src/engine/fit';
+import { makeXlsx, type XCell } from '../tests/fixtures/bad-input/xlsxWriter';
 
 /**
  * The single-file build (`vite build --mode single`), opened from disk the way a user opens a copy from a USB
@@ -126,4 +127,16 @@ test('its blob: worker inherits the policy: it can neither connect nor eval', as
     return { blob, evalRan: (self as unknown as { __evalRan?: boolean }).__evalRan === true, refused: [...new Set(refused)].sort() };
   });
   expect(probe).toEqual({ blob: 'refused', evalRan: false, refused: ['connect-src', 'script-src'] });
+});
+
+test('opened from file:// it imports a large Excel workbook, whose unzipper starts a blob: worker inside the engine worker', async ({ page }) => {
+  const seen = watch(page);
+  const sheet: XCell[][] = [['case_id', 'ward', 'age', 'infected']];
+  for (let i = 0; i < 20_000; i++) sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
+  await page.goto(pageUrl);
+  await page.getByTestId('file-input').setInputFiles({ name: 'cases.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+    buffer: Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true)) });
+  await expect(page.getByText('20,000 rows × 4 columns')).toBeVisible({ timeout: 60_000 });
+  expect(seen.requests.filter((u) => !ON_DISK.test(u)), 'requests beyond file:/blob:/data:').toEqual([]);
+  expect(seen.errors, 'console errors').toEqual([]);
 });
