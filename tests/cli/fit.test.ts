@@ -59,3 +59,32 @@ describe('parseFitArgs', () => {
     expect(() => parseFitArgs(argv)).toThrow(text);
   });
 });
+
+describe('runFit (the record behind npm run fit --json)', () => {
+  it('validates externally with the same calibration-in-the-large and slope as R glm with an offset (fixture validate-recalibration.json, R 4.2.2 stats::glm)', async () => {
+    const { runFit } = await import('../../src/cli/runFit');
+    const rec = JSON.parse(readFileSync('tests/fixtures/reference/validate-recalibration.json', 'utf8'));
+    const argv = ['tests/fixtures/data/validate-pima-tr.csv', '--outcome', 'type', '--event', 'Yes', '--test', 'tests/fixtures/data/validate-pima-te.csv', '--costs', '4:1'];
+    const run = await runFit(parseFitArgs(argv), argv, 'test');
+    run.fit!.coefficients.forEach((c, j) => expect(relErr(c.estimate, rec.devCoef[j])).toBeLessThan(1e-6));
+    const cal = run.external!.evaluation.calibration;
+    expect(cal.interceptInTheLarge!.estimate).toBeCloseTo(rec.citlCoef[0], 6);
+    expect(cal.slope!.estimate).toBeCloseTo(rec.slopeCoef[1], 6);
+    // p* = C_FP / (C_FP + C_FN) = 1/5 (arithmetic of the decision-theory formula)
+    expect(run.evaluation.costs!.thresholds.decisionTheory.threshold).toBeCloseTo(0.2, 12);
+    expect(run.evaluation.atThreshold!.threshold).toBeCloseTo(0.2, 12);
+  }, 60_000);
+
+  it('runs a lasso with λ by cross-validation and a seeded bootstrap that repeats exactly', async () => {
+    const { runFit } = await import('../../src/cli/runFit');
+    const argv = ['tests/fixtures/data/birthwt.csv', '--outcome', 'low', '--predictors', 'age,lwt,race,smoke,ptl,ht,ui',
+      '--categorical', 'race', '--penalty', 'lasso', '--bootstrap', '5', '--seed', '11'];
+    const a = await runFit(parseFitArgs(argv), argv, 'test');
+    const b = await runFit(parseFitArgs(argv), argv, 'test');
+    expect(a.fit).toBeNull();
+    expect(a.penalised!.method).toBe('lasso');
+    expect(a.penalised!.lambda).toBeGreaterThan(0);
+    expect(a.validation!.rows).toEqual(b.validation!.rows);
+    expect(a.validation!.rows.find((r) => r.metric === 'auc')!.corrected).toBeLessThanOrEqual(a.evaluation.auc.auc! + 1e-12);
+  }, 120_000);
+});
