@@ -5,9 +5,10 @@
 import type { MissingReport } from '../engine/missingReport';
 import type { EngineWarning, ModelSpec } from '../engine/model';
 import type {
-  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, RiskCurveView,
+  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
   ScoreView, ThresholdView, ValidationView,
 } from '../worker/protocol';
+import type { WorkbenchSettings } from './workspace';
 import { initialState, type AppState, type ImportSettings, type Job, type Notice, type PredictorRole, type ViewId } from './appState';
 
 type Perform<I> = (state: AppState, input: I) => AppState;
@@ -40,7 +41,7 @@ export const dataLoaded: Perform<DataSummary> = (s, data) => {
     if (s.outcome && names.has(s.outcome)) { outcome = s.outcome; event = s.event; }
   }
   const base: AppState = {
-    ...initialState, costs: s.costs, notices: s.notices, importSettings: s.importSettings,
+    ...initialState, costs: s.costs, notices: s.notices, importSettings: s.importSettings, reportText: s.reportText,
     nextNoticeId: s.nextNoticeId, jobs: s.jobs, data, roles, outcome, event,
     interactions: reread ? s.interactions.filter(([a, b]) => roles[a]?.include && roles[b]?.include) : [],
   };
@@ -131,8 +132,36 @@ export const dismiss: Perform<number> = (s, id) => ({ ...s, notices: s.notices.f
 
 /** The worker stopped: everything held in it is gone. */
 export const workerLost: Perform<string> = (s, text) =>
-  notify({ ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs },
+  notify({ ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs, reportText: s.reportText },
     { kind: 'error', text, suggestion: 'Open your file or a demo again.', action: 'reload' });
+
+/** The user's words for the model summary. */
+export const setReportText: Perform<Partial<ReportText>> = (s, text) => ({ ...s, reportText: { ...s.reportText, ...text } });
+
+/**
+ * A saved workspace came back (from this browser or a file): its data summary, then the roles, model options,
+ * cut-off, costs and words it was saved with. Columns the data no longer have are ignored.
+ */
+export const workspaceRestored: Perform<{ summary: DataSummary; settings: WorkbenchSettings }> = (s, { summary, settings: w }) => {
+  const loaded = dataLoaded({ ...s, data: null }, { ...summary, warnings: [] });
+  const names = new Set(summary.columns.map((c) => c.name));
+  const roles = { ...loaded.roles };
+  for (const [name, r] of Object.entries(w.roles)) if (names.has(name)) roles[name] = r;
+  const known = (c: string | null) => (c !== null && names.has(c) ? c : null);
+  const outcome = known(w.outcome);
+  return {
+    ...loaded, roles, outcome, event: outcome ? w.event : null,
+    interactions: w.interactions.filter(([a, b]) => names.has(a) && names.has(b)),
+    method: w.method, alpha: w.alpha, lambdaRule: w.lambdaRule, level: w.level,
+    costs: w.costs, threshold: w.threshold, reportText: w.reportText, importSettings: w.importSettings,
+    view: w.view,
+  };
+};
+
+export const autosaved: Perform<string> = (s, savedAt) => ({ ...s, savedAt });
+
+/** Forgets the data and every setting; only the notice counter survives. */
+export const startAfresh: Perform<void> = (s) => ({ ...initialState, nextNoticeId: s.nextNoticeId });
 
 const REMEDY: Record<string, Notice['action']> = {
   'complete-separation': 'use-firth',

@@ -2,7 +2,7 @@ import type { MissingReport } from '../engine/missingReport';
 import type { ColumnType, ImportOptions } from '../io/types';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/model';
 import type {
-  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, RiskCurveView,
+  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
   ScoreView, ThresholdView, ValidationView,
 } from '../worker/protocol';
 
@@ -21,7 +21,7 @@ export interface Notice {
   text: string;
   suggestion?: string;
   /** A one-click remedy the notice offers. */
-  action?: 'use-firth' | 'use-ridge' | 'reload';
+  action?: 'use-firth' | 'use-ridge' | 'reload' | 'start-afresh';
   code?: string;
 }
 
@@ -76,6 +76,10 @@ export interface AppState {
   score: ScoreView | null;
   batch: BatchScoreView | null;
   external: ExternalView | null;
+  /** The user's own words for the model summary (purpose, setting, population, notes). */
+  reportText: ReportText;
+  /** When the workspace was last kept in this browser (ISO 8601), or null. */
+  savedAt: string | null;
   jobs: Job[];
   notices: Notice[];
   nextNoticeId: number;
@@ -108,6 +112,8 @@ export const initialState: AppState = {
   score: null,
   batch: null,
   external: null,
+  reportText: {},
+  savedAt: null,
   jobs: [],
   notices: [],
   nextNoticeId: 1,

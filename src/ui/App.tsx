@@ -1,5 +1,6 @@
 import { notify, workerLost } from '../state/actions';
-import { createController } from '../state/controller';
+import { createAutosave } from '../state/autosave';
+import { createController, type Controller } from '../state/controller';
 import { createStore } from '../state/store';
 import { EnvContext, useApp, type Env } from './context';
 import { Header } from './Header';
@@ -13,18 +14,32 @@ import { PerformancePanel } from './panels/PerformancePanel';
 import { ScorePanel } from './panels/ScorePanel';
 import { ShapePanel } from './panels/ShapePanel';
 import { StartPanel } from './panels/StartPanel';
+import { FULCRA_VERSION } from './report/version';
 import { createWorkerClient } from './workerClient';
 
-/** One store, one worker and one controller for the page's lifetime (created once, also under StrictMode). */
+/**
+ * One store, one worker, one controller and one autosave for the page's lifetime (created once, also under
+ * StrictMode). On start the work kept in this browser is restored, then every change is kept again.
+ */
 let pageEnv: Env | null = null;
 function getPageEnv(): Env {
   if (!pageEnv) {
     const store = createStore();
+    let ctl: Controller | null = null;
     const client = createWorkerClient({
       onError: (text, suggestion) => store.apply(notify, { kind: 'error', text, suggestion }),
-      onCrash: (text) => store.apply(workerLost, text),
+      onCrash: (text) => { if (ctl) void ctl.recover(text); else store.apply(workerLost, text); },
     });
-    pageEnv = { store, ctl: createController(store, client) };
+    ctl = createController(store, client);
+    pageEnv = { store, ctl };
+    const autosave = createAutosave(store, ctl, { version: FULCRA_VERSION });
+    void autosave.restore().finally(() => autosave.start());
+    document.addEventListener('visibilitychange', () => { if (document.visibilityState === 'hidden') void autosave.flush(); });
+    if (new URLSearchParams(location.search).has('testhooks')) {
+      (window as unknown as { fulcraTestHooks: unknown }).fulcraTestHooks = {
+        crashEngine: () => client.call((api) => api.crashForTest()),
+      };
+    }
   }
   return pageEnv;
 }

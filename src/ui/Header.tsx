@@ -1,4 +1,5 @@
 import { useApp } from './context';
+import { WorkspaceBar } from './WorkspaceBar';
 
 export function Header() {
   const source = useApp((s) => s.data?.source ?? null);
@@ -13,6 +14,7 @@ export function Header() {
           {source.kind === 'demo' && <strong className="invented"> · invented data</strong>}
         </span>
       )}
+      <WorkspaceBar />
       <span className="local" title="All calculations run in a Web Worker in this tab; nothing is uploaded.">Runs only on this computer</span>
     </header>
   );

@@ -6,6 +6,7 @@ const REMEDY_LABEL: Record<NonNullable<Notice['action']>, string> = {
   'use-firth': 'Refit with Firth’s penalised likelihood',
   'use-ridge': 'Refit with a ridge penalty',
   reload: 'Go to the data view',
+  'start-afresh': 'Start afresh',
 };
 
 /** The one place where errors and warnings are shown, each with its suggested action. */

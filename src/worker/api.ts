@@ -9,13 +9,14 @@ import type { ModelSpec } from '../engine/model';
 import type { ImportOptions } from '../io/types';
 import { missingReport } from '../engine/missingReport';
 import { costView, thresholdAt } from './cutoffOps';
-import { loadDemo, loadImported } from './dataOps';
+import { heldCopy, loadDemo, loadHeld, loadImported } from './dataOps';
+import type { Dataset } from '../engine/data';
 import { readBytes, readPasted } from './ioOps';
 import { checkImportBudget } from './budget';
 import { fitWithImputation } from './imputeOps';
 import { fitModel } from './modelOps';
 import { rowsWindow } from './profile';
-import type { Costs, FitRequest, Progress, ReportText } from './protocol';
+import type { Costs, DataSummary, FitRequest, Progress, ReportText } from './protocol';
 import { createSession, openJob, requireData, tick, type Session } from './session';
 import { modelFileText, modelReport, pmmlText } from './reportOps';
 import { scoreImported, scoreOne } from './scoreOps';
@@ -60,6 +61,15 @@ export function createApi() {
       const h = hooksFor(jobId, onProgress);
       return guard(jobId, async () => loadImported(session, await readPasted(text, options, { signal: h.signal, tick }), 'paste', 'pasted cells'));
     },
+    /** The loaded data and its summary (copies, transferred), for the page to keep and save; null when none. */
+    getDataset: () => guard(null, () => {
+      const held = heldCopy(session);
+      return held ? Comlink.transfer({ data: held.data, summary: held.summary }, held.buffers) : null;
+    }),
+    /** Loads data the page kept (engine restart, saved workspace) without reading a file again. */
+    loadDataset: (data: Dataset, summary: DataSummary | null, name: string) => guard(null, () => loadHeld(session, data, summary, name)),
+    /** Test hook (the page only calls it with ?testhooks=1): an uncaught error in the worker, as a crash would raise. */
+    crashForTest: () => { setTimeout(() => { throw new Error('engine crash requested by a test'); }, 0); },
     getRows: (start: number, count: number) => guard(null, () => rowsWindow(requireData(session), start, count)),
     dropReport: (spec: ModelSpec) => guard(null, () => missingReport(requireData(session), spec)),
     fitModel: (req: FitRequest, jobId: string, onProgress?: Progress) =>

@@ -34,6 +34,39 @@ export function loadImported(s: Session, result: ImportResult, kind: 'file' | 'p
   });
 }
 
+/**
+ * Loads a data set the page kept (after an engine restart, or from a saved workspace). The summary the page
+ * saved with it keeps the importer's types and reasons; without one the columns are profiled afresh.
+ */
+export function loadHeld(s: Session, data: Dataset, summary: DataSummary | null, name: string): DataSummary {
+  return setData(s, data, summary ?? {
+    source: { kind: 'file', name, notice: null },
+    nRows: data.nRows,
+    columns: data.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
+    warnings: [],
+    suggestedSpec: null,
+    truth: null,
+    format: null,
+  });
+}
+
+/** A copy of the loaded data (its own buffers, so they can be transferred) with its summary. */
+export function heldCopy(s: Session): { data: Dataset; summary: DataSummary; buffers: ArrayBuffer[] } | null {
+  if (!s.data || !s.summary) return null;
+  const buffers: ArrayBuffer[] = [];
+  const columns = s.data.columns.map((c) => {
+    if (c.kind === 'numeric') {
+      const values = c.values.slice();
+      buffers.push(values.buffer);
+      return { ...c, values };
+    }
+    const codes = c.codes.slice();
+    buffers.push(codes.buffer);
+    return { ...c, codes, levels: [...c.levels] };
+  });
+  return { data: { nRows: s.data.nRows, columns }, summary: s.summary, buffers };
+}
+
 function setData(s: Session, data: Dataset, summary: DataSummary): DataSummary {
   s.data = data;
   s.summary = summary;

@@ -1,4 +1,5 @@
-import { useId, useState } from 'react';
+import { useId } from 'react';
+import { setReportText } from '../../state/actions';
 import type { ReportText } from '../../worker/protocol';
 import { useApp, useEnv } from '../context';
 import { pct } from '../format';
@@ -8,16 +9,17 @@ const FIELDS: { key: keyof ReportText; label: string }[] = [
   { key: 'purpose', label: 'Purpose of the model' },
   { key: 'setting', label: 'Setting (where and when the data come from)' },
   { key: 'population', label: 'Population (which cases are included)' },
+  { key: 'notes', label: 'Notes for the committee' },
 ];
 
 /** Downloads the model-summary PDF (built in the worker) for a governance committee. */
 export function ExportReport() {
-  const { ctl } = useEnv();
+  const { ctl, store } = useEnv();
   const id = useId();
   const outcome = useApp((s) => s.fit?.fit.recipe.outcome ?? 'model');
   const t = useApp((s) => s.threshold);
   const validated = useApp((s) => s.validationStatus === 'done');
-  const [text, setText] = useState<ReportText>({});
+  const text = useApp((s) => s.reportText);
   const run = async () => {
     const bytes = await ctl.modelReport(text);
     if (bytes) downloadFile(bytes, suggestedFileName('model-summary', outcome), 'application/pdf');
@@ -25,11 +27,11 @@ export function ExportReport() {
   return (
     <section className="export" aria-label="Model summary for a governance committee">
       <details>
-        <summary>Your words for the summary: purpose, setting, population</summary>
+        <summary>Your words for the summary: purpose, setting, population, notes</summary>
         <div className="report-text">
           {FIELDS.map((f) => (
             <label key={f.key} htmlFor={`${id}-${f.key}`}>{f.label}
-              <textarea id={`${id}-${f.key}`} rows={2} value={text[f.key] ?? ''} onChange={(e) => setText({ ...text, [f.key]: e.target.value })} />
+              <textarea id={`${id}-${f.key}`} rows={2} value={text[f.key] ?? ''} onChange={(e) => store.apply(setReportText, { [f.key]: e.target.value })} />
             </label>
           ))}
         </div>

@@ -1,6 +1,7 @@
 import { scaleLog } from 'd3';
 import type { OddsRow } from '../../worker/protocol';
 import { num, palette } from '../format';
+import { PlotExport } from '../plots/PlotExport';
 
 /** Odds ratios on a log axis with their intervals (profile likelihood when available, else Wald). */
 export function ForestPlot({ rows, level }: { rows: OddsRow[]; level: number }) {
@@ -33,6 +34,7 @@ export function ForestPlot({ rows, level }: { rows: OddsRow[]; level: number }) 
         {ticks.map((t) => <text key={t} x={x(t)} y={H - 16} textAnchor="middle" className="tick">{t >= 10 ? t.toLocaleString('en-GB', { maximumFractionDigits: 0 }) : num(t, t < 1 ? 2 : 1)}</text>)}
         <text x={(left + W) / 2} y={H - 2} textAnchor="middle" className="axis-label">Odds ratio (log scale)</text>
       </svg>
+      <PlotExport title="Odds ratios (forest plot)" />
     </figure>
   );
 }

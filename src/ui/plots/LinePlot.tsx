@@ -1,6 +1,7 @@
 import { line, area, scaleLinear, scaleLog } from 'd3';
 import { useId } from 'react';
 import { palette } from '../format';
+import { PlotExport } from './PlotExport';
 
 export interface Series {
   label: string;
@@ -76,6 +77,7 @@ export function LinePlot(p: LinePlotProps) {
           <span key={m.label}><svg width="18" height="8" aria-hidden="true"><line x1="0" x2="18" y1="4" y2="4" stroke={m.color} strokeWidth="2" strokeDasharray="5 3" /></svg> {m.label}</span>
         ))}
       </figcaption>
+      <PlotExport title={p.title} />
     </figure>
   );
 }

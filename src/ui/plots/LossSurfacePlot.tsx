@@ -1,6 +1,7 @@
 import { contours, extent, geoPath, interpolateViridis, scaleLinear, scaleSequential } from 'd3';
 import type { LossSurfaceView } from '../../worker/protocol';
 import { palette } from '../format';
+import { PlotExport } from './PlotExport';
 
 /** Mean cross-entropy over two coefficients: filled contours (viridis), the optimiser's path and the optimum. */
 export function LossSurfacePlot({ view }: { view: LossSurfaceView }) {
@@ -32,6 +33,7 @@ export function LossSurfacePlot({ view }: { view: LossSurfaceView }) {
       <figcaption className="legend">
         Darker = lower {view.penalised ? 'penalised ' : ''}mean cross-entropy. <span style={{ color: palette.vermillion }}>●—</span> optimiser’s steps; ○ the estimate.
       </figcaption>
+      <PlotExport title="Loss surface" />
     </figure>
   );
 }

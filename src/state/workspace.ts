@@ -1,0 +1,106 @@
+/**
+ * The workbench state as a saved Workspace (src/io/export/workspaceFile.ts) and back. The Workspace's own
+ * fields carry what any reader understands (model spec, cut-off, costs, words); `extra.workbench` carries the
+ * rest of the set-up exactly (every column's role, method incl. lasso/elastic net, α, λ rule, reading options).
+ */
+import type { Dataset } from '../engine/data';
+import type { Workspace } from '../io/export/workspaceFile';
+import type { Costs, DataSummary, MethodChoice, ReportText } from '../worker/protocol';
+import { buildSpec } from './actions';
+import { defaultImportSettings, initialState, type AppState, type ImportSettings, type PredictorRole, type ViewId } from './appState';
+
+export interface WorkbenchSettings {
+  outcome: string | null;
+  event: string | null;
+  roles: Record<string, PredictorRole>;
+  interactions: [string, string][];
+  method: MethodChoice;
+  alpha: number;
+  lambdaRule: 'min' | '1se';
+  level: number;
+  threshold: number;
+  costs: Costs;
+  reportText: ReportText;
+  importSettings: ImportSettings;
+  view: ViewId;
+  /** A model had been fitted: fit it again on restore so the results reappear. */
+  fitted: boolean;
+}
+
+/** The data the page keeps (fetched back from the worker after each load), with an id per load. */
+export interface HeldData {
+  id: string;
+  data: Dataset;
+  summary: DataSummary;
+}
+
+export function settingsOf(s: AppState): WorkbenchSettings {
+  return {
+    outcome: s.outcome, event: s.event, roles: s.roles, interactions: s.interactions, method: s.method, alpha: s.alpha,
+    lambdaRule: s.lambdaRule, level: s.level, threshold: s.threshold, costs: s.costs, reportText: s.reportText,
+    importSettings: s.importSettings, view: s.view, fitted: s.fit !== null,
+  };
+}
+
+/** The workspace record of the current state; `data` is null when only the settings are saved. */
+export function toWorkspace(s: AppState, held: HeldData | null, withData: boolean): Workspace {
+  const built = buildSpec(s);
+  const m = s.method;
+  return {
+    fileName: held?.summary.source.name ?? null,
+    data: withData && held ? held.data : null,
+    spec: 'spec' in built ? built.spec : null,
+    fitOptions: { ...(m === 'ml' || m === 'ridge' || m === 'firth' ? { method: m } : {}), level: s.level },
+    seed: null,
+    threshold: s.threshold,
+    costs: { falseNegative: s.costs.missedCase, falsePositive: s.costs.falseAlarm },
+    freeText: { ...s.reportText },
+    extra: { workbench: JSON.parse(JSON.stringify(settingsOf(s))), summary: held ? JSON.parse(JSON.stringify(held.summary)) : null, dataId: held?.id ?? null },
+  };
+}
+
+const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
+
+/**
+ * The settings of a saved workspace: taken from `extra.workbench` when Fulcra wrote it, otherwise rebuilt from
+ * the spec, fit options, cut-off, costs and words (a workspace written by another tool or version).
+ */
+export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
+  const w = ws.extra?.workbench;
+  const base: WorkbenchSettings = { ...settingsOf(initialState), importSettings: defaultImportSettings };
+  if (isObject(w) && isObject(w.roles) && Array.isArray(w.interactions) && isObject(w.costs)) {
+    return { ...base, ...(w as unknown as WorkbenchSettings) };
+  }
+  const roles: Record<string, PredictorRole> = {};
+  const interactions: [string, string][] = [];
+  for (const t of ws.spec?.terms ?? []) {
+    if (t.type === 'main') roles[t.column] = { include: true, reference: t.reference ?? null, knots: 0 };
+    else if (t.type === 'spline') roles[t.column] = { include: true, reference: null, knots: t.knots };
+    else interactions.push(t.columns);
+  }
+  return {
+    ...base,
+    outcome: ws.spec?.outcome ?? null,
+    event: ws.spec?.event ?? null,
+    roles, interactions,
+    method: ws.fitOptions.method ?? 'ml',
+    level: ws.fitOptions.level ?? base.level,
+    threshold: ws.threshold ?? base.threshold,
+    costs: ws.costs && ws.costs.falseNegative > 0 && ws.costs.falsePositive > 0
+      ? { missedCase: ws.costs.falseNegative, falseAlarm: ws.costs.falsePositive } : base.costs,
+    reportText: { ...ws.freeText },
+    fitted: ws.spec !== null,
+    view: ws.spec !== null ? 'model' : 'data',
+  };
+}
+
+/** The data summary saved with a workspace (so the importer's types and reasons come back), if any. */
+export function summaryFromWorkspace(ws: Workspace): DataSummary | null {
+  const s = ws.extra?.summary;
+  return isObject(s) && Array.isArray(s.columns) && isObject(s.source) ? (s as unknown as DataSummary) : null;
+}
+
+export function dataIdOf(ws: Workspace): string | null {
+  const id = ws.extra?.dataId;
+  return typeof id === 'string' ? id : null;
+}

@@ -1,0 +1,245 @@
+import { describe, expect, it } from 'vitest';
+import { createAutosave, DATA_KEY } from '../../src/state/autosave';
+import { createController } from '../../src/state/controller';
+import { createStore } from '../../src/state/store';
+import * as A from '../../src/state/actions';
+import { WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
+import type { WorkerClient } from '../../src/ui/workerClient';
+import { createApi } from '../../src/worker/api';
+import { settingsFromWorkspace } from '../../src/state/workspace';
+import type { DataSummary } from '../../src/worker/protocol';
+
+/**
+ * The page's controller on the real worker api in-process. `crash()` does what the page's WorkerClient does
+ * when the worker dies: the old api is gone, a new EMPTY one takes its place, and the controller is told.
+ */
+function harness() {
+  let api = createApi();
+  const errors: string[] = [];
+  const report = (e: unknown) => {
+    const err = e as { code?: string; message?: string };
+    if (err.code !== 'cancelled') errors.push(err.message ?? String(e));
+    return undefined;
+  };
+  const client: WorkerClient = {
+    call: (run) => run(api as never).catch(report),
+    latest: (_key, run) => run(api as never).catch(report),
+    progress: (fn) => fn,
+    transfer: (v) => v,
+    cancel: (id) => { void api.cancel(id); },
+    terminate: () => {},
+  };
+  const store = createStore();
+  const ctl = createController(store, client);
+  const crash = async () => {
+    api = createApi();
+    await ctl.recover('The calculation engine stopped unexpectedly and was restarted.');
+  };
+  return { store, ctl, errors, crash, api: () => api };
+}
+
+/** In-memory stand-in for IndexedDB (structured clone, as IndexedDB stores values); counts writes per key. */
+function memoryBackend(failSet?: unknown): KeyValueBackend & { map: Map<string, unknown>; writes: Map<string, number> } {
+  const map = new Map<string, unknown>();
+  const writes = new Map<string, number>();
+  return {
+    map, writes,
+    get: async (k) => (map.has(k) ? structuredClone(map.get(k)) : undefined),
+    set: async (k, v) => {
+      if (failSet) throw failSet;
+      writes.set(k, (writes.get(k) ?? 0) + 1);
+      map.set(k, structuredClone(v));
+    },
+    del: async (k) => void map.delete(k),
+  };
+}
+
+const estimates = (s: ReturnType<typeof createStore>) => s.get().fit?.fit.coefficients.map((c) => c.estimate) ?? [];
+
+describe('engine crash containment', () => {
+  it('after a crash the restarted engine gets the data back and the model is refitted to the same estimates', async () => {
+    const { store, ctl, crash, errors } = harness();
+    await ctl.startDemo('ssi');
+    store.apply(A.setThreshold, 0.2);
+    await ctl.queryThreshold();
+    const before = estimates(store);
+    await crash();
+    const s = store.get();
+    expect(errors).toEqual([]);
+    expect(s.data?.nRows).toBe(2000);
+    expect(estimates(store)).toEqual(before);
+    expect(s.threshold).toBe(0.2);
+    expect(s.thresholdView?.metrics.threshold).toBe(0.2);
+    expect(s.notices.map((n) => n.text)).toContain(
+      `The calculation engine stopped unexpectedly and was restarted. Your data (${s.data!.source.name}) were loaded into it again and the model was refitted; nothing was lost.`,
+    );
+    // The new engine really holds the data: it answers a row query.
+    expect(await ctl.getRows(0, 2)).toHaveLength(2);
+  });
+
+  it('a crash before any data were loaded says so and offers a way back', async () => {
+    const { store, crash } = harness();
+    await crash();
+    expect(store.get().notices[0]).toMatchObject({ kind: 'error', action: 'reload' });
+  });
+
+  it('pasted data survive a crash too (kept from the worker, not re-read)', async () => {
+    const { store, ctl, crash } = harness();
+    await ctl.pasteText('age\tinfected\n50\tno\n61\tyes\n70\tyes\n45\tno\n');
+    await crash();
+    expect(store.get().data?.nRows).toBe(4);
+    expect((await ctl.getRows(0, 1))?.[0]).toContain('50');
+  });
+});
+
+describe('workspace kept in the browser', () => {
+  async function setUp(backend: KeyValueBackend) {
+    const h = harness();
+    const autosave = createAutosave(h.store, h.ctl, { version: 'test', backend, delayMs: 5 });
+    const stop = autosave.start();
+    await h.ctl.startDemo('ssi');
+    h.store.apply(A.setPredictor, { column: 'smoker', role: { include: false } });
+    h.store.apply(A.chooseMethod, 'lasso');
+    h.store.apply(A.setLambdaRule, 'min');
+    await h.ctl.fitModel();
+    h.store.apply(A.setCosts, { missedCase: 20, falseAlarm: 2 });
+    await h.ctl.refreshCosts();
+    h.store.apply(A.setThreshold, 0.15);
+    h.store.apply(A.setReportText, { purpose: 'Flag patients for wound review' });
+    await autosave.flush();
+    return { ...h, autosave, stop };
+  }
+
+  it('restores data, roles, method and λ rule, cut-off, costs and words after a reload, and refits', async () => {
+    const backend = memoryBackend();
+    const first = await setUp(backend);
+    first.stop();
+    const then = first.store.get();
+
+    const page = harness();
+    const restored = await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore();
+    const s = page.store.get();
+    expect(restored).toBe(true);
+    expect(page.errors).toEqual([]);
+    expect(s.data?.nRows).toBe(2000);
+    expect(s.roles).toEqual(then.roles);
+    expect(s.roles.smoker.include).toBe(false);
+    expect([s.outcome, s.event, s.method, s.lambdaRule]).toEqual([then.outcome, then.event, 'lasso', 'min']);
+    expect(s.costs).toEqual({ missedCase: 20, falseAlarm: 2 });
+    expect(s.threshold).toBe(0.15);
+    expect(s.thresholdView?.metrics.threshold).toBe(0.15);
+    expect(s.reportText).toEqual({ purpose: 'Flag patients for wound review' });
+    expect(s.fit?.request).toEqual(then.fit?.request);
+    expect(estimates(page.store)).toEqual(estimates(first.store));
+    const notice = s.notices.find((n) => n.text.startsWith('Restored your work from'));
+    expect(notice?.action).toBe('start-afresh');
+    expect(s.savedAt).toBe(then.savedAt);
+  });
+
+  it('writes the data once per load, the settings on every change', async () => {
+    const backend = memoryBackend();
+    const h = await setUp(backend);
+    h.store.apply(A.setReportText, { setting: 'Two wards, 2025' });
+    await h.autosave.flush();
+    h.store.apply(A.setReportText, { population: 'Adults' });
+    await h.autosave.flush();
+    expect(backend.writes.get(DATA_KEY)).toBe(1);
+    expect(backend.writes.get(WORKSPACE_KEY)).toBeGreaterThanOrEqual(3);
+    const settings = backend.map.get(WORKSPACE_KEY) as { workspace: { data: unknown } };
+    expect(settings.workspace.data).toBeNull();
+    await h.ctl.startDemo('seals');
+    await h.autosave.flush();
+    expect(backend.writes.get(DATA_KEY)).toBe(2);
+    h.stop();
+  });
+
+  it('"Start afresh" forgets the stored work, so a reload starts empty', async () => {
+    const backend = memoryBackend();
+    const h = await setUp(backend);
+    await h.ctl.useRemedy('start-afresh');
+    await h.autosave.flush();
+    expect(h.store.get().data).toBeNull();
+    expect(backend.map.size).toBe(0);
+    const page = harness();
+    expect(await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore()).toBe(false);
+    h.stop();
+  });
+
+  it('full storage gives one clear notice that suggests the workspace file, and the file still round-trips', async () => {
+    const full = Object.assign(new Error('quota'), { name: 'QuotaExceededError' });
+    const h = await setUp(memoryBackend(full));
+    h.store.apply(A.setReportText, { notes: 'x' });
+    await h.autosave.flush();
+    const storage = h.store.get().notices.filter((n) => n.code === 'storage-full');
+    expect(storage).toHaveLength(1);
+    expect(storage[0].suggestion).toMatch(/Save the workspace as a file/);
+
+    const file = await h.ctl.workspaceFile('test');
+    expect(file?.name).toMatch(/\.fulcra-workspace\.json\.gz$/);
+    expect([file!.bytes[0], file!.bytes[1]]).toEqual([0x1f, 0x8b]);
+    const other = harness();
+    await other.ctl.openWorkspaceFile(Object.assign(new Blob([new Uint8Array(file!.bytes)]), { name: file!.name }));
+    expect(other.errors).toEqual([]);
+    expect(estimates(other.store)).toEqual(estimates(h.store));
+    expect(other.store.get().reportText).toEqual(h.store.get().reportText);
+    expect(other.store.get().threshold).toBe(0.15);
+    h.stop();
+  });
+
+  it('a file that is not a workspace is refused in the notice list', async () => {
+    const h = harness();
+    await h.ctl.openWorkspaceFile(Object.assign(new Blob(['{"fulcraModel": 1}']), { name: 'model.json' }));
+    expect(h.store.get().notices[0]).toMatchObject({ kind: 'error' });
+    expect(h.store.get().notices[0].text).toMatch(/not a Fulcra workspace file/);
+    expect(h.store.get().data).toBeNull();
+  });
+});
+
+describe('settings of a saved workspace', () => {
+  it('a workspace without Fulcra’s extra record gets its roles, method, cut-off, costs and words from the spec', () => {
+    const w = settingsFromWorkspace({
+      fileName: 'audit.csv', data: null, seed: null, threshold: 0.2,
+      spec: { outcome: 'ssi', event: 'yes', terms: [{ type: 'main', column: 'asa', reference: 'I' }, { type: 'spline', column: 'age', knots: 4 }, { type: 'interaction', columns: ['asa', 'age'] }] },
+      fitOptions: { method: 'firth', level: 0.9 },
+      costs: { falseNegative: 12, falsePositive: 3 },
+      freeText: { purpose: 'audit' },
+    });
+    expect(w.roles).toEqual({ asa: { include: true, reference: 'I', knots: 0 }, age: { include: true, reference: null, knots: 4 } });
+    expect(w.interactions).toEqual([['asa', 'age']]);
+    expect([w.outcome, w.event, w.method, w.level, w.threshold]).toEqual(['ssi', 'yes', 'firth', 0.9, 0.2]);
+    expect(w.costs).toEqual({ missedCase: 12, falseAlarm: 3 });
+    expect(w.reportText).toEqual({ purpose: 'audit' });
+    expect(w.fitted).toBe(true);
+  });
+
+  it('restoring ignores roles and an outcome of columns the data no longer have', () => {
+    const summary = { source: { kind: 'file', name: 'a.csv', notice: null }, nRows: 2, warnings: [], suggestedSpec: null, truth: null, format: null,
+      columns: [{ name: 'age', kind: 'numeric', type: 'numeric', reason: '', modelling: true, levels: [], missing: 0, distinct: 2, min: 1, median: 1.5, max: 2, bins: [], proposedEvent: null }],
+    } as DataSummary;
+    const settings = { ...settingsFromWorkspace({ fileName: null, data: null, spec: null, fitOptions: {}, seed: null, threshold: null, costs: null, freeText: {} }),
+      outcome: 'gone', roles: { age: { include: true, reference: null, knots: 0 as const }, gone: { include: true, reference: null, knots: 0 as const } }, interactions: [['age', 'gone']] as [string, string][] };
+    const s = A.workspaceRestored(createStore().get(), { summary, settings });
+    expect(Object.keys(s.roles)).toEqual(['age']);
+    expect(s.outcome).toBeNull();
+    expect(s.interactions).toEqual([]);
+  });
+});
+
+describe('the engine’s data calls', () => {
+  it('hands back a copy of the loaded data, and profiles data loaded without a summary', async () => {
+    const api = createApi();
+    await api.loadDemo('seals');
+    const got = (await api.getDataset())!;
+    const col = got.data.columns.find((c) => c.kind === 'numeric')!;
+    const rows = await api.getRows(0, 1);
+    if (col.kind === 'numeric') col.values.fill(-1);
+    expect(await api.getRows(0, 1)).toEqual(rows);
+
+    const fresh = createApi();
+    expect(await fresh.getDataset()).toBeNull();
+    const summary = await fresh.loadDataset(got.data, null, 'seals.csv');
+    expect(summary.source).toEqual({ kind: 'file', name: 'seals.csv', notice: null });
+    expect(summary.columns.map((c) => c.name)).toEqual(got.summary.columns.map((c) => c.name));
+    expect(summary.nRows).toBe(got.summary.nRows);
+  });
+});
