@@ -108,10 +108,10 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   const ageLine = text.split('\n').find((l) => /^\s*age\s+-?\d/.test(l));
   expect(ageLine, 'the age line of the coefficient table').toBeDefined();
   expect(ageLine).toContain(estimate);
-  // The page shows odds ratios to 3 decimals, the PDF to 2: the PDF's value is the page's, rounded.
-  expect(ageLine).toContain(orAge.toFixed(2));
+  // The page and the PDF both show odds ratios to 3 decimals.
+  expect(ageLine).toContain(orAge.toFixed(3));
   const diabetesLine = text.split('\n').find((l) => /^\s*diabetes=yes\s+-?\d/.test(l));
-  expect(diabetesLine).toContain(orDiabetes.toFixed(2));
+  expect(diabetesLine).toContain(orDiabetes.toFixed(3));
 
   execFileSync('pdftoppm', ['-r', '50', '-png', '-f', '1', '-l', '1', pdf, join(dir, 'page')]);
   const png = join(dir, 'page-1.png');

@@ -97,8 +97,8 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
 
   it('shows odds ratios, profile intervals and p-values as the formatter writes them', () => {
     const smoke = input.model.coefficients.find((c) => c.name === 'smoke')!;
-    const row = `smoke ${formatFixed(smoke.estimate, 4)} ${formatFixed(smoke.se, 4)} ${formatFixed(smoke.oddsRatio, 2)} ` +
-      `${formatFixed(Math.exp(smoke.profileLower!), 2)} to ${formatFixed(Math.exp(smoke.profileUpper!), 2)} ${formatP(smoke.p)}`;
+    const row = `smoke ${formatFixed(smoke.estimate, 4)} ${formatFixed(smoke.se, 4)} ${formatFixed(smoke.oddsRatio, 3)} ` +
+      `${formatFixed(Math.exp(smoke.profileLower!), 3)} to ${formatFixed(Math.exp(smoke.profileUpper!), 3)} ${formatP(smoke.p)}`;
     expect(text.replace(/\s+/g, ' ')).toContain(row);
     const ageLwt = input.model.coefficients.find((c) => c.name === 'age:lwt')!;
     expect(Math.abs(ageLwt.estimate)).toBeLessThan(0.005);

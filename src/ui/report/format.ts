@@ -68,6 +68,6 @@ export function formatOr(x: number, beta = Math.log(x)): string {
   if (!Number.isFinite(x)) return x > 0 ? '\u221e' : DASH;
   if (x >= 100 || x < 0.01) return formatSig(x, 3);
   const ab = Math.abs(beta);
-  const digits = ab > 0 && ab < 0.005 ? Math.min(6, Math.ceil(-Math.log10(ab)) + 1) : 2;
+  const digits = ab > 0 && ab < 0.005 ? Math.min(6, Math.ceil(-Math.log10(ab)) + 1) : 3;
   return formatFixed(x, digits);
 }
