@@ -77,6 +77,11 @@ function jspdfOptionalStubs(): Plugin {
   return {
     name: 'fulcra:unused-jspdf-optional',
     enforce: 'pre',
+    // jsPDF's output('pdfobjectnewwindow') (never used by Fulcra) names a CDN script; blank it so no outside
+    // address ships in the bundle at all.
+    transform: (code, id) => (/[\\/]jspdf[\\/]/.test(id) && code.includes('cdnjs.cloudflare.com')
+      ? { code: code.replace(/https:\/\/cdnjs\.cloudflare\.com\/ajax\/libs\/pdfobject\/[^"'`]*/g, ''), map: null }
+      : undefined),
     resolveId: (id, importer) => (/^(html2canvas|dompurify|canvg)$/.test(id) && importer && /[\\/]jspdf[\\/]/.test(importer) ? prefix + id : undefined),
     load: (id) => (id.startsWith(prefix)
       ? `const unused = () => { throw new Error('${id.slice(prefix.length)} is not part of Fulcra (jsPDF HTML/SVG-image features are not used).'); };

@@ -21,11 +21,7 @@ const INERT_LIBRARY_LINKS: readonly RegExp[] = [
   /^http:\/\/jspdf\.default\.namespaceuri\/$/,
 ];
 
-/**
- * Known open finding (see the it.fails below): jsPDF's output('pdfobjectnewwindow') writes a page that loads
- * pdfobject from cdnjs. Fulcra never asks for that output (sourceScan checks it), but the address ships in the
- * bundle. Tolerated in the host check only until it is stripped.
- */
+/** jsPDF's output('pdfobjectnewwindow') would load pdfobject from cdnjs; vite.config.ts strips the address. */
 const JSPDF_CDN = /^https:\/\/cdnjs\.cloudflare\.com\/ajax\/libs\/pdfobject\//;
 
 function walk(dir: string): string[] {
@@ -75,16 +71,14 @@ describe('built bundle privacy scan', () => {
   it('names no http(s) host in its code other than XML namespaces, the loopback address and documented inert library links', () => {
     const findings: Finding[] = [];
     for (const f of files) {
-      const all = scanCode(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f), [...INERT_LIBRARY_LINKS, JSPDF_CDN]);
+      const all = scanCode(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f), INERT_LIBRARY_LINKS);
       findings.push(...all.filter((x) => x.what === 'absolute URL'));
     }
     expect(findings, describeFindings(findings)).toEqual([]);
   });
 
-  // jspdf (node_modules/jspdf, output 'pdfobjectnewwindow') carries a cdnjs script address. Fix (lead, vite.config.ts):
-  // a small transform plugin that blanks that string in jspdf's module, or a patched jspdf build; also consider
-  // aliasing jsPDF's optional html2canvas/canvg/dompurify imports to an empty module (Fulcra uses none of them).
-  it.fails('carries no third-party CDN address (jsPDF pdfobject) in the bundle', () => {
+  // jspdf (output 'pdfobjectnewwindow', never used) names a cdnjs script; vite.config.ts blanks that string.
+  it('carries no third-party CDN address (jsPDF pdfobject) in the bundle', () => {
     const hits = files.filter((f) => f.endsWith('.js')).flatMap((f) =>
       [...codeWithoutComments(readFileSync(f, 'utf8'), f).matchAll(/https?:\/\/[^\s'"`]+/g)].map((m) => m[0]).filter((u) => JSPDF_CDN.test(u)));
     expect(hits).toEqual([]);
