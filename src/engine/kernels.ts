@@ -164,3 +164,59 @@ export function lossGradientRows(
   }
   return loss;
 }
+
+/**
+ * Fused full pass of a logistic model with optional case weights c and offset, in row blocks (each block of X
+ * read twice while it is in cache): η = offset + Xβ, and from one a = e^−|η| per row μ, the case loss
+ * softplus(η) − yη (in the cancellation-free form of loss.ts), r = c∘(y − μ) (1 − μ taken directly for y = 1),
+ * w = c∘μ(1 − μ), and g = X'r (cleared first). Returns −loglik = Σ cᵢ·lossᵢ (rows with cᵢ = 0 add nothing).
+ */
+export function logisticRows(
+  X: Float64Array, n: number, p: number, y: Float64Array, beta: ArrayLike<number>,
+  c: Float64Array | undefined, offset: Float64Array | undefined,
+  eta: Float64Array, r: Float64Array, w: Float64Array, g: Float64Array,
+): number {
+  const R = 512;
+  let loss = 0;
+  g.fill(0, 0, p);
+  for (let r0 = 0; r0 < n; r0 += R) {
+    const r1 = Math.min(n, r0 + R);
+    if (offset) for (let i = r0; i < r1; i++) eta[i] = offset[i];
+    else for (let i = r0; i < r1; i++) eta[i] = 0;
+    let j = 0;
+    for (; j + 3 < p; j += 4) {
+      const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
+      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+      for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
+    }
+    for (; j < p; j++) {
+      const b = beta[j], o = j * n;
+      for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
+    }
+    for (let i = r0; i < r1; i++) {
+      const t = eta[i], a = Math.exp(-Math.abs(t)), yi = y[i], ci = c ? c[i] : 1;
+      const d = 1 / (1 + a);
+      const m = t >= 0 ? d : a * d, mc = t >= 0 ? a * d : d;
+      w[i] = ci * m * mc;
+      r[i] = ci * (yi === 1 ? mc : yi - m);
+      if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+    }
+    j = 0;
+    for (; j + 3 < p; j += 4) {
+      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+      for (let i = r0; i < r1; i++) {
+        const v = r[i];
+        s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
+      }
+      g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
+    }
+    for (; j < p; j++) {
+      const o = j * n;
+      let s = 0;
+      for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
+      g[j] += s;
+    }
+  }
+  return loss;
+}

@@ -1,6 +1,7 @@
 import { FulcraError } from './data';
+import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from './kernels';
 import { cholesky, choleskyFactorInverse, choleskyLogDet, choleskySolve } from './linalg';
-import { caseLoss, crossProductWeighted, linearPredictor, sigmoid } from './loss';
+import { sigmoid } from './loss';
 
 export interface LogisticProblem {
   /** Column-major n×p design; the caller includes an intercept column if wanted. */
@@ -32,6 +33,11 @@ export interface NewtonOptions {
   recordPath?: boolean;
   /** Recompute X'WX at the final beta (default true); false saves one pass when only the optimum is needed. */
   information?: boolean;
+  /**
+   * Never use the subsampled-Hessian phase (tests and benchmarks compare against it); default false.
+   * The result is the same optimum either way, to the convergence tolerance.
+   */
+  exactHessian?: boolean;
 }
 
 export interface NewtonResult {
@@ -42,7 +48,10 @@ export interface NewtonResult {
   logLik: number;
   /** The minimised objective: (−loglik [− ½·log det I for Firth])/N + ½·Σ penalty_j β_j². */
   objective: number;
-  /** Row-major p×p X'WX + N·diag(penalty) at beta (at the last iterate before it when options.information is false). */
+  /**
+   * Row-major p×p X'WX + N·diag(penalty) at beta (at the last iterate before it when options.information is false,
+   * or when no ηᵢ changed by more than 1e-12 in the last step, so that every weight agrees to 1e-12 relative).
+   */
   information: Float64Array;
   /** beta after each iteration (the start is not included) when recordPath. */
   path?: Float64Array[];
@@ -78,113 +87,122 @@ function validate(pr: LogisticProblem): void {
   }
 }
 
-/**
- * Newton–Raphson (IRLS) for logistic regression with optional case weights, offset, ridge penalty and
- * Firth's modified score (Heinze & Schemper 2002, Stat Med 21:2409): step (X'WX + N·P)⁻¹U with
- * U = X'(c∘(y − μ) + h∘(½ − μ)) − N·Pβ (h only for Firth), halving the step while the objective
- * gets worse. Columns found to be linear combinations of earlier ones are held at their start value.
- */
-export function newtonLogistic(problem: LogisticProblem, options: Partial<NewtonOptions> = {}): NewtonResult {
-  validate(problem);
-  const opt = { ...defaultNewtonOptions, ...options };
-  if (!(opt.tol > 0)) throw new FulcraError('bad-argument', `tol must be > 0, got ${opt.tol}.`);
-  if (!Number.isInteger(opt.maxIter) || opt.maxIter < 0) throw new FulcraError('bad-argument', `maxIter must be a non-negative integer, got ${opt.maxIter}.`);
-  const { X, n, p, y, weights: c, offset, penalty, firth = false, fixed } = problem;
+/** Rows above which (and above 16·p²) a fit without Firth's penalty starts with subsampled-Hessian steps. */
+export const FAST_PATH_MIN_ROWS = 20_000;
 
-  let N = n;
-  if (c) { N = 0; for (let i = 0; i < n; i++) N += c[i]; }
-  if (!(N > 0)) throw new FulcraError('bad-argument', 'The case weights sum to 0; there is nothing to fit.');
+/** The state of one evaluation point; two of them let a trial point be evaluated without losing the current one. */
+interface Slot {
+  eta: Float64Array;
+  /** c∘(y − μ) */
+  r: Float64Array;
+  /** c∘μ(1 − μ) */
+  w: Float64Array;
+  /** Gradient of the penalised log-likelihood: X'r − N·Pβ (Firth: + X'(h∘(½ − μ))). */
+  g: Float64Array;
+  /** X'WX at this point when infoValid. */
+  info: Float64Array;
+  infoValid: boolean;
+  hat: Float64Array | null;
+  ll: number;
+  obj: number;
+}
 
-  const eta = new Float64Array(n), mu = new Float64Array(n), muc = new Float64Array(n), w = new Float64Array(n);
-  const wx = new Float64Array(1024), hat = new Float64Array(n), buf = new Float64Array(1024), resid = new Float64Array(n);
-  const info = new Float64Array(p * p), H = new Float64Array(p * p), Linv = new Float64Array(p * p);
+interface Run {
+  beta: Float64Array;
+  cur: Slot;
+  other: Slot;
+  iterations: number;
+  path?: Float64Array[];
+  /** The slot whose info the last Newton step used. */
+  lastInfo: Slot | null;
+  initialDrop: Uint8Array;
+}
+
+type Workspace = ReturnType<typeof createWorkspace>;
+
+function createWorkspace(pr: LogisticProblem, N: number) {
+  const { X, n, p, y, weights: c, offset, penalty, firth = false } = pr;
+  const work = new Float64Array(ROW_BLOCK * p);
   const Lwork = new Float64Array(p * p), dropWork = new Uint8Array(p);
-  const Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p), initialDrop = new Uint8Array(p);
-  const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
-  const beta = problem.start ? Float64Array.from(problem.start) : new Float64Array(p);
-  let logLik = 0;
-
-  const penaltyTerm = (b: Float64Array): number => {
+  const Linv = firth ? new Float64Array(p * p) : null, buf = new Float64Array(1024);
+  const fr = firth ? new Float64Array(n) : null, fg = new Float64Array(p);
+  const newSlot = (): Slot => ({
+    eta: new Float64Array(n), r: new Float64Array(n), w: new Float64Array(n), g: new Float64Array(p),
+    info: new Float64Array(p * p), infoValid: false, hat: firth ? new Float64Array(n) : null, ll: 0, obj: 0,
+  });
+  const penaltyTerm = (b: ArrayLike<number>): number => {
     if (!penalty) return 0;
     let s = 0;
     for (let j = 0; j < p; j++) s += penalty[j] * b[j] * b[j];
     return 0.5 * s;
   };
-
-  /** Sets eta, mu, w, logLik at b; with `full`, also info, its factor and (Firth) hat values. Returns the objective. */
-  const evaluate = (b: Float64Array, full: boolean): number => {
-    linearPredictor(X, n, p, b, offset, eta);
-    let ll = 0;
-    for (let i = 0; i < n; i++) {
-      const ci = c ? c[i] : 1;
-      const e = eta[i];
-      const m = sigmoid(e), mc = sigmoid(-e);
-      mu[i] = m;
-      muc[i] = mc;
-      w[i] = ci * m * mc;
-      if (ci !== 0) ll -= ci * caseLoss(e, y[i]);
-    }
-    logLik = ll;
-    let obj = -ll / N + penaltyTerm(b);
-    if (full || firth) {
-      crossProductWeighted(X, n, p, w, info, wx);
-      const infoChol = cholesky(info, p, 1e-12, Lwork, dropWork);
-      if (firth) {
-        obj -= 0.5 * choleskyLogDet(infoChol) / N;
-        choleskyFactorInverse(infoChol, Linv);
-        // hᵢ = wᵢ·‖L⁻¹xᵢ‖², by blocks of rows so that the columns stay in cache
-        hat.fill(0);
-        for (let i0 = 0; i0 < n; i0 += 1024) {
-          const i1 = Math.min(n, i0 + 1024);
-          for (let k = 0; k < p; k++) {
-            if (infoChol.dropped[k]) continue;
-            buf.fill(0, 0, i1 - i0);
-            let j = 0;
-            for (; j + 3 <= k; j += 4) {
-              const a0 = Linv[k * p + j], a1 = Linv[k * p + j + 1], a2 = Linv[k * p + j + 2], a3 = Linv[k * p + j + 3];
-              const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-              for (let i = i0; i < i1; i++) buf[i - i0] += a0 * X[o0 + i] + a1 * X[o1 + i] + a2 * X[o2 + i] + a3 * X[o3 + i];
-            }
-            for (; j <= k; j++) {
-              const a = Linv[k * p + j], oj = j * n;
-              for (let i = i0; i < i1; i++) buf[i - i0] += a * X[oj + i];
-            }
-            for (let i = i0; i < i1; i++) hat[i] += buf[i - i0] * buf[i - i0];
+  const computeInfo = (s: Slot): void => {
+    accumulateXtWX(X, n, p, s.w, s.info, work);
+    s.infoValid = true;
+  };
+  /** Fills s at b (one fused pass over X; Firth also needs X'WX, the hat values and one more X'v pass). */
+  const evaluate = (b: Float64Array, s: Slot, withInfo: boolean): void => {
+    const loss = logisticRows(X, n, p, y, b, c, offset, s.eta, s.r, s.w, s.g);
+    s.ll = -loss;
+    let obj = loss / N + penaltyTerm(b);
+    if (penalty) for (let j = 0; j < p; j++) s.g[j] -= N * penalty[j] * b[j];
+    s.infoValid = false;
+    if (withInfo || firth) computeInfo(s);
+    if (firth) {
+      const hat = s.hat!, L = Linv!;
+      const infoChol = cholesky(s.info, p, 1e-12, Lwork, dropWork);
+      obj -= 0.5 * choleskyLogDet(infoChol) / N;
+      choleskyFactorInverse(infoChol, L);
+      // hᵢ = wᵢ·‖L⁻¹xᵢ‖², by blocks of rows so that the columns stay in cache
+      hat.fill(0);
+      for (let i0 = 0; i0 < n; i0 += 1024) {
+        const i1 = Math.min(n, i0 + 1024);
+        for (let k = 0; k < p; k++) {
+          if (infoChol.dropped[k]) continue;
+          buf.fill(0, 0, i1 - i0);
+          let j = 0;
+          for (; j + 3 <= k; j += 4) {
+            const a0 = L[k * p + j], a1 = L[k * p + j + 1], a2 = L[k * p + j + 2], a3 = L[k * p + j + 3];
+            const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+            for (let i = i0; i < i1; i++) buf[i - i0] += a0 * X[o0 + i] + a1 * X[o1 + i] + a2 * X[o2 + i] + a3 * X[o3 + i];
           }
+          for (; j <= k; j++) {
+            const a = L[k * p + j], oj = j * n;
+            for (let i = i0; i < i1; i++) buf[i - i0] += a * X[oj + i];
+          }
+          for (let i = i0; i < i1; i++) hat[i] += buf[i - i0] * buf[i - i0];
         }
-        for (let i = 0; i < n; i++) hat[i] *= w[i];
       }
+      const f = fr!;
+      for (let i = 0; i < n; i++) {
+        hat[i] *= s.w[i];
+        f[i] = hat[i] * (0.5 - sigmoid(s.eta[i]));
+      }
+      blockedXtr(X, n, p, f, fg);
+      for (let j = 0; j < p; j++) s.g[j] += fg[j];
     }
-    return obj;
+    s.obj = obj;
   };
+  return { newSlot, evaluate, computeInfo };
+}
 
-  /** U = X'(c∘(y − μ) [+ h∘(½ − μ)]) − N·Pβ at the current evaluation state. */
-  const computeScore = (b: Float64Array, out: Float64Array): void => {
-    for (let i = 0; i < n; i++) {
-      const ci = c ? c[i] : 1;
-      let r = ci * (y[i] === 1 ? muc[i] : y[i] - mu[i]);
-      if (firth) r += hat[i] * (0.5 - mu[i]);
-      resid[i] = r;
-    }
-    for (let j = 0; j < p; j++) {
-      const oj = j * n;
-      let s = 0;
-      for (let i = 0; i < n; i++) s += X[oj + i] * resid[i];
-      out[j] = penalty ? s - N * penalty[j] * b[j] : s;
-    }
-  };
-
-  let obj = evaluate(beta, true);
+/**
+ * Exact Newton iterations from run.beta (run.cur evaluated there) until converged, stuck or maxIter in total.
+ * Returns whether the convergence test passed.
+ */
+function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean {
+  const { p, penalty, fixed, firth = false } = pr;
+  const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
+  const H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
   // Firth's step uses the expected information, not the penalised Hessian: linear convergence, tighter step rule.
   const stepTol = firth ? opt.tol * 100 : Math.sqrt(opt.tol);
-  let converged = false;
-  let iterations = 0;
-  const path: Float64Array[] | undefined = opt.recordPath ? [] : undefined;
-
-  for (let iter = 0; iter < opt.maxIter; iter++) {
-    if (iter > 0 && !firth) obj = evaluate(beta, true);
-    computeScore(beta, U);
-    H.set(info);
+  let first = true;
+  while (run.iterations < opt.maxIter) {
+    const cur = run.cur;
+    if (!cur.infoValid) ws.computeInfo(cur);
+    run.lastInfo = cur;
+    U.set(cur.g);
+    H.set(cur.info);
     if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
     if (fixed) {
       for (let j = 0; j < p; j++) {
@@ -194,53 +212,223 @@ export function newtonLogistic(problem: LogisticProblem, options: Partial<Newton
       }
     }
     const hChol = cholesky(H, p, 1e-12, Hfac, Hdrop);
-    if (iter === 0) for (let j = 0; j < p; j++) initialDrop[j] = fixed?.[j] ? 0 : Hdrop[j];
+    if (first) for (let j = 0; j < p; j++) run.initialDrop[j] = fixed?.[j] ? 0 : Hdrop[j];
+    first = false;
     choleskySolve(hChol, U, step);
     let degenerate = false;
-    for (let j = 0; j < p; j++) if (Hdrop[j] && !initialDrop[j] && !fixed?.[j]) degenerate = true;
-    if (degenerate) break; // a column lost all information during the iterations: diverging coefficients
+    for (let j = 0; j < p; j++) if (Hdrop[j] && !run.initialDrop[j] && !fixed?.[j]) degenerate = true;
+    if (degenerate) return false; // a column lost all information during the iterations: diverging coefficients
 
-    const D = 2 * N * obj;
+    const obj = cur.obj, D = 2 * N * obj;
     let accepted = false;
-    let newObj = obj;
     let t = 1;
     for (let half = 0; half < 40; half++) {
-      for (let j = 0; j < p; j++) trial[j] = beta[j] + t * step[j];
-      newObj = evaluate(trial, false);
-      if (newObj <= obj + 1e-13 * Math.abs(obj) + 1e-300) { accepted = true; break; }
+      for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
+      ws.evaluate(trial, run.other, false);
+      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) { accepted = true; break; }
       t *= 0.5;
     }
     let maxFull = 0, dec = 0;
     for (let j = 0; j < p; j++) {
-      maxFull = Math.max(maxFull, Math.abs(step[j]) / (1 + Math.abs(beta[j])));
+      maxFull = Math.max(maxFull, Math.abs(step[j]) / (1 + Math.abs(run.beta[j])));
       dec += U[j] * step[j];
     }
     if (!accepted || t < 1e-6) {
       // No real decrease possible: at the optimum up to rounding, or stuck with a large Newton step (separation).
-      converged = dec / (Math.abs(D) + 0.1) < Math.sqrt(opt.tol) && maxFull < Math.sqrt(stepTol);
-      break;
+      // run.cur is still the state at run.beta.
+      return dec / (Math.abs(D) + 0.1) < Math.sqrt(opt.tol) && maxFull < Math.sqrt(stepTol);
     }
-    beta.set(trial);
-    iterations++;
-    if (path) path.push(Float64Array.from(beta));
-    const Dnew = 2 * N * newObj;
-    obj = newObj;
-    if (Math.abs(Dnew - D) / (Math.abs(Dnew) + 0.1) < opt.tol && maxFull < stepTol) {
-      converged = true;
-      break;
-    }
+    run.beta.set(trial);
+    run.cur = run.other;
+    run.other = cur;
+    run.iterations++;
+    if (run.path) run.path.push(Float64Array.from(run.beta));
+    const Dnew = 2 * N * run.cur.obj;
+    if (Math.abs(Dnew - D) / (Math.abs(Dnew) + 0.1) < opt.tol && maxFull < stepTol) return true;
   }
-  obj = evaluate(beta, opt.information !== false);
+  return false;
+}
 
-  const information = Float64Array.from(info);
-  if (penalty) for (let j = 0; j < p; j++) information[j * p + j] += N * penalty[j];
-  const dropped = Uint8Array.from(initialDrop);
-  const score = new Float64Array(p);
-  computeScore(beta, score);
-  const result: NewtonResult = {
-    beta, converged, iterations, logLik, objective: obj, information, fitted: Float64Array.from(mu), dropped, score,
+/** Rows ⌊k·n/m⌋, k = 0…m−1: a fixed, evenly spaced subsample. */
+function strided(n: number, m: number): Int32Array {
+  const idx = new Int32Array(m);
+  for (let k = 0; k < m; k++) idx[k] = Math.floor((k * n) / m);
+  return idx;
+}
+
+/** Rows idx of the column-major n×p X into out (column-major idx.length×p), with their weights and offsets. */
+function gatherRows(pr: LogisticProblem, idx: Int32Array, out: Subsample): Subsample {
+  const { X, n, p, weights: c, offset } = pr, m = idx.length;
+  for (let j = 0; j < p; j++) {
+    const o = j * n, os = j * m;
+    for (let r = 0; r < m; r++) out.X[os + r] = X[o + idx[r]];
+  }
+  out.m = m;
+  out.N = m;
+  if (c) { out.N = 0; for (let r = 0; r < m; r++) { out.c![r] = c[idx[r]]; out.N += out.c![r]; } }
+  if (offset) for (let r = 0; r < m; r++) out.offset![r] = offset[idx[r]];
+  return out;
+}
+
+/** A row subsample of the design with its case weights and offset, for estimating X'WX. */
+interface Subsample { X: Float64Array; m: number; c?: Float64Array; offset?: Float64Array; N: number }
+
+const newSubsample = (pr: LogisticProblem, m: number): Subsample => ({
+  X: new Float64Array(m * pr.p), m, N: 0,
+  c: pr.weights ? new Float64Array(m) : undefined, offset: pr.offset ? new Float64Array(m) : undefined,
+});
+
+/**
+ * Large-n start: Newton steps whose Hessian X'WX is estimated on a fixed evenly spaced row subsample (2·p² rows,
+ * then a fixed max(10 000, 8·p², min(32·p², n/16)) once the steps are below 1e-3: chord steps, linear convergence at a rate
+ * ≈ ‖I − H̃⁻¹H‖) while the gradient and the objective always use every row (subsampled Newton:
+ * Roosta-Khorasani & Mahoney 2019, Math Program 174:293). It stops at a small relative step (cheapTol) and hands
+ * over to exact Newton, which ends with the exact X'WX and the exact convergence test. Returns null when the exact phase does not converge cleanly
+ * (separation, a column dropped as collinear): the caller then runs exact Newton from the start.
+ */
+function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean | null {
+  const { n, p, penalty, fixed } = pr;
+  const mFine = Math.max(10_000, 8 * p * p, Math.min(32 * p * p, Math.floor(n / 16))), mCoarse = Math.max(4_000, 2 * p * p);
+  const fineIdx = strided(n, mFine);
+  // The coarse rows are kept; the fine rows are used once, gathered in chunks.
+  const coarse = gatherRows(pr, Int32Array.from(strided(mFine, mCoarse), (k) => fineIdx[k]), newSubsample(pr, mCoarse));
+  const chunk = newSubsample(pr, Math.min(2048, mFine));
+  if (!(coarse.N > 0)) return null;
+  const etaS = new Float64Array(mCoarse), wS = new Float64Array(mCoarse), work = new Float64Array(ROW_BLOCK * p);
+  const Hs = new Float64Array(p * p), part = new Float64Array(p * p), H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
+  /** Σ_s cᵢwᵢxᵢxᵢ' at beta into out; returns Σ_s cᵢ. */
+  const rowsHessian = (s: Subsample, out: Float64Array): number => {
+    blockedLinearPredictor(s.X, s.m, p, run.beta, s.offset, etaS);
+    for (let k = 0; k < s.m; k++) {
+      const a = Math.exp(-Math.abs(etaS[k]));
+      wS[k] = ((s.c ? s.c[k] : 1) * a) / ((1 + a) * (1 + a));
+    }
+    accumulateXtWX(s.X, s.m, p, wS, out, work);
+    return s.N;
   };
-  if (path) result.path = path;
-  if (firth) result.hat = Float64Array.from(hat);
+  /** The data part of the Hessian estimated on the coarse or the fine subsample s: Σ_s cᵢwᵢxᵢxᵢ'·N/Σ_s cᵢ. */
+  const subsampleHessian = (fine: boolean): boolean => {
+    let Ns = 0;
+    if (!fine) Ns = rowsHessian(coarse, Hs);
+    else {
+      Hs.fill(0);
+      for (let k0 = 0; k0 < mFine; k0 += chunk.X.length / p) {
+        Ns += rowsHessian(gatherRows(pr, fineIdx.subarray(k0, Math.min(mFine, k0 + chunk.X.length / p)), chunk), part);
+        for (let q = 0; q < p * p; q++) Hs[q] += part[q];
+      }
+    }
+    if (!(Ns > 0)) return false;
+    for (let q = 0; q < p * p; q++) Hs[q] *= N / Ns;
+    return true;
+  };
+  const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
+  ws.evaluate(run.beta, run.cur, false);
+  const budget = Math.min(30, opt.maxIter - 1);
+  // Stop at 1e-2·√tol, where one exact step ends the job; for wide designs (X'WX costs more than ~6 passes) go on
+  // to 1e-12, where the exact step changes η so little that its X'WX is also the information at the end.
+  const cheapTol = p >= 24 ? Math.min(1e-12, 1e-2 * Math.sqrt(opt.tol)) : 1e-2 * Math.sqrt(opt.tol);
+  let useFine = false, haveFine = false, lastRel = Infinity;
+  while (run.iterations < budget) {
+    if (!useFine) subsampleHessian(false);
+    else if (!haveFine) { if (!subsampleHessian(true)) break; haveFine = true; }
+    H.set(Hs);
+    U.set(run.cur.g);
+    if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
+    if (fixed) {
+      for (let j = 0; j < p; j++) {
+        if (!fixed[j]) continue;
+        U[j] = 0;
+        for (let k = 0; k < p; k++) { H[j * p + k] = 0; H[k * p + j] = 0; }
+      }
+    }
+    choleskySolve(cholesky(H, p, 1e-12, Hfac, Hdrop), U, step);
+    const obj = run.cur.obj;
+    let accepted = false, t = 1;
+    for (let half = 0; half < 30; half++) {
+      for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
+      ws.evaluate(trial, run.other, false);
+      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) { accepted = true; break; }
+      t *= 0.5;
+    }
+    if (!accepted) break; // the estimated Hessian gives no descent: exact Newton from here
+    let maxRel = 0;
+    for (let j = 0; j < p; j++) maxRel = Math.max(maxRel, Math.abs(t * step[j]) / (1 + Math.abs(run.beta[j])));
+    run.beta.set(trial);
+    [run.cur, run.other] = [run.other, run.cur];
+    run.iterations++;
+    if (run.path) run.path.push(Float64Array.from(run.beta));
+    if (maxRel < cheapTol || (haveFine && maxRel > 0.5 * lastRel)) break; // converged, or at the rounding floor
+    if (maxRel < 1e-3) useFine = true;
+    lastRel = maxRel;
+  }
+  const converged = exactNewton(pr, N, ws, run, opt);
+  if (!converged || run.initialDrop.some((d) => d === 1)) return null;
+  return true;
+}
+
+/**
+ * Newton–Raphson (IRLS) for logistic regression with optional case weights, offset, ridge penalty and
+ * Firth's modified score (Heinze & Schemper 2002, Stat Med 21:2409): step (X'WX + N·P)⁻¹U with
+ * U = X'(c∘(y − μ) + h∘(½ − μ)) − N·Pβ (h only for Firth), halving the step while the objective
+ * gets worse. Columns found to be linear combinations of earlier ones are held at their start value.
+ * Without Firth's penalty and for n > max(20 000, 16·p²) it begins with cheap subsampled-Hessian steps (see
+ * fastNewton) and always ends with exact Newton steps, the exact convergence test and the exact X'WX.
+ */
+export function newtonLogistic(problem: LogisticProblem, options: Partial<NewtonOptions> = {}): NewtonResult {
+  validate(problem);
+  const opt = { ...defaultNewtonOptions, ...options };
+  if (!(opt.tol > 0)) throw new FulcraError('bad-argument', `tol must be > 0, got ${opt.tol}.`);
+  if (!Number.isInteger(opt.maxIter) || opt.maxIter < 0) throw new FulcraError('bad-argument', `maxIter must be a non-negative integer, got ${opt.maxIter}.`);
+  const { n, p, weights: c, penalty, firth = false } = problem;
+
+  let N = n;
+  if (c) { N = 0; for (let i = 0; i < n; i++) N += c[i]; }
+  if (!(N > 0)) throw new FulcraError('bad-argument', 'The case weights sum to 0; there is nothing to fit.');
+
+  const ws = createWorkspace(problem, N);
+  const newRun = (cur: Slot, other: Slot): Run => ({
+    beta: problem.start ? Float64Array.from(problem.start) : new Float64Array(p),
+    cur, other, iterations: 0, path: opt.recordPath ? [] : undefined, lastInfo: null, initialDrop: new Uint8Array(p),
+  });
+  let run = newRun(ws.newSlot(), ws.newSlot());
+  let converged: boolean | null = null;
+  if (!firth && !opt.exactHessian && n > Math.max(FAST_PATH_MIN_ROWS, 16 * p * p) && opt.maxIter >= 4) {
+    converged = fastNewton(problem, N, ws, run, opt);
+    if (converged === null) run = newRun(run.cur, run.other);
+  }
+  if (converged === null) {
+    ws.evaluate(run.beta, run.cur, true);
+    converged = exactNewton(problem, N, ws, run, opt);
+  }
+
+  const { cur, other } = run;
+  let infoSlot = cur;
+  if (!cur.infoValid) {
+    // The information of the previous iterate is X'WX at this beta to ≤ max|Δη| relative (∂log wᵢ/∂ηᵢ = 1 − 2μᵢ):
+    // kept when that is ≤ INFO_REUSE_ETA.
+    let maxDelta = Infinity;
+    if (run.lastInfo === other && other.infoValid) {
+      maxDelta = 0;
+      for (let i = 0; i < n; i++) maxDelta = Math.max(maxDelta, Math.abs(cur.eta[i] - other.eta[i]));
+    }
+    if (maxDelta <= INFO_REUSE_ETA || opt.information === false) infoSlot = run.lastInfo ?? cur;
+    if (infoSlot === cur) ws.computeInfo(cur);
+  }
+  const information = Float64Array.from(infoSlot.info);
+  if (penalty) for (let j = 0; j < p; j++) information[j * p + j] += N * penalty[j];
+  const fitted = new Float64Array(n);
+  for (let i = 0; i < n; i++) fitted[i] = sigmoid(cur.eta[i]);
+  const result: NewtonResult = {
+    beta: run.beta, converged, iterations: run.iterations, logLik: cur.ll, objective: cur.obj, information, fitted,
+    dropped: Uint8Array.from(run.initialDrop), score: Float64Array.from(cur.g),
+  };
+  if (run.path) result.path = run.path;
+  if (firth) result.hat = Float64Array.from(cur.hat!);
   return result;
 }
+
+/**
+ * Largest change of any ηᵢ for which the previous iterate's X'WX is returned as the information at beta: every
+ * weight wᵢ then agrees to 1e-12 relative, so every entry of X'WX does.
+ */
+const INFO_REUSE_ETA = 1e-12;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { accumulateXtWX, blockedLinearPredictor, blockedXtr, lossGradientRows, ROW_BLOCK } from '../../src/engine/kernels';
+import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, lossGradientRows, ROW_BLOCK } from '../../src/engine/kernels';
 import { crossProductWeighted, linearPredictor, sigmoid, sumCrossEntropy } from '../../src/engine/loss';
 import { createRng } from '../../src/engine/rng';
 
@@ -82,5 +82,26 @@ describe('lossGradientRows', () => {
     const b = accumulateXtWX(X, n, p, w, new Float64Array(p * p), undefined, 333, n);
     const whole = accumulateXtWX(X, n, p, w, new Float64Array(p * p));
     expect(maxRelGap(a.map((v, k) => v + b[k]), whole)).toBeLessThan(1e-13);
+  });
+});
+
+describe('logisticRows', () => {
+  it.each(shapes)('equals the loss.ts loss, residuals, weights and X\'r with case weights and an offset (n = %i, p = %i) to 1e-13', (n, p) => {
+    const { X, w: c, v: offset, b } = randomDesign(n, p, n * 17 + p);
+    const rng = createRng(n + p);
+    const y = Float64Array.from({ length: n }, (_, i) => (i % 7 === 3 ? 0.25 : +(rng.next() < 0.4)));
+    const eta = new Float64Array(n), r = new Float64Array(n), w = new Float64Array(n), g = new Float64Array(p).fill(9);
+    const loss = logisticRows(X, n, p, y, b, c, offset, eta, r, w, g);
+    const etaRef = linearPredictor(X, n, p, b, offset, new Float64Array(n));
+    expect(maxRelGap(eta, etaRef)).toBeLessThan(1e-13);
+    const lossRef = sumCrossEntropy(etaRef, y, c);
+    expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
+    const rRef = Float64Array.from(etaRef, (e, i) => c[i] * (y[i] - sigmoid(e)));
+    const wRef = Float64Array.from(etaRef, (e, i) => c[i] * sigmoid(e) * sigmoid(-e));
+    expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
+    expect(maxRelGap(w, wRef)).toBeLessThan(1e-13);
+    const gRef = new Float64Array(p);
+    for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
+    expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);
   });
 });
