@@ -68,6 +68,20 @@ function ratioTarget(r: BenchRecord, n: number, p: number, fulcra: string, ref: 
   return { name, goal, measured: `${ratio.toFixed(2)}${cpu}${precise ? '' : '; precision not reached'}`, met: ratio <= limit && precise };
 }
 
+/** What limits a missed target, as measured while building it (DEVELOPERS.md, "Speed"). */
+const LIMITS: [RegExp, string][] = [
+  [/sklearn newton-cholesky/, 'scikit-learn forms X\'WX with 2 BLAS threads; the engine runs on one (compare the CPU-time ratio). A pool of workers over row blocks (prototype: src/cli/bench/pool.ts) is the remaining step; it needs cross-origin isolation in the page.'],
+  [/^CSV import/, 'per-cell work in the column builder and the per-column summaries (distinct count, median) after the parse; the machine\'s other load also counts here (wall time).'],
+  [/^bootstrap/, 'each replicate is a full weighted refit plus two calibration fits and two AUC sorts on one thread.'],
+  [/^loss surface/, 'n × 64² softplus evaluations on one thread; above ~1.2·10⁵ rows the grid uses an evenly spaced row subsample (stated in the record).'],
+  [/main-thread task/, 'rendering of a large table or plot on the main thread.'],
+  [/peak memory/, 'working copies of the design made by the solver.'],
+];
+
+function limitOf(name: string): string | undefined {
+  return LIMITS.find(([re]) => re.test(name))?.[1];
+}
+
 const median = (v: number[]): number => { const s = [...v].sort((x, y) => x - y); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
 
 export function judgeTargets(r: BenchRecord): Target[] {
@@ -136,6 +150,10 @@ export function renderReport(r: BenchRecord): string {
   }
   out.push('');
   out.push('Targets');
-  for (const t of r.targets) out.push(`  ${pad(t.met === null ? 'not judged' : t.met ? 'met' : 'MISSED', 11)}${pad(t.name, 62)} ${pad(t.goal, 44)} ${t.measured}`);
+  for (const t of r.targets) {
+    out.push(`  ${pad(t.met === null ? 'not judged' : t.met ? 'met' : 'MISSED', 11)}${pad(t.name, 62)} ${pad(t.goal, 44)} ${t.measured}`);
+    const why = t.met === false ? limitOf(t.name) : undefined;
+    if (why) out.push(`  ${' '.repeat(11)}what limits it: ${why}`);
+  }
   return out.join('\n');
 }
