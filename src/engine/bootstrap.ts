@@ -62,6 +62,126 @@ export function performanceMetrics(y: Float64Array, eta: Float64Array, weights?:
   };
 }
 
+/**
+ * performanceMetrics of one linear predictor on a resample (weights = counts) and on the original rows, with
+ * one sort of the risks shared by both AUCs (rank sums over tied-risk groups: Mann–Whitney with ties ½, the same
+ * value as the ROC trapezoid) and the calibration fits done by plain Newton steps from 0 and (0, 1). When a
+ * calibration fit is not clean (one class, separation, no spread) that weighting goes through performanceMetrics,
+ * so the results equal performanceMetrics' to the solver tolerance, warnings and nulls included.
+ */
+function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Array): { train: Metrics; test: Metrics } {
+  const n = y.length, risk = new Float64Array(n), expNeg = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(eta[i]) || (y[i] !== 0 && y[i] !== 1) || !(counts[i] >= 0)) {
+      return { train: performanceMetrics(y, eta, counts), test: performanceMetrics(y, eta) };
+    }
+    expNeg[i] = Math.exp(-eta[i]);
+    risk[i] = 1 / (1 + expNeg[i]);
+  }
+  const order = radixOrder(risk);
+  // Mann–Whitney sums over groups of tied risks, resample-weighted (W) and unit-weighted (1).
+  let uW = 0, belowW = 0, eW = 0, u1 = 0, below1 = 0, e1 = 0, seW = 0, se1 = 0, sw = 0;
+  for (let r = 0; r < n; ) {
+    const v = risk[order[r]];
+    let ge = 0, gn = 0, ce = 0, cn = 0;
+    for (; r < n && risk[order[r]] === v; r++) {
+      const i = order[r], c = counts[i], d = y[i] - v;
+      if (y[i] === 1) { ge += c; ce++; } else { gn += c; cn++; }
+      seW += c * d * d;
+      se1 += d * d;
+      sw += c;
+    }
+    uW += ge * (belowW + 0.5 * gn);
+    belowW += gn;
+    eW += ge;
+    u1 += ce * (below1 + 0.5 * cn);
+    below1 += cn;
+    e1 += ce;
+  }
+  const metrics = (w: Float64Array | undefined, u: number, events: number, nonEvents: number, brier: number): Metrics => {
+    const cal = calibrationByNewton(y, eta, expNeg, w);
+    if (!cal) return performanceMetrics(y, eta, w);
+    return { auc: Math.min(1, Math.max(0, u / (events * nonEvents))), calibrationSlope: cal.slope, calibrationInTheLarge: cal.citl, brier };
+  };
+  return { train: metrics(counts, uW, eW, belowW, seW / sw), test: metrics(undefined, u1, e1, below1, se1 / n) };
+}
+
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/** Row order of non-negative doubles, ascending: stable LSD radix sort of the IEEE-754 bits in 11-bit digits. */
+function radixOrder(v: Float64Array): Uint32Array {
+  const n = v.length, bits = new Uint32Array(v.buffer, v.byteOffset, 2 * n), count = new Uint32Array(2048);
+  let idx = new Uint32Array(n), tmp = new Uint32Array(n);
+  for (let i = 0; i < n; i++) idx[i] = i;
+  for (let pass = 0; pass < 6; pass++) {
+    const word = (pass < 3) === LITTLE_ENDIAN ? 0 : 1, shift = (pass % 3) * 11;
+    count.fill(0);
+    for (let i = 0; i < n; i++) count[(bits[2 * i + word] >>> shift) & 2047]++;
+    if (count[(bits[word] >>> shift) & 2047] === n) continue;
+    let sum = 0;
+    for (let k = 0; k < 2048; k++) { const c = count[k]; count[k] = sum; sum += c; }
+    for (let r = 0; r < n; r++) { const i = idx[r]; tmp[count[(bits[2 * i + word] >>> shift) & 2047]++] = i; }
+    const t = idx; idx = tmp; tmp = t;
+  }
+  return idx;
+}
+
+/**
+ * Calibration-in-the-large (glm(y ~ 1, offset = eta)) and slope (glm(y ~ eta)) by Newton's method without step
+ * halving, to a relative step of 1e-10 (expNeg = e^−eta); null unless both classes have weight, both fits converge
+ * within 50 steps and the slope model's information is well conditioned (the caller then uses calibrationRegression).
+ */
+function calibrationByNewton(y: Float64Array, eta: Float64Array, expNeg: Float64Array, w: Float64Array | undefined): { citl: number; slope: number } | null {
+  const n = y.length;
+  let sw = 0, sy = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w ? w[i] : 1;
+    sw += wi;
+    sy += wi * y[i];
+  }
+  if (!(sw > 0) || sy === 0 || sy === sw) return null;
+  let a = 0, converged = false;
+  for (let it = 0; it < 50 && !converged; it++) {
+    let g = 0, h = 0;
+    const ea = Math.exp(-a);
+    for (let i = 0; i < n; i++) {
+      const wi = w ? w[i] : 1;
+      if (wi === 0) continue;
+      const m = 1 / (1 + ea * expNeg[i]);
+      g += wi * (y[i] - m);
+      h += wi * m * (1 - m);
+    }
+    const step = g / h;
+    if (!Number.isFinite(step)) return null;
+    a += step;
+    converged = Math.abs(step) <= 1e-10 * (1 + Math.abs(a));
+  }
+  if (!converged) return null;
+  let b0 = 0, b1 = 1;
+  converged = false;
+  for (let it = 0; it < 50 && !converged; it++) {
+    let g0 = 0, g1 = 0, h00 = 0, h01 = 0, h11 = 0;
+    for (let i = 0; i < n; i++) {
+      const wi = w ? w[i] : 1;
+      if (wi === 0) continue;
+      const e = eta[i], m = 1 / (1 + (it === 0 ? expNeg[i] : Math.exp(-(b0 + b1 * e)))), r = wi * (y[i] - m), v = wi * m * (1 - m);
+      g0 += r;
+      g1 += r * e;
+      h00 += v;
+      h01 += v * e;
+      h11 += v * e * e;
+    }
+    const det = h00 * h11 - h01 * h01;
+    if (!(det > 1e-8 * h00 * h11)) return null;
+    const s0 = (h11 * g0 - h01 * g1) / det, s1 = (h00 * g1 - h01 * g0) / det;
+    if (!Number.isFinite(s0) || !Number.isFinite(s1)) return null;
+    b0 += s0;
+    b1 += s1;
+    converged = Math.max(Math.abs(s0) / (1 + Math.abs(b0)), Math.abs(s1) / (1 + Math.abs(b1))) <= 1e-10;
+  }
+  return converged ? { citl: a, slope: b1 } : null;
+}
+
 function quantile(sorted: number[], q: number): number {
   const h = (sorted.length - 1) * q, lo = Math.floor(h);
   return lo + 1 < sorted.length ? sorted[lo] + (h - lo) * (sorted[lo + 1] - sorted[lo]) : sorted[lo];
@@ -124,6 +244,7 @@ export async function bootstrapOnDesign(
   const { n, y } = d;
   const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
   const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
+  const start = dev.converged ? dev.beta : undefined;
   const rng = createRng(o.seed);
   const optimism: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
   const counts = new Float64Array(n);
@@ -136,13 +257,12 @@ export async function bootstrapOnDesign(
     if (!bothClasses(y, counts)) {
       failed++;
     } else {
-      const fit = await tryFit(d, pipeline, counts, innerSeed);
+      const fit = await tryFit(d, pipeline, counts, innerSeed, start);
       if (!fit) {
         failed++;
       } else {
         if (!fit.converged) notConverged++;
-        const eta = linearPredictor(d, fit.beta);
-        const train = performanceMetrics(y, eta, counts), test = performanceMetrics(y, eta);
+        const { train, test } = replicateMetrics(y, linearPredictor(d, fit.beta), counts);
         for (const m of METRICS) {
           const a = train[m], t = test[m];
           if (a !== null && t !== null && Number.isFinite(a - t)) optimism[m].push(a - t);
@@ -162,9 +282,9 @@ export async function bootstrapOnDesign(
 }
 
 /** A replicate whose data cannot support the procedure (e.g. a CV fold left with one class) counts as failed. */
-async function tryFit(d: PipelineDesign, pipeline: Pick<Pipeline, 'fitOptions' | 'penalty'>, w: Float64Array, seed: number): Promise<ProcedureFit | null> {
+async function tryFit(d: PipelineDesign, pipeline: Pick<Pipeline, 'fitOptions' | 'penalty'>, w: Float64Array, seed: number, start?: Float64Array): Promise<ProcedureFit | null> {
   try {
-    return await fitProcedure(d, pipeline, w, seed);
+    return await fitProcedure(d, pipeline, w, seed, undefined, start);
   } catch (e) {
     if (e instanceof FulcraError && (e.code === 'fold-one-class' || e.code === 'one-outcome-class')) return null;
     throw e;
@@ -217,6 +337,7 @@ export async function repeatedCvOnDesign(
   const { n, p, X, y } = d;
   const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
   const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
+  const start = dev.converged ? dev.beta : undefined;
   const rng = createRng(o.seed);
   const perRepeat: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
   const total = o.folds * o.repeats;
@@ -232,7 +353,7 @@ export async function repeatedCvOnDesign(
         failed++;
         complete = false;
       } else {
-        const fit = await tryFit(d, pipeline, w, innerSeed);
+        const fit = await tryFit(d, pipeline, w, innerSeed, start);
         if (!fit) {
           failed++;
           complete = false;

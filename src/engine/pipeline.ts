@@ -1,5 +1,5 @@
 import { oddsRatio } from './oddsRatio';
-import { penalisedLogistic } from './coordinateDescent';
+import { assemble, defaultCdOptions, penalisedLogistic, solveAtLambda, standardise as standardiseWeighted, type PenalisedProblem } from './coordinateDescent';
 import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks } from './crossValidation';
 import { FulcraError, type Dataset } from './data';
 import { buildDesign } from './design';
@@ -99,6 +99,9 @@ function checkPenalty(s: PenaltySelection): void {
 /**
  * Runs the model-building procedure on a design with case weights (bootstrap counts; 0 leaves a row out).
  * Includes λ selection by cross-validation when the pipeline asks for it, so validation repeats it.
+ * `start` (original scale, intercept first, e.g. the full-data fit) warm-starts the maximum likelihood, Firth
+ * and ridge fits; it changes the result only within the solver tolerance. A warm fit that does not converge,
+ * or that holds a collinear column at a non-zero start, is redone from 0 so that it matches the cold fit.
  */
 export async function fitProcedure(
   d: PipelineDesign,
@@ -106,6 +109,7 @@ export async function fitProcedure(
   weights: Float64Array | undefined,
   seed: number,
   hooks?: LongRunHooks,
+  start?: Float64Array,
 ): Promise<ProcedureFit> {
   const o = validateFitOptions(pipeline.fitOptions);
   const { n, p } = d;
@@ -124,10 +128,17 @@ export async function fitProcedure(
   }
   if (o.method === 'ridge') {
     if (p === 1) return { beta: interceptOnly(d.y, weights), lambda: o.lambda, converged: true, cv: null };
-    const f = penalisedLogistic(problem, 0, o.lambda, { tol: o.tol, maxIter: Math.max(o.maxIter, 100) });
-    return { beta: f.coefficients, lambda: o.lambda, converged: f.converged, cv: null };
+    const cd = { tol: o.tol, maxIter: Math.max(o.maxIter, 100) };
+    const f = start ? warmRidge(problem, o.lambda, start, cd) : null;
+    const g = f && f.converged ? f : penalisedLogistic(problem, 0, o.lambda, cd);
+    return { beta: g.coefficients, lambda: o.lambda, converged: g.converged, cv: null };
   }
-  const f = newtonLogistic({ X: d.Z, n, p, y: d.y, weights, firth: o.method === 'firth' }, { tol: o.tol, maxIter: o.maxIter });
+  const zProblem = { X: d.Z, n, p, y: d.y, weights, firth: o.method === 'firth' };
+  const nOpt = { tol: o.tol, maxIter: o.maxIter, information: false };
+  const zStart = start ? toStandardised(d, start) : null;
+  let f = zStart ? newtonLogistic({ ...zProblem, start: zStart }, { ...nOpt, maxIter: Math.min(o.maxIter, 25) }) : null;
+  // Not converged in 25 warm steps (separation), or a collinear column held at a non-zero start: redo from 0.
+  if (!f || !f.converged || f.dropped.some((dj, j) => dj === 1 && zStart![j] !== 0)) f = newtonLogistic(zProblem, nOpt);
   const beta = new Float64Array(p);
   beta[0] = f.beta[0];
   for (let j = 1; j < p; j++) {
@@ -135,6 +146,33 @@ export async function fitProcedure(
     beta[0] -= f.beta[j] * d.centerOverScale[j];
   }
   return { beta, lambda: 0, converged: f.converged, cv: null };
+}
+
+/** Original-scale coefficients to the Z scale of the Newton fits (inverse of the map in fitProcedure); null if not finite. */
+function toStandardised(d: PipelineDesign, beta: Float64Array): Float64Array | null {
+  if (beta.length !== d.p) throw new FulcraError('bad-start', `The start has ${beta.length} coefficients for ${d.p} design columns.`);
+  const z = new Float64Array(d.p);
+  z[0] = beta[0];
+  for (let j = 1; j < d.p; j++) {
+    z[j] = beta[j] * d.scale[j];
+    z[0] += z[j] * d.centerOverScale[j];
+  }
+  return z.every(Number.isFinite) ? z : null;
+}
+
+/** Ridge at fixed λ from original-scale coefficients, on this weighting's standardised scale (see coordinateDescent). */
+function warmRidge(problem: PenalisedProblem, lambda: number, start: Float64Array, cd: { tol: number; maxIter: number }) {
+  if (start.length !== problem.p + 1) throw new FulcraError('bad-start', `The start has ${start.length} coefficients for ${problem.p + 1} design columns.`);
+  const s = standardiseWeighted(problem);
+  const b = new Float64Array(s.p);
+  let b0 = start[0];
+  for (let j = 0; j < s.p; j++) {
+    if (s.constant[j]) continue;
+    b[j] = start[j + 1] * s.sd[j];
+    b0 += start[j + 1] * s.mean[j];
+  }
+  if (!Number.isFinite(b0) || b.some((v) => !Number.isFinite(v))) return null;
+  return assemble(s, problem, 0, lambda, solveAtLambda(s, lambda, 0, { b0, b }, { ...defaultCdOptions, ...cd }));
 }
 
 function interceptOnly(y: Float64Array, weights?: Float64Array): Float64Array {
