@@ -30,7 +30,7 @@ function sample(): RowSample {
  */
 export class ColumnBuilder {
   n = 0;
-  values = new Float64Array(1024);
+  values: Float64Array;
   codes: Int32Array | null = null;
   readonly dict = new Map<string, number>();
   readonly levels: string[] = [];
@@ -57,7 +57,9 @@ export class ColumnBuilder {
   constructor(
     private readonly reader: CellReader,
     private readonly stripUnits: boolean,
+    capacity = 1024,
   ) {
+    this.values = new Float64Array(Math.max(16, capacity));
     this.fastNumbers = !reader.hasNumericTokens;
     this.decimalCode = reader.decimalComma ? 44 : 46;
   }

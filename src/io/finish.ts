@@ -28,9 +28,11 @@ const EXCEL_CELL_LIMIT = 32_767;
 
 /** Proposes a type for every column and applies the user's choices. */
 export function planColumns(tb: TableBuilder, o: ResolvedOptions): ColumnPlan[] {
+  let work: Float64Array | undefined;
   return tb.cols.map((b, index) => {
     const name = tb.namer.names[index];
-    const num = summarizeNumbers(b.values.subarray(0, b.n));
+    if (work === undefined && b.numberCount > 4096) work = new Float64Array(tb.nRows);
+    const num = summarizeNumbers(b.values.subarray(0, b.n), work);
     const inference = inferType(b, name, num, o.dateOrder);
     const chosen = o.columnTypes[name];
     const type = chosen ?? inference.type;
@@ -42,41 +44,56 @@ export function planColumns(tb: TableBuilder, o: ResolvedOptions): ColumnPlan[] 
 
 const collator = new Intl.Collator('en', { numeric: true, sensitivity: 'variant' });
 
-function sortLevels(levels: string[], codes: Int32Array, numeric: boolean): { levels: string[]; codes: Int32Array } {
+/** Levels in order with codes remapped (into `out`, which may be `codes` itself). */
+function sortLevels(levels: string[], codes: Int32Array, numeric: boolean, out: Int32Array = new Int32Array(codes.length)): { levels: string[]; codes: Int32Array } {
   const order = levels.map((_, i) => i);
   order.sort(numeric ? (a, b) => Number(levels[a]) - Number(levels[b]) : (a, b) => collator.compare(levels[a], levels[b]) || (levels[a] < levels[b] ? -1 : 1));
   const remap = new Int32Array(levels.length);
   order.forEach((old, k) => (remap[old] = k));
-  const out = new Int32Array(codes.length);
   for (let i = 0; i < codes.length; i++) out[i] = codes[i] < 0 ? -1 : remap[codes[i]];
   return { levels: order.map((i) => levels[i]), codes: out };
 }
 
 function textualColumn(p: ColumnPlan, b: ColumnBuilder, text: TextPassColumn | undefined): Column {
   const n = b.n;
-  if (text) return { kind: 'categorical', name: p.name, ...sortLevels(text.levels, text.codes, false) };
+  if (text) return { kind: 'categorical', name: p.name, ...sortLevels(text.levels, text.codes, false, text.codes) };
   if (b.numberCount === 0) {
-    const codes = b.codes ? b.codes.slice(0, n) : new Int32Array(n).fill(-1);
+    // The builder's codes are not read again, so when they have the exact length they are remapped in place.
+    if (b.codes && b.codes.length === n) return { kind: 'categorical', name: p.name, ...sortLevels(b.levels, b.codes, false, b.codes) };
+    const codes = b.codes ? b.codes.subarray(0, n) : new Int32Array(n).fill(-1);
     return { kind: 'categorical', name: p.name, ...sortLevels(b.levels, codes, false) };
   }
+  // The first FEW levels are also looked up by a linear scan (most such columns have two).
+  const FEW = 8;
+  const few = new Float64Array(FEW);
   const dict = new Map<number, number>();
   const levels: string[] = [];
   const codes = new Int32Array(n);
+  const values = b.values;
   for (let i = 0; i < n; i++) {
-    const v = b.values[i];
-    if (Number.isNaN(v)) {
+    const v = values[i];
+    if (v !== v) {
       codes[i] = -1;
       continue;
     }
-    let c = dict.get(v);
-    if (c === undefined) {
+    let c = -1;
+    if (levels.length <= FEW) {
+      for (let k = 0; k < levels.length; k++) {
+        if (few[k] === v) {
+          c = k;
+          break;
+        }
+      }
+    } else c = dict.get(v) ?? -1;
+    if (c < 0) {
       c = levels.length;
       dict.set(v, c);
+      if (c < FEW) few[c] = v;
       levels.push(String(v));
     }
     codes[i] = c;
   }
-  return { kind: 'categorical', name: p.name, ...sortLevels(levels, codes, true) };
+  return { kind: 'categorical', name: p.name, ...sortLevels(levels, codes, true, codes) };
 }
 
 function dateColumn(p: ColumnPlan, b: ColumnBuilder): { col: Column; unparsed: number; rows: number[] } {
@@ -106,7 +123,7 @@ export function buildColumn(p: ColumnPlan, b: ColumnBuilder, text: TextPassColum
   let column: Column;
   let note: string | undefined;
   if (p.type === 'numeric') {
-    column = { kind: 'numeric', name: p.name, values: b.values.slice(0, b.n) };
+    column = { kind: 'numeric', name: p.name, values: b.values.length === b.n ? b.values : b.values.slice(0, b.n) };
     if (b.textCount > 0) {
       add('text-in-numeric', `${q}: ${plural(b.textCount, 'cell is', 'cells are')} text, not numbers — ${rowListWithText(b.textCells)}; read as missing.`,
         'Correct those cells in the file, add the text to the missing-value list, or choose the type "categorical" if the text matters.');

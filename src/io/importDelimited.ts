@@ -52,11 +52,21 @@ function settle(bytes: Uint8Array, o: ResolvedOptions, encoding: Encoding, bom: 
   return { encoding, bom, delimiter, decimal, header };
 }
 
+/** Line ends (LF, or CR when there is no LF) from `start`, plus an unterminated last line: about the record count. */
+function countLines(b: Uint8Array, start: number): number {
+  let n = 0;
+  for (let i = b.indexOf(10, start); i >= 0; i = b.indexOf(10, i + 1)) n++;
+  if (n === 0) for (let i = b.indexOf(13, start); i >= 0; i = b.indexOf(13, i + 1)) n++;
+  const last = b[b.length - 1];
+  return last === 10 || last === 13 ? n : n + 1;
+}
+
 async function readPass(bytes: Uint8Array, s: Settings, fatal: boolean, tb: TableBuilder, hooks: ImportHooks, from: number, span: number): Promise<CsvTokenizer | ByteTokenizer> {
   if (s.encoding === 'utf-8' || s.encoding === 'windows-1252') {
     const dec = new TextDecoder(s.encoding, { fatal, ignoreBOM: true });
     const decode = (b: Uint8Array) => dec.decode(b);
     const tok = new ByteTokenizer(bytes, s.bom, s.delimiter, decode, (r) => tb.addBytes(r, decode));
+    if (from === 0) tb.expectedRecords = countLines(bytes, s.bom);
     const total = Math.max(1, bytes.length - s.bom);
     while (!tok.done) {
       tok.step(tok.pos + CHUNK_BYTES);

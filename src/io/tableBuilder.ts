@@ -57,6 +57,8 @@ export class TableBuilder {
   private headerSeen = false;
   private pass2: Map<number, TextPassColumn> | null = null;
   private pass2Row = 0;
+  /** Estimate of all records in the input (e.g. its line ends), used only to size the columns; 0 if unknown. */
+  expectedRecords = 0;
 
   constructor(
     readonly reader: CellReader,
@@ -66,7 +68,8 @@ export class TableBuilder {
 
   private addColumn(sourceName: string, fromHeader: boolean): void {
     const name = this.namer.add(sourceName, this.cols.length + 1, fromHeader);
-    const b = new ColumnBuilder(this.reader, this.stripUnits.has(name));
+    const left = this.expectedRecords - this.records + (fromHeader ? 0 : 1);
+    const b = new ColumnBuilder(this.reader, this.stripUnits.has(name), Math.max(1024, Math.min(this.nRows + left, 1 << 27)));
     b.padTo(this.nRows);
     this.cols.push(b);
     this.sourceNames.push(sourceName);
