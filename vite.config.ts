@@ -153,6 +153,8 @@ export default defineConfig(({ mode }) => {
   return {
     plugins: [react(), jspdfOptionalStubs(), single ? singleFilePlugin() : inlineWorkerStub(), ...(single ? [] : [cspMetaPlugin()])],
     base: './',
+    // public/ (robots.txt for a hosted copy) is copied into the served build only: the single file is one file.
+    publicDir: single ? false : 'public',
     // The single file starts its worker from a blob: URL, which Chromium allows from file:// only for a classic
     // worker; iife also folds the worker's dynamic imports (jsPDF's optional modules) into the one worker script.
     worker: { format: single ? 'iife' : 'es', plugins: () => [jspdfOptionalStubs()] },
