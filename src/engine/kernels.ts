@@ -67,6 +67,40 @@ export function accumulateXtWX(
   return out;
 }
 
+/** eta[r0..r1) += X[r0..r1, ·]β, four columns per pass over the block. */
+function addEtaBlock(X: Float64Array, n: number, p: number, beta: ArrayLike<number>, r0: number, r1: number, eta: Float64Array): void {
+  let j = 0;
+  for (; j + 3 < p; j += 4) {
+    const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
+    const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+    for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
+  }
+  for (; j < p; j++) {
+    const b = beta[j], o = j * n;
+    for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
+  }
+}
+
+/** g += X[r0..r1, ·]'r[r0..r1), four columns per pass over the block of r. */
+function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0: number, r1: number, g: Float64Array): void {
+  let j = 0;
+  for (; j + 3 < p; j += 4) {
+    const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+    for (let i = r0; i < r1; i++) {
+      const v = r[i];
+      s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
+    }
+    g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
+  }
+  for (; j < p; j++) {
+    const o = j * n;
+    let s = 0;
+    for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
+    g[j] += s;
+  }
+}
+
 /** η = offset + Xβ into `out` (length n), row-blocked, four columns per pass. */
 export function blockedLinearPredictor(
   X: Float64Array, n: number, p: number, beta: ArrayLike<number>, offset: Float64Array | undefined, out: Float64Array,
@@ -76,16 +110,7 @@ export function blockedLinearPredictor(
     const r1 = Math.min(n, r0 + R);
     if (offset) for (let i = r0; i < r1; i++) out[i] = offset[i];
     else for (let i = r0; i < r1; i++) out[i] = 0;
-    let j = 0;
-    for (; j + 3 < p; j += 4) {
-      const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      for (let i = r0; i < r1; i++) out[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
-    }
-    for (; j < p; j++) {
-      const b = beta[j], o = j * n;
-      for (let i = r0; i < r1; i++) out[i] += b * X[o + i];
-    }
+    addEtaBlock(X, n, p, beta, r0, r1, out);
   }
   return out;
 }
@@ -96,22 +121,7 @@ export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Arra
   out.fill(0, 0, p);
   for (let r0 = 0; r0 < n; r0 += R) {
     const r1 = Math.min(n, r0 + R);
-    let j = 0;
-    for (; j + 3 < p; j += 4) {
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-      for (let i = r0; i < r1; i++) {
-        const v = r[i];
-        s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
-      }
-      out[j] += s0; out[j + 1] += s1; out[j + 2] += s2; out[j + 3] += s3;
-    }
-    for (; j < p; j++) {
-      const o = j * n;
-      let s = 0;
-      for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
-      out[j] += s;
-    }
+    addXtrBlock(X, n, p, r, r0, r1, out);
   }
   return out;
 }
@@ -130,37 +140,13 @@ export function lossGradientRows(
   for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
     const r1 = Math.min(rowEnd, r0 + R);
     for (let i = r0; i < r1; i++) eta[i] = 0;
-    let j = 0;
-    for (; j + 3 < p; j += 4) {
-      const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
-    }
-    for (; j < p; j++) {
-      const b = beta[j], o = j * n;
-      for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
-    }
+    addEtaBlock(X, n, p, beta, r0, r1, eta);
     for (let i = r0; i < r1; i++) {
       const t = eta[i], a = Math.exp(-Math.abs(t)), yi = y[i];
       loss += Math.max(t, 0) + Math.log1p(a) - yi * t;
       r[i] = yi - (t >= 0 ? 1 / (1 + a) : a / (1 + a));
     }
-    j = 0;
-    for (; j + 3 < p; j += 4) {
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-      for (let i = r0; i < r1; i++) {
-        const v = r[i];
-        s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
-      }
-      g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
-    }
-    for (; j < p; j++) {
-      const o = j * n;
-      let s = 0;
-      for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
-      g[j] += s;
-    }
+    addXtrBlock(X, n, p, r, r0, r1, g);
   }
   return loss;
 }
@@ -183,16 +169,7 @@ export function logisticRows(
     const r1 = Math.min(n, r0 + R);
     if (offset) for (let i = r0; i < r1; i++) eta[i] = offset[i];
     else for (let i = r0; i < r1; i++) eta[i] = 0;
-    let j = 0;
-    for (; j + 3 < p; j += 4) {
-      const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
-    }
-    for (; j < p; j++) {
-      const b = beta[j], o = j * n;
-      for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
-    }
+    addEtaBlock(X, n, p, beta, r0, r1, eta);
     for (let i = r0; i < r1; i++) {
       const t = eta[i], a = Math.exp(-Math.abs(t)), yi = y[i], ci = c ? c[i] : 1;
       const d = 1 / (1 + a);
@@ -201,22 +178,7 @@ export function logisticRows(
       r[i] = ci * (yi === 1 ? mc : yi - m);
       if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
     }
-    j = 0;
-    for (; j + 3 < p; j += 4) {
-      const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-      for (let i = r0; i < r1; i++) {
-        const v = r[i];
-        s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
-      }
-      g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
-    }
-    for (; j < p; j++) {
-      const o = j * n;
-      let s = 0;
-      for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
-      g[j] += s;
-    }
+    addXtrBlock(X, n, p, r, r0, r1, g);
   }
   return loss;
 }
