@@ -5,24 +5,14 @@
  */
 import type { Dataset } from '../engine/data';
 import type { Workspace } from '../io/export/workspaceFile';
-import type { Costs, DataSummary, MethodChoice, ReportText } from '../worker/protocol';
+import type { DataSummary } from '../worker/protocol';
 import { buildSpec } from './actions';
-import { defaultImportSettings, initialState, type AppState, type ImportSettings, type PredictorRole, type ViewId } from './appState';
+import { defaultImportSettings, initialState, type AppState, type PredictorRole } from './appState';
 
-export interface WorkbenchSettings {
-  outcome: string | null;
-  event: string | null;
-  roles: Record<string, PredictorRole>;
-  interactions: [string, string][];
-  method: MethodChoice;
-  alpha: number;
-  lambdaRule: 'min' | '1se';
-  level: number;
-  threshold: number;
-  costs: Costs;
-  reportText: ReportText;
-  importSettings: ImportSettings;
-  view: ViewId;
+/** The part of the state a workspace keeps (the same fields as AppState), plus whether a model had been fitted. */
+export interface WorkbenchSettings extends Pick<AppState,
+  'outcome' | 'event' | 'roles' | 'interactions' | 'method' | 'alpha' | 'lambdaRule' | 'level' | 'threshold' | 'costs'
+  | 'reportText' | 'importSettings' | 'view'> {
   /** A model had been fitted: fit it again on restore so the results reappear. */
   fitted: boolean;
 }

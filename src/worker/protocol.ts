@@ -2,7 +2,7 @@
  * Plain records that cross the worker boundary (structured-clone safe). The main thread imports TYPES only
  * from here and from src/engine; it never runs engine code.
  */
-import type { EngineWarning, FitResult, ModelSpec } from '../engine/model';
+import type { CoefficientRow, EngineWarning, FitResult, ModelSpec } from '../engine/model';
 import type { CostThresholds, ThresholdMetrics } from '../engine/threshold';
 import type { ImportFormat } from '../io/types';
 
@@ -53,18 +53,8 @@ export interface FitRequest {
 }
 
 /** One line of the odds-ratio table, ready to show (penalised fits carry no intervals). */
-export interface OddsRow {
-  name: string;
-  term: string;
-  estimate: number;
-  oddsRatio: number;
-  se: number | null;
-  p: number | null;
-  waldLower: number | null;
-  waldUpper: number | null;
-  profileLower: number | null;
-  profileUpper: number | null;
-  aliased: boolean;
+export interface OddsRow extends Pick<CoefficientRow,
+  'name' | 'term' | 'estimate' | 'oddsRatio' | 'se' | 'p' | 'waldLower' | 'waldUpper' | 'profileLower' | 'profileUpper' | 'aliased'> {
   /** The true coefficient of an invented demo, when known. */
   truth: number | null;
 }
