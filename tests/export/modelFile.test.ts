@@ -1,7 +1,7 @@
+import { expectFulcraError } from './expectFulcraError';
 import { describe, expect, it } from 'vitest';
 import { fit } from '../../src/engine/fit';
 import { predict } from '../../src/engine/predict';
-import { FulcraError } from '../../src/engine/data';
 import { datasetChecksum } from '../../src/io/export/checksum';
 import { createModelFile, MODEL_FILE_VERSION, modelFileToFitResult, modelFileToJson } from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';
@@ -17,17 +17,6 @@ const saved = () =>
     }),
   );
 
-function expectFulcraError(f: () => unknown, code: string, message: RegExp): void {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(FulcraError);
-    expect((e as FulcraError).code).toBe(code);
-    expect((e as FulcraError).message).toMatch(message);
-    return;
-  }
-  throw new Error('expected a FulcraError');
-}
 
 describe('model file', () => {
   it('round-trips: save → load → identical predictions (bit for bit) and intervals on birthwt with splines and interactions', () => {

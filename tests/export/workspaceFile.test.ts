@@ -1,5 +1,6 @@
+import { expectFulcraError } from './expectFulcraError';
 import { describe, expect, it } from 'vitest';
-import { FulcraError, type Dataset } from '../../src/engine/data';
+import type { Dataset } from '../../src/engine/data';
 import { fit } from '../../src/engine/fit';
 import { gunzipSync } from 'node:zlib';
 import { readWorkspaceBytes, readWorkspaceFile, workspaceToGzip, workspaceToJson, type Workspace } from '../../src/io/export/workspaceFile';
@@ -31,17 +32,6 @@ function workspace(): Workspace {
 
 const info = { fulcraVersion: '0.1.0', saved: '2026-12-02T01:50:00Z' };
 
-function expectFulcraError(f: () => unknown, code: string, message: RegExp): void {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(FulcraError);
-    expect((e as FulcraError).code).toBe(code);
-    expect((e as FulcraError).message).toMatch(message);
-    return;
-  }
-  throw new Error('expected a FulcraError');
-}
 
 describe('workspace file', () => {
   it('round-trips every part of the workspace, typed arrays bit for bit (NaN and −1 missing kept)', () => {
