@@ -4,7 +4,7 @@
  */
 import type { DemoId } from '../engine/demo';
 import type { WorkerClient } from '../ui/workerClient';
-import { readWorkspaceBytes, workspaceToGzip, type Workspace } from '../io/export/workspaceFile';
+import type { Workspace } from '../io/export/workspaceFile';
 import type { FitRequest, ReportText } from '../worker/protocol';
 import * as A from './actions';
 import { importOptionsOf, type AppState, type ViewId } from './appState';
@@ -297,7 +297,10 @@ export function createController(store: Store, client: WorkerClient): Controller
     async openWorkspaceFile(file) {
       let ws: Workspace;
       try {
-        ws = (await readWorkspaceBytes(new Uint8Array(await file.arrayBuffer()))).workspace;
+        const bytes = new Uint8Array(await file.arrayBuffer());
+        const read = await client.call((api) => api.readWorkspaceFile(client.transfer(bytes, [bytes.buffer])));
+        if (!read) return; // the failure was already reported through the worker client
+        ws = read;
       } catch (err) {
         const e = err as { message?: string; suggestion?: string };
         store.apply(A.notify, { kind: 'error', text: e.message ?? String(err), suggestion: e.suggestion });
@@ -308,7 +311,8 @@ export function createController(store: Store, client: WorkerClient): Controller
     },
     async workspaceFile(version) {
       if (!held || !s().data) return undefined;
-      const bytes = await workspaceToGzip(toWorkspace(s(), held, true), { fulcraVersion: version });
+      const bytes = await client.call((api) => api.workspaceFile(toWorkspace(s(), held, false), version));
+      if (!bytes) return undefined;
       const stem = (s().outcome ?? held.summary.source.name).replace(/[^\p{L}\p{N}_-]+/gu, '_').slice(0, 40) || 'data';
       return { bytes, name: `fulcra-workspace-${stem}-${new Date().toISOString().slice(0, 10)}.fulcra-workspace.json.gz` };
     },

@@ -3,6 +3,7 @@
  * current model; every call returns plain records. Errors leave as plain {code, message, suggestion} objects
  * (Comlink would drop an Error's extra fields); cancellation raises code 'cancelled'.
  */
+import { readWorkspaceBytes, workspaceToGzip, type Workspace } from '../io/export/workspaceFile';
 import * as Comlink from 'comlink';
 import type { DemoId } from '../engine/demo';
 import type { ModelSpec } from '../engine/model';
@@ -68,6 +69,16 @@ export function createApi() {
     }),
     /** Loads data the page kept (engine restart, saved workspace) without reading a file again. */
     loadDataset: (data: Dataset, summary: DataSummary | null, name: string) => guard(null, () => loadHeld(session, data, summary, name)),
+    /** The workspace file (gzip JSON), encoded here rather than on the page: `ws` comes without data, the worker adds its own. */
+    workspaceFile: (ws: Workspace, version: string) => guard(null, async () => {
+      const bytes = await workspaceToGzip({ ...ws, data: requireData(session) }, { fulcraVersion: version });
+      return Comlink.transfer(bytes, [bytes.buffer as ArrayBuffer]);
+    }),
+    /** Decodes a workspace file (plain or gzip) here rather than on the page; its data buffers are transferred. */
+    readWorkspaceFile: (bytes: Uint8Array) => guard(null, async () => {
+      const { workspace } = await readWorkspaceBytes(bytes);
+      return Comlink.transfer(workspace, workspace.data ? [...new Set(workspace.data.columns.map((c) => (c.kind === 'numeric' ? c.values.buffer : c.codes.buffer) as ArrayBuffer))] : []);
+    }),
     /** Test hook (the page only calls it with ?testhooks=1): an uncaught error in the worker, as a crash would raise. */
     crashForTest: () => { setTimeout(() => { throw new Error('engine crash requested by a test'); }, 0); },
     getRows: (start: number, count: number) => guard(null, () => rowsWindow(requireData(session), start, count)),

@@ -16,9 +16,14 @@ import type { DataSummary } from '../../src/worker/protocol';
 function harness() {
   let api = createApi();
   const errors: string[] = [];
+  const store = createStore();
+  // As the page wires createWorkerClient: a failure other than a cancellation goes to the one notice list.
   const report = (e: unknown) => {
-    const err = e as { code?: string; message?: string };
-    if (err.code !== 'cancelled') errors.push(err.message ?? String(e));
+    const err = e as { code?: string; message?: string; suggestion?: string };
+    if (err.code !== 'cancelled') {
+      errors.push(err.message ?? String(e));
+      store.apply(A.notify, { kind: 'error', text: err.message ?? String(e), suggestion: err.suggestion });
+    }
     return undefined;
   };
   const client: WorkerClient = {
@@ -29,7 +34,6 @@ function harness() {
     cancel: (id) => { void api.cancel(id); },
     terminate: () => {},
   };
-  const store = createStore();
   const ctl = createController(store, client);
   const crash = async () => {
     api = createApi();
