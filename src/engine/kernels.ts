@@ -81,14 +81,14 @@ function addEtaBlock(X: Float64Array, n: number, p: number, beta: ArrayLike<numb
   }
 }
 
-/** g += X[r0..r1, ·]'r[r0..r1), four columns per pass over the block of r. */
-function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0: number, r1: number, g: Float64Array): void {
+/** g += X[r0..r1, ·]'r[r0..r1), four columns per pass over the block of r (row i at r[i − rOff]). */
+function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0: number, r1: number, g: Float64Array, rOff = 0): void {
   let j = 0;
   for (; j + 3 < p; j += 4) {
     const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
     let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
     for (let i = r0; i < r1; i++) {
-      const v = r[i];
+      const v = r[i - rOff];
       s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
     }
     g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
@@ -96,7 +96,7 @@ function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0:
   for (; j < p; j++) {
     const o = j * n;
     let s = 0;
-    for (let i = r0; i < r1; i++) s += X[o + i] * r[i];
+    for (let i = r0; i < r1; i++) s += X[o + i] * r[i - rOff];
     g[j] += s;
   }
 }
@@ -151,22 +151,28 @@ export function lossGradientRows(
   return loss;
 }
 
+/** Residuals of one 512-row block when the caller keeps none (each thread has its own copy of this module). */
+const rowScratch = new Float64Array(512);
+
 /**
  * Fused full pass of a logistic model with optional case weights c and offset, in row blocks (each block of X
  * read twice while it is in cache): η = offset + Xβ, and from one a = e^−|η| per row μ, the case loss
  * softplus(η) − yη (in the cancellation-free form of loss.ts), r = c∘(y − μ) (1 − μ taken directly for y = 1),
  * w = c∘μ(1 − μ), and g = X'r (cleared first). Returns −loglik = Σ cᵢ·lossᵢ (rows with cᵢ = 0 add nothing).
+ * Rows [rowStart, rowEnd) only when given (one chunk of a pooled pass: src/engine/rowPool.ts). r is kept only
+ * when an array is given for it (otherwise a block-sized scratch: one length-n buffer less to touch).
  */
 export function logisticRows(
   X: Float64Array, n: number, p: number, y: Float64Array, beta: ArrayLike<number>,
   c: Float64Array | undefined, offset: Float64Array | undefined,
-  eta: Float64Array, r: Float64Array, w: Float64Array, g: Float64Array,
+  eta: Float64Array, r: Float64Array | undefined, w: Float64Array, g: Float64Array, rowStart = 0, rowEnd = n,
 ): number {
   const R = 512;
   let loss = 0;
+  const res = r ?? rowScratch;
   g.fill(0, 0, p);
-  for (let r0 = 0; r0 < n; r0 += R) {
-    const r1 = Math.min(n, r0 + R);
+  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
+    const r1 = Math.min(rowEnd, r0 + R), ro = r ? 0 : r0;
     if (offset) for (let i = r0; i < r1; i++) eta[i] = offset[i];
     else for (let i = r0; i < r1; i++) eta[i] = 0;
     addEtaBlock(X, n, p, beta, r0, r1, eta);
@@ -175,10 +181,10 @@ export function logisticRows(
       const d = 1 / (1 + a);
       const m = t >= 0 ? d : a * d, mc = t >= 0 ? a * d : d;
       w[i] = ci * m * mc;
-      r[i] = ci * (yi === 1 ? mc : yi - m);
+      res[i - ro] = ci * (yi === 1 ? mc : yi - m);
       if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
     }
-    addXtrBlock(X, n, p, r, r0, r1, g);
+    addXtrBlock(X, n, p, res, r0, r1, g, ro);
   }
   return loss;
 }

@@ -1,5 +1,6 @@
 import { FulcraError } from './data';
-import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from './kernels';
+import { blockedXtr } from './kernels';
+import { createRowPasses, giveBackBuffers, takeBuffer } from './rowPool';
 import { cholesky, choleskyFactorInverse, choleskyLogDet, choleskySolve } from './linalg';
 import { sigmoid } from './loss';
 
@@ -82,8 +83,13 @@ function validate(pr: LogisticProblem): void {
     if (pr.weights && pr.weights[i] < 0) throw new FulcraError('bad-argument', `weights[${i}] is ${pr.weights[i]}; weights must be ≥ 0.`);
   }
   if (pr.penalty) for (let j = 0; j < p; j++) if (pr.penalty[j] < 0) throw new FulcraError('bad-argument', `penalty[${j}] is ${pr.penalty[j]}; it must be ≥ 0.`);
-  for (let k = 0; k < n * p; k++) {
-    if (!Number.isFinite(X[k])) throw new FulcraError('bad-argument', `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`);
+  // x·0 is 0 for every finite x and NaN otherwise: one multiply-add per value, then a search only when needed.
+  let probe = 0;
+  for (let k = 0; k < n * p; k++) probe += X[k] * 0;
+  if (probe !== 0) {
+    for (let k = 0; k < n * p; k++) {
+      if (!Number.isFinite(X[k])) throw new FulcraError('bad-argument', `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`);
+    }
   }
 }
 
@@ -93,8 +99,6 @@ export const FAST_PATH_MIN_ROWS = 20_000;
 /** The state of one evaluation point; two of them let a trial point be evaluated without losing the current one. */
 interface Slot {
   eta: Float64Array;
-  /** c∘(y − μ) */
-  r: Float64Array;
   /** c∘μ(1 − μ) */
   w: Float64Array;
   /** Gradient of the penalised log-likelihood: X'r − N·Pβ (Firth: + X'(h∘(½ − μ))). */
@@ -122,12 +126,12 @@ type Workspace = ReturnType<typeof createWorkspace>;
 
 function createWorkspace(pr: LogisticProblem, N: number) {
   const { X, n, p, y, weights: c, offset, penalty, firth = false } = pr;
-  const work = new Float64Array(ROW_BLOCK * p);
+  const passes = createRowPasses(X, n, p, y, c, offset);
   const Lwork = new Float64Array(p * p), dropWork = new Uint8Array(p);
   const Linv = firth ? new Float64Array(p * p) : null, buf = new Float64Array(1024);
   const fr = firth ? new Float64Array(n) : null, fg = new Float64Array(p);
   const newSlot = (): Slot => ({
-    eta: new Float64Array(n), r: new Float64Array(n), w: new Float64Array(n), g: new Float64Array(p),
+    eta: takeBuffer(n, passes.pooled), w: takeBuffer(n, passes.pooled), g: new Float64Array(p),
     info: new Float64Array(p * p), infoValid: false, hat: firth ? new Float64Array(n) : null, ll: 0, obj: 0,
   });
   const penaltyTerm = (b: ArrayLike<number>): number => {
@@ -137,12 +141,12 @@ function createWorkspace(pr: LogisticProblem, N: number) {
     return 0.5 * s;
   };
   const computeInfo = (s: Slot): void => {
-    accumulateXtWX(X, n, p, s.w, s.info, work);
+    passes.information(s.w, s.info);
     s.infoValid = true;
   };
   /** Fills s at b (one fused pass over X; Firth also needs X'WX, the hat values and one more X'v pass). */
   const evaluate = (b: Float64Array, s: Slot, withInfo: boolean): void => {
-    const loss = logisticRows(X, n, p, y, b, c, offset, s.eta, s.r, s.w, s.g);
+    const loss = passes.logistic(b, s.eta, s.w, s.g);
     s.ll = -loss;
     let obj = loss / N + penaltyTerm(b);
     if (penalty) for (let j = 0; j < p; j++) s.g[j] -= N * penalty[j] * b[j];
@@ -183,7 +187,7 @@ function createWorkspace(pr: LogisticProblem, N: number) {
     }
     s.obj = obj;
   };
-  return { newSlot, evaluate, computeInfo };
+  return { newSlot, evaluate, computeInfo, passes };
 }
 
 /**
@@ -249,77 +253,41 @@ function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, op
   return false;
 }
 
-/** Rows ⌊k·n/m⌋, k = 0…m−1: a fixed, evenly spaced subsample. */
-function strided(n: number, m: number): Int32Array {
-  const idx = new Int32Array(m);
-  for (let k = 0; k < m; k++) idx[k] = Math.floor((k * n) / m);
-  return idx;
-}
-
-/** Rows idx of the column-major n×p X into out (column-major idx.length×p), with their weights and offsets. */
-function gatherRows(pr: LogisticProblem, idx: Int32Array, out: Subsample): Subsample {
-  const { X, n, p, weights: c, offset } = pr, m = idx.length;
-  for (let j = 0; j < p; j++) {
-    const o = j * n, os = j * m;
-    for (let r = 0; r < m; r++) out.X[os + r] = X[o + idx[r]];
-  }
-  out.m = m;
-  out.N = m;
-  if (c) { out.N = 0; for (let r = 0; r < m; r++) { out.c![r] = c[idx[r]]; out.N += out.c![r]; } }
-  if (offset) for (let r = 0; r < m; r++) out.offset![r] = offset[idx[r]];
-  return out;
-}
-
-/** A row subsample of the design with its case weights and offset, for estimating X'WX. */
-interface Subsample { X: Float64Array; m: number; c?: Float64Array; offset?: Float64Array; N: number }
-
-const newSubsample = (pr: LogisticProblem, m: number): Subsample => ({
-  X: new Float64Array(m * pr.p), m, N: 0,
-  c: pr.weights ? new Float64Array(m) : undefined, offset: pr.offset ? new Float64Array(m) : undefined,
-});
+/** Rows per block of a subsample: contiguous runs are read at memory speed, where single rows at a stride are not. */
+const SUB_BLOCK = 128;
 
 /**
- * Large-n start: Newton steps whose Hessian X'WX is estimated on a fixed evenly spaced row subsample (2·p² rows,
- * then a fixed max(10 000, 8·p², min(32·p², n/16)) once the steps are below 1e-3: chord steps, linear convergence at a rate
- * ≈ ‖I − H̃⁻¹H‖) while the gradient and the objective always use every row (subsampled Newton:
- * Roosta-Khorasani & Mahoney 2019, Math Program 174:293). It stops at a small relative step (cheapTol) and hands
- * over to exact Newton, which ends with the exact X'WX and the exact convergence test. Returns null when the exact phase does not converge cleanly
- * (separation, a column dropped as collinear): the caller then runs exact Newton from the start.
+ * Large-n start: Newton steps whose Hessian X'WX is estimated on a fixed subsample of evenly spaced blocks of
+ * SUB_BLOCK rows (2·p² rows, then a fixed max(10 000, 8·p², min(32·p², n/16)) once the steps are below 1e-3:
+ * chord steps, linear convergence at a rate ≈ ‖I − H̃⁻¹H‖) while the gradient and the objective always use every
+ * row (subsampled Newton: Roosta-Khorasani & Mahoney 2019, Math Program 174:293). The subsample's weights are
+ * those of the full pass at the current point, so nothing is copied. It stops at a small relative step (cheapTol)
+ * and hands over to exact Newton, which ends with the exact X'WX and the exact convergence test. Returns null when
+ * the exact phase does not converge cleanly (separation, a column dropped as collinear): the caller then runs
+ * exact Newton from the start.
  */
 function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean | null {
-  const { n, p, penalty, fixed } = pr;
+  const { n, p, penalty, fixed, weights: c } = pr;
   const mFine = Math.max(10_000, 8 * p * p, Math.min(32 * p * p, Math.floor(n / 16))), mCoarse = Math.max(4_000, 2 * p * p);
-  const fineIdx = strided(n, mFine);
-  // The coarse rows are kept; the fine rows are used once, gathered in chunks.
-  const coarse = gatherRows(pr, Int32Array.from(strided(mFine, mCoarse), (k) => fineIdx[k]), newSubsample(pr, mCoarse));
-  const chunk = newSubsample(pr, Math.min(2048, mFine));
-  if (!(coarse.N > 0)) return null;
-  const etaS = new Float64Array(mCoarse), wS = new Float64Array(mCoarse), work = new Float64Array(ROW_BLOCK * p);
-  const Hs = new Float64Array(p * p), part = new Float64Array(p * p), H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
-  /** Σ_s cᵢwᵢxᵢxᵢ' at beta into out; returns Σ_s cᵢ. */
-  const rowsHessian = (s: Subsample, out: Float64Array): number => {
-    blockedLinearPredictor(s.X, s.m, p, run.beta, s.offset, etaS);
-    for (let k = 0; k < s.m; k++) {
-      const a = Math.exp(-Math.abs(etaS[k]));
-      wS[k] = ((s.c ? s.c[k] : 1) * a) / ((1 + a) * (1 + a));
-    }
-    accumulateXtWX(s.X, s.m, p, wS, out, work);
-    return s.N;
+  // Blocks of rows spread evenly over the data (starts ⌊k·n/count⌋); the coarse blocks are a subset of the fine ones.
+  const nFine = Math.ceil(mFine / SUB_BLOCK), nCoarse = Math.ceil(mCoarse / SUB_BLOCK);
+  const fineBlocks = ws.passes.allocInt32(nFine), coarseBlocks = ws.passes.allocInt32(nCoarse);
+  for (let k = 0; k < nFine; k++) fineBlocks[k] = Math.floor((k * n) / nFine);
+  for (let k = 0; k < nCoarse; k++) coarseBlocks[k] = fineBlocks[Math.floor((k * nFine) / nCoarse)];
+  /** Σ cᵢ over the blocks' rows. */
+  const weightOf = (blocks: Int32Array): number => {
+    let s = 0;
+    for (const a of blocks) for (let i = a; i < Math.min(n, a + SUB_BLOCK); i++) s += c ? c[i] : 1;
+    return s;
   };
-  /** The data part of the Hessian estimated on the coarse or the fine subsample s: Σ_s cᵢwᵢxᵢxᵢ'·N/Σ_s cᵢ. */
-  const subsampleHessian = (fine: boolean): boolean => {
-    let Ns = 0;
-    if (!fine) Ns = rowsHessian(coarse, Hs);
-    else {
-      Hs.fill(0);
-      for (let k0 = 0; k0 < mFine; k0 += chunk.X.length / p) {
-        Ns += rowsHessian(gatherRows(pr, fineIdx.subarray(k0, Math.min(mFine, k0 + chunk.X.length / p)), chunk), part);
-        for (let q = 0; q < p * p; q++) Hs[q] += part[q];
-      }
-    }
-    if (!(Ns > 0)) return false;
-    for (let q = 0; q < p * p; q++) Hs[q] *= N / Ns;
-    return true;
+  const Ncoarse = weightOf(coarseBlocks), Nfine = weightOf(fineBlocks);
+  if (!(Ncoarse > 0) || !(Nfine > 0)) return null;
+  const Hs = new Float64Array(p * p), H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
+  /** The data part of the Hessian at run.beta estimated on a subsample: Σ_s cᵢwᵢxᵢxᵢ'·N/Σ_s cᵢ. */
+  const subsampleHessian = (fine: boolean): void => {
+    ws.passes.informationOnBlocks(run.cur.w, fine ? fineBlocks : coarseBlocks, SUB_BLOCK, Hs);
+    const sc = N / (fine ? Nfine : Ncoarse);
+    for (let q = 0; q < p * p; q++) Hs[q] *= sc;
   };
   const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
   ws.evaluate(run.beta, run.cur, false);
@@ -330,7 +298,7 @@ function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt
   let useFine = false, haveFine = false, lastRel = Infinity;
   while (run.iterations < budget) {
     if (!useFine) subsampleHessian(false);
-    else if (!haveFine) { if (!subsampleHessian(true)) break; haveFine = true; }
+    else if (!haveFine) { subsampleHessian(true); haveFine = true; }
     H.set(Hs);
     U.set(run.cur.g);
     if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
@@ -424,6 +392,7 @@ export function newtonLogistic(problem: LogisticProblem, options: Partial<Newton
   };
   if (run.path) result.path = run.path;
   if (firth) result.hat = Float64Array.from(cur.hat!);
+  giveBackBuffers(cur.eta, cur.w, other.eta, other.w);
   return result;
 }
 
