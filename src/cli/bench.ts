@@ -4,14 +4,15 @@
  * Not part of `npm test`. See benchUsage for options.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
-import { availableParallelism, cpus, loadavg } from 'node:os';
+import { cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { FulcraError } from '../engine/data';
 import { bootstrap, csvImport, surface, thresholdQueries, type Measurement } from './bench/extras';
 import { benchUsage, parseBenchArgs } from './bench/options';
 import { fulcraFit, glmFit, maxRelGap, referenceThreads, sklearnFit, type FitTiming } from './bench/run';
 import { ensureSynth } from './bench/synth';
-import { judgeTargets, renderReport, type BenchRecord, type SizeResult } from './bench/report';
+import { judgeTargets, ONE_THREAD, renderReport, type BenchRecord, type SizeResult } from './bench/report';
+import { defaultThreads } from './nodeRowPool';
 
 async function main(): Promise<void> {
   const o = parseBenchArgs(process.argv.slice(2));
@@ -29,20 +30,18 @@ async function main(): Promise<void> {
     const f = ensureSynth(o.out, n, p, o.seed);
     const repeats = o.repeats ?? (n >= 1e6 ? 1 : 3);
     const size: SizeResult = { n, p, csv: f.csv, csvBytes: f.csvBytes, eventRate: f.eventRate, designBytes: n * (p + 1) * 8, fits: [], errors: [] };
-    log('  Fulcra engine');
-    const eng = fulcraFit(f, 'engine', repeats, true);
+    // The judged run uses every core, as the page does (navigator.hardwareConcurrency); one thread is shown beside it.
+    const cores = defaultThreads();
+    log(`  Fulcra engine (${cores} thread${cores === 1 ? '' : 's'})`);
+    const eng = fulcraFit(f, cores, repeats, true);
     if ('error' in eng) { size.errors.push(`Fulcra engine: ${eng.error}`); record.sizes.push(size); continue; }
     const tight = eng.tight!;
     size.tight = tight;
     size.fits.push(eng.timing);
-    log('  Fulcra prototype');
-    const proto = fulcraFit(f, 'prototype', repeats, false);
-    if ('error' in proto) size.errors.push(`Fulcra prototype: ${proto.error}`); else size.fits.push(proto.timing);
-    const cores = availableParallelism();
     if (cores > 1) {
-      log(`  Fulcra prototype ×${cores}`);
-      const pool = fulcraFit(f, 'prototype', repeats, false, cores);
-      if ('error' in pool) size.errors.push(`Fulcra prototype ×${cores}: ${pool.error}`); else size.fits.push(pool.timing);
+      log('  Fulcra engine (1 thread)');
+      const one = fulcraFit(f, 1, repeats, false);
+      if ('error' in one) size.errors.push(`${ONE_THREAD}: ${one.error}`); else size.fits.push(one.timing);
     }
     if (o.references) {
       for (const s of ['newton-cholesky', 'lbfgs'] as const) {

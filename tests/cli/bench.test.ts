@@ -1,9 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { fastNewtonLogistic } from '../../src/cli/bench/fastNewton';
 import { parseBenchArgs, parseSize } from '../../src/cli/bench/options';
-import { judgeTargets, type BenchRecord } from '../../src/cli/bench/report';
+import { judgeTargets, ONE_THREAD, type BenchRecord } from '../../src/cli/bench/report';
 import { synthesise, trueCoefficients } from '../../src/cli/bench/synth';
-import { newtonLogistic } from '../../src/engine/newton';
 
 describe('benchmark options', () => {
   it('reads sizes like 1e5x50 and rejects malformed ones', () => {
@@ -28,24 +26,6 @@ describe('synthetic data', () => {
   });
 });
 
-describe('fastNewtonLogistic (prototype)', () => {
-  it('reaches the same optimum as newtonLogistic to 1e-10 when its Hessian uses a small subsample', () => {
-    const n = 20000, p = 6;
-    const { X: Xp, y } = synthesise(n, p - 1, 11);
-    const X = new Float64Array(n * p);
-    X.fill(1, 0, n);
-    X.set(Xp, n);
-    const ref = newtonLogistic({ X, n, p, y }, { tol: 1e-14, maxIter: 100 });
-    for (const subsample of [2000, undefined]) {
-      const r = fastNewtonLogistic(X, n, p, y, { subsample });
-      expect(r.converged).toBe(true);
-      for (let j = 0; j < p; j++) expect(Math.abs(r.beta[j] - ref.beta[j])).toBeLessThan(1e-10 * Math.abs(ref.beta[j]) + 1e-12);
-      for (let k = 0; k < p * p; k++) expect(Math.abs(r.information[k] - ref.information[k])).toBeLessThan(1e-6 * Math.abs(ref.information[k]) + 1e-8);
-      expect(r.logLik).toBeCloseTo(ref.logLik, 8);
-    }
-  });
-});
-
 describe('targets', () => {
   it('judges a fit ratio only when both fits reached 1e-8 precision', () => {
     const fit = (who: string, median: number, gap: number) => ({ who, library: '', seconds: [median], cpuSeconds: [median], median, iterations: 1, beta: [], gap, notes: [] });
@@ -58,5 +38,16 @@ describe('targets', () => {
     const glm = t.find((x) => x.name === 'Fulcra engine 1e+6×50 / R glm.fit');
     expect(glm?.met).toBe(false);
     expect(glm?.measured).toMatch(/precision not reached/);
+  });
+
+  it('judges the engine as the page runs it (all cores), and shows the one-thread run without judging it', () => {
+    const fit = (who: string, median: number) => ({ who, library: '', seconds: [median], cpuSeconds: [median], median, iterations: 1, beta: [], gap: 0, notes: [] });
+    const rec: BenchRecord = {
+      date: '', node: '', cpu: '', cores: 2, loadAverageAtStart: 0, quick: false, seed: 1, referenceThreads: {}, timing: '', extras: [], browser: null, targets: [],
+      sizes: [{ n: 1e5, p: 50, csv: '', csvBytes: 0, eventRate: 0.3, designBytes: 8, errors: [], fits: [fit('Fulcra engine', 2), fit(ONE_THREAD, 3), fit('sklearn newton-cholesky', 2.5)] }],
+    };
+    const t = judgeTargets(rec);
+    expect(t.find((x) => x.name === 'Fulcra engine 1e+5×50 / sklearn newton-cholesky')?.met).toBe(true);
+    expect(t.some((x) => x.name.startsWith(ONE_THREAD))).toBe(false);
   });
 });

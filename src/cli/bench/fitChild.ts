@@ -1,30 +1,29 @@
 /**
  * Child process of `npm run bench`: loads one synthetic data set from its float64 files, times Fulcra's
- * logistic fit (the same newtonLogistic the worker runs) and prints one JSON line. Run in its own process
- * so that its peak RSS measures the fit alone. Arguments: JSON of FitChildArgs.
+ * logistic fit (the same newtonLogistic the worker runs, on `threads` threads: a row pool as the page starts
+ * one) and prints one JSON line. Run in its own process so that its peak RSS measures the fit alone.
+ * Arguments: JSON of FitChildArgs.
  */
 import { resourceUsage } from 'node:process';
 import { newtonLogistic } from '../../engine/newton';
-import { createPool } from './pool';
+import { allocF64, installRowPool } from '../../engine/rowPool';
+import { startNodeRowPool } from '../nodeRowPool';
 import { readBin } from './synth';
-import { SOLVERS, type SolverName } from './solvers';
 
 export interface FitChildArgs {
   xBin: string;
   yBin: string;
   n: number;
   p: number;
-  solver: SolverName;
   tol: number;
   repeats: number;
   /** Also compute the tightly converged reference (full Newton steps from the estimate until no decrease). */
   polish: boolean;
-  /** Threads for the prototype's row passes (worker_threads pool when > 1; started before the timer). */
-  threads?: number;
+  /** Threads for the engine's row passes (a worker_threads pool when > 1, started before the timer). */
+  threads: number;
 }
 
 export interface FitChildResult {
-  solver: SolverName;
   seconds: number[];
   /** Process CPU seconds (user + system) of each repeat. */
   cpuSeconds: number[];
@@ -34,7 +33,7 @@ export interface FitChildResult {
   tight?: number[];
   /** Peak resident set size of this process (bytes) and the size of the float64 design incl. intercept. */
   maxRssBytes: number;
-  /** RSS just before the data were allocated (the Node + tsx runtime), to report what data + fit add. */
+  /** RSS just before the data were allocated (the Node + tsx runtime and the pool), to report what data + fit add. */
   baselineRssBytes: number;
   designBytes: number;
 }
@@ -43,27 +42,26 @@ async function main(): Promise<void> {
   const a = JSON.parse(process.argv[2]) as FitChildArgs;
   const { n, p } = a;
   const q = p + 1;
-  const threads = a.threads ?? 1;
+  const pool = a.threads > 1 ? await startNodeRowPool(a.threads) : undefined;
+  if (pool) installRowPool(pool.pool);
   const baselineRssBytes = process.memoryUsage.rss();
-  const X = threads > 1 ? new Float64Array(new SharedArrayBuffer(n * q * 8)) : new Float64Array(n * q);
+  const X = allocF64(n * q);
   X.fill(1, 0, n);
   readBin(a.xBin, X.subarray(n));
-  const y = threads > 1 ? new Float64Array(new SharedArrayBuffer(n * 8)) : new Float64Array(n);
+  const y = allocF64(n);
   readBin(a.yBin, y);
-  const pool = threads > 1 ? await createPool(X, n, q, y, threads) : undefined;
-  const solve = SOLVERS[a.solver];
   const seconds: number[] = [], cpuSeconds: number[] = [];
-  let last: { beta: Float64Array; iterations: number; converged: boolean } | undefined;
+  let last: ReturnType<typeof newtonLogistic> | undefined;
   for (let r = 0; r < a.repeats; r++) {
     const c0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
-    last = solve({ X, n, p: q, y }, a.tol, pool);
+    last = newtonLogistic({ X, n, p: q, y }, { tol: a.tol, maxIter: 100 });
     seconds.push(Number(process.hrtime.bigint() - t0) / 1e9);
     const c = process.cpuUsage(c0);
     cpuSeconds.push((c.user + c.system) / 1e6);
   }
   const out: FitChildResult = {
-    solver: a.solver, seconds, cpuSeconds, iterations: last!.iterations, converged: last!.converged, beta: Array.from(last!.beta),
+    seconds, cpuSeconds, iterations: last!.iterations, converged: last!.converged, beta: Array.from(last!.beta),
     maxRssBytes: resourceUsage().maxRSS * 1024, baselineRssBytes, designBytes: n * q * 8,
   };
   if (a.polish) {

@@ -4,7 +4,7 @@ import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import type { FitChildArgs, FitChildResult } from './fitChild';
 import type { SynthFiles } from './synth';
-import type { SolverName } from './solvers';
+import { ONE_THREAD } from './report';
 
 const here = join(process.cwd(), 'src', 'cli', 'bench');
 
@@ -55,20 +55,20 @@ function runJson(cmd: string, args: string[], env?: Record<string, string>): { o
   }
 }
 
-export function fulcraFit(f: SynthFiles, solver: SolverName, repeats: number, polish: boolean, threads = 1): { timing: FitTiming; tight?: number[] } | { error: string } {
-  const args: FitChildArgs = { xBin: f.xBin, yBin: f.yBin, n: f.n, p: f.p, solver, tol: 1e-10, repeats, polish, threads };
+/** Times the engine in a child process on `threads` threads (1: no pool). */
+export function fulcraFit(f: SynthFiles, threads: number, repeats: number, polish: boolean): { timing: FitTiming; tight?: number[] } | { error: string } {
+  const args: FitChildArgs = { xBin: f.xBin, yBin: f.yBin, n: f.n, p: f.p, tol: 1e-10, repeats, polish, threads };
   const r = runJson(process.execPath, ['--import', 'tsx', join(here, 'fitChild.ts'), JSON.stringify(args)]);
   if (!r.ok) return { error: r.error };
   const v = r.value as FitChildResult;
-  const library = solver === 'engine'
-    ? 'Fulcra newtonLogistic (src/engine/newton.ts, tol 1e-10), Node, 1 thread'
-    : `Fulcra prototype fastNewtonLogistic (src/cli/bench/fastNewton.ts: subsampled Hessian + one exact Hessian), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads pool for the full-data passes, started before the timer)`}`;
   return {
     timing: {
-      who: solver === 'engine' ? 'Fulcra engine' : threads === 1 ? 'Fulcra prototype' : `Fulcra prototype ×${threads}`, library, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
+      who: threads === 1 ? ONE_THREAD : 'Fulcra engine',
+      library: `Fulcra newtonLogistic (src/engine/newton.ts, tol 1e-10), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`}`,
+      seconds: v.seconds, cpuSeconds: v.cpuSeconds,
       median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, maxRssBytes: v.maxRssBytes,
       addedRssBytes: v.maxRssBytes - v.baselineRssBytes,
-      notes: [v.converged ? '' : 'not converged', `peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`].filter(Boolean),
+      notes: [v.converged ? '' : 'not converged', `${threads} thread${threads === 1 ? '' : 's'}; peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`].filter(Boolean),
     },
     tight: v.tight,
   };
