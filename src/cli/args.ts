@@ -23,6 +23,8 @@ export interface FitArgs {
   delimiter?: string;
   decimal?: '.' | ',';
   sheet?: string;
+  /** Threads for the row passes of large fits (default: the machine's cores, at most 8; the numbers do not change). */
+  threads?: number;
   json: boolean;
   help: boolean;
 }
@@ -51,6 +53,7 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --delimiter D            override the detected delimiter (, ; tab |)
   --decimal . | ,          override the detected decimal mark
   --sheet NAME             sheet of an .xlsx file
+  --threads T              threads for fits above 32 768 rows (default: all cores, at most 8); same numbers on any T
   --json                   print the full result record as JSON
   --help                   this text
 `;
@@ -124,6 +127,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--bootstrap': a.bootstrap = numberArg(flag, value()); break;
       case '--cv': a.cv = numberArg(flag, value()); break;
       case '--seed': a.seed = numberArg(flag, value()); break;
+      case '--threads': {
+        const t = numberArg(flag, value());
+        if (!Number.isInteger(t) || t < 1 || t > 64) throw new FulcraError('bad-argument', `--threads must be a whole number from 1 to 64, got ${t}.`);
+        a.threads = t;
+        break;
+      }
       case '--test': a.test = value(); break;
       case '--delimiter': {
         const v = value();

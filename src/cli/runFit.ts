@@ -14,6 +14,8 @@ import { importFile } from '../io/importFile';
 import { proposeOutcomeEvent } from '../io/outcome';
 import type { ColumnType, ImportOptions, ImportResult } from '../io/types';
 import type { FitArgs } from './args';
+import { CHUNK_ROWS, installRowPool } from '../engine/rowPool';
+import { defaultThreads, startNodeRowPool } from './nodeRowPool';
 
 /** The record `npm run fit --json` prints: the same engine records the page shows. */
 export interface FitRun {
@@ -87,6 +89,18 @@ const stripPrepared = (e: EvaluationRecord): Omit<EvaluationRecord, 'prepared'> 
 /** Runs the whole headless procedure and returns the record (printing is the caller's job). */
 export async function runFit(args: FitArgs, argv: string[], version: string): Promise<FitRun> {
   const table = await loadTable(args.file, args);
+  // Large data: a pool of threads for the row passes, as the page starts one (the same numbers on any count).
+  const threads = args.threads ?? defaultThreads();
+  const pool = threads > 1 && table.dataset.nRows > CHUNK_ROWS ? await startNodeRowPool(threads) : null;
+  if (pool) installRowPool(pool.pool);
+  try {
+    return await runFitOn(table, args, argv, version);
+  } finally {
+    if (pool) { installRowPool(null); await pool.close(); }
+  }
+}
+
+async function runFitOn(table: ImportResult, args: FitArgs, argv: string[], version: string): Promise<FitRun> {
   const spec = buildSpec(args, table);
   const data = table.dataset;
   const fitOptions: Partial<FitOptions> = args.firth ? { method: 'firth' } : args.ridge !== undefined ? { method: 'ridge', lambda: args.ridge } : { method: 'ml' };

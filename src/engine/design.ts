@@ -2,6 +2,7 @@ import { FulcraError, getColumn, type Column, type Dataset } from './data';
 import type { DesignRecipe, ModelSpec } from './model';
 import { rcsBasis, rcsKnots } from './splines';
 import { warning, type EngineWarning } from './warnings';
+import { allocF64 } from './rowPool';
 
 export interface EncodedDesign {
   /** Column-major n×p, intercept first. */
@@ -190,13 +191,13 @@ export function designFromRecipe(
     }
   }
   const p = blocks.length + 1;
-  const X = new Float64Array(n * p);
+  const X = allocF64(n * p); // shared memory while a row pool is installed, so that its threads can read it
   X.fill(1, 0, n);
   blocks.forEach((b, j) => X.set(b.values, (j + 1) * n));
 
   let y: Float64Array | null = null;
   if (outcomeCol) {
-    y = new Float64Array(n);
+    y = allocF64(n);
     if (outcomeCol.kind === 'categorical') {
       const ev = outcomeCol.levels.indexOf(recipe.event);
       for (let i = 0; i < n; i++) y[i] = outcomeCol.codes[rowsUsed[i]] === ev ? 1 : 0;

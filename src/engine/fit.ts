@@ -10,6 +10,7 @@ import { profileInterval } from './profileCi';
 import { detectSeparation } from './separation';
 import { destandardiseMap, standardise, type Standardised } from './standardise';
 import { warning, type EngineWarning } from './warnings';
+import { allocF64 } from './rowPool';
 
 /** Options of this implementation beyond model.ts's FitOptions. */
 export interface FitExtraOptions {
@@ -85,7 +86,7 @@ export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): Prepa
   const keep = ali.aliased.flatMap((a, j) => (a ? [] : [j]));
   let Zk = std.Z;
   if (keep.length < p) {
-    Zk = new Float64Array(n * keep.length);
+    Zk = allocF64(n * keep.length);
     keep.forEach((j, k) => Zk.set(std.Z.subarray(j * n, (j + 1) * n), k * n));
   }
   const problem: LogisticProblem = { X: Zk, n, p: keep.length, y };

@@ -1,5 +1,8 @@
 import { execFileSync } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { createRng } from '../../src/engine/rng';
 import { describe, expect, it } from 'vitest';
 import { FulcraError } from '../../src/engine/data';
 import { parseFitArgs } from '../../src/cli/args';
@@ -36,14 +39,37 @@ describe('npm run fit', () => {
   }, 60_000);
 });
 
+describe('npm run fit on more rows than one chunk', () => {
+  it('prints the same record on 1 and on 2 threads (the row pool changes no number)', () => {
+    // 40 000 invented rows (seeded), more than CHUNK_ROWS = 32 768, so that two threads share the passes.
+    const dir = mkdtempSync(join(tmpdir(), 'fulcra-threads-'));
+    const file = join(dir, 'rows.csv');
+    const rng = createRng(4);
+    const lines = ['a,b,y'];
+    for (let i = 0; i < 40_000; i++) {
+      const a = rng.normal(), b = rng.normal();
+      lines.push(`${a.toFixed(4)},${b.toFixed(4)},${rng.next() < 1 / (1 + Math.exp(1 - 0.8 * a + 0.5 * b)) ? 1 : 0}`);
+    }
+    writeFileSync(file, lines.join('\n'));
+    const run = (t: number) => {
+      const out = JSON.parse(execFileSync('npx', ['tsx', 'src/cli/fit.ts', file, '--outcome', 'y', '--json', '--threads', String(t)], { encoding: 'utf8' }));
+      delete out.fulcra.command;
+      return out;
+    };
+    const one = run(1), two = run(2);
+    expect(two).toEqual(one);
+    expect(one.fit.coefficients).toHaveLength(3);
+  }, 120_000);
+});
+
 describe('parseFitArgs', () => {
   it('reads every option', () => {
     const a = parseFitArgs(['d.csv', '--outcome', 'y', '--event', 'yes', '--predictors', 'a,b', '--categorical', 'b',
       '--reference', 'b=low', '--spline', 'a=4', '--interaction', 'a:b', '--costs', '10:1', '--threshold', '0.2',
-      '--bootstrap', '50', '--seed', '7', '--json']);
+      '--bootstrap', '50', '--seed', '7', '--threads', '3', '--json']);
     expect(a).toMatchObject({ file: 'd.csv', outcome: 'y', event: 'yes', predictors: ['a', 'b'], categorical: ['b'],
       reference: { b: 'low' }, splines: { a: 4 }, interactions: [['a', 'b']], costs: { fn: 10, fp: 1 }, threshold: 0.2,
-      bootstrap: 50, seed: 7, json: true });
+      bootstrap: 50, seed: 7, threads: 3, json: true });
   });
 
   it.each([
@@ -54,6 +80,7 @@ describe('parseFitArgs', () => {
     [['d.csv', '--outcome', 'y', '--spline', 'a=7'], '3, 4 or 5'],
     [['d.csv', '--outcome', 'y', '--firth', '--ridge', '1'], 'one of'],
     [['d.csv', '--outcome', 'y', '--frobnicate'], 'Unknown option'],
+    [['d.csv', '--outcome', 'y', '--threads', '0'], 'from 1 to 64'],
   ])('rejects %j with a message', (argv, text) => {
     expect(() => parseFitArgs(argv)).toThrow(FulcraError);
     expect(() => parseFitArgs(argv)).toThrow(text);
