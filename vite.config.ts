@@ -91,6 +91,26 @@ export default unused; export const Canvg = { fromString: unused };`
 }
 
 /**
+ * Single-file build: the engine's row pool needs a cross-origin-isolated page, which a file:// page never is, so
+ * the module that would start helper workers (and make the bundler emit a second worker file) becomes a stub.
+ */
+function noRowPoolInSingleFile(): Plugin {
+  const stub = '\0fulcra:no-row-pool';
+  return {
+    name: 'fulcra:no-row-pool',
+    enforce: 'pre',
+    resolveId: (id) => (/[\\/]rowPoolBrowser(\.ts)?$/.test(id) ? stub : undefined),
+    load: (id) => (id === stub ? 'export async function startBrowserRowPool() { return 1; }' : undefined),
+  };
+}
+
+/**
+ * Cross-origin isolation (so that the engine worker may share memory with its helper threads): sent by the dev
+ * server and `vite preview`; a hosted copy must send the same two headers, or the engine runs on one thread.
+ */
+const isolation = { 'Cross-Origin-Opener-Policy': 'same-origin', 'Cross-Origin-Embedder-Policy': 'require-corp' };
+
+/**
  * Script text for an inline <script>: `\x3C` keeps `</script`, `<script` and `<!--` from ending or escaping the
  * element (a minified bundle only has them inside string, template or regex literals, where `\x3C` means `<`);
  * CR is normalised as the HTML parser would, so the CSP hash matches the text the browser sees.
@@ -157,15 +177,15 @@ export default defineConfig(({ mode }) => {
     publicDir: single ? false : 'public',
     // The single file starts its worker from a blob: URL, which Chromium allows from file:// only for a classic
     // worker; iife also folds the worker's dynamic imports (jsPDF's optional modules) into the one worker script.
-    worker: { format: single ? 'iife' : 'es', plugins: () => [jspdfOptionalStubs()] },
+    worker: { format: single ? 'iife' : 'es', plugins: () => [jspdfOptionalStubs(), ...(single ? [noRowPoolInSingleFile()] : [])] },
     build: single
       ? { outDir: 'dist-single', emptyOutDir: true, cssCodeSplit: false, assetsInlineLimit: () => true, modulePreload: false }
       : {},
     // Dev: the same policy as an HTTP header, loosened only for the dev server's inline React-refresh preamble
     // and its HMR websocket (connect-src 'self' covers ws: to the same host and port).
-    server: { host: '127.0.0.1', headers: { 'Content-Security-Policy': policy('dev') } },
+    server: { host: '127.0.0.1', headers: { 'Content-Security-Policy': policy('dev'), ...isolation } },
     // Preview: the built policy also as a header, so the worker script (which a <meta> cannot reach) runs under it.
-    preview: { host: '127.0.0.1', headers: { 'Content-Security-Policy': policy('served') } },
+    preview: { host: '127.0.0.1', headers: { 'Content-Security-Policy': policy('served'), ...isolation } },
     test: {
       include: ['tests/**/*.test.ts', 'src/**/*.test.ts'],
       environment: 'node',

@@ -24,8 +24,9 @@ import { scoreImported, scoreOne } from './scoreOps';
 import { riskCurve } from './shapeOps';
 import { externalValidate, lossSurface, validate } from './validateOps';
 
-async function guarded<T>(session: Session, jobId: string | null, run: () => Promise<T> | T): Promise<T> {
+async function guarded<T>(session: Session, jobId: string | null, run: () => Promise<T> | T, ready: Promise<unknown>): Promise<T> {
   try {
+    await ready; // the row pool (if any) is installed before any design is built, so designs go to shared memory
     return await run();
   } catch (err) {
     const e = err as { code?: string; message?: string; suggestion?: string };
@@ -40,11 +41,15 @@ function checkedBytes(bytes: ArrayBuffer, name: string, held: Session['data']): 
   return bytes;
 }
 
-/** The calls the page can make; one session (data set + current model) per api. */
-export function createApi() {
+/**
+ * The calls the page can make; one session (data set + current model) per api. `pool` resolves when the row pool
+ * of the engine worker is started (to its number of threads).
+ */
+export function createApi(pool: Promise<number> = Promise.resolve(1)) {
   const session = createSession();
   let typical: Record<string, string | number> = {};
-  const guard = <T>(jobId: string | null, run: () => Promise<T> | T) => guarded(session, jobId, run);
+  const ready = pool.catch(() => 1);
+  const guard = <T>(jobId: string | null, run: () => Promise<T> | T) => guarded(session, jobId, run, ready);
   const hooksFor = (jobId: string, onProgress?: Progress) => ({
     signal: openJob(session, jobId),
     tick,

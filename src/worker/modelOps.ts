@@ -14,6 +14,7 @@ import { designColumnCount } from '../engine/memoryBudget';
 import { performanceView } from './performance';
 import type { FitRequest, FitView, OddsRow } from './protocol';
 import { requireData, tick, type Session } from './session';
+import { CHUNK_ROWS, rowPoolThreads } from '../engine/rowPool';
 
 const PROFILE_MAX_CELLS = 1e6;
 const TERM_TESTS_MAX_CELLS = 5e6;
@@ -89,7 +90,8 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promi
   const warnings = dedupe([...result.warnings, ...extra, ...performance.warnings]);
   return {
     request: req, fit: result, rows: oddsRows(s, result), lambda, performance,
-    sampleSize: sampleSize.view, typical: typicalValues(data, result, d.rowsUsed), rowsUsed: d.n, warnings,
+    sampleSize: sampleSize.view, typical: typicalValues(data, result, d.rowsUsed), rowsUsed: d.n,
+    threads: d.n > CHUNK_ROWS ? rowPoolThreads() : 1, warnings,
   };
 }
 

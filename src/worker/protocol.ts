@@ -96,6 +96,8 @@ export interface FitView {
   /** Predictors available for the risk curve, with their typical value. */
   typical: Record<string, string | number>;
   rowsUsed: number;
+  /** Threads the row passes of this fit ran on (1 below two chunks of rows or without a pool). */
+  threads: number;
   warnings: EngineWarning[];
 }
 

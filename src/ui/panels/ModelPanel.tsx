@@ -47,6 +47,7 @@ function FitSummary({ view }: { view: FitView }) {
         <strong>{count(f.nUsed)}</strong> rows ({count(f.events)} events, {count(f.nonEvents)} non-events
         {f.nDropped > 0 ? `; ${count(f.nDropped)} rows left out for missing values` : ''}).{' '}
         {f.parameters} {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
+        {view.threads > 1 && <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>}
       </p>
       {view.lambda && (
         <p>Penalty λ = {num(view.lambda.chosen, 5)} ({view.lambda.rule === '1se' ? 'one-standard-error rule' : 'lowest CV deviance'};

@@ -1,0 +1,29 @@
+/**
+ * The engine worker's row pool: helper Web Workers started from the engine worker, sharing the design through
+ * SharedArrayBuffer. That needs a cross-origin-isolated page (Cross-Origin-Opener-Policy: same-origin and
+ * Cross-Origin-Embedder-Policy: require-corp, sent by `vite preview` and the dev server; a hosted copy must send
+ * them too). Without isolation, and in the single file (file:// is never isolated), the engine runs on this one
+ * thread, with the same numbers. The single-file build replaces this module by a stub (vite.config.ts).
+ */
+import { installRowPool, messagePool } from '../engine/rowPool';
+
+/** Helpers at most (threads = helpers + 1). */
+const MAX_THREADS = 8;
+
+/** Starts the pool when the page allows it; resolves to the number of threads the engine's row passes use. */
+export async function startBrowserRowPool(): Promise<number> {
+  const g = self as unknown as { crossOriginIsolated?: boolean; navigator?: { hardwareConcurrency?: number } };
+  const threads = Math.min(MAX_THREADS, g.navigator?.hardwareConcurrency ?? 1);
+  if (!g.crossOriginIsolated || typeof SharedArrayBuffer === 'undefined' || threads < 2) return 1;
+  try {
+    const helpers = await Promise.all(Array.from({ length: threads - 1 }, (_, i) => new Promise<Worker>((resolve, reject) => {
+      const w = new Worker(new URL('./rowHelper.ts', import.meta.url), { type: 'module', name: `fulcra-rows-${i + 1}` });
+      w.onmessage = () => { w.onmessage = null; resolve(w); };
+      w.onerror = (e) => { e.preventDefault(); reject(new Error(e.message || 'a helper worker failed to start')); };
+    })));
+    installRowPool(messagePool(helpers));
+    return threads;
+  } catch {
+    return 1; // no helpers: one thread, same results
+  }
+}
