@@ -8,6 +8,7 @@
 import { copyFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { build, preview } from 'vite';
+import type { PageResult } from './page/main';
 import type { BrowserResult } from './report';
 import { ensureSynth } from './synth';
 
@@ -19,7 +20,9 @@ export async function browserBench(o: { out: string; n: number; p: number; seed:
   const f = ensureSynth(o.out, o.n, o.p, o.seed);
   await build({ root, configFile: false, base: './', logLevel: 'warn', build: { outDir, emptyOutDir: true }, worker: { format: 'es' } });
   copyFileSync(f.csv, join(outDir, 'bench.csv'));
-  const server = await preview({ root, configFile: false, logLevel: 'warn', build: { outDir }, preview: { host: '127.0.0.1', port: 4190, strictPort: false } });
+  // The same cross-origin isolation headers as the app's preview, so that the engine worker starts its row pool.
+  const headers = { 'Cross-Origin-Opener-Policy': 'same-origin', 'Cross-Origin-Embedder-Policy': 'require-corp' };
+  const server = await preview({ root, configFile: false, logLevel: 'warn', build: { outDir }, preview: { host: '127.0.0.1', port: 4190, strictPort: false, headers } });
   const { chromium } = await import('@playwright/test');
   const browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
@@ -31,9 +34,10 @@ export async function browserBench(o: { out: string; n: number; p: number; seed:
     await page.goto(url);
     await page.waitForFunction(() => 'runBench' in window);
     o.log(`  page ${url}`);
-    const r = await page.evaluate(([p]) => (window as unknown as { runBench: (u: string, p: number) => Promise<{ importSeconds: number; fitSeconds: number; longTasksMs: number[]; probeSeen: boolean }> }).runBench('./bench.csv', p), [o.p] as const);
-    if (!r.probeSeen) return { ...base, importSeconds: r.importSeconds, fitSeconds: r.fitSeconds, error: 'the long-task observer missed a deliberate 80 ms probe task' };
-    return { ...base, how: `${how}; long-task observer verified with an 80 ms probe`, importSeconds: r.importSeconds, fitSeconds: r.fitSeconds, longestTaskMs: Math.max(0, ...r.longTasksMs), longTasks: r.longTasksMs.length };
+    const r = await page.evaluate(([p]) => (window as unknown as { runBench: (u: string, p: number) => Promise<PageResult> }).runBench('./bench.csv', p), [o.p] as const);
+    const threads = `${r.threads} thread${r.threads === 1 ? '' : 's'} for the fit's row passes (page ${r.isolated ? '' : 'not '}cross-origin isolated)`;
+    if (!r.probeSeen) return { ...base, how: `${how}; ${threads}`, importSeconds: r.importSeconds, fitSeconds: r.fitSeconds, error: 'the long-task observer missed a deliberate 80 ms probe task' };
+    return { ...base, how: `${how}; ${threads}; long-task observer verified with an 80 ms probe`, importSeconds: r.importSeconds, fitSeconds: r.fitSeconds, longestTaskMs: Math.max(0, ...r.longTasksMs), longTasks: r.longTasksMs.length };
   } catch (e) {
     return { ...base, error: e instanceof Error ? e.message.split('\n')[0] : String(e) };
   } finally {

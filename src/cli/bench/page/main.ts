@@ -20,6 +20,9 @@ export interface PageResult {
   probeSeen: boolean;
   nRows: number;
   coefficients: number[];
+  /** Threads of the engine's row pool in this page (1 when the page is not cross-origin isolated). */
+  threads: number;
+  isolated: boolean;
 }
 
 async function runBench(url: string, predictors: number): Promise<PageResult> {
@@ -41,6 +44,7 @@ async function runBench(url: string, predictors: number): Promise<PageResult> {
   return {
     importSeconds: (t1 - t0) / 1e3, fitSeconds: (t2 - t1) / 1e3, longTasksMs: [...longTasks], probeSeen,
     nRows: (summary as { nRows?: number }).nRows ?? view.rowsUsed, coefficients: view.fit.coefficients.map((c) => c.estimate),
+    threads: view.threads, isolated: crossOriginIsolated,
   };
 }
 
