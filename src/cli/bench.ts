@@ -12,7 +12,8 @@ import { benchUsage, parseBenchArgs } from './bench/options';
 import { fulcraFit, glmFit, maxRelGap, referenceThreads, sklearnFit, type FitTiming } from './bench/run';
 import { ensureSynth } from './bench/synth';
 import { judgeTargets, ONE_THREAD, renderReport, type BenchRecord, type SizeResult } from './bench/report';
-import { defaultThreads } from './nodeRowPool';
+import { defaultThreads, startNodeRowPool } from './nodeRowPool';
+import { installRowPool } from '../engine/rowPool';
 
 async function main(): Promise<void> {
   const o = parseBenchArgs(process.argv.slice(2));
@@ -57,12 +58,17 @@ async function main(): Promise<void> {
     record.sizes.push(size);
   }
   if (o.extras) {
+    // As in the page: a row pool for fits above one chunk of rows (the loss surface's fit at 10⁵ rows).
+    const np = await startNodeRowPool(defaultThreads());
+    installRowPool(np.pool);
     const m: Measurement[] = record.extras;
     const q = o.quick;
     log('· CSV import'); m.push(await csvImport(o.out, q ? 1e5 : 1e6, 20, o.seed));
     log('· threshold queries'); m.push(...thresholdQueries(q ? 1e5 : 1e6, 10000, o.seed));
     log('· bootstrap'); m.push(await bootstrap(o.out, 1e4, 20, q ? 20 : 200, o.seed));
     log('· loss surface'); m.push(surface(o.out, q ? 1e4 : 1e5, 10, 64, o.seed));
+    installRowPool(null);
+    await np.close();
   }
   if (o.browser) {
     log('· browser');

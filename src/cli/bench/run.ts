@@ -43,7 +43,7 @@ export function referenceThreads(): Record<string, string> {
   return { OPENBLAS_NUM_THREADS: process.env.OPENBLAS_NUM_THREADS ?? cores, OMP_NUM_THREADS: process.env.OMP_NUM_THREADS ?? cores };
 }
 
-function runJson(cmd: string, args: string[], env?: Record<string, string>): { ok: true; value: any } | { ok: false; error: string } {
+export function runJson(cmd: string, args: string[], env?: Record<string, string>): { ok: true; value: any } | { ok: false; error: string } {
   const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28, env: { ...process.env, ...env } });
   if (r.error) return { ok: false, error: String(r.error.message) };
   if (r.status !== 0) return { ok: false, error: (r.stderr || r.stdout || `exit ${r.status}`).trim().split('\n').slice(-3).join(' | ') };
