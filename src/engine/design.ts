@@ -97,23 +97,42 @@ export function designFromRecipe(
   const outcomeCol = hasOutcome ? getColumn(data, recipe.outcome) : null;
 
   const droppedByColumn: Record<string, number> = {};
-  const candidate = rows ?? Int32Array.from({ length: data.nRows }, (_, i) => i);
+  let candidate = rows;
+  if (!candidate) {
+    candidate = new Int32Array(data.nRows);
+    for (let i = 0; i < data.nRows; i++) candidate[i] = i;
+  }
   const checked = outcomeCol ? [outcomeCol, ...cols.values()] : [...cols.values()];
   const anyMissing = new Uint8Array(data.nRows);
   for (const c of checked) {
     const m = missingMask(c);
     let k = 0;
-    for (const r of candidate) if (m[r]) { k++; anyMissing[r] = 1; }
+    for (let i = 0; i < candidate.length; i++) { const r = candidate[i]; if (m[r]) { k++; anyMissing[r] = 1; } }
     if (k > 0) droppedByColumn[c.name] = (droppedByColumn[c.name] ?? 0) + k;
   }
-  const keep: number[] = [];
-  for (const r of candidate) if (!anyMissing[r]) keep.push(r);
-  const rowsUsed = Int32Array.from(keep);
-  const n = rowsUsed.length;
+  let n = 0;
+  for (let i = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) n++;
+  const rowsUsed = new Int32Array(n);
+  for (let i = 0, k = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) rowsUsed[k++] = candidate[i];
+
+  // The design is written column by column straight into X (no separate column arrays copied in afterwards).
+  const width = (t: RecipeTerm, part?: string): number => {
+    if (t.type === 'interaction' && !part) return width(t, t.parts[0]) * width(t, t.parts[1]);
+    const enc = part ? partEncoding(recipe, part) : null;
+    if (t.type === 'categorical') return t.levels.length - 1;
+    if (enc?.levels) return enc.levels.length - 1;
+    return t.type === 'spline' && !part ? t.knots.length - 1 : 1;
+  };
+  const p = 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
+  const X = allocF64(n * p); // shared memory while a row pool is installed, so that its threads can read it
+  X.fill(1, 0, n);
+  let nextColumn = 1;
+  const column = (): Float64Array => X.subarray(nextColumn * n, ++nextColumn * n);
+  const scratchColumn = (): Float64Array => new Float64Array(n);
 
   const blocks: { name: string; term: string; values: Float64Array }[] = [];
   const termColumns: { name: string; columns: number[] }[] = [];
-  const encodeMain = (t: RecipeTerm, part?: string): { name: string; values: Float64Array }[] => {
+  const encodeMain = (t: RecipeTerm, part: string | undefined, alloc: () => Float64Array): { name: string; values: Float64Array }[] => {
     const column = part ?? (t as { column: string }).column;
     const col = cols.get(column)!;
     const enc = part ? partEncoding(recipe, part) : null;
@@ -122,7 +141,7 @@ export function designFromRecipe(
     if (levels && reference !== undefined) {
       const get = levelGetter(col);
       const others = levels.filter((l) => l !== reference);
-      const out = others.map((l) => ({ name: `${column}=${l}`, values: new Float64Array(n) }));
+      const out = others.map((l) => ({ name: `${column}=${l}`, values: alloc() }));
       // per level code: index among `others`, −1 for the reference, −2 for a level the model has not seen
       const slot = (l: string) => (l === reference ? -1 : others.includes(l) ? others.indexOf(l) : -2);
       const codes = col.kind === 'categorical' ? col.codes : null;
@@ -141,8 +160,8 @@ export function designFromRecipe(
       }
       return out;
     }
-    const x = new Float64Array(n);
-    if (col.kind === 'numeric') for (let i = 0; i < n; i++) x[i] = col.values[rowsUsed[i]];
+    const x = alloc();
+    if (col.kind === 'numeric') { const v = col.values; for (let i = 0; i < n; i++) x[i] = v[rowsUsed[i]]; }
     else {
       const get = numericGetter(col);
       for (let i = 0; i < n; i++) x[i] = get(rowsUsed[i]);
@@ -150,7 +169,7 @@ export function designFromRecipe(
     if (t.type === 'spline' && !part) {
       const out = [{ name: column, values: x }];
       const k = t.knots.length;
-      const basis = Array.from({ length: k - 2 }, (_, j) => ({ name: column + "'".repeat(j + 1), values: new Float64Array(n) }));
+      const basis = Array.from({ length: k - 2 }, (_, j) => ({ name: column + "'".repeat(j + 1), values: alloc() }));
       const tmp = new Float64Array(k - 2);
       for (let i = 0; i < n; i++) {
         rcsBasis(x[i], t.knots, tmp);
@@ -164,36 +183,36 @@ export function designFromRecipe(
   for (const t of recipe.terms) {
     let cs: { name: string; values: Float64Array }[];
     if (t.type === 'interaction') {
-      const a = encodeMain(t, t.parts[0]), b = encodeMain(t, t.parts[1]);
+      const a = encodeMain(t, t.parts[0], scratchColumn), b = encodeMain(t, t.parts[1], scratchColumn);
       cs = [];
       for (const ca of a) {
         for (const cb of b) {
-          const v = new Float64Array(n);
+          const v = column();
           for (let i = 0; i < n; i++) v[i] = ca.values[i] * cb.values[i];
           cs.push({ name: `${ca.name}:${cb.name}`, values: v });
         }
       }
     } else {
-      cs = encodeMain(t);
+      cs = encodeMain(t, undefined, column);
     }
     termColumns.push({ name: t.name, columns: cs.map((_, k) => blocks.length + 1 + k) });
     for (const c of cs) blocks.push({ name: c.name, term: t.name, values: c.values });
   }
 
+  if (nextColumn !== p) throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
   for (const b of blocks) {
-    const bad = b.values.findIndex((v) => !Number.isFinite(v));
-    if (bad >= 0) {
-      throw new FulcraError(
-        'design-overflow',
-        `The design column "${b.name}" of term "${b.term}" is ${b.values[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
-        'Rescale the predictor (e.g. other units) before fitting.',
-      );
-    }
+    const v = b.values;
+    let probe = 0;
+    for (let i = 0; i < n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
+    if (probe === 0) continue;
+    let bad = 0;
+    while (Number.isFinite(v[bad])) bad++;
+    throw new FulcraError(
+      'design-overflow',
+      `The design column "${b.name}" of term "${b.term}" is ${v[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
+      'Rescale the predictor (e.g. other units) before fitting.',
+    );
   }
-  const p = blocks.length + 1;
-  const X = allocF64(n * p); // shared memory while a row pool is installed, so that its threads can read it
-  X.fill(1, 0, n);
-  blocks.forEach((b, j) => X.set(b.values, (j + 1) * n));
 
   let y: Float64Array | null = null;
   if (outcomeCol) {

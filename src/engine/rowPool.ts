@@ -43,13 +43,11 @@ export interface RowJob {
 }
 
 /** The kernel work of chunks [k0, k1) of a job (on whichever thread runs them). */
-export function runChunks(job: RowJob, k0: number, k1: number, work?: Float64Array): void {
+export function runChunks(job: RowJob, k0: number, k1: number, work: Float64Array = new Float64Array(ROW_BLOCK * job.p)): void {
   const { X, n, p, chunkRows } = job;
   for (let k = k0; k < k1; k++) {
-    const a = k * chunkRows, b = Math.min(n, a + chunkRows);
-    if (job.op === 'logistic') {
-      job.partLoss[k] = logisticRows(X, n, p, job.y!, job.beta!, job.c, job.offset, job.eta!, undefined, job.w, job.partG.subarray(k * p, (k + 1) * p), a, b);
-    } else if (job.blocks) {
+    if (job.blocks) {
+      // A row subsample: chunk k is the group of blocks [k·chunkRows, (k + 1)·chunkRows).
       const H = job.partH.subarray(k * p * p, (k + 1) * p * p), B = job.blockRows!, one = new Float64Array(p * p);
       H.fill(0);
       for (let q = k * chunkRows; q < Math.min(job.blocks.length, (k + 1) * chunkRows); q++) {
@@ -57,13 +55,18 @@ export function runChunks(job: RowJob, k0: number, k1: number, work?: Float64Arr
         accumulateXtWX(X, n, p, job.w, one, work, s, Math.min(n, s + B));
         for (let t = 0; t < p * p; t++) H[t] += one[t];
       }
+      continue;
+    }
+    const a = k * chunkRows, b = Math.min(n, a + chunkRows);
+    if (job.op === 'logistic') {
+      job.partLoss[k] = logisticRows(X, n, p, job.y!, job.beta!, job.c, job.offset, job.eta!, undefined, job.w, job.partG.subarray(k * p, (k + 1) * p), a, b);
     } else {
-      accumulateXtWX(X, n, p, job.w, job.partH.subarray(k * p * p, (k + 1) * p * p), work ?? new Float64Array(ROW_BLOCK * p), a, b);
+      accumulateXtWX(X, n, p, job.w, job.partH.subarray(k * p * p, (k + 1) * p * p), work, a, b);
     }
   }
 }
 
-/** Chunks [k0, k1) of thread t out of `threads` (contiguous, the first threads take one more when uneven). */
+/** Chunks [k0, k1) of thread t out of `threads` (contiguous; when uneven the later threads take one more, so the caller, thread 0, also has time to hand out the work). */
 export function chunkRange(chunks: number, threads: number, t: number): [number, number] {
   return [Math.floor((t * chunks) / threads), Math.floor(((t + 1) * chunks) / threads)];
 }

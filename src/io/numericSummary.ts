@@ -52,7 +52,7 @@ function slot(v: number, mask: number, keys: Float64Array): number {
 }
 
 /** k-th smallest (0-based) of a scratch array, reordering it in place (Hoare's selection, median-of-three). */
-function select(a: Float64Array, k: number): number {
+export function select(a: Float64Array, k: number): number {
   let lo = 0, hi = a.length - 1;
   while (hi > lo) {
     const mid = (lo + hi) >> 1;

@@ -2,7 +2,7 @@ import type { Dataset } from '../engine/data';
 import { generateDemo, type DemoId } from '../engine/demo';
 import { proposeOutcomeEvent } from '../io';
 import type { ColumnInfo, ImportResult } from '../io/types';
-import { profileColumn } from './profile';
+import { MAX_LEVELS, profileColumn } from './profile';
 import type { ColumnView, DataSummary } from './protocol';
 import type { Session } from './session';
 
@@ -82,9 +82,13 @@ function setData(s: Session, data: Dataset, summary: DataSummary): DataSummary {
 }
 
 function fromInfo(col: Dataset['columns'][number], info: ColumnInfo | undefined): ColumnView {
-  const base = profileColumn(col);
-  if (!info) return base;
+  if (!info) return profileColumn(col);
   const p = info.profile;
+  // The importer has profiled the column already: only the levels the page offers come from the column itself.
+  const base = {
+    name: col.name, kind: col.kind,
+    levels: col.kind === 'categorical' ? col.levels.slice(0, MAX_LEVELS) : p.distinct === 2 ? [String(p.min), String(p.max)] : [],
+  };
   const bins = p.histogram
     ? p.histogram.counts.map((count, b) => ({ label: `${fmt(p.histogram!.edges[b])}–${fmt(p.histogram!.edges[b + 1])}`, count }))
     : (p.topLevels ?? []).map((l) => ({ label: l.level, count: l.count }));

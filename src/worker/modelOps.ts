@@ -15,6 +15,7 @@ import { performanceView } from './performance';
 import type { FitRequest, FitView, OddsRow } from './protocol';
 import { requireData, tick, type Session } from './session';
 import { CHUNK_ROWS, rowPoolThreads } from '../engine/rowPool';
+import { select } from '../io/numericSummary';
 
 const PROFILE_MAX_CELLS = 1e6;
 const TERM_TESTS_MAX_CELLS = 5e6;
@@ -153,13 +154,16 @@ function sampleSizeCheck(f: FitResult): { view: FitView['sampleSize']; record: S
 /** Median of each numeric predictor and the reference level of each categorical one, over the rows used. */
 function typicalValues(data: Dataset, f: FitResult, rows: Int32Array): Record<string, string | number> {
   const out: Record<string, string | number> = {};
+  let v = new Float64Array(0); // one scratch buffer for every column
   for (const t of f.recipe.terms) {
     if (t.type === 'interaction') continue;
     if (t.type === 'categorical') { out[t.column] = t.reference; continue; }
     const col = data.columns.find((c) => c.name === t.column);
     if (!col || col.kind !== 'numeric') continue;
-    const v = Float64Array.from(rows, (r) => col.values[r]).sort();
-    out[t.column] = v.length ? v[Math.floor((v.length - 1) / 2)] : NaN;
+    // The lower median (an observed value) by selection: O(n), where sorting 10⁶ values takes ~0.4 s.
+    if (v.length < rows.length) v = new Float64Array(rows.length);
+    for (let i = 0; i < rows.length; i++) v[i] = col.values[rows[i]];
+    out[t.column] = rows.length ? select(v.subarray(0, rows.length), Math.floor((rows.length - 1) / 2)) : NaN;
   }
   return out;
 }

@@ -1,4 +1,5 @@
 import type { Column, Dataset } from '../engine/data';
+import { summarizeNumbers } from '../io/numericSummary';
 import type { ColumnView } from './protocol';
 
 /** At most this many levels travel to the page (for reference-level and scoring choices). */
@@ -19,27 +20,32 @@ export function profileColumn(col: Column): ColumnView {
       proposedEvent: null,
     };
   }
-  const v = col.values.filter((x) => !Number.isNaN(x)).sort();
-  const missing = col.values.length - v.length;
+  // O(n) summaries (no sort: V8 sorts 10⁶ doubles in ~0.4 s, and a file may have dozens of columns).
+  const sum = summarizeNumbers(col.values, scratch(col.values.length));
+  const { count, min: lo, max: hi, distinct } = sum;
+  const missing = col.values.length - count;
   const bins: { label: string; count: number }[] = [];
-  let distinct = 0;
-  for (let i = 0; i < v.length; i++) if (i === 0 || v[i] !== v[i - 1]) distinct++;
-  if (v.length > 0) {
-    const lo = v[0], hi = v[v.length - 1];
+  if (count > 0) {
     const k = lo === hi ? 1 : Math.min(20, Math.max(5, distinct));
     const w = (hi - lo) / k || 1;
     const counts = new Array<number>(k).fill(0);
-    for (const x of v) counts[Math.min(k - 1, Math.floor((x - lo) / w))]++;
-    counts.forEach((count, b) => bins.push({ label: `${fmt(lo + b * w)}–${fmt(lo + (b + 1) * w)}`, count }));
+    for (const x of col.values) if (x === x) counts[Math.min(k - 1, Math.floor((x - lo) / w))]++;
+    counts.forEach((c, b) => bins.push({ label: `${fmt(lo + b * w)}–${fmt(lo + (b + 1) * w)}`, count: c }));
   }
-  const levels = distinct === 2 ? [String(v[0]), String(v[v.length - 1])] : [];
+  const levels = distinct === 2 ? [String(lo), String(hi)] : [];
   return {
     name: col.name, kind: 'numeric', type: distinct === 2 ? 'binary' : 'numeric', modelling: true, levels, missing, distinct,
-    min: v.length ? v[0] : null, median: v.length ? v[Math.floor((v.length - 1) / 2)] : null,
-    max: v.length ? v[v.length - 1] : null,
-    reason: v.length ? `all ${v.length} non-missing cells are numbers` : 'every cell is missing',
+    min: count ? lo : null, median: count ? sum.median : null, max: count ? hi : null,
+    reason: count ? `all ${count} non-missing cells are numbers` : 'every cell is missing',
     bins, proposedEvent: null,
   };
+}
+
+let work = new Float64Array(0);
+/** One scratch buffer for every column's summary (the worker profiles one column at a time). */
+function scratch(n: number): Float64Array {
+  if (work.length < n) work = new Float64Array(n);
+  return work;
 }
 
 export function profileDataset(data: Dataset): ColumnView[] {
