@@ -83,13 +83,20 @@ function validate(pr: LogisticProblem): void {
     if (pr.weights && pr.weights[i] < 0) throw new FulcraError('bad-argument', `weights[${i}] is ${pr.weights[i]}; weights must be ≥ 0.`);
   }
   if (pr.penalty) for (let j = 0; j < p; j++) if (pr.penalty[j] < 0) throw new FulcraError('bad-argument', `penalty[${j}] is ${pr.penalty[j]}; it must be ≥ 0.`);
-  // x·0 is 0 for every finite x and NaN otherwise: one multiply-add per value, then a search only when needed.
-  let probe = 0;
-  for (let k = 0; k < n * p; k++) probe += X[k] * 0;
-  if (probe !== 0) {
-    for (let k = 0; k < n * p; k++) {
-      if (!Number.isFinite(X[k])) throw new FulcraError('bad-argument', `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`);
-    }
+  // X itself is checked by the first pass over it (see createWorkspace), not by a pass of its own.
+}
+
+/**
+ * A non-finite value anywhere in X makes the loss or the gradient of the first evaluation non-finite (NaN·0 and
+ * ∞·0 are NaN); only then is X searched, to name the row and column.
+ */
+function checkFirstPass(pr: LogisticProblem, loss: number, g: Float64Array): void {
+  let probe = loss * 0;
+  for (let j = 0; j < g.length; j++) probe += g[j] * 0;
+  if (probe === 0) return;
+  const { X, n, p } = pr;
+  for (let k = 0; k < n * p; k++) {
+    if (!Number.isFinite(X[k])) throw new FulcraError('bad-argument', `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`);
   }
 }
 
@@ -145,8 +152,10 @@ function createWorkspace(pr: LogisticProblem, N: number) {
     s.infoValid = true;
   };
   /** Fills s at b (one fused pass over X; Firth also needs X'WX, the hat values and one more X'v pass). */
+  let firstPass = true;
   const evaluate = (b: Float64Array, s: Slot, withInfo: boolean): void => {
     const loss = passes.logistic(b, s.eta, s.w, s.g);
+    if (firstPass) { checkFirstPass(pr, loss, s.g); firstPass = false; }
     s.ll = -loss;
     let obj = loss / N + penaltyTerm(b);
     if (penalty) for (let j = 0; j < p; j++) s.g[j] -= N * penalty[j] * b[j];

@@ -134,3 +134,19 @@ describe('takeBuffer / giveBackBuffers', () => {
     expect(takeBuffer(999, false)).not.toBe(a);
   });
 });
+
+describe('a non-finite value in X', () => {
+  // X is not scanned before the fit: the first pass over it must reveal any NaN or ±∞ (common practice: NaN·0 and
+  // ∞·0 are NaN in IEEE 754), whatever the start, the case weight of that row, and the path (small n or large n).
+  it.each([
+    [NaN, 'zero start', 200], [Infinity, 'zero start', 200], [-Infinity, 'nonzero start', 200],
+    [Infinity, 'zero weight on that row', 200], [NaN, 'zero start', 40_000], [-Infinity, 'nonzero start', 40_000],
+  ])('%s (%s, n = %i) is reported with its row and column', (bad, how, n) => {
+    const pr = problem(n, 3, 17);
+    const row = n - 7, col = 2;
+    pr.X[col * n + row] = bad;
+    if (how === 'nonzero start') pr.start = Float64Array.from([0.1, -0.2, 0.3]);
+    if (how === 'zero weight on that row') { pr.weights = new Float64Array(n).fill(1); pr.weights[row] = 0; }
+    expect(() => newtonLogistic(pr, { tol: 1e-10 })).toThrow(`in row ${row}, column ${col}`);
+  });
+});

@@ -4,7 +4,7 @@ export interface BenchOptions {
   sizes: { n: number; p: number }[];
   quick: boolean;
   json: boolean;
-  /** Timed repeats per fit; default 3 below 10⁶ rows, 1 at 10⁶. */
+  /** Timed repeats per fit (the median counts); default 3. */
   repeats?: number;
   references: boolean;
   extras: boolean;
@@ -22,7 +22,7 @@ import + fit in the page. Data and results go to bench-out/.
 
   --sizes 1e4x10,1e5x50   fit sizes as rows x predictors (default 1e4,1e5,1e6 x 10,50)
   --quick                 small sizes only (1e4x10,1e4x50,1e5x10) and small side measurements (about a minute)
-  --repeats R             timed repeats per fit (default 3; 1 at 10^6 rows)
+  --repeats R             timed repeats per fit, each in the same process; the median counts (default 3)
   --no-reference          skip scikit-learn and R
   --no-extras             skip import / threshold / bootstrap / loss surface
   --browser               also run the browser measurement (Playwright + /usr/bin/chromium)
