@@ -22,6 +22,15 @@ export async function startBrowserRowPool(): Promise<number> {
       w.onerror = (e) => { e.preventDefault(); reject(new Error(e.message || 'a helper worker failed to start')); };
     })));
     installRowPool(messagePool(helpers));
+    // A helper that dies (out of memory, say) ends the pool: the pass it was in fails with a message, and every
+    // later fit runs on the engine worker's own thread.
+    for (const w of helpers) {
+      w.onerror = (e) => {
+        e.preventDefault();
+        installRowPool(null);
+        for (const h of helpers) h.terminate();
+      };
+    }
     return threads;
   } catch {
     return 1; // no helpers: one thread, same results
