@@ -1,5 +1,6 @@
 import { generateDemo } from '../src/engine/demo';
 import { fit } from '../src/engine/fit';
+import { likelihoodRatioCi } from '../src/engine/threshold';
 import { expect, expectNoSidewaysScroll, shot, test } from './guard';
 
 test('demo → fitted odds ratios equal the engine run in Node → threshold → score a case', async ({ page }) => {
@@ -40,6 +41,13 @@ test('demo → fitted odds ratios equal the engine run in Node → threshold →
   await slider.fill('0.4');
   await expect(page.getByTestId('cutoff-value')).toHaveText('40.0%');
   await expect(tp).not.toHaveText(before ?? '');
+  // LR+ and its log-method interval as the engine gives them for the counts on the page.
+  const countOf = async (id: string) => Number((await page.getByTestId(id).textContent())!.replace(/[^0-9]/g, ''));
+  const [a, b, c, d] = [await countOf('tp'), await countOf('fp'), await countOf('fn'), await countOf('tn')];
+  const ci = likelihoodRatioCi(a, a + c, b, b + d)!;
+  const lrRow = page.getByTestId('lr-pos').locator('xpath=..');
+  await expect(page.getByTestId('lr-pos')).toHaveText(((a / (a + c)) / (b / (b + d))).toFixed(2));
+  await expect(lrRow).toContainText(`${ci.lower.toFixed(2)} to ${ci.upper.toFixed(2)}`);
   await shot(page, '04-cutoff');
   await expectNoSidewaysScroll(page);
 

@@ -1,4 +1,5 @@
 import { FulcraError } from './data';
+import { qnorm } from './distributions';
 import { proportionCi, type ProportionCiMethod, type ProportionEstimate } from './proportionCi';
 
 /**
@@ -153,6 +154,12 @@ export interface ThresholdMetrics {
   lrPositive: number | null;
   /** (1 − sensitivity) / specificity; null when undefined. */
   lrNegative: number | null;
+  /**
+   * Confidence intervals of LR+ and LR− by the log method (Simel, Samsa & Matchar 1991, J Clin Epidemiol 44:763);
+   * null when a count in the formula is 0 or the counts are weighted.
+   */
+  lrPositiveCi: { lower: number; upper: number } | null;
+  lrNegativeCi: { lower: number; upper: number } | null;
   /** null when no costs were given. */
   expectedCostPer100: number | null;
 }
@@ -161,6 +168,18 @@ export interface AtThresholdOptions {
   costs?: DecisionCosts;
   level?: number;
   ciMethod?: ProportionCiMethod;
+}
+
+/**
+ * CI of the ratio (x1/n1)/(x0/n0) of two independent proportions by the log method:
+ * exp(ln LR ± z·√(1/x1 − 1/n1 + 1/x0 − 1/n0)) (Simel, Samsa & Matchar 1991); null when x1 or x0 is 0.
+ */
+export function likelihoodRatioCi(x1: number, n1: number, x0: number, n0: number, level = 0.95): { lower: number; upper: number } | null {
+  if (!(x1 > 0 && x0 > 0 && n1 >= x1 && n0 >= x0)) return null;
+  const lr = (x1 / n1) / (x0 / n0);
+  const se = Math.sqrt(1 / x1 - 1 / n1 + 1 / x0 - 1 / n0);
+  const z = qnorm(1 - (1 - level) / 2);
+  return { lower: lr * Math.exp(-z * se), upper: lr * Math.exp(z * se) };
 }
 
 /** Everything at one threshold in O(log n) from the prepared structure. Proportion CIs: Wilson by default. */
@@ -184,6 +203,8 @@ export function atThreshold(prep: PreparedThresholds, t: number, options: AtThre
     fractionFlagged: proportionCi(c.tp + c.fp, prep.total, level, m),
     lrPositive: ratio(sens.estimate, spec.estimate === null ? null : 1 - spec.estimate),
     lrNegative: ratio(sens.estimate === null ? null : 1 - sens.estimate, spec.estimate),
+    lrPositiveCi: prep.weighted ? null : likelihoodRatioCi(c.tp, prep.events, c.fp, prep.nonEvents, level),
+    lrNegativeCi: prep.weighted ? null : likelihoodRatioCi(c.fn, prep.events, c.tn, prep.nonEvents, level),
     expectedCostPer100: options.costs && prep.total > 0 ? costPer100(c, prep.total, options.costs) : null,
   };
 }

@@ -1,7 +1,7 @@
 import type { ThresholdView } from '../../worker/protocol';
 import { count, num, pct } from '../format';
 
-/** Confusion matrix and the rates at the cut-off, with Wilson 95% intervals. */
+/** Confusion matrix and the rates at the cut-off, with 95% intervals (Wilson; log method for LR±). */
 export function ConfusionTable({ view }: { view: ThresholdView }) {
   const m = view.metrics;
   const prop = (label: string, e: typeof m.sensitivity, testid: string) => (
@@ -18,18 +18,20 @@ export function ConfusionTable({ view }: { view: ThresholdView }) {
         </tbody>
       </table>
       <table className="rates">
-        <thead><tr><th scope="col">Measure</th><th scope="col">Value</th><th scope="col">95% CI (Wilson)</th></tr></thead>
+        <thead><tr><th scope="col">Measure</th><th scope="col">Value</th><th scope="col">95% CI</th></tr></thead>
         <tbody>
           {prop('Sensitivity', m.sensitivity, 'sens')}
           {prop('Specificity', m.specificity, 'spec')}
           {prop('PPV (flagged who had the event)', m.ppv, 'ppv')}
           {prop('NPV (clear who stayed clear)', m.npv, 'npv')}
           {prop('Fraction flagged', m.fractionFlagged, 'flagged')}
-          <tr><th scope="row">LR+ / LR−</th><td className="num">{num(m.lrPositive, 2)} / {num(m.lrNegative, 2)}</td><td /></tr>
+          <tr><th scope="row">Likelihood ratio, flagged (LR+)</th><td className="num" data-testid="lr-pos">{num(m.lrPositive, 2)}</td><td className="num">{m.lrPositiveCi ? `${num(m.lrPositiveCi.lower, 2)} to ${num(m.lrPositiveCi.upper, 2)}` : '—'}</td></tr>
+          <tr><th scope="row">Likelihood ratio, not flagged (LR−)</th><td className="num" data-testid="lr-neg">{num(m.lrNegative, 3)}</td><td className="num">{m.lrNegativeCi ? `${num(m.lrNegativeCi.lower, 3)} to ${num(m.lrNegativeCi.upper, 3)}` : '—'}</td></tr>
           <tr><th scope="row">Expected cost per 100 cases</th><td className="num" data-testid="cost100">{num(m.expectedCostPer100, 2)}</td><td /></tr>
           <tr><th scope="row">Net benefit at this cut-off</th><td className="num">{num(view.netBenefit, 4)}</td><td /></tr>
         </tbody>
       </table>
+      <p className="hint">Intervals: Wilson for the proportions; log method (Simel 1991) for the likelihood ratios, shown only when none of their counts is 0.</p>
     </div>
   );
 }

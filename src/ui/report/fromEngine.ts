@@ -66,6 +66,8 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
         sensitivity: at.sensitivity, specificity: at.specificity, ppv: at.ppv, npv: at.npv,
         fractionFlagged: at.fractionFlagged.estimate ?? undefined,
         expectedCostPer100: at.expectedCostPer100 ?? undefined,
+        lrPositive: { estimate: at.lrPositive, ci: at.lrPositiveCi },
+        lrNegative: { estimate: at.lrNegative, ci: at.lrNegativeCi },
         rule: r.thresholdRule,
       };
     }

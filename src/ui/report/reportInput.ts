@@ -55,6 +55,9 @@ export interface ThresholdSummary {
   npv: Estimate | number;
   fractionFlagged?: number;
   expectedCostPer100?: number;
+  /** Likelihood ratios with their log-method CIs (null when undefined). */
+  lrPositive?: { estimate: number | null; ci: { lower: number; upper: number } | null };
+  lrNegative?: { estimate: number | null; ci: { lower: number; upper: number } | null };
   /** How the threshold was chosen, in words (e.g. "minimises expected cost"). */
   rule?: string;
 }

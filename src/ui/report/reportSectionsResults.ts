@@ -2,7 +2,7 @@ import type { EngineWarning } from '../../engine/warnings';
 import { DASH, formatCount, formatFixed, formatInterval, formatPercent, formatPlain, formatSig, levelText } from './format';
 import type { PdfLayout } from './pdfLayout';
 import { drawCalibration, drawDecisionCurve, drawRoc } from './pdfPlots';
-import type { Estimate, PerformanceSummary, ReportInput } from './reportInput';
+import type { Estimate, PerformanceSummary, ReportInput, ThresholdSummary } from './reportInput';
 
 // Report sections about performance and use (TRIPOD items: model performance, decision threshold, warnings,
 // limitations).
@@ -117,6 +117,12 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
     ['Positive predictive value', pct(t.ppv)],
     ['Negative predictive value', pct(t.npv)],
   ];
+  const lr = (label: string, v: ThresholdSummary['lrPositive'], digits: number) => {
+    if (v?.estimate === null || v?.estimate === undefined) return;
+    rows.push([label, `${formatSig(v.estimate, digits)}${v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''}`]);
+  };
+  lr('Likelihood ratio, flagged (LR+)', t.lrPositive, 3);
+  lr('Likelihood ratio, not flagged (LR\u2212)', t.lrNegative, 3);
   if (t.fractionFlagged !== undefined) rows.push(['Cases flagged', formatPercent(t.fractionFlagged)]);
   if (t.expectedCostPer100 !== undefined) rows.push(['Expected cost per 100 cases', formatSig(t.expectedCostPer100, 4)]);
   L.keyValues(rows, 50);

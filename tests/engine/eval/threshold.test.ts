@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { atThreshold, costThresholds, decisionTheoryThreshold, expectedCostCurve, prepareThresholds } from '../../../src/engine/threshold';
+import { atThreshold, costThresholds, decisionTheoryThreshold, expectedCostCurve, likelihoodRatioCi, prepareThresholds } from '../../../src/engine/threshold';
+import { readJson } from './readCsv';
 import { rocCurve } from '../../../src/engine/roc';
 
 const brute = (y: Float64Array, p: Float64Array, t: number, w?: Float64Array) => {
@@ -99,5 +100,33 @@ describe('prepared thresholds (flag rule: risk ≥ threshold)', () => {
     expect([thin.fpr.at(-1), thin.tpr.at(-1)]).toEqual([1, 1]);
     expect(thin.auc).toBe(full.auc);
     expect(full.nPointsFull).toBe(n + 1);
+  });
+});
+
+describe('likelihood-ratio confidence intervals (log method)', () => {
+  // epiR 2.0.57 epi.tests (R 4.2.2), fixture reference/eval-lr.json from tests/fixtures/reference/eval-lr.R.
+  const ref = readJson<{ cases: { tp: number; fp: number; fn: number; tn: number; level: number; lrPos: number[]; lrNeg: number[] }[] }>('reference/eval-lr.json');
+  const close = (a: number, b: number) => expect(Math.abs(a - b) / b).toBeLessThan(1e-12);
+
+  it.each(ref.cases.map((c) => [c.tp, c.fp, c.fn, c.tn, c.level, c] as const))('tp %i, fp %i, fn %i, tn %i at %f: LR± and CIs equal epiR::epi.tests to 1e-12', (tp, fp, fn, tn, level, c) => {
+    const pos = likelihoodRatioCi(tp, tp + fn, fp, fp + tn, level)!, neg = likelihoodRatioCi(fn, tp + fn, tn, fp + tn, level)!;
+    close(pos.lower, c.lrPos[1]); close(pos.upper, c.lrPos[2]);
+    close(neg.lower, c.lrNeg[1]); close(neg.upper, c.lrNeg[2]);
+    // The same through atThreshold on rows built to give this table at a cut-off of 0.5.
+    const y: number[] = [], p: number[] = [];
+    const add = (k: number, yi: number, pi: number) => { for (let i = 0; i < k; i++) { y.push(yi); p.push(pi); } };
+    add(tp, 1, 0.9); add(fn, 1, 0.1); add(fp, 0, 0.8); add(tn, 0, 0.2);
+    const m = atThreshold(prepareThresholds(Float64Array.from(y), Float64Array.from(p)), 0.5, { level });
+    close(m.lrPositive!, c.lrPos[0]); close(m.lrNegative!, c.lrNeg[0]);
+    close(m.lrPositiveCi!.lower, c.lrPos[1]); close(m.lrPositiveCi!.upper, c.lrPos[2]);
+    close(m.lrNegativeCi!.lower, c.lrNeg[1]); close(m.lrNegativeCi!.upper, c.lrNeg[2]);
+  });
+
+  it('gives no interval when a count in the formula is 0, or for weighted counts', () => {
+    expect(likelihoodRatioCi(0, 10, 3, 20)).toBeNull();
+    expect(likelihoodRatioCi(4, 10, 0, 20)).toBeNull();
+    const y = Float64Array.from([1, 1, 0, 0, 1, 0]), p = Float64Array.from([0.9, 0.2, 0.8, 0.1, 0.7, 0.3]);
+    expect(atThreshold(prepareThresholds(y, p, Float64Array.from([1, 2, 1, 1, 1, 1])), 0.5).lrPositiveCi).toBeNull();
+    expect(atThreshold(prepareThresholds(y, p), 0.5).lrPositiveCi).not.toBeNull();
   });
 });
