@@ -112,6 +112,8 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   expect(ageLine).toContain(orAge.toFixed(3));
   const diabetesLine = text.split('\n').find((l) => /^\s*diabetes=yes\s+-?\d/.test(l));
   expect(diabetesLine).toContain(orDiabetes.toFixed(3));
+  expect(text).toMatch(/Positive likelihood ratio\s+\d+\.\d+ \(95% CI \d+\.\d+ to \d+\.\d+, log method\)/);
+  if (process.env.FULCRA_KEEP_PDF) await download.saveAs(process.env.FULCRA_KEEP_PDF);
 
   execFileSync('pdftoppm', ['-r', '50', '-png', '-f', '1', '-l', '1', pdf, join(dir, 'page')]);
   const png = join(dir, 'page-1.png');

@@ -121,8 +121,8 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
     if (v?.estimate === null || v?.estimate === undefined) return;
     rows.push([label, `${formatSig(v.estimate, digits)}${v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''}`]);
   };
-  lr('Likelihood ratio, flagged (LR+)', t.lrPositive, 3);
-  lr('Likelihood ratio, not flagged (LR\u2212)', t.lrNegative, 3);
+  lr('Positive likelihood ratio', t.lrPositive, 3);
+  lr('Negative likelihood ratio', t.lrNegative, 3);
   if (t.fractionFlagged !== undefined) rows.push(['Cases flagged', formatPercent(t.fractionFlagged)]);
   if (t.expectedCostPer100 !== undefined) rows.push(['Expected cost per 100 cases', formatSig(t.expectedCostPer100, 4)]);
   L.keyValues(rows, 50);
