@@ -2,9 +2,9 @@ import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../engine/bootstrap';
 import { FulcraError, getColumn } from '../engine/data';
-import { designFromRecipe } from '../engine/design';
+import { linearPredictorFromRecipe } from '../engine/design';
 import { evaluate, type EvaluationRecord } from '../engine/evaluate';
-import { externalValidation, scoreDesign, type ExternalValidation } from '../engine/externalValidation';
+import { externalValidation, type ExternalValidation } from '../engine/externalValidation';
 import { fit } from '../engine/fit';
 import type { FitOptions, FitResult, ModelSpec, TermSpec } from '../engine/model';
 import { fitPipeline, type Pipeline, type PipelineFit } from '../engine/pipeline';
@@ -116,8 +116,8 @@ async function runFitOn(table: ImportResult, args: FitArgs, argv: string[], vers
   else result = fit(data, spec, fitOptions);
   const model = (result ?? penalised)!;
 
-  const enc = designFromRecipe(model.recipe, data);
-  const eta = scoreDesign(model, enc.X, enc.n);
+  const enc = linearPredictorFromRecipe(model.recipe, model.coefficients.map((c) => c.estimate), data);
+  const eta = enc.eta;
   const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
   const costs = args.costs ? { falseNegative: args.costs.fn, falsePositive: args.costs.fp } : undefined;
   const evaluation = evaluate(enc.y!, risk, { eta, costs, threshold: args.threshold });

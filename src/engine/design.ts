@@ -88,6 +88,32 @@ function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; le
 export function designFromRecipe(
   recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
 ): EncodedDesign {
+  return encodeRecipe(recipe, data, opts, null);
+}
+
+/** designFromRecipe's rows, outcome and column bookkeeping, with the linear predictor instead of the design. */
+export type LinearPredictorRows = Omit<EncodedDesign, 'X' | 'p'> & { eta: Float64Array };
+
+/**
+ * The linear predictor Σⱼ βⱼ·xᵢⱼ (intercept first) of the rows of `data`, without building the n×p design: each
+ * term's columns go into scratch columns that are added to η in column order and reused, so memory is O(n) and
+ * η is bit-for-bit scoreDesign(model, designFromRecipe(recipe, data).X, n). Same rows, errors and messages.
+ */
+export function linearPredictorFromRecipe(
+  recipe: DesignRecipe, beta: ArrayLike<number>, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
+): LinearPredictorRows {
+  return encodeRecipe(recipe, data, opts, beta);
+}
+
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: null,
+): EncodedDesign;
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number>,
+): LinearPredictorRows;
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number> | null,
+): EncodedDesign | LinearPredictorRows {
   const { rows, outcome = 'if-present' } = opts;
   const used = new Set<string>();
   for (const t of recipe.terms) for (const c of columnsOfTerm(t)) used.add(c);
@@ -124,11 +150,39 @@ export function designFromRecipe(
     return t.type === 'spline' && !part ? t.knots.length - 1 : 1;
   };
   const p = 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
-  const X = allocF64(n * p); // shared memory while a row pool is installed, so that its threads can read it
-  X.fill(1, 0, n);
+  if (beta && beta.length !== p) {
+    throw new FulcraError('recipe-mismatch', `The data give ${p} design columns but the model has ${beta.length} coefficients.`);
+  }
+  // Design: X in shared memory while a row pool is installed, so that its threads can read it. Linear predictor:
+  // no X; each term's columns are scratch columns, reused once added to η.
+  const X = beta ? new Float64Array(0) : allocF64(n * p);
+  const eta = beta ? new Float64Array(n) : null;
+  if (!beta) X.fill(1, 0, n);
+  else if (beta[0] !== 0) for (let i = 0; i < n; i++) eta![i] += beta[0] * 1;
+  const spare: Float64Array[] = [];
   let nextColumn = 1;
-  const column = (): Float64Array => X.subarray(nextColumn * n, ++nextColumn * n);
+  const column = (): Float64Array => {
+    if (!beta) return X.subarray(nextColumn * n, ++nextColumn * n);
+    nextColumn++;
+    const reused = spare.pop();
+    return reused ? reused.fill(0) : new Float64Array(n); // indicator columns rely on zeros
+  };
   const scratchColumn = (): Float64Array => new Float64Array(n);
+  let overflow: FulcraError | null = null;
+  /** The first non-finite design value, in column order (thrown after every term is encoded). */
+  const checkFinite = (name: string, term: string, v: Float64Array): void => {
+    if (overflow) return;
+    let probe = 0;
+    for (let i = 0; i < n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
+    if (probe === 0) return;
+    let bad = 0;
+    while (Number.isFinite(v[bad])) bad++;
+    overflow = new FulcraError(
+      'design-overflow',
+      `The design column "${name}" of term "${term}" is ${v[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
+      'Rescale the predictor (e.g. other units) before fitting.',
+    );
+  };
 
   const blocks: { name: string; term: string; values: Float64Array }[] = [];
   const termColumns: { name: string; columns: number[] }[] = [];
@@ -196,23 +250,17 @@ export function designFromRecipe(
       cs = encodeMain(t, undefined, column);
     }
     termColumns.push({ name: t.name, columns: cs.map((_, k) => blocks.length + 1 + k) });
-    for (const c of cs) blocks.push({ name: c.name, term: t.name, values: c.values });
+    for (const c of cs) {
+      checkFinite(c.name, t.name, c.values);
+      const j = blocks.length + 1, bj = beta ? beta[j] : 0;
+      if (bj !== 0) for (let i = 0; i < n; i++) eta![i] += bj * c.values[i];
+      blocks.push({ name: c.name, term: t.name, values: c.values });
+    }
+    if (beta) spare.push(...cs.map((c) => c.values));
   }
 
   if (nextColumn !== p) throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
-  for (const b of blocks) {
-    const v = b.values;
-    let probe = 0;
-    for (let i = 0; i < n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
-    if (probe === 0) continue;
-    let bad = 0;
-    while (Number.isFinite(v[bad])) bad++;
-    throw new FulcraError(
-      'design-overflow',
-      `The design column "${b.name}" of term "${b.term}" is ${v[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
-      'Rescale the predictor (e.g. other units) before fitting.',
-    );
-  }
+  if (overflow) throw overflow;
 
   let y: Float64Array | null = null;
   if (outcomeCol) {
@@ -231,12 +279,13 @@ export function designFromRecipe(
       }
     }
   }
-  return {
-    X, n, p, y, rowsUsed, nDropped: candidate.length - n, droppedByColumn,
+  const common = {
+    n, y, rowsUsed, nDropped: candidate.length - n, droppedByColumn,
     columnNames: [INTERCEPT, ...blocks.map((b) => b.name)],
     columnTerms: [INTERCEPT, ...blocks.map((b) => b.term)],
     termColumns,
   };
+  return eta ? { ...common, eta } : { ...common, X, p };
 }
 
 function termName(t: ModelSpec['terms'][number]): string {

@@ -1,5 +1,5 @@
 import { FulcraError, type Dataset } from './data';
-import { designFromRecipe } from './design';
+import { linearPredictorFromRecipe } from './design';
 import { evaluate, type EvaluateOptions, type EvaluationRecord } from './evaluate';
 import { recalibrate, recalibratedModel, type RecalibratedModel, type RecalibrationResult, type ScoringModel } from './recalibration';
 import { warning, type EngineWarning } from './warnings';
@@ -44,13 +44,13 @@ export function externalValidation(model: ScoringModel, data: Dataset, options: 
   if (model.coefficients.length !== recipe.columnNames.length || model.coefficients.some((c, j) => c.name !== recipe.columnNames[j])) {
     throw new FulcraError('model-mismatch', 'The coefficients do not line up with the model recipe’s design columns.');
   }
-  const enc = designFromRecipe(recipe, data);
+  const enc = linearPredictorFromRecipe(recipe, model.coefficients.map((c) => c.estimate), data);
   if (!enc.y) {
     throw new FulcraError('no-outcome', `The new data have no column "${recipe.outcome}", so the model cannot be validated on them.`,
       'Add the outcome column, or score the data without validating.');
   }
   if (enc.n === 0) throw new FulcraError('no-complete-rows', 'No row of the new data has a value in every column the model uses.');
-  const eta = scoreDesign(model, enc.X, enc.n);
+  const eta = enc.eta;
   const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
   const evaluation = evaluate(enc.y, risk, { ...options, eta });
   const recalibration = recalibrate(enc.y, eta, { level: options.level });

@@ -1,13 +1,12 @@
 import { oddsRatio } from '../engine/oddsRatio';
 import { FulcraError, type Dataset } from '../engine/data';
-import { designFromRecipe } from '../engine/design';
+import { linearPredictorFromRecipe } from '../engine/design';
 import { fit } from '../engine/fit';
 import type { FitResult } from '../engine/model';
 import { fitPipeline, type Pipeline } from '../engine/pipeline';
 import { coxSnellR2, riley2020SampleSize, type SampleSizeResult } from '../engine/sampleSize';
 import { prepareThresholds } from '../engine/threshold';
 import { warning, type EngineWarning } from '../engine/warnings';
-import { scoreDesign } from '../engine/externalValidation';
 import { sigmoid } from '../engine/loss';
 import { checkFitBudget } from './budget';
 import { designColumnCount } from '../engine/memoryBudget';
@@ -74,9 +73,10 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promi
       extra.push(warning('penalised-no-inference', 'Penalised estimates are shrunk towards zero on purpose, so no valid confidence intervals or p-values exist for them.', 'Use bootstrap validation to judge the model; use the standard or Firth fit if you need intervals.'));
     }
   }
-  const d = designFromRecipe(result.recipe, data);
+  // η of the rows used without a second n×p design (the fit's own design is standardised and gone).
+  const d = linearPredictorFromRecipe(result.recipe, result.coefficients.map((c) => c.estimate), data);
   if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${result.recipe.outcome}" is missing.`);
-  const eta = scoreDesign(result, d.X, d.n);
+  const eta = d.eta;
   const risk = eta.map(sigmoid);
   const { view: performance, record } = performanceView(d.y, risk, eta, req.level);
   s.fit = result;
@@ -102,8 +102,8 @@ function dedupe(ws: EngineWarning[]): EngineWarning[] {
 
 /** A penalised (lasso / elastic-net) fit in the FitResult shape: no inference, deviance at the penalised estimate. */
 function penalisedRecord(base: FitResult, beta: number[], data: Dataset, lambda: number, alpha: number): FitResult {
-  const d = designFromRecipe(base.recipe, data);
-  const risk = scoreDesign({ recipe: base.recipe, coefficients: beta.map((estimate) => ({ estimate })) as { name: string; estimate: number }[] }, d.X, d.n).map(sigmoid);
+  const d = linearPredictorFromRecipe(base.recipe, beta, data);
+  const risk = d.eta.map(sigmoid);
   let ll = 0;
   for (let i = 0; i < d.n; i++) ll += d.y![i] === 1 ? Math.log(Math.max(risk[i], 1e-300)) : Math.log(Math.max(1 - risk[i], 1e-300));
   const nonzero = beta.slice(1).filter((b) => b !== 0).length;
