@@ -10,6 +10,7 @@ import tCdf from '@stdlib/stats-base-dists-t-cdf';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import chisqQuantile from '@stdlib/stats-base-dists-chisquare-quantile';
 import betaQuantile from '@stdlib/stats-base-dists-beta-quantile';
+import betainc from '@stdlib/math-base-special-betainc';
 
 /** Standard normal CDF Φ(z). */
 export function pnorm(z: number): number {
@@ -49,4 +50,16 @@ export function qt(p: number, df: number): number {
 /** Beta quantile (used for exact Clopper–Pearson intervals). */
 export function qbeta(p: number, a: number, b: number): number {
   return betaQuantile(p, a, b);
+}
+
+/**
+ * Upper tail P(F > x) of an F distribution with d1 and d2 degrees of freedom: the upper regularised incomplete
+ * beta I_{1−u}(d2/2, d1/2) at u = d1·x/(d1·x + d2), computed directly; the χ²(d1)/d1 limit when d2 = ∞.
+ */
+export function pfUpper(x: number, d1: number, d2: number): number {
+  if (Number.isNaN(x)) return NaN;
+  if (!(x > 0)) return 1;
+  if (x === Infinity) return 0;
+  if (d2 === Infinity) return pchisqUpper(d1 * x, d1);
+  return betainc((d1 * x) / (d1 * x + d2), d1 / 2, d2 / 2, true, true);
 }

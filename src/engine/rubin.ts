@@ -1,6 +1,6 @@
 import { oddsRatio } from './oddsRatio';
 import { FulcraError } from './data';
-import { pchisqUpper, pt, qt } from './distributions';
+import { pfUpper, pt, qt } from './distributions';
 import { cholesky, choleskyInverse } from './linalg';
 import type { CoefficientRow, FitResult } from './model';
 import { warning, type EngineWarning } from './warnings';
@@ -257,60 +257,5 @@ export function poolWaldTest(estimates: ArrayLike<number>[], covariances: ArrayL
   const statistic = quad / (k * (1 + riv));
   const t = k * (m - 1);
   const df2 = riv === 0 ? Infinity : t > 4 ? 4 + (t - 4) * (1 + (1 - 2 / t) / riv) ** 2 : (t * (1 + 1 / k) * (1 + 1 / riv) ** 2) / 2;
-  return { statistic, df1: k, df2, riv, p: fUpper(statistic, k, df2) };
-}
-
-/**
- * Upper tail of the F distribution, P(F > x) = I_{d2/(d2 + d1·x)}(d2/2, d1/2), by the continued fraction of
- * the regularised incomplete beta (Press et al. 2007, Numerical Recipes 3rd ed. §6.4) with a Lanczos
- * log-gamma; χ²(d1)/d1 limit beyond d2 = 1e7. Exported for tests; belongs in distributions.ts.
- */
-export function fUpper(x: number, d1: number, d2: number): number {
-  if (!(x > 0)) return Number.isNaN(x) ? NaN : 1;
-  if (!(d2 < 1e7)) return pchisqUpper(d1 * x, d1);
-  return betaRegularized(d2 / (d2 + d1 * x), d2 / 2, d1 / 2);
-}
-
-function betaRegularized(x: number, a: number, b: number): number {
-  if (x <= 0) return 0;
-  if (x >= 1) return 1;
-  const front = Math.exp(lgamma(a + b) - lgamma(a) - lgamma(b) + a * Math.log(x) + b * Math.log1p(-x));
-  return x < (a + 1) / (a + b + 2) ? (front * betaFraction(x, a, b)) / a : 1 - (front * betaFraction(1 - x, b, a)) / b;
-}
-
-function betaFraction(x: number, a: number, b: number): number {
-  const tiny = 1e-300;
-  let c = 1, d = 1 - ((a + b) * x) / (a + 1);
-  if (Math.abs(d) < tiny) d = tiny;
-  d = 1 / d;
-  let h = d;
-  for (let i = 1; i <= 10000; i++) {
-    const i2 = 2 * i;
-    let aa = (i * (b - i) * x) / ((a - 1 + i2) * (a + i2));
-    d = 1 + aa * d; if (Math.abs(d) < tiny) d = tiny;
-    c = 1 + aa / c; if (Math.abs(c) < tiny) c = tiny;
-    d = 1 / d;
-    h *= d * c;
-    aa = (-(a + i) * (a + b + i) * x) / ((a + i2) * (a + 1 + i2));
-    d = 1 + aa * d; if (Math.abs(d) < tiny) d = tiny;
-    c = 1 + aa / c; if (Math.abs(c) < tiny) c = tiny;
-    d = 1 / d;
-    const del = d * c;
-    h *= del;
-    if (Math.abs(del - 1) < 1e-16) break;
-  }
-  return h;
-}
-
-const lanczos = [0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059,
-  12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7];
-
-/** log Γ(z) for z > 0 (Lanczos, g = 7). */
-function lgamma(z: number): number {
-  if (z < 0.5) return Math.log(Math.PI / Math.sin(Math.PI * z)) - lgamma(1 - z);
-  z -= 1;
-  let x = lanczos[0];
-  for (let i = 1; i < 9; i++) x += lanczos[i] / (z + i);
-  const t = z + 7.5;
-  return 0.5 * Math.log(2 * Math.PI) + (z + 0.5) * Math.log(t) - t + Math.log(x);
+  return { statistic, df1: k, df2, riv, p: pfUpper(statistic, k, df2) };
 }

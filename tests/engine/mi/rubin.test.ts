@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { createRng } from '../../../src/engine/rng';
 import { readFileSync } from 'node:fs';
-import { barnardRubinDf, fUpper, poolCoefficients, poolRubin, poolWaldTest } from '../../../src/engine/rubin';
+import { pfUpper } from '../../../src/engine/distributions';
+import { barnardRubinDf, poolCoefficients, poolRubin, poolWaldTest } from '../../../src/engine/rubin';
 import type { FitResult } from '../../../src/engine/model';
 import { fitRecord } from './helpers';
 import { FulcraError } from '../../../src/engine/data';
@@ -190,11 +191,21 @@ describe('poolWaldTest (D1)', () => {
   });
 });
 
-describe('fUpper', () => {
+describe('pfUpper', () => {
   it('matches R 4.2.2 stats::pf(lower.tail = FALSE) on a grid of x, df1, df2 to 1e-10 relative', () => {
     const g = fx.pf;
-    const got = g.x.map((x: number, i: number) => fUpper(x, g.d1[i], g.d2[i]));
+    const got = g.x.map((x: number, i: number) => pfUpper(x, g.d1[i], g.d2[i]));
     const err = Math.max(...got.map((v: number, i: number) => Math.abs(v - g.p[i]) / g.p[i]));
     expect(err).toBeLessThan(1e-10);
+  });
+
+  it('keeps the digits of a tiny upper tail, and is the χ² limit at df2 = ∞ (R 4.2.2 stats::pf, lower.tail = FALSE)', () => {
+    expect(Math.abs(pfUpper(50, 3, 1000) / 4.110582339166328e-30 - 1)).toBeLessThan(1e-10);
+    // Relative error grows with df2 (cancellation in the beta argument): 8e-13 at 1e5, 2.5e-10 at 1e7 (measured).
+    expect(Math.abs(pfUpper(2.5, 4, 1e7) / 0.040427749373991156 - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(pfUpper(2.5, 4, Infinity) / 0.040427681994512805 - 1)).toBeLessThan(1e-12); // pchisq(10, 4, lower.tail = FALSE)
+    expect(pfUpper(0, 2, 5)).toBe(1);
+    expect(pfUpper(Infinity, 2, 5)).toBe(0);
+    expect(pfUpper(NaN, 2, 5)).toBeNaN();
   });
 });
