@@ -78,6 +78,7 @@ function setData(s: Session, data: Dataset, summary: DataSummary): DataSummary {
   s.evaluation = null;
   s.validation = null;
   s.sampleSize = null;
+  s.imputed = null;
   return summary;
 }
 

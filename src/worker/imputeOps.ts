@@ -14,7 +14,7 @@ export async function fitWithImputation(s: Session, req: FitRequest, hooks: Hook
   const method = req.method === 'firth' ? 'firth' : 'ml';
   const imp = await mice(data, req.spec, { m: 10, maxit: 10, seed: 1 }, { ...hooks, tick });
   const pooled = await fitImputed(data, req.spec, imp, { method, level: req.level }, { signal: hooks.signal, tick });
-  return {
+  const view: ImputedView = {
     m: pooled.m,
     level: pooled.level,
     nRows: pooled.nRows,
@@ -25,4 +25,7 @@ export async function fitWithImputation(s: Session, req: FitRequest, hooks: Hook
     })),
     warnings: pooled.warnings,
   };
+  // Kept for the PDF only when it belongs to the current model (same request as the last fit).
+  s.imputed = s.request && JSON.stringify(s.request) === JSON.stringify(req) ? view : null;
+  return view;
 }

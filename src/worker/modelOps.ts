@@ -86,6 +86,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promi
   s.prepared = record.prepared ?? prepareThresholds(d.y, risk);
   s.evaluation = { ...record, prepared: null };
   s.validation = null;
+  s.imputed = null;
   const sampleSize = sampleSizeCheck(result);
   s.sampleSize = sampleSize.record;
   const warnings = dedupe([...result.warnings, ...extra, ...performance.warnings]);

@@ -32,6 +32,8 @@ export function modelReport(s: Session, costs: Costs, threshold: number, created
     costs: decision,
     thresholdRule: `chosen on the page; flag when the predicted risk is at least ${(100 * threshold).toFixed(1)}%`,
     lambdaChoice,
+    imputation: s.imputed ? { ...s.imputed, columns: s.imputed.imputedColumns } : undefined,
+    warnings: s.imputed?.warnings,
   });
   return buildModelReport(input);
 }

@@ -4,7 +4,7 @@ import type { InternalValidation } from '../engine/bootstrap';
 import type { EvaluationRecord } from '../engine/evaluate';
 import type { SampleSizeResult } from '../engine/sampleSize';
 import type { PreparedThresholds } from '../engine/threshold';
-import type { DataSummary, FitRequest } from './protocol';
+import type { DataSummary, FitRequest, ImputedView } from './protocol';
 
 /** What the worker holds between calls: the data set and the current model. */
 export interface Session {
@@ -20,13 +20,15 @@ export interface Session {
   evaluation: EvaluationRecord | null;
   validation: InternalValidation | null;
   sampleSize: SampleSizeResult | null;
+  /** The current model pooled over multiple imputations, when the page asked for it (for the PDF). */
+  imputed: ImputedView | null;
   signals: Map<string, { aborted: boolean }>;
 }
 
 export function createSession(): Session {
   return {
     data: null, summary: null, fit: null, request: null, y: null, risk: null, prepared: null,
-    evaluation: null, validation: null, sampleSize: null, signals: new Map(),
+    evaluation: null, validation: null, sampleSize: null, imputed: null, signals: new Map(),
   };
 }
 

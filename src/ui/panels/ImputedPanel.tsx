@@ -23,7 +23,8 @@ export function ImputedPanel({ view }: { view: FitView }) {
         <table className="odds" data-testid="imputed-table">
           <caption>
             Pooled over {imp.m} imputations (Rubin’s rules): {count(imp.nImputedRows)} of {count(imp.nRows)} rows had a value filled in
-            ({imp.imputedColumns.map((c) => `${c.column}: ${count(c.cells)} by ${c.method}`).join('; ')}).
+            ({imp.imputedColumns.map((c) => `${c.column}: ${count(c.cells)} by ${c.method}`).join('; ')}). The model-summary PDF includes
+            this table as a sensitivity analysis; the model itself stays the complete-case fit.
           </caption>
           <thead><tr><th scope="col">Term</th><th scope="col">Coefficient</th><th scope="col">Odds ratio</th><th scope="col">{level}% CI</th>
             <th scope="col">p</th><th scope="col">Fraction of missing information</th><th scope="col">Complete-case coefficient</th></tr></thead>

@@ -1,6 +1,6 @@
 import { PdfLayout } from './pdfLayout';
 import type { ReportInput } from './reportInput';
-import { dataSection, equation, method, oddsRatios, predictors, purpose, sampleSize } from './reportSectionsModel';
+import { dataSection, equation, imputation, method, oddsRatios, predictors, purpose, sampleSize } from './reportSectionsModel';
 import { cautions, performance, plots, threshold, warningsSection } from './reportSectionsResults';
 
 export { REPORT_CAUTIONS } from './reportSectionsResults';
@@ -9,7 +9,8 @@ export { REPORT_CAUTIONS } from './reportSectionsResults';
  * Builds the model-summary PDF (A4, vector plots, embedded Liberation Sans) as bytes. Pure: no DOM, runs in
  * Node and the browser. Content follows the TRIPOD items the workbench knows (Collins et al. 2015, BMJ
  * 350:g7594; TRIPOD+AI, BMJ 2024;385:e078378): source of data, outcome, predictors and coding, sample size,
- * missing data, modelling method, full equation, odds ratios, performance, threshold, warnings and cautions.
+ * missing data (with the multiple-imputation sensitivity analysis when run), modelling method, full equation, odds
+ * ratios, performance, threshold, warnings and cautions.
  */
 export function buildModelReport(input: ReportInput): Uint8Array {
   const L = new PdfLayout();
@@ -30,6 +31,7 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   method(L, input);
   equation(L, m);
   oddsRatios(L, m);
+  imputation(L, input);
   performance(L, input);
   plots(L, input);
   threshold(L, input);

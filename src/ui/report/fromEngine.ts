@@ -3,7 +3,7 @@ import type { EvaluationRecord } from '../../engine/evaluate';
 import type { InternalValidation, MetricName } from '../../engine/bootstrap';
 import type { SampleSizeResult } from '../../engine/sampleSize';
 import type { EngineWarning } from '../../engine/warnings';
-import type { Estimate, PerformanceSummary, ReportInput } from './reportInput';
+import type { Estimate, ImputationSummary, PerformanceSummary, ReportInput } from './reportInput';
 
 export interface ReportRecords {
   meta: ReportInput['meta'];
@@ -19,6 +19,8 @@ export interface ReportRecords {
   thresholdRule?: string;
   lambdaChoice?: string;
   missingData?: string;
+  /** The model pooled over multiple imputations (its warnings go in `warnings`). */
+  imputation?: ImputationSummary;
   /** Other warnings to list (imputation, import…). */
   warnings?: EngineWarning[];
 }
@@ -39,6 +41,7 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     model: r.fit,
     lambdaChoice: r.lambdaChoice,
     missingData: r.missingData,
+    imputation: r.imputation,
     warnings: [...(ev?.warnings ?? []), ...(r.validation?.warnings ?? []), ...(r.sampleSize?.warnings ?? []), ...(r.warnings ?? [])],
   };
   if (ev) {

@@ -74,6 +74,16 @@ export interface SampleSizeSummary {
 }
 
 /** What the PDF builder needs. Everything except `model`, `source` and `meta` may be omitted. */
+/** The same model pooled over multiple imputations by Rubin's rules (a sensitivity analysis for missing values). */
+export interface ImputationSummary {
+  m: number;
+  level: number;
+  nRows: number;
+  nImputedRows: number;
+  columns: { column: string; cells: number; method: string }[];
+  rows: { name: string; estimate: number; oddsRatio: number; lower: number | null; upper: number | null; p: number | null; fmi: number | null }[];
+}
+
 export interface ReportInput {
   meta: {
     fulcraVersion: string;
@@ -107,6 +117,7 @@ export interface ReportInput {
   calibration?: CalibrationPlotData;
   decisionCurve?: DecisionCurvePlotData;
   threshold?: ThresholdSummary;
+  imputation?: ImputationSummary;
   /** Warnings from evaluation, validation, imputation… (the fit's own warnings are read from `model`). */
   warnings?: EngineWarning[];
 }
