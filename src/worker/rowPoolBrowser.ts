@@ -7,20 +7,28 @@
  */
 import { installRowPool, messagePool } from '../engine/rowPool';
 
-/** Helpers at most (threads = helpers + 1). */
+/** Threads at most (helpers + the engine worker). */
 const MAX_THREADS = 8;
+/** Helpers not ready by then are given up (the engine then runs on one thread). */
+const START_TIMEOUT_MS = 10_000;
 
 /** Starts the pool when the page allows it; resolves to the number of threads the engine's row passes use. */
 export async function startBrowserRowPool(): Promise<number> {
   const g = self as unknown as { crossOriginIsolated?: boolean; navigator?: { hardwareConcurrency?: number } };
   const threads = Math.min(MAX_THREADS, g.navigator?.hardwareConcurrency ?? 1);
   if (!g.crossOriginIsolated || typeof SharedArrayBuffer === 'undefined' || threads < 2) return 1;
+  const started: Worker[] = [];
   try {
-    const helpers = await Promise.all(Array.from({ length: threads - 1 }, (_, i) => new Promise<Worker>((resolve, reject) => {
+    const ready = Promise.all(Array.from({ length: threads - 1 }, (_, i) => new Promise<Worker>((resolve, reject) => {
       const w = new Worker(new URL('./rowHelper.ts', import.meta.url), { type: 'module', name: `fulcra-rows-${i + 1}` });
+      started.push(w);
       w.onmessage = () => { w.onmessage = null; resolve(w); };
       w.onerror = (e) => { e.preventDefault(); reject(new Error(e.message || 'a helper worker failed to start')); };
     })));
+    // Every call to the engine waits for this start: a helper that never answers must not hold the page up.
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    const late = new Promise<never>((_, reject) => { timer = setTimeout(() => reject(new Error('helper start timed out')), START_TIMEOUT_MS); });
+    const helpers = await Promise.race([ready, late]).finally(() => clearTimeout(timer));
     installRowPool(messagePool(helpers));
     // A helper that dies (out of memory, say) ends the pool: the pass it was in fails with a message, and every
     // later fit runs on the engine worker's own thread.
@@ -33,6 +41,7 @@ export async function startBrowserRowPool(): Promise<number> {
     }
     return threads;
   } catch {
+    for (const w of started) w.terminate();
     return 1; // no helpers: one thread, same results
   }
 }
