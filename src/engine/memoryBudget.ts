@@ -141,32 +141,30 @@ export interface FitShape {
   rows: number;
   /** Design columns, intercept included (designColumnCount). */
   designColumns: number;
-  /** Profile-likelihood intervals requested (one more n×p copy). Default true. */
-  profile?: boolean;
   /** Predictions and the evaluation record on the same rows. Default true. */
   evaluate?: boolean;
 }
 
 /**
- * Peak extra bytes of fit() and, by default, predict() + evaluate() on the same rows, counted from design.ts, fit.ts
- * and newton.ts. Fitting holds the design X, its per-term blocks, the standardised copy Z and the kept-column copy the
- * solver works on (4 n×p float64 arrays; 5 with profile intervals) and per row the outcome, row indices and the
- * solver's η, μ, 1−μ, weights, hat values and fitted risks (~20 doubles). Evaluation runs after the fit's working
- * arrays are garbage: the rebuilt design and its blocks (2 n×p) and ~45 doubles a row (sorts, DeLong placements,
- * calibration fits). The peak is the larger phase.
+ * Peak extra bytes of fit() and, by default, the apparent evaluation on the same rows, counted from design.ts,
+ * fit.ts and newton.ts. Fitting holds the design X (standardised in place; profile-likelihood and term refits
+ * reuse it) and, when some columns are aliased, a copy without them: at most 2 n×p float64 arrays; per row the
+ * outcome, row indices, the solver's η and weights in two slots, fitted risks and the missing-value masks (~20
+ * doubles). Evaluation runs after the fit's working arrays are garbage: η comes term by term without a design
+ * (a few scratch columns) and ~45 doubles a row (sorts, DeLong placements, calibration fits). The peak is the
+ * larger phase.
  */
 export function estimateFitBytes(shape: FitShape): MemoryEstimate {
-  const { rows: n, designColumns: p, profile = true, evaluate = true } = shape;
+  const { rows: n, designColumns: p, evaluate = true } = shape;
   checkCount('rows', n);
   checkCount('designColumns', p, 1);
   const np = 8 * n * p;
   const fitPhase: MemoryPart[] = [
-    { label: 'design matrix and its working copies', bytes: np * (profile ? 5 : 4) },
+    { label: 'design matrix (and a copy without aliased columns)', bytes: 2 * np },
     { label: 'per-row solver arrays', bytes: 8 * 20 * n },
   ];
   const evalPhase: MemoryPart[] = [
-    { label: 'prediction design', bytes: 2 * np },
-    { label: 'evaluation arrays', bytes: 8 * 45 * n },
+    { label: 'linear predictor, scratch columns and evaluation arrays', bytes: 8 * (45 + 8) * n },
   ];
   const sum = (ps: MemoryPart[]) => ps.reduce((s, q) => s + q.bytes, 0);
   return estimate('fit', n, p, evaluate && sum(evalPhase) > sum(fitPhase) ? evalPhase : fitPhase);

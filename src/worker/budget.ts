@@ -19,7 +19,7 @@ export function checkImportBudget(bytes: ArrayBuffer, fileName: string, held: Da
 }
 
 /** Refuses a model whose fit would not fit in memory next to the data already held. */
-export function checkFitBudget(data: Dataset, spec: ModelSpec, profile: boolean): void {
-  const est = estimateFitBytes({ rows: data.nRows, designColumns: designColumnCount(data, spec), profile });
+export function checkFitBudget(data: Dataset, spec: ModelSpec): void {
+  const est = estimateFitBytes({ rows: data.nRows, designColumns: designColumnCount(data, spec) });
   enforce(checkBudget(est, availableBytes() - datasetBytes(data)));
 }

@@ -44,7 +44,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promi
   const size = data.nRows * designColumnCount(data, req.spec);
   const profile = req.profile && size <= PROFILE_MAX_CELLS;
   const termTests = size <= TERM_TESTS_MAX_CELLS;
-  checkFitBudget(data, req.spec, profile);
+  checkFitBudget(data, req.spec);
   let result: FitResult;
   let lambda: FitView['lambda'] = null;
   const extra: EngineWarning[] = [];

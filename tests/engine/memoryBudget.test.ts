@@ -20,18 +20,18 @@ const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 afterEach(() => vi.unstubAllGlobals());
 
 describe('estimateFitBytes', () => {
-  it('counts four n×p float64 copies and ~20 doubles a row for a fit without profiles, plus a fixed 32 MiB', () => {
-    const e = estimateFitBytes({ rows: 100_000, designColumns: 30, profile: false, evaluate: false });
-    expect(e.bytes).toBe(8 * 100_000 * 30 * 4 + 8 * 20 * 100_000 + 32 * MiB);
+  it('counts two n×p float64 arrays and ~20 doubles a row for a fit, plus a fixed 32 MiB', () => {
+    const e = estimateFitBytes({ rows: 100_000, designColumns: 30, evaluate: false });
+    expect(e.bytes).toBe(8 * 100_000 * 30 * 2 + 8 * 20 * 100_000 + 32 * MiB);
     expect(e.job).toBe('fit');
   });
 
-  it('adds one n×p copy for profile intervals and takes the larger of the fit and evaluation phases', () => {
-    const base = estimateFitBytes({ rows: 50_000, designColumns: 10, profile: false, evaluate: false }).bytes;
-    expect(estimateFitBytes({ rows: 50_000, designColumns: 10, profile: true, evaluate: false }).bytes - base).toBe(8 * 50_000 * 10);
-    // p = 1: evaluation (2·8n + 360n) outweighs fitting (4·8n + 160n)
-    const thin = estimateFitBytes({ rows: 1000, designColumns: 1, profile: false, evaluate: true });
-    expect(thin.bytes).toBe(2 * 8 * 1000 + 8 * 45 * 1000 + 32 * MiB);
+  it('takes the larger of the fit and evaluation phases', () => {
+    // p = 1: evaluation (53·8n) outweighs fitting (2·8n + 160n)
+    const thin = estimateFitBytes({ rows: 1000, designColumns: 1, evaluate: true });
+    expect(thin.bytes).toBe(8 * 53 * 1000 + 32 * MiB);
+    const wide = estimateFitBytes({ rows: 1000, designColumns: 40, evaluate: true });
+    expect(wide.bytes).toBe(8 * 1000 * 40 * 2 + 8 * 20 * 1000 + 32 * MiB);
   });
 
   it('refuses a negative or non-finite row count with a FulcraError', () => {
@@ -179,7 +179,35 @@ describe('estimates against measured memory', () => {
     expect(m.p).toBe(30);
     expect(m.after).toBeGreaterThan(m.before); // the fit set a new peak, so the rise is the fit's
     const measured = m.after - m.rss;
-    const est = estimateFitBytes({ rows: m.n, designColumns: m.p, profile: false, evaluate: false }).bytes;
+    const est = estimateFitBytes({ rows: m.n, designColumns: m.p, evaluate: false }).bytes;
+    expect(est).toBeGreaterThanOrEqual(measured);
+    expect(est).toBeLessThanOrEqual(4 * measured);
+  }, 180_000);
+
+  it('covers the measured peak of the worker\'s whole fit job (fit with profile intervals and term tests, then the evaluation) at 100 000 × 30', async () => {
+    const m = await probe(`
+      const { createApi } = await import(root + 'src/worker/api.ts');
+      const { createRng } = await import(root + 'src/engine/rng.ts');
+      const n = 100000, L = 28, rng = createRng(3);
+      const x1 = new Float64Array(n), x2 = new Float64Array(n), g = new Int32Array(n), y = new Float64Array(n);
+      for (let i = 0; i < n; i++) {
+        x1[i] = rng.normal(); x2[i] = rng.normal(); g[i] = Math.floor(rng.next() * L);
+        y[i] = rng.next() < 1 / (1 + Math.exp(0.5 - 0.4 * x1[i] + 0.2 * x2[i] - 0.05 * (g[i] % 6))) ? 1 : 0;
+      }
+      const data = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x1', values: x1 },
+        { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'categorical', name: 'g', codes: g, levels: Array.from({ length: L }, (_, l) => 'L' + l) }] };
+      const spec = { outcome: 'y', event: '1', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
+      const api = createApi();
+      await api.loadDataset(data, null, 'probe.csv');
+      globalThis.gc();
+      const before = peak(), rss = process.memoryUsage().rss;
+      const v = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: true }, 'job');
+      console.log(JSON.stringify({ before, rss, after: peak(), n, p: v.fit.coefficients.length }));
+    `);
+    expect(m.p).toBe(30);
+    expect(m.after).toBeGreaterThan(m.before);
+    const measured = m.after - m.rss;
+    const est = estimateFitBytes({ rows: m.n, designColumns: m.p }).bytes;
     expect(est).toBeGreaterThanOrEqual(measured);
     expect(est).toBeLessThanOrEqual(4 * measured);
   }, 180_000);

@@ -155,8 +155,8 @@ describe('memory guard in the worker', () => {
     const { checkFitBudget } = await import('../../src/worker/budget');
     const wide = { nRows: 3_000_000, columns: [{ kind: 'numeric' as const, name: 'y', values: new Float64Array(1) }, ...Array.from({ length: 40 }, (_, j) => ({ kind: 'numeric' as const, name: `x${j}`, values: new Float64Array(1) }))] };
     const spec = { outcome: 'y', terms: wide.columns.slice(1).map((c) => ({ type: 'main' as const, column: c.name })) };
-    expect(() => checkFitBudget(wide, spec, true)).toThrow(expect.objectContaining({ code: 'too-big' }));
+    expect(() => checkFitBudget(wide, spec)).toThrow(expect.objectContaining({ code: 'too-big' }));
     const demo = generateDemo('ssi');
-    expect(() => checkFitBudget(demo.dataset, demo.spec, true)).not.toThrow();
+    expect(() => checkFitBudget(demo.dataset, demo.spec)).not.toThrow();
   });
 });
