@@ -126,31 +126,6 @@ export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Arra
   return out;
 }
 
-/**
- * Fused pass for the rows [rowStart, rowEnd) of an unweighted logistic model without offset: η = Xβ, the
- * residuals r = y − μ (written to `r`, length n), and the partial gradient X'r added into `g` (length p, not
- * cleared). Returns the partial −loglik Σ softplus(η) − yη. Reads each row block of X twice while it is in cache.
- */
-export function lossGradientRows(
-  X: Float64Array, n: number, p: number, y: Float64Array, beta: ArrayLike<number>,
-  rowStart: number, rowEnd: number, eta: Float64Array, r: Float64Array, g: Float64Array,
-): number {
-  const R = 512;
-  let loss = 0;
-  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
-    const r1 = Math.min(rowEnd, r0 + R);
-    for (let i = r0; i < r1; i++) eta[i] = 0;
-    addEtaBlock(X, n, p, beta, r0, r1, eta);
-    for (let i = r0; i < r1; i++) {
-      const t = eta[i], a = Math.exp(-Math.abs(t)), yi = y[i];
-      loss += Math.max(t, 0) + Math.log1p(a) - yi * t;
-      r[i] = yi - (t >= 0 ? 1 / (1 + a) : a / (1 + a));
-    }
-    addXtrBlock(X, n, p, r, r0, r1, g);
-  }
-  return loss;
-}
-
 /** Residuals of one 512-row block when the caller keeps none (each thread has its own copy of this module). */
 const rowScratch = new Float64Array(512);
 

@@ -36,8 +36,8 @@ export interface RowJob {
   blocks?: Int32Array; blockRows?: number;
   /** logistic: written (case weight × μ(1 − μ)); information: read. */
   w: Float64Array;
-  /** Per-chunk partials: loss (length K), X'r (K·p), X'WX (K·p·p, row-major, both triangles). */
-  partLoss: Float64Array; partG: Float64Array; partH: Float64Array;
+  /** Per-chunk partials: loss (length K) and X'r (K·p) for 'logistic'; X'WX (K·p·p, row-major, both triangles) for 'information'. */
+  partLoss: Float64Array; partG: Float64Array; partH?: Float64Array;
   /** Shared Int32Array(2): helpers that finished, and helpers that failed. */
   done: Int32Array;
 }
@@ -48,7 +48,7 @@ export function runChunks(job: RowJob, k0: number, k1: number, work: Float64Arra
   for (let k = k0; k < k1; k++) {
     if (job.blocks) {
       // A row subsample: chunk k is the group of blocks [k·chunkRows, (k + 1)·chunkRows).
-      const H = job.partH.subarray(k * p * p, (k + 1) * p * p), B = job.blockRows!, one = new Float64Array(p * p);
+      const H = job.partH!.subarray(k * p * p, (k + 1) * p * p), B = job.blockRows!, one = new Float64Array(p * p);
       H.fill(0);
       for (let q = k * chunkRows; q < Math.min(job.blocks.length, (k + 1) * chunkRows); q++) {
         const s = job.blocks[q];
@@ -61,7 +61,7 @@ export function runChunks(job: RowJob, k0: number, k1: number, work: Float64Arra
     if (job.op === 'logistic') {
       job.partLoss[k] = logisticRows(X, n, p, job.y!, job.beta!, job.c, job.offset, job.eta!, undefined, job.w, job.partG.subarray(k * p, (k + 1) * p), a, b);
     } else {
-      accumulateXtWX(X, n, p, job.w, job.partH.subarray(k * p * p, (k + 1) * p * p), work, a, b);
+      accumulateXtWX(X, n, p, job.w, job.partH!.subarray(k * p * p, (k + 1) * p * p), work, a, b);
     }
   }
 }
@@ -91,9 +91,13 @@ export function rowPoolThreads(): number {
 
 const sharedMemory = (): boolean => typeof SharedArrayBuffer !== 'undefined';
 
+/** A zeroed Float64Array, in shared memory when asked for and available. */
+const f64 = (length: number, shared: boolean): Float64Array =>
+  shared && sharedMemory() ? new Float64Array(new SharedArrayBuffer(length * 8)) : new Float64Array(length);
+
 /** A zeroed Float64Array, in shared memory while a pool is installed (so that the pool can read it). */
 export function allocF64(length: number): Float64Array {
-  return installed && sharedMemory() ? new Float64Array(new SharedArrayBuffer(length * 8)) : new Float64Array(length);
+  return f64(length, installed !== null);
 }
 
 /**
@@ -106,8 +110,7 @@ const MAX_SPARES = 8;
 
 export function takeBuffer(length: number, shared: boolean): Float64Array {
   const k = spares.findIndex((a) => a.length === length && (a.buffer instanceof ArrayBuffer) !== shared);
-  if (k >= 0) return spares.splice(k, 1)[0];
-  return shared && sharedMemory() ? new Float64Array(new SharedArrayBuffer(length * 8)) : new Float64Array(length);
+  return k >= 0 ? spares.splice(k, 1)[0] : f64(length, shared);
 }
 
 /** Returns buffers from takeBuffer; buffers of another length than the newest are let go. */
@@ -133,41 +136,40 @@ export function createRowPasses(
   if (chunkRows % 512 !== 0) throw new FulcraError('bad-argument', `chunkRows must be a multiple of 512, got ${chunkRows}.`);
   const K = Math.max(1, Math.ceil(n / chunkRows));
   const pool = installed && K > 1 && [X, y, c, offset].every(isShared) ? installed : null;
-  const alloc = (len: number) => (pool ? new Float64Array(new SharedArrayBuffer(len * 8)) : new Float64Array(len));
+  const alloc = (len: number) => f64(len, pool !== null);
   const partLoss = alloc(K), partG = alloc(K * p);
   let partH: Float64Array | null = null;
   const done = new Int32Array(pool ? new SharedArrayBuffer(8) : new ArrayBuffer(8));
   const work = new Float64Array(ROW_BLOCK * p);
-  const exec = (job: RowJob, usePool: boolean): void => {
-    if (usePool && pool) pool.run(job, K, work);
-    else runChunks(job, 0, K, work);
+  /** Runs `chunks` chunks of the job, on the pool when every array it touches is shared. */
+  const exec = (job: RowJob, chunks: number, shared: boolean): void => {
+    if (pool && shared) pool.run(job, chunks, work);
+    else runChunks(job, 0, chunks, work);
+  };
+  /** out = the sum of `count` partials of `size` values, in chunk order. */
+  const sumParts = (parts: Float64Array, count: number, size: number, out: Float64Array): Float64Array => {
+    out.fill(0, 0, size);
+    for (let k = 0; k < count; k++) for (let q = 0; q < size; q++) out[q] += parts[k * size + q];
+    return out;
   };
   return {
-    /** Buffers of length n that the pool can use. */
-    alloc,
     /** Whether the passes run on a pool. */
     pooled: pool !== null,
     /** −Σ cᵢ·loglikᵢ; fills eta, w = cμ(1 − μ) and g = X'(c(y − μ)), summing the chunks in order. */
     logistic(beta: ArrayLike<number>, eta: Float64Array, w: Float64Array, g: Float64Array): number {
-      const shared = [eta, w].every(isShared);
       if (!y) throw new FulcraError('bad-argument', 'These row passes were set up without an outcome.');
-      exec({ op: 'logistic', X, n, p, chunkRows, y, c, offset, beta: Float64Array.from(beta), eta, w, partLoss, partG, partH: partLoss, done }, shared);
+      exec({ op: 'logistic', X, n, p, chunkRows, y, c, offset, beta: Float64Array.from(beta), eta, w, partLoss, partG, done }, K, isShared(eta) && isShared(w));
       let loss = 0;
-      g.fill(0, 0, p);
-      for (let k = 0; k < K; k++) {
-        loss += partLoss[k];
-        for (let j = 0; j < p; j++) g[j] += partG[k * p + j];
-      }
+      for (let k = 0; k < K; k++) loss += partLoss[k];
+      sumParts(partG, K, p, g);
       return loss;
     },
     /** X'WX (row-major, both triangles) into out, summing the chunks in order. */
     information(w: Float64Array, out: Float64Array): Float64Array {
       if (K === 1) return accumulateXtWX(X, n, p, w, out, work);
       partH ??= alloc(K * p * p);
-      exec({ op: 'information', X, n, p, chunkRows, w, partLoss, partG, partH, done }, isShared(w));
-      out.fill(0, 0, p * p);
-      for (let k = 0; k < K; k++) for (let q = 0; q < p * p; q++) out[q] += partH[k * p * p + q];
-      return out;
+      exec({ op: 'information', X, n, p, chunkRows, w, partLoss, partG, partH, done }, K, isShared(w));
+      return sumParts(partH, K, p * p, out);
     },
     /**
      * Σ wᵢxᵢxᵢ' over the rows of blocks [s, s + blockRows) (a row subsample; `blocks` sorted, not overlapping),
@@ -177,12 +179,9 @@ export function createRowPasses(
       const per = Math.ceil(blocks.length / BLOCK_GROUPS), groups = Math.ceil(blocks.length / per);
       partH ??= alloc(K * p * p);
       const partB = groups <= K ? partH : alloc(groups * p * p);
-      const job: RowJob = { op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done };
-      if (pool && isShared(w) && blocks.buffer instanceof SharedArrayBuffer) pool.run(job, groups, work);
-      else runChunks(job, 0, groups, work);
-      out.fill(0, 0, p * p);
-      for (let k = 0; k < groups; k++) for (let q = 0; q < p * p; q++) out[q] += partB[k * p * p + q];
-      return out;
+      exec({ op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done }, groups,
+        isShared(w) && blocks.buffer instanceof SharedArrayBuffer);
+      return sumParts(partB, groups, p * p, out);
     },
     /** An Int32Array the pool can read. */
     allocInt32: (len: number) => new Int32Array(pool ? new SharedArrayBuffer(len * 4) : new ArrayBuffer(len * 4)),

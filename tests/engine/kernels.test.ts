@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, lossGradientRows, ROW_BLOCK } from '../../src/engine/kernels';
+import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from '../../src/engine/kernels';
 import { crossProductWeighted, linearPredictor, sigmoid, sumCrossEntropy } from '../../src/engine/loss';
 import { createRng } from '../../src/engine/rng';
 
@@ -57,8 +57,8 @@ describe('blockedLinearPredictor and blockedXtr', () => {
   });
 });
 
-describe('lossGradientRows', () => {
-  it.each(shapes)('equals sumCrossEntropy, y − μ and X\'(y − μ) of loss.ts, split over two row ranges (n = %i, p = %i)', (n, p) => {
+describe('row ranges (one chunk of a pooled pass each)', () => {
+  it.each(shapes)('logisticRows over two row ranges equals sumCrossEntropy, y − μ and X\'(y − μ) of loss.ts (n = %i, p = %i)', (n, p) => {
     const { X, b } = randomDesign(n, p, 3 * n + p);
     const rng = createRng(n);
     const y = Float64Array.from({ length: n }, () => (rng.next() < 0.3 ? 1 : 0));
@@ -67,9 +67,11 @@ describe('lossGradientRows', () => {
     const rRef = Float64Array.from(etaRef, (e, i) => y[i] - sigmoid(e));
     const gRef = new Float64Array(p);
     for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
-    const eta = new Float64Array(n), r = new Float64Array(n), g = new Float64Array(p);
+    const eta = new Float64Array(n), r = new Float64Array(n), w = new Float64Array(n), g1 = new Float64Array(p), g2 = new Float64Array(p);
     const half = n >> 1;
-    const loss = lossGradientRows(X, n, p, y, b, 0, half, eta, r, g) + lossGradientRows(X, n, p, y, b, half, n, eta, r, g);
+    const loss = logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g1, 0, half)
+      + logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g2, half, n);
+    const g = g1.map((v, j) => v + g2[j]);
     expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
     expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
     expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);

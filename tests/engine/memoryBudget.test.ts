@@ -157,10 +157,8 @@ async function probe(body: string): Promise<Record<string, number>> {
   return JSON.parse(stdout.trim().split('\n').pop()!);
 }
 
-describe('estimates against measured memory', () => {
-  it('covers the measured peak of a 100 000-row fit with 30 design columns, within a factor of 4', async () => {
-    const m = await probe(`
-      const { fit } = await import(root + 'src/engine/fit.ts');
+/** Probe script lines: 100 000 seeded rows of y, two numeric predictors and a 28-level factor g (30 design columns). */
+const PROBE_DATA = `
       const { createRng } = await import(root + 'src/engine/rng.ts');
       const n = 100000, L = 28, rng = createRng(3);
       const x1 = new Float64Array(n), x2 = new Float64Array(n), g = new Int32Array(n), y = new Float64Array(n);
@@ -169,7 +167,13 @@ describe('estimates against measured memory', () => {
         y[i] = rng.next() < 1 / (1 + Math.exp(0.5 - 0.4 * x1[i] + 0.2 * x2[i] - 0.05 * (g[i] % 6))) ? 1 : 0;
       }
       const data = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x1', values: x1 },
-        { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'categorical', name: 'g', codes: g, levels: Array.from({ length: L }, (_, l) => 'L' + l) }] };
+        { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'categorical', name: 'g', codes: g, levels: Array.from({ length: L }, (_, l) => 'L' + l) }] };`;
+
+describe('estimates against measured memory', () => {
+  it('covers the measured peak of a 100 000-row fit with 30 design columns, within a factor of 4', async () => {
+    const m = await probe(`
+      const { fit } = await import(root + 'src/engine/fit.ts');
+      ${PROBE_DATA}
       const spec = { outcome: 'y', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
       globalThis.gc();
       const before = peak(), rss = process.memoryUsage().rss;
@@ -187,15 +191,7 @@ describe('estimates against measured memory', () => {
   it('covers the measured peak of the worker\'s whole fit job (fit with profile intervals and term tests, then the evaluation) at 100 000 × 30', async () => {
     const m = await probe(`
       const { createApi } = await import(root + 'src/worker/api.ts');
-      const { createRng } = await import(root + 'src/engine/rng.ts');
-      const n = 100000, L = 28, rng = createRng(3);
-      const x1 = new Float64Array(n), x2 = new Float64Array(n), g = new Int32Array(n), y = new Float64Array(n);
-      for (let i = 0; i < n; i++) {
-        x1[i] = rng.normal(); x2[i] = rng.normal(); g[i] = Math.floor(rng.next() * L);
-        y[i] = rng.next() < 1 / (1 + Math.exp(0.5 - 0.4 * x1[i] + 0.2 * x2[i] - 0.05 * (g[i] % 6))) ? 1 : 0;
-      }
-      const data = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x1', values: x1 },
-        { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'categorical', name: 'g', codes: g, levels: Array.from({ length: L }, (_, l) => 'L' + l) }] };
+      ${PROBE_DATA}
       const spec = { outcome: 'y', event: '1', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
       const api = createApi();
       await api.loadDataset(data, null, 'probe.csv');
