@@ -54,7 +54,7 @@ function cspMetaPlugin(): Plugin {
   };
 }
 
-/** Normal build: the `?worker&inline` import of src/ui/engineWorker.ts becomes an unused stub, so the engine is bundled once. */
+/** Normal build: the `?worker&inline` import of src/bridge/engineWorker.ts becomes an unused stub, so the engine is bundled once. */
 function inlineWorkerStub(): Plugin {
   const stub = '\0fulcra:inline-worker-stub';
   return {

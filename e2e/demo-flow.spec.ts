@@ -1,6 +1,6 @@
 import { generateDemo } from '../src/engine/demo';
-import { fit } from '../src/engine/fit';
-import { likelihoodRatioCi } from '../src/engine/threshold';
+import { fit } from '../src/engine/fitting/fit';
+import { likelihoodRatioCi } from '../src/engine/evaluation/threshold';
 import { expect, expectNoSidewaysScroll, shot, test } from './guard';
 
 test('demo → fitted odds ratios equal the engine run in Node → threshold → score a case', async ({ page }) => {

@@ -1,4 +1,4 @@
-import type { Dataset } from '../src/engine/data';
+import type { Dataset } from '../src/engine/core/data';
 
 /** A dataset written as CSV text (missing cells empty), the way a spreadsheet export looks. */
 export function toCsv(d: Dataset, rows = d.nRows): string {

@@ -1,6 +1,6 @@
 import { generateDemo, generateSsiRegistry } from '../src/engine/demo';
-import { externalValidation } from '../src/engine/externalValidation';
-import { fit } from '../src/engine/fit';
+import { externalValidation } from '../src/engine/validation/externalValidation';
+import { fit } from '../src/engine/fitting/fit';
 import { importText } from '../src/io';
 import { expect, shot, test } from './guard';
 import { toCsv } from './helpers';

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { expect, test, type Page } from '@playwright/test';
 import { generateDemo } from '../src/engine/demo';
-import { fit } from '../src/engine/fit';
+import { fit } from '../src/engine/fitting/fit';
 import { makeXlsx, type XCell } from '../tests/fixtures/bad-input/xlsxWriter';
 
 /**

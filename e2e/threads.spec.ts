@@ -1,5 +1,5 @@
-import { fit } from '../src/engine/fit';
-import { createRng } from '../src/engine/rng';
+import { fit } from '../src/engine/fitting/fit';
+import { createRng } from '../src/engine/numerics/rng';
 import { importText } from '../src/io';
 import { expect, shot, test } from './guard';
 

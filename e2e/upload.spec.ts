@@ -1,5 +1,5 @@
 import { generateDemo } from '../src/engine/demo';
-import { fit } from '../src/engine/fit';
+import { fit } from '../src/engine/fitting/fit';
 import { importText } from '../src/io';
 import { expect, shot, test } from './guard';
 

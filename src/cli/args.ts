@@ -1,4 +1,4 @@
-import { FulcraError } from '../engine/data';
+import { FulcraError } from '../engine/core';
 
 /** Parsed command line of `npm run fit`. */
 export interface FitArgs {

@@ -6,14 +6,14 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
-import { FulcraError } from '../engine/data';
+import { FulcraError } from '../engine/core';
 import { bootstrap, csvImport, surface, thresholdQueries, type Measurement } from './bench/extras';
 import { benchUsage, parseBenchArgs } from './bench/options';
 import { fulcraFit, glmFit, maxRelGap, referenceThreads, sklearnFit, type FitTiming } from './bench/run';
 import { ensureSynth } from './bench/synth';
 import { judgeTargets, ONE_THREAD, renderReport, type BenchRecord, type SizeResult } from './bench/report';
 import { defaultThreads, startNodeRowPool } from './nodeRowPool';
-import { installRowPool } from '../engine/rowPool';
+import { installRowPool } from '../engine/numerics';
 
 async function main(): Promise<void> {
   const o = parseBenchArgs(process.argv.slice(2));

@@ -1,6 +1,6 @@
 // `npm run fit -- FILE --outcome COL ...`: the headless command over the same io + engine as the page.
 import { readFileSync } from 'node:fs';
-import { FulcraError } from '../engine/data';
+import { FulcraError } from '../engine/core';
 import { parseFitArgs, usage } from './args';
 import { toJson } from './json';
 import { runFit } from './runFit';

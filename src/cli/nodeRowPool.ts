@@ -5,7 +5,7 @@
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { messagePool, type RowPool } from '../engine/rowPool';
+import { messagePool, type RowPool } from '../engine/numerics';
 
 export interface NodeRowPool {
   pool: RowPool;

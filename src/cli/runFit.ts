@@ -1,20 +1,20 @@
 import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
-import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../engine/bootstrap';
-import { FulcraError, getColumn } from '../engine/data';
+import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../engine/validation';
+import { FulcraError, getColumn } from '../engine/core';
 import { linearPredictorFromRecipe } from '../engine/design';
-import { evaluate, type EvaluationRecord } from '../engine/evaluate';
-import { externalValidation, type ExternalValidation } from '../engine/externalValidation';
-import { fit } from '../engine/fit';
-import type { FitOptions, FitResult, ModelSpec, TermSpec } from '../engine/model';
-import { fitPipeline, type Pipeline, type PipelineFit } from '../engine/pipeline';
-import { riley2020SampleSize, coxSnellR2, type SampleSizeResult } from '../engine/sampleSize';
-import type { EngineWarning } from '../engine/warnings';
+import { evaluate, type EvaluationRecord } from '../engine/evaluation';
+import { externalValidation, type ExternalValidation } from '../engine/validation';
+import { fit } from '../engine/fitting';
+import type { FitOptions, FitResult, ModelSpec, TermSpec } from '../engine/core';
+import { fitPipeline, type Pipeline, type PipelineFit } from '../engine/validation';
+import { riley2020SampleSize, coxSnellR2, type SampleSizeResult } from '../engine/evaluation';
+import type { EngineWarning } from '../engine/core';
 import { importFile } from '../io/importFile';
 import { proposeOutcomeEvent } from '../io/outcome';
 import type { ColumnType, ImportOptions, ImportResult } from '../io/types';
 import type { FitArgs } from './args';
-import { CHUNK_ROWS, installRowPool } from '../engine/rowPool';
+import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
 import { defaultThreads, startNodeRowPool } from './nodeRowPool';
 
 /** The record `npm run fit --json` prints: the same engine records the page shows. */

@@ -1,4 +1,4 @@
-import type { InternalValidation } from '../engine/bootstrap';
+import type { InternalValidation } from '../engine/validation';
 import type { FitRun } from './runFit';
 import { fmt, fmtP, pct, table } from './format';
 

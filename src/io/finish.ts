@@ -1,5 +1,5 @@
-import type { Column } from '../engine/data';
-import { warning, type EngineWarning } from '../engine/warnings';
+import type { Column } from '../engine/core';
+import { warning, type EngineWarning } from '../engine/core';
 import type { ColumnBuilder } from './columnBuilder';
 import { parseDateText } from './dates';
 import { inferType, type Inference } from './inferType';

@@ -1,5 +1,5 @@
-import { FulcraError, type Column } from '../engine/data';
-import type { EngineWarning } from '../engine/warnings';
+import { FulcraError, type Column } from '../engine/core';
+import type { EngineWarning } from '../engine/core';
 import { buildColumn, planColumns, rowWarnings } from './finish';
 import type { ResolvedOptions } from './options';
 import type { TableBuilder } from './tableBuilder';

@@ -1,5 +1,5 @@
-import { FulcraError } from '../engine/data';
-import { warning, type EngineWarning } from '../engine/warnings';
+import { FulcraError } from '../engine/core';
+import { warning, type EngineWarning } from '../engine/core';
 import { CellReader } from './cellReader';
 import { CsvTokenizer } from './csvTokenizer';
 import { ByteTokenizer } from './byteTokenizer';

@@ -1,4 +1,4 @@
-import { warning } from '../engine/warnings';
+import { warning } from '../engine/core';
 import { importDelimited } from './importDelimited';
 import { importXlsx } from './importXlsx';
 import { resolveImportOptions } from './options';

@@ -1,6 +1,6 @@
 import { readSheet } from 'read-excel-file/universal';
-import { FulcraError } from '../engine/data';
-import { warning, type EngineWarning } from '../engine/warnings';
+import { FulcraError } from '../engine/core';
+import { warning, type EngineWarning } from '../engine/core';
 import { CellReader } from './cellReader';
 import { afterChunk, checkCancelled, finishImport } from './finishImport';
 import type { ResolvedOptions } from './options';

@@ -1,4 +1,4 @@
-import { warning, type EngineWarning } from '../engine/warnings';
+import { warning, type EngineWarning } from '../engine/core';
 
 const MARKUP = /<\s*\/?\s*[a-z!][^>]*>|javascript:|on[a-z]+\s*=/i;
 

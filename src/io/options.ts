@@ -1,4 +1,4 @@
-import { FulcraError } from '../engine/data';
+import { FulcraError } from '../engine/core';
 import { DEFAULT_MISSING_TOKENS } from './cellText';
 import type { ColumnType, ImportOptions } from './types';
 

@@ -1,4 +1,4 @@
-import type { Column } from '../engine/data';
+import type { Column } from '../engine/core';
 
 export type OutcomeProposal =
   | { status: 'proposed'; event: string; nonEvent: string; reason: string }

@@ -1,4 +1,4 @@
-import type { Column } from '../engine/data';
+import type { Column } from '../engine/core';
 import { summarizeNumbers, type NumericSummary } from './numericSummary';
 import type { ColumnProfile } from './types';
 

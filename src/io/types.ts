@@ -1,5 +1,5 @@
-import type { Dataset } from '../engine/data';
-import type { EngineWarning } from '../engine/warnings';
+import type { Dataset } from '../engine/core';
+import type { EngineWarning } from '../engine/core';
 
 /**
  * What a column holds. `identifier`, `text` and `empty` columns are kept in the dataset (as categorical

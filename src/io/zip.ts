@@ -1,4 +1,4 @@
-import { FulcraError } from '../engine/data';
+import { FulcraError } from '../engine/core';
 
 export interface ZipEntry {
   name: string;

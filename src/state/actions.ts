@@ -2,8 +2,8 @@
  * Named actions: `perform(state, input) → new state`, pure and testable without React or a worker.
  * Effects (worker calls) live in controller.ts and feed their results back through these actions.
  */
-import type { MissingReport } from '../engine/missingReport';
-import type { EngineWarning, ModelSpec } from '../engine/model';
+import type { MissingReport } from '../engine/imputation';
+import type { EngineWarning, ModelSpec } from '../engine/core';
 import type {
   BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
   ScoreView, ThresholdView, ValidationView,

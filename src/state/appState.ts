@@ -1,6 +1,6 @@
-import type { MissingReport } from '../engine/missingReport';
+import type { MissingReport } from '../engine/imputation';
 import type { ColumnType, ImportOptions } from '../io/types';
-import type { EngineWarning, ModelSpec, TermSpec } from '../engine/model';
+import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
 import type {
   BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
   ScoreView, ThresholdView, ValidationView,

@@ -3,7 +3,7 @@
  * The client is injected (a WorkerClient in the page, a fake in tests).
  */
 import type { DemoId } from '../engine/demo';
-import type { WorkerClient } from '../ui/workerClient';
+import type { WorkerClient } from '../bridge/workerClient';
 import type { Workspace } from '../io/export/workspaceFile';
 import type { FitRequest, ReportText } from '../worker/protocol';
 import * as A from './actions';

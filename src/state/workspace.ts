@@ -3,7 +3,7 @@
  * fields carry what any reader understands (model spec, cut-off, costs, words); `extra.workbench` carries the
  * rest of the set-up exactly (every column's role, method incl. lasso/elastic net, α, λ rule, reading options).
  */
-import type { Dataset } from '../engine/data';
+import type { Dataset } from '../engine/core';
 import type { Workspace } from '../io/export/workspaceFile';
 import type { DataSummary } from '../worker/protocol';
 import { buildSpec } from './actions';

@@ -14,8 +14,8 @@ import { PerformancePanel } from './panels/PerformancePanel';
 import { ScorePanel } from './panels/ScorePanel';
 import { ShapePanel } from './panels/ShapePanel';
 import { StartPanel } from './panels/StartPanel';
-import { FULCRA_VERSION } from './report/version';
-import { createWorkerClient } from './workerClient';
+import { FULCRA_VERSION } from '../report/version';
+import { createWorkerClient } from '../bridge/workerClient';
 
 /**
  * One store, one worker, one controller and one autosave for the page's lifetime (created once, also under

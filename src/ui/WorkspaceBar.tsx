@@ -1,8 +1,8 @@
 import { useRef, useState } from 'react';
 import { notify } from '../state/actions';
 import { useApp, useEnv } from './context';
-import { downloadFile } from './report/download';
-import { FULCRA_VERSION } from './report/version';
+import { downloadFile } from './download';
+import { FULCRA_VERSION } from '../report/version';
 
 /** Save the whole workspace as one file, open one, and see when the work was last kept in this browser. */
 export function WorkspaceBar() {

@@ -6,12 +6,12 @@
 import { readWorkspaceBytes, workspaceToGzip, type Workspace } from '../io/export/workspaceFile';
 import * as Comlink from 'comlink';
 import type { DemoId } from '../engine/demo';
-import type { ModelSpec } from '../engine/model';
+import type { ModelSpec } from '../engine/core';
 import type { ImportOptions } from '../io/types';
-import { missingReport } from '../engine/missingReport';
+import { missingReport } from '../engine/imputation';
 import { costView, thresholdAt } from './cutoffOps';
 import { heldCopy, loadDemo, loadHeld, loadImported } from './dataOps';
-import type { Dataset } from '../engine/data';
+import type { Dataset } from '../engine/core';
 import { readBytes, readPasted } from './ioOps';
 import { checkImportBudget } from './budget';
 import { fitWithImputation } from './imputeOps';

@@ -1,8 +1,8 @@
-import { FulcraError, type Dataset } from '../engine/data';
+import { FulcraError, type Dataset } from '../engine/core';
 import {
   availableBytes, checkBudget, datasetBytes, designColumnCount, estimateFitBytes, estimateImportBytes, sampleShape,
-} from '../engine/memoryBudget';
-import type { ModelSpec } from '../engine/model';
+} from '../engine/fitting';
+import type { ModelSpec } from '../engine/core';
 
 function enforce(check: ReturnType<typeof checkBudget>): void {
   if (!check.ok) throw new FulcraError(check.code, check.message, check.suggestion);

@@ -1,5 +1,5 @@
-import { FulcraError } from '../engine/data';
-import { atThreshold, costThresholds, expectedCostCurve, type DecisionCosts } from '../engine/threshold';
+import { FulcraError } from '../engine/core';
+import { atThreshold, costThresholds, expectedCostCurve, type DecisionCosts } from '../engine/evaluation';
 import type { Costs, CostView, ThresholdView } from './protocol';
 import type { Session } from './session';
 

@@ -1,4 +1,4 @@
-import type { Dataset } from '../engine/data';
+import type { Dataset } from '../engine/core';
 import { generateDemo, type DemoId } from '../engine/demo';
 import { proposeOutcomeEvent } from '../io';
 import type { ColumnInfo, ImportResult } from '../io/types';

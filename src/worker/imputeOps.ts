@@ -1,5 +1,5 @@
-import { fitImputed } from '../engine/fitImputed';
-import { mice } from '../engine/mice';
+import { fitImputed } from '../engine/imputation';
+import { mice } from '../engine/imputation';
 import type { FitRequest, ImputedView } from './protocol';
 import { requireData, tick, type Session } from './session';
 

@@ -1,4 +1,4 @@
-import { evaluate, type EvaluationRecord } from '../engine/evaluate';
+import { evaluate, type EvaluationRecord } from '../engine/evaluation';
 import type { PerformanceView } from './protocol';
 
 const nan = (x: number | null | undefined) => (x === null || x === undefined ? NaN : x);

@@ -1,4 +1,4 @@
-import type { Column, Dataset } from '../engine/data';
+import type { Column, Dataset } from '../engine/core';
 import { summarizeNumbers } from '../io/numericSummary';
 import type { ColumnView } from './protocol';
 

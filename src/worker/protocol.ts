@@ -2,8 +2,8 @@
  * Plain records that cross the worker boundary (structured-clone safe). The main thread imports TYPES only
  * from here and from src/engine; it never runs engine code.
  */
-import type { CoefficientRow, EngineWarning, FitResult, ModelSpec } from '../engine/model';
-import type { CostThresholds, ThresholdMetrics } from '../engine/threshold';
+import type { CoefficientRow, EngineWarning, FitResult, ModelSpec } from '../engine/core';
+import type { CostThresholds, ThresholdMetrics } from '../engine/evaluation';
 import type { ImportFormat } from '../io/types';
 
 export type InferredType = 'numeric' | 'binary' | 'categorical' | 'date' | 'identifier' | 'text';

@@ -1,10 +1,10 @@
-import { atThreshold } from '../engine/threshold';
+import { atThreshold } from '../engine/evaluation';
 import { datasetChecksum } from '../io/export/checksum';
 import { createModelFile, modelFileToJson } from '../io/export/modelFile';
 import { modelToPmml } from '../io/export/pmml';
-import { buildModelReport } from '../ui/report/buildModelReport';
-import { reportInputFromRecords } from '../ui/report/fromEngine';
-import { FULCRA_VERSION } from '../ui/report/version';
+import { buildModelReport } from '../report/buildModelReport';
+import { reportInputFromRecords } from '../report/fromEngine';
+import { FULCRA_VERSION } from '../report/version';
 import type { Costs, ReportText } from './protocol';
 import { requireData, requireFit, type Session } from './session';
 

@@ -5,7 +5,7 @@
  * them too). Without isolation, and in the single file (file:// is never isolated), the engine runs on this one
  * thread, with the same numbers. The single-file build replaces this module by a stub (vite.config.ts).
  */
-import { installRowPool, messagePool } from '../engine/rowPool';
+import { installRowPool, messagePool } from '../engine/numerics';
 
 /** Threads at most (helpers + the engine worker). */
 const MAX_THREADS = 8;

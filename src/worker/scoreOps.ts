@@ -1,4 +1,4 @@
-import { predict, predictOne } from '../engine/predict';
+import { predict, predictOne } from '../engine/fitting';
 import { predictionsCsv } from '../io/export/predictionsCsv';
 import type { ImportResult } from '../io/types';
 import type { BatchScoreView, ScoreView } from './protocol';

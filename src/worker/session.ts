@@ -1,9 +1,9 @@
-import { FulcraError, type Dataset } from '../engine/data';
-import type { FitResult } from '../engine/model';
-import type { InternalValidation } from '../engine/bootstrap';
-import type { EvaluationRecord } from '../engine/evaluate';
-import type { SampleSizeResult } from '../engine/sampleSize';
-import type { PreparedThresholds } from '../engine/threshold';
+import { FulcraError, type Dataset } from '../engine/core';
+import type { FitResult } from '../engine/core';
+import type { InternalValidation } from '../engine/validation';
+import type { EvaluationRecord } from '../engine/evaluation';
+import type { SampleSizeResult } from '../engine/evaluation';
+import type { PreparedThresholds } from '../engine/evaluation';
 import type { DataSummary, FitRequest, ImputedView } from './protocol';
 
 /** What the worker holds between calls: the data set and the current model. */

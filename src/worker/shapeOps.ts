@@ -1,6 +1,6 @@
-import { FulcraError, type Column, type Dataset } from '../engine/data';
-import type { FitResult } from '../engine/model';
-import { predict } from '../engine/predict';
+import { FulcraError, type Column, type Dataset } from '../engine/core';
+import type { FitResult } from '../engine/core';
+import { predict } from '../engine/fitting';
 import type { RiskCurveView } from './protocol';
 import { requireData, requireFit, type Session } from './session';
 

@@ -1,7 +1,7 @@
-import { bootstrapValidation } from '../engine/bootstrap';
-import { FulcraError } from '../engine/data';
-import { externalValidation } from '../engine/externalValidation';
-import { lossSurface as engineLossSurface } from '../engine/lossSurface';
+import { bootstrapValidation } from '../engine/validation';
+import { FulcraError } from '../engine/core';
+import { externalValidation } from '../engine/validation';
+import { lossSurface as engineLossSurface } from '../engine/fitting';
 import type { ImportResult } from '../io/types';
 import { toPipeline } from './modelOps';
 import { toView } from './performance';

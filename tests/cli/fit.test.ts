@@ -2,9 +2,9 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { createRng } from '../../src/engine/rng';
+import { createRng } from '../../src/engine/numerics/rng';
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
+import { FulcraError } from '../../src/engine/core/data';
 import { parseFitArgs } from '../../src/cli/args';
 
 const ref = JSON.parse(readFileSync('tests/fixtures/reference/fit-birthwt.json', 'utf8'));

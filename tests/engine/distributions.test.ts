@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { pchisqUpper, pnorm, qchisq, qnorm, qt, twoSidedP } from '../../src/engine/distributions';
+import { pchisqUpper, pnorm, qchisq, qnorm, qt, twoSidedP } from '../../src/engine/numerics/distributions';
 
 // Reference values: R 4.x, pnorm/qnorm/pchisq/qchisq/qt (values recalled from memory of R's output,
 // and consistent with standard printed tables).

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from '../../src/engine/kernels';
-import { crossProductWeighted, linearPredictor, sigmoid, sumCrossEntropy } from '../../src/engine/loss';
-import { createRng } from '../../src/engine/rng';
+import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from '../../src/engine/numerics/kernels';
+import { crossProductWeighted, linearPredictor, sigmoid, sumCrossEntropy } from '../../src/engine/numerics/loss';
+import { createRng } from '../../src/engine/numerics/rng';
 
 function randomDesign(n: number, p: number, seed: number) {
   const rng = createRng(seed);

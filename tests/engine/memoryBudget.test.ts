@@ -5,14 +5,14 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { FulcraError, type Dataset } from '../../src/engine/data';
-import { fit } from '../../src/engine/fit';
+import { FulcraError, type Dataset } from '../../src/engine/core/data';
+import { fit } from '../../src/engine/fitting/fit';
 import {
   availableBytes, checkBudget, DEFAULT_TAB_BYTES, designColumnCount, estimateFitBytes, estimateImportBytes,
   formatBytes, sampleShape, type MemoryEstimate,
-} from '../../src/engine/memoryBudget';
-import type { ModelSpec } from '../../src/engine/model';
-import { createRng } from '../../src/engine/rng';
+} from '../../src/engine/fitting/memoryBudget';
+import type { ModelSpec } from '../../src/engine/core/model';
+import { createRng } from '../../src/engine/numerics/rng';
 
 const MiB = 1024 ** 2, GiB = 1024 ** 3;
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
@@ -159,7 +159,7 @@ async function probe(body: string): Promise<Record<string, number>> {
 
 /** Probe script lines: 100 000 seeded rows of y, two numeric predictors and a 28-level factor g (30 design columns). */
 const PROBE_DATA = `
-      const { createRng } = await import(root + 'src/engine/rng.ts');
+      const { createRng } = await import(root + 'src/engine/numerics/rng.ts');
       const n = 100000, L = 28, rng = createRng(3);
       const x1 = new Float64Array(n), x2 = new Float64Array(n), g = new Int32Array(n), y = new Float64Array(n);
       for (let i = 0; i < n; i++) {
@@ -172,7 +172,7 @@ const PROBE_DATA = `
 describe('estimates against measured memory', () => {
   it('covers the measured peak of a 100 000-row fit with 30 design columns, within a factor of 4', async () => {
     const m = await probe(`
-      const { fit } = await import(root + 'src/engine/fit.ts');
+      const { fit } = await import(root + 'src/engine/fitting/fit.ts');
       ${PROBE_DATA}
       const spec = { outcome: 'y', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
       globalThis.gc();

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { createRng } from '../../src/engine/rng';
+import { createRng } from '../../src/engine/numerics/rng';
 
 describe('createRng', () => {
   it('repeats its sequence for the same seed and differs for another', () => {

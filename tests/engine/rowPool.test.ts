@@ -1,11 +1,11 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { startNodeRowPool } from '../../src/cli/nodeRowPool';
-import { accumulateXtWX, logisticRows } from '../../src/engine/kernels';
-import { newtonLogistic, type LogisticProblem } from '../../src/engine/newton';
+import { accumulateXtWX, logisticRows } from '../../src/engine/numerics/kernels';
+import { newtonLogistic, type LogisticProblem } from '../../src/engine/fitting/newton';
 import {
   allocF64, CHUNK_ROWS, chunkRange, createRowPasses, giveBackBuffers, helperRun, installRowPool, messagePool, takeBuffer, type RowJob,
-} from '../../src/engine/rowPool';
-import { createRng } from '../../src/engine/rng';
+} from '../../src/engine/numerics/rowPool';
+import { createRng } from '../../src/engine/numerics/rng';
 
 afterEach(() => installRowPool(null));
 

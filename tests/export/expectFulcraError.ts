@@ -1,5 +1,5 @@
 import { expect } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
+import { FulcraError } from '../../src/engine/core/data';
 
 /** Asserts that f throws a FulcraError with this code and a message matching the pattern. */
 export function expectFulcraError(f: () => unknown, code: string, message: RegExp): void {

@@ -1,7 +1,7 @@
 import { expectFulcraError } from './expectFulcraError';
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../src/engine/fit';
-import { predict } from '../../src/engine/predict';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict } from '../../src/engine/fitting/predict';
 import { datasetChecksum } from '../../src/io/export/checksum';
 import { createModelFile, MODEL_FILE_VERSION, modelFileToFitResult, modelFileToJson } from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';

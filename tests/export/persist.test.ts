@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
+import { FulcraError } from '../../src/engine/core/data';
 import {
   classifyStorageError, clearWorkspaceInBrowser, loadWorkspaceFromBrowser, PersistError, saveWorkspaceToBrowser, type KeyValueBackend,
 } from '../../src/io/export/persist';

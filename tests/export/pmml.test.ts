@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../src/engine/fit';
-import { predict } from '../../src/engine/predict';
-import { FulcraError, type Dataset } from '../../src/engine/data';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict } from '../../src/engine/fitting/predict';
+import { FulcraError, type Dataset } from '../../src/engine/core/data';
 import { modelToPmml } from '../../src/io/export/pmml';
 import { birthwtRichSpec, birthwtSpec, loadBirthwt } from '../report/birthwtRecord';
 import { kid, kids, parseXml, pmmlScorer, rowOf } from './pmmlEvaluator';

@@ -2,7 +2,7 @@
 // normalisation: P(first target category) = 1 / (1 + exp(-(intercept + sum of predictor contributions)))),
 // written from the PMML 4.4 specification's Regression and Transformations chapters (dmg.org).
 import { expect } from 'vitest';
-import type { Dataset } from '../../src/engine/data';
+import type { Dataset } from '../../src/engine/core/data';
 
 // ---- a small XML parser (elements, attributes, text, the five predefined entities) ----
 export interface El { tag: string; attrs: Record<string, string>; children: El[]; text: string }

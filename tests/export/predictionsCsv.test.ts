@@ -1,8 +1,8 @@
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { FulcraError, type Dataset } from '../../src/engine/data';
-import { fit } from '../../src/engine/fit';
-import { predict } from '../../src/engine/predict';
+import { FulcraError, type Dataset } from '../../src/engine/core/data';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict } from '../../src/engine/fitting/predict';
 import { neutraliseCell, predictionsCsv, predictionsCsvChunks, quoteField } from '../../src/io/export/predictionsCsv';
 
 describe('neutraliseCell (OWASP CSV-injection rule: quote-prefix formula starters, keep plain numbers)', () => {

@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { Dataset } from '../../src/engine/data';
-import type { ModelSpec } from '../../src/engine/model';
-import { fit } from '../../src/engine/fit';
-import { predict } from '../../src/engine/predict';
+import type { Dataset } from '../../src/engine/core/data';
+import type { ModelSpec } from '../../src/engine/core/model';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict } from '../../src/engine/fitting/predict';
 import { createModelFile, modelFileToFitResult, modelFileToJson } from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';
 import { modelToPmml } from '../../src/io/export/pmml';

@@ -1,10 +1,10 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { createRng } from '../../src/engine/rng';
+import { createRng } from '../../src/engine/numerics/rng';
 import { base64ToBytes, bytesToBase64 } from '../../src/io/export/base64';
 import { datasetChecksum } from '../../src/io/export/checksum';
 import { Sha256, sha256Hex } from '../../src/io/export/sha256';
-import type { Dataset } from '../../src/engine/data';
+import type { Dataset } from '../../src/engine/core/data';
 
 const utf8 = (s: string) => new TextEncoder().encode(s);
 

@@ -1,7 +1,7 @@
 import { expectFulcraError } from './expectFulcraError';
 import { describe, expect, it } from 'vitest';
-import type { Dataset } from '../../src/engine/data';
-import { fit } from '../../src/engine/fit';
+import type { Dataset } from '../../src/engine/core/data';
+import { fit } from '../../src/engine/fitting/fit';
 import { gunzipSync } from 'node:zlib';
 import { readWorkspaceBytes, readWorkspaceFile, workspaceToGzip, workspaceToJson, type Workspace } from '../../src/io/export/workspaceFile';
 import { datasetChecksum } from '../../src/io/export/checksum';

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { FulcraError, type CategoricalColumn, type NumericColumn } from '../../src/engine/data';
+import { FulcraError, type CategoricalColumn, type NumericColumn } from '../../src/engine/core/data';
 import { importFile, importText, type ImportOptions, type ImportResult } from '../../src/io/index';
 import { nonFinitePaths, stem } from './walk';
 

@@ -1,11 +1,11 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
-import { evaluate } from '../../src/engine/evaluate';
-import { fit } from '../../src/engine/fit';
-import type { FitMethod, FitResult } from '../../src/engine/model';
-import { predict } from '../../src/engine/predict';
-import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/threshold';
+import { FulcraError } from '../../src/engine/core/data';
+import { evaluate } from '../../src/engine/evaluation/evaluate';
+import { fit } from '../../src/engine/fitting/fit';
+import type { FitMethod, FitResult } from '../../src/engine/core/model';
+import { predict } from '../../src/engine/fitting/predict';
+import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/evaluation/threshold';
 import { buildCase, engineCase, type EngineCase, type PredictorKind } from './engineData';
 import { nonFinitePaths, stem } from './walk';
 

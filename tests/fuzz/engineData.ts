@@ -1,7 +1,7 @@
 import fc from 'fast-check';
-import type { Column, Dataset } from '../../src/engine/data';
-import type { ModelSpec, TermSpec } from '../../src/engine/model';
-import { createRng } from '../../src/engine/rng';
+import type { Column, Dataset } from '../../src/engine/core/data';
+import type { ModelSpec, TermSpec } from '../../src/engine/core/model';
+import { createRng } from '../../src/engine/numerics/rng';
 
 /** What a generated predictor column is made of; the problem it plants (if any) is in its name. */
 export type PredictorKind =

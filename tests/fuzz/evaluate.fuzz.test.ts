@@ -1,8 +1,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
-import { evaluate } from '../../src/engine/evaluate';
-import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/threshold';
+import { FulcraError } from '../../src/engine/core/data';
+import { evaluate } from '../../src/engine/evaluation/evaluate';
+import { atThreshold, costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/evaluation/threshold';
 import { nonFinitePaths } from './walk';
 
 /** Risks that stress the logit scale and the sort: exact 0 and 1, the smallest normals, 1 − ε, heavy ties. */

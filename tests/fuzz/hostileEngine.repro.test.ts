@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { calibrationCurve } from '../../src/engine/calibrationCurve';
-import { FulcraError, type Dataset, type NumericColumn } from '../../src/engine/data';
-import { fit } from '../../src/engine/fit';
-import { predict, predictOne } from '../../src/engine/predict';
-import type { TermSpec } from '../../src/engine/model';
-import { createRng } from '../../src/engine/rng';
+import { calibrationCurve } from '../../src/engine/evaluation/calibrationCurve';
+import { FulcraError, type Dataset, type NumericColumn } from '../../src/engine/core/data';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict, predictOne } from '../../src/engine/fitting/predict';
+import type { TermSpec } from '../../src/engine/core/model';
+import { createRng } from '../../src/engine/numerics/rng';
 import { nonFinitePaths } from './walk';
 
 /**

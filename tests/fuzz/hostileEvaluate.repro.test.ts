@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { evaluate } from '../../src/engine/evaluate';
-import { hosmerLemeshow } from '../../src/engine/hosmerLemeshow';
-import { prCurve } from '../../src/engine/prCurve';
-import { costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/threshold';
+import { evaluate } from '../../src/engine/evaluation/evaluate';
+import { hosmerLemeshow } from '../../src/engine/evaluation/hosmerLemeshow';
+import { prCurve } from '../../src/engine/evaluation/prCurve';
+import { costThresholds, expectedCostCurve, prepareThresholds } from '../../src/engine/evaluation/threshold';
 import { nonFinitePaths } from './walk';
 
 /** Minimal reproductions of evaluation bugs found by evaluate.fuzz.test.ts (see the header of hostileEngine.repro). */

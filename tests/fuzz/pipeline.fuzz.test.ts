@@ -1,9 +1,9 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { bootstrapValidation } from '../../src/engine/bootstrap';
-import { FulcraError, type Dataset } from '../../src/engine/data';
-import { fitPipeline, type Pipeline } from '../../src/engine/pipeline';
-import { createRng } from '../../src/engine/rng';
+import { bootstrapValidation } from '../../src/engine/validation/bootstrap';
+import { FulcraError, type Dataset } from '../../src/engine/core/data';
+import { fitPipeline, type Pipeline } from '../../src/engine/validation/pipeline';
+import { createRng } from '../../src/engine/numerics/rng';
 import { buildCase, engineCase } from './engineData';
 import { nonFinitePaths, stem } from './walk';
 

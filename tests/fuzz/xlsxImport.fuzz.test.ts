@@ -1,7 +1,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
+import { FulcraError } from '../../src/engine/core/data';
 import { importFile } from '../../src/io/index';
 import { nonFinitePaths, stem } from './walk';
 

@@ -1,6 +1,6 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { FulcraError, getColumn, type CategoricalColumn, type NumericColumn } from '../../src/engine/data';
+import { FulcraError, getColumn, type CategoricalColumn, type NumericColumn } from '../../src/engine/core/data';
 import { importFile, importText, proposeOutcomeEvent, type ImportOptions, type ImportResult } from '../../src/io/index';
 
 const DIR = new URL('../fixtures/bad-input/', import.meta.url);

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../src/engine/data';
+import { FulcraError } from '../../src/engine/core/data';
 import { CsvTokenizer, recordStrings } from '../../src/io/csvTokenizer';
 import { importFile, importText } from '../../src/io/index';
 

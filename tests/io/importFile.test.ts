@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FulcraError, getColumn, type NumericColumn } from '../../src/engine/data';
+import { FulcraError, getColumn, type NumericColumn } from '../../src/engine/core/data';
 import { importFile, importText, importTransferables, resolveImportOptions } from '../../src/io/index';
 import { makeXlsx } from '../fixtures/bad-input/xlsxWriter';
 

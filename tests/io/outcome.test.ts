@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { CategoricalColumn, NumericColumn } from '../../src/engine/data';
+import type { CategoricalColumn, NumericColumn } from '../../src/engine/core/data';
 import { proposeOutcomeEvent } from '../../src/io/index';
 
 const catCol = (values: (string | null)[]): CategoricalColumn => {

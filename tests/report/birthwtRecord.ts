@@ -2,17 +2,17 @@
 // tests/fixtures/reference/fit-birthwt.R; Hosmer & Lemeshow 1989) with every record a report carries:
 // fit(), evaluate(), bootstrapValidation() (B = 20 to keep the test short) and riley2020SampleSize().
 import { readFileSync } from 'node:fs';
-import type { Dataset } from '../../src/engine/data';
-import type { ModelSpec } from '../../src/engine/model';
-import { fit } from '../../src/engine/fit';
-import { predict } from '../../src/engine/predict';
-import { evaluate } from '../../src/engine/evaluate';
-import { bootstrapValidation } from '../../src/engine/bootstrap';
-import { riley2020SampleSize } from '../../src/engine/sampleSize';
+import type { Dataset } from '../../src/engine/core/data';
+import type { ModelSpec } from '../../src/engine/core/model';
+import { fit } from '../../src/engine/fitting/fit';
+import { predict } from '../../src/engine/fitting/predict';
+import { evaluate } from '../../src/engine/evaluation/evaluate';
+import { bootstrapValidation } from '../../src/engine/validation/bootstrap';
+import { riley2020SampleSize } from '../../src/engine/evaluation/sampleSize';
 import { datasetChecksum } from '../../src/io/export/checksum';
-import { reportInputFromRecords } from '../../src/ui/report/fromEngine';
-import type { ReportInput } from '../../src/ui/report/reportInput';
-import { FULCRA_VERSION } from '../../src/ui/report/version';
+import { reportInputFromRecords } from '../../src/report/fromEngine';
+import type { ReportInput } from '../../src/report/reportInput';
+import { FULCRA_VERSION } from '../../src/report/version';
 
 export function loadBirthwt(): Dataset {
   const lines = readFileSync('tests/fixtures/data/birthwt.csv', 'utf8').trim().split(/\r?\n/);

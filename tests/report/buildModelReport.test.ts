@@ -3,13 +3,13 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { fit } from '../../src/engine/fit';
+import { fit } from '../../src/engine/fitting/fit';
 import { createModelFile, modelFileToFitResult, modelFileToJson } from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';
-import { buildModelReport, REPORT_CAUTIONS } from '../../src/ui/report/buildModelReport';
-import { formatFixed, formatP, formatSig } from '../../src/ui/report/format';
-import type { ReportInput } from '../../src/ui/report/reportInput';
-import { FULCRA_VERSION } from '../../src/ui/report/version';
+import { buildModelReport, REPORT_CAUTIONS } from '../../src/report/buildModelReport';
+import { formatFixed, formatP, formatSig } from '../../src/report/format';
+import type { ReportInput } from '../../src/report/reportInput';
+import { FULCRA_VERSION } from '../../src/report/version';
 import { birthwtReportInput, birthwtRichSpec, birthwtSpec, loadBirthwt } from './birthwtRecord';
 
 const dir = mkdtempSync(join(tmpdir(), 'fulcra-report-'));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { dateRangeOf } from '../../src/ui/report/dateRange';
+import { dateRangeOf } from '../../src/report/dateRange';
 
 describe('dateRangeOf', () => {
   it('gives the first and last ISO date of an epoch-day column, ignoring missing cells and the time of day', () => {

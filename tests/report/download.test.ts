@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { suggestedFileName } from '../../src/ui/report/download';
+import { suggestedFileName } from '../../src/ui/download';
 
 describe('suggestedFileName', () => {
   it('builds "fulcra-<kind>-<outcome>-<date>.<ext>" with unsafe characters replaced', () => {
@@ -12,7 +12,7 @@ describe('suggestedFileName', () => {
 
 describe('FULCRA_VERSION', () => {
   it('is package.json\u2019s version', async () => {
-    const { FULCRA_VERSION } = await import('../../src/ui/report/version');
+    const { FULCRA_VERSION } = await import('../../src/report/version');
     const pkg = JSON.parse((await import('node:fs')).readFileSync('package.json', 'utf8'));
     expect(FULCRA_VERSION).toBe(pkg.version);
     expect(FULCRA_VERSION).toMatch(/^\d+\.\d+\.\d+/);

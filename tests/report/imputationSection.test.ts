@@ -3,7 +3,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { ModelSpec } from '../../src/engine/model';
+import type { ModelSpec } from '../../src/engine/core/model';
 import { createApi } from '../../src/worker/api';
 import type { FitRequest } from '../../src/worker/protocol';
 import { birthwtIncomplete } from '../engine/mi/helpers';

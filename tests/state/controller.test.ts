@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { createController } from '../../src/state/controller';
 import { createStore } from '../../src/state/store';
 import * as A from '../../src/state/actions';
-import type { WorkerClient } from '../../src/ui/workerClient';
+import type { WorkerClient } from '../../src/bridge/workerClient';
 import { createApi } from '../../src/worker/api';
 
 /** The page's controller wired to the real worker api in-process (no Worker, no Comlink). */

@@ -4,7 +4,7 @@ import { createController } from '../../src/state/controller';
 import { createStore } from '../../src/state/store';
 import * as A from '../../src/state/actions';
 import { WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
-import type { WorkerClient } from '../../src/ui/workerClient';
+import type { WorkerClient } from '../../src/bridge/workerClient';
 import { createApi } from '../../src/worker/api';
 import { settingsFromWorkspace } from '../../src/state/workspace';
 import type { DataSummary } from '../../src/worker/protocol';

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { generateDemo } from '../../src/engine/demo';
-import { fit } from '../../src/engine/fit';
+import { fit } from '../../src/engine/fitting/fit';
 import { costView, thresholdAt } from '../../src/worker/cutoffOps';
 import { loadDemo, loadImported } from '../../src/worker/dataOps';
 import { readPasted } from '../../src/worker/ioOps';

@@ -1,11 +1,11 @@
 import { fileURLToPath } from 'node:url';
-import { bootstrapValidation } from '../../engine/bootstrap';
-import type { Dataset } from '../../engine/data';
-import { fit } from '../../engine/fit';
-import { lossSurface } from '../../engine/lossSurface';
-import type { ModelSpec } from '../../engine/model';
-import { createRng } from '../../engine/rng';
-import { atThreshold, prepareThresholds } from '../../engine/threshold';
+import { bootstrapValidation } from '../../engine/validation';
+import type { Dataset } from '../../engine/core';
+import { fit } from '../../engine/fitting';
+import { lossSurface } from '../../engine/fitting';
+import type { ModelSpec } from '../../engine/core';
+import { createRng } from '../../engine/numerics';
+import { atThreshold, prepareThresholds } from '../../engine/evaluation';
 import { runJson } from './run';
 import { ensureSynth, readBin, type SynthFiles } from './synth';
 

@@ -5,8 +5,8 @@
  * Arguments: JSON of FitChildArgs.
  */
 import { resourceUsage } from 'node:process';
-import { newtonLogistic } from '../../engine/newton';
-import { allocF64, installRowPool } from '../../engine/rowPool';
+import { newtonLogistic } from '../../engine/fitting';
+import { allocF64, installRowPool } from '../../engine/numerics';
 import { startNodeRowPool } from '../nodeRowPool';
 import { readBin } from './synth';
 

@@ -64,7 +64,7 @@ export function fulcraFit(f: SynthFiles, threads: number, repeats: number, polis
   return {
     timing: {
       who: threads === 1 ? ONE_THREAD : 'Fulcra engine',
-      library: `Fulcra newtonLogistic (src/engine/newton.ts, tol 1e-10), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`}`,
+      library: `Fulcra newtonLogistic (src/engine/fitting/newton.ts, tol 1e-10), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`}`,
       seconds: v.seconds, cpuSeconds: v.cpuSeconds,
       median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, maxRssBytes: v.maxRssBytes,
       addedRssBytes: v.maxRssBytes - v.baselineRssBytes,

@@ -1,6 +1,6 @@
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, writeFileSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { createRng } from '../../engine/rng';
+import { createRng } from '../../engine/numerics';
 
 /** A synthetic benchmark data set on disk: CSV (x1..xp, y) plus the same values as raw float64 files. */
 export interface SynthFiles {

@@ -1,4 +1,4 @@
-import { FulcraError } from '../data';
+import { FulcraError } from '../core/data';
 import { generateSealLog } from './sealFailures';
 import type { DemoScenario } from './shared';
 import { generateSsiRegistry } from './ssiRegistry';

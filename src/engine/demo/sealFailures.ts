@@ -1,5 +1,5 @@
-import { FulcraError } from '../data';
-import { createRng } from '../rng';
+import { FulcraError } from '../core/data';
+import { createRng } from '../numerics/rng';
 import { bernoulliLogit, categorical, clamp, drawLevel, numeric, round, type DemoScenario, type TrueCoefficient } from './shared';
 
 const LOTS = ['F-231', 'F-232', 'F-233', 'F-234'];

@@ -1,6 +1,6 @@
-import type { CategoricalColumn, Dataset, NumericColumn } from '../data';
-import type { ModelSpec } from '../model';
-import type { Rng } from '../rng';
+import type { CategoricalColumn, Dataset, NumericColumn } from '../core/data';
+import type { ModelSpec } from '../core/model';
+import type { Rng } from '../numerics/rng';
 
 /** One true coefficient of an invented scenario: per unit of a numeric column, or a level against the reference. */
 export interface TrueCoefficient {

@@ -1,5 +1,5 @@
-import { FulcraError } from '../data';
-import { createRng } from '../rng';
+import { FulcraError } from '../core/data';
+import { createRng } from '../numerics/rng';
 import {
   bernoulliLogit, categorical, clamp, drawLevel, numeric, punchMissing, round,
   type DemoScenario, type TrueCoefficient,

@@ -1,4 +1,4 @@
-import type { Dataset } from '../../engine/data';
+import type { Dataset } from '../../engine/core';
 import { Sha256 } from './sha256';
 
 /**

@@ -1,6 +1,6 @@
-import { FulcraError } from '../../engine/data';
-import type { CoefficientRow, DesignRecipe, FitMethod, FitResult, TermRow } from '../../engine/model';
-import type { EngineWarning } from '../../engine/warnings';
+import { FulcraError } from '../../engine/core';
+import type { CoefficientRow, DesignRecipe, FitMethod, FitResult, TermRow } from '../../engine/core';
+import type { EngineWarning } from '../../engine/core';
 
 /** Current model-file schema version (the value of the `fulcraModel` field). */
 export const MODEL_FILE_VERSION = 1;

@@ -1,5 +1,5 @@
 import { del, get, set } from 'idb-keyval';
-import { FulcraError, type Dataset } from '../../engine/data';
+import { FulcraError, type Dataset } from '../../engine/core';
 import { FieldChecker } from './validate';
 import { checkWorkspaceFields, WORKSPACE_FILE_VERSION, type Workspace } from './workspaceFile';
 

@@ -1,5 +1,5 @@
-import { FulcraError } from '../../engine/data';
-import type { DesignRecipe, FitResult } from '../../engine/model';
+import { FulcraError } from '../../engine/core';
+import type { DesignRecipe, FitResult } from '../../engine/core';
 
 export interface PmmlOptions {
   fulcraVersion: string;

@@ -1,4 +1,4 @@
-import { FulcraError, type Dataset } from '../../engine/data';
+import { FulcraError, type Dataset } from '../../engine/core';
 
 export interface PredictionsForCsv {
   /** Predicted risk per scored row (same order as rowsUsed). */

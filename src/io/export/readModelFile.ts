@@ -1,6 +1,6 @@
-import { FulcraError } from '../../engine/data';
-import type { DesignRecipe } from '../../engine/model';
-import type { EngineWarning } from '../../engine/warnings';
+import { FulcraError } from '../../engine/core';
+import type { DesignRecipe } from '../../engine/core';
+import type { EngineWarning } from '../../engine/core';
 import { MODEL_FILE_VERSION, type ModelFile } from './modelFile';
 import { FieldChecker, parseJsonFile } from './validate';
 

@@ -1,4 +1,4 @@
-import { FulcraError } from '../../engine/data';
+import { FulcraError } from '../../engine/core';
 
 /**
  * Small structural checks for files Fulcra reads back (model and workspace files). Each throws a FulcraError

@@ -1,5 +1,5 @@
-import { FulcraError, type Column, type Dataset } from '../../engine/data';
-import type { FitOptions, ModelSpec, TermSpec } from '../../engine/model';
+import { FulcraError, type Column, type Dataset } from '../../engine/core';
+import type { FitOptions, ModelSpec, TermSpec } from '../../engine/core';
 import { base64ToBytes, bytesToBase64 } from './base64';
 import { datasetChecksum } from './checksum';
 import { FieldChecker, parseJsonFile } from './validate';

@@ -3,7 +3,7 @@ import { setReportText } from '../../state/actions';
 import type { ReportText } from '../../worker/protocol';
 import { useApp, useEnv } from '../context';
 import { pct } from '../format';
-import { downloadFile, suggestedFileName } from '../report/download';
+import { downloadFile, suggestedFileName } from '../download';
 
 const FIELDS: { key: keyof ReportText; label: string }[] = [
   { key: 'purpose', label: 'Purpose of the model' },

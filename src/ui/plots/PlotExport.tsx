@@ -1,8 +1,8 @@
 import { useRef } from 'react';
 import { notify } from '../../state/actions';
 import { useEnv } from '../context';
-import { downloadFile } from '../report/download';
-import { svgToPngBlob, svgToString } from '../report/plotExport';
+import { downloadFile } from '../download';
+import { svgToPngBlob, svgToString } from '../plotExport';
 
 /** "fulcra-roc-curve-2026-12-02.svg": the plot's title, made safe for a file name. */
 export function plotFileName(title: string, ext: 'svg' | 'png', date = new Date()): string {

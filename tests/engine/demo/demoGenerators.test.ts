@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { FulcraError } from '../../../src/engine/data';
+import { FulcraError } from '../../../src/engine/core/data';
 import { generateDemo, generateSealLog, generateSsiRegistry, type DemoScenario } from '../../../src/engine/demo';
-import { fit } from '../../../src/engine/fit';
+import { fit } from '../../../src/engine/fitting/fit';
 
 /** Fits the scenario's own spec and returns, per true coefficient, (estimate − truth) / SE. */
 function standardisedErrors(d: DemoScenario): { name: string; z: number }[] {

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { brierScore } from '../../../src/engine/brier';
-import { calibrationRegression, riskToLinearPredictor } from '../../../src/engine/calibration';
-import { calibrationCurve } from '../../../src/engine/calibrationCurve';
-import { hosmerLemeshow } from '../../../src/engine/hosmerLemeshow';
-import { clopperPearsonCi, wilsonCi } from '../../../src/engine/proportionCi';
+import { brierScore } from '../../../src/engine/evaluation/brier';
+import { calibrationRegression, riskToLinearPredictor } from '../../../src/engine/evaluation/calibration';
+import { calibrationCurve } from '../../../src/engine/evaluation/calibrationCurve';
+import { hosmerLemeshow } from '../../../src/engine/evaluation/hosmerLemeshow';
+import { clopperPearsonCi, wilsonCi } from '../../../src/engine/evaluation/proportionCi';
 import { readJson, readNumericCsv } from './readCsv';
 
 // Reference: R 4.2.2 stats glm(binomial) (offset, weights), confint.default, vcov, quantile(type = 7), cut, pchisq,

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { delongAuc, delongPairedTest } from '../../../src/engine/delong';
-import { rocCurve } from '../../../src/engine/roc';
+import { delongAuc, delongPairedTest } from '../../../src/engine/evaluation/delong';
+import { rocCurve } from '../../../src/engine/evaluation/roc';
 import { readJson, readNumericCsv } from './readCsv';
 
 // Reference: R 4.2.2, pROC 1.18.0 roc(direction = "<"), ci.auc(method = "delong"), var(method = "delong"),

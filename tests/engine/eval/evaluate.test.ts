@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { delongAuc } from '../../../src/engine/delong';
-import { evaluate } from '../../../src/engine/evaluate';
-import { atThreshold } from '../../../src/engine/threshold';
+import { delongAuc } from '../../../src/engine/evaluation/delong';
+import { evaluate } from '../../../src/engine/evaluation/evaluate';
+import { atThreshold } from '../../../src/engine/evaluation/threshold';
 import { readJson, readNumericCsv } from './readCsv';
 
 // Reference for the Pima numbers: R 4.2.2 (tests/fixtures/reference/eval-calibration.R), see calibration.test.ts.

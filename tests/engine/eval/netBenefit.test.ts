@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { decisionCurve, netBenefitTreatAll } from '../../../src/engine/netBenefit';
-import { prepareThresholds, thresholdGrid } from '../../../src/engine/threshold';
+import { decisionCurve, netBenefitTreatAll } from '../../../src/engine/evaluation/netBenefit';
+import { prepareThresholds, thresholdGrid } from '../../../src/engine/evaluation/threshold';
 
 describe('decision curve', () => {
   it('gives treat-all net benefit 0.125 at a 20% threshold and −0.400 at 50% when prevalence is 0.30 (Vickers–Elkin formula arithmetic)', () => {

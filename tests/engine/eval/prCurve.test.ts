@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { prCurve } from '../../../src/engine/prCurve';
+import { prCurve } from '../../../src/engine/evaluation/prCurve';
 import { readJson, readNumericCsv } from './readCsv';
 
 // Reference: Python scikit-learn 1.2.1 sklearn.metrics.average_precision_score and precision_recall_curve

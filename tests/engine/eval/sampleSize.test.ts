@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { coxSnellR2, maxCoxSnellR2, riley2020SampleSize } from '../../../src/engine/sampleSize';
+import { coxSnellR2, maxCoxSnellR2, riley2020SampleSize } from '../../../src/engine/evaluation/sampleSize';
 
 describe('Riley et al. 2020 sample size', () => {
   it("reproduces the paper's worked example: 24 parameters, proportion 0.174, R²cs 0.288 → 623, 662, 221, n = 662 (Riley et al. 2020, BMJ 368:m441)", () => {

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { atThreshold, costThresholds, decisionTheoryThreshold, expectedCostCurve, likelihoodRatioCi, prepareThresholds } from '../../../src/engine/threshold';
+import { atThreshold, costThresholds, decisionTheoryThreshold, expectedCostCurve, likelihoodRatioCi, prepareThresholds } from '../../../src/engine/evaluation/threshold';
 import { readJson } from './readCsv';
-import { rocCurve } from '../../../src/engine/roc';
+import { rocCurve } from '../../../src/engine/evaluation/roc';
 
 const brute = (y: Float64Array, p: Float64Array, t: number, w?: Float64Array) => {
   let tp = 0, fp = 0, fn = 0, tn = 0;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { FulcraError, type Column, type Dataset } from '../../../src/engine/data';
-import { fit } from '../../../src/engine/fit';
-import { createRng } from '../../../src/engine/rng';
+import { FulcraError, type Column, type Dataset } from '../../../src/engine/core/data';
+import { fit } from '../../../src/engine/fitting/fit';
+import { createRng } from '../../../src/engine/numerics/rng';
 import { readCsvDataset } from './helpers';
 
 function dataset(cols: Record<string, (number | string | null)[]>): Dataset {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import type { Dataset } from '../../../src/engine/data';
-import { buildDesign, designFromRecipe } from '../../../src/engine/design';
+import type { Dataset } from '../../../src/engine/core/data';
+import { buildDesign, designFromRecipe } from '../../../src/engine/design/design';
 
 const data: Dataset = {
   nRows: 6,

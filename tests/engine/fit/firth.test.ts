@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../../src/engine/fit';
-import { firthLogistic, firthPenalisedLogLik } from '../../../src/engine/firth';
+import { fit } from '../../../src/engine/fitting/fit';
+import { firthLogistic, firthPenalisedLogLik } from '../../../src/engine/fitting/firth';
 import { maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/firth-endometrial.json from firth-endometrial.R — brglm2 0.9 on R 4.2.2,

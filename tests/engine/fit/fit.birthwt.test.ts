@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../../src/engine/fit';
-import type { ModelSpec } from '../../../src/engine/model';
+import { fit } from '../../../src/engine/fitting/fit';
+import type { ModelSpec } from '../../../src/engine/core/model';
 import { maxAbsErr, maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/fit-birthwt.json from fit-birthwt.R — R 4.2.2 stats::glm(binomial) on

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import type { Dataset } from '../../../src/engine/data';
+import type { Dataset } from '../../../src/engine/core/data';
 
 const root = fileURLToPath(new URL('../../../', import.meta.url));
 

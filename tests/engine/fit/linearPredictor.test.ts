@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { designFromRecipe, linearPredictorFromRecipe } from '../../../src/engine/design';
+import { designFromRecipe, linearPredictorFromRecipe } from '../../../src/engine/design/design';
 import { generateDemo } from '../../../src/engine/demo';
-import { scoreDesign } from '../../../src/engine/externalValidation';
-import { fit } from '../../../src/engine/fit';
-import type { ModelSpec } from '../../../src/engine/model';
+import { scoreDesign } from '../../../src/engine/validation/externalValidation';
+import { fit } from '../../../src/engine/fitting/fit';
+import type { ModelSpec } from '../../../src/engine/core/model';
 
 describe('linearPredictorFromRecipe', () => {
   const demo = generateDemo('ssi');

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { logisticLoss, meanCrossEntropy, sigmoid, softplus } from '../../../src/engine/loss';
+import { logisticLoss, meanCrossEntropy, sigmoid, softplus } from '../../../src/engine/numerics/loss';
 import { designFromRows } from './helpers';
 
 describe('stable logistic loss', () => {

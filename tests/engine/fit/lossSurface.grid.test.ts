@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import type { Dataset } from '../../../src/engine/data';
-import { fit } from '../../../src/engine/fit';
-import { caseLoss } from '../../../src/engine/loss';
-import { gridLossSums, lossSurface } from '../../../src/engine/lossSurface';
-import type { ModelSpec } from '../../../src/engine/model';
-import { createRng } from '../../../src/engine/rng';
+import type { Dataset } from '../../../src/engine/core/data';
+import { fit } from '../../../src/engine/fitting/fit';
+import { caseLoss } from '../../../src/engine/numerics/loss';
+import { gridLossSums, lossSurface } from '../../../src/engine/fitting/lossSurface';
+import type { ModelSpec } from '../../../src/engine/core/model';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 const evenly = (lo: number, hi: number, G: number) => Array.from({ length: G }, (_, g) => lo + ((hi - lo) * g) / (G - 1));
 

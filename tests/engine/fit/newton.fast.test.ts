@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { FAST_PATH_MIN_ROWS, newtonLogistic, type LogisticProblem, type NewtonResult } from '../../../src/engine/newton';
-import { createRng } from '../../../src/engine/rng';
+import { FAST_PATH_MIN_ROWS, newtonLogistic, type LogisticProblem, type NewtonResult } from '../../../src/engine/fitting/newton';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 /** Seeded logistic data: intercept, p − 1 correlated normal and binary predictors, column-major. */
 function simulate(n: number, p: number, seed: number): LogisticProblem {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { newtonLogistic } from '../../../src/engine/newton';
-import { choleskyInverse, cholesky } from '../../../src/engine/linalg';
+import { newtonLogistic } from '../../../src/engine/fitting/newton';
+import { choleskyInverse, cholesky } from '../../../src/engine/numerics/linalg';
 import { maxAbsErr, maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/fit-birthwt.json, made by fit-birthwt.R with R 4.2.2 stats::glm(binomial).

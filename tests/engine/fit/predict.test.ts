@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../../src/engine/fit';
-import { predict, predictOne } from '../../../src/engine/predict';
-import { lossSurface } from '../../../src/engine/lossSurface';
-import type { Dataset } from '../../../src/engine/data';
-import type { ModelSpec } from '../../../src/engine/model';
+import { fit } from '../../../src/engine/fitting/fit';
+import { predict, predictOne } from '../../../src/engine/fitting/predict';
+import { lossSurface } from '../../../src/engine/fitting/lossSurface';
+import type { Dataset } from '../../../src/engine/core/data';
+import type { ModelSpec } from '../../../src/engine/core/model';
 import { readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/fit-birthwt.json (R 4.2.2 stats::glm on MASS::birthwt).

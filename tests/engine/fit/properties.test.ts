@@ -1,8 +1,8 @@
 import { describe, it } from 'vitest';
 import fc from 'fast-check';
-import type { Dataset } from '../../../src/engine/data';
-import { fit } from '../../../src/engine/fit';
-import { createRng } from '../../../src/engine/rng';
+import type { Dataset } from '../../../src/engine/core/data';
+import { fit } from '../../../src/engine/fitting/fit';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 /** A random, well-behaved dataset: two numeric predictors and a 3-level factor, outcome from a logistic model. */
 function simulate(seed: number, n: number): Dataset {

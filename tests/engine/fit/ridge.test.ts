@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../../src/engine/fit';
-import type { ModelSpec } from '../../../src/engine/model';
+import { fit } from '../../../src/engine/fitting/fit';
+import type { ModelSpec } from '../../../src/engine/core/model';
 import { maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/ridge-birthwt.json from ridge-birthwt.R — glmnet 4.1.6 (alpha = 0,

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { fit } from '../../../src/engine/fit';
-import { rcsBasis, rcsKnots } from '../../../src/engine/splines';
-import type { ModelSpec } from '../../../src/engine/model';
+import { fit } from '../../../src/engine/fitting/fit';
+import { rcsBasis, rcsKnots } from '../../../src/engine/design/splines';
+import type { ModelSpec } from '../../../src/engine/core/model';
 import { maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/fit-splines.json from fit-splines.R — R 4.2.2 quantile(type = 7) knots at

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { fitImputed } from '../../../src/engine/fitImputed';
-import { fit } from '../../../src/engine/fit';
-import { mice } from '../../../src/engine/mice';
-import type { Dataset } from '../../../src/engine/data';
-import type { ModelSpec } from '../../../src/engine/model';
-import { createRng } from '../../../src/engine/rng';
+import { fitImputed } from '../../../src/engine/imputation/fitImputed';
+import { fit } from '../../../src/engine/fitting/fit';
+import { mice } from '../../../src/engine/imputation/mice';
+import type { Dataset } from '../../../src/engine/core/data';
+import type { ModelSpec } from '../../../src/engine/core/model';
+import { createRng } from '../../../src/engine/numerics/rng';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
 const truth = { '(Intercept)': -1, x1: 0.8, 'x2=yes': 0.7, x3: -0.5 } as Record<string, number>;

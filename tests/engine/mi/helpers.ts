@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
-import type { Dataset } from '../../../src/engine/data';
-import type { FitResult } from '../../../src/engine/model';
+import type { Dataset } from '../../../src/engine/core/data';
+import type { FitResult } from '../../../src/engine/core/model';
 
 /** The incomplete MASS::birthwt subset written by tests/fixtures/reference/mi-pool.R. */
 export function loadPoolFixture() {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { drawChiSquare, drawLinear, drawLogistic, imputeCategorical } from '../../../src/engine/imputeModels';
-import { newtonLogistic } from '../../../src/engine/newton';
-import { createRng } from '../../../src/engine/rng';
+import { drawChiSquare, drawLinear, drawLogistic, imputeCategorical } from '../../../src/engine/imputation/imputeModels';
+import { newtonLogistic } from '../../../src/engine/fitting/newton';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 function design(cols: Float64Array[]) {
   const n = cols[0].length;

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { completeDataset, mice } from '../../../src/engine/mice';
-import { FulcraError, isMissing, type Dataset } from '../../../src/engine/data';
-import type { ModelSpec } from '../../../src/engine/model';
-import { createRng } from '../../../src/engine/rng';
-import { newtonLogistic } from '../../../src/engine/newton';
-import { cholesky, choleskyInverse } from '../../../src/engine/linalg';
-import { poolRubin } from '../../../src/engine/rubin';
+import { completeDataset, mice } from '../../../src/engine/imputation/mice';
+import { FulcraError, isMissing, type Dataset } from '../../../src/engine/core/data';
+import type { ModelSpec } from '../../../src/engine/core/model';
+import { createRng } from '../../../src/engine/numerics/rng';
+import { newtonLogistic } from '../../../src/engine/fitting/newton';
+import { cholesky, choleskyInverse } from '../../../src/engine/numerics/linalg';
+import { poolRubin } from '../../../src/engine/imputation/rubin';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
 const spec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };

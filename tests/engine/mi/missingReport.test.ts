@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { missingReport, modelColumns } from '../../../src/engine/missingReport';
-import type { Dataset } from '../../../src/engine/data';
-import type { ModelSpec } from '../../../src/engine/model';
+import { missingReport, modelColumns } from '../../../src/engine/imputation/missingReport';
+import type { Dataset } from '../../../src/engine/core/data';
+import type { ModelSpec } from '../../../src/engine/core/model';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
 const spec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { pmmImpute } from '../../../src/engine/pmm';
-import { createRng } from '../../../src/engine/rng';
+import { pmmImpute } from '../../../src/engine/imputation/pmm';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 function design(x: Float64Array) {
   const n = x.length;

@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { createRng } from '../../../src/engine/rng';
+import { createRng } from '../../../src/engine/numerics/rng';
 import { readFileSync } from 'node:fs';
-import { pfUpper } from '../../../src/engine/distributions';
-import { barnardRubinDf, poolCoefficients, poolRubin, poolWaldTest } from '../../../src/engine/rubin';
-import type { FitResult } from '../../../src/engine/model';
+import { pfUpper } from '../../../src/engine/numerics/distributions';
+import { barnardRubinDf, poolCoefficients, poolRubin, poolWaldTest } from '../../../src/engine/imputation/rubin';
+import type { FitResult } from '../../../src/engine/core/model';
 import { fitRecord } from './helpers';
-import { FulcraError } from '../../../src/engine/data';
+import { FulcraError } from '../../../src/engine/core/data';
 
 // Fixture: tests/fixtures/reference/mi-pool.R (R 4.2.2, mice 3.15.0 pool() + summary.mipo on glm fits
 // to 5 imputations of MASS::birthwt with values removed).

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../../../src/engine/bootstrap';
-import type { Pipeline } from '../../../src/engine/pipeline';
+import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../../../src/engine/validation/bootstrap';
+import type { Pipeline } from '../../../src/engine/validation/pipeline';
 import { simulate } from './simulate';
 import { PIMA_SPEC, pimaDataset, readFixture } from './pimaData';
 

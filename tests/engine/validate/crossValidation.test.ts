@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { crossValidateLambda } from '../../../src/engine/crossValidation';
-import { stratifiedFolds } from '../../../src/engine/folds';
-import { createRng } from '../../../src/engine/rng';
+import { crossValidateLambda } from '../../../src/engine/penalised/crossValidation';
+import { stratifiedFolds } from '../../../src/engine/penalised/folds';
+import { createRng } from '../../../src/engine/numerics/rng';
 import { readFixture, readPima } from './pimaData';
 
 interface CvRef { alpha: number; measure: 'deviance' | 'mse'; lambda: number[]; cvm: number[]; cvsd: number[]; nzero: number[]; lambdaMin: number; lambda1se: number }

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { externalValidation } from '../../../src/engine/externalValidation';
-import { fit } from '../../../src/engine/fit';
-import { fitPipeline } from '../../../src/engine/pipeline';
-import { recalibrate, recalibratedModel } from '../../../src/engine/recalibration';
+import { externalValidation } from '../../../src/engine/validation/externalValidation';
+import { fit } from '../../../src/engine/fitting/fit';
+import { fitPipeline } from '../../../src/engine/validation/pipeline';
+import { recalibrate, recalibratedModel } from '../../../src/engine/validation/recalibration';
 import { PIMA_SPEC, pimaDataset, readFixture, readPima } from './pimaData';
 
 interface RecalFixture {
@@ -115,7 +115,7 @@ describe('fitPipeline ridge', () => {
 
 describe('records cross the worker boundary', () => {
   it('pipeline, CV, pipeline fit, internal and external validation records survive structuredClone unchanged', async () => {
-    const { bootstrapValidation } = await import('../../../src/engine/bootstrap');
+    const { bootstrapValidation } = await import('../../../src/engine/validation/bootstrap');
     const pipeline = { data: pimaDataset('tr'), spec: PIMA_SPEC, fitOptions: {}, penalty: { alpha: 1, lambda: 'cv-1se' as const, folds: 5, criterion: 'deviance' as const, nLambda: 20 }, seed: 2 };
     expect(structuredClone(pipeline)).toEqual(pipeline);
     const f = await fitPipeline(structuredClone(pipeline));

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { penalisedLogistic, type PenalisedProblem } from '../../../src/engine/coordinateDescent';
-import { lambdaPath } from '../../../src/engine/lambdaPath';
+import { penalisedLogistic, type PenalisedProblem } from '../../../src/engine/penalised/coordinateDescent';
+import { lambdaPath } from '../../../src/engine/penalised/lambdaPath';
 import { readFixture, readPima } from './pimaData';
 
 interface GlmnetFixture {

@@ -24,7 +24,7 @@ export function readFixture<T>(name: string): T {
 }
 
 /** Pima.tr / Pima.te as a Dataset: numeric predictors, categorical outcome "type" (No/Yes). */
-export function pimaDataset(which: 'tr' | 'te'): import('../../../src/engine/data').Dataset {
+export function pimaDataset(which: 'tr' | 'te'): import('../../../src/engine/core/data').Dataset {
   const { X, y, n } = readPima(which);
   return {
     nRows: n,

@@ -1,6 +1,6 @@
-import type { Dataset } from '../../../src/engine/data';
-import type { ModelSpec } from '../../../src/engine/model';
-import { createRng } from '../../../src/engine/rng';
+import type { Dataset } from '../../../src/engine/core/data';
+import type { ModelSpec } from '../../../src/engine/core/model';
+import { createRng } from '../../../src/engine/numerics/rng';
 
 /** Known model for simulations: logit P(y = 1) = −1 + 0.8·x1 − 0.5·x2 + 0.3·x3, x ~ N(0, 1) independent. */
 export const TRUE_BETA = [-1, 0.8, -0.5, 0.3];

@@ -1,0 +1,4 @@
+/** Public surface of engine/core. */
+export * from './data';
+export * from './model';
+export * from './warnings';

@@ -1,0 +1,420 @@
+import { FulcraError, getColumn, type Column, type Dataset } from '../core/data';
+import type { DesignRecipe, ModelSpec } from '../core/model';
+import { rcsBasis, rcsKnots } from './splines';
+import { warning, type EngineWarning } from '../core/warnings';
+import { allocF64 } from '../numerics/rowPool';
+
+export interface EncodedDesign {
+  /** Column-major n×p, intercept first. */
+  X: Float64Array;
+  n: number;
+  p: number;
+  columnNames: string[];
+  /** Term name per design column ("(Intercept)" for the first). */
+  columnTerms: string[];
+  /** Design-column indices of each term, in recipe order (the intercept is not a term). */
+  termColumns: { name: string; columns: number[] }[];
+  /** Indices of the input rows that were used (complete cases). */
+  rowsUsed: Int32Array;
+  /** 0/1 outcome per used row; null when the data has no outcome column. */
+  y: Float64Array | null;
+  nDropped: number;
+  droppedByColumn: Record<string, number>;
+}
+
+export interface Design extends EncodedDesign {
+  y: Float64Array;
+  recipe: DesignRecipe;
+  warnings: EngineWarning[];
+}
+
+type RecipeTerm = DesignRecipe['terms'][number];
+type Getter = (row: number) => number;
+
+const INTERCEPT = '(Intercept)';
+
+function columnsOfTerm(t: RecipeTerm): string[] {
+  return t.type === 'interaction' ? [...t.parts] : [t.column];
+}
+
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** A plain decimal number written as text ("1.5", "-2e3"); NaN for anything else (blank, hex, "Infinity"). */
+export function parseDecimal(text: string): number {
+  const t = text.trim();
+  if (!DECIMAL.test(t)) return NaN;
+  const v = Number(t);
+  return Number.isFinite(v) ? v : NaN;
+}
+
+/** Reads a column as numbers (categorical levels are parsed as decimals) or throws naming the column. */
+function numericGetter(col: Column): Getter {
+  if (col.kind === 'numeric') return (r) => col.values[r];
+  const parsed = col.levels.map(parseDecimal);
+  const bad = col.levels.findIndex((_, i) => Number.isNaN(parsed[i]));
+  if (bad >= 0) throw new FulcraError('not-numeric', `Column "${col.name}" must be numeric but has the value "${col.levels[bad]}".`);
+  return (r) => (col.codes[r] < 0 ? NaN : parsed[col.codes[r]]);
+}
+
+/** 1 where the column's value is missing, for every row of the dataset. */
+function missingMask(col: Column): Uint8Array {
+  const m = new Uint8Array(col.kind === 'numeric' ? col.values.length : col.codes.length);
+  if (col.kind === 'numeric') { for (let r = 0; r < m.length; r++) if (Number.isNaN(col.values[r])) m[r] = 1; }
+  else for (let r = 0; r < m.length; r++) if (col.codes[r] < 0) m[r] = 1;
+  return m;
+}
+
+/** Level string per row (numbers are written as strings), null when missing. */
+function levelGetter(col: Column): (row: number) => string | null {
+  if (col.kind === 'categorical') return (r) => (col.codes[r] < 0 ? null : col.levels[col.codes[r]]);
+  return (r) => (Number.isNaN(col.values[r]) ? null : String(col.values[r]));
+}
+
+/** Per-part encoder of an interaction: the part's main-effect columns. */
+function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; levels?: string[]; reference?: string } {
+  const t = recipe.terms.find((u) => u.type !== 'interaction' && u.column === part);
+  if (t && t.type === 'categorical') {
+    return { names: t.levels.filter((l) => l !== t.reference).map((l) => `${part}=${l}`), levels: t.levels, reference: t.reference };
+  }
+  return { names: [part] };
+}
+
+/**
+ * Builds the design matrix for `data` from a recipe (fit data, new data for scoring or external validation).
+ * Rows with a missing value in a used column are dropped and counted per column. An unseen categorical level
+ * throws a FulcraError naming the row (1-based) and column. The outcome is encoded (and rows missing it dropped)
+ * when its column exists, unless `outcome: 'ignore'` (scoring).
+ */
+export function designFromRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
+): EncodedDesign {
+  return encodeRecipe(recipe, data, opts, null);
+}
+
+/** designFromRecipe's rows, outcome and column bookkeeping, with the linear predictor instead of the design. */
+export type LinearPredictorRows = Omit<EncodedDesign, 'X' | 'p'> & { eta: Float64Array };
+
+/**
+ * The linear predictor Σⱼ βⱼ·xᵢⱼ (intercept first) of the rows of `data`, without building the n×p design: each
+ * term's columns go into scratch columns that are added to η in column order and reused, so memory is O(n) and
+ * η is bit-for-bit scoreDesign(model, designFromRecipe(recipe, data).X, n). Same rows, errors and messages.
+ */
+export function linearPredictorFromRecipe(
+  recipe: DesignRecipe, beta: ArrayLike<number>, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
+): LinearPredictorRows {
+  return encodeRecipe(recipe, data, opts, beta);
+}
+
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: null,
+): EncodedDesign;
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number>,
+): LinearPredictorRows;
+function encodeRecipe(
+  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number> | null,
+): EncodedDesign | LinearPredictorRows {
+  const { rows, outcome = 'if-present' } = opts;
+  const used = new Set<string>();
+  for (const t of recipe.terms) for (const c of columnsOfTerm(t)) used.add(c);
+  const hasOutcome = outcome === 'if-present' && data.columns.some((c) => c.name === recipe.outcome);
+  const cols = new Map<string, Column>();
+  for (const name of used) cols.set(name, getColumn(data, name));
+  const outcomeCol = hasOutcome ? getColumn(data, recipe.outcome) : null;
+
+  const droppedByColumn: Record<string, number> = {};
+  let candidate = rows;
+  if (!candidate) {
+    candidate = new Int32Array(data.nRows);
+    for (let i = 0; i < data.nRows; i++) candidate[i] = i;
+  }
+  const checked = outcomeCol ? [outcomeCol, ...cols.values()] : [...cols.values()];
+  const anyMissing = new Uint8Array(data.nRows);
+  for (const c of checked) {
+    const m = missingMask(c);
+    let k = 0;
+    for (let i = 0; i < candidate.length; i++) { const r = candidate[i]; if (m[r]) { k++; anyMissing[r] = 1; } }
+    if (k > 0) droppedByColumn[c.name] = (droppedByColumn[c.name] ?? 0) + k;
+  }
+  let n = 0;
+  for (let i = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) n++;
+  const rowsUsed = new Int32Array(n);
+  for (let i = 0, k = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) rowsUsed[k++] = candidate[i];
+
+  // The design is written column by column straight into X (no separate column arrays copied in afterwards).
+  const width = (t: RecipeTerm, part?: string): number => {
+    if (t.type === 'interaction' && !part) return width(t, t.parts[0]) * width(t, t.parts[1]);
+    const enc = part ? partEncoding(recipe, part) : null;
+    if (t.type === 'categorical') return t.levels.length - 1;
+    if (enc?.levels) return enc.levels.length - 1;
+    return t.type === 'spline' && !part ? t.knots.length - 1 : 1;
+  };
+  const p = 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
+  if (beta && beta.length !== p) {
+    throw new FulcraError('recipe-mismatch', `The data give ${p} design columns but the model has ${beta.length} coefficients.`);
+  }
+  // Design: X in shared memory while a row pool is installed, so that its threads can read it. Linear predictor:
+  // no X; each term's columns are scratch columns, reused once added to η.
+  const X = beta ? new Float64Array(0) : allocF64(n * p);
+  const eta = beta ? new Float64Array(n) : null;
+  if (!beta) X.fill(1, 0, n);
+  else if (beta[0] !== 0) for (let i = 0; i < n; i++) eta![i] += beta[0] * 1;
+  const spare: Float64Array[] = [];
+  let nextColumn = 1;
+  const column = (): Float64Array => {
+    if (!beta) return X.subarray(nextColumn * n, ++nextColumn * n);
+    nextColumn++;
+    const reused = spare.pop();
+    return reused ? reused.fill(0) : new Float64Array(n); // indicator columns rely on zeros
+  };
+  const scratchColumn = (): Float64Array => new Float64Array(n);
+  let overflow: FulcraError | null = null;
+  /** The first non-finite design value, in column order (thrown after every term is encoded). */
+  const checkFinite = (name: string, term: string, v: Float64Array): void => {
+    if (overflow) return;
+    let probe = 0;
+    for (let i = 0; i < n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
+    if (probe === 0) return;
+    let bad = 0;
+    while (Number.isFinite(v[bad])) bad++;
+    overflow = new FulcraError(
+      'design-overflow',
+      `The design column "${name}" of term "${term}" is ${v[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
+      'Rescale the predictor (e.g. other units) before fitting.',
+    );
+  };
+
+  const blocks: { name: string; term: string; values: Float64Array }[] = [];
+  const termColumns: { name: string; columns: number[] }[] = [];
+  const encodeMain = (t: RecipeTerm, part: string | undefined, alloc: () => Float64Array): { name: string; values: Float64Array }[] => {
+    const column = part ?? (t as { column: string }).column;
+    const col = cols.get(column)!;
+    const enc = part ? partEncoding(recipe, part) : null;
+    const levels = t.type === 'categorical' ? t.levels : enc?.levels;
+    const reference = t.type === 'categorical' ? t.reference : enc?.reference;
+    if (levels && reference !== undefined) {
+      const get = levelGetter(col);
+      const others = levels.filter((l) => l !== reference);
+      const out = others.map((l) => ({ name: `${column}=${l}`, values: alloc() }));
+      // per level code: index among `others`, −1 for the reference, −2 for a level the model has not seen
+      const slot = (l: string) => (l === reference ? -1 : others.includes(l) ? others.indexOf(l) : -2);
+      const codes = col.kind === 'categorical' ? col.codes : null;
+      const codeMap = col.kind === 'categorical' ? col.levels.map(slot) : [];
+      for (let i = 0; i < n; i++) {
+        const k = codes ? codeMap[codes[rowsUsed[i]]] : slot(get(rowsUsed[i])!);
+        if (k >= 0) out[k].values[i] = 1;
+        else if (k === -2) {
+          const v = get(rowsUsed[i]);
+          throw new FulcraError(
+            'unseen-level',
+            `Row ${rowsUsed[i] + 1}, column "${column}": the value "${v}" was not seen when the model was fitted (known: ${levels.join(', ')}).`,
+            'Recode the value to one of the known levels or remove the row.',
+          );
+        }
+      }
+      return out;
+    }
+    const x = alloc();
+    if (col.kind === 'numeric') { const v = col.values; for (let i = 0; i < n; i++) x[i] = v[rowsUsed[i]]; }
+    else {
+      const get = numericGetter(col);
+      for (let i = 0; i < n; i++) x[i] = get(rowsUsed[i]);
+    }
+    if (t.type === 'spline' && !part) {
+      const out = [{ name: column, values: x }];
+      const k = t.knots.length;
+      const basis = Array.from({ length: k - 2 }, (_, j) => ({ name: column + "'".repeat(j + 1), values: alloc() }));
+      const tmp = new Float64Array(k - 2);
+      for (let i = 0; i < n; i++) {
+        rcsBasis(x[i], t.knots, tmp);
+        for (let j = 0; j < k - 2; j++) basis[j].values[i] = tmp[j];
+      }
+      return out.concat(basis);
+    }
+    return [{ name: column, values: x }];
+  };
+
+  for (const t of recipe.terms) {
+    let cs: { name: string; values: Float64Array }[];
+    if (t.type === 'interaction') {
+      const a = encodeMain(t, t.parts[0], scratchColumn), b = encodeMain(t, t.parts[1], scratchColumn);
+      cs = [];
+      for (const ca of a) {
+        for (const cb of b) {
+          const v = column();
+          for (let i = 0; i < n; i++) v[i] = ca.values[i] * cb.values[i];
+          cs.push({ name: `${ca.name}:${cb.name}`, values: v });
+        }
+      }
+    } else {
+      cs = encodeMain(t, undefined, column);
+    }
+    termColumns.push({ name: t.name, columns: cs.map((_, k) => blocks.length + 1 + k) });
+    for (const c of cs) {
+      checkFinite(c.name, t.name, c.values);
+      const j = blocks.length + 1, bj = beta ? beta[j] : 0;
+      if (bj !== 0) for (let i = 0; i < n; i++) eta![i] += bj * c.values[i];
+      blocks.push({ name: c.name, term: t.name, values: c.values });
+    }
+    if (beta) spare.push(...cs.map((c) => c.values));
+  }
+
+  if (nextColumn !== p) throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
+  if (overflow) throw overflow;
+
+  let y: Float64Array | null = null;
+  if (outcomeCol) {
+    y = allocF64(n);
+    if (outcomeCol.kind === 'categorical') {
+      const ev = outcomeCol.levels.indexOf(recipe.event);
+      for (let i = 0; i < n; i++) y[i] = outcomeCol.codes[rowsUsed[i]] === ev ? 1 : 0;
+    } else {
+      const ev = Number(recipe.event);
+      for (let i = 0; i < n; i++) y[i] = outcomeCol.values[rowsUsed[i]] === ev ? 1 : 0;
+      for (let i = 0; i < n; i++) {
+        const v = outcomeCol.values[rowsUsed[i]];
+        if (v !== 0 && v !== 1) {
+          throw new FulcraError('outcome-not-binary', `Row ${rowsUsed[i] + 1}: the outcome "${recipe.outcome}" is ${v}; a numeric outcome must be 0 or 1.`);
+        }
+      }
+    }
+  }
+  const common = {
+    n, y, rowsUsed, nDropped: candidate.length - n, droppedByColumn,
+    columnNames: [INTERCEPT, ...blocks.map((b) => b.name)],
+    columnTerms: [INTERCEPT, ...blocks.map((b) => b.term)],
+    termColumns,
+  };
+  return eta ? { ...common, eta } : { ...common, X, p };
+}
+
+function termName(t: ModelSpec['terms'][number]): string {
+  if (t.type === 'interaction') return `${t.columns[0]}:${t.columns[1]}`;
+  if (t.type === 'spline') return `${t.column} (spline)`;
+  return t.column;
+}
+
+/** The event level and warnings for the outcome column, or a FulcraError naming it. */
+function outcomeEvent(col: Column, event: string | undefined, rows: number[], warnings: EngineWarning[]): string {
+  const counts = new Map<string, number>();
+  if (col.kind === 'categorical') {
+    const byCode = new Array<number>(col.levels.length).fill(0);
+    for (const r of rows) byCode[col.codes[r]]++;
+    col.levels.forEach((l, k) => { if (byCode[k] > 0) counts.set(l, byCode[k]); });
+  } else {
+    const byValue = new Map<number, number>();
+    for (const r of rows) byValue.set(col.values[r], (byValue.get(col.values[r]) ?? 0) + 1);
+    for (const [v, k] of byValue) counts.set(String(v), k);
+  }
+  const seen = [...counts.keys()];
+  if (col.kind === 'numeric') {
+    const bad = seen.find((v) => v !== '0' && v !== '1');
+    if (bad !== undefined) {
+      throw new FulcraError('outcome-not-binary', `The outcome "${col.name}" has the value ${bad}; a numeric outcome must be 0 or 1.`, 'Choose a 0/1 column or a categorical column with an event level.');
+    }
+    const ev = event ?? '1';
+    if (ev !== '0' && ev !== '1') throw new FulcraError('unknown-event-level', `The event level "${ev}" is not 0 or 1 for the numeric outcome "${col.name}".`);
+    return ev;
+  }
+  if (event !== undefined) {
+    if (!col.levels.includes(event)) {
+      throw new FulcraError('unknown-event-level', `The outcome "${col.name}" has no level "${event}" (levels: ${col.levels.join(', ')}).`);
+    }
+    return event;
+  }
+  const ordered = col.levels.filter((l) => counts.has(l));
+  if (ordered.length > 2) {
+    throw new FulcraError('event-level-needed', `The outcome "${col.name}" has ${ordered.length} values (${ordered.join(', ')}); say which one is the event.`, 'Choose the event level; every other value counts as a non-event.');
+  }
+  if (ordered.length === 2) {
+    warnings.push(warning('event-level-assumed', `No event level was given for "${col.name}"; "${ordered[1]}" is counted as the event and "${ordered[0]}" as the non-event.`, 'Set the event level explicitly if this is the wrong way round.', [col.name]));
+    return ordered[1];
+  }
+  return ordered[0] ?? '1';
+}
+
+/**
+ * Builds the fitting design (intercept first) and its recipe from a dataset and a model specification.
+ * Numeric terms enter as is; categorical terms as k−1 indicators against the reference level (default: the most
+ * frequent level among the rows used); spline terms as restricted cubic splines (splines.ts); interactions as
+ * products of the parts' main-effect columns. Complete-case analysis: rows with any used value missing are dropped.
+ */
+export function buildDesign(data: Dataset, spec: ModelSpec): Design {
+  const warnings: EngineWarning[] = [];
+  const outcomeCol = getColumn(data, spec.outcome);
+  const names = new Set<string>();
+  const usedCols = new Set<string>([spec.outcome]);
+  for (const t of spec.terms) {
+    const nm = termName(t);
+    if (names.has(nm)) throw new FulcraError('duplicate-term', `The term "${nm}" appears twice in the model.`);
+    names.add(nm);
+    const cs = t.type === 'interaction' ? t.columns : [t.column];
+    for (const c of cs) {
+      if (c === spec.outcome) throw new FulcraError('outcome-as-predictor', `The outcome "${c}" cannot also be a predictor.`);
+      getColumn(data, c);
+      usedCols.add(c);
+    }
+  }
+  const cols = [...usedCols].map((c) => getColumn(data, c));
+  const rows: number[] = [];
+  const masks = cols.map(missingMask);
+  for (let r = 0; r < data.nRows; r++) if (masks.every((m) => !m[r])) rows.push(r);
+  if (rows.length === 0) {
+    const miss = cols.map((c, k) => ({ c: c.name, k: masks[k].reduce((a, b) => a + b, 0) }));
+    miss.sort((a, b) => b.k - a.k);
+    throw new FulcraError(
+      'no-complete-rows',
+      `No row has a value in every column used (most missing: ${miss.slice(0, 3).map((m) => `"${m.c}" ${m.k}`).join(', ')}).`,
+      'Remove the predictors with the most missing values or fill them in.',
+    );
+  }
+  const event = outcomeEvent(outcomeCol, spec.event, rows, warnings);
+
+  const recipeTerms: RecipeTerm[] = [];
+  for (const t of spec.terms) {
+    const name = termName(t);
+    if (t.type === 'interaction') {
+      for (const part of t.columns) {
+        const pc = getColumn(data, part);
+        const hasMain = spec.terms.some((u) => u.type === 'main' && u.column === part);
+        if (pc.kind === 'categorical' && !hasMain) {
+          throw new FulcraError('interaction-needs-main-effect', `The interaction "${name}" uses the categorical column "${part}", which is not in the model on its own.`, `Add "${part}" as a main term.`);
+        }
+      }
+      recipeTerms.push({ type: 'interaction', name, parts: [t.columns[0], t.columns[1]] });
+      continue;
+    }
+    const col = getColumn(data, t.column);
+    if (t.type === 'spline') {
+      const get = numericGetter(col);
+      recipeTerms.push({ type: 'spline', name, column: t.column, knots: rcsKnots(rows.map((r) => get(r)), t.knots, t.column) });
+      continue;
+    }
+    if (col.kind === 'numeric') {
+      recipeTerms.push({ type: 'numeric', name, column: t.column });
+      continue;
+    }
+    const counts = new Array<number>(col.levels.length).fill(0);
+    for (const r of rows) counts[col.codes[r]]++;
+    const levels = col.levels.filter((_, k) => counts[k] > 0);
+    let reference = t.reference;
+    if (reference === undefined) {
+      let best = -1;
+      col.levels.forEach((l, k) => { if (counts[k] > best) { best = counts[k]; reference = l; } });
+    } else if (!levels.includes(reference)) {
+      throw new FulcraError('unknown-reference', `The reference level "${reference}" does not occur in column "${t.column}" (levels: ${levels.join(', ')}).`);
+    }
+    if (levels.length < 2) {
+      warnings.push(warning('constant-predictor', `"${t.column}" has the single value "${levels[0]}" in every row used, so it cannot be estimated.`, 'Remove it from the model.', [name]));
+    }
+    recipeTerms.push({ type: 'categorical', name, column: t.column, levels, reference: reference! });
+  }
+  const recipe: DesignRecipe = { outcome: spec.outcome, event, terms: recipeTerms, columnNames: [] };
+  const enc = designFromRecipe(recipe, data);
+  recipe.columnNames = enc.columnNames;
+  if (enc.nDropped > 0) {
+    const parts = Object.entries(enc.droppedByColumn).map(([c, k]) => `"${c}" ${k}`).join(', ');
+    warnings.push(warning('rows-dropped', `${enc.nDropped} of ${data.nRows} rows were left out because of missing values (${parts}).`, 'Check whether the missing values are related to the outcome; if so, consider imputation.', Object.keys(enc.droppedByColumn)));
+  }
+  return { ...enc, y: enc.y!, recipe, warnings };
+}

@@ -1,0 +1,11 @@
+/** Public surface of engine/fitting. */
+export * from './firth';
+export * from './fit';
+export * from './inference';
+export * from './lossSurface';
+export * from './memoryBudget';
+export * from './newton';
+export * from './oddsRatio';
+export * from './predict';
+export * from './profileCi';
+export * from './separation';

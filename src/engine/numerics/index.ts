@@ -1,0 +1,8 @@
+/** Public surface of engine/numerics. */
+export * from './distributions';
+export * from './kernels';
+export * from './linalg';
+export * from './loss';
+export * from './rng';
+export * from './rowPool';
+export * from './standardise';

@@ -1,0 +1,113 @@
+import type { FitResult } from '../engine/core';
+import type { EvaluationRecord } from '../engine/evaluation';
+import type { InternalValidation, MetricName } from '../engine/validation';
+import type { SampleSizeResult } from '../engine/evaluation';
+import type { EngineWarning } from '../engine/core';
+import type { Estimate, ImputationSummary, PerformanceSummary, ReportInput } from './reportInput';
+
+export interface ReportRecords {
+  meta: ReportInput['meta'];
+  source: ReportInput['source'];
+  freeText?: ReportInput['freeText'];
+  fit: FitResult;
+  /** evaluate() on the development data (apparent performance, plots, threshold). */
+  evaluation?: EvaluationRecord;
+  /** bootstrapValidation() or repeatedCrossValidation(). */
+  validation?: InternalValidation;
+  sampleSize?: SampleSizeResult;
+  costs?: { falseNegative: number; falsePositive: number };
+  thresholdRule?: string;
+  lambdaChoice?: string;
+  missingData?: string;
+  /** The model pooled over multiple imputations (its warnings go in `warnings`). */
+  imputation?: ImputationSummary;
+  /** Other warnings to list (imputation, import…). */
+  warnings?: EngineWarning[];
+}
+
+const riley: Record<'i' | 'ii' | 'iii', string> = {
+  i: '(i) expected shrinkage',
+  ii: '(ii) optimism in Nagelkerke R\u00b2',
+  iii: '(iii) precise overall risk',
+};
+
+/** Assembles the PDF builder's input from the engine's records (fit, evaluate, internal validation, Riley). */
+export function reportInputFromRecords(r: ReportRecords): ReportInput {
+  const ev = r.evaluation;
+  const input: ReportInput = {
+    meta: r.meta,
+    source: r.source,
+    freeText: r.freeText,
+    model: r.fit,
+    lambdaChoice: r.lambdaChoice,
+    missingData: r.missingData,
+    imputation: r.imputation,
+    warnings: [...(ev?.warnings ?? []), ...(r.validation?.warnings ?? []), ...(r.sampleSize?.warnings ?? []), ...(r.warnings ?? [])],
+  };
+  if (ev) {
+    const e = (x: { estimate: number; lower: number; upper: number } | null): Estimate | null => (x ? { estimate: x.estimate, lower: x.lower, upper: x.upper } : null);
+    input.apparent = {
+      auc: ev.auc.auc === null ? null : { estimate: ev.auc.auc, lower: ev.auc.lower, upper: ev.auc.upper },
+      calibrationSlope: e(ev.calibration.slope),
+      calibrationIntercept: e(ev.calibration.interceptInTheLarge),
+      brier: ev.brier.brier === null ? null : { estimate: ev.brier.brier, lower: null, upper: null },
+      scaledBrier: ev.brier.scaledBrier === null ? null : { estimate: ev.brier.scaledBrier, lower: null, upper: null },
+    };
+    input.roc = { fpr: ev.roc.fpr, tpr: ev.roc.tpr, auc: ev.roc.auc ?? undefined };
+    const cc = ev.calibrationCurve;
+    input.calibration = { predicted: cc.predicted, observed: cc.observed, lower: cc.lower, upper: cc.upper };
+    input.calibrationErrors = { ici: cc.ici, e50: cc.e50, e90: cc.e90, emax: cc.emax };
+    if (ev.hosmerLemeshow) {
+      input.calibration.groups = ev.hosmerLemeshow.groups.map((g) => ({ predicted: g.meanRisk, observed: g.observedEvents / g.n }));
+    }
+    input.decisionCurve = { thresholds: ev.decisionCurve.thresholds, model: ev.decisionCurve.model, treatAll: ev.decisionCurve.treatAll };
+    const at = ev.atThreshold;
+    if (at && r.costs) {
+      input.threshold = {
+        threshold: at.threshold, costFalseNegative: r.costs.falseNegative, costFalsePositive: r.costs.falsePositive,
+        tp: at.tp, fp: at.fp, fn: at.fn, tn: at.tn,
+        sensitivity: at.sensitivity, specificity: at.specificity, ppv: at.ppv, npv: at.npv,
+        fractionFlagged: at.fractionFlagged.estimate ?? undefined,
+        expectedCostPer100: at.expectedCostPer100 ?? undefined,
+        lrPositive: { estimate: at.lrPositive, ci: at.lrPositiveCi },
+        lrNegative: { estimate: at.lrNegative, ci: at.lrNegativeCi },
+        rule: r.thresholdRule,
+      };
+    }
+  }
+  const v = r.validation;
+  if (v) {
+    const row = (m: MetricName) => v.rows.find((x) => x.metric === m);
+    const corr = (m: MetricName): Estimate | null => {
+      const x = row(m);
+      return x && x.corrected !== null ? { estimate: x.corrected, lower: null, upper: null } : null;
+    };
+    const opt = (m: MetricName): Estimate | null => {
+      const x = row(m);
+      return x && x.optimism !== null ? { estimate: x.optimism, lower: x.lower, upper: x.upper } : null;
+    };
+    const pick = (f: (m: MetricName) => Estimate | null): PerformanceSummary => ({
+      auc: f('auc'), calibrationSlope: f('calibrationSlope'), calibrationIntercept: f('calibrationInTheLarge'), brier: f('brier'),
+    });
+    input.corrected = {
+      ...pick(corr),
+      optimism: pick(opt),
+      method: v.method === 'bootstrap'
+        ? 'bootstrap optimism correction, refitting the whole modelling procedure in each replicate (Harrell, Lee & Mark 1996, Stat Med 15:361)'
+        : 'repeated cross-validation',
+      replicates: v.planned - v.failed,
+    };
+  }
+  const s = r.sampleSize;
+  if (s) {
+    input.sampleSize = {
+      requiredN: s.requiredN,
+      bindingCriterion: riley[s.binding],
+      criteria: s.criteria.map((c) => ({ label: riley[c.id], n: c.n })),
+      assumedR2: s.r2cs,
+      shrinkageTarget: null,
+      met: s.actual ? s.actual.enough : null,
+    };
+  }
+  return input;
+}

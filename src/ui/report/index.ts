@@ -1,8 +1,0 @@
-export { buildModelReport, REPORT_CAUTIONS } from './buildModelReport';
-export { reportInputFromRecords, type ReportRecords } from './fromEngine';
-export { dateRangeOf } from './dateRange';
-export { modelEquation, type ModelEquation } from './equation';
-export { downloadFile, suggestedFileName } from './download';
-export { svgToPngBlob, svgToString } from './plotExport';
-export type { ReportInput } from './reportInput';
-export { FULCRA_VERSION } from './version';
