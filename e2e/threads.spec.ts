@@ -8,19 +8,25 @@ function bigCsv(rows: number): string {
   const rng = createRng(21);
   const lines = ['dose,age,shift,fault'];
   for (let i = 0; i < rows; i++) {
-    const dose = rng.normal(), age = 40 + 10 * rng.normal(), shift = rng.next() < 0.3 ? 1 : 0;
+    const dose = rng.normal(),
+      age = 40 + 10 * rng.normal(),
+      shift = rng.next() < 0.3 ? 1 : 0;
     const eta = -1.5 + 0.7 * dose + 0.02 * (age - 40) + 0.4 * shift;
     lines.push(`${dose.toFixed(3)},${age.toFixed(1)},${shift},${rng.next() < 1 / (1 + Math.exp(-eta)) ? 'yes' : 'no'}`);
   }
   return lines.join('\n');
 }
 
-test('a fit on more rows than one chunk runs on the helper threads and gives the one-thread numbers', async ({ page }) => {
+test('a fit on more rows than one chunk runs on the helper threads and gives the one-thread numbers', async ({
+  page,
+}) => {
   const csv = bigCsv(40_000);
   await page.goto('/');
   expect(await page.evaluate(() => crossOriginIsolated)).toBe(true);
   const cores = await page.evaluate(() => navigator.hardwareConcurrency);
-  await page.getByTestId('file-input').setInputFiles({ name: 'big.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({ name: 'big.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await expect(page.getByText('40,000 rows × 4 columns')).toBeVisible({ timeout: 30_000 });
   await page.getByLabel('Outcome (yes/no)').selectOption('fault');
   for (const name of ['dose', 'age', 'shift']) await page.getByRole('checkbox', { name }).check();
@@ -31,9 +37,15 @@ test('a fit on more rows than one chunk runs on the helper threads and gives the
 
   // The engine in Node, on this one thread: the same numbers to the last printed digit (in fact to the last bit).
   const imported = await importText(csv, { delimiter: ',' });
-  const ref = fit(imported.dataset, { outcome: 'fault', event: 'yes', terms: ['dose', 'age', 'shift'].map((column) => ({ type: 'main' as const, column })) });
+  const ref = fit(imported.dataset, {
+    outcome: 'fault',
+    event: 'yes',
+    terms: ['dose', 'age', 'shift'].map((column) => ({ type: 'main' as const, column })),
+  });
   for (const c of ref.coefficients) {
-    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(c.estimate.toFixed(4).replace('-', '−'));
+    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(
+      c.estimate.toFixed(4).replace('-', '−'),
+    );
   }
   await shot(page, '40-threads');
 });

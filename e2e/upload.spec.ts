@@ -13,10 +13,14 @@ function sealCsv(rows: number): string {
   return lines.join('\n');
 }
 
-test('a CSV opened through the file input is profiled, fitted, and gives the engine’s coefficients', async ({ page }) => {
+test('a CSV opened through the file input is profiled, fitted, and gives the engine’s coefficients', async ({
+  page,
+}) => {
   const csv = sealCsv(1500);
   await page.goto('/');
-  await page.getByTestId('file-input').setInputFiles({ name: 'seals.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page
+    .getByTestId('file-input')
+    .setInputFiles({ name: 'seals.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await expect(page.getByTestId('source')).toContainText('seals.csv');
   await expect(page.getByText('1,500 rows × 7 columns')).toBeVisible();
 
@@ -33,12 +37,20 @@ test('a CSV opened through the file input is profiled, fitted, and gives the eng
   await expect(table).toBeVisible({ timeout: 30_000 });
 
   const imported = await importText(csv, { delimiter: ',' });
-  const ref = fit(imported.dataset, { outcome: 'seal_failed', event: 'yes', terms: [
-    { type: 'main', column: 'seal_temp_c' }, { type: 'main', column: 'dwell_s' }, { type: 'main', column: 'pressure_bar' },
-    { type: 'main', column: 'film_lot', reference: 'F-231' },
-  ] });
+  const ref = fit(imported.dataset, {
+    outcome: 'seal_failed',
+    event: 'yes',
+    terms: [
+      { type: 'main', column: 'seal_temp_c' },
+      { type: 'main', column: 'dwell_s' },
+      { type: 'main', column: 'pressure_bar' },
+      { type: 'main', column: 'film_lot', reference: 'F-231' },
+    ],
+  });
   for (const c of ref.coefficients) {
-    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(c.estimate.toFixed(4).replace('-', '−'));
+    await expect(table.locator(`tr[data-name="${c.name}"] td[data-col="estimate"]`)).toHaveText(
+      c.estimate.toFixed(4).replace('-', '−'),
+    );
   }
   await shot(page, '11-upload-fit');
 });
@@ -67,7 +79,9 @@ test('bootstrap validation shows progress and can be cancelled', async ({ page }
   await page.getByRole('button', { name: 'Discrimination & calibration' }).click();
   await page.getByLabel('Bootstrap resamples').fill('2000');
   await page.getByRole('button', { name: 'Run bootstrap validation' }).click();
-  await expect(page.getByText(/Bootstrap validation \(2000 resamples\) — \d+ of 2000/)).toBeVisible({ timeout: 20_000 });
+  await expect(page.getByText(/Bootstrap validation \(2000 resamples\) — \d+ of 2000/)).toBeVisible({
+    timeout: 20_000,
+  });
   await shot(page, '14-bootstrap-running');
   await page.getByRole('button', { name: 'Cancel' }).click();
   await expect(page.getByTestId('validation-status')).toContainText('cancelled');
@@ -80,7 +94,8 @@ test('bootstrap validation shows progress and can be cancelled', async ({ page }
 
 test('a dropped file loads; a column can be re-read as another type without losing the roles', async ({ page }) => {
   const rows = ['ward;los_days;readmitted'];
-  for (let i = 0; i < 60; i++) rows.push(`${1 + (i % 3)};${(2 + (i % 9) * 0.5).toFixed(1).replace('.', ',')};${i % 4 === 0 ? 'yes' : 'no'}`);
+  for (let i = 0; i < 60; i++)
+    rows.push(`${1 + (i % 3)};${(2 + (i % 9) * 0.5).toFixed(1).replace('.', ',')};${i % 4 === 0 ? 'yes' : 'no'}`);
   await page.goto('/');
   const text = rows.join('\n');
   await page.evaluate((content) => {

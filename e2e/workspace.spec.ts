@@ -7,7 +7,8 @@ import { expect, test } from './guard';
 
 const SHOTS = '/tmp/shots-l';
 mkdirSync(SHOTS, { recursive: true });
-const shot = (page: Page, name: string, fullPage = false) => page.screenshot({ path: `${SHOTS}/${name}.png`, fullPage });
+const shot = (page: Page, name: string, fullPage = false) =>
+  page.screenshot({ path: `${SHOTS}/${name}.png`, fullPage });
 const tmp = () => mkdtempSync(join(tmpdir(), 'fulcra-e2e-'));
 const plain = (s: string) => s.replace(/\u2212/g, '-').trim();
 
@@ -22,7 +23,8 @@ async function oddsRatios(page: Page): Promise<Record<string, string>> {
   const rows = page.getByTestId('odds-table').locator('tbody tr');
   await expect(rows.first()).toBeVisible();
   const out: Record<string, string> = {};
-  for (const r of await rows.all()) out[(await r.getAttribute('data-name'))!] = (await r.locator('td[data-col="or"]').textContent())!;
+  for (const r of await rows.all())
+    out[(await r.getAttribute('data-name'))!] = (await r.locator('td[data-col="or"]').textContent())!;
   return out;
 }
 
@@ -82,9 +84,13 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   await openDemo(page);
   const estimate = plain((await page.locator('tr[data-name="age"] td[data-col="estimate"]').textContent())!);
   const orAge = Number(plain((await page.locator('tr[data-name="age"] td[data-col="or"]').textContent())!));
-  const orDiabetes = Number(plain((await page.locator('tr[data-name="diabetes=yes"] td[data-col="or"]').textContent())!));
+  const orDiabetes = Number(
+    plain((await page.locator('tr[data-name="diabetes=yes"] td[data-col="or"]').textContent())!),
+  );
   await page.getByRole('button', { name: 'Discrimination & calibration' }).click();
-  const auc = plain((await page.getByTestId('metrics').locator('tbody tr').first().locator('td').first().textContent())!);
+  const auc = plain(
+    (await page.getByTestId('metrics').locator('tbody tr').first().locator('td').first().textContent())!,
+  );
   expect(auc).toMatch(/^0\.\d{3}$/);
 
   await page.getByRole('navigation', { name: 'Workbench views' }).getByRole('button', { name: 'Odds ratios' }).click();
@@ -99,8 +105,18 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   expect(pdf).toMatch(/\.pdf$/);
   await download.saveAs(pdf);
   const text = plain(execFileSync('pdftotext', ['-layout', pdf, '-']).toString('utf8'));
-  for (const heading of ['Purpose, setting and population', 'Data and outcome', 'Predictors and their handling', 'Sample size',
-    'Modelling method', 'Model equation', 'Coefficients and odds ratios', 'Performance', 'Decision threshold', 'Cautions']) {
+  for (const heading of [
+    'Purpose, setting and population',
+    'Data and outcome',
+    'Predictors and their handling',
+    'Sample size',
+    'Modelling method',
+    'Model equation',
+    'Coefficients and odds ratios',
+    'Performance',
+    'Decision threshold',
+    'Cautions',
+  ]) {
     expect(text, heading).toContain(heading);
   }
   expect(text).toContain('Flag patients for a wound review on day 3');
@@ -121,7 +137,10 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   expect(statSync(png).size).toBeGreaterThan(15_000);
   execFileSync('pdftoppm', ['-r', '50', '-gray', '-f', '1', '-l', '1', pdf, join(dir, 'gray')]);
   const pgm = readFileSync(join(dir, 'gray-1.pgm'));
-  const header = pgm.subarray(0, 40).toString('latin1').match(/^P5\s+(\d+)\s+(\d+)\s+(\d+)\s/)!;
+  const header = pgm
+    .subarray(0, 40)
+    .toString('latin1')
+    .match(/^P5\s+(\d+)\s+(\d+)\s+(\d+)\s/)!;
   const pixels = pgm.subarray(header[0].length);
   let ink = 0;
   for (const v of pixels) if (v < 200) ink++;
@@ -173,7 +192,10 @@ test('every plot offers SVG and PNG downloads from the keyboard', async ({ page 
   expect(svg).toContain('xmlns="http://www.w3.org/2000/svg"');
   expect(svg).toContain('ROC curve');
 
-  const [pngDownload] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Save Calibration curve as PNG' }).click()]);
+  const [pngDownload] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('button', { name: 'Save Calibration curve as PNG' }).click(),
+  ]);
   const pngFile = join(tmp(), pngDownload.suggestedFilename());
   await pngDownload.saveAs(pngFile);
   expect([...readFileSync(pngFile).subarray(1, 4)].map((c) => String.fromCharCode(c)).join('')).toBe('PNG');
@@ -184,14 +206,18 @@ test('every plot offers SVG and PNG downloads from the keyboard', async ({ page 
   await expect(page.getByRole('group', { name: /Save the plot: Predicted risk against/ })).toBeVisible();
   await expect(page.getByRole('group', { name: 'Save the plot: Loss surface' })).toBeVisible();
   await page.getByRole('button', { name: 'Cut-off & costs' }).click();
-  await expect(page.getByRole('group', { name: 'Save the plot: Expected cost per 100 cases against the cut-off' })).toBeVisible();
+  await expect(
+    page.getByRole('group', { name: 'Save the plot: Expected cost per 100 cases against the cut-off' }),
+  ).toBeVisible();
   await shot(page, '06-cutoff-plot-export', true);
 });
 
 test('after the engine crashes, the data grid and the odds ratios come back on their own', async ({ page }) => {
   await openDemo(page, '/?testhooks=1');
   const before = await oddsRatios(page);
-  await page.evaluate(() => (window as unknown as { fulcraTestHooks: { crashEngine(): Promise<void> } }).fulcraTestHooks.crashEngine());
+  await page.evaluate(() =>
+    (window as unknown as { fulcraTestHooks: { crashEngine(): Promise<void> } }).fulcraTestHooks.crashEngine(),
+  );
   const notice = page.getByRole('status').filter({ hasText: /calculation engine stopped unexpectedly/ });
   await expect(notice).toContainText('were loaded into it again and the model was refitted', { timeout: 30_000 });
   await expect(page.getByTestId('odds-table')).toBeVisible();
@@ -208,7 +234,9 @@ test('after the engine crashes, the data grid and the odds ratios come back on t
 test('when the browser refuses storage, one notice says so and the workspace file still saves', async ({ page }) => {
   await page.addInitScript(() => {
     Object.defineProperty(IDBFactory.prototype, 'open', {
-      value() { throw new DOMException('The user denied permission to access the database.', 'SecurityError'); },
+      value() {
+        throw new DOMException('The user denied permission to access the database.', 'SecurityError');
+      },
     });
   });
   await openDemo(page);

@@ -33,7 +33,9 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
   let lost: (reason: unknown) => void = () => {};
   let lostPromise: Promise<never>;
   const armLost = () => {
-    lostPromise = new Promise<never>((_, reject) => { lost = reject; });
+    lostPromise = new Promise<never>((_, reject) => {
+      lost = reject;
+    });
     lostPromise.catch(() => {});
   };
   const start = () => {
@@ -44,7 +46,9 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
       worker.terminate();
       lost({ code: 'worker-lost' });
       start();
-      hooks.onCrash(`The calculation engine stopped unexpectedly${e.message ? ` (${e.message})` : ''} and was restarted.`);
+      hooks.onCrash(
+        `The calculation engine stopped unexpectedly${e.message ? ` (${e.message})` : ''} and was restarted.`,
+      );
     });
     api = Comlink.wrap<FulcraApi>(worker);
   };
@@ -66,10 +70,12 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
     if (!next || inFlight.has(key)) return;
     pending.delete(key);
     inFlight.add(key);
-    guard(next.run(api)).then(next.resolve, (err) => next.resolve(report(err))).finally(() => {
-      inFlight.delete(key);
-      pump(key);
-    });
+    guard(next.run(api))
+      .then(next.resolve, (err) => next.resolve(report(err)))
+      .finally(() => {
+        inFlight.delete(key);
+        pump(key);
+      });
   };
 
   return {
@@ -83,7 +89,9 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
     },
     progress: (fn) => Comlink.proxy(fn),
     transfer: (value, buffers) => Comlink.transfer(value, buffers),
-    cancel: (jobId) => { void api.cancel(jobId); },
+    cancel: (jobId) => {
+      void api.cancel(jobId);
+    },
     terminate: () => worker.terminate(),
   };
 }

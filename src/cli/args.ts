@@ -69,10 +69,22 @@ const numberArg = (flag: string, v: string | undefined): number => {
 /** Parses argv (without node and script) into FitArgs; throws FulcraError naming the bad flag. */
 export function parseFitArgs(argv: string[]): FitArgs {
   const a: FitArgs = {
-    file: '', outcome: '', categorical: [], reference: {}, splines: {}, interactions: [],
-    firth: false, seed: 1, json: false, help: false,
+    file: '',
+    outcome: '',
+    categorical: [],
+    reference: {},
+    splines: {},
+    interactions: [],
+    firth: false,
+    seed: 1,
+    json: false,
+    help: false,
   };
-  const list = (v: string | undefined) => (v ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  const list = (v: string | undefined) =>
+    (v ?? '')
+      .split(',')
+      .map((s) => s.trim())
+      .filter(Boolean);
   for (let i = 0; i < argv.length; i++) {
     const flag = argv[i];
     const value = () => {
@@ -81,10 +93,18 @@ export function parseFitArgs(argv: string[]): FitArgs {
       return v;
     };
     switch (flag) {
-      case '--outcome': a.outcome = value(); break;
-      case '--event': a.event = value(); break;
-      case '--predictors': a.predictors = list(value()); break;
-      case '--categorical': a.categorical.push(...list(value())); break;
+      case '--outcome':
+        a.outcome = value();
+        break;
+      case '--event':
+        a.event = value();
+        break;
+      case '--predictors':
+        a.predictors = list(value());
+        break;
+      case '--categorical':
+        a.categorical.push(...list(value()));
+        break;
       case '--reference': {
         const [col, level] = splitOnce(value(), '=', flag);
         a.reference[col] = level;
@@ -104,8 +124,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
         a.interactions.push([x, y]);
         break;
       }
-      case '--firth': a.firth = true; break;
-      case '--ridge': a.ridge = numberArg(flag, value()); break;
+      case '--firth':
+        a.firth = true;
+        break;
+      case '--ridge':
+        a.ridge = numberArg(flag, value());
+        break;
       case '--penalty': {
         const v = value();
         if (v !== 'ridge' && v !== 'lasso' && v !== 'enet') {
@@ -114,7 +138,9 @@ export function parseFitArgs(argv: string[]): FitArgs {
         a.penalty = v;
         break;
       }
-      case '--alpha': a.alpha = numberArg(flag, value()); break;
+      case '--alpha':
+        a.alpha = numberArg(flag, value());
+        break;
       case '--costs': {
         const [fn, fp] = splitOnce(value(), ':', flag);
         a.costs = { fn: numberArg('--costs FN', fn), fp: numberArg('--costs FP', fp) };
@@ -123,17 +149,28 @@ export function parseFitArgs(argv: string[]): FitArgs {
         }
         break;
       }
-      case '--threshold': a.threshold = numberArg(flag, value()); break;
-      case '--bootstrap': a.bootstrap = numberArg(flag, value()); break;
-      case '--cv': a.cv = numberArg(flag, value()); break;
-      case '--seed': a.seed = numberArg(flag, value()); break;
+      case '--threshold':
+        a.threshold = numberArg(flag, value());
+        break;
+      case '--bootstrap':
+        a.bootstrap = numberArg(flag, value());
+        break;
+      case '--cv':
+        a.cv = numberArg(flag, value());
+        break;
+      case '--seed':
+        a.seed = numberArg(flag, value());
+        break;
       case '--threads': {
         const t = numberArg(flag, value());
-        if (!Number.isInteger(t) || t < 1 || t > 64) throw new FulcraError('bad-argument', `--threads must be a whole number from 1 to 64, got ${t}.`);
+        if (!Number.isInteger(t) || t < 1 || t > 64)
+          throw new FulcraError('bad-argument', `--threads must be a whole number from 1 to 64, got ${t}.`);
         a.threads = t;
         break;
       }
-      case '--test': a.test = value(); break;
+      case '--test':
+        a.test = value();
+        break;
       case '--delimiter': {
         const v = value();
         a.delimiter = v === 'tab' ? '\t' : v;
@@ -145,9 +182,16 @@ export function parseFitArgs(argv: string[]): FitArgs {
         a.decimal = v;
         break;
       }
-      case '--sheet': a.sheet = value(); break;
-      case '--json': a.json = true; break;
-      case '--help': case '-h': a.help = true; break;
+      case '--sheet':
+        a.sheet = value();
+        break;
+      case '--json':
+        a.json = true;
+        break;
+      case '--help':
+      case '-h':
+        a.help = true;
+        break;
       default:
         if (flag.startsWith('--')) throw new FulcraError('bad-argument', `Unknown option ${flag}. See --help.`);
         if (a.file) throw new FulcraError('bad-argument', `Only one data file, got "${a.file}" and "${flag}".`);

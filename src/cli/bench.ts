@@ -17,42 +17,73 @@ import { installRowPool } from '../engine/numerics';
 
 async function main(): Promise<void> {
   const o = parseBenchArgs(process.argv.slice(2));
-  if (o.help) { process.stdout.write(benchUsage); return; }
+  if (o.help) {
+    process.stdout.write(benchUsage);
+    return;
+  }
   mkdirSync(o.out, { recursive: true });
-  const log = (s: string) => { if (!o.json) process.stderr.write(s + '\n'); };
+  const log = (s: string) => {
+    if (!o.json) process.stderr.write(s + '\n');
+  };
   const record: BenchRecord = {
-    date: new Date().toISOString(), node: process.version, cpu: cpus()[0]?.model ?? 'unknown', cores: cpus().length,
-    loadAverageAtStart: loadavg()[0], quick: o.quick, seed: o.seed, referenceThreads: referenceThreads(),
-    timing: 'Wall-clock seconds of the fit only: every program loads the data (float64 files with the same values as the CSV) before its timer starts. CPU seconds (user + system of the process, all threads) are shown beside.',
-    sizes: [], extras: [], browser: null, targets: [],
+    date: new Date().toISOString(),
+    node: process.version,
+    cpu: cpus()[0]?.model ?? 'unknown',
+    cores: cpus().length,
+    loadAverageAtStart: loadavg()[0],
+    quick: o.quick,
+    seed: o.seed,
+    referenceThreads: referenceThreads(),
+    timing:
+      'Wall-clock seconds of the fit only: every program loads the data (float64 files with the same values as the CSV) before its timer starts. CPU seconds (user + system of the process, all threads) are shown beside.',
+    sizes: [],
+    extras: [],
+    browser: null,
+    targets: [],
   };
   for (const { n, p } of o.sizes) {
     log(`· data ${n}×${p}`);
     const f = ensureSynth(o.out, n, p, o.seed);
     const repeats = o.repeats ?? 3;
-    const size: SizeResult = { n, p, csv: f.csv, csvBytes: f.csvBytes, eventRate: f.eventRate, designBytes: n * (p + 1) * 8, fits: [], errors: [] };
+    const size: SizeResult = {
+      n,
+      p,
+      csv: f.csv,
+      csvBytes: f.csvBytes,
+      eventRate: f.eventRate,
+      designBytes: n * (p + 1) * 8,
+      fits: [],
+      errors: [],
+    };
     // The judged run uses every core, as the page does (navigator.hardwareConcurrency); one thread is shown beside it.
     const cores = defaultThreads();
     log(`  Fulcra engine (${cores} thread${cores === 1 ? '' : 's'})`);
     const eng = fulcraFit(f, cores, repeats, true);
-    if ('error' in eng) { size.errors.push(`Fulcra engine: ${eng.error}`); record.sizes.push(size); continue; }
+    if ('error' in eng) {
+      size.errors.push(`Fulcra engine: ${eng.error}`);
+      record.sizes.push(size);
+      continue;
+    }
     const tight = eng.tight!;
     size.tight = tight;
     size.fits.push(eng.timing);
     if (cores > 1) {
       log('  Fulcra engine (1 thread)');
       const one = fulcraFit(f, 1, repeats, false);
-      if ('error' in one) size.errors.push(`${ONE_THREAD}: ${one.error}`); else size.fits.push(one.timing);
+      if ('error' in one) size.errors.push(`${ONE_THREAD}: ${one.error}`);
+      else size.fits.push(one.timing);
     }
     if (o.references) {
       for (const s of ['newton-cholesky', 'lbfgs'] as const) {
         log(`  scikit-learn ${s}`);
         const r = sklearnFit(f, s, repeats);
-        if ('error' in r) size.errors.push(`scikit-learn ${s}: ${r.error}`); else size.fits.push(r);
+        if ('error' in r) size.errors.push(`scikit-learn ${s}: ${r.error}`);
+        else size.fits.push(r);
       }
       log('  R glm.fit');
       const r = glmFit(f, repeats);
-      if ('error' in r) size.errors.push(`R glm.fit: ${r.error}`); else size.fits.push(r);
+      if ('error' in r) size.errors.push(`R glm.fit: ${r.error}`);
+      else size.fits.push(r);
     }
     for (const t of size.fits as FitTiming[]) {
       t.gap = maxRelGap(t.beta, tight);
@@ -67,10 +98,14 @@ async function main(): Promise<void> {
     installRowPool(np.pool);
     const m: Measurement[] = record.extras;
     const q = o.quick;
-    log('· CSV import'); m.push(await csvImport(o.out, q ? 1e5 : 1e6, 20, o.seed));
-    log('· threshold queries'); m.push(...thresholdQueries(q ? 1e5 : 1e6, 10000, o.seed));
-    log('· bootstrap'); m.push(await bootstrap(o.out, 1e4, 20, q ? 20 : 200, o.seed));
-    log('· loss surface'); m.push(surface(o.out, q ? 1e4 : 1e5, 10, 64, o.seed));
+    log('· CSV import');
+    m.push(await csvImport(o.out, q ? 1e5 : 1e6, 20, o.seed));
+    log('· threshold queries');
+    m.push(...thresholdQueries(q ? 1e5 : 1e6, 10000, o.seed));
+    log('· bootstrap');
+    m.push(await bootstrap(o.out, 1e4, 20, q ? 20 : 200, o.seed));
+    log('· loss surface');
+    m.push(surface(o.out, q ? 1e4 : 1e5, 10, 64, o.seed));
     installRowPool(null);
     await np.close();
   }

@@ -18,11 +18,28 @@ export const defaultThreads = (): number => Math.max(1, Math.min(8, availablePar
 /** Starts threads − 1 helpers; resolves when each is ready. The helpers do not keep the process alive. */
 export async function startNodeRowPool(threads = defaultThreads()): Promise<NodeRowPool> {
   const entry = fileURLToPath(new URL('./rowHelperNode.ts', import.meta.url));
-  const workers = await Promise.all(Array.from({ length: Math.max(0, threads - 1) }, () => new Promise<Worker>((resolve, reject) => {
-    // The .ts entry goes through tsx's CommonJS hook: tsx's --import hooks do not reach workers in Node 20.
-    const w = new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true, execArgv: [] });
-    w.once('message', () => { w.unref(); resolve(w); });
-    w.once('error', reject);
-  })));
-  return { pool: messagePool(workers), close: async () => { await Promise.all(workers.map((w) => w.terminate())); } };
+  const workers = await Promise.all(
+    Array.from(
+      { length: Math.max(0, threads - 1) },
+      () =>
+        new Promise<Worker>((resolve, reject) => {
+          // The .ts entry goes through tsx's CommonJS hook: tsx's --import hooks do not reach workers in Node 20.
+          const w = new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, {
+            eval: true,
+            execArgv: [],
+          });
+          w.once('message', () => {
+            w.unref();
+            resolve(w);
+          });
+          w.once('error', reject);
+        }),
+    ),
+  );
+  return {
+    pool: messagePool(workers),
+    close: async () => {
+      await Promise.all(workers.map((w) => w.terminate()));
+    },
+  };
 }

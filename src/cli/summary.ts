@@ -3,7 +3,9 @@ import type { FitRun } from './runFit';
 import { fmt, fmtP, pct, table } from './format';
 
 const METHOD: Record<string, string> = {
-  ml: 'maximum likelihood', firth: "Firth's penalised likelihood", ridge: 'ridge (fixed λ)',
+  ml: 'maximum likelihood',
+  firth: "Firth's penalised likelihood",
+  ridge: 'ridge (fixed λ)',
 };
 
 /** The readable report of `npm run fit` (the JSON record holds everything; this is what a person reads). */
@@ -14,76 +16,149 @@ export function summarise(r: FitRun): string {
   out.push(`Fulcra ${r.fulcra.version} — logistic regression of "${r.spec.outcome}" (event: ${r.spec.event})`);
   out.push(`Data: ${r.data.file}, ${r.data.rows} rows`);
   if (f) {
-    out.push(`Method: ${METHOD[f.method]}${f.method === 'ridge' ? `, λ = ${fmt(f.lambda, 6)}` : ''}; ${f.converged ? 'converged' : 'DID NOT CONVERGE'} after ${f.iterations} iterations`);
-    out.push(`Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${f.nDropped ? ': ' + Object.entries(f.droppedByColumn).map(([c, k]) => `${c} ${k}`).join(', ') : ''})`);
-    out.push(`Events: ${f.events}, non-events: ${f.nonEvents}; ${f.parameters} parameters; events per parameter ${fmt(f.eventsPerParameter, 1)}`);
+    out.push(
+      `Method: ${METHOD[f.method]}${f.method === 'ridge' ? `, λ = ${fmt(f.lambda, 6)}` : ''}; ${f.converged ? 'converged' : 'DID NOT CONVERGE'} after ${f.iterations} iterations`,
+    );
+    out.push(
+      `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
+        f.nDropped
+          ? ': ' +
+            Object.entries(f.droppedByColumn)
+              .map(([c, k]) => `${c} ${k}`)
+              .join(', ')
+          : ''
+      })`,
+    );
+    out.push(
+      `Events: ${f.events}, non-events: ${f.nonEvents}; ${f.parameters} parameters; events per parameter ${fmt(f.eventsPerParameter, 1)}`,
+    );
     out.push('');
     const level = Math.round(f.level * 100);
-    out.push(table(
-      ['Coefficient', 'log-odds', 'SE', 'odds ratio', `${level}% CI (profile)`, `${level}% CI (Wald)`, 'p (Wald)'],
-      f.coefficients.map((c) => [
-        c.name + (c.aliased ? ' (aliased)' : ''), fmt(c.estimate), fmt(c.se),
-        c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3),
-        c.profileLower === null ? '—' : c.name === '(Intercept)' ? `${fmt(c.profileLower, 3)} to ${fmt(c.profileUpper, 3)}` : `${fmt(Math.exp(c.profileLower), 3)} to ${fmt(Math.exp(c.profileUpper!), 3)}`,
-        c.waldLower === null ? '—' : c.name === '(Intercept)' ? `${fmt(c.waldLower, 3)} to ${fmt(c.waldUpper, 3)}` : `${fmt(Math.exp(c.waldLower), 3)} to ${fmt(Math.exp(c.waldUpper!), 3)}`,
-        fmtP(c.p),
-      ]),
-    ));
+    out.push(
+      table(
+        ['Coefficient', 'log-odds', 'SE', 'odds ratio', `${level}% CI (profile)`, `${level}% CI (Wald)`, 'p (Wald)'],
+        f.coefficients.map((c) => [
+          c.name + (c.aliased ? ' (aliased)' : ''),
+          fmt(c.estimate),
+          fmt(c.se),
+          c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3),
+          c.profileLower === null
+            ? '—'
+            : c.name === '(Intercept)'
+              ? `${fmt(c.profileLower, 3)} to ${fmt(c.profileUpper, 3)}`
+              : `${fmt(Math.exp(c.profileLower), 3)} to ${fmt(Math.exp(c.profileUpper!), 3)}`,
+          c.waldLower === null
+            ? '—'
+            : c.name === '(Intercept)'
+              ? `${fmt(c.waldLower, 3)} to ${fmt(c.waldUpper, 3)}`
+              : `${fmt(Math.exp(c.waldLower), 3)} to ${fmt(Math.exp(c.waldUpper!), 3)}`,
+          fmtP(c.p),
+        ]),
+      ),
+    );
     out.push('(Intercept row: CIs on the log-odds scale; other rows: odds-ratio scale.)');
     out.push('');
     if (f.terms.some((t) => t.lrChi2 !== null)) {
-      out.push(table(['Term', 'df', 'LR χ²', 'p'], f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)])));
+      out.push(
+        table(
+          ['Term', 'df', 'LR χ²', 'p'],
+          f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)]),
+        ),
+      );
       out.push('');
     }
-    out.push(f.modelLrChi2 === null
-      ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); no LR test, AIC or BIC for a penalised fit`
-      : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`);
+    out.push(
+      f.modelLrChi2 === null
+        ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); no LR test, AIC or BIC for a penalised fit`
+        : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`,
+    );
   } else {
     const p = r.penalised!;
     const kind = p.alpha === 1 ? 'lasso' : p.alpha === 0 ? 'ridge' : `elastic net (α = ${p.alpha})`;
     out.push(`Method: ${kind}, λ = ${fmt(p.lambda, 6)} chosen by cross-validation (one-standard-error rule)`);
-    out.push('Penalised estimates are shrunk on purpose; they have no valid classical standard errors, so no CIs or p-values are shown.');
+    out.push(
+      'Penalised estimates are shrunk on purpose; they have no valid classical standard errors, so no CIs or p-values are shown.',
+    );
     out.push('');
-    out.push(table(['Coefficient', 'log-odds', 'odds ratio'], p.coefficients.map((c) => [c.name, fmt(c.estimate), c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3)])));
+    out.push(
+      table(
+        ['Coefficient', 'log-odds', 'odds ratio'],
+        p.coefficients.map((c) => [c.name, fmt(c.estimate), c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3)]),
+      ),
+    );
   }
   const e = r.evaluation;
   out.push('');
   out.push('Performance on the development data (apparent)');
   out.push(`  AUC ${fmt(e.auc.auc, 3)} (95% CI ${fmt(e.auc.lower, 3)} to ${fmt(e.auc.upper, 3)}, DeLong)`);
   out.push(`  Brier ${fmt(e.brier.brier, 4)}; scaled Brier ${fmt(e.brier.scaledBrier, 3)}`);
-  out.push(`  Calibration slope ${fmt(e.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(e.calibration.interceptInTheLarge?.estimate, 3)}`);
+  out.push(
+    `  Calibration slope ${fmt(e.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(e.calibration.interceptInTheLarge?.estimate, 3)}`,
+  );
   if (e.atThreshold) {
     const t = e.atThreshold;
     out.push('');
     out.push(`At a cut-off of ${fmt(t.threshold, 3)} (${t.flagRule})`);
     out.push(`  flagged ${t.tp + t.fp} (true ${t.tp}, false ${t.fp}); not flagged ${t.tn + t.fn} (missed ${t.fn})`);
-    out.push(`  sensitivity ${pct(t.sensitivity.estimate)}, specificity ${pct(t.specificity.estimate)}, PPV ${pct(t.ppv.estimate)}, NPV ${pct(t.npv.estimate)}`);
+    out.push(
+      `  sensitivity ${pct(t.sensitivity.estimate)}, specificity ${pct(t.specificity.estimate)}, PPV ${pct(t.ppv.estimate)}, NPV ${pct(t.npv.estimate)}`,
+    );
     if (t.expectedCostPer100 !== null) out.push(`  expected cost per 100 cases ${fmt(t.expectedCostPer100, 2)}`);
   }
   if (e.costs) {
-    out.push(`  Cost-based cut-off for calibrated risks ${fmt(e.costs.thresholds.decisionTheory.threshold, 4)}; lowest cost on these data at ${fmt(e.costs.thresholds.empirical.threshold, 4)}`);
+    out.push(
+      `  Cost-based cut-off for calibrated risks ${fmt(e.costs.thresholds.decisionTheory.threshold, 4)}; lowest cost on these data at ${fmt(e.costs.thresholds.empirical.threshold, 4)}`,
+    );
   }
   if (r.validation) out.push('', validationText(r.validation));
   if (r.external) {
     const x = r.external.evaluation;
     out.push('', `External validation on ${r.external.file} (${r.external.nUsed} rows used)`);
-    out.push(`  AUC ${fmt(x.auc.auc, 3)} (95% CI ${fmt(x.auc.lower, 3)} to ${fmt(x.auc.upper, 3)}); calibration slope ${fmt(x.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(x.calibration.interceptInTheLarge?.estimate, 3)}; Brier ${fmt(x.brier.brier, 4)}`);
+    out.push(
+      `  AUC ${fmt(x.auc.auc, 3)} (95% CI ${fmt(x.auc.lower, 3)} to ${fmt(x.auc.upper, 3)}); calibration slope ${fmt(x.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(x.calibration.interceptInTheLarge?.estimate, 3)}; Brier ${fmt(x.brier.brier, 4)}`,
+    );
   }
   if (r.sampleSize) out.push('', 'Sample size (Riley et al. 2020)', ...r.sampleSize.summary.map((s) => `  ${s}`));
-  const warnings = [...r.data.warnings, ...(f?.warnings ?? m.warnings ?? []), ...e.warnings, ...(r.validation?.warnings ?? [])];
+  const warnings = [
+    ...r.data.warnings,
+    ...(f?.warnings ?? m.warnings ?? []),
+    ...e.warnings,
+    ...(r.validation?.warnings ?? []),
+  ];
   if (warnings.length) {
     out.push('', 'Warnings');
     for (const w of warnings) out.push(`  [${w.code}] ${w.message} → ${w.suggestion}`);
   }
-  out.push('', 'Not a medical device. Apparent and internally validated performance are not external validation; follow local governance and licensed clinical judgement.');
+  out.push(
+    '',
+    'Not a medical device. Apparent and internally validated performance are not external validation; follow local governance and licensed clinical judgement.',
+  );
   return out.join('\n');
 }
 
 const METRIC: Record<string, string> = {
-  auc: 'AUC', calibrationSlope: 'calibration slope', calibrationInTheLarge: 'calibration-in-the-large', brier: 'Brier score',
+  auc: 'AUC',
+  calibrationSlope: 'calibration slope',
+  calibrationInTheLarge: 'calibration-in-the-large',
+  brier: 'Brier score',
 };
 
 function validationText(v: InternalValidation): string {
-  const head = v.method === 'bootstrap' ? `Bootstrap optimism correction (${v.planned} resamples, seed ${v.seed})` : `Repeated cross-validation (${v.planned} fits, seed ${v.seed})`;
-  return head + '\n' + table(['Measure', 'apparent', 'optimism', 'corrected'], v.rows.map((row) => [METRIC[row.metric] ?? row.metric, fmt(row.apparent, 4), fmt(row.optimism, 4), fmt(row.corrected, 4)]));
+  const head =
+    v.method === 'bootstrap'
+      ? `Bootstrap optimism correction (${v.planned} resamples, seed ${v.seed})`
+      : `Repeated cross-validation (${v.planned} fits, seed ${v.seed})`;
+  return (
+    head +
+    '\n' +
+    table(
+      ['Measure', 'apparent', 'optimism', 'corrected'],
+      v.rows.map((row) => [
+        METRIC[row.metric] ?? row.metric,
+        fmt(row.apparent, 4),
+        fmt(row.optimism, 4),
+        fmt(row.corrected, 4),
+      ]),
+    )
+  );
 }

@@ -23,7 +23,9 @@ export class ByteDict {
   }
 
   private find(b: Uint8Array, s: number, e: number, h: number): number {
-    const mask = this.table.length - 1, len = e - s, pool = this.pool;
+    const mask = this.table.length - 1,
+      len = e - s,
+      pool = this.pool;
     for (let slot = h & mask; ; slot = (slot + 1) & mask) {
       const k = this.table[slot];
       if (k < 0) return -1 - slot;

@@ -1,4 +1,6 @@
-const QUOTE = 34, LF = 10, CR = 13;
+const QUOTE = 34,
+  LF = 10,
+  CR = 13;
 
 import type { TokenizerIssue } from './csvTokenizer';
 
@@ -47,7 +49,8 @@ export class ByteTokenizer {
   private put(count: number, start: number, end: number, str: string | null): void {
     const r = this.rec;
     if (count === r.starts.length) {
-      const s = new Int32Array(count * 2), e = new Int32Array(count * 2);
+      const s = new Int32Array(count * 2),
+        e = new Int32Array(count * 2);
       s.set(r.starts);
       e.set(r.ends);
       r.starts = s;
@@ -59,14 +62,21 @@ export class ByteTokenizer {
   }
 
   step(limit: number): void {
-    const b = this.bytes, n = b.length, d = this.delim, rec = this.rec;
+    const b = this.bytes,
+      n = b.length,
+      d = this.delim,
+      rec = this.rec;
     let recStart = this.pos;
     while (recStart < n && recStart < limit) {
-      let j = recStart, count = 0;
+      let j = recStart,
+        count = 0;
       for (;;) {
         if (j < n && b[j] === QUOTE) {
-          let k = j + 1, seg = k, parts: string | null = null;
-          let start = k, end: number;
+          let k = j + 1,
+            seg = k,
+            parts: string | null = null;
+          let start = k,
+            end: number;
           for (;;) {
             const q = b.indexOf(QUOTE, k);
             if (q < 0) {

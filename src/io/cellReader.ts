@@ -1,6 +1,8 @@
 import { hasLeadingZero, missingSet, numberFlags, parseNumberText, SPREADSHEET_ERRORS } from './cellText';
 
-export const CELL_MISSING = 0, CELL_NUMBER = 1, CELL_TEXT = 2;
+export const CELL_MISSING = 0,
+  CELL_NUMBER = 1,
+  CELL_TEXT = 2;
 
 /**
  * Classifies one cell as missing, number or text under the import's decimal mark and missing tokens.
@@ -48,7 +50,8 @@ export class CellReader {
     const n = s.length;
     this.trimmed = false;
     if (n > 0) {
-      const a = s.charCodeAt(0), b = s.charCodeAt(n - 1);
+      const a = s.charCodeAt(0),
+        b = s.charCodeAt(n - 1);
       if (a <= 32 || b <= 32 || a === 160 || b === 160) {
         s = s.trim();
         this.trimmed = s.length > 0;

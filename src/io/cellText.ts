@@ -1,12 +1,32 @@
 /** Cell texts read as missing by default (compared after trimming, case-insensitively). */
 export const DEFAULT_MISSING_TOKENS: readonly string[] = [
-  '', 'NA', 'N/A', '.', '-', '?',
-  '#N/A', '#DIV/0!', '#VALUE!', '#REF!', '#NAME?', '#NUM!', '#NULL!',
+  '',
+  'NA',
+  'N/A',
+  '.',
+  '-',
+  '?',
+  '#N/A',
+  '#DIV/0!',
+  '#VALUE!',
+  '#REF!',
+  '#NAME?',
+  '#NUM!',
+  '#NULL!',
 ];
 
 /** Spreadsheet error values (a formula that failed); read as missing and reported. */
 export const SPREADSHEET_ERRORS: ReadonlySet<string> = new Set([
-  '#N/A', '#DIV/0!', '#VALUE!', '#REF!', '#NAME?', '#NUM!', '#NULL!', '#SPILL!', '#CALC!', '#GETTING_DATA',
+  '#N/A',
+  '#DIV/0!',
+  '#VALUE!',
+  '#REF!',
+  '#NAME?',
+  '#NUM!',
+  '#NULL!',
+  '#SPILL!',
+  '#CALC!',
+  '#GETTING_DATA',
 ]);
 
 export function missingSet(tokens: readonly string[]): Set<string> {
@@ -16,7 +36,14 @@ export function missingSet(tokens: readonly string[]): Set<string> {
 /** Result flags of `parseNumberText`, reused to avoid allocation per cell. */
 export const numberFlags = { thousands: false };
 
-const D0 = 48, D9 = 57, DOT = 46, COMMA = 44, PLUS = 43, MINUS = 45, LE = 101, UE = 69;
+const D0 = 48,
+  D9 = 57,
+  DOT = 46,
+  COMMA = 44,
+  PLUS = 43,
+  MINUS = 45,
+  LE = 101,
+  UE = 69;
 const THOUSANDS_DOT = /^[+-]?\d{1,3}(,\d{3})+(\.\d*)?$/;
 const THOUSANDS_COMMA = /^[+-]?\d{1,3}([. \u00a0\u202f]\d{3})+(,\d*)?$/;
 
@@ -30,15 +57,21 @@ export function parseNumberText(s: string, decimalComma: boolean): number {
   const n = s.length;
   if (n === 0) return NaN;
   // Fast path: Number() on text that starts and ends like a plain decimal and is not hex/binary/octal.
-  const first = s.charCodeAt(0), last = s.charCodeAt(n - 1);
-  if (((first >= D0 && first <= D9) || first === MINUS || first === PLUS || first === DOT) && ((last >= D0 && last <= D9) || last === DOT)) {
+  const first = s.charCodeAt(0),
+    last = s.charCodeAt(n - 1);
+  if (
+    ((first >= D0 && first <= D9) || first === MINUS || first === PLUS || first === DOT) &&
+    ((last >= D0 && last <= D9) || last === DOT)
+  ) {
     const second = n > 1 ? s.charCodeAt(1) | 32 : 0;
     if (second !== 120 && second !== 98 && second !== 111 && (!decimalComma || s.indexOf('.') < 0)) {
       const v = Number(s);
       if (v === v) return v;
     }
   }
-  let digits = 0, commas = 0, other = 0;
+  let digits = 0,
+    commas = 0,
+    other = 0;
   for (let i = 0; i < n; i++) {
     const c = s.charCodeAt(i);
     if (c >= D0 && c <= D9) digits++;
@@ -53,7 +86,8 @@ export function parseNumberText(s: string, decimalComma: boolean): number {
     numberFlags.thousands = true;
     return Number(s.replace(/,/g, ''));
   }
-  if (other === 0 && s.indexOf('.') < 0) return commas === 0 ? Number(s) : commas === 1 ? Number(s.replace(',', '.')) : NaN;
+  if (other === 0 && s.indexOf('.') < 0)
+    return commas === 0 ? Number(s) : commas === 1 ? Number(s.replace(',', '.')) : NaN;
   if (!THOUSANDS_COMMA.test(s)) return NaN;
   numberFlags.thousands = true;
   return Number(s.replace(/[. \u00a0\u202f]/g, '').replace(',', '.'));
@@ -75,7 +109,10 @@ export function hasLeadingZero(s: string): boolean {
   return s.length > 1 && s.charCodeAt(0) === D0 && s.charCodeAt(1) >= D0 && s.charCodeAt(1) <= D9;
 }
 
-const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+const POW10 = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20,
+  1e21, 1e22,
+];
 const MAX_EXACT = 2 ** 53;
 
 /**
@@ -91,7 +128,10 @@ export function parseSpanNumber(t: string, i: number, end: number, dec: number):
     neg = true;
     i++;
   } else if (c === PLUS) i++;
-  let m = 0, digits = 0, frac = 0, dot = false;
+  let m = 0,
+    digits = 0,
+    frac = 0,
+    dot = false;
   for (; i < end; i++) {
     c = t.charCodeAt(i);
     if (c >= D0 && c <= D9) {
@@ -139,7 +179,10 @@ export function parseByteNumber(t: Uint8Array, i: number, end: number, dec: numb
     neg = true;
     i++;
   } else if (c === PLUS) i++;
-  let m = 0, digits = 0, frac = 0, dot = false;
+  let m = 0,
+    digits = 0,
+    frac = 0,
+    dot = false;
   for (; i < end; i++) {
     c = t[i];
     if (c >= D0 && c <= D9) {

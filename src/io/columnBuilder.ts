@@ -93,7 +93,8 @@ export class ColumnBuilder {
       return;
     }
     if (this.fastNumbers) {
-      const a = text.charCodeAt(start), b = text.charCodeAt(end - 1);
+      const a = text.charCodeAt(start),
+        b = text.charCodeAt(end - 1);
       if (a > 32 && b > 32 && a !== 160 && b !== 160) {
         const v = parseSpanNumber(text, start, end, this.decimalCode);
         if (v === v) {
@@ -171,7 +172,8 @@ export class ColumnBuilder {
       this.addMissing();
       return;
     }
-    const first = b[start], last = b[end - 1];
+    const first = b[start],
+      last = b[end - 1];
     if (first > 32 && last > 32) {
       if (this.fastNumbers && first < 127 && last < 127) {
         const v = parseByteNumber(b, start, end, this.decimalCode);
@@ -180,7 +182,8 @@ export class ColumnBuilder {
             this.maxLength = len;
             this.maxLengthRow = row;
           }
-          if (first === 48 && len > 1 && b[start + 1] >= 48 && b[start + 1] <= 57) note(this.leadingZeroCells, row, decode(b.subarray(start, end)));
+          if (first === 48 && len > 1 && b[start + 1] >= 48 && b[start + 1] <= 57)
+            note(this.leadingZeroCells, row, decode(b.subarray(start, end)));
           this.numberCount++;
           this.push(v, -2);
           return;
@@ -205,7 +208,8 @@ export class ColumnBuilder {
       }
       if (known === undefined) {
         const s = decode(b.subarray(start, end));
-        const texts = this.textCount, missing = this.missingCount;
+        const texts = this.textCount,
+          missing = this.missingCount;
         this.add(s, row);
         if (this.textCount === texts + 1 && !this.reader.trimmed && this.reader.text === s) {
           this.byteDict.set(b, start, end, this.dict.get(s)!);

@@ -1,4 +1,6 @@
-const QUOTE = 34, LF = 10, CR = 13;
+const QUOTE = 34,
+  LF = 10,
+  CR = 13;
 
 export interface TokenizerIssue {
   kind: 'unclosed-quote' | 'stray-quote';
@@ -40,7 +42,13 @@ export class CsvTokenizer {
   lineEnds = { lf: 0, crlf: 0, cr: 0 };
   issues: TokenizerIssue[] = [];
   private carry = '';
-  private readonly rec: RecordSpans = { text: '', count: 0, starts: new Int32Array(64), ends: new Int32Array(64), strs: [] };
+  private readonly rec: RecordSpans = {
+    text: '',
+    count: 0,
+    starts: new Int32Array(64),
+    ends: new Int32Array(64),
+    strs: [],
+  };
   private readonly delim: number;
 
   constructor(
@@ -60,7 +68,8 @@ export class CsvTokenizer {
   private put(count: number, start: number, end: number, str: string | null): void {
     const r = this.rec;
     if (count === r.starts.length) {
-      const s = new Int32Array(count * 2), e = new Int32Array(count * 2);
+      const s = new Int32Array(count * 2),
+        e = new Int32Array(count * 2);
       s.set(r.starts);
       e.set(r.ends);
       r.starts = s;
@@ -73,16 +82,22 @@ export class CsvTokenizer {
 
   /** Returns the index of the first character not yet consumed (start of an incomplete record). */
   private scan(text: string, final: boolean): number {
-    const n = text.length, d = this.delim, rec = this.rec;
+    const n = text.length,
+      d = this.delim,
+      rec = this.rec;
     rec.text = text;
     let recStart = 0;
     while (recStart < n) {
-      let j = recStart, count = 0;
+      let j = recStart,
+        count = 0;
       for (;;) {
         if (j >= n && !final) return recStart;
         if (j < n && text.charCodeAt(j) === QUOTE) {
-          let k = j + 1, seg = k, parts: string | null = null;
-          let start = k, end: number;
+          let k = j + 1,
+            seg = k,
+            parts: string | null = null;
+          let start = k,
+            end: number;
           for (;;) {
             const q = text.indexOf('"', k);
             if (q < 0) {

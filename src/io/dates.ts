@@ -30,7 +30,8 @@ export function parseDateText(s: string, order: DateOrder): number {
   if (m) return epochDays(+m[1], +m[2], +m[3], +(m[4] ?? 0), +(m[5] ?? 0), +(m[6] ?? 0));
   m = NUMERIC.exec(s);
   if (m) {
-    const a = +m[1], b = +m[2];
+    const a = +m[1],
+      b = +m[2];
     const [d, mo] = order === 'dmy' ? [a, b] : [b, a];
     return epochDays(fullYear(m[3]), mo, d, +(m[4] ?? 0), +(m[5] ?? 0), +(m[6] ?? 0));
   }

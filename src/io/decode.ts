@@ -2,7 +2,8 @@ import type { Encoding } from './types';
 
 /** Byte-order mark: the encoding it announces and its length; null when there is none. */
 export function detectBom(bytes: Uint8Array): { encoding: Encoding; length: number } | null {
-  if (bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) return { encoding: 'utf-8', length: 3 };
+  if (bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf)
+    return { encoding: 'utf-8', length: 3 };
   if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe) return { encoding: 'utf-16le', length: 2 };
   if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff) return { encoding: 'utf-16be', length: 2 };
   return null;
@@ -32,7 +33,12 @@ export const CHUNK_BYTES = 4 * 1024 * 1024;
  * Decodes `bytes` chunk by chunk (a streaming TextDecoder, so characters split across chunks are kept).
  * With `fatal`, invalid bytes throw a TypeError instead of becoming U+FFFD.
  */
-export function* decodeChunks(bytes: Uint8Array, encoding: Encoding, start: number, fatal: boolean): Generator<{ text: string; end: number; final: boolean }> {
+export function* decodeChunks(
+  bytes: Uint8Array,
+  encoding: Encoding,
+  start: number,
+  fatal: boolean,
+): Generator<{ text: string; end: number; final: boolean }> {
   const dec = new TextDecoder(encoding, { fatal, ignoreBOM: true });
   for (let pos = start; pos < bytes.length || pos === start; pos += CHUNK_BYTES) {
     const end = Math.min(bytes.length, pos + CHUNK_BYTES);

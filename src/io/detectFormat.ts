@@ -19,7 +19,8 @@ function sampleRecords(sample: string, delimiter: Delimiter, complete: boolean):
 function modeCount(records: string[][]): { mode: number; share: number } {
   const freq = new Map<number, number>();
   for (const r of records) freq.set(r.length, (freq.get(r.length) ?? 0) + 1);
-  let mode = 0, best = 0;
+  let mode = 0,
+    best = 0;
   for (const [k, c] of freq) if (c > best || (c === best && k > mode)) [mode, best] = [k, c];
   return { mode, share: records.length ? best / records.length : 0 };
 }
@@ -47,7 +48,8 @@ const AMBIGUOUS = /^[+-]?\d{1,3}[.,]\d{3}$/;
 
 /** Decimal comma when more sample cells look like "1,5" than like "1.5" (cells like "1,234" settle nothing). */
 export function detectDecimal(sample: string, delimiter: Delimiter, complete: boolean): DecimalMark {
-  let comma = 0, dot = 0;
+  let comma = 0,
+    dot = 0;
   for (const r of sampleRecords(sample, delimiter, complete)) {
     for (const raw of r) {
       const f = raw.trim();

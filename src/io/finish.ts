@@ -36,18 +36,38 @@ export function planColumns(tb: TableBuilder, o: ResolvedOptions): ColumnPlan[] 
     const inference = inferType(b, name, num, o.dateOrder);
     const chosen = o.columnTypes[name];
     const type = chosen ?? inference.type;
-    const needsText = TEXTUAL.has(type) && b.numberCount > 0 &&
+    const needsText =
+      TEXTUAL.has(type) &&
+      b.numberCount > 0 &&
       (b.textCount > 0 || b.leadingZeroCells.count > 0 || b.unitsStripped.size > 0 || b.thousandsCells.count > 0);
-    return { index, name, sourceName: tb.sourceNames[index], type, inference, forced: chosen !== undefined, needsText, num };
+    return {
+      index,
+      name,
+      sourceName: tb.sourceNames[index],
+      type,
+      inference,
+      forced: chosen !== undefined,
+      needsText,
+      num,
+    };
   });
 }
 
 const collator = new Intl.Collator('en', { numeric: true, sensitivity: 'variant' });
 
 /** Levels in order with codes remapped (into `out`, which may be `codes` itself). */
-function sortLevels(levels: string[], codes: Int32Array, numeric: boolean, out: Int32Array = new Int32Array(codes.length)): { levels: string[]; codes: Int32Array } {
+function sortLevels(
+  levels: string[],
+  codes: Int32Array,
+  numeric: boolean,
+  out: Int32Array = new Int32Array(codes.length),
+): { levels: string[]; codes: Int32Array } {
   const order = levels.map((_, i) => i);
-  order.sort(numeric ? (a, b) => Number(levels[a]) - Number(levels[b]) : (a, b) => collator.compare(levels[a], levels[b]) || (levels[a] < levels[b] ? -1 : 1));
+  order.sort(
+    numeric
+      ? (a, b) => Number(levels[a]) - Number(levels[b])
+      : (a, b) => collator.compare(levels[a], levels[b]) || (levels[a] < levels[b] ? -1 : 1),
+  );
   const remap = new Int32Array(levels.length);
   order.forEach((old, k) => (remap[old] = k));
   for (let i = 0; i < codes.length; i++) out[i] = codes[i] < 0 ? -1 : remap[codes[i]];
@@ -59,7 +79,8 @@ function textualColumn(p: ColumnPlan, b: ColumnBuilder, text: TextPassColumn | u
   if (text) return { kind: 'categorical', name: p.name, ...sortLevels(text.levels, text.codes, false, text.codes) };
   if (b.numberCount === 0) {
     // The builder's codes are not read again, so when they have the exact length they are remapped in place.
-    if (b.codes && b.codes.length === n) return { kind: 'categorical', name: p.name, ...sortLevels(b.levels, b.codes, false, b.codes) };
+    if (b.codes && b.codes.length === n)
+      return { kind: 'categorical', name: p.name, ...sortLevels(b.levels, b.codes, false, b.codes) };
     const codes = b.codes ? b.codes.subarray(0, n) : new Int32Array(n).fill(-1);
     return { kind: 'categorical', name: p.name, ...sortLevels(b.levels, codes, false) };
   }
@@ -115,84 +136,141 @@ function dateColumn(p: ColumnPlan, b: ColumnBuilder): { col: Column; unparsed: n
 }
 
 /** Builds the engine column, its profile and its issues from a plan (and the second-pass text if any). */
-export function buildColumn(p: ColumnPlan, b: ColumnBuilder, text: TextPassColumn | undefined, sourceRows: Int32Array): { column: Column; info: ColumnInfo } {
+export function buildColumn(
+  p: ColumnPlan,
+  b: ColumnBuilder,
+  text: TextPassColumn | undefined,
+  sourceRows: Int32Array,
+): { column: Column; info: ColumnInfo } {
   const issues: EngineWarning[] = [];
   const q = `Column "${p.name}"`;
-  const add = (code: string, message: string, suggestion: string) => issues.push(warning(code, message, suggestion, [p.name]));
+  const add = (code: string, message: string, suggestion: string) =>
+    issues.push(warning(code, message, suggestion, [p.name]));
   const present = b.numberCount + b.textCount;
   let column: Column;
   let note: string | undefined;
   if (p.type === 'numeric') {
     column = { kind: 'numeric', name: p.name, values: b.values.length === b.n ? b.values : b.values.slice(0, b.n) };
     if (b.textCount > 0) {
-      add('text-in-numeric', `${q}: ${plural(b.textCount, 'cell is', 'cells are')} text, not numbers — ${rowListWithText(b.textCells)}; read as missing.`,
-        'Correct those cells in the file, add the text to the missing-value list, or choose the type "categorical" if the text matters.');
+      add(
+        'text-in-numeric',
+        `${q}: ${plural(b.textCount, 'cell is', 'cells are')} text, not numbers — ${rowListWithText(b.textCells)}; read as missing.`,
+        'Correct those cells in the file, add the text to the missing-value list, or choose the type "categorical" if the text matters.',
+      );
     }
     if (b.leadingZeroCells.count > 0) {
-      add('leading-zeros-lost', `${q}: ${plural(b.leadingZeroCells.count, 'number has', 'numbers have')} leading zeros (${rowListWithText(b.leadingZeroCells)}); as numbers the zeros are dropped.`,
-        'If these are codes rather than amounts, choose the type "identifier" or "categorical".');
+      add(
+        'leading-zeros-lost',
+        `${q}: ${plural(b.leadingZeroCells.count, 'number has', 'numbers have')} leading zeros (${rowListWithText(b.leadingZeroCells)}); as numbers the zeros are dropped.`,
+        'If these are codes rather than amounts, choose the type "identifier" or "categorical".',
+      );
     }
   } else if (p.type === 'date') {
     const d = dateColumn(p, b);
     column = d.col;
     note = 'Dates are stored as days since 1970-01-01 (UTC); times of day as fractions of a day.';
     if (d.unparsed > 0) {
-      add('unreadable-dates', `${q}: ${plural(d.unparsed, 'cell is not a date', 'cells are not dates')} (rows ${d.rows.map((i) => sourceRows[i]).join(', ')}${d.unparsed > 5 ? ' …' : ''}); read as missing.`,
-        'Write the dates as YYYY-MM-DD or day/month/year in the file, or choose another type.');
+      add(
+        'unreadable-dates',
+        `${q}: ${plural(d.unparsed, 'cell is not a date', 'cells are not dates')} (rows ${d.rows.map((i) => sourceRows[i]).join(', ')}${d.unparsed > 5 ? ' …' : ''}); read as missing.`,
+        'Write the dates as YYYY-MM-DD or day/month/year in the file, or choose another type.',
+      );
     }
     if (!p.inference.dateOrderSettled) {
-      add(p.inference.dateOrderConflict ? 'conflicting-date-order' : 'ambiguous-date-order',
+      add(
+        p.inference.dateOrderConflict ? 'conflicting-date-order' : 'ambiguous-date-order',
         p.inference.dateOrderConflict
           ? `${q}: some dates only make sense as day/month and others only as month/day; read as ${p.inference.dateOrder === 'dmy' ? 'day/month/year' : 'month/day/year'}, so some are missing.`
           : `${q}: dates like 03/04/2021 could be day/month or month/day; read as ${p.inference.dateOrder === 'dmy' ? 'day/month/year' : 'month/day/year'}.`,
-        'Choose the date order in the import settings if this is wrong.');
+        'Choose the date order in the import settings if this is wrong.',
+      );
     }
   } else if (p.type === 'empty') {
     column = { kind: 'categorical', name: p.name, codes: new Int32Array(b.n).fill(-1), levels: [] };
   } else {
     column = textualColumn(p, b, text);
     if (p.type === 'binary' && column.kind === 'categorical' && column.levels.length !== 2) {
-      add('not-two-levels', `${q} was set to yes/no type but has ${plural(column.levels.length, 'distinct value')}.`,
-        'Choose "categorical", or make the column hold exactly two values.');
+      add(
+        'not-two-levels',
+        `${q} was set to yes/no type but has ${plural(column.levels.length, 'distinct value')}.`,
+        'Choose "categorical", or make the column hold exactly two values.',
+      );
     }
   }
   if (present === 0) {
-    add('all-missing', `${q}: every cell is missing.`, 'Leave this column out of the model, or check that the right file was opened.');
+    add(
+      'all-missing',
+      `${q}: every cell is missing.`,
+      'Leave this column out of the model, or check that the right file was opened.',
+    );
   } else if (b.missingCount > 0 && b.missingCount / b.n > 0.5) {
-    add('mostly-missing', `${q}: ${pct(b.missingCount, b.n)} of cells are missing.`, 'A model using this column would drop most rows; consider leaving it out.');
+    add(
+      'mostly-missing',
+      `${q}: ${pct(b.missingCount, b.n)} of cells are missing.`,
+      'A model using this column would drop most rows; consider leaving it out.',
+    );
   }
   const profile = profileColumn(column, p.type === 'numeric' ? p.num : undefined);
   if (b.tokenCounts.size > 0) profile.missingTokens = Object.fromEntries(b.tokenCounts);
   if (present > 0 && profile.distinct === 1 && p.type !== 'identifier') {
-    add('constant', `${q} has the same value in every present cell, so it cannot explain anything.`, 'Leave it out of the model.');
+    add(
+      'constant',
+      `${q} has the same value in every present cell, so it cannot explain anything.`,
+      'Leave it out of the model.',
+    );
   }
   if (b.errorCells.count > 0) {
-    add('spreadsheet-errors', `${q}: ${plural(b.errorCells.count, 'cell holds a spreadsheet error', 'cells hold spreadsheet errors')} — ${rowListWithText(b.errorCells)}; read as missing.`,
-      'Fix the formulas in the spreadsheet and save it again.');
+    add(
+      'spreadsheet-errors',
+      `${q}: ${plural(b.errorCells.count, 'cell holds a spreadsheet error', 'cells hold spreadsheet errors')} — ${rowListWithText(b.errorCells)}; read as missing.`,
+      'Fix the formulas in the spreadsheet and save it again.',
+    );
   }
   if (b.thousandsCells.count > 0) {
-    add('thousands-separator', `${q}: ${plural(b.thousandsCells.count, 'number was', 'numbers were')} written with thousands separators — ${rowListWithText(b.thousandsCells)}; read without them.`,
-      'If those marks were decimal marks, choose the decimal mark in the import settings.');
+    add(
+      'thousands-separator',
+      `${q}: ${plural(b.thousandsCells.count, 'number was', 'numbers were')} written with thousands separators — ${rowListWithText(b.thousandsCells)}; read without them.`,
+      'If those marks were decimal marks, choose the decimal mark in the import settings.',
+    );
   }
   if (b.unitsStripped.size > 0) {
     const units = [...b.unitsStripped].map(([u, c]) => `${u} (${c})`).join(', ');
-    add('units-stripped', `${q}: units removed as asked: ${units}. The numbers were not converted.`, 'Check that all cells use the same unit.');
+    add(
+      'units-stripped',
+      `${q}: units removed as asked: ${units}. The numbers were not converted.`,
+      'Check that all cells use the same unit.',
+    );
     if (b.unitsStripped.size > 1) {
-      add('mixed-units', `${q} has cells in different units (${[...b.unitsStripped.keys()].join(', ')}); they are not comparable as they stand.`,
-        'Convert the cells to one unit in the file before modelling.');
+      add(
+        'mixed-units',
+        `${q} has cells in different units (${[...b.unitsStripped.keys()].join(', ')}); they are not comparable as they stand.`,
+        'Convert the cells to one unit in the file before modelling.',
+      );
     }
   } else if (b.textCount > 0 && p.type !== 'numeric' && p.type !== 'date') {
     unitIssue(b, q, add);
   }
   caseVariants(column, q, add);
   if (b.maxLength > EXCEL_CELL_LIMIT) {
-    add('huge-cell', `${q}: the cell at row ${b.maxLengthRow} holds ${plural(b.maxLength, 'character')}, more than a spreadsheet cell can.`,
-      'This often means a quote was never closed; check the file around that row.');
+    add(
+      'huge-cell',
+      `${q}: the cell at row ${b.maxLengthRow} holds ${plural(b.maxLength, 'character')}, more than a spreadsheet cell can.`,
+      'This often means a quote was never closed; check the file around that row.',
+    );
   }
   const info: ColumnInfo = {
-    name: p.name, sourceName: p.sourceName, index: p.index, type: p.type, inferredType: p.inference.type,
-    reason: p.forced && p.type !== p.inference.type ? `chosen by you (inferred ${p.inference.type}: ${p.inference.reason})` : p.inference.reason,
-    modelling: p.type !== 'identifier' && p.type !== 'text' && p.type !== 'empty', profile, issues,
+    name: p.name,
+    sourceName: p.sourceName,
+    index: p.index,
+    type: p.type,
+    inferredType: p.inference.type,
+    reason:
+      p.forced && p.type !== p.inference.type
+        ? `chosen by you (inferred ${p.inference.type}: ${p.inference.reason})`
+        : p.inference.reason,
+    modelling: p.type !== 'identifier' && p.type !== 'text' && p.type !== 'empty',
+    profile,
+    issues,
   };
   if (note) info.note = note;
   return { column, info };
@@ -212,8 +290,11 @@ function unitIssue(b: ColumnBuilder, q: string, add: (c: string, m: string, s: s
     }
   }
   if (withUnit > 0 && withUnit >= UNIT_SHARE * b.textCount) {
-    add('units-in-cells', `${q}: ${plural(withUnit, 'cell has', 'cells have')} a number with a unit (e.g. "${example}"), so the column is read as text.`,
-      `To use the numbers, choose "strip units" for this column (units seen: ${[...units].slice(0, 5).join(', ')}).`);
+    add(
+      'units-in-cells',
+      `${q}: ${plural(withUnit, 'cell has', 'cells have')} a number with a unit (e.g. "${example}"), so the column is read as text.`,
+      `To use the numbers, choose "strip units" for this column (units seen: ${[...units].slice(0, 5).join(', ')}).`,
+    );
   }
 }
 
@@ -224,8 +305,11 @@ function caseVariants(col: Column, q: string, add: (c: string, m: string, s: str
     const k = l.toLowerCase().replace(/\s+/g, ' ');
     const prev = seen.get(k);
     if (prev !== undefined) {
-      add('case-variants', `${q} has values that differ only in capitals or spaces: "${prev}" and "${l}"; they are kept apart.`,
-        'If they mean the same, write them the same way in the file.');
+      add(
+        'case-variants',
+        `${q} has values that differ only in capitals or spaces: "${prev}" and "${l}"; they are kept apart.`,
+        'If they mean the same, write them the same way in the file.',
+      );
       return;
     }
     seen.set(k, l);
@@ -236,16 +320,31 @@ function caseVariants(col: Column, q: string, add: (c: string, m: string, s: str
 export function rowWarnings(tb: TableBuilder): EngineWarning[] {
   const w: EngineWarning[] = [];
   if (tb.blankRows.count > 0) {
-    w.push(warning('blank-rows', `${plural(tb.blankRows.count, 'blank row was', 'blank rows were')} skipped (${rowList(tb.blankRows)}).`,
-      'Nothing to do; row numbers in messages still match the file.'));
+    w.push(
+      warning(
+        'blank-rows',
+        `${plural(tb.blankRows.count, 'blank row was', 'blank rows were')} skipped (${rowList(tb.blankRows)}).`,
+        'Nothing to do; row numbers in messages still match the file.',
+      ),
+    );
   }
   if (tb.shortRows.count > 0) {
-    w.push(warning('short-rows', `${plural(tb.shortRows.count, 'row has', 'rows have')} fewer cells than the header (${rowList(tb.shortRows)}: ${tb.shortRows.examples[0]} cells); the missing cells are read as missing.`,
-      'Check those rows in the file: a cell may have been left out, shifting the others.'));
+    w.push(
+      warning(
+        'short-rows',
+        `${plural(tb.shortRows.count, 'row has', 'rows have')} fewer cells than the header (${rowList(tb.shortRows)}: ${tb.shortRows.examples[0]} cells); the missing cells are read as missing.`,
+        'Check those rows in the file: a cell may have been left out, shifting the others.',
+      ),
+    );
   }
   if (tb.longRows.count > 0) {
-    w.push(warning('long-rows', `${plural(tb.longRows.count, 'row has', 'rows have')} more cells than the header (${rowList(tb.longRows)}: ${tb.longRows.examples[0]} cells); extra columns named "column_N" were added.`,
-      'Check those rows in the file: a separator inside a value may need quotes around the value.'));
+    w.push(
+      warning(
+        'long-rows',
+        `${plural(tb.longRows.count, 'row has', 'rows have')} more cells than the header (${rowList(tb.longRows)}: ${tb.longRows.examples[0]} cells); extra columns named "column_N" were added.`,
+        'Check those rows in the file: a separator inside a value may need quotes around the value.',
+      ),
+    );
   }
   let trimmed = 0;
   let where = '';
@@ -254,8 +353,13 @@ export function rowWarnings(tb: TableBuilder): EngineWarning[] {
     if (!where && b.trimmedCells.count > 0) where = `row ${b.trimmedCells.rows[0]}, column "${tb.namer.names[j]}"`;
   });
   if (trimmed > 0) {
-    w.push(warning('spaces-trimmed', `Spaces around ${plural(trimmed, 'cell value')} were removed (first at ${where}).`,
-      'Nothing to do unless spaces were meaningful.'));
+    w.push(
+      warning(
+        'spaces-trimmed',
+        `Spaces around ${plural(trimmed, 'cell value')} were removed (first at ${where}).`,
+        'Nothing to do unless spaces were meaningful.',
+      ),
+    );
   }
   return w;
 }

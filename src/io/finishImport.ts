@@ -6,7 +6,8 @@ import type { TableBuilder } from './tableBuilder';
 import type { ColumnInfo, ImportFormat, ImportHooks, ImportResult } from './types';
 
 export function checkCancelled(hooks: ImportHooks): void {
-  if (hooks.signal?.aborted) throw new FulcraError('cancelled', 'The import was cancelled.', 'Open the file again when ready.');
+  if (hooks.signal?.aborted)
+    throw new FulcraError('cancelled', 'The import was cancelled.', 'Open the file again when ready.');
 }
 
 /** Runs after every chunk: progress, a chance for the worker to yield, then the cancel check. */
@@ -29,16 +30,34 @@ export async function finishImport(
   fileName: string,
 ): Promise<ImportResult> {
   if (tb.cols.length === 0) {
-    throw new FulcraError('empty-file', `"${fileName}" holds no cells${tb.records > 0 ? ` (${tb.records} blank row${tb.records === 1 ? '' : 's'})` : ''}.`, 'Check that the right file was chosen, and export it again from the spreadsheet if needed.');
+    throw new FulcraError(
+      'empty-file',
+      `"${fileName}" holds no cells${tb.records > 0 ? ` (${tb.records} blank row${tb.records === 1 ? '' : 's'})` : ''}.`,
+      'Check that the right file was chosen, and export it again from the spreadsheet if needed.',
+    );
   }
   if (tb.nRows === 0) {
-    throw new FulcraError('no-data-rows', `"${fileName}" has a header row (row ${tb.headerRow}: ${tb.namer.names.slice(0, 5).map((n) => `"${n}"`).join(', ')}${tb.cols.length > 5 ? ', …' : ''}) but no data rows.`,
-      format.header ? 'Check the file, or turn off "first row holds column names" if that row is data.' : 'Check that the right file was chosen.');
+    throw new FulcraError(
+      'no-data-rows',
+      `"${fileName}" has a header row (row ${tb.headerRow}: ${tb.namer.names
+        .slice(0, 5)
+        .map((n) => `"${n}"`)
+        .join(', ')}${tb.cols.length > 5 ? ', …' : ''}) but no data rows.`,
+      format.header
+        ? 'Check the file, or turn off "first row holds column names" if that row is data.'
+        : 'Check that the right file was chosen.',
+    );
   }
-  for (const [name, what] of [...Object.keys(o.columnTypes).map((n) => [n, 'A type was chosen'] as const), ...o.stripUnits.map((n) => [n, 'Unit stripping was asked'] as const)]) {
+  for (const [name, what] of [
+    ...Object.keys(o.columnTypes).map((n) => [n, 'A type was chosen'] as const),
+    ...o.stripUnits.map((n) => [n, 'Unit stripping was asked'] as const),
+  ]) {
     if (!tb.namer.names.includes(name)) {
-      throw new FulcraError('unknown-column', `${what} for column "${name}", which is not in the file. Columns are: ${tb.namer.names.join(', ')}.`,
-        'Check the spelling of the column name.');
+      throw new FulcraError(
+        'unknown-column',
+        `${what} for column "${name}", which is not in the file. Columns are: ${tb.namer.names.join(', ')}.`,
+        'Check the spelling of the column name.',
+      );
     }
   }
   format.headerRow = tb.headerRow;

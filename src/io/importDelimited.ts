@@ -23,13 +23,22 @@ interface Settings {
   header: boolean;
 }
 
-function settle(bytes: Uint8Array, o: ResolvedOptions, encoding: Encoding, bom: number, warnings: EngineWarning[]): Settings {
+function settle(
+  bytes: Uint8Array,
+  o: ResolvedOptions,
+  encoding: Encoding,
+  bom: number,
+  warnings: EngineWarning[],
+): Settings {
   const end = Math.min(bytes.length, bom + SAMPLE_BYTES);
   const complete = end >= bytes.length;
   const sample = new TextDecoder(encoding, { ignoreBOM: true }).decode(bytes.subarray(bom, end), { stream: !complete });
   if (sample.indexOf('\u0000') >= 0 && !encoding.startsWith('utf-16')) {
-    throw new FulcraError('not-text', 'This file does not look like text: it contains binary bytes.',
-      'If it is an Excel workbook, save it as .xlsx (or CSV) and open that; older .xls files are not read.');
+    throw new FulcraError(
+      'not-text',
+      'This file does not look like text: it contains binary bytes.',
+      'If it is an Excel workbook, save it as .xlsx (or CSV) and open that; older .xls files are not read.',
+    );
   }
   let sample2 = sample;
   let hinted: Delimiter | null = null;
@@ -38,16 +47,27 @@ function settle(bytes: Uint8Array, o: ResolvedOptions, encoding: Encoding, bom: 
     hinted = sep[1] as Delimiter;
     bom += sep[0].length * (encoding.startsWith('utf-16') ? 2 : 1);
     sample2 = sample.slice(sep[0].length);
-    warnings.push(warning('separator-line', `The first line "${sep[0].trim()}" names the separator; it was used and skipped, as spreadsheets do (row numbers count from the line after it).`,
-      'Nothing to do.'));
+    warnings.push(
+      warning(
+        'separator-line',
+        `The first line "${sep[0].trim()}" names the separator; it was used and skipped, as spreadsheets do (row numbers count from the line after it).`,
+        'Nothing to do.',
+      ),
+    );
   }
-  let delimiter = o.delimiter !== 'auto' ? o.delimiter : hinted ?? detectDelimiter(sample2, complete);
+  let delimiter = o.delimiter !== 'auto' ? o.delimiter : (hinted ?? detectDelimiter(sample2, complete));
   if (delimiter === null) {
     delimiter = ',';
-    warnings.push(warning('single-column', 'No separator (comma, semicolon, tab or |) splits the rows, so the file is read as a single column.',
-      'If the file has several columns, choose its separator in the import settings.'));
+    warnings.push(
+      warning(
+        'single-column',
+        'No separator (comma, semicolon, tab or |) splits the rows, so the file is read as a single column.',
+        'If the file has several columns, choose its separator in the import settings.',
+      ),
+    );
   }
-  const decimal = o.decimal === 'auto' ? (delimiter === ',' ? '.' : detectDecimal(sample2, delimiter, complete)) : o.decimal;
+  const decimal =
+    o.decimal === 'auto' ? (delimiter === ',' ? '.' : detectDecimal(sample2, delimiter, complete)) : o.decimal;
   const header = o.header === 'auto' ? detectHeader(sample2, delimiter, decimal, complete) : o.header;
   return { encoding, bom, delimiter, decimal, header };
 }
@@ -61,7 +81,15 @@ function countLines(b: Uint8Array, start: number): number {
   return last === 10 || last === 13 ? n : n + 1;
 }
 
-async function readPass(bytes: Uint8Array, s: Settings, fatal: boolean, tb: TableBuilder, hooks: ImportHooks, from: number, span: number): Promise<CsvTokenizer | ByteTokenizer> {
+async function readPass(
+  bytes: Uint8Array,
+  s: Settings,
+  fatal: boolean,
+  tb: TableBuilder,
+  hooks: ImportHooks,
+  from: number,
+  span: number,
+): Promise<CsvTokenizer | ByteTokenizer> {
   if (s.encoding === 'utf-8' || s.encoding === 'windows-1252') {
     const dec = new TextDecoder(s.encoding, { fatal, ignoreBOM: true });
     const decode = (b: Uint8Array) => dec.decode(b);
@@ -84,34 +112,59 @@ async function readPass(bytes: Uint8Array, s: Settings, fatal: boolean, tb: Tabl
 
 function tokenizerWarnings(tok: CsvTokenizer | ByteTokenizer, names: string[]): EngineWarning[] {
   const w: EngineWarning[] = [];
-  const where = (i: { record: number; field: number }) => `row ${i.record + 1}, column ${names[i.field] ? `"${names[i.field]}"` : i.field + 1}`;
+  const where = (i: { record: number; field: number }) =>
+    `row ${i.record + 1}, column ${names[i.field] ? `"${names[i.field]}"` : i.field + 1}`;
   const unclosed = tok.issues.find((i) => i.kind === 'unclosed-quote');
   if (unclosed) {
-    w.push(warning('unclosed-quote', `At ${where(unclosed)} a quote (") opens but never closes, so the rest of the file was read into that one cell.`,
-      'Close the quote or remove it in the file, then open it again.'));
+    w.push(
+      warning(
+        'unclosed-quote',
+        `At ${where(unclosed)} a quote (") opens but never closes, so the rest of the file was read into that one cell.`,
+        'Close the quote or remove it in the file, then open it again.',
+      ),
+    );
   }
   const stray = tok.issues.filter((i) => i.kind === 'stray-quote');
   if (stray.length > 0) {
-    w.push(warning('stray-quote', `${stray.length === 1 ? 'A cell has' : `${stray.length} cells have`} text after a closing quote (first at ${where(stray[0])}); the text was kept.`,
-      'Check those cells: quotes inside a quoted value must be doubled ("").'));
+    w.push(
+      warning(
+        'stray-quote',
+        `${stray.length === 1 ? 'A cell has' : `${stray.length} cells have`} text after a closing quote (first at ${where(stray[0])}); the text was kept.`,
+        'Check those cells: quotes inside a quoted value must be doubled ("").',
+      ),
+    );
   }
   const { lf, crlf, cr } = tok.lineEnds;
   if ((lf > 0 ? 1 : 0) + (crlf > 0 ? 1 : 0) + (cr > 0 ? 1 : 0) > 1) {
-    w.push(warning('mixed-line-endings', 'The file mixes line-end styles (Windows, Unix, old Mac); all were read as row ends.',
-      'Nothing to do; check the row count if the file was pieced together.'));
+    w.push(
+      warning(
+        'mixed-line-endings',
+        'The file mixes line-end styles (Windows, Unix, old Mac); all were read as row ends.',
+        'Nothing to do; check the row count if the file was pieced together.',
+      ),
+    );
   }
   return w;
 }
 
 /** Imports delimited text bytes (CSV, TSV, semicolon with decimal comma) in chunks; see `importFile`. */
-export async function importDelimited(bytes: Uint8Array, fileName: string, o: ResolvedOptions, hooks: ImportHooks): Promise<ImportResult> {
+export async function importDelimited(
+  bytes: Uint8Array,
+  fileName: string,
+  o: ResolvedOptions,
+  hooks: ImportHooks,
+): Promise<ImportResult> {
   checkCancelled(hooks);
   if (bytes.length === 0) {
-    throw new FulcraError('empty-file', `"${fileName}" is empty (0 bytes).`, 'Choose the file again, or save it again from the spreadsheet.');
+    throw new FulcraError(
+      'empty-file',
+      `"${fileName}" is empty (0 bytes).`,
+      'Choose the file again, or save it again from the spreadsheet.',
+    );
   }
   const warnings: EngineWarning[] = [];
   const bom = detectBom(bytes);
-  const wanted = o.encoding === 'auto' ? bom?.encoding ?? 'utf-8' : o.encoding;
+  const wanted = o.encoding === 'auto' ? (bom?.encoding ?? 'utf-8') : o.encoding;
   const bomLength = bom && bom.encoding === wanted ? bom.length : 0;
   let s = settle(bytes, o, wanted, bomLength, warnings);
   const run = async (fatal: boolean) => {
@@ -128,16 +181,35 @@ export async function importDelimited(bytes: Uint8Array, fileName: string, o: Re
     const hex = Array.from(bytes.subarray(at, at + 2), (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
     warnings.length = 0;
     s = settle(bytes, o, 'windows-1252', 0, warnings);
-    warnings.push(warning('encoding-fallback', `The file is not UTF-8 (byte ${at}: ${hex}), so it was read as Windows-1252 (Western European).`,
-      'If accented letters look wrong, choose the file\'s encoding in the import settings, or save it as CSV UTF-8.'));
+    warnings.push(
+      warning(
+        'encoding-fallback',
+        `The file is not UTF-8 (byte ${at}: ${hex}), so it was read as Windows-1252 (Western European).`,
+        "If accented letters look wrong, choose the file's encoding in the import settings, or save it as CSV UTF-8.",
+      ),
+    );
     read = await run(false);
   }
   const { tb, tok } = read;
   warnings.push(...tokenizerWarnings(tok, tb.namer.names));
-  const format: ImportFormat = { kind: 'delimited', delimiter: s.delimiter, decimal: s.decimal, encoding: s.encoding, header: s.header, headerRow: 0 };
-  const result = await finishImport(tb, o, format, warnings, async () => {
-    await readPass(bytes, s, false, tb, hooks, PASS1, 1 - PASS1);
-  }, fileName);
+  const format: ImportFormat = {
+    kind: 'delimited',
+    delimiter: s.delimiter,
+    decimal: s.decimal,
+    encoding: s.encoding,
+    header: s.header,
+    headerRow: 0,
+  };
+  const result = await finishImport(
+    tb,
+    o,
+    format,
+    warnings,
+    async () => {
+      await readPass(bytes, s, false, tb, hooks, PASS1, 1 - PASS1);
+    },
+    fileName,
+  );
   hooks.onProgress?.(1, tb.records);
   return result;
 }

@@ -20,16 +20,25 @@ export async function importFile(
   hooks: ImportHooks | ImportHooks['onProgress'] = {},
   signal?: { aborted: boolean },
 ): Promise<ImportResult> {
-  const h: ImportHooks = typeof hooks === 'function' ? { onProgress: hooks, signal } : { ...hooks, signal: hooks.signal ?? signal };
+  const h: ImportHooks =
+    typeof hooks === 'function' ? { onProgress: hooks, signal } : { ...hooks, signal: hooks.signal ?? signal };
   const o = resolveImportOptions(options);
   // A plain view (not a Node Buffer, whose slice() shares memory).
-  const b = bytes instanceof Uint8Array ? new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) : new Uint8Array(bytes);
+  const b =
+    bytes instanceof Uint8Array
+      ? new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength)
+      : new Uint8Array(bytes);
   const byName = /\.xlsx$|\.xlsm$/i.test(fileName);
   if (o.format === 'xlsx' || (o.format === 'auto' && (byName || looksLikeOle(b)))) return importXlsx(b, fileName, o, h);
   if (o.format === 'auto' && looksLikeZip(b)) {
     const r = await importXlsx(b, fileName, o, h);
-    r.warnings.unshift(warning('workbook-content', `"${fileName}" is named like a text file but is an Excel workbook; it was read as one.`,
-      'Nothing to do; rename the file to .xlsx to avoid confusion.'));
+    r.warnings.unshift(
+      warning(
+        'workbook-content',
+        `"${fileName}" is named like a text file but is an Excel workbook; it was read as one.`,
+        'Nothing to do; rename the file to .xlsx to avoid confusion.',
+      ),
+    );
     return r;
   }
   return importDelimited(b, fileName, o, h);

@@ -16,9 +16,13 @@ function notAWorkbook(bytes: Uint8Array, fileName: string): FulcraError {
   const head = new TextDecoder('utf-8').decode(bytes.subarray(0, 200));
   const isText = !/[\u0000-\u0008\u000e-\u001f\ufffd]/.test(head);
   const shown = head.slice(0, 40).replace(/\s+/g, ' ');
-  return new FulcraError('not-xlsx', `"${fileName}" is named like an Excel workbook but is not one${isText ? `: it is plain text starting "${shown}"` : ''}.`,
-    isText ? 'If it is comma- or tab-separated text, rename it to .csv (or choose "delimited text") and open it again.'
-      : 'Open it in the program that made it and save it as .xlsx or CSV.');
+  return new FulcraError(
+    'not-xlsx',
+    `"${fileName}" is named like an Excel workbook but is not one${isText ? `: it is plain text starting "${shown}"` : ''}.`,
+    isText
+      ? 'If it is comma- or tab-separated text, rename it to .csv (or choose "delimited text") and open it again.'
+      : 'Open it in the program that made it and save it as .xlsx or CSV.',
+  );
 }
 
 /** Sheet names of an .xlsx workbook, in workbook order. */
@@ -27,36 +31,65 @@ export async function listSheets(bytes: Uint8Array, fileName = 'workbook.xlsx'):
 }
 
 async function workbookParts(bytes: Uint8Array, fileName: string) {
-  if (bytes.length === 0) throw new FulcraError('empty-file', `"${fileName}" is empty (0 bytes).`, 'Save the workbook again from the spreadsheet and open the new file.');
+  if (bytes.length === 0)
+    throw new FulcraError(
+      'empty-file',
+      `"${fileName}" is empty (0 bytes).`,
+      'Save the workbook again from the spreadsheet and open the new file.',
+    );
   if (looksLikeOle(bytes)) {
-    throw new FulcraError('xls-not-supported', `"${fileName}" is an old-style Excel file (.xls) or another Office binary file, which is not read.`,
-      'Open it in the spreadsheet and save it as .xlsx or CSV UTF-8.');
+    throw new FulcraError(
+      'xls-not-supported',
+      `"${fileName}" is an old-style Excel file (.xls) or another Office binary file, which is not read.`,
+      'Open it in the spreadsheet and save it as .xlsx or CSV UTF-8.',
+    );
   }
   if (!looksLikeZip(bytes)) throw notAWorkbook(bytes, fileName);
   const entries = listZip(bytes);
   const wb = await readZipText(bytes, entries, 'xl/workbook.xml');
-  if (wb === null) throw new FulcraError('not-xlsx', `"${fileName}" is a zip archive but not an Excel workbook (it has no xl/workbook.xml).`, 'Open it in the program that made it and save it as .xlsx.');
+  if (wb === null)
+    throw new FulcraError(
+      'not-xlsx',
+      `"${fileName}" is a zip archive but not an Excel workbook (it has no xl/workbook.xml).`,
+      'Open it in the program that made it and save it as .xlsx.',
+    );
   const rels = (await readZipText(bytes, entries, 'xl/_rels/workbook.xml.rels')) ?? '';
   return { entries, sheets: workbookSheets(wb, rels) };
 }
 
 /** Imports one sheet of an .xlsx workbook (values as last saved; formulas are not recalculated). */
-export async function importXlsx(bytes: Uint8Array, fileName: string, o: ResolvedOptions, hooks: ImportHooks): Promise<ImportResult> {
+export async function importXlsx(
+  bytes: Uint8Array,
+  fileName: string,
+  o: ResolvedOptions,
+  hooks: ImportHooks,
+): Promise<ImportResult> {
   checkCancelled(hooks);
   const { entries, sheets } = await workbookParts(bytes, fileName);
   if (sheets.length === 0) throw new FulcraError('no-sheets', `The workbook "${fileName}" has no sheets.`);
   const names = sheets.map((s) => s.name);
-  const chosen = o.sheet === undefined ? sheets[0] : typeof o.sheet === 'number' ? sheets[o.sheet] : sheets.find((s) => s.name === o.sheet);
+  const chosen =
+    o.sheet === undefined
+      ? sheets[0]
+      : typeof o.sheet === 'number'
+        ? sheets[o.sheet]
+        : sheets.find((s) => s.name === o.sheet);
   if (!chosen) {
-    throw new FulcraError('unknown-sheet', `The workbook has no sheet ${typeof o.sheet === 'number' ? `number ${o.sheet + 1}` : `"${o.sheet}"`}. Sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`,
-      'Choose one of the listed sheets.');
+    throw new FulcraError(
+      'unknown-sheet',
+      `The workbook has no sheet ${typeof o.sheet === 'number' ? `number ${o.sheet + 1}` : `"${o.sheet}"`}. Sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`,
+      'Choose one of the listed sheets.',
+    );
   }
   let rows: Cell[][];
   try {
     rows = (await readSheet(Uint8Array.prototype.slice.call(bytes).buffer, chosen.name)) as Cell[][];
   } catch (e) {
-    throw new FulcraError('bad-xlsx', `The sheet "${chosen.name}" of "${fileName}" could not be read: ${(e as Error).message}.`,
-      'Open the workbook in the spreadsheet, save it again as .xlsx, and retry.');
+    throw new FulcraError(
+      'bad-xlsx',
+      `The sheet "${chosen.name}" of "${fileName}" could not be read: ${(e as Error).message}.`,
+      'Open the workbook in the spreadsheet, save it again as .xlsx, and retry.',
+    );
   }
   await afterChunk(hooks, 0.3, 0);
   const warnings: EngineWarning[] = [];
@@ -68,12 +101,22 @@ export async function importXlsx(bytes: Uint8Array, fileName: string, o: Resolve
       if (r && (r[err.col] === null || r[err.col] === undefined)) r[err.col] = err.value;
     }
     if (scan.formulas > 0) {
-      warnings.push(warning('formulas', `${plural(scan.formulas, 'cell holds a formula', 'cells hold formulas')}; the results last saved by the spreadsheet are used, not recalculated.`,
-        'If the results may be out of date, open the workbook in the spreadsheet, let it recalculate, and save it.'));
+      warnings.push(
+        warning(
+          'formulas',
+          `${plural(scan.formulas, 'cell holds a formula', 'cells hold formulas')}; the results last saved by the spreadsheet are used, not recalculated.`,
+          'If the results may be out of date, open the workbook in the spreadsheet, let it recalculate, and save it.',
+        ),
+      );
     }
     if (scan.formulasWithoutValue.length > 0) {
-      warnings.push(warning('formula-no-value', `${plural(scan.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result (${scan.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
-        'Open the workbook in the spreadsheet, let it recalculate, and save it.'));
+      warnings.push(
+        warning(
+          'formula-no-value',
+          `${plural(scan.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result (${scan.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
+          'Open the workbook in the spreadsheet, let it recalculate, and save it.',
+        ),
+      );
     }
   }
   const header = o.header === 'auto' ? xlsxHeader(rows[0]) : o.header;
@@ -85,10 +128,24 @@ export async function importXlsx(bytes: Uint8Array, fileName: string, o: Resolve
     }
   };
   await feed(0.3, 0.6);
-  const format: ImportFormat = { kind: 'xlsx', delimiter: null, decimal: o.decimal === ',' ? ',' : '.', encoding: null, header, headerRow: 0, sheet: chosen.name, sheets: names };
+  const format: ImportFormat = {
+    kind: 'xlsx',
+    delimiter: null,
+    decimal: o.decimal === ',' ? ',' : '.',
+    encoding: null,
+    header,
+    headerRow: 0,
+    sheet: chosen.name,
+    sheets: names,
+  };
   if (names.length > 1) {
-    warnings.push(warning('several-sheets', `The workbook has ${names.length} sheets (${names.map((n) => `"${n}"`).join(', ')}); sheet "${chosen.name}" was read.`,
-      'Choose another sheet in the import settings if needed.'));
+    warnings.push(
+      warning(
+        'several-sheets',
+        `The workbook has ${names.length} sheets (${names.map((n) => `"${n}"`).join(', ')}); sheet "${chosen.name}" was read.`,
+        'Choose another sheet in the import settings if needed.',
+      ),
+    );
   }
   const result = await finishImport(tb, o, format, warnings, () => feed(0.9, 0.1), fileName);
   hooks.onProgress?.(1, rows.length);

@@ -21,7 +21,9 @@ const ID_NAME = /(^|[^a-z])(id|mrn|uuid|guid|key|record|ref|code|number|nr|no)([
 
 /** Date order for a column: the user's choice, else what its cells settle, else day/month/year. */
 export function chooseDateOrder(levels: readonly string[], wanted: 'auto' | DateOrder) {
-  let dmy = false, mdy = false, numericForm = false;
+  let dmy = false,
+    mdy = false,
+    numericForm = false;
   for (const l of levels) {
     if (!numericForm && NUMERIC_DATE.test(l)) numericForm = true;
     const e = dateOrderEvidence(l);
@@ -29,7 +31,11 @@ export function chooseDateOrder(levels: readonly string[], wanted: 'auto' | Date
     else if (e === 'mdy') mdy = true;
   }
   if (wanted !== 'auto') return { order: wanted, settled: true, conflict: false };
-  return { order: (mdy && !dmy ? 'mdy' : 'dmy') as DateOrder, settled: !numericForm || dmy !== mdy, conflict: dmy && mdy };
+  return {
+    order: (mdy && !dmy ? 'mdy' : 'dmy') as DateOrder,
+    settled: !numericForm || dmy !== mdy,
+    conflict: dmy && mdy,
+  };
 }
 
 /**
@@ -46,10 +52,19 @@ export function inferType(b: ColumnBuilder, name: string, num: NumericSummary, w
 
   if (b.numberCount > 0 && b.numberCount >= NUMERIC_SHARE * present) {
     const distinct = num.distinct;
-    const textPart = b.textCount === 0 ? '' : `; ${plural(b.textCount, 'cell is', 'cells are')} text: ${rowList(b.textCells)} (read as missing)`;
-    const share = b.textCount === 0 ? `all ${plural(present, 'present cell')} are numbers` : `${pct(b.numberCount, present)} of present cells are numbers`;
+    const textPart =
+      b.textCount === 0
+        ? ''
+        : `; ${plural(b.textCount, 'cell is', 'cells are')} text: ${rowList(b.textCells)} (read as missing)`;
+    const share =
+      b.textCount === 0
+        ? `all ${plural(present, 'present cell')} are numbers`
+        : `${pct(b.numberCount, present)} of present cells are numbers`;
     if (b.leadingZeroCells.count > 0 && (distinct === b.numberCount || ID_NAME.test(name))) {
-      return out('identifier', `numbers written with leading zeros (e.g. "${b.leadingZeroCells.examples[0]}" at row ${b.leadingZeroCells.rows[0]}), read as codes`);
+      return out(
+        'identifier',
+        `numbers written with leading zeros (e.g. "${b.leadingZeroCells.examples[0]}" at row ${b.leadingZeroCells.rows[0]}), read as codes`,
+      );
     }
     if (num.integers && distinct === b.numberCount && b.numberCount >= 10 && ID_NAME.test(name)) {
       return out('identifier', `every value is a different whole number and the name looks like a record number`);
@@ -61,16 +76,28 @@ export function inferType(b: ColumnBuilder, name: string, num: NumericSummary, w
   }
 
   let dates = 0;
-  for (let i = 0; i < b.levels.length; i++) if (!Number.isNaN(parseDateText(b.levels[i], d.order))) dates += b.levelCounts[i];
+  for (let i = 0; i < b.levels.length; i++)
+    if (!Number.isNaN(parseDateText(b.levels[i], d.order))) dates += b.levelCounts[i];
   if (b.numberCount === 0 && dates > 0 && dates >= DATE_SHARE * present) {
-    const order = b.levels.some((l) => NUMERIC_DATE.test(l)) ? (d.order === 'dmy' ? ' (day/month/year)' : ' (month/day/year)') : '';
+    const order = b.levels.some((l) => NUMERIC_DATE.test(l))
+      ? d.order === 'dmy'
+        ? ' (day/month/year)'
+        : ' (month/day/year)'
+      : '';
     return out('date', `${dates === present ? 'all' : pct(dates, present) + ' of'} present cells are dates${order}`);
   }
 
   const distinct = b.levels.length + num.distinct;
-  const mix = b.numberCount > 0 ? ` (${pct(b.textCount, present)} of present cells are text, ${pct(b.numberCount, present)} numbers)` : '';
+  const mix =
+    b.numberCount > 0
+      ? ` (${pct(b.textCount, present)} of present cells are text, ${pct(b.numberCount, present)} numbers)`
+      : '';
   if (distinct === 2) return out('binary', `two distinct values${mix}: ${twoLevels(b, num)}`);
-  if (distinct === 1) return out('categorical', `a single value, "${String(b.levels[0] ?? num.min).slice(0, 40)}", in every present cell`);
+  if (distinct === 1)
+    return out(
+      'categorical',
+      `a single value, "${String(b.levels[0] ?? num.min).slice(0, 40)}", in every present cell`,
+    );
   const spaced = b.levels.filter((l) => l.indexOf(' ') >= 0).length;
   if (distinct === present && present >= 10) {
     return spaced > present / 2
@@ -80,7 +107,10 @@ export function inferType(b: ColumnBuilder, name: string, num: NumericSummary, w
   if (distinct > 50 && distinct > present / 2) {
     return spaced > b.levels.length / 2
       ? out('text', `free text: ${plural(distinct, 'distinct value')} among ${plural(present, 'present cell')}`)
-      : out('identifier', `${plural(distinct, 'distinct value')} among ${plural(present, 'present cell')}, like codes or names`);
+      : out(
+          'identifier',
+          `${plural(distinct, 'distinct value')} among ${plural(present, 'present cell')}, like codes or names`,
+        );
   }
   return out('categorical', `text with ${plural(distinct, 'distinct value')}${mix}`);
 }

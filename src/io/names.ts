@@ -16,24 +16,48 @@ export class ColumnNamer {
     let name = raw.replace(/[\r\n\t]+/g, ' ').trim();
     const col = `column ${position}`;
     if (fromHeader && name !== raw) {
-      this.warnings.push(warning('name-cleaned', `The name of ${col} had line breaks or surrounding spaces; it is now "${name}".`,
-        'Nothing to do unless the name should differ; rename the header in the file if so.', [name]));
+      this.warnings.push(
+        warning(
+          'name-cleaned',
+          `The name of ${col} had line breaks or surrounding spaces; it is now "${name}".`,
+          'Nothing to do unless the name should differ; rename the header in the file if so.',
+          [name],
+        ),
+      );
     }
     if (name === '') {
       name = this.unique(`column_${position}`);
       if (fromHeader) {
-        this.warnings.push(warning('blank-name', `Column ${position} has no name in the header row; it is called "${name}".`,
-          'Type a name into the header cell (row 1) of the file if the column is needed.', [name]));
+        this.warnings.push(
+          warning(
+            'blank-name',
+            `Column ${position} has no name in the header row; it is called "${name}".`,
+            'Type a name into the header cell (row 1) of the file if the column is needed.',
+            [name],
+          ),
+        );
       }
     } else if (this.used.has(name)) {
       const first = name;
       name = this.unique(name);
-      this.warnings.push(warning('duplicate-name', `The name "${first}" appears more than once; ${col} is called "${name}".`,
-        'Give each column its own name in the header row (row 1) so you can tell them apart.', [name]));
+      this.warnings.push(
+        warning(
+          'duplicate-name',
+          `The name "${first}" appears more than once; ${col} is called "${name}".`,
+          'Give each column its own name in the header row (row 1) so you can tell them apart.',
+          [name],
+        ),
+      );
     }
     if (MARKUP.test(name)) {
-      this.warnings.push(warning('markup-name', `The name of ${col} looks like web-page markup or script ("${name.slice(0, 60)}"); it is treated as plain text.`,
-        'Check that this file is the spreadsheet you meant to open; rename the column if so.', [name]));
+      this.warnings.push(
+        warning(
+          'markup-name',
+          `The name of ${col} looks like web-page markup or script ("${name.slice(0, 60)}"); it is treated as plain text.`,
+          'Check that this file is the spreadsheet you meant to open; rename the column if so.',
+          [name],
+        ),
+      );
     }
     this.used.add(name);
     this.names.push(name);

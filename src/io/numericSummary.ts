@@ -53,12 +53,16 @@ function slot(v: number, mask: number, keys: Float64Array): number {
 
 /** k-th smallest (0-based) of a scratch array, reordering it in place (Hoare's selection, median-of-three). */
 export function select(a: Float64Array, k: number): number {
-  let lo = 0, hi = a.length - 1;
+  let lo = 0,
+    hi = a.length - 1;
   while (hi > lo) {
     const mid = (lo + hi) >> 1;
-    const x = a[lo], y = a[mid], z = a[hi];
+    const x = a[lo],
+      y = a[mid],
+      z = a[hi];
     const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
-    let i = lo, j = hi;
+    let i = lo,
+      j = hi;
     while (i <= j) {
       while (a[i] < pivot) i++;
       while (a[j] > pivot) j--;
@@ -96,7 +100,8 @@ function countDistinctIntegers(values: Float64Array, min: number, max: number): 
 /** Median from ascending distinct values and their counts (`total` present values). */
 function countedMedian(xs: ArrayLike<number>, counts: ArrayLike<number>, total: number): number {
   const h = total >> 1;
-  let cum = 0, lower = NaN;
+  let cum = 0,
+    lower = NaN;
   for (let k = 0; k < xs.length; k++) {
     const c = counts[k];
     if (c === 0) continue;
@@ -108,7 +113,12 @@ function countedMedian(xs: ArrayLike<number>, counts: ArrayLike<number>, total: 
 }
 
 /** Median and distinct count of whole numbers in [min, max] by counting (range at most the count). */
-function countIntegers(values: Float64Array, min: number, max: number, count: number): { median: number; distinct: number } {
+function countIntegers(
+  values: Float64Array,
+  min: number,
+  max: number,
+  count: number,
+): { median: number; distinct: number } {
   const counts = new Int32Array(max - min + 1);
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
@@ -117,7 +127,8 @@ function countIntegers(values: Float64Array, min: number, max: number, count: nu
   let distinct = 0;
   for (let k = 0; k < counts.length; k++) if (counts[k] > 0) distinct++;
   const h = count >> 1;
-  let cum = 0, lower = NaN;
+  let cum = 0,
+    lower = NaN;
   for (let k = 0; k < counts.length; k++) {
     const c = counts[k];
     if (c === 0) continue;
@@ -135,7 +146,12 @@ const SCALES = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
  * k = round(v·10^d): every value is checked to be exactly k / 10^d, so k ↦ v is one-to-one and keeps the order.
  * Null when some value is not of that form or the range of k is wider than 2·count.
  */
-function countDecimals(values: Float64Array, min: number, max: number, count: number): { median: number; distinct: number } | null {
+function countDecimals(
+  values: Float64Array,
+  min: number,
+  max: number,
+  count: number,
+): { median: number; distinct: number } | null {
   let d = 0;
   for (let i = 0, seen = 0; i < values.length && seen < 64; i++) {
     const v = values[i];
@@ -145,7 +161,8 @@ function countDecimals(values: Float64Array, min: number, max: number, count: nu
     if (d === SCALES.length) return null;
   }
   const scale = SCALES[d];
-  const lo = Math.round(min * scale), hi = Math.round(max * scale);
+  const lo = Math.round(min * scale),
+    hi = Math.round(max * scale);
   if (!(hi - lo < 2 * count) || !(Math.abs(lo) < 2 ** 52 && Math.abs(hi) < 2 ** 52)) return null;
   const counts = new Int32Array(hi - lo + 1);
   for (let i = 0; i < values.length; i++) {
@@ -158,7 +175,8 @@ function countDecimals(values: Float64Array, min: number, max: number, count: nu
   let distinct = 0;
   for (let k = 0; k < counts.length; k++) if (counts[k] > 0) distinct++;
   const h = count >> 1;
-  let cum = 0, lower = NaN;
+  let cum = 0,
+    lower = NaN;
   for (let k = 0; k < counts.length; k++) {
     const c = counts[k];
     if (c === 0) continue;
@@ -174,7 +192,11 @@ function countDecimals(values: Float64Array, min: number, max: number, count: nu
  * overwritten) is scratch space of at least `values.length`, so that a caller summarising many columns allocates it once.
  */
 export function summarizeNumbers(values: Float64Array, work?: Float64Array): NumericSummary {
-  let count = 0, min = Infinity, max = -Infinity, integers = true, negativeZero = false;
+  let count = 0,
+    min = Infinity,
+    max = -Infinity,
+    integers = true,
+    negativeZero = false;
   const few = new Float64Array(FEW);
   const fewCounts = new Float64Array(FEW);
   let nFew = 0;
@@ -202,7 +224,11 @@ export function summarizeNumbers(values: Float64Array, work?: Float64Array): Num
   // −0 and 0 compare equal; which one the selection returns depends on the order, so keep that path for them.
   if (!negativeZero && nFew <= FEW) {
     const order = Array.from({ length: nFew }, (_, k) => k).sort((a, b) => few[a] - few[b]);
-    const median = countedMedian(order.map((k) => few[k]), order.map((k) => fewCounts[k]), count);
+    const median = countedMedian(
+      order.map((k) => few[k]),
+      order.map((k) => fewCounts[k]),
+      count,
+    );
     return { count, min, max, median, distinct: nFew, integers };
   }
   if (!negativeZero && integers && max - min < count) {
@@ -224,7 +250,11 @@ export function summarizeNumbers(values: Float64Array, work?: Float64Array): Num
     for (let i = 0; i < h; i++) if (scratch[i] > lower) lower = scratch[i];
     median = (lower + upper) / 2;
   }
-  const distinct = nFew <= FEW ? nFew
-    : integers && max - min <= 4 * count + 1024 ? countDistinctIntegers(scratch, min, max) : countDistinct(scratch);
+  const distinct =
+    nFew <= FEW
+      ? nFew
+      : integers && max - min <= 4 * count + 1024
+        ? countDistinctIntegers(scratch, min, max)
+        : countDistinct(scratch);
   return { count, min, max, median, distinct, integers };
 }

@@ -32,8 +32,11 @@ export function resolveImportOptions(options: ImportOptions = {}): ResolvedOptio
   for (const [key, allowed] of Object.entries(ALLOWED)) {
     const v = (o as unknown as Record<string, unknown>)[key];
     if (!allowed.includes(v)) {
-      throw new FulcraError('invalid-option', `Import option ${key} = ${JSON.stringify(v)} is not allowed.`,
-        `Use one of: ${allowed.map((a) => JSON.stringify(a)).join(', ')}.`);
+      throw new FulcraError(
+        'invalid-option',
+        `Import option ${key} = ${JSON.stringify(v)} is not allowed.`,
+        `Use one of: ${allowed.map((a) => JSON.stringify(a)).join(', ')}.`,
+      );
     }
   }
   if (!Array.isArray(o.missingTokens) || o.missingTokens.some((t) => typeof t !== 'string')) {
@@ -44,12 +47,18 @@ export function resolveImportOptions(options: ImportOptions = {}): ResolvedOptio
   }
   for (const [name, t] of Object.entries(o.columnTypes)) {
     if (!TYPES.includes(t)) {
-      throw new FulcraError('invalid-option', `The type "${String(t)}" chosen for column "${name}" is not a column type.`,
-        `Use one of: ${TYPES.join(', ')}.`);
+      throw new FulcraError(
+        'invalid-option',
+        `The type "${String(t)}" chosen for column "${name}" is not a column type.`,
+        `Use one of: ${TYPES.join(', ')}.`,
+      );
     }
   }
   if (o.sheet !== undefined && typeof o.sheet !== 'string' && !(Number.isInteger(o.sheet) && o.sheet >= 0)) {
-    throw new FulcraError('invalid-option', `Import option sheet = ${JSON.stringify(o.sheet)} must be a sheet name or a 0-based index.`);
+    throw new FulcraError(
+      'invalid-option',
+      `Import option sheet = ${JSON.stringify(o.sheet)} must be a sheet name or a 0-based index.`,
+    );
   }
   return o;
 }

@@ -7,11 +7,27 @@ export type OutcomeProposal =
 
 /** Event / non-event pairs recognised without asking (lower case; common practice in clinical and QA data). */
 const PAIRS: readonly [string, string][] = [
-  ['yes', 'no'], ['y', 'n'], ['true', 'false'], ['t', 'f'], ['1', '0'],
-  ['positive', 'negative'], ['pos', 'neg'], ['+', '-'], ['present', 'absent'],
-  ['infected', 'not infected'], ['infection', 'no infection'], ['case', 'control'], ['event', 'no event'],
-  ['dead', 'alive'], ['died', 'survived'], ['deceased', 'alive'], ['fail', 'pass'], ['failed', 'passed'],
-  ['abnormal', 'normal'], ['detected', 'not detected'], ['reactive', 'non-reactive'],
+  ['yes', 'no'],
+  ['y', 'n'],
+  ['true', 'false'],
+  ['t', 'f'],
+  ['1', '0'],
+  ['positive', 'negative'],
+  ['pos', 'neg'],
+  ['+', '-'],
+  ['present', 'absent'],
+  ['infected', 'not infected'],
+  ['infection', 'no infection'],
+  ['case', 'control'],
+  ['event', 'no event'],
+  ['dead', 'alive'],
+  ['died', 'survived'],
+  ['deceased', 'alive'],
+  ['fail', 'pass'],
+  ['failed', 'passed'],
+  ['abnormal', 'normal'],
+  ['detected', 'not detected'],
+  ['reactive', 'non-reactive'],
 ];
 /** "not X" / "no X" / "without X" against "X". Hyphenated compounds such as "non-union" are left to the user:
  * there the negated word is itself the adverse event. */
@@ -24,7 +40,8 @@ function presentLevels(col: Column): string[] {
     return col.levels.filter((_, k) => seen[k] === 1);
   }
   const vals = new Set<number>();
-  for (let i = 0; i < col.values.length && vals.size <= 10; i++) if (!Number.isNaN(col.values[i])) vals.add(col.values[i]);
+  for (let i = 0; i < col.values.length && vals.size <= 10; i++)
+    if (!Number.isNaN(col.values[i])) vals.add(col.values[i]);
   return [...vals].sort((a, b) => a - b).map(String);
 }
 
@@ -37,28 +54,52 @@ function presentLevels(col: Column): string[] {
 export function proposeOutcomeEvent(column: Column): OutcomeProposal {
   const levels = presentLevels(column);
   const q = `"${column.name}"`;
-  if (levels.length === 0) return { status: 'unsuitable', levels, reason: `${q} has no values; every cell is missing.` };
+  if (levels.length === 0)
+    return { status: 'unsuitable', levels, reason: `${q} has no values; every cell is missing.` };
   if (levels.length === 1) {
-    return { status: 'unsuitable', levels, reason: `Every present row of ${q} is "${levels[0]}"; an outcome needs rows with and without the event.` };
+    return {
+      status: 'unsuitable',
+      levels,
+      reason: `Every present row of ${q} is "${levels[0]}"; an outcome needs rows with and without the event.`,
+    };
   }
   if (column.kind === 'numeric' && levels.length > 2) {
-    return { status: 'unsuitable', levels: [], reason: `${q} is a number with many values; the outcome must be yes/no. Make a yes/no column (e.g. above a cut-off) in the file.` };
+    return {
+      status: 'unsuitable',
+      levels: [],
+      reason: `${q} is a number with many values; the outcome must be yes/no. Make a yes/no column (e.g. above a cut-off) in the file.`,
+    };
   }
   if (levels.length > 2) {
-    return { status: 'needsChoice', levels, reason: `${q} has ${levels.length} values; choose the one that counts as the event (the others count as no event).` };
+    return {
+      status: 'needsChoice',
+      levels,
+      reason: `${q} has ${levels.length} values; choose the one that counts as the event (the others count as no event).`,
+    };
   }
   const [a, b] = levels;
-  const la = a.trim().toLowerCase(), lb = b.trim().toLowerCase();
+  const la = a.trim().toLowerCase(),
+    lb = b.trim().toLowerCase();
   for (const [ev, non] of PAIRS) {
     if (la === ev && lb === non) return proposed(a, b, q);
     if (lb === ev && la === non) return proposed(b, a, q);
   }
-  const na = NEGATION.exec(la), nb = NEGATION.exec(lb);
+  const na = NEGATION.exec(la),
+    nb = NEGATION.exec(lb);
   if (na && na[2] === lb) return proposed(b, a, q);
   if (nb && nb[2] === la) return proposed(a, b, q);
-  return { status: 'needsChoice', levels, reason: `${q} has two values, "${a}" and "${b}"; choose the one that counts as the event.` };
+  return {
+    status: 'needsChoice',
+    levels,
+    reason: `${q} has two values, "${a}" and "${b}"; choose the one that counts as the event.`,
+  };
 }
 
 function proposed(event: string, nonEvent: string, q: string): OutcomeProposal {
-  return { status: 'proposed', event, nonEvent, reason: `${q}: "${event}" is taken as the event and "${nonEvent}" as no event.` };
+  return {
+    status: 'proposed',
+    event,
+    nonEvent,
+    reason: `${q}: "${event}" is taken as the event and "${nonEvent}" as no event.`,
+  };
 }

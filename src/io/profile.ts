@@ -12,7 +12,8 @@ const TOP_LEVELS = 20;
 export function histogram(values: Float64Array, s: NumericSummary): { edges: number[]; counts: number[] } {
   const n = s.count;
   if (n === 0) return { edges: [], counts: [] };
-  const lo = s.min, hi = s.max;
+  const lo = s.min,
+    hi = s.max;
   const bins = lo === hi ? 1 : Math.max(1, Math.min(MAX_BINS, s.distinct, Math.ceil(Math.log2(n)) + 1));
   const width = (hi - lo) / bins;
   const edges = Array.from({ length: bins + 1 }, (_, i) => (i === bins ? hi : lo + i * width));
@@ -29,10 +30,17 @@ export function histogram(values: Float64Array, s: NumericSummary): { edges: num
 export function profileColumn(col: Column, summary?: NumericSummary): ColumnProfile {
   if (col.kind === 'numeric') {
     const s = summary ?? summarizeNumbers(col.values);
-    const n = col.values.length, missing = n - s.count;
+    const n = col.values.length,
+      missing = n - s.count;
     return {
-      n, missing, missingPct: n === 0 ? 0 : (100 * missing) / n, distinct: s.distinct,
-      min: s.min, median: s.median, max: s.max, histogram: histogram(col.values, s),
+      n,
+      missing,
+      missingPct: n === 0 ? 0 : (100 * missing) / n,
+      distinct: s.distinct,
+      min: s.min,
+      median: s.median,
+      max: s.max,
+      histogram: histogram(col.values, s),
     };
   }
   const n = col.codes.length;
@@ -47,9 +55,14 @@ export function profileColumn(col: Column, summary?: NumericSummary): ColumnProf
   const top = order.slice(0, TOP_LEVELS).map((i) => ({ level: col.levels[i], count: counts[i] }));
   const shown = top.reduce((s, t) => s + t.count, 0);
   return {
-    n, missing, missingPct: n === 0 ? 0 : (100 * missing) / n,
+    n,
+    missing,
+    missingPct: n === 0 ? 0 : (100 * missing) / n,
     distinct: counts.filter((c) => c > 0).length,
-    min: NaN, median: NaN, max: NaN,
-    topLevels: top, otherCount: n - missing - shown,
+    min: NaN,
+    median: NaN,
+    max: NaN,
+    topLevels: top,
+    otherCount: n - missing - shown,
   };
 }

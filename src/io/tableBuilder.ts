@@ -69,7 +69,11 @@ export class TableBuilder {
   private addColumn(sourceName: string, fromHeader: boolean): void {
     const name = this.namer.add(sourceName, this.cols.length + 1, fromHeader);
     const left = this.expectedRecords - this.records + (fromHeader ? 0 : 1);
-    const b = new ColumnBuilder(this.reader, this.stripUnits.has(name), Math.max(1024, Math.min(this.nRows + left, 1 << 27)));
+    const b = new ColumnBuilder(
+      this.reader,
+      this.stripUnits.has(name),
+      Math.max(1024, Math.min(this.nRows + left, 1 << 27)),
+    );
     b.padTo(this.nRows);
     this.cols.push(b);
     this.sourceNames.push(sourceName);
@@ -114,7 +118,12 @@ export class TableBuilder {
   /** Adds one delimited-text record given as spans; same result as `addRecord(recordStrings(r), r.count)`. */
   addSpans(r: RecordSpans): void {
     const count = r.count;
-    if (this.pass2 !== null || (this.header && !this.headerSeen) || this.cols.length < count || count < this.headerWidth) {
+    if (
+      this.pass2 !== null ||
+      (this.header && !this.headerSeen) ||
+      this.cols.length < count ||
+      count < this.headerWidth
+    ) {
       this.addRecord(recordStrings(r), count);
       return;
     }
@@ -154,7 +163,12 @@ export class TableBuilder {
   /** Adds one record given as byte spans; same result as `addRecord` on its decoded fields. */
   addBytes(r: ByteRecord, decode: (b: Uint8Array) => string): void {
     const count = r.count;
-    if (this.pass2 !== null || (this.header && !this.headerSeen) || this.cols.length < count || count < this.headerWidth) {
+    if (
+      this.pass2 !== null ||
+      (this.header && !this.headerSeen) ||
+      this.cols.length < count ||
+      count < this.headerWidth
+    ) {
       this.addRecord(byteRecordStrings(r, decode), count);
       return;
     }
@@ -203,7 +217,9 @@ export class TableBuilder {
 
   /** Starts the second pass: the caller then feeds the same records again. */
   beginTextPass(columns: number[]): void {
-    this.pass2 = new Map(columns.map((j) => [j, { dict: new Map(), levels: [], counts: [], codes: new Int32Array(this.nRows) }]));
+    this.pass2 = new Map(
+      columns.map((j) => [j, { dict: new Map(), levels: [], counts: [], codes: new Int32Array(this.nRows) }]),
+    );
     this.records = 0;
     this.pass2Row = 0;
     this.headerSeen = false;

@@ -11,7 +11,8 @@ const ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"'
 
 export function unescapeXml(s: string): string {
   return s.replace(/&(amp|lt|gt|quot|apos);|&#(\d+);|&#x([0-9a-f]+);/gi, (_, name: string, dec: string, hex: string) =>
-    name ? ENTITIES[name.toLowerCase()] : String.fromCodePoint(dec ? Number(dec) : parseInt(hex, 16)));
+    name ? ENTITIES[name.toLowerCase()] : String.fromCodePoint(dec ? Number(dec) : parseInt(hex, 16)),
+  );
 }
 
 function attr(attrs: string, name: string): string | undefined {
@@ -32,7 +33,8 @@ export function cellAddress(ref: string): { row: number; col: number } | null {
 export function workbookSheets(workbookXml: string, relsXml: string): { name: string; path: string }[] {
   const targets = new Map<string, string>();
   for (const m of relsXml.matchAll(/<Relationship\b([^>]*)\/?>/g)) {
-    const id = attr(m[1], 'Id'), target = attr(m[1], 'Target');
+    const id = attr(m[1], 'Id'),
+      target = attr(m[1], 'Target');
     if (id && target) targets.set(id, target.startsWith('/') ? target.slice(1) : `xl/${target}`);
   }
   const out: { name: string; path: string }[] = [];
@@ -49,7 +51,8 @@ export function scanSheet(xml: string): SheetScan {
   const scan: SheetScan = { errors: [], formulas: 0, formulasWithoutValue: [] };
   if (xml.indexOf('t="e"') < 0 && xml.indexOf('<f') < 0) return scan;
   for (const m of xml.matchAll(/<c\b([^>]*?)(?:\/>|>([\s\S]*?)<\/c>)/g)) {
-    const attrs = m[1], body = m[2] ?? '';
+    const attrs = m[1],
+      body = m[2] ?? '';
     const hasFormula = /<f\b/.test(body);
     const ref = attr(attrs, 'r') ?? '';
     if (hasFormula) {

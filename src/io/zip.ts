@@ -7,7 +7,9 @@ export interface ZipEntry {
   offset: number;
 }
 
-const EOCD = 0x06054b50, CENTRAL = 0x02014b50, LOCAL = 0x04034b50;
+const EOCD = 0x06054b50,
+  CENTRAL = 0x02014b50,
+  LOCAL = 0x04034b50;
 
 /** True when the bytes start like a zip archive (an .xlsx is one). */
 export function looksLikeZip(b: Uint8Array): boolean {
@@ -29,14 +31,21 @@ export function listZip(b: Uint8Array): ZipEntry[] {
       break;
     }
   }
-  if (eocd < 0) throw new FulcraError('bad-zip', 'The workbook is damaged: its table of contents is missing (the file may be cut short).');
+  if (eocd < 0)
+    throw new FulcraError(
+      'bad-zip',
+      'The workbook is damaged: its table of contents is missing (the file may be cut short).',
+    );
   const count = view.getUint16(eocd + 10, true);
   let p = view.getUint32(eocd + 16, true);
   const out: ZipEntry[] = [];
   const dec = new TextDecoder();
   for (let k = 0; k < count; k++) {
-    if (p + 46 > b.length || view.getUint32(p, true) !== CENTRAL) throw new FulcraError('bad-zip', 'The workbook is damaged: its table of contents is unreadable.');
-    const nameLen = view.getUint16(p + 28, true), extra = view.getUint16(p + 30, true), comment = view.getUint16(p + 32, true);
+    if (p + 46 > b.length || view.getUint32(p, true) !== CENTRAL)
+      throw new FulcraError('bad-zip', 'The workbook is damaged: its table of contents is unreadable.');
+    const nameLen = view.getUint16(p + 28, true),
+      extra = view.getUint16(p + 30, true),
+      comment = view.getUint16(p + 32, true);
     out.push({
       name: dec.decode(b.subarray(p + 46, p + 46 + nameLen)),
       method: view.getUint16(p + 10, true),
@@ -57,12 +66,17 @@ export async function readZipEntry(b: Uint8Array, e: ZipEntry): Promise<Uint8Arr
   const start = e.offset + 30 + view.getUint16(e.offset + 26, true) + view.getUint16(e.offset + 28, true);
   const data = b.slice(start, start + e.compressedSize);
   if (e.method === 0) return data;
-  if (e.method !== 8) throw new FulcraError('bad-zip', `The workbook part "${e.name}" uses a compression this program cannot read.`);
+  if (e.method !== 8)
+    throw new FulcraError('bad-zip', `The workbook part "${e.name}" uses a compression this program cannot read.`);
   try {
     const stream = new Blob([data]).stream().pipeThrough(new DecompressionStream('deflate-raw'));
     return new Uint8Array(await new Response(stream).arrayBuffer());
   } catch {
-    throw new FulcraError('bad-zip', `The workbook is damaged: part "${e.name}" cannot be unpacked.`, 'Open it in the spreadsheet and save it again.');
+    throw new FulcraError(
+      'bad-zip',
+      `The workbook is damaged: part "${e.name}" cannot be unpacked.`,
+      'Open it in the spreadsheet and save it again.',
+    );
   }
 }
 

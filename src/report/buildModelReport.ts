@@ -1,6 +1,15 @@
 import { PdfLayout } from './pdfLayout';
 import type { ReportInput } from './reportInput';
-import { dataSection, equation, imputation, method, oddsRatios, predictors, purpose, sampleSize } from './reportSectionsModel';
+import {
+  dataSection,
+  equation,
+  imputation,
+  method,
+  oddsRatios,
+  predictors,
+  purpose,
+  sampleSize,
+} from './reportSectionsModel';
 import { cautions, performance, plots, threshold, warningsSection } from './reportSectionsResults';
 
 export { REPORT_CAUTIONS } from './reportSectionsResults';
@@ -38,7 +47,9 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   warningsSection(L, [...m.warnings, ...(input.warnings ?? [])]);
   cautions(L);
 
-  L.footer(`Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 data SHA-256 ${input.meta.dataChecksum.slice(0, 12)}\u2026`);
+  L.footer(
+    `Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 data SHA-256 ${input.meta.dataChecksum.slice(0, 12)}\u2026`,
+  );
   return new Uint8Array(L.doc.output('arraybuffer'));
 }
 
@@ -54,11 +65,18 @@ function titleBlock(L: PdfLayout, input: ReportInput): void {
   L.doc.text(input.meta.title ?? `Risk model for "${m.recipe.outcome}" = ${m.recipe.event}`, L.left, L.y + 6);
   L.doc.setTextColor(0, 0, 0);
   L.y += 10;
-  L.paragraph('Logistic regression model summary, prepared with Fulcra for review by a governance committee.', { size: 9.5, color: [80, 80, 80] });
-  L.keyValues([
-    ['Report date', new Date(input.meta.created).toISOString().replace('T', ' ').slice(0, 16) + ' UTC'],
-    ['Fulcra version', input.meta.fulcraVersion],
-    ['Random seed', input.meta.seed === null ? 'none used' : String(input.meta.seed)],
-    ['Data checksum', `SHA-256 ${input.meta.dataChecksum}`],
-  ], 36, 8.5);
+  L.paragraph('Logistic regression model summary, prepared with Fulcra for review by a governance committee.', {
+    size: 9.5,
+    color: [80, 80, 80],
+  });
+  L.keyValues(
+    [
+      ['Report date', new Date(input.meta.created).toISOString().replace('T', ' ').slice(0, 16) + ' UTC'],
+      ['Fulcra version', input.meta.fulcraVersion],
+      ['Random seed', input.meta.seed === null ? 'none used' : String(input.meta.seed)],
+      ['Data checksum', `SHA-256 ${input.meta.dataChecksum}`],
+    ],
+    36,
+    8.5,
+  );
 }

@@ -79,4 +79,3 @@ function splineBasisText(names: string[], k: number): string {
 
 /** Risk from a linear predictor, as printed under the equation. */
 export const riskFormula = `risk = 1 / (1 + exp(${MINUS}logit(risk)))`;
-

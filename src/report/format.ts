@@ -33,7 +33,11 @@ export function formatP(p: number | null | undefined): string {
 }
 
 /** An interval written "lower to upper" (avoids confusing a dash with a minus sign). */
-export function formatInterval(lower: number | null | undefined, upper: number | null | undefined, digits: number): string {
+export function formatInterval(
+  lower: number | null | undefined,
+  upper: number | null | undefined,
+  digits: number,
+): string {
   if (lower === null || lower === undefined || upper === null || upper === undefined) return DASH;
   if (!Number.isFinite(lower) && !Number.isFinite(upper)) return DASH;
   return `${formatFixed(lower, digits)} to ${formatFixed(upper, digits)}`;
@@ -48,7 +52,9 @@ export function formatPercent(x: number | null | undefined, digits = 1): string 
 /** Integer with comma grouping ("12,345"). */
 export function formatCount(n: number | null | undefined): string {
   if (n === null || n === undefined || !Number.isFinite(n)) return DASH;
-  const s = Math.round(Math.abs(n)).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+  const s = Math.round(Math.abs(n))
+    .toString()
+    .replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return n < 0 ? MINUS + s : s;
 }
 

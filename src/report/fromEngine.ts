@@ -42,10 +42,16 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     lambdaChoice: r.lambdaChoice,
     missingData: r.missingData,
     imputation: r.imputation,
-    warnings: [...(ev?.warnings ?? []), ...(r.validation?.warnings ?? []), ...(r.sampleSize?.warnings ?? []), ...(r.warnings ?? [])],
+    warnings: [
+      ...(ev?.warnings ?? []),
+      ...(r.validation?.warnings ?? []),
+      ...(r.sampleSize?.warnings ?? []),
+      ...(r.warnings ?? []),
+    ],
   };
   if (ev) {
-    const e = (x: { estimate: number; lower: number; upper: number } | null): Estimate | null => (x ? { estimate: x.estimate, lower: x.lower, upper: x.upper } : null);
+    const e = (x: { estimate: number; lower: number; upper: number } | null): Estimate | null =>
+      x ? { estimate: x.estimate, lower: x.lower, upper: x.upper } : null;
     input.apparent = {
       auc: ev.auc.auc === null ? null : { estimate: ev.auc.auc, lower: ev.auc.lower, upper: ev.auc.upper },
       calibrationSlope: e(ev.calibration.slope),
@@ -58,15 +64,30 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     input.calibration = { predicted: cc.predicted, observed: cc.observed, lower: cc.lower, upper: cc.upper };
     input.calibrationErrors = { ici: cc.ici, e50: cc.e50, e90: cc.e90, emax: cc.emax };
     if (ev.hosmerLemeshow) {
-      input.calibration.groups = ev.hosmerLemeshow.groups.map((g) => ({ predicted: g.meanRisk, observed: g.observedEvents / g.n }));
+      input.calibration.groups = ev.hosmerLemeshow.groups.map((g) => ({
+        predicted: g.meanRisk,
+        observed: g.observedEvents / g.n,
+      }));
     }
-    input.decisionCurve = { thresholds: ev.decisionCurve.thresholds, model: ev.decisionCurve.model, treatAll: ev.decisionCurve.treatAll };
+    input.decisionCurve = {
+      thresholds: ev.decisionCurve.thresholds,
+      model: ev.decisionCurve.model,
+      treatAll: ev.decisionCurve.treatAll,
+    };
     const at = ev.atThreshold;
     if (at && r.costs) {
       input.threshold = {
-        threshold: at.threshold, costFalseNegative: r.costs.falseNegative, costFalsePositive: r.costs.falsePositive,
-        tp: at.tp, fp: at.fp, fn: at.fn, tn: at.tn,
-        sensitivity: at.sensitivity, specificity: at.specificity, ppv: at.ppv, npv: at.npv,
+        threshold: at.threshold,
+        costFalseNegative: r.costs.falseNegative,
+        costFalsePositive: r.costs.falsePositive,
+        tp: at.tp,
+        fp: at.fp,
+        fn: at.fn,
+        tn: at.tn,
+        sensitivity: at.sensitivity,
+        specificity: at.specificity,
+        ppv: at.ppv,
+        npv: at.npv,
         fractionFlagged: at.fractionFlagged.estimate ?? undefined,
         expectedCostPer100: at.expectedCostPer100 ?? undefined,
         lrPositive: { estimate: at.lrPositive, ci: at.lrPositiveCi },
@@ -87,14 +108,18 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
       return x && x.optimism !== null ? { estimate: x.optimism, lower: x.lower, upper: x.upper } : null;
     };
     const pick = (f: (m: MetricName) => Estimate | null): PerformanceSummary => ({
-      auc: f('auc'), calibrationSlope: f('calibrationSlope'), calibrationIntercept: f('calibrationInTheLarge'), brier: f('brier'),
+      auc: f('auc'),
+      calibrationSlope: f('calibrationSlope'),
+      calibrationIntercept: f('calibrationInTheLarge'),
+      brier: f('brier'),
     });
     input.corrected = {
       ...pick(corr),
       optimism: pick(opt),
-      method: v.method === 'bootstrap'
-        ? 'bootstrap optimism correction, refitting the whole modelling procedure in each replicate (Harrell, Lee & Mark 1996, Stat Med 15:361)'
-        : 'repeated cross-validation',
+      method:
+        v.method === 'bootstrap'
+          ? 'bootstrap optimism correction, refitting the whole modelling procedure in each replicate (Harrell, Lee & Mark 1996, Stat Med 15:361)'
+          : 'repeated cross-validation',
       replicates: v.planned - v.failed,
     };
   }

@@ -2,7 +2,5 @@ export { buildModelReport, REPORT_CAUTIONS } from './buildModelReport';
 export { reportInputFromRecords, type ReportRecords } from './fromEngine';
 export { dateRangeOf } from './dateRange';
 export { modelEquation, type ModelEquation } from './equation';
-export { downloadFile, suggestedFileName } from '../ui/download';
-export { svgToPngBlob, svgToString } from '../ui/plotExport';
 export type { ReportInput } from './reportInput';
 export { FULCRA_VERSION } from './version';

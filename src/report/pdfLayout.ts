@@ -85,7 +85,10 @@ export class PdfLayout {
     this.y += 6;
   }
 
-  paragraph(text: string, options: { size?: number; bold?: boolean; indent?: number; gap?: number; color?: [number, number, number] } = {}): void {
+  paragraph(
+    text: string,
+    options: { size?: number; bold?: boolean; indent?: number; gap?: number; color?: [number, number, number] } = {},
+  ): void {
     const size = options.size ?? 9.5;
     const indent = options.indent ?? 0;
     this.setFont(size, options.bold ?? false);

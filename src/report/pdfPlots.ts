@@ -19,9 +19,24 @@ const ORANGE: Rgb = [200, 110, 30];
  * Axes, ticks and labels in the box (left, top, size × size mm); returns the scales mapping data to mm.
  * Vector only (jsPDF lines and text), drawn from the same plain plot data the workbench uses.
  */
-function frame(doc: jsPDF, left: number, top: number, w: number, h: number, xDomain: [number, number], yDomain: [number, number], xLabel: string, yLabel: string, title: string): Frame {
-  const x = scaleLinear().domain(xDomain).range([left, left + w]);
-  const y = scaleLinear().domain(yDomain).range([top + h, top]);
+function frame(
+  doc: jsPDF,
+  left: number,
+  top: number,
+  w: number,
+  h: number,
+  xDomain: [number, number],
+  yDomain: [number, number],
+  xLabel: string,
+  yLabel: string,
+  title: string,
+): Frame {
+  const x = scaleLinear()
+    .domain(xDomain)
+    .range([left, left + w]);
+  const y = scaleLinear()
+    .domain(yDomain)
+    .range([top + h, top]);
   doc.setFont(FONT, 'bold');
   doc.setFontSize(9);
   doc.text(title, left, top - 3);
@@ -88,7 +103,12 @@ function clamp(v: number, domain: number[]): number {
   return Math.min(Math.max(v, domain[0]), domain[1]);
 }
 
-function legend(doc: jsPDF, x: number, y: number, items: { label: string; color: Rgb; dash?: number[]; dot?: boolean }[]): void {
+function legend(
+  doc: jsPDF,
+  x: number,
+  y: number,
+  items: { label: string; color: Rgb; dash?: number[]; dot?: boolean }[],
+): void {
   doc.setFont(FONT, 'normal');
   doc.setFontSize(7);
   items.forEach((it, i) => {
@@ -121,7 +141,11 @@ export function drawRoc(doc: jsPDF, left: number, top: number, size: number, dat
 }
 
 export function drawCalibration(doc: jsPDF, left: number, top: number, size: number, data: CalibrationPlotData): void {
-  const maxVal = Math.max(0.05, ...data.predicted.filter(Number.isFinite), ...(data.groups ?? []).map((g) => g.predicted));
+  const maxVal = Math.max(
+    0.05,
+    ...data.predicted.filter(Number.isFinite),
+    ...(data.groups ?? []).map((g) => g.predicted),
+  );
   const hi = Math.min(1, Math.ceil(maxVal * 10 + 1e-9) / 10);
   const f = frame(doc, left, top, size, size, [0, hi], [0, hi], 'Predicted risk', 'Observed risk', 'Calibration');
   if (data.lower && data.upper && data.lower.length === data.predicted.length) {
@@ -149,16 +173,35 @@ export function drawCalibration(doc: jsPDF, left: number, top: number, size: num
     { label: 'flexible calibration curve', color: BLUE },
     { label: 'ideal', color: GREY, dash: [1.2, 1.2] },
   ];
-  if (data.groups && data.groups.length > 0) items.push({ label: 'groups by tenths of risk', color: ORANGE, dot: true });
+  if (data.groups && data.groups.length > 0)
+    items.push({ label: 'groups by tenths of risk', color: ORANGE, dot: true });
   legend(doc, left + 2, top + 3, items);
 }
 
-export function drawDecisionCurve(doc: jsPDF, left: number, top: number, w: number, h: number, data: DecisionCurvePlotData): void {
+export function drawDecisionCurve(
+  doc: jsPDF,
+  left: number,
+  top: number,
+  w: number,
+  h: number,
+  data: DecisionCurvePlotData,
+): void {
   const finite = [...data.model, ...data.treatAll].filter(Number.isFinite);
   const yMax = Math.max(0.01, ...finite);
   const yMin = -0.25 * yMax;
   const xMax = Math.max(...data.thresholds.filter(Number.isFinite), 0.01);
-  const f = frame(doc, left, top, w, h, [0, xMax], [yMin, yMax], 'Threshold probability', 'Net benefit', 'Decision curve');
+  const f = frame(
+    doc,
+    left,
+    top,
+    w,
+    h,
+    [0, xMax],
+    [yMin, yMax],
+    'Threshold probability',
+    'Net benefit',
+    'Decision curve',
+  );
   polyline(doc, f, [0, xMax], [0, 0], GREY, 0.4);
   polyline(doc, f, data.thresholds, data.treatAll, ORANGE, 0.45, [1.5, 1]);
   polyline(doc, f, data.thresholds, data.model, BLUE, 0.6);

@@ -81,7 +81,15 @@ export interface ImputationSummary {
   nRows: number;
   nImputedRows: number;
   columns: { column: string; cells: number; method: string }[];
-  rows: { name: string; estimate: number; oddsRatio: number; lower: number | null; upper: number | null; p: number | null; fmi: number | null }[];
+  rows: {
+    name: string;
+    estimate: number;
+    oddsRatio: number;
+    lower: number | null;
+    upper: number | null;
+    p: number | null;
+    fmi: number | null;
+  }[];
 }
 
 export interface ReportInput {

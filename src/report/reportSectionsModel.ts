@@ -1,7 +1,17 @@
 import { isPenalised } from '../engine/core';
 import type { FitResult } from '../engine/core';
 import { modelEquation, riskFormula } from './equation';
-import { DASH, formatCount, formatFixed, formatOr, formatP, formatPercent, formatPlain, formatSig, levelText } from './format';
+import {
+  DASH,
+  formatCount,
+  formatFixed,
+  formatOr,
+  formatP,
+  formatPercent,
+  formatPlain,
+  formatSig,
+  levelText,
+} from './format';
 import type { PdfLayout } from './pdfLayout';
 import type { ReportInput } from './reportInput';
 
@@ -32,18 +42,32 @@ export function dataSection(L: PdfLayout, input: ReportInput): void {
     ['Data file', s.fileName],
     ['Rows in file', formatCount(s.rows) + (s.columns !== undefined ? ` (${formatCount(s.columns)} columns)` : '')],
   ];
-  if (s.dateRange) rows.push(['Date range', `${s.dateRange.from} to ${s.dateRange.to} (column "${s.dateRange.column}")`]);
+  if (s.dateRange)
+    rows.push(['Date range', `${s.dateRange.from} to ${s.dateRange.to} (column "${s.dateRange.column}")`]);
   rows.push(
     ['Outcome', `"${m.recipe.outcome}"; the event is "${m.recipe.event}"`],
-    ['Rows used', `${formatCount(m.nUsed)}: ${formatCount(m.events)} events (${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`],
-    ['Rows left out', m.nDropped === 0 ? 'none' : `${formatCount(m.nDropped)} with a missing value in the outcome or a predictor`],
+    [
+      'Rows used',
+      `${formatCount(m.nUsed)}: ${formatCount(m.events)} events (${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
+    ],
+    [
+      'Rows left out',
+      m.nDropped === 0 ? 'none' : `${formatCount(m.nDropped)} with a missing value in the outcome or a predictor`,
+    ],
   );
   const dropped = Object.entries(m.droppedByColumn).filter(([, n]) => n > 0);
-  if (dropped.length > 0) rows.push(['Missing by column', dropped.map(([c, n]) => `${c}: ${formatCount(n)}`).join('; ')]);
+  if (dropped.length > 0)
+    rows.push(['Missing by column', dropped.map(([c, n]) => `${c}: ${formatCount(n)}`).join('; ')]);
   const imputed = input.imputation
     ? ` As a sensitivity analysis the same model was also fitted on ${input.imputation.m} multiply imputed datasets and pooled by Rubin\u2019s rules (section \u201cMultiple imputation\u201d).`
     : '';
-  rows.push(['Missing data handling', input.missingData ?? (m.nDropped > 0 ? `Complete-case analysis: rows with any missing value in the model\u2019s variables were left out. This is unbiased only if missingness does not depend on the outcome (for example, if data are missing completely at random).${imputed}` : 'No missing values in the model\u2019s variables.')]);
+  rows.push([
+    'Missing data handling',
+    input.missingData ??
+      (m.nDropped > 0
+        ? `Complete-case analysis: rows with any missing value in the model\u2019s variables were left out. This is unbiased only if missingness does not depend on the outcome (for example, if data are missing completely at random).${imputed}`
+        : 'No missing values in the model\u2019s variables.'),
+  ]);
   L.keyValues(rows, 42);
 }
 
@@ -54,18 +78,29 @@ export function predictors(L: PdfLayout, m: FitResult): void {
       case 'numeric':
         return [t.name, 'continuous', 'linear (as recorded)'];
       case 'categorical':
-        return [t.name, `categorical, ${t.levels.length} levels`, `indicator coding; reference "${t.reference}"; levels ${t.levels.map((l) => `"${l}"`).join(', ')}`];
+        return [
+          t.name,
+          `categorical, ${t.levels.length} levels`,
+          `indicator coding; reference "${t.reference}"; levels ${t.levels.map((l) => `"${l}"`).join(', ')}`,
+        ];
       case 'spline':
-        return [t.name, 'continuous', `restricted cubic spline, ${t.knots.length} knots at ${t.knots.map((k) => formatPlain(k, 6)).join(', ')}`];
+        return [
+          t.name,
+          'continuous',
+          `restricted cubic spline, ${t.knots.length} knots at ${t.knots.map((k) => formatPlain(k, 6)).join(', ')}`,
+        ];
       case 'interaction':
         return [t.name, 'interaction', `product of ${t.parts[0]} and ${t.parts[1]}`];
     }
   });
-  L.table([
-    { header: 'Term', width: 42 },
-    { header: 'Type', width: 38 },
-    { header: 'Handling', width: 94 },
-  ], rows);
+  L.table(
+    [
+      { header: 'Term', width: 42 },
+      { header: 'Type', width: 38 },
+      { header: 'Handling', width: 94 },
+    ],
+    rows,
+  );
 }
 
 export function sampleSize(L: PdfLayout, input: ReportInput): void {
@@ -77,11 +112,25 @@ export function sampleSize(L: PdfLayout, input: ReportInput): void {
   ];
   const s = input.sampleSize;
   if (s) {
-    rows.push(['Minimum sample size', s.requiredN === null ? DASH : `${formatCount(s.requiredN)} (Riley et al. 2020, BMJ 368:m441)${s.bindingCriterion ? `; binding criterion: ${s.bindingCriterion}` : ''}`]);
+    rows.push([
+      'Minimum sample size',
+      s.requiredN === null
+        ? DASH
+        : `${formatCount(s.requiredN)} (Riley et al. 2020, BMJ 368:m441)${s.bindingCriterion ? `; binding criterion: ${s.bindingCriterion}` : ''}`,
+    ]);
     for (const c of s.criteria ?? []) rows.push([`  ${c.label}`, c.n === null ? DASH : formatCount(c.n)]);
-    if (s.assumedR2 !== undefined && s.assumedR2 !== null) rows.push(['Assumed Cox\u2013Snell R\u00b2', formatFixed(s.assumedR2, 3)]);
-    if (s.shrinkageTarget !== undefined && s.shrinkageTarget !== null) rows.push(['Target shrinkage', `\u2265 ${formatFixed(s.shrinkageTarget, 2)}`]);
-    rows.push(['Check', s.met === null ? 'could not be assessed' : s.met ? `met: ${formatCount(m.nUsed)} rows used \u2265 ${formatCount(s.requiredN)} required` : `NOT met: ${formatCount(m.nUsed)} rows used < ${formatCount(s.requiredN)} required; expect overfitting`]);
+    if (s.assumedR2 !== undefined && s.assumedR2 !== null)
+      rows.push(['Assumed Cox\u2013Snell R\u00b2', formatFixed(s.assumedR2, 3)]);
+    if (s.shrinkageTarget !== undefined && s.shrinkageTarget !== null)
+      rows.push(['Target shrinkage', `\u2265 ${formatFixed(s.shrinkageTarget, 2)}`]);
+    rows.push([
+      'Check',
+      s.met === null
+        ? 'could not be assessed'
+        : s.met
+          ? `met: ${formatCount(m.nUsed)} rows used \u2265 ${formatCount(s.requiredN)} required`
+          : `NOT met: ${formatCount(m.nUsed)} rows used < ${formatCount(s.requiredN)} required; expect overfitting`,
+    ]);
   } else {
     rows.push(['Minimum sample size', 'Riley criteria not computed for this report.']);
   }
@@ -95,19 +144,38 @@ export function method(L: PdfLayout, input: ReportInput): void {
   if (m.method === 'ml') {
     text = 'Logistic regression fitted by maximum likelihood (Newton\u2013Raphson).';
   } else if (m.method === 'firth') {
-    text = 'Logistic regression with Firth\u2019s penalised likelihood (Jeffreys prior; Firth 1993, Biometrika 80:27), which reduces small-sample bias and gives finite estimates under separation (Heinze & Schemper 2002, Stat Med 21:2409).';
+    text =
+      'Logistic regression with Firth\u2019s penalised likelihood (Jeffreys prior; Firth 1993, Biometrika 80:27), which reduces small-sample bias and gives finite estimates under separation (Heinze & Schemper 2002, Stat Med 21:2409).';
   } else {
-    const kind = m.method === 'lasso' ? 'Lasso (L1)' : m.method === 'elastic-net' ? `Elastic-net (\u03b1 = ${formatSig(m.alpha ?? 0.5, 3)}: L1 share)` : 'Ridge (L2)';
+    const kind =
+      m.method === 'lasso'
+        ? 'Lasso (L1)'
+        : m.method === 'elastic-net'
+          ? `Elastic-net (\u03b1 = ${formatSig(m.alpha ?? 0.5, 3)}: L1 share)`
+          : 'Ridge (L2)';
     text = `${kind} penalised logistic regression, \u03bb = ${formatSig(m.lambda, 4)} on the standardised scale (intercept not penalised). \u03bb chosen by: ${input.lambdaChoice ?? 'set by the user'}. Coefficients are shrunk towards zero on purpose; standard errors, p-values and intervals of a penalised fit are not valid and are not reported.`;
   }
   const penalised = isPenalised(m.method);
   const rows: [string, string][] = [
     ['Method', text],
-    ['Convergence', m.converged ? `converged in ${m.iterations} iterations` : `did NOT converge after ${m.iterations} iterations; estimates are unreliable`],
-    ['Intervals', penalised ? 'not reported (no valid intervals after penalised shrinkage)' : `${levelText(m.level)} confidence intervals; profile likelihood where available, otherwise Wald`],
-    ['Fit', penalised
-      ? `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}), unpenalised, at the shrunken estimates`
-      : `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}); likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`],
+    [
+      'Convergence',
+      m.converged
+        ? `converged in ${m.iterations} iterations`
+        : `did NOT converge after ${m.iterations} iterations; estimates are unreliable`,
+    ],
+    [
+      'Intervals',
+      penalised
+        ? 'not reported (no valid intervals after penalised shrinkage)'
+        : `${levelText(m.level)} confidence intervals; profile likelihood where available, otherwise Wald`,
+    ],
+    [
+      'Fit',
+      penalised
+        ? `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}), unpenalised, at the shrunken estimates`
+        : `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}); likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`,
+    ],
   ];
   L.keyValues(rows, 30);
 }
@@ -119,7 +187,10 @@ function pText(p: number | null): string {
 
 export function equation(L: PdfLayout, m: FitResult): void {
   L.section('Model equation');
-  L.paragraph('The full model, so that it can be re-implemented. Square brackets name a design variable; its coding is given below.', { size: 9 });
+  L.paragraph(
+    'The full model, so that it can be re-implemented. Square brackets name a design variable; its coding is given below.',
+    { size: 9 },
+  );
   const eq = modelEquation(m);
   L.setFont(9.5);
   const lh = L.lineHeight(9.5);
@@ -135,7 +206,8 @@ export function equation(L: PdfLayout, m: FitResult): void {
   }
   L.y += 1;
   L.paragraph(riskFormula, { size: 9.5, indent: 2, gap: 2.5 });
-  if (eq.omitted.length > 0) L.paragraph(`Omitted (aliased, estimate fixed at 0): ${eq.omitted.join(', ')}.`, { size: 9 });
+  if (eq.omitted.length > 0)
+    L.paragraph(`Omitted (aliased, estimate fixed at 0): ${eq.omitted.join(', ')}.`, { size: 9 });
   L.subheading('Coding of the design variables');
   for (const line of eq.coding) L.bullet(line, 8.5);
 }
@@ -153,30 +225,38 @@ export function oddsRatios(L: PdfLayout, m: FitResult): void {
       formatFixed(c.estimate, 4),
       c.se === null ? DASH : formatFixed(c.se, 4),
       isIntercept ? DASH : formatOr(c.oddsRatio, c.estimate),
-      isIntercept || lo === null || hi === null ? DASH : `${formatOr(Math.exp(lo), c.estimate)} to ${formatOr(Math.exp(hi), c.estimate)}`,
+      isIntercept || lo === null || hi === null
+        ? DASH
+        : `${formatOr(Math.exp(lo), c.estimate)} to ${formatOr(Math.exp(hi), c.estimate)}`,
       formatP(c.p),
     ];
   });
-  L.table([
-    { header: 'Design variable', width: 52 },
-    { header: '\u03b2', width: 20, align: 'right' },
-    { header: 'SE', width: 18, align: 'right' },
-    { header: 'Odds ratio', width: 22, align: 'right' },
-    { header: `${lvl} CI of odds ratio`, width: 38, align: 'right' },
-    { header: 'p (Wald)', width: 24, align: 'right' },
-  ], rows);
+  L.table(
+    [
+      { header: 'Design variable', width: 52 },
+      { header: '\u03b2', width: 20, align: 'right' },
+      { header: 'SE', width: 18, align: 'right' },
+      { header: 'Odds ratio', width: 22, align: 'right' },
+      { header: `${lvl} CI of odds ratio`, width: 38, align: 'right' },
+      { header: 'p (Wald)', width: 24, align: 'right' },
+    ],
+    rows,
+  );
   const anyWald = m.coefficients.some((c) => c.waldLower !== null && c.waldUpper !== null);
   const intervals = anyProfile ? 'profile likelihood' : anyWald ? 'Wald' : 'none (not valid for this method)';
   L.paragraph(`Odds ratio = exp(\u03b2), per one unit of the design variable. Intervals: ${intervals}.`, { size: 8.5 });
   const multi = m.terms.filter((t) => t.df > 1 && t.lrP !== null);
   if (multi.length > 0) {
     L.subheading('Terms with more than one design variable (likelihood-ratio test of the whole term)');
-    L.table([
-      { header: 'Term', width: 70 },
-      { header: 'df', width: 20, align: 'right' },
-      { header: '\u03c7\u00b2', width: 30, align: 'right' },
-      { header: 'p', width: 30, align: 'right' },
-    ], multi.map((t) => [t.name, String(t.df), formatFixed(t.lrChi2, 2), formatP(t.lrP)]));
+    L.table(
+      [
+        { header: 'Term', width: 70 },
+        { header: 'df', width: 20, align: 'right' },
+        { header: '\u03c7\u00b2', width: 30, align: 'right' },
+        { header: 'p', width: 30, align: 'right' },
+      ],
+      multi.map((t) => [t.name, String(t.df), formatFixed(t.lrChi2, 2), formatP(t.lrP)]),
+    );
   }
 }
 
@@ -187,28 +267,38 @@ export function imputation(L: PdfLayout, input: ReportInput): void {
   const m = input.model;
   L.section('Multiple imputation (sensitivity analysis)');
   const filled = imp.columns.map((c) => `${c.column}: ${formatCount(c.cells)} cells by ${c.method}`).join('; ');
-  L.paragraph(`The same model fitted on each of ${imp.m} datasets completed by chained-equation imputation (van Buuren & Groothuis-Oudshoorn 2011), pooled by Rubin\u2019s rules with Barnard\u2013Rubin degrees of freedom. ${formatCount(imp.nImputedRows)} of ${formatCount(imp.nRows)} rows had a value filled in (${filled}). The model above remains the complete-case fit; large differences between the two columns of \u03b2 below mean the complete-case estimates may be biased by the missing values.`, { size: 9 });
+  L.paragraph(
+    `The same model fitted on each of ${imp.m} datasets completed by chained-equation imputation (van Buuren & Groothuis-Oudshoorn 2011), pooled by Rubin\u2019s rules with Barnard\u2013Rubin degrees of freedom. ${formatCount(imp.nImputedRows)} of ${formatCount(imp.nRows)} rows had a value filled in (${filled}). The model above remains the complete-case fit; large differences between the two columns of \u03b2 below mean the complete-case estimates may be biased by the missing values.`,
+    { size: 9 },
+  );
   const lvl = levelText(imp.level);
-  L.table([
-    { header: 'Design variable', width: 40 },
-    { header: '\u03b2 pooled', width: 20, align: 'right' },
-    { header: 'Odds ratio', width: 20, align: 'right' },
-    { header: `${lvl} CI of odds ratio`, width: 36, align: 'right' },
-    { header: 'p', width: 16, align: 'right' },
-    { header: 'FMI', width: 12, align: 'right' },
-    { header: '\u03b2 complete cases', width: 30, align: 'right' },
-  ], imp.rows.map((r, j) => {
-    const cc = m.coefficients.find((c) => c.name === r.name);
-    const isIntercept = j === 0;
-    return [
-      r.name,
-      formatFixed(r.estimate, 4),
-      isIntercept ? DASH : formatOr(r.oddsRatio, r.estimate),
-      isIntercept || r.lower === null || r.upper === null ? DASH : `${formatOr(Math.exp(r.lower), r.estimate)} to ${formatOr(Math.exp(r.upper), r.estimate)}`,
-      formatP(r.p),
-      r.fmi === null ? DASH : formatFixed(r.fmi, 2),
-      cc ? formatFixed(cc.estimate, 4) : DASH,
-    ];
-  }));
-  L.paragraph('FMI: fraction of missing information. Intervals: Wald with Barnard\u2013Rubin degrees of freedom.', { size: 8.5 });
+  L.table(
+    [
+      { header: 'Design variable', width: 40 },
+      { header: '\u03b2 pooled', width: 20, align: 'right' },
+      { header: 'Odds ratio', width: 20, align: 'right' },
+      { header: `${lvl} CI of odds ratio`, width: 36, align: 'right' },
+      { header: 'p', width: 16, align: 'right' },
+      { header: 'FMI', width: 12, align: 'right' },
+      { header: '\u03b2 complete cases', width: 30, align: 'right' },
+    ],
+    imp.rows.map((r, j) => {
+      const cc = m.coefficients.find((c) => c.name === r.name);
+      const isIntercept = j === 0;
+      return [
+        r.name,
+        formatFixed(r.estimate, 4),
+        isIntercept ? DASH : formatOr(r.oddsRatio, r.estimate),
+        isIntercept || r.lower === null || r.upper === null
+          ? DASH
+          : `${formatOr(Math.exp(r.lower), r.estimate)} to ${formatOr(Math.exp(r.upper), r.estimate)}`,
+        formatP(r.p),
+        r.fmi === null ? DASH : formatFixed(r.fmi, 2),
+        cc ? formatFixed(cc.estimate, 4) : DASH,
+      ];
+    }),
+  );
+  L.paragraph('FMI: fraction of missing information. Intervals: Wald with Barnard\u2013Rubin degrees of freedom.', {
+    size: 8.5,
+  });
 }

@@ -1,5 +1,14 @@
 import type { EngineWarning } from '../engine/core';
-import { DASH, formatCount, formatFixed, formatInterval, formatPercent, formatPlain, formatSig, levelText } from './format';
+import {
+  DASH,
+  formatCount,
+  formatFixed,
+  formatInterval,
+  formatPercent,
+  formatPlain,
+  formatSig,
+  levelText,
+} from './format';
 import type { PdfLayout } from './pdfLayout';
 import { drawCalibration, drawDecisionCurve, drawRoc } from './pdfPlots';
 import type { Estimate, PerformanceSummary, ReportInput, ThresholdSummary } from './reportInput';
@@ -44,24 +53,35 @@ export function performance(L: PdfLayout, input: ReportInput): void {
     row('Brier score', (p) => p.brier, 4),
   ];
   if (a?.scaledBrier || c?.scaledBrier) rows.push(row('Scaled Brier score', (p) => p.scaledBrier, 3));
-  L.table(o
-    ? [
-        { header: 'Measure', width: 46 },
-        { header: `Apparent (${lvl} CI)`, width: 46, align: 'right' },
-        { header: 'Optimism (2.5–97.5% of replicates)', width: 46, align: 'right' },
-        { header: 'Optimism-corrected', width: 36, align: 'right' },
-      ]
-    : [
-        { header: 'Measure', width: 58 },
-        { header: `Apparent (${lvl} CI)`, width: 58, align: 'right' },
-        { header: 'Optimism-corrected', width: 58, align: 'right' },
-      ], rows);
-  const how = c ? `Optimism-corrected value = apparent − mean optimism; ${c.method ?? 'bootstrap optimism correction (Harrell, Lee & Mark 1996, Stat Med 15:361)'}${c.replicates ? `, ${formatCount(c.replicates)} replicates` : ''}.` : 'No internal validation was run; apparent performance is optimistic.';
+  L.table(
+    o
+      ? [
+          { header: 'Measure', width: 46 },
+          { header: `Apparent (${lvl} CI)`, width: 46, align: 'right' },
+          { header: 'Optimism (2.5–97.5% of replicates)', width: 46, align: 'right' },
+          { header: 'Optimism-corrected', width: 36, align: 'right' },
+        ]
+      : [
+          { header: 'Measure', width: 58 },
+          { header: `Apparent (${lvl} CI)`, width: 58, align: 'right' },
+          { header: 'Optimism-corrected', width: 58, align: 'right' },
+        ],
+    rows,
+  );
+  const how = c
+    ? `Optimism-corrected value = apparent − mean optimism; ${c.method ?? 'bootstrap optimism correction (Harrell, Lee & Mark 1996, Stat Med 15:361)'}${c.replicates ? `, ${formatCount(c.replicates)} replicates` : ''}.`
+    : 'No internal validation was run; apparent performance is optimistic.';
   const ce = input.calibrationErrors;
   if (ce) {
-    L.paragraph(`Calibration error of the flexible curve (apparent): ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)} (absolute differences between predicted and calibrated risk; Austin & Steyerberg 2019, Stat Med 38:4051).`, { size: 8.5 });
+    L.paragraph(
+      `Calibration error of the flexible curve (apparent): ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)} (absolute differences between predicted and calibrated risk; Austin & Steyerberg 2019, Stat Med 38:4051).`,
+      { size: 8.5 },
+    );
   }
-  L.paragraph(`Apparent values are measured on the same data used to fit the model. ${how} AUC interval: DeLong (1988). Calibration slope and intercept: Wald intervals; slope 1 and intercept 0 are ideal.`, { size: 8.5 });
+  L.paragraph(
+    `Apparent values are measured on the same data used to fit the model. ${how} AUC interval: DeLong (1988). Calibration slope and intercept: Wald intervals; slope 1 and intercept 0 are ideal.`,
+    { size: 8.5 },
+  );
 }
 
 export function plots(L: PdfLayout, input: ReportInput): void {
@@ -81,36 +101,55 @@ export function plots(L: PdfLayout, input: ReportInput): void {
     drawDecisionCurve(L.doc, L.left + 12, top, 150, 55, input.decisionCurve);
     L.y = top + 55 + 12;
   }
-  L.paragraph('Calibration: observed risk from a flexible (restricted cubic spline) logistic recalibration on the linear predictor, with its pointwise confidence band; points on the dashed diagonal are perfectly calibrated. Decision curve: net benefit = TP/n \u2212 FP/n \u00d7 t/(1 \u2212 t) (Vickers & Elkin 2006, Med Decis Making 26:565).', { size: 8.5 });
+  L.paragraph(
+    'Calibration: observed risk from a flexible (restricted cubic spline) logistic recalibration on the linear predictor, with its pointwise confidence band; points on the dashed diagonal are perfectly calibrated. Decision curve: net benefit = TP/n \u2212 FP/n \u00d7 t/(1 \u2212 t) (Vickers & Elkin 2006, Med Decis Making 26:565).',
+    { size: 8.5 },
+  );
 }
 
 export function threshold(L: PdfLayout, input: ReportInput): void {
   const t = input.threshold;
   if (!t) return;
   L.section('Decision threshold');
-  const val = (x: Estimate | number): Estimate => (typeof x === 'number' ? { estimate: x, lower: null, upper: null } : x);
+  const val = (x: Estimate | number): Estimate =>
+    typeof x === 'number' ? { estimate: x, lower: null, upper: null } : x;
   const pct = (x: Estimate | number): string => {
     const e = val(x);
-    return formatPercent(e.estimate) + (e.lower !== null && e.upper !== null ? ` (${formatPercent(e.lower)} to ${formatPercent(e.upper)})` : '');
+    return (
+      formatPercent(e.estimate) +
+      (e.lower !== null && e.upper !== null ? ` (${formatPercent(e.lower)} to ${formatPercent(e.upper)})` : '')
+    );
   };
   const ratio = t.costFalseNegative / t.costFalsePositive;
-  L.keyValues([
-    ['Threshold', `flag a case when predicted risk \u2265 ${formatPercent(t.threshold, 1)} (${formatFixed(t.threshold, 4)})`],
-    ['Costs', `missed event (false negative) ${formatPlain(t.costFalseNegative, 4)}; false alarm (false positive) ${formatPlain(t.costFalsePositive, 4)}; ratio ${formatPlain(ratio, 3)} : 1`],
-    ['How chosen', t.rule ?? 'set by the user'],
-    ['Flag rule', 'a case is flagged when its predicted risk is greater than or equal to the threshold'],
-  ], 30);
+  L.keyValues(
+    [
+      [
+        'Threshold',
+        `flag a case when predicted risk \u2265 ${formatPercent(t.threshold, 1)} (${formatFixed(t.threshold, 4)})`,
+      ],
+      [
+        'Costs',
+        `missed event (false negative) ${formatPlain(t.costFalseNegative, 4)}; false alarm (false positive) ${formatPlain(t.costFalsePositive, 4)}; ratio ${formatPlain(ratio, 3)} : 1`,
+      ],
+      ['How chosen', t.rule ?? 'set by the user'],
+      ['Flag rule', 'a case is flagged when its predicted risk is greater than or equal to the threshold'],
+    ],
+    30,
+  );
   const n = t.tp + t.fp + t.fn + t.tn;
-  L.table([
-    { header: '', width: 50 },
-    { header: 'Event', width: 30, align: 'right' },
-    { header: 'No event', width: 30, align: 'right' },
-    { header: 'Total', width: 30, align: 'right' },
-  ], [
-    [`Flagged (risk \u2265 threshold)`, formatCount(t.tp), formatCount(t.fp), formatCount(t.tp + t.fp)],
-    ['Not flagged', formatCount(t.fn), formatCount(t.tn), formatCount(t.fn + t.tn)],
-    ['Total', formatCount(t.tp + t.fn), formatCount(t.fp + t.tn), formatCount(n)],
-  ]);
+  L.table(
+    [
+      { header: '', width: 50 },
+      { header: 'Event', width: 30, align: 'right' },
+      { header: 'No event', width: 30, align: 'right' },
+      { header: 'Total', width: 30, align: 'right' },
+    ],
+    [
+      [`Flagged (risk \u2265 threshold)`, formatCount(t.tp), formatCount(t.fp), formatCount(t.tp + t.fp)],
+      ['Not flagged', formatCount(t.fn), formatCount(t.tn), formatCount(t.fn + t.tn)],
+      ['Total', formatCount(t.tp + t.fn), formatCount(t.fp + t.tn), formatCount(n)],
+    ],
+  );
   const rows: [string, string][] = [
     ['Sensitivity', pct(t.sensitivity)],
     ['Specificity', pct(t.specificity)],
@@ -119,12 +158,16 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
   ];
   const lr = (label: string, v: ThresholdSummary['lrPositive'], digits: number) => {
     if (v?.estimate === null || v?.estimate === undefined) return;
-    rows.push([label, `${formatSig(v.estimate, digits)}${v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''}`]);
+    rows.push([
+      label,
+      `${formatSig(v.estimate, digits)}${v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''}`,
+    ]);
   };
   lr('Positive likelihood ratio', t.lrPositive, 3);
   lr('Negative likelihood ratio', t.lrNegative, 3);
   if (t.fractionFlagged !== undefined) rows.push(['Cases flagged', formatPercent(t.fractionFlagged)]);
-  if (t.expectedCostPer100 !== undefined) rows.push(['Expected cost per 100 cases', formatSig(t.expectedCostPer100, 4)]);
+  if (t.expectedCostPer100 !== undefined)
+    rows.push(['Expected cost per 100 cases', formatSig(t.expectedCostPer100, 4)]);
   L.keyValues(rows, 50);
 }
 

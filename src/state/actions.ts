@@ -5,11 +5,31 @@
 import type { MissingReport } from '../engine/imputation';
 import type { EngineWarning, ModelSpec } from '../engine/core';
 import type {
-  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
-  ScoreView, ThresholdView, ValidationView,
+  BatchScoreView,
+  Costs,
+  CostView,
+  ImputedView,
+  DataSummary,
+  ExternalView,
+  FitView,
+  LossSurfaceView,
+  MethodChoice,
+  ReportText,
+  RiskCurveView,
+  ScoreView,
+  ThresholdView,
+  ValidationView,
 } from '../worker/protocol';
 import type { WorkbenchSettings } from './workspace';
-import { initialState, type AppState, type ImportSettings, type Job, type Notice, type PredictorRole, type ViewId } from './appState';
+import {
+  initialState,
+  type AppState,
+  type ImportSettings,
+  type Job,
+  type Notice,
+  type PredictorRole,
+  type ViewId,
+} from './appState';
 
 type Perform<I> = (state: AppState, input: I) => AppState;
 
@@ -18,7 +38,10 @@ const invalidateFit = (s: AppState): AppState => (s.fit ? { ...s, fitStale: true
 export const showView: Perform<ViewId> = (s, view) => ({ ...s, view });
 
 /** Changes how files are read; a new file starts with no per-column type choices. */
-export const setImportSettings: Perform<Partial<ImportSettings>> = (s, settings) => ({ ...s, importSettings: { ...s.importSettings, ...settings } });
+export const setImportSettings: Perform<Partial<ImportSettings>> = (s, settings) => ({
+  ...s,
+  importSettings: { ...s.importSettings, ...settings },
+});
 
 /** A new data set replaces everything that was computed from the previous one; roles come from the demo spec. */
 export const dataLoaded: Perform<DataSummary> = (s, data) => {
@@ -34,15 +57,31 @@ export const dataLoaded: Perform<DataSummary> = (s, data) => {
       if (t.type === 'spline') roles[t.column] = { include: true, reference: null, knots: t.knots };
     }
   }
-  const reread = s.data !== null && data.source.kind === 'file' && s.data.source.kind === 'file' && s.data.source.name === data.source.name;
+  const reread =
+    s.data !== null &&
+    data.source.kind === 'file' &&
+    s.data.source.kind === 'file' &&
+    s.data.source.name === data.source.name;
   if (reread) {
     const names = new Set(data.columns.map((c) => c.name));
     for (const [name, r] of Object.entries(s.roles)) if (names.has(name)) roles[name] = r;
-    if (s.outcome && names.has(s.outcome)) { outcome = s.outcome; event = s.event; }
+    if (s.outcome && names.has(s.outcome)) {
+      outcome = s.outcome;
+      event = s.event;
+    }
   }
   const base: AppState = {
-    ...initialState, costs: s.costs, notices: s.notices, importSettings: s.importSettings, reportText: s.reportText,
-    nextNoticeId: s.nextNoticeId, jobs: s.jobs, data, roles, outcome, event,
+    ...initialState,
+    costs: s.costs,
+    notices: s.notices,
+    importSettings: s.importSettings,
+    reportText: s.reportText,
+    nextNoticeId: s.nextNoticeId,
+    jobs: s.jobs,
+    data,
+    roles,
+    outcome,
+    event,
     interactions: reread ? s.interactions.filter(([a, b]) => roles[a]?.include && roles[b]?.include) : [],
   };
   return withWarnings(base, data.warnings);
@@ -78,14 +117,24 @@ export const chooseMethod: Perform<MethodChoice> = (s, method) => invalidateFit(
 export const setAlpha: Perform<number> = (s, alpha) =>
   Number.isFinite(alpha) ? invalidateFit({ ...s, alpha: Math.min(1, Math.max(0, alpha)) }) : s;
 export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => invalidateFit({ ...s, lambdaRule });
-export const setLevel: Perform<number> = (s, level) =>
-  level > 0.5 && level < 1 ? invalidateFit({ ...s, level }) : s;
+export const setLevel: Perform<number> = (s, level) => (level > 0.5 && level < 1 ? invalidateFit({ ...s, level }) : s);
 
 /** A fit replaces every result derived from the previous fit. */
 export const fitDone: Perform<FitView> = (s, fit) => {
   const cleared: AppState = {
-    ...s, fit, fitStale: false, thresholdView: null, costView: null, imputed: null, riskCurve: null, lossSurface: null, validation: null,
-    validationStatus: 'idle', score: null, batch: null, external: null,
+    ...s,
+    fit,
+    fitStale: false,
+    thresholdView: null,
+    costView: null,
+    imputed: null,
+    riskCurve: null,
+    lossSurface: null,
+    validation: null,
+    validationStatus: 'idle',
+    score: null,
+    batch: null,
+    external: null,
     notices: s.notices.filter((n) => n.kind === 'error' || !n.code),
   };
   return withWarnings(cleared, fit.warnings);
@@ -118,7 +167,8 @@ export const validationFailed: Perform<void> = (s) => ({ ...s, validationStatus:
 
 export const jobStarted: Perform<Job> = (s, job) => ({ ...s, jobs: [...s.jobs.filter((j) => j.id !== job.id), job] });
 export const jobProgress: Perform<{ id: string; done: number; total: number }> = (s, { id, done, total }) => ({
-  ...s, jobs: s.jobs.map((j) => (j.id === id ? { ...j, done, total } : j)),
+  ...s,
+  jobs: s.jobs.map((j) => (j.id === id ? { ...j, done, total } : j)),
 });
 export const jobEnded: Perform<string> = (s, id) => ({ ...s, jobs: s.jobs.filter((j) => j.id !== id) });
 
@@ -132,17 +182,25 @@ export const dismiss: Perform<number> = (s, id) => ({ ...s, notices: s.notices.f
 
 /** The worker stopped: everything held in it is gone. */
 export const workerLost: Perform<string> = (s, text) =>
-  notify({ ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs, reportText: s.reportText },
-    { kind: 'error', text, suggestion: 'Open your file or a demo again.', action: 'reload' });
+  notify(
+    { ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs, reportText: s.reportText },
+    { kind: 'error', text, suggestion: 'Open your file or a demo again.', action: 'reload' },
+  );
 
 /** The user's words for the model summary. */
-export const setReportText: Perform<Partial<ReportText>> = (s, text) => ({ ...s, reportText: { ...s.reportText, ...text } });
+export const setReportText: Perform<Partial<ReportText>> = (s, text) => ({
+  ...s,
+  reportText: { ...s.reportText, ...text },
+});
 
 /**
  * A saved workspace came back (from this browser or a file): its data summary, then the roles, model options,
  * cut-off, costs and words it was saved with. Columns the data no longer have are ignored.
  */
-export const workspaceRestored: Perform<{ summary: DataSummary; settings: WorkbenchSettings }> = (s, { summary, settings: w }) => {
+export const workspaceRestored: Perform<{ summary: DataSummary; settings: WorkbenchSettings }> = (
+  s,
+  { summary, settings: w },
+) => {
   const loaded = dataLoaded({ ...s, data: null }, { ...summary, warnings: [] });
   const names = new Set(summary.columns.map((c) => c.name));
   const roles = { ...loaded.roles };
@@ -150,10 +208,19 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
   const known = (c: string | null) => (c !== null && names.has(c) ? c : null);
   const outcome = known(w.outcome);
   return {
-    ...loaded, roles, outcome, event: outcome ? w.event : null,
+    ...loaded,
+    roles,
+    outcome,
+    event: outcome ? w.event : null,
     interactions: w.interactions.filter(([a, b]) => names.has(a) && names.has(b)),
-    method: w.method, alpha: w.alpha, lambdaRule: w.lambdaRule, level: w.level,
-    costs: w.costs, threshold: w.threshold, reportText: w.reportText, importSettings: w.importSettings,
+    method: w.method,
+    alpha: w.alpha,
+    lambdaRule: w.lambdaRule,
+    level: w.level,
+    costs: w.costs,
+    threshold: w.threshold,
+    reportText: w.reportText,
+    importSettings: w.importSettings,
     view: w.view,
   };
 };
@@ -171,9 +238,17 @@ const REMEDY: Record<string, Notice['action']> = {
 };
 
 export function withWarnings(s: AppState, warnings: readonly EngineWarning[]): AppState {
-  return warnings.reduce<AppState>((acc, w) => notify(acc, {
-    kind: 'warning', text: w.message, suggestion: w.suggestion, code: w.code, action: REMEDY[w.code],
-  }), s);
+  return warnings.reduce<AppState>(
+    (acc, w) =>
+      notify(acc, {
+        kind: 'warning',
+        text: w.message,
+        suggestion: w.suggestion,
+        code: w.code,
+        action: REMEDY[w.code],
+      }),
+    s,
+  );
 }
 
 /** The model as the engine reads it, or the reason it cannot be fitted yet. */
@@ -185,8 +260,12 @@ export function buildSpec(s: AppState): { spec: ModelSpec } | { problem: string 
   for (const c of s.data.columns) {
     const r = s.roles[c.name];
     if (!r?.include || c.name === s.outcome) continue;
-    if (r.knots > 0 && c.kind === 'numeric') terms.push({ type: 'spline', column: c.name, knots: r.knots as 3 | 4 | 5 });
-    else terms.push(r.reference ? { type: 'main', column: c.name, reference: r.reference } : { type: 'main', column: c.name });
+    if (r.knots > 0 && c.kind === 'numeric')
+      terms.push({ type: 'spline', column: c.name, knots: r.knots as 3 | 4 | 5 });
+    else
+      terms.push(
+        r.reference ? { type: 'main', column: c.name, reference: r.reference } : { type: 'main', column: c.name },
+      );
   }
   if (terms.length === 0) return { problem: 'Choose at least one predictor.' };
   for (const [a, b] of s.interactions) {

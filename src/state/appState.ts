@@ -2,8 +2,20 @@ import type { MissingReport } from '../engine/imputation';
 import type { ColumnType, ImportOptions } from '../io/types';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
 import type {
-  BatchScoreView, Costs, CostView, ImputedView, DataSummary, ExternalView, FitView, LossSurfaceView, MethodChoice, ReportText, RiskCurveView,
-  ScoreView, ThresholdView, ValidationView,
+  BatchScoreView,
+  Costs,
+  CostView,
+  ImputedView,
+  DataSummary,
+  ExternalView,
+  FitView,
+  LossSurfaceView,
+  MethodChoice,
+  ReportText,
+  RiskCurveView,
+  ScoreView,
+  ThresholdView,
+  ValidationView,
 } from '../worker/protocol';
 
 export type ViewId = 'data' | 'model' | 'shape' | 'performance' | 'cutoff' | 'score';
@@ -44,7 +56,14 @@ export interface ImportSettings {
   columnTypes: Record<string, ColumnType>;
 }
 
-export const defaultImportSettings: ImportSettings = { delimiter: 'auto', decimal: 'auto', encoding: 'auto', header: 'auto', sheet: null, columnTypes: {} };
+export const defaultImportSettings: ImportSettings = {
+  delimiter: 'auto',
+  decimal: 'auto',
+  encoding: 'auto',
+  header: 'auto',
+  sheet: null,
+  columnTypes: {},
+};
 
 export interface AppState {
   view: ViewId;

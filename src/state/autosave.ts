@@ -5,7 +5,12 @@
  * with the suggestion to save the workspace as a file instead.
  */
 import {
-  clearWorkspaceInBrowser, idbBackend, loadWorkspaceFromBrowser, saveWorkspaceToBrowser, WORKSPACE_KEY, type KeyValueBackend,
+  clearWorkspaceInBrowser,
+  idbBackend,
+  loadWorkspaceFromBrowser,
+  saveWorkspaceToBrowser,
+  WORKSPACE_KEY,
+  type KeyValueBackend,
 } from '../io/export/persist';
 import * as A from './actions';
 import type { Controller } from './controller';
@@ -24,7 +29,11 @@ export interface Autosave {
   flush(): Promise<void>;
 }
 
-export function createAutosave(store: Store, ctl: Controller, options: { version: string; backend?: KeyValueBackend; delayMs?: number }): Autosave {
+export function createAutosave(
+  store: Store,
+  ctl: Controller,
+  options: { version: string; backend?: KeyValueBackend; delayMs?: number },
+): Autosave {
   const backend = options.backend ?? idbBackend;
   const delay = options.delayMs ?? 1000;
   let savedDataId: string | null = null;
@@ -60,7 +69,11 @@ export function createAutosave(store: Store, ctl: Controller, options: { version
         await saveWorkspaceToBrowser(toWorkspace(s, held, true), options.version, { backend, key: DATA_KEY, saved });
         savedDataId = held.id;
       }
-      await saveWorkspaceToBrowser(toWorkspace(s, held, false), options.version, { backend, key: WORKSPACE_KEY, saved });
+      await saveWorkspaceToBrowser(toWorkspace(s, held, false), options.version, {
+        backend,
+        key: WORKSPACE_KEY,
+        saved,
+      });
       storedSomething = true;
       reported.clear();
       store.apply(A.autosaved, saved);
@@ -86,8 +99,15 @@ export function createAutosave(store: Store, ctl: Controller, options: { version
     lastKey = key;
     if (timer) clearTimeout(timer);
     // Forgetting the data is never delayed: "Start afresh" then reload must not bring them back.
-    if (!store.get().data) { timer = null; void enqueue(); return; }
-    timer = setTimeout(() => { timer = null; void enqueue(); }, delay);
+    if (!store.get().data) {
+      timer = null;
+      void enqueue();
+      return;
+    }
+    timer = setTimeout(() => {
+      timer = null;
+      void enqueue();
+    }, delay);
   };
 
   return {
@@ -104,11 +124,19 @@ export function createAutosave(store: Store, ctl: Controller, options: { version
       storedSomething = true;
       const id = dataIdOf(settings.workspace);
       if (!data?.workspace.data || id === null || dataIdOf(data.workspace) !== id) {
-        store.apply(A.notify, { kind: 'warning', text: 'The work kept in this browser was incomplete (its data were missing), so it could not be restored.', suggestion: 'Open your file again, or a saved workspace file.' });
+        store.apply(A.notify, {
+          kind: 'warning',
+          text: 'The work kept in this browser was incomplete (its data were missing), so it could not be restored.',
+          suggestion: 'Open your file again, or a saved workspace file.',
+        });
         return false;
       }
       await ctl.restoreWorkspace(
-        { ...settings.workspace, data: data.workspace.data, extra: { ...settings.workspace.extra, summary: data.workspace.extra?.summary ?? null } },
+        {
+          ...settings.workspace,
+          data: data.workspace.data,
+          extra: { ...settings.workspace.extra, summary: data.workspace.extra?.summary ?? null },
+        },
         { kind: 'browser', saved: settings.saved },
       );
       savedDataId = ctl.held()?.id ?? null;
@@ -125,7 +153,10 @@ export function createAutosave(store: Store, ctl: Controller, options: { version
       };
     },
     flush() {
-      if (timer) { clearTimeout(timer); timer = null; }
+      if (timer) {
+        clearTimeout(timer);
+        timer = null;
+      }
       return enqueue();
     },
   };

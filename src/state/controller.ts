@@ -45,7 +45,10 @@ export interface Controller {
   /** The worker crashed and was restarted empty: send it the data again and refit, or say what was lost. */
   recover(crashText: string): Promise<void>;
   /** Loads a saved workspace (its data into the worker, its settings into the store) and refits. */
-  restoreWorkspace(ws: Workspace, origin: { kind: 'browser'; saved: string } | { kind: 'file'; name: string }): Promise<void>;
+  restoreWorkspace(
+    ws: Workspace,
+    origin: { kind: 'browser'; saved: string } | { kind: 'file'; name: string },
+  ): Promise<void>;
   /** Reads a workspace file (.fulcra-workspace.json or .json.gz) and restores it. */
   openWorkspaceFile(file: Blob & { name: string }): Promise<void>;
   /** The whole workspace as a gzip file, with its suggested name; undefined when no data are loaded. */
@@ -57,7 +60,15 @@ export interface Controller {
 /** "2 Dec 2026, 02:41" — when a saved workspace was written, in the user's own clock. */
 export function savedTime(iso: string): string {
   const d = new Date(iso);
-  return Number.isNaN(d.getTime()) ? iso : d.toLocaleString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
+  return Number.isNaN(d.getTime())
+    ? iso
+    : d.toLocaleString('en-GB', {
+        day: 'numeric',
+        month: 'short',
+        year: 'numeric',
+        hour: '2-digit',
+        minute: '2-digit',
+      });
 }
 
 let jobCounter = 0;
@@ -79,10 +90,16 @@ export function createController(store: Store, client: WorkerClient): Controller
     setHeld(got ? { id: `${Date.now().toString(36)}-${++jobCounter}`, data: got.data, summary: got.summary } : null);
   }
 
-  async function job<T>(label: string, cancellable: boolean, run: (jobId: string, onProgress: (d: number, t: number) => void) => Promise<T | undefined>): Promise<T | undefined> {
+  async function job<T>(
+    label: string,
+    cancellable: boolean,
+    run: (jobId: string, onProgress: (d: number, t: number) => void) => Promise<T | undefined>,
+  ): Promise<T | undefined> {
     const id = newJobId(label.split(' ')[0].toLowerCase());
     store.apply(A.jobStarted, { id, label, done: 0, total: 0, cancellable });
-    const onProgress = client.progress((done: number, total: number) => store.apply(A.jobProgress, { id, done, total }));
+    const onProgress = client.progress((done: number, total: number) =>
+      store.apply(A.jobProgress, { id, done, total }),
+    );
     try {
       return await run(id, onProgress);
     } finally {
@@ -135,14 +152,18 @@ export function createController(store: Store, client: WorkerClient): Controller
       return;
     }
     const { method, level, alpha, lambdaRule } = s();
-    await fitWith({ spec: built.spec, method, level, alpha, lambdaRule, profile: method === 'ml' || method === 'firth' }, false);
+    await fitWith(
+      { spec: built.spec, method, level, alpha, lambdaRule, profile: method === 'ml' || method === 'firth' },
+      false,
+    );
   }
 
   /** Fits `request`; a restore or restart keeps the user's view and cut-off instead of moving to the model. */
   async function fitWith(request: FitRequest, keep: boolean): Promise<boolean> {
     const { method } = request;
     const view = await job('Fitting the model', method !== 'ml' && method !== 'firth', (id, onProgress) =>
-      client.call((api) => api.fitModel(request, id, onProgress)));
+      client.call((api) => api.fitModel(request, id, onProgress)),
+    );
     if (!view) return false;
     store.apply(A.fitDone, view);
     if (!keep && s().view === 'data') store.apply(A.showView, 'model');
@@ -153,13 +174,18 @@ export function createController(store: Store, client: WorkerClient): Controller
   /** Puts a saved workspace's data into the worker and its settings into the store, then refits. */
   async function restore(ws: Workspace, notice: string): Promise<boolean> {
     if (!ws.data) {
-      store.apply(A.notify, { kind: 'error', text: 'This workspace holds no data.', suggestion: 'Open your spreadsheet instead.' });
+      store.apply(A.notify, {
+        kind: 'error',
+        text: 'This workspace holds no data.',
+        suggestion: 'Open your spreadsheet instead.',
+      });
       return false;
     }
     const settings = settingsFromWorkspace(ws);
     const data = ws.data;
     const summary = await job('Restoring the workspace', false, () =>
-      client.call((api) => api.loadDataset(data, summaryFromWorkspace(ws), ws.fileName ?? 'saved workspace')));
+      client.call((api) => api.loadDataset(data, summaryFromWorkspace(ws), ws.fileName ?? 'saved workspace')),
+    );
     if (!summary) return false;
     store.apply(A.workspaceRestored, { summary, settings });
     setHeld({ id: dataIdOf(ws) ?? `${Date.now().toString(36)}-${++jobCounter}`, data, summary });
@@ -167,7 +193,10 @@ export function createController(store: Store, client: WorkerClient): Controller
     const built = A.buildSpec(s());
     if (settings.fitted && 'spec' in built) {
       const { method, level, alpha, lambdaRule } = s();
-      await fitWith({ spec: built.spec, method, level, alpha, lambdaRule, profile: method === 'ml' || method === 'firth' }, true);
+      await fitWith(
+        { spec: built.spec, method, level, alpha, lambdaRule, profile: method === 'ml' || method === 'firth' },
+        true,
+      );
     }
     return true;
   }
@@ -186,7 +215,8 @@ export function createController(store: Store, client: WorkerClient): Controller
       const bytes = await file.arrayBuffer();
       const options = importOptionsOf(s().importSettings);
       const summary = await job(`Reading ${file.name}`, true, (id, onProgress) =>
-        client.call((api) => api.importFile(client.transfer(bytes, [bytes]), file.name, options, id, onProgress)));
+        client.call((api) => api.importFile(client.transfer(bytes, [bytes]), file.name, options, id, onProgress)),
+      );
       if (!summary) return;
       store.apply(A.dataLoaded, summary);
       await captureData();
@@ -196,14 +226,18 @@ export function createController(store: Store, client: WorkerClient): Controller
     },
     async pasteText(text) {
       const summary = await job('Reading pasted cells', true, (id, onProgress) =>
-        client.call((api) => api.importText(text, importOptionsOf(s().importSettings), id, onProgress)));
+        client.call((api) => api.importText(text, importOptionsOf(s().importSettings), id, onProgress)),
+      );
       if (!summary) return;
       store.apply(A.dataLoaded, summary);
       await captureData();
     },
     async refreshDropReport() {
       const built = A.buildSpec(s());
-      if ('problem' in built) { store.apply(A.dropReportDone, null); return; }
+      if ('problem' in built) {
+        store.apply(A.dropReportDone, null);
+        return;
+      }
       const report = await client.latest('drop', (api) => api.dropReport(built.spec));
       if (report) store.apply(A.dropReportDone, report);
     },
@@ -213,12 +247,19 @@ export function createController(store: Store, client: WorkerClient): Controller
       const f = s().fit;
       if (!f) return;
       const view = await job('Multiple imputation (10 datasets)', true, (id, onProgress) =>
-        client.call((api) => api.fitImputed(f.request, id, onProgress)));
+        client.call((api) => api.fitImputed(f.request, id, onProgress)),
+      );
       if (view) store.apply(A.imputedDone, view);
     },
     async useRemedy(action) {
-      if (action === 'reload') { store.apply(A.showView, 'data'); return; }
-      if (action === 'start-afresh') { self.startAfresh(); return; }
+      if (action === 'reload') {
+        store.apply(A.showView, 'data');
+        return;
+      }
+      if (action === 'start-afresh') {
+        self.startAfresh();
+        return;
+      }
       store.apply(A.chooseMethod, action === 'use-firth' ? 'firth' : 'ridge');
       await fitModel();
     },
@@ -231,10 +272,13 @@ export function createController(store: Store, client: WorkerClient): Controller
       const firstNew = s().nextNoticeId;
       let cancelled = false;
       const view = await job(`Bootstrap validation (${replicates} resamples)`, true, (id, onProgress) =>
-        client.call((api) => api.validate(replicates, id, onProgress)).then((v) => {
-          if (v === undefined) cancelled = true;
-          return v;
-        }));
+        client
+          .call((api) => api.validate(replicates, id, onProgress))
+          .then((v) => {
+            if (v === undefined) cancelled = true;
+            return v;
+          }),
+      );
       const failed = s().notices.some((n) => n.kind === 'error' && n.id >= firstNew);
       if (view) store.apply(A.validationDone, view);
       else if (failed) store.apply(A.validationFailed, undefined);
@@ -248,22 +292,28 @@ export function createController(store: Store, client: WorkerClient): Controller
     async scoreBatch(file) {
       const bytes = await file.arrayBuffer();
       const view = await job(`Scoring ${file.name}`, true, (id, onProgress) =>
-        client.call((api) => api.scoreBatch(client.transfer(bytes, [bytes]), file.name, s().threshold, id, onProgress)));
+        client.call((api) => api.scoreBatch(client.transfer(bytes, [bytes]), file.name, s().threshold, id, onProgress)),
+      );
       if (view) store.apply(A.batchDone, view);
     },
     async externalValidate(file) {
       const bytes = await file.arrayBuffer();
       const view = await job(`Validating on ${file.name}`, true, (id, onProgress) =>
-        client.call((api) => api.externalValidate(client.transfer(bytes, [bytes]), file.name, id, onProgress)));
+        client.call((api) => api.externalValidate(client.transfer(bytes, [bytes]), file.name, id, onProgress)),
+      );
       if (view) store.apply(A.externalDone, view);
     },
     show: (view) => store.apply(A.showView, view),
-    modelReport: (text) => job('Writing the model summary', false, () =>
-      client.call((api) => api.modelReport(s().costs, s().threshold, new Date().toISOString(), text))),
+    modelReport: (text) =>
+      job('Writing the model summary', false, () =>
+        client.call((api) => api.modelReport(s().costs, s().threshold, new Date().toISOString(), text)),
+      ),
     modelFile: (text) => client.call((api) => api.modelFile(s().costs, s().threshold, new Date().toISOString(), text)),
     pmml: () => client.call((api) => api.pmml(new Date().toISOString())),
     held: () => held,
-    onHeld: (listener) => { heldListeners.add(listener); },
+    onHeld: (listener) => {
+      heldListeners.add(listener);
+    },
     async recover(crashText) {
       const h = held;
       if (!h || recovering) {
@@ -280,7 +330,7 @@ export function createController(store: Store, client: WorkerClient): Controller
           return;
         }
         const request = s().fit?.request ?? null;
-        const refitted = request && await fitWith(request, true) ? ' and the model was refitted' : '';
+        const refitted = request && (await fitWith(request, true)) ? ' and the model was refitted' : '';
         store.apply(A.notify, {
           kind: 'info',
           text: `${crashText} Your data (${h.summary.source.name}) were loaded into it again${refitted}; nothing was lost.`,
@@ -290,9 +340,12 @@ export function createController(store: Store, client: WorkerClient): Controller
       }
     },
     async restoreWorkspace(ws, origin) {
-      await restore(ws, origin.kind === 'browser'
-        ? `Restored your work from ${savedTime(origin.saved)}.`
-        : `Opened the workspace ${origin.name}.`);
+      await restore(
+        ws,
+        origin.kind === 'browser'
+          ? `Restored your work from ${savedTime(origin.saved)}.`
+          : `Opened the workspace ${origin.name}.`,
+      );
     },
     async openWorkspaceFile(file) {
       let ws: Workspace;
@@ -314,7 +367,10 @@ export function createController(store: Store, client: WorkerClient): Controller
       const bytes = await client.call((api) => api.workspaceFile(toWorkspace(s(), held, false), version));
       if (!bytes) return undefined;
       const stem = (s().outcome ?? held.summary.source.name).replace(/[^\p{L}\p{N}_-]+/gu, '_').slice(0, 40) || 'data';
-      return { bytes, name: `fulcra-workspace-${stem}-${new Date().toISOString().slice(0, 10)}.fulcra-workspace.json.gz` };
+      return {
+        bytes,
+        name: `fulcra-workspace-${stem}-${new Date().toISOString().slice(0, 10)}.fulcra-workspace.json.gz`,
+      };
     },
     startAfresh() {
       setHeld(null);

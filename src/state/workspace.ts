@@ -10,9 +10,22 @@ import { buildSpec } from './actions';
 import { defaultImportSettings, initialState, type AppState, type PredictorRole } from './appState';
 
 /** The part of the state a workspace keeps (the same fields as AppState), plus whether a model had been fitted. */
-export interface WorkbenchSettings extends Pick<AppState,
-  'outcome' | 'event' | 'roles' | 'interactions' | 'method' | 'alpha' | 'lambdaRule' | 'level' | 'threshold' | 'costs'
-  | 'reportText' | 'importSettings' | 'view'> {
+export interface WorkbenchSettings extends Pick<
+  AppState,
+  | 'outcome'
+  | 'event'
+  | 'roles'
+  | 'interactions'
+  | 'method'
+  | 'alpha'
+  | 'lambdaRule'
+  | 'level'
+  | 'threshold'
+  | 'costs'
+  | 'reportText'
+  | 'importSettings'
+  | 'view'
+> {
   /** A model had been fitted: fit it again on restore so the results reappear. */
   fitted: boolean;
 }
@@ -26,9 +39,20 @@ export interface HeldData {
 
 export function settingsOf(s: AppState): WorkbenchSettings {
   return {
-    outcome: s.outcome, event: s.event, roles: s.roles, interactions: s.interactions, method: s.method, alpha: s.alpha,
-    lambdaRule: s.lambdaRule, level: s.level, threshold: s.threshold, costs: s.costs, reportText: s.reportText,
-    importSettings: s.importSettings, view: s.view, fitted: s.fit !== null,
+    outcome: s.outcome,
+    event: s.event,
+    roles: s.roles,
+    interactions: s.interactions,
+    method: s.method,
+    alpha: s.alpha,
+    lambdaRule: s.lambdaRule,
+    level: s.level,
+    threshold: s.threshold,
+    costs: s.costs,
+    reportText: s.reportText,
+    importSettings: s.importSettings,
+    view: s.view,
+    fitted: s.fit !== null,
   };
 }
 
@@ -45,7 +69,11 @@ export function toWorkspace(s: AppState, held: HeldData | null, withData: boolea
     threshold: s.threshold,
     costs: { falseNegative: s.costs.missedCase, falsePositive: s.costs.falseAlarm },
     freeText: { ...s.reportText },
-    extra: { workbench: JSON.parse(JSON.stringify(settingsOf(s))), summary: held ? JSON.parse(JSON.stringify(held.summary)) : null, dataId: held?.id ?? null },
+    extra: {
+      workbench: JSON.parse(JSON.stringify(settingsOf(s))),
+      summary: held ? JSON.parse(JSON.stringify(held.summary)) : null,
+      dataId: held?.id ?? null,
+    },
   };
 }
 
@@ -72,12 +100,15 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
     ...base,
     outcome: ws.spec?.outcome ?? null,
     event: ws.spec?.event ?? null,
-    roles, interactions,
+    roles,
+    interactions,
     method: ws.fitOptions.method ?? 'ml',
     level: ws.fitOptions.level ?? base.level,
     threshold: ws.threshold ?? base.threshold,
-    costs: ws.costs && ws.costs.falseNegative > 0 && ws.costs.falsePositive > 0
-      ? { missedCase: ws.costs.falseNegative, falseAlarm: ws.costs.falsePositive } : base.costs,
+    costs:
+      ws.costs && ws.costs.falseNegative > 0 && ws.costs.falsePositive > 0
+        ? { missedCase: ws.costs.falseNegative, falseAlarm: ws.costs.falsePositive }
+        : base.costs,
     reportText: { ...ws.freeText },
     fitted: ws.spec !== null,
     view: ws.spec !== null ? 'model' : 'data',

@@ -28,13 +28,18 @@ function getPageEnv(): Env {
     let ctl: Controller | null = null;
     const client = createWorkerClient({
       onError: (text, suggestion) => store.apply(notify, { kind: 'error', text, suggestion }),
-      onCrash: (text) => { if (ctl) void ctl.recover(text); else store.apply(workerLost, text); },
+      onCrash: (text) => {
+        if (ctl) void ctl.recover(text);
+        else store.apply(workerLost, text);
+      },
     });
     ctl = createController(store, client);
     pageEnv = { store, ctl };
     const autosave = createAutosave(store, ctl, { version: FULCRA_VERSION });
     void autosave.restore().finally(() => autosave.start());
-    document.addEventListener('visibilitychange', () => { if (document.visibilityState === 'hidden') void autosave.flush(); });
+    document.addEventListener('visibilitychange', () => {
+      if (document.visibilityState === 'hidden') void autosave.flush();
+    });
     if (new URLSearchParams(location.search).has('testhooks')) {
       (window as unknown as { fulcraTestHooks: unknown }).fulcraTestHooks = {
         crashEngine: () => client.call((api) => api.crashForTest()),

@@ -5,7 +5,9 @@ export function Header() {
   const source = useApp((s) => s.data?.source ?? null);
   return (
     <header className="top">
-      <a className="skip" href="#main">Skip to content</a>
+      <a className="skip" href="#main">
+        Skip to content
+      </a>
       <h1>Fulcra</h1>
       <span className="tagline">risk models on your own spreadsheet</span>
       {source && (
@@ -15,7 +17,9 @@ export function Header() {
         </span>
       )}
       <WorkspaceBar />
-      <span className="local" title="All calculations run in a Web Worker in this tab; nothing is uploaded.">Runs only on this computer</span>
+      <span className="local" title="All calculations run in a Web Worker in this tab; nothing is uploaded.">
+        Runs only on this computer
+      </span>
     </header>
   );
 }

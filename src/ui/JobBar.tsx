@@ -10,10 +10,15 @@ export function JobBar() {
       {jobs.map((j) => (
         <div key={j.id} className="job" role="status">
           <label>
-            {j.label}{j.total > 0 ? ` — ${j.done} of ${j.total}` : '…'}
+            {j.label}
+            {j.total > 0 ? ` — ${j.done} of ${j.total}` : '…'}
             <progress max={j.total || undefined} value={j.total ? j.done : undefined} />
           </label>
-          {j.cancellable && <button type="button" onClick={() => ctl.cancel(j.id)}>Cancel</button>}
+          {j.cancellable && (
+            <button type="button" onClick={() => ctl.cancel(j.id)}>
+              Cancel
+            </button>
+          )}
         </div>
       ))}
     </section>

@@ -17,7 +17,12 @@ export function NoticeArea() {
   return (
     <section className="notices" aria-label="Messages" aria-live="polite">
       {notices.map((n) => (
-        <div key={n.id} className={`notice ${n.kind}`} role={n.kind === 'error' ? 'alert' : 'status'} data-code={n.code}>
+        <div
+          key={n.id}
+          className={`notice ${n.kind}`}
+          role={n.kind === 'error' ? 'alert' : 'status'}
+          data-code={n.code}
+        >
           <div>
             <strong>{n.kind === 'error' ? 'Problem: ' : n.kind === 'warning' ? 'Check: ' : ''}</strong>
             {n.text}
@@ -25,11 +30,19 @@ export function NoticeArea() {
           </div>
           <div className="notice-actions">
             {n.action && (
-              <button type="button" onClick={() => { store.apply(dismiss, n.id); void ctl.useRemedy(n.action!); }}>
+              <button
+                type="button"
+                onClick={() => {
+                  store.apply(dismiss, n.id);
+                  void ctl.useRemedy(n.action!);
+                }}
+              >
                 {REMEDY_LABEL[n.action]}
               </button>
             )}
-            <button type="button" aria-label={`Dismiss: ${n.text}`} onClick={() => store.apply(dismiss, n.id)}>Dismiss</button>
+            <button type="button" aria-label={`Dismiss: ${n.text}`} onClick={() => store.apply(dismiss, n.id)}>
+              Dismiss
+            </button>
           </div>
         </div>
       ))}

@@ -4,7 +4,15 @@ import { useEffect, useState } from 'react';
  * A labelled number input that keeps what the user is typing and reports only valid numbers
  * (`valid` decides), so a field can be cleared and retyped.
  */
-export function NumberField(props: { label: string; value: number; onChange: (v: number) => void; valid?: (v: number) => boolean; min?: number; max?: number; step?: number | 'any' }) {
+export function NumberField(props: {
+  label: string;
+  value: number;
+  onChange: (v: number) => void;
+  valid?: (v: number) => boolean;
+  min?: number;
+  max?: number;
+  step?: number | 'any';
+}) {
   const [text, setText] = useState(String(props.value));
   useEffect(() => {
     if (Number(text) !== props.value) setText(String(props.value));
@@ -12,13 +20,21 @@ export function NumberField(props: { label: string; value: number; onChange: (v:
   const valid = props.valid ?? Number.isFinite;
   const bad = text.trim() === '' || !valid(Number(text));
   return (
-    <label>{props.label}
-      <input type="number" min={props.min} max={props.max} step={props.step ?? 'any'} value={text} aria-invalid={bad}
+    <label>
+      {props.label}
+      <input
+        type="number"
+        min={props.min}
+        max={props.max}
+        step={props.step ?? 'any'}
+        value={text}
+        aria-invalid={bad}
         onChange={(e) => {
           setText(e.target.value);
           const v = Number(e.target.value);
           if (e.target.value.trim() !== '' && valid(v)) props.onChange(v);
-        }} />
+        }}
+      />
     </label>
   );
 }

@@ -16,24 +16,50 @@ export function WorkspaceBar() {
       const file = await ctl.workspaceFile(FULCRA_VERSION);
       if (file) downloadFile(file.bytes, file.name, 'application/gzip');
     } catch (err) {
-      store.apply(notify, { kind: 'error', text: `The workspace file could not be written (${(err as Error).message}).` });
+      store.apply(notify, {
+        kind: 'error',
+        text: `The workspace file could not be written (${(err as Error).message}).`,
+      });
     }
   };
   return (
     <div className="workspace-bar" role="group" aria-label="Workspace">
       {savedAt && (
-        <span className="hint" data-testid="autosaved" title="Kept in this browser's storage on this computer; restored when you come back.">
+        <span
+          className="hint"
+          data-testid="autosaved"
+          title="Kept in this browser's storage on this computer; restored when you come back."
+        >
           Kept in this browser at {new Date(savedAt).toLocaleTimeString('en-GB')}
         </span>
       )}
-      <button type="button" disabled={!hasData} onClick={() => void save()}>Save workspace as a file</button>
-      <button type="button" onClick={() => input.current?.click()}>Open a workspace file</button>
-      {hasData && !confirming && <button type="button" onClick={() => setConfirming(true)}>Start afresh…</button>}
+      <button type="button" disabled={!hasData} onClick={() => void save()}>
+        Save workspace as a file
+      </button>
+      <button type="button" onClick={() => input.current?.click()}>
+        Open a workspace file
+      </button>
+      {hasData && !confirming && (
+        <button type="button" onClick={() => setConfirming(true)}>
+          Start afresh…
+        </button>
+      )}
       {hasData && confirming && (
         <span role="group" aria-label="Start afresh?">
           <span className="hint">Forget the data and all settings? </span>
-          <button type="button" autoFocus onClick={() => { setConfirming(false); ctl.startAfresh(); }}>Yes, start afresh</button>{' '}
-          <button type="button" onClick={() => setConfirming(false)}>Keep my work</button>
+          <button
+            type="button"
+            autoFocus
+            onClick={() => {
+              setConfirming(false);
+              ctl.startAfresh();
+            }}
+          >
+            Yes, start afresh
+          </button>{' '}
+          <button type="button" onClick={() => setConfirming(false)}>
+            Keep my work
+          </button>
         </span>
       )}
       <input
@@ -44,7 +70,11 @@ export function WorkspaceBar() {
         className="visually-hidden"
         tabIndex={-1}
         aria-hidden="true"
-        onChange={(e) => { const f = e.target.files?.[0]; if (f) void ctl.openWorkspaceFile(f); e.target.value = ''; }}
+        onChange={(e) => {
+          const f = e.target.files?.[0];
+          if (f) void ctl.openWorkspaceFile(f);
+          e.target.value = '';
+        }}
       />
     </div>
   );

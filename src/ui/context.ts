@@ -3,7 +3,10 @@ import type { AppState } from '../state/appState';
 import type { Controller } from '../state/controller';
 import { useStore, type Store } from '../state/store';
 
-export interface Env { store: Store; ctl: Controller }
+export interface Env {
+  store: Store;
+  ctl: Controller;
+}
 
 export const EnvContext = createContext<Env | null>(null);
 

@@ -13,9 +13,19 @@ export function downloadFile(content: Uint8Array | string, fileName: string, mim
 }
 
 /** File names Fulcra suggests: "<stem>-<outcome>-<yyyy-mm-dd>.<ext>", with unsafe characters replaced. */
-export function suggestedFileName(kind: 'model-summary' | 'model' | 'pmml' | 'predictions' | 'workspace', outcome: string, date = new Date()): string {
+export function suggestedFileName(
+  kind: 'model-summary' | 'model' | 'pmml' | 'predictions' | 'workspace',
+  outcome: string,
+  date = new Date(),
+): string {
   const safe = outcome.replace(/[^\p{L}\p{N}_-]+/gu, '_').slice(0, 40) || 'model';
   const day = date.toISOString().slice(0, 10);
-  const ext = { 'model-summary': 'pdf', model: 'fulcra-model.json', pmml: 'pmml', predictions: 'csv', workspace: 'fulcra-workspace.json' }[kind];
+  const ext = {
+    'model-summary': 'pdf',
+    model: 'fulcra-model.json',
+    pmml: 'pmml',
+    predictions: 'csv',
+    workspace: 'fulcra-workspace.json',
+  }[kind];
   return `fulcra-${kind}-${safe}-${day}.${ext}`;
 }

@@ -45,7 +45,10 @@ export async function svgToPngBlob(svg: SVGSVGElement, scale = 2): Promise<Blob>
     ctx.fillRect(0, 0, canvas.width, canvas.height);
     ctx.drawImage(img, 0, 0, canvas.width, canvas.height);
     return await new Promise<Blob>((resolve, reject) =>
-      canvas.toBlob((b) => (b ? resolve(b) : reject(new Error('The plot could not be converted to PNG.'))), 'image/png'),
+      canvas.toBlob(
+        (b) => (b ? resolve(b) : reject(new Error('The plot could not be converted to PNG.'))),
+        'image/png',
+      ),
     );
   } finally {
     URL.revokeObjectURL(url);

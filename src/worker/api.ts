@@ -24,7 +24,12 @@ import { scoreImported, scoreOne } from './scoreOps';
 import { riskCurve } from './shapeOps';
 import { externalValidate, lossSurface, validate } from './validateOps';
 
-async function guarded<T>(session: Session, jobId: string | null, run: () => Promise<T> | T, ready: Promise<unknown>): Promise<T> {
+async function guarded<T>(
+  session: Session,
+  jobId: string | null,
+  run: () => Promise<T> | T,
+  ready: Promise<unknown>,
+): Promise<T> {
   try {
     await ready; // the row pool (if any) is installed before any design is built, so designs go to shared memory
     return await run();
@@ -59,33 +64,63 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     loadDemo: (id: DemoId) => guard(null, () => loadDemo(session, id)),
     importFile: (bytes: ArrayBuffer, name: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
-      return guard(jobId, async () => loadImported(session, await readBytes(checkedBytes(bytes, name, session.data), name, options, {
-        signal: h.signal, tick, onProgress: onProgress ? (f) => void onProgress(Math.round(f * 100), 100) : undefined,
-      }), 'file', name));
+      return guard(jobId, async () =>
+        loadImported(
+          session,
+          await readBytes(checkedBytes(bytes, name, session.data), name, options, {
+            signal: h.signal,
+            tick,
+            onProgress: onProgress ? (f) => void onProgress(Math.round(f * 100), 100) : undefined,
+          }),
+          'file',
+          name,
+        ),
+      );
     },
     importText: (text: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
-      return guard(jobId, async () => loadImported(session, await readPasted(text, options, { signal: h.signal, tick }), 'paste', 'pasted cells'));
+      return guard(jobId, async () =>
+        loadImported(session, await readPasted(text, options, { signal: h.signal, tick }), 'paste', 'pasted cells'),
+      );
     },
     /** The loaded data and its summary (copies, transferred), for the page to keep and save; null when none. */
-    getDataset: () => guard(null, () => {
-      const held = heldCopy(session);
-      return held ? Comlink.transfer({ data: held.data, summary: held.summary }, held.buffers) : null;
-    }),
+    getDataset: () =>
+      guard(null, () => {
+        const held = heldCopy(session);
+        return held ? Comlink.transfer({ data: held.data, summary: held.summary }, held.buffers) : null;
+      }),
     /** Loads data the page kept (engine restart, saved workspace) without reading a file again. */
-    loadDataset: (data: Dataset, summary: DataSummary | null, name: string) => guard(null, () => loadHeld(session, data, summary, name)),
+    loadDataset: (data: Dataset, summary: DataSummary | null, name: string) =>
+      guard(null, () => loadHeld(session, data, summary, name)),
     /** The workspace file (gzip JSON), encoded here rather than on the page: `ws` comes without data, the worker adds its own. */
-    workspaceFile: (ws: Workspace, version: string) => guard(null, async () => {
-      const bytes = await workspaceToGzip({ ...ws, data: requireData(session) }, { fulcraVersion: version });
-      return Comlink.transfer(bytes, [bytes.buffer as ArrayBuffer]);
-    }),
+    workspaceFile: (ws: Workspace, version: string) =>
+      guard(null, async () => {
+        const bytes = await workspaceToGzip({ ...ws, data: requireData(session) }, { fulcraVersion: version });
+        return Comlink.transfer(bytes, [bytes.buffer as ArrayBuffer]);
+      }),
     /** Decodes a workspace file (plain or gzip) here rather than on the page; its data buffers are transferred. */
-    readWorkspaceFile: (bytes: Uint8Array) => guard(null, async () => {
-      const { workspace } = await readWorkspaceBytes(bytes);
-      return Comlink.transfer(workspace, workspace.data ? [...new Set(workspace.data.columns.map((c) => (c.kind === 'numeric' ? c.values.buffer : c.codes.buffer) as ArrayBuffer))] : []);
-    }),
+    readWorkspaceFile: (bytes: Uint8Array) =>
+      guard(null, async () => {
+        const { workspace } = await readWorkspaceBytes(bytes);
+        return Comlink.transfer(
+          workspace,
+          workspace.data
+            ? [
+                ...new Set(
+                  workspace.data.columns.map(
+                    (c) => (c.kind === 'numeric' ? c.values.buffer : c.codes.buffer) as ArrayBuffer,
+                  ),
+                ),
+              ]
+            : [],
+        );
+      }),
     /** Test hook (the page only calls it with ?testhooks=1): an uncaught error in the worker, as a crash would raise. */
-    crashForTest: () => { setTimeout(() => { throw new Error('engine crash requested by a test'); }, 0); },
+    crashForTest: () => {
+      setTimeout(() => {
+        throw new Error('engine crash requested by a test');
+      }, 0);
+    },
     getRows: (start: number, count: number) => guard(null, () => rowsWindow(requireData(session), start, count)),
     dropReport: (spec: ModelSpec) => guard(null, () => missingReport(requireData(session), spec)),
     fitModel: (req: FitRequest, jobId: string, onProgress?: Progress) =>
@@ -102,14 +137,19 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     lossSurface: (a: number, b: number) => guard(null, () => lossSurface(session, a, b)),
     validate: (replicates: number, jobId: string, onProgress?: Progress) =>
       guard(jobId, () => validate(session, replicates, hooksFor(jobId, onProgress))),
-    scoreOne: (values: Record<string, string | number | null>, threshold: number) => guard(null, () => scoreOne(session, values, threshold)),
+    scoreOne: (values: Record<string, string | number | null>, threshold: number) =>
+      guard(null, () => scoreOne(session, values, threshold)),
     scoreBatch: (bytes: ArrayBuffer, name: string, threshold: number, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
-      return guard(jobId, async () => scoreImported(session, await readBytes(bytes, name, {}, { signal: h.signal, tick }), threshold));
+      return guard(jobId, async () =>
+        scoreImported(session, await readBytes(bytes, name, {}, { signal: h.signal, tick }), threshold),
+      );
     },
     externalValidate: (bytes: ArrayBuffer, name: string, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
-      return guard(jobId, async () => externalValidate(session, await readBytes(bytes, name, {}, { signal: h.signal, tick })));
+      return guard(jobId, async () =>
+        externalValidate(session, await readBytes(bytes, name, {}, { signal: h.signal, tick })),
+      );
     },
     modelReport: (costs: Costs, threshold: number, created: string, text: ReportText) =>
       guard(null, () => {

@@ -39,15 +39,19 @@ export function loadImported(s: Session, result: ImportResult, kind: 'file' | 'p
  * saved with it keeps the importer's types and reasons; without one the columns are profiled afresh.
  */
 export function loadHeld(s: Session, data: Dataset, summary: DataSummary | null, name: string): DataSummary {
-  return setData(s, data, summary ?? {
-    source: { kind: 'file', name, notice: null },
-    nRows: data.nRows,
-    columns: data.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
-    warnings: [],
-    suggestedSpec: null,
-    truth: null,
-    format: null,
-  });
+  return setData(
+    s,
+    data,
+    summary ?? {
+      source: { kind: 'file', name, notice: null },
+      nRows: data.nRows,
+      columns: data.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
+      warnings: [],
+      suggestedSpec: null,
+      truth: null,
+      format: null,
+    },
+  );
 }
 
 /** A copy of the loaded data (its own buffers, so they can be transferred) with its summary. */
@@ -87,11 +91,20 @@ function fromInfo(col: Dataset['columns'][number], info: ColumnInfo | undefined)
   const p = info.profile;
   // The importer has profiled the column already: only the levels the page offers come from the column itself.
   const base = {
-    name: col.name, kind: col.kind,
-    levels: col.kind === 'categorical' ? col.levels.slice(0, MAX_LEVELS) : p.distinct === 2 ? [String(p.min), String(p.max)] : [],
+    name: col.name,
+    kind: col.kind,
+    levels:
+      col.kind === 'categorical'
+        ? col.levels.slice(0, MAX_LEVELS)
+        : p.distinct === 2
+          ? [String(p.min), String(p.max)]
+          : [],
   };
   const bins = p.histogram
-    ? p.histogram.counts.map((count, b) => ({ label: `${fmt(p.histogram!.edges[b])}–${fmt(p.histogram!.edges[b + 1])}`, count }))
+    ? p.histogram.counts.map((count, b) => ({
+        label: `${fmt(p.histogram!.edges[b])}–${fmt(p.histogram!.edges[b + 1])}`,
+        count,
+      }))
     : (p.topLevels ?? []).map((l) => ({ label: l.level, count: l.count }));
   const type = info.type === 'empty' ? 'text' : info.type;
   return {

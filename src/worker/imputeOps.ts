@@ -21,7 +21,14 @@ export async function fitWithImputation(s: Session, req: FitRequest, hooks: Hook
     nImputedRows: pooled.nImputedRows,
     imputedColumns: imp.imputed.map((c) => ({ column: c.column, cells: c.rows.length, method: c.method })),
     rows: pooled.coefficients.map((c) => ({
-      name: c.name, estimate: c.estimate, oddsRatio: c.oddsRatio, lower: c.waldLower, upper: c.waldUpper, p: c.p, fmi: c.fmi, df: c.df,
+      name: c.name,
+      estimate: c.estimate,
+      oddsRatio: c.oddsRatio,
+      lower: c.waldLower,
+      upper: c.waldUpper,
+      p: c.p,
+      fmi: c.fmi,
+      df: c.df,
     })),
     warnings: pooled.warnings,
   };

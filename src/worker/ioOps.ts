@@ -2,7 +2,12 @@ import { importFile, importText } from '../io';
 import type { ImportHooks, ImportOptions, ImportResult } from '../io/types';
 
 /** Reads a file's bytes with the importer (delimited text or a workbook, detected). */
-export function readBytes(bytes: ArrayBuffer, fileName: string, options: ImportOptions, hooks: ImportHooks): Promise<ImportResult> {
+export function readBytes(
+  bytes: ArrayBuffer,
+  fileName: string,
+  options: ImportOptions,
+  hooks: ImportHooks,
+): Promise<ImportResult> {
   return importFile(bytes, fileName, options, hooks);
 }
 

@@ -10,11 +10,21 @@ export function profileColumn(col: Column): ColumnView {
   if (col.kind === 'categorical') {
     const counts = new Array<number>(col.levels.length).fill(0);
     let missing = 0;
-    for (const c of col.codes) if (c < 0) missing++; else counts[c]++;
+    for (const c of col.codes)
+      if (c < 0) missing++;
+      else counts[c]++;
     const type = col.levels.length === 2 ? 'binary' : 'categorical';
     return {
-      name: col.name, kind: 'categorical', type, modelling: true, levels: col.levels.slice(0, MAX_LEVELS), missing,
-      distinct: counts.filter((c) => c > 0).length, min: null, median: null, max: null,
+      name: col.name,
+      kind: 'categorical',
+      type,
+      modelling: true,
+      levels: col.levels.slice(0, MAX_LEVELS),
+      missing,
+      distinct: counts.filter((c) => c > 0).length,
+      min: null,
+      median: null,
+      max: null,
       reason: `${col.levels.length} distinct values`,
       bins: col.levels.slice(0, 20).map((label, k) => ({ label, count: counts[k] })),
       proposedEvent: null,
@@ -34,10 +44,19 @@ export function profileColumn(col: Column): ColumnView {
   }
   const levels = distinct === 2 ? [String(lo), String(hi)] : [];
   return {
-    name: col.name, kind: 'numeric', type: distinct === 2 ? 'binary' : 'numeric', modelling: true, levels, missing, distinct,
-    min: count ? lo : null, median: count ? sum.median : null, max: count ? hi : null,
+    name: col.name,
+    kind: 'numeric',
+    type: distinct === 2 ? 'binary' : 'numeric',
+    modelling: true,
+    levels,
+    missing,
+    distinct,
+    min: count ? lo : null,
+    median: count ? sum.median : null,
+    max: count ? hi : null,
     reason: count ? `all ${count} non-missing cells are numbers` : 'every cell is missing',
-    bins, proposedEvent: null,
+    bins,
+    proposedEvent: null,
   };
 }
 
@@ -62,10 +81,12 @@ export function rowsWindow(data: Dataset, start: number, count: number): string[
   const to = Math.min(data.nRows, from + Math.max(0, Math.floor(count)));
   const out: string[][] = [];
   for (let i = from; i < to; i++) {
-    out.push(data.columns.map((c) => {
-      if (c.kind === 'numeric') return Number.isNaN(c.values[i]) ? '' : String(c.values[i]);
-      return c.codes[i] < 0 ? '' : c.levels[c.codes[i]];
-    }));
+    out.push(
+      data.columns.map((c) => {
+        if (c.kind === 'numeric') return Number.isNaN(c.values[i]) ? '' : String(c.values[i]);
+        return c.codes[i] < 0 ? '' : c.levels[c.codes[i]];
+      }),
+    );
   }
   return out;
 }

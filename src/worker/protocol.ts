@@ -53,13 +53,28 @@ export interface FitRequest {
 }
 
 /** One line of the odds-ratio table, ready to show (penalised fits carry no intervals). */
-export interface OddsRow extends Pick<CoefficientRow,
-  'name' | 'term' | 'estimate' | 'oddsRatio' | 'se' | 'p' | 'waldLower' | 'waldUpper' | 'profileLower' | 'profileUpper' | 'aliased'> {
+export interface OddsRow extends Pick<
+  CoefficientRow,
+  | 'name'
+  | 'term'
+  | 'estimate'
+  | 'oddsRatio'
+  | 'se'
+  | 'p'
+  | 'waldLower'
+  | 'waldUpper'
+  | 'profileLower'
+  | 'profileUpper'
+  | 'aliased'
+> {
   /** The true coefficient of an invented demo, when known. */
   truth: number | null;
 }
 
-export interface CurvePoint { x: number; y: number }
+export interface CurvePoint {
+  x: number;
+  y: number;
+}
 
 export interface LambdaChoice {
   alpha: number;
@@ -71,15 +86,25 @@ export interface LambdaChoice {
 }
 
 export interface PerformanceView {
-  auc: number; aucLower: number; aucUpper: number;
+  auc: number;
+  aucLower: number;
+  aucUpper: number;
   roc: CurvePoint[];
   pr: CurvePoint[];
   averagePrecision: number;
-  brier: number; scaledBrier: number;
-  calSlope: number; calSlopeLower: number; calSlopeUpper: number;
-  calInLarge: number; calInLargeLower: number; calInLargeUpper: number;
+  brier: number;
+  scaledBrier: number;
+  calSlope: number;
+  calSlopeLower: number;
+  calSlopeUpper: number;
+  calInLarge: number;
+  calInLargeLower: number;
+  calInLargeUpper: number;
   calibration: { p: number; observed: number; lower: number; upper: number }[];
-  ici: number; e50: number; e90: number; emax: number;
+  ici: number;
+  e50: number;
+  e90: number;
+  emax: number;
   hosmerLemeshow: { chi2: number; df: number; p: number; groups: number } | null;
   decision: { t: number; model: number; all: number }[];
   warnings: EngineWarning[];
@@ -101,7 +126,10 @@ export interface FitView {
   warnings: EngineWarning[];
 }
 
-export interface Costs { missedCase: number; falseAlarm: number }
+export interface Costs {
+  missedCase: number;
+  falseAlarm: number;
+}
 
 export interface ThresholdView {
   /** The engine's record at the cut-off (counts, proportions with Wilson CIs, LR±, cost per 100). */
@@ -128,7 +156,8 @@ export interface RiskCurveView {
 
 export interface LossSurfaceView {
   names: [string, string];
-  xs: number[]; ys: number[];
+  xs: number[];
+  ys: number[];
   /** Row-major values[yIndex * xs.length + xIndex]. */
   values: number[];
   path: [number, number][];
@@ -143,12 +172,18 @@ export interface ValidationView {
 }
 
 export interface ScoreView {
-  risk: number; lower: number; upper: number; eta: number;
-  flagged: boolean; threshold: number;
+  risk: number;
+  lower: number;
+  upper: number;
+  eta: number;
+  flagged: boolean;
+  threshold: number;
 }
 
 export interface BatchScoreView {
-  n: number; scored: number; skipped: number;
+  n: number;
+  scored: number;
+  skipped: number;
   preview: { row: number; risk: number; lower: number; upper: number }[];
   csv: string;
   warnings: EngineWarning[];
@@ -164,7 +199,12 @@ export interface ExternalView {
 export type Progress = (done: number, total: number) => void;
 
 /** The user's own words for the model summary (TRIPOD: purpose, setting, population). */
-export interface ReportText { purpose?: string; setting?: string; population?: string; notes?: string }
+export interface ReportText {
+  purpose?: string;
+  setting?: string;
+  population?: string;
+  notes?: string;
+}
 
 /** The model refitted on m multiply-imputed datasets and pooled by Rubin's rules. */
 export interface ImputedView {
@@ -173,6 +213,15 @@ export interface ImputedView {
   nRows: number;
   nImputedRows: number;
   imputedColumns: { column: string; cells: number; method: string }[];
-  rows: { name: string; estimate: number; oddsRatio: number; lower: number | null; upper: number | null; p: number | null; fmi: number | null; df: number | null }[];
+  rows: {
+    name: string;
+    estimate: number;
+    oddsRatio: number;
+    lower: number | null;
+    upper: number | null;
+    p: number | null;
+    fmi: number | null;
+    df: number | null;
+  }[];
   warnings: EngineWarning[];
 }

@@ -12,17 +12,32 @@ import { requireData, requireFit, type Session } from './session';
  * The model-summary PDF of the current model, built in the worker from the engine's own records (fit,
  * evaluation, bootstrap validation when run, sample-size check) with the cut-off and costs chosen on the page.
  */
-export function modelReport(s: Session, costs: Costs, threshold: number, created: string, text: ReportText = {}): Uint8Array {
+export function modelReport(
+  s: Session,
+  costs: Costs,
+  threshold: number,
+  created: string,
+  text: ReportText = {},
+): Uint8Array {
   const fit = requireFit(s);
   const data = requireData(s);
   const decision = { falseNegative: costs.missedCase, falsePositive: costs.falseAlarm };
-  const evaluation = s.evaluation && s.prepared ? { ...s.evaluation, atThreshold: atThreshold(s.prepared, threshold, { costs: decision }) } : undefined;
+  const evaluation =
+    s.evaluation && s.prepared
+      ? { ...s.evaluation, atThreshold: atThreshold(s.prepared, threshold, { costs: decision }) }
+      : undefined;
   const req = s.request;
-  const lambdaChoice = req && (req.method === 'ridge' || req.method === 'lasso' || req.method === 'elasticnet')
-    ? `10-fold cross-validation over 100 values of λ, ${req.lambdaRule === '1se' ? 'one-standard-error rule' : 'lowest cross-validated deviance'}`
-    : undefined;
+  const lambdaChoice =
+    req && (req.method === 'ridge' || req.method === 'lasso' || req.method === 'elasticnet')
+      ? `10-fold cross-validation over 100 values of λ, ${req.lambdaRule === '1se' ? 'one-standard-error rule' : 'lowest cross-validated deviance'}`
+      : undefined;
   const input = reportInputFromRecords({
-    meta: { fulcraVersion: FULCRA_VERSION, created, seed: s.validation || lambdaChoice ? 1 : null, dataChecksum: datasetChecksum(data) },
+    meta: {
+      fulcraVersion: FULCRA_VERSION,
+      created,
+      seed: s.validation || lambdaChoice ? 1 : null,
+      dataChecksum: datasetChecksum(data),
+    },
     source: { fileName: s.summary?.source.name ?? 'data', rows: data.nRows, columns: data.columns.length },
     freeText: { ...text, notes: [s.summary?.source.notice, text.notes].filter(Boolean).join(' ') || undefined },
     fit,
@@ -39,19 +54,35 @@ export function modelReport(s: Session, costs: Costs, threshold: number, created
 }
 
 /** The versioned model file (JSON) of the current model, with the cut-off and costs chosen on the page. */
-export function modelFileText(s: Session, costs: Costs, threshold: number, created: string, text: ReportText = {}): string {
+export function modelFileText(
+  s: Session,
+  costs: Costs,
+  threshold: number,
+  created: string,
+  text: ReportText = {},
+): string {
   const fit = requireFit(s);
   const data = requireData(s);
-  return modelFileToJson(createModelFile(fit, {
-    fulcraVersion: FULCRA_VERSION, created, dataChecksum: datasetChecksum(data), fileName: s.summary?.source.name ?? null, rows: data.nRows,
-    threshold: { value: threshold, costFalseNegative: costs.missedCase, costFalsePositive: costs.falseAlarm },
-    notes: { purpose: text.purpose, setting: text.setting, population: text.population },
-  }));
+  return modelFileToJson(
+    createModelFile(fit, {
+      fulcraVersion: FULCRA_VERSION,
+      created,
+      dataChecksum: datasetChecksum(data),
+      fileName: s.summary?.source.name ?? null,
+      rows: data.nRows,
+      threshold: { value: threshold, costFalseNegative: costs.missedCase, costFalsePositive: costs.falseAlarm },
+      notes: { purpose: text.purpose, setting: text.setting, population: text.population },
+    }),
+  );
 }
 
 /** The current model as PMML 4.4 (for other scoring systems). */
 export function pmmlText(s: Session, created: string): string {
   const fit = requireFit(s);
   const outcome = s.data?.columns.find((c) => c.name === fit.recipe.outcome);
-  return modelToPmml(fit, { fulcraVersion: FULCRA_VERSION, created, outcomeLevels: outcome?.kind === 'categorical' ? outcome.levels : undefined });
+  return modelToPmml(fit, {
+    fulcraVersion: FULCRA_VERSION,
+    created,
+    outcomeLevels: outcome?.kind === 'categorical' ? outcome.levels : undefined,
+  });
 }

@@ -19,15 +19,32 @@ export async function startBrowserRowPool(): Promise<number> {
   if (!g.crossOriginIsolated || typeof SharedArrayBuffer === 'undefined' || threads < 2) return 1;
   const started: Worker[] = [];
   try {
-    const ready = Promise.all(Array.from({ length: threads - 1 }, (_, i) => new Promise<Worker>((resolve, reject) => {
-      const w = new Worker(new URL('./rowHelper.ts', import.meta.url), { type: 'module', name: `fulcra-rows-${i + 1}` });
-      started.push(w);
-      w.onmessage = () => { w.onmessage = null; resolve(w); };
-      w.onerror = (e) => { e.preventDefault(); reject(new Error(e.message || 'a helper worker failed to start')); };
-    })));
+    const ready = Promise.all(
+      Array.from(
+        { length: threads - 1 },
+        (_, i) =>
+          new Promise<Worker>((resolve, reject) => {
+            const w = new Worker(new URL('./rowHelper.ts', import.meta.url), {
+              type: 'module',
+              name: `fulcra-rows-${i + 1}`,
+            });
+            started.push(w);
+            w.onmessage = () => {
+              w.onmessage = null;
+              resolve(w);
+            };
+            w.onerror = (e) => {
+              e.preventDefault();
+              reject(new Error(e.message || 'a helper worker failed to start'));
+            };
+          }),
+      ),
+    );
     // Every call to the engine waits for this start: a helper that never answers must not hold the page up.
     let timer: ReturnType<typeof setTimeout> | undefined;
-    const late = new Promise<never>((_, reject) => { timer = setTimeout(() => reject(new Error('helper start timed out')), START_TIMEOUT_MS); });
+    const late = new Promise<never>((_, reject) => {
+      timer = setTimeout(() => reject(new Error('helper start timed out')), START_TIMEOUT_MS);
+    });
     const helpers = await Promise.race([ready, late]).finally(() => clearTimeout(timer));
     installRowPool(messagePool(helpers));
     // A helper that dies (out of memory, say) ends the pool: the pass it was in fails with a message, and every

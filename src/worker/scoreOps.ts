@@ -16,11 +16,22 @@ export function scoreImported(s: Session, imported: ImportResult, threshold: num
   const srcRow = (i: number) => imported.sourceRows[r.rowsUsed[i]];
   const f = requireFit(s);
   const hasCi = r.lower.some((x) => !Number.isNaN(x));
-  const csv = predictionsCsv(imported.dataset, { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed: r.rowsUsed }, { threshold, level: f.level });
+  const csv = predictionsCsv(
+    imported.dataset,
+    { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed: r.rowsUsed },
+    { threshold, level: f.level },
+  );
   const n = imported.dataset.nRows;
   return {
-    n, scored: r.risk.length, skipped: n - r.risk.length,
-    preview: Array.from({ length: Math.min(20, r.risk.length) }, (_, i) => ({ row: srcRow(i), risk: r.risk[i], lower: r.lower[i], upper: r.upper[i] })),
+    n,
+    scored: r.risk.length,
+    skipped: n - r.risk.length,
+    preview: Array.from({ length: Math.min(20, r.risk.length) }, (_, i) => ({
+      row: srcRow(i),
+      risk: r.risk[i],
+      lower: r.lower[i],
+      upper: r.upper[i],
+    })),
     csv,
     warnings: [...imported.warnings, ...r.warnings],
   };

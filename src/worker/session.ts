@@ -27,8 +27,18 @@ export interface Session {
 
 export function createSession(): Session {
   return {
-    data: null, summary: null, fit: null, request: null, y: null, risk: null, prepared: null,
-    evaluation: null, validation: null, sampleSize: null, imputed: null, signals: new Map(),
+    data: null,
+    summary: null,
+    fit: null,
+    request: null,
+    y: null,
+    risk: null,
+    prepared: null,
+    evaluation: null,
+    validation: null,
+    sampleSize: null,
+    imputed: null,
+    signals: new Map(),
   };
 }
 

@@ -22,7 +22,13 @@ export async function validate(s: Session, replicates: number, hooks: Hooks): Pr
   const nan = (x: number | null) => (x === null ? NaN : x);
   return {
     replicates: res.planned - res.failed,
-    metrics: res.rows.map((r) => ({ name: NAMES[r.metric], apparent: nan(r.apparent), optimism: nan(r.optimism), corrected: nan(r.corrected), spread: nan(r.sd) })),
+    metrics: res.rows.map((r) => ({
+      name: NAMES[r.metric],
+      apparent: nan(r.apparent),
+      optimism: nan(r.optimism),
+      corrected: nan(r.corrected),
+      spread: nan(r.sd),
+    })),
     warnings: res.warnings,
   };
 }
@@ -34,9 +40,17 @@ export async function validate(s: Session, replicates: number, hooks: Hooks): Pr
 export function lossSurface(s: Session, a: number, b: number): LossSurfaceView {
   const f = requireFit(s);
   const ridgeOnly = s.request?.method === 'ridge' || s.request?.method === 'ml' || s.request?.method === 'firth';
-  const r = engineLossSurface(ridgeOnly ? f : { ...f, method: 'ml' }, requireData(s), { i: a, j: b, grid: 41, span: 3 });
+  const r = engineLossSurface(ridgeOnly ? f : { ...f, method: 'ml' }, requireData(s), {
+    i: a,
+    j: b,
+    grid: 41,
+    span: 3,
+  });
   return {
-    names: [r.nameX, r.nameY], xs: r.x, ys: r.y, values: r.z,
+    names: [r.nameX, r.nameY],
+    xs: r.x,
+    ys: r.y,
+    values: r.z,
     path: r.path.x.map((x, k) => [x, r.path.y[k]] as [number, number]),
     optimum: r.estimate,
     penalised: r.objective === 'cross-entropy+ridge',

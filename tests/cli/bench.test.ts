@@ -6,7 +6,10 @@ import { synthesise, trueCoefficients } from '../../src/cli/bench/synth';
 describe('benchmark options', () => {
   it('reads sizes like 1e5x50 and rejects malformed ones', () => {
     expect(parseSize('1e5x50')).toEqual({ n: 100000, p: 50 });
-    expect(parseBenchArgs(['--sizes', '1e4x10,2e4x3', '--json']).sizes).toEqual([{ n: 10000, p: 10 }, { n: 20000, p: 3 }]);
+    expect(parseBenchArgs(['--sizes', '1e4x10,2e4x3', '--json']).sizes).toEqual([
+      { n: 10000, p: 10 },
+      { n: 20000, p: 3 },
+    ]);
     expect(parseBenchArgs(['--quick']).sizes.every((s) => s.n <= 1e5)).toBe(true);
     expect(() => parseSize('1e5')).toThrow(/ROWSxPREDICTORS/);
     expect(() => parseBenchArgs(['--bogus'])).toThrow(/Unknown option/);
@@ -19,7 +22,8 @@ describe('synthetic data', () => {
     let ss = 0;
     for (let j = 1; j <= 50; j++) ss += b[j] ** 2;
     expect(ss).toBeCloseTo(2, 12);
-    const a = synthesise(500, 3, 7), c = synthesise(500, 3, 7);
+    const a = synthesise(500, 3, 7),
+      c = synthesise(500, 3, 7);
     expect(Array.from(a.X)).toEqual(Array.from(c.X));
     expect(Array.from(a.y)).toEqual(Array.from(c.y));
     for (const v of a.X) expect(Math.round(v * 1e4) / 1e4).toBe(v);
@@ -28,10 +32,42 @@ describe('synthetic data', () => {
 
 describe('targets', () => {
   it('judges a fit ratio only when both fits reached 1e-8 precision', () => {
-    const fit = (who: string, median: number, gap: number) => ({ who, library: '', seconds: [median], cpuSeconds: [median], median, iterations: 1, beta: [], gap, notes: [] });
+    const fit = (who: string, median: number, gap: number) => ({
+      who,
+      library: '',
+      seconds: [median],
+      cpuSeconds: [median],
+      median,
+      iterations: 1,
+      beta: [],
+      gap,
+      notes: [],
+    });
     const rec: BenchRecord = {
-      date: '', node: '', cpu: '', cores: 2, loadAverageAtStart: 0, quick: false, seed: 1, referenceThreads: {}, timing: '', extras: [], browser: null, targets: [],
-      sizes: [{ n: 1e6, p: 50, csv: '', csvBytes: 0, eventRate: 0.3, designBytes: 8, errors: [], fits: [fit('Fulcra engine', 2, 1e-12), fit('sklearn newton-cholesky', 4, 1e-12), fit('R glm.fit', 4, 1e-6)] }],
+      date: '',
+      node: '',
+      cpu: '',
+      cores: 2,
+      loadAverageAtStart: 0,
+      quick: false,
+      seed: 1,
+      referenceThreads: {},
+      timing: '',
+      extras: [],
+      browser: null,
+      targets: [],
+      sizes: [
+        {
+          n: 1e6,
+          p: 50,
+          csv: '',
+          csvBytes: 0,
+          eventRate: 0.3,
+          designBytes: 8,
+          errors: [],
+          fits: [fit('Fulcra engine', 2, 1e-12), fit('sklearn newton-cholesky', 4, 1e-12), fit('R glm.fit', 4, 1e-6)],
+        },
+      ],
     };
     const t = judgeTargets(rec);
     expect(t.find((x) => x.name === 'Fulcra engine 1e+6×50 / sklearn newton-cholesky')?.met).toBe(true);
@@ -41,10 +77,42 @@ describe('targets', () => {
   });
 
   it('judges the engine as the page runs it (all cores), and shows the one-thread run without judging it', () => {
-    const fit = (who: string, median: number) => ({ who, library: '', seconds: [median], cpuSeconds: [median], median, iterations: 1, beta: [], gap: 0, notes: [] });
+    const fit = (who: string, median: number) => ({
+      who,
+      library: '',
+      seconds: [median],
+      cpuSeconds: [median],
+      median,
+      iterations: 1,
+      beta: [],
+      gap: 0,
+      notes: [],
+    });
     const rec: BenchRecord = {
-      date: '', node: '', cpu: '', cores: 2, loadAverageAtStart: 0, quick: false, seed: 1, referenceThreads: {}, timing: '', extras: [], browser: null, targets: [],
-      sizes: [{ n: 1e5, p: 50, csv: '', csvBytes: 0, eventRate: 0.3, designBytes: 8, errors: [], fits: [fit('Fulcra engine', 2), fit(ONE_THREAD, 3), fit('sklearn newton-cholesky', 2.5)] }],
+      date: '',
+      node: '',
+      cpu: '',
+      cores: 2,
+      loadAverageAtStart: 0,
+      quick: false,
+      seed: 1,
+      referenceThreads: {},
+      timing: '',
+      extras: [],
+      browser: null,
+      targets: [],
+      sizes: [
+        {
+          n: 1e5,
+          p: 50,
+          csv: '',
+          csvBytes: 0,
+          eventRate: 0.3,
+          designBytes: 8,
+          errors: [],
+          fits: [fit('Fulcra engine', 2), fit(ONE_THREAD, 3), fit('sklearn newton-cholesky', 2.5)],
+        },
+      ],
     };
     const t = judgeTargets(rec);
     expect(t.find((x) => x.name === 'Fulcra engine 1e+5×50 / sklearn newton-cholesky')?.met).toBe(true);

@@ -12,10 +12,31 @@ const relErr = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b),
 
 describe('npm run fit', () => {
   it('prints a JSON record that matches R glm() on MASS::birthwt (R 4.2.2 stats::glm, fixture fit-birthwt.json)', () => {
-    const stdout = execFileSync('npx', ['tsx', 'src/cli/fit.ts', 'tests/fixtures/data/birthwt.csv', '--outcome', 'low',
-      '--predictors', 'age,lwt,race,smoke,ptl,ht,ui', '--categorical', 'race', '--reference', 'race=1', '--json'], { encoding: 'utf8' });
+    const stdout = execFileSync(
+      'npx',
+      [
+        'tsx',
+        'src/cli/fit.ts',
+        'tests/fixtures/data/birthwt.csv',
+        '--outcome',
+        'low',
+        '--predictors',
+        'age,lwt,race,smoke,ptl,ht,ui',
+        '--categorical',
+        'race',
+        '--reference',
+        'race=1',
+        '--json',
+      ],
+      { encoding: 'utf8' },
+    );
     const run = JSON.parse(stdout);
-    const coefs = run.fit.coefficients as { estimate: number; se: number; profileLower: number; profileUpper: number }[];
+    const coefs = run.fit.coefficients as {
+      estimate: number;
+      se: number;
+      profileLower: number;
+      profileUpper: number;
+    }[];
     expect(coefs).toHaveLength(ref.coef.length);
     coefs.forEach((c, j) => {
       expect(relErr(c.estimate, ref.coef[j])).toBeLessThan(1e-6);
@@ -30,7 +51,10 @@ describe('npm run fit', () => {
   it('exits with a message naming the column when the outcome does not exist', () => {
     let stderr = '';
     try {
-      execFileSync('npx', ['tsx', 'src/cli/fit.ts', 'tests/fixtures/data/birthwt.csv', '--outcome', 'lowbw'], { encoding: 'utf8', stdio: 'pipe' });
+      execFileSync('npx', ['tsx', 'src/cli/fit.ts', 'tests/fixtures/data/birthwt.csv', '--outcome', 'lowbw'], {
+        encoding: 'utf8',
+        stdio: 'pipe',
+      });
     } catch (e) {
       stderr = String((e as { stderr: string }).stderr);
       expect((e as { status: number }).status).toBe(2);
@@ -47,16 +71,22 @@ describe('npm run fit on more rows than one chunk', () => {
     const rng = createRng(4);
     const lines = ['a,b,y'];
     for (let i = 0; i < 40_000; i++) {
-      const a = rng.normal(), b = rng.normal();
+      const a = rng.normal(),
+        b = rng.normal();
       lines.push(`${a.toFixed(4)},${b.toFixed(4)},${rng.next() < 1 / (1 + Math.exp(1 - 0.8 * a + 0.5 * b)) ? 1 : 0}`);
     }
     writeFileSync(file, lines.join('\n'));
     const run = (t: number) => {
-      const out = JSON.parse(execFileSync('npx', ['tsx', 'src/cli/fit.ts', file, '--outcome', 'y', '--json', '--threads', String(t)], { encoding: 'utf8' }));
+      const out = JSON.parse(
+        execFileSync('npx', ['tsx', 'src/cli/fit.ts', file, '--outcome', 'y', '--json', '--threads', String(t)], {
+          encoding: 'utf8',
+        }),
+      );
       delete out.fulcra.command;
       return out;
     };
-    const one = run(1), two = run(2);
+    const one = run(1),
+      two = run(2);
     expect(two).toEqual(one);
     expect(one.fit.coefficients).toHaveLength(3);
   }, 120_000);
@@ -64,12 +94,50 @@ describe('npm run fit on more rows than one chunk', () => {
 
 describe('parseFitArgs', () => {
   it('reads every option', () => {
-    const a = parseFitArgs(['d.csv', '--outcome', 'y', '--event', 'yes', '--predictors', 'a,b', '--categorical', 'b',
-      '--reference', 'b=low', '--spline', 'a=4', '--interaction', 'a:b', '--costs', '10:1', '--threshold', '0.2',
-      '--bootstrap', '50', '--seed', '7', '--threads', '3', '--json']);
-    expect(a).toMatchObject({ file: 'd.csv', outcome: 'y', event: 'yes', predictors: ['a', 'b'], categorical: ['b'],
-      reference: { b: 'low' }, splines: { a: 4 }, interactions: [['a', 'b']], costs: { fn: 10, fp: 1 }, threshold: 0.2,
-      bootstrap: 50, seed: 7, threads: 3, json: true });
+    const a = parseFitArgs([
+      'd.csv',
+      '--outcome',
+      'y',
+      '--event',
+      'yes',
+      '--predictors',
+      'a,b',
+      '--categorical',
+      'b',
+      '--reference',
+      'b=low',
+      '--spline',
+      'a=4',
+      '--interaction',
+      'a:b',
+      '--costs',
+      '10:1',
+      '--threshold',
+      '0.2',
+      '--bootstrap',
+      '50',
+      '--seed',
+      '7',
+      '--threads',
+      '3',
+      '--json',
+    ]);
+    expect(a).toMatchObject({
+      file: 'd.csv',
+      outcome: 'y',
+      event: 'yes',
+      predictors: ['a', 'b'],
+      categorical: ['b'],
+      reference: { b: 'low' },
+      splines: { a: 4 },
+      interactions: [['a', 'b']],
+      costs: { fn: 10, fp: 1 },
+      threshold: 0.2,
+      bootstrap: 50,
+      seed: 7,
+      threads: 3,
+      json: true,
+    });
   });
 
   it.each([
@@ -91,7 +159,17 @@ describe('runFit (the record behind npm run fit --json)', () => {
   it('validates externally with the same calibration-in-the-large and slope as R glm with an offset (fixture validate-recalibration.json, R 4.2.2 stats::glm)', async () => {
     const { runFit } = await import('../../src/cli/runFit');
     const rec = JSON.parse(readFileSync('tests/fixtures/reference/validate-recalibration.json', 'utf8'));
-    const argv = ['tests/fixtures/data/validate-pima-tr.csv', '--outcome', 'type', '--event', 'Yes', '--test', 'tests/fixtures/data/validate-pima-te.csv', '--costs', '4:1'];
+    const argv = [
+      'tests/fixtures/data/validate-pima-tr.csv',
+      '--outcome',
+      'type',
+      '--event',
+      'Yes',
+      '--test',
+      'tests/fixtures/data/validate-pima-te.csv',
+      '--costs',
+      '4:1',
+    ];
     const run = await runFit(parseFitArgs(argv), argv, 'test');
     run.fit!.coefficients.forEach((c, j) => expect(relErr(c.estimate, rec.devCoef[j])).toBeLessThan(1e-6));
     const cal = run.external!.evaluation.calibration;
@@ -104,14 +182,29 @@ describe('runFit (the record behind npm run fit --json)', () => {
 
   it('runs a lasso with λ by cross-validation and a seeded bootstrap that repeats exactly', async () => {
     const { runFit } = await import('../../src/cli/runFit');
-    const argv = ['tests/fixtures/data/birthwt.csv', '--outcome', 'low', '--predictors', 'age,lwt,race,smoke,ptl,ht,ui',
-      '--categorical', 'race', '--penalty', 'lasso', '--bootstrap', '5', '--seed', '11'];
+    const argv = [
+      'tests/fixtures/data/birthwt.csv',
+      '--outcome',
+      'low',
+      '--predictors',
+      'age,lwt,race,smoke,ptl,ht,ui',
+      '--categorical',
+      'race',
+      '--penalty',
+      'lasso',
+      '--bootstrap',
+      '5',
+      '--seed',
+      '11',
+    ];
     const a = await runFit(parseFitArgs(argv), argv, 'test');
     const b = await runFit(parseFitArgs(argv), argv, 'test');
     expect(a.fit).toBeNull();
     expect(a.penalised!.method).toBe('lasso');
     expect(a.penalised!.lambda).toBeGreaterThan(0);
     expect(a.validation!.rows).toEqual(b.validation!.rows);
-    expect(a.validation!.rows.find((r) => r.metric === 'auc')!.corrected).toBeLessThanOrEqual(a.evaluation.auc.auc! + 1e-12);
+    expect(a.validation!.rows.find((r) => r.metric === 'auc')!.corrected).toBeLessThanOrEqual(
+      a.evaluation.auc.auc! + 1e-12,
+    );
   }, 120_000);
 });

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { accumulateXtWX, blockedLinearPredictor, blockedXtr, logisticRows, ROW_BLOCK } from '../../src/engine/numerics/kernels';
+import {
+  accumulateXtWX,
+  blockedLinearPredictor,
+  blockedXtr,
+  logisticRows,
+  ROW_BLOCK,
+} from '../../src/engine/numerics/kernels';
 import { crossProductWeighted, linearPredictor, sigmoid, sumCrossEntropy } from '../../src/engine/numerics/loss';
 import { createRng } from '../../src/engine/numerics/rng';
 
@@ -13,17 +19,27 @@ function randomDesign(n: number, p: number, seed: number) {
 }
 
 const maxRelGap = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
-  let scale = 0, gap = 0;
+  let scale = 0,
+    gap = 0;
   for (let i = 0; i < a.length; i++) scale = Math.max(scale, Math.abs(b[i]));
   for (let i = 0; i < a.length; i++) gap = Math.max(gap, Math.abs(a[i] - b[i]));
   return gap / scale;
 };
 
 // Shapes that exercise every remainder path: p mod 2, p mod 4, n below / at / across row blocks.
-const shapes: [number, number][] = [[1, 1], [7, 2], [ROW_BLOCK, 3], [ROW_BLOCK + 1, 5], [1000, 6], [3 * ROW_BLOCK - 7, 9], [2500, 12], [5000, 1]];
+const shapes: [number, number][] = [
+  [1, 1],
+  [7, 2],
+  [ROW_BLOCK, 3],
+  [ROW_BLOCK + 1, 5],
+  [1000, 6],
+  [3 * ROW_BLOCK - 7, 9],
+  [2500, 12],
+  [5000, 1],
+];
 
 describe('accumulateXtWX', () => {
-  it.each(shapes)('equals the straightforward X\'WX of loss.ts (n = %i, p = %i) to 1e-13 relative', (n, p) => {
+  it.each(shapes)("equals the straightforward X'WX of loss.ts (n = %i, p = %i) to 1e-13 relative", (n, p) => {
     const { X, w } = randomDesign(n, p, n * 31 + p);
     const ref = crossProductWeighted(X, n, p, w, new Float64Array(p * p), new Float64Array(n));
     const got = accumulateXtWX(X, n, p, w, new Float64Array(p * p));
@@ -31,7 +47,8 @@ describe('accumulateXtWX', () => {
   });
 
   it('returns an exactly symmetric matrix and reuses a caller work buffer', () => {
-    const n = 600, p = 11;
+    const n = 600,
+      p = 11;
     const { X, w } = randomDesign(n, p, 5);
     const work = new Float64Array(ROW_BLOCK * p).fill(123);
     const out = accumulateXtWX(X, n, p, w, new Float64Array(p * p).fill(NaN), work);
@@ -41,7 +58,9 @@ describe('accumulateXtWX', () => {
 
   it('gives zero for zero weights', () => {
     const { X } = randomDesign(300, 4, 9);
-    expect(Array.from(accumulateXtWX(X, 300, 4, new Float64Array(300), new Float64Array(16)))).toEqual(new Array(16).fill(0));
+    expect(Array.from(accumulateXtWX(X, 300, 4, new Float64Array(300), new Float64Array(16)))).toEqual(
+      new Array(16).fill(0),
+    );
   });
 });
 
@@ -49,8 +68,18 @@ describe('blockedLinearPredictor and blockedXtr', () => {
   it.each(shapes)('equal linearPredictor (with offset) and the column dot products (n = %i, p = %i)', (n, p) => {
     const { X, v, b } = randomDesign(n, p, n + 7 * p);
     const offset = Float64Array.from(v, (x) => 0.5 * x);
-    expect(maxRelGap(blockedLinearPredictor(X, n, p, b, offset, new Float64Array(n)), linearPredictor(X, n, p, b, offset, new Float64Array(n)))).toBeLessThan(1e-13);
-    expect(maxRelGap(blockedLinearPredictor(X, n, p, b, undefined, new Float64Array(n).fill(9)), linearPredictor(X, n, p, b, undefined, new Float64Array(n)))).toBeLessThan(1e-13);
+    expect(
+      maxRelGap(
+        blockedLinearPredictor(X, n, p, b, offset, new Float64Array(n)),
+        linearPredictor(X, n, p, b, offset, new Float64Array(n)),
+      ),
+    ).toBeLessThan(1e-13);
+    expect(
+      maxRelGap(
+        blockedLinearPredictor(X, n, p, b, undefined, new Float64Array(n).fill(9)),
+        linearPredictor(X, n, p, b, undefined, new Float64Array(n)),
+      ),
+    ).toBeLessThan(1e-13);
     const ref = new Float64Array(p);
     for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) ref[j] += X[j * n + i] * v[i];
     expect(maxRelGap(blockedXtr(X, n, p, v, new Float64Array(p).fill(4)), ref)).toBeLessThan(1e-13);
@@ -58,52 +87,72 @@ describe('blockedLinearPredictor and blockedXtr', () => {
 });
 
 describe('row ranges (one chunk of a pooled pass each)', () => {
-  it.each(shapes)('logisticRows over two row ranges equals sumCrossEntropy, y − μ and X\'(y − μ) of loss.ts (n = %i, p = %i)', (n, p) => {
-    const { X, b } = randomDesign(n, p, 3 * n + p);
-    const rng = createRng(n);
-    const y = Float64Array.from({ length: n }, () => (rng.next() < 0.3 ? 1 : 0));
-    const etaRef = linearPredictor(X, n, p, b, undefined, new Float64Array(n));
-    const lossRef = sumCrossEntropy(etaRef, y);
-    const rRef = Float64Array.from(etaRef, (e, i) => y[i] - sigmoid(e));
-    const gRef = new Float64Array(p);
-    for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
-    const eta = new Float64Array(n), r = new Float64Array(n), w = new Float64Array(n), g1 = new Float64Array(p), g2 = new Float64Array(p);
-    const half = n >> 1;
-    const loss = logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g1, 0, half)
-      + logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g2, half, n);
-    const g = g1.map((v, j) => v + g2[j]);
-    expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
-    expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
-    expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);
-  });
+  it.each(shapes)(
+    "logisticRows over two row ranges equals sumCrossEntropy, y − μ and X'(y − μ) of loss.ts (n = %i, p = %i)",
+    (n, p) => {
+      const { X, b } = randomDesign(n, p, 3 * n + p);
+      const rng = createRng(n);
+      const y = Float64Array.from({ length: n }, () => (rng.next() < 0.3 ? 1 : 0));
+      const etaRef = linearPredictor(X, n, p, b, undefined, new Float64Array(n));
+      const lossRef = sumCrossEntropy(etaRef, y);
+      const rRef = Float64Array.from(etaRef, (e, i) => y[i] - sigmoid(e));
+      const gRef = new Float64Array(p);
+      for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
+      const eta = new Float64Array(n),
+        r = new Float64Array(n),
+        w = new Float64Array(n),
+        g1 = new Float64Array(p),
+        g2 = new Float64Array(p);
+      const half = n >> 1;
+      const loss =
+        logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g1, 0, half) +
+        logisticRows(X, n, p, y, b, undefined, undefined, eta, r, w, g2, half, n);
+      const g = g1.map((v, j) => v + g2[j]);
+      expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
+      expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
+      expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);
+    },
+  );
 
   it('accumulateXtWX over two row ranges sums to the whole', () => {
-    const n = 1000, p = 7;
+    const n = 1000,
+      p = 7;
     const { X, w } = randomDesign(n, p, 77);
     const a = accumulateXtWX(X, n, p, w, new Float64Array(p * p), undefined, 0, 333);
     const b = accumulateXtWX(X, n, p, w, new Float64Array(p * p), undefined, 333, n);
     const whole = accumulateXtWX(X, n, p, w, new Float64Array(p * p));
-    expect(maxRelGap(a.map((v, k) => v + b[k]), whole)).toBeLessThan(1e-13);
+    expect(
+      maxRelGap(
+        a.map((v, k) => v + b[k]),
+        whole,
+      ),
+    ).toBeLessThan(1e-13);
   });
 });
 
 describe('logisticRows', () => {
-  it.each(shapes)('equals the loss.ts loss, residuals, weights and X\'r with case weights and an offset (n = %i, p = %i) to 1e-13', (n, p) => {
-    const { X, w: c, v: offset, b } = randomDesign(n, p, n * 17 + p);
-    const rng = createRng(n + p);
-    const y = Float64Array.from({ length: n }, (_, i) => (i % 7 === 3 ? 0.25 : +(rng.next() < 0.4)));
-    const eta = new Float64Array(n), r = new Float64Array(n), w = new Float64Array(n), g = new Float64Array(p).fill(9);
-    const loss = logisticRows(X, n, p, y, b, c, offset, eta, r, w, g);
-    const etaRef = linearPredictor(X, n, p, b, offset, new Float64Array(n));
-    expect(maxRelGap(eta, etaRef)).toBeLessThan(1e-13);
-    const lossRef = sumCrossEntropy(etaRef, y, c);
-    expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
-    const rRef = Float64Array.from(etaRef, (e, i) => c[i] * (y[i] - sigmoid(e)));
-    const wRef = Float64Array.from(etaRef, (e, i) => c[i] * sigmoid(e) * sigmoid(-e));
-    expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
-    expect(maxRelGap(w, wRef)).toBeLessThan(1e-13);
-    const gRef = new Float64Array(p);
-    for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
-    expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);
-  });
+  it.each(shapes)(
+    "equals the loss.ts loss, residuals, weights and X'r with case weights and an offset (n = %i, p = %i) to 1e-13",
+    (n, p) => {
+      const { X, w: c, v: offset, b } = randomDesign(n, p, n * 17 + p);
+      const rng = createRng(n + p);
+      const y = Float64Array.from({ length: n }, (_, i) => (i % 7 === 3 ? 0.25 : +(rng.next() < 0.4)));
+      const eta = new Float64Array(n),
+        r = new Float64Array(n),
+        w = new Float64Array(n),
+        g = new Float64Array(p).fill(9);
+      const loss = logisticRows(X, n, p, y, b, c, offset, eta, r, w, g);
+      const etaRef = linearPredictor(X, n, p, b, offset, new Float64Array(n));
+      expect(maxRelGap(eta, etaRef)).toBeLessThan(1e-13);
+      const lossRef = sumCrossEntropy(etaRef, y, c);
+      expect(Math.abs(loss - lossRef) / lossRef).toBeLessThan(1e-13);
+      const rRef = Float64Array.from(etaRef, (e, i) => c[i] * (y[i] - sigmoid(e)));
+      const wRef = Float64Array.from(etaRef, (e, i) => c[i] * sigmoid(e) * sigmoid(-e));
+      expect(maxRelGap(r, rRef)).toBeLessThan(1e-13);
+      expect(maxRelGap(w, wRef)).toBeLessThan(1e-13);
+      const gRef = new Float64Array(p);
+      for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) gRef[j] += X[j * n + i] * rRef[i];
+      expect(maxRelGap(g, gRef)).toBeLessThan(1e-12);
+    },
+  );
 });

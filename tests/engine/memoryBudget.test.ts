@@ -8,13 +8,21 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { FulcraError, type Dataset } from '../../src/engine/core/data';
 import { fit } from '../../src/engine/fitting/fit';
 import {
-  availableBytes, checkBudget, DEFAULT_TAB_BYTES, designColumnCount, estimateFitBytes, estimateImportBytes,
-  formatBytes, sampleShape, type MemoryEstimate,
+  availableBytes,
+  checkBudget,
+  DEFAULT_TAB_BYTES,
+  designColumnCount,
+  estimateFitBytes,
+  estimateImportBytes,
+  formatBytes,
+  sampleShape,
+  type MemoryEstimate,
 } from '../../src/engine/fitting/memoryBudget';
 import type { ModelSpec } from '../../src/engine/core/model';
 import { createRng } from '../../src/engine/numerics/rng';
 
-const MiB = 1024 ** 2, GiB = 1024 ** 3;
+const MiB = 1024 ** 2,
+  GiB = 1024 ** 3;
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 
 afterEach(() => vi.unstubAllGlobals());
@@ -42,19 +50,30 @@ describe('estimateFitBytes', () => {
 
 describe('designColumnCount', () => {
   it('matches the number of coefficients fit() returns for numeric, categorical, spline and interaction terms', () => {
-    const n = 300, rng = createRng(11);
+    const n = 300,
+      rng = createRng(11);
     const x = Float64Array.from({ length: n }, () => rng.normal());
     const z = Float64Array.from({ length: n }, () => rng.normal());
     const g = Int32Array.from({ length: n }, () => Math.floor(rng.next() * 4));
     const y = Float64Array.from(x, (v, i) => (rng.next() < 1 / (1 + Math.exp(-(v + 0.3 * g[i]))) ? 1 : 0));
-    const data: Dataset = { nRows: n, columns: [
-      { kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x', values: x }, { kind: 'numeric', name: 'z', values: z },
-      { kind: 'categorical', name: 'g', codes: g, levels: ['a', 'b', 'c', 'd'] },
-    ] };
-    const spec: ModelSpec = { outcome: 'y', terms: [
-      { type: 'main', column: 'x' }, { type: 'main', column: 'g' }, { type: 'spline', column: 'z', knots: 4 },
-      { type: 'interaction', columns: ['x', 'g'] },
-    ] };
+    const data: Dataset = {
+      nRows: n,
+      columns: [
+        { kind: 'numeric', name: 'y', values: y },
+        { kind: 'numeric', name: 'x', values: x },
+        { kind: 'numeric', name: 'z', values: z },
+        { kind: 'categorical', name: 'g', codes: g, levels: ['a', 'b', 'c', 'd'] },
+      ],
+    };
+    const spec: ModelSpec = {
+      outcome: 'y',
+      terms: [
+        { type: 'main', column: 'x' },
+        { type: 'main', column: 'g' },
+        { type: 'spline', column: 'z', knots: 4 },
+        { type: 'interaction', columns: ['x', 'g'] },
+      ],
+    };
     expect(designColumnCount(data, spec)).toBe(1 + 1 + 3 + 3 + 3);
     expect(designColumnCount(data, spec)).toBe(fit(data, spec, { profile: false }).coefficients.length);
   });
@@ -73,7 +92,13 @@ describe('sampleShape and estimateImportBytes', () => {
   });
 
   it('scales rows from the sample by bytes and charges 28 bytes a cell plus the file and its decoded chunks', () => {
-    const e = estimateImportBytes({ fileBytes: 100 * MiB, sampleBytes: 1 * MiB, sampleRows: 10_000, columns: 20, format: 'delimited' });
+    const e = estimateImportBytes({
+      fileBytes: 100 * MiB,
+      sampleBytes: 1 * MiB,
+      sampleRows: 10_000,
+      columns: 20,
+      format: 'delimited',
+    });
     expect(e.rows).toBe(1_000_000);
     expect(e.bytes).toBe(100 * MiB + 16 * MiB + 28 * 1_000_000 * 20 + 8 * 1_000_000 + 32 * MiB);
   });
@@ -87,7 +112,13 @@ describe('sampleShape and estimateImportBytes', () => {
 });
 
 describe('checkBudget', () => {
-  const big: MemoryEstimate = { job: 'import', bytes: 3.1 * GiB, rows: 2_000_000, columns: 40, parts: [{ label: 'working overhead', bytes: 32 * MiB }] };
+  const big: MemoryEstimate = {
+    job: 'import',
+    bytes: 3.1 * GiB,
+    rows: 2_000_000,
+    columns: 40,
+    parts: [{ label: 'working overhead', bytes: 32 * MiB }],
+  };
 
   it('passes an estimate within the budget', () => {
     expect(checkBudget({ ...big, bytes: GiB }, 2 * GiB)).toEqual({ ok: true, needed: GiB, available: 2 * GiB });
@@ -111,7 +142,9 @@ describe('checkBudget', () => {
     const c = checkBudget(estimateFitBytes({ rows: 5_000_000, designColumns: 60 }), 2 * GiB);
     expect(c.ok).toBe(false);
     if (!c.ok) {
-      expect(c.message).toMatch(/^This model needs about \d+(\.\d)? GB of memory to fit and check; the tab can use about 2 GB\.$/);
+      expect(c.message).toMatch(
+        /^This model needs about \d+(\.\d)? GB of memory to fit and check; the tab can use about 2 GB\.$/,
+      );
       expect(c.suggestion).toMatch(/fewer predictors/);
     }
   });
@@ -152,8 +185,14 @@ describe('availableBytes', () => {
 async function probe(body: string): Promise<Record<string, number>> {
   const dir = mkdtempSync(join(tmpdir(), 'fulcra-mem-'));
   const file = join(dir, 'probe.mjs');
-  writeFileSync(file, `const root = ${JSON.stringify(ROOT)};\nconst peak = () => process.resourceUsage().maxRSS * 1024;\n${body}`);
-  const { stdout } = await promisify(execFile)(process.execPath, ['--expose-gc', '--import', 'tsx', file], { cwd: ROOT, maxBuffer: 1 << 20 });
+  writeFileSync(
+    file,
+    `const root = ${JSON.stringify(ROOT)};\nconst peak = () => process.resourceUsage().maxRSS * 1024;\n${body}`,
+  );
+  const { stdout } = await promisify(execFile)(process.execPath, ['--expose-gc', '--import', 'tsx', file], {
+    cwd: ROOT,
+    maxBuffer: 1 << 20,
+  });
   return JSON.parse(stdout.trim().split('\n').pop()!);
 }
 
@@ -188,7 +227,7 @@ describe('estimates against measured memory', () => {
     expect(est).toBeLessThanOrEqual(4 * measured);
   }, 180_000);
 
-  it('covers the measured peak of the worker\'s whole fit job (fit with profile intervals and term tests, then the evaluation) at 100 000 × 30', async () => {
+  it("covers the measured peak of the worker's whole fit job (fit with profile intervals and term tests, then the evaluation) at 100 000 × 30", async () => {
     const m = await probe(`
       const { createApi } = await import(root + 'src/worker/api.ts');
       ${PROBE_DATA}
@@ -212,7 +251,10 @@ describe('estimates against measured memory', () => {
     const dir = mkdtempSync(join(tmpdir(), 'fulcra-csv-'));
     const csv = join(dir, 'probe.csv');
     const lines = ['x0,x1,x2,x3,x4,x5,x6,x7,x8,x9,site'];
-    for (let i = 0; i < 100_000; i++) lines.push([...Array.from({ length: 10 }, (_, j) => (Math.sin(i * 7 + j) * 1000).toFixed(3)), `S${i % 37}`].join(','));
+    for (let i = 0; i < 100_000; i++)
+      lines.push(
+        [...Array.from({ length: 10 }, (_, j) => (Math.sin(i * 7 + j) * 1000).toFixed(3)), `S${i % 37}`].join(','),
+      );
     writeFileSync(csv, lines.join('\n') + '\n');
     const m = await probe(`
       const { readFileSync } = await import('node:fs');

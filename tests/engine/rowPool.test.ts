@@ -3,7 +3,16 @@ import { startNodeRowPool } from '../../src/cli/nodeRowPool';
 import { accumulateXtWX, logisticRows } from '../../src/engine/numerics/kernels';
 import { newtonLogistic, type LogisticProblem } from '../../src/engine/fitting/newton';
 import {
-  allocF64, CHUNK_ROWS, chunkRange, createRowPasses, giveBackBuffers, helperRun, installRowPool, messagePool, takeBuffer, type RowJob,
+  allocF64,
+  CHUNK_ROWS,
+  chunkRange,
+  createRowPasses,
+  giveBackBuffers,
+  helperRun,
+  installRowPool,
+  messagePool,
+  takeBuffer,
+  type RowJob,
 } from '../../src/engine/numerics/rowPool';
 import { createRng } from '../../src/engine/numerics/rng';
 
@@ -12,7 +21,8 @@ afterEach(() => installRowPool(null));
 /** A logistic problem with known coefficients, its arrays from allocF64 (shared while a pool is installed). */
 function problem(n: number, p: number, seed: number): LogisticProblem {
   const rng = createRng(seed);
-  const X = allocF64(n * p), y = allocF64(n);
+  const X = allocF64(n * p),
+    y = allocF64(n);
   X.fill(1, 0, n);
   for (let k = n; k < n * p; k++) X[k] = rng.normal();
   const b = Array.from({ length: p }, (_, j) => (j === 0 ? -1 : 0.6 / j));
@@ -27,17 +37,25 @@ function problem(n: number, p: number, seed: number): LogisticProblem {
 /** A pool whose helpers run their share at once, on this thread (tests the partition and the reduction). */
 function inlinePool(threads: number, fail = false) {
   const work = {};
-  return messagePool(Array.from({ length: threads - 1 }, () => ({
-    postMessage: (m: unknown) => {
-      const msg = m as { job: RowJob; k0: number; k1: number };
-      helperRun(fail ? { ...msg, job: { ...msg.job, X: undefined as unknown as Float64Array } } : msg, work);
-    },
-  })));
+  return messagePool(
+    Array.from({ length: threads - 1 }, () => ({
+      postMessage: (m: unknown) => {
+        const msg = m as { job: RowJob; k0: number; k1: number };
+        helperRun(fail ? { ...msg, job: { ...msg.job, X: undefined as unknown as Float64Array } } : msg, work);
+      },
+    })),
+  );
 }
 
 const fitAll = (pr: LogisticProblem) => {
   const r = newtonLogistic(pr, { tol: 1e-10 });
-  return { beta: Array.from(r.beta), info: Array.from(r.information), ll: r.logLik, fitted: Array.from(r.fitted), it: r.iterations };
+  return {
+    beta: Array.from(r.beta),
+    info: Array.from(r.information),
+    ll: r.logLik,
+    fitted: Array.from(r.fitted),
+    it: r.iterations,
+  };
 };
 
 describe('chunkRange', () => {
@@ -45,7 +63,10 @@ describe('chunkRange', () => {
     for (const chunks of [1, 2, 5, 31]) {
       for (const threads of [1, 2, 3, 8]) {
         const seen: number[] = [];
-        for (let t = 0; t < threads; t++) { const [a, b] = chunkRange(chunks, threads, t); for (let k = a; k < b; k++) seen.push(k); }
+        for (let t = 0; t < threads; t++) {
+          const [a, b] = chunkRange(chunks, threads, t);
+          for (let k = a; k < b; k++) seen.push(k);
+        }
         expect(seen).toEqual(Array.from({ length: chunks }, (_, k) => k));
       }
     }
@@ -59,32 +80,41 @@ describe('createRowPasses (one thread, by chunks)', () => {
 
   it('equals one straight logisticRows pass to 1e-13 (only the order of the sums differs)', () => {
     const passes = createRowPasses(X, n, p, y, undefined, undefined);
-    const eta = new Float64Array(n), w = new Float64Array(n), g = new Float64Array(p);
+    const eta = new Float64Array(n),
+      w = new Float64Array(n),
+      g = new Float64Array(p);
     const loss = passes.logistic(beta, eta, w, g);
-    const eta0 = new Float64Array(n), r0 = new Float64Array(n), w0 = new Float64Array(n), g0 = new Float64Array(p);
+    const eta0 = new Float64Array(n),
+      r0 = new Float64Array(n),
+      w0 = new Float64Array(n),
+      g0 = new Float64Array(p);
     const loss0 = logisticRows(X, n, p, y, beta, undefined, undefined, eta0, r0, w0, g0);
     expect(Math.abs(loss - loss0) / loss0).toBeLessThan(1e-13);
     expect(eta).toEqual(eta0);
     expect(w).toEqual(w0);
     for (let j = 0; j < p; j++) expect(Math.abs(g[j] - g0[j])).toBeLessThan(1e-11 * (1 + Math.abs(g0[j])));
-    const H = passes.information(w, new Float64Array(p * p)), H0 = accumulateXtWX(X, n, p, w, new Float64Array(p * p));
+    const H = passes.information(w, new Float64Array(p * p)),
+      H0 = accumulateXtWX(X, n, p, w, new Float64Array(p * p));
     for (let q = 0; q < p * p; q++) expect(Math.abs(H[q] - H0[q])).toBeLessThan(1e-12 * Math.abs(H0[q]) + 1e-12);
   });
 
-  it('sums X\'WX over blocks of rows exactly as over those rows one by one', () => {
+  it("sums X'WX over blocks of rows exactly as over those rows one by one", () => {
     const passes = createRowPasses(X, n, p, y, undefined, undefined);
     const w = Float64Array.from({ length: n }, (_, i) => 0.1 + (i % 13) / 20);
     const blocks = Int32Array.from([0, 1000, 40_000, n - 50]);
     const H = passes.informationOnBlocks(w, blocks, 128, new Float64Array(p * p));
     const ref = new Float64Array(p * p);
-    for (const s of blocks) for (let i = s; i < Math.min(n, s + 128); i++) for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) ref[j * p + k] += w[i] * X[j * n + i] * X[k * n + i];
+    for (const s of blocks)
+      for (let i = s; i < Math.min(n, s + 128); i++)
+        for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) ref[j * p + k] += w[i] * X[j * n + i] * X[k * n + i];
     for (let q = 0; q < p * p; q++) expect(Math.abs(H[q] - ref[q])).toBeLessThan(1e-12 * Math.abs(ref[q]) + 1e-12);
   });
 });
 
 describe('row pool: the same numbers on any number of threads', () => {
   // n spans 4 chunks and takes the subsampled-Hessian path (n > 20 000 and n > 16·p²).
-  const n = 3 * CHUNK_ROWS + 123, p = 6;
+  const n = 3 * CHUNK_ROWS + 123,
+    p = 6;
 
   it('gives bit-for-bit the fit of one thread with 2, 3 and 5 threads (helpers run inline)', () => {
     const serial = fitAll(problem(n, p, 5));
@@ -105,7 +135,8 @@ describe('row pool: the same numbers on any number of threads', () => {
     try {
       installRowPool(np.pool);
       const pr = problem(n, p, 9);
-      const sw = allocF64(n), so = allocF64(n);
+      const sw = allocF64(n),
+        so = allocF64(n);
       sw.set(weights);
       so.set(offset);
       expect(pr.X.buffer).toBeInstanceOf(SharedArrayBuffer);
@@ -139,14 +170,22 @@ describe('a non-finite value in X', () => {
   // X is not scanned before the fit: the first pass over it must reveal any NaN or ±∞ (common practice: NaN·0 and
   // ∞·0 are NaN in IEEE 754), whatever the start, the case weight of that row, and the path (small n or large n).
   it.each([
-    [NaN, 'zero start', 200], [Infinity, 'zero start', 200], [-Infinity, 'nonzero start', 200],
-    [Infinity, 'zero weight on that row', 200], [NaN, 'zero start', 40_000], [-Infinity, 'nonzero start', 40_000],
+    [NaN, 'zero start', 200],
+    [Infinity, 'zero start', 200],
+    [-Infinity, 'nonzero start', 200],
+    [Infinity, 'zero weight on that row', 200],
+    [NaN, 'zero start', 40_000],
+    [-Infinity, 'nonzero start', 40_000],
   ])('%s (%s, n = %i) is reported with its row and column', (bad, how, n) => {
     const pr = problem(n, 3, 17);
-    const row = n - 7, col = 2;
+    const row = n - 7,
+      col = 2;
     pr.X[col * n + row] = bad;
     if (how === 'nonzero start') pr.start = Float64Array.from([0.1, -0.2, 0.3]);
-    if (how === 'zero weight on that row') { pr.weights = new Float64Array(n).fill(1); pr.weights[row] = 0; }
+    if (how === 'zero weight on that row') {
+      pr.weights = new Float64Array(n).fill(1);
+      pr.weights[row] = 0;
+    }
     expect(() => newtonLogistic(pr, { tol: 1e-10 })).toThrow(`in row ${row}, column ${col}`);
   });
 });

@@ -3,7 +3,12 @@ import { describe, expect, it } from 'vitest';
 import { fit } from '../../src/engine/fitting/fit';
 import { predict } from '../../src/engine/fitting/predict';
 import { datasetChecksum } from '../../src/io/export/checksum';
-import { createModelFile, MODEL_FILE_VERSION, modelFileToFitResult, modelFileToJson } from '../../src/io/export/modelFile';
+import {
+  createModelFile,
+  MODEL_FILE_VERSION,
+  modelFileToFitResult,
+  modelFileToJson,
+} from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';
 import { birthwtRichSpec, loadBirthwt } from '../report/birthwtRecord';
 
@@ -12,11 +17,16 @@ const result = fit(data, birthwtRichSpec);
 const saved = () =>
   modelFileToJson(
     createModelFile(result, {
-      fulcraVersion: '0.1.0', created: '2026-12-02T01:40:00Z', dataChecksum: datasetChecksum(data), fileName: 'birthwt.csv', rows: data.nRows,
-      performance: { auc: 0.708 }, threshold: { value: 1 / 6, costFalseNegative: 5, costFalsePositive: 1 }, notes: { purpose: 'audit' },
+      fulcraVersion: '0.1.0',
+      created: '2026-12-02T01:40:00Z',
+      dataChecksum: datasetChecksum(data),
+      fileName: 'birthwt.csv',
+      rows: data.nRows,
+      performance: { auc: 0.708 },
+      threshold: { value: 1 / 6, costFalseNegative: 5, costFalsePositive: 1 },
+      notes: { purpose: 'audit' },
     }),
   );
-
 
 describe('model file', () => {
   it('round-trips: save → load → identical predictions (bit for bit) and intervals on birthwt with splines and interactions', () => {
@@ -33,7 +43,9 @@ describe('model file', () => {
     const f = JSON.parse(saved());
     expect(f.fulcraModel).toBe(MODEL_FILE_VERSION);
     expect(f.recipe).toEqual(result.recipe);
-    expect(f.coefficients.map((c: { estimate: number }) => c.estimate)).toEqual(result.coefficients.map((c) => c.estimate));
+    expect(f.coefficients.map((c: { estimate: number }) => c.estimate)).toEqual(
+      result.coefficients.map((c) => c.estimate),
+    );
     expect(f.covariance).toEqual(result.covariance);
     expect(f.fit.nUsed).toBe(189);
     expect(f.fit.events).toBe(59);
@@ -46,8 +58,16 @@ describe('model file', () => {
   it('refuses another schema version, and a workspace file, with a clear message', () => {
     const f = JSON.parse(saved());
     f.fulcraModel = 2;
-    expectFulcraError(() => readModelFile(JSON.stringify(f)), 'model-file-version', /schema version 2; this Fulcra reads version 1/);
-    expectFulcraError(() => readModelFile('{"fulcraWorkspace":1}'), 'model-file-version', /not a Fulcra model file.*workspace file/);
+    expectFulcraError(
+      () => readModelFile(JSON.stringify(f)),
+      'model-file-version',
+      /schema version 2; this Fulcra reads version 1/,
+    );
+    expectFulcraError(
+      () => readModelFile('{"fulcraWorkspace":1}'),
+      'model-file-version',
+      /not a Fulcra model file.*workspace file/,
+    );
   });
 
   it('names the missing or wrong field', () => {
@@ -68,7 +88,10 @@ describe('model file', () => {
   });
 
   it('refuses to save a model with a non-finite coefficient', () => {
-    const bad = { ...result, coefficients: result.coefficients.map((c, j) => (j === 1 ? { ...c, estimate: Infinity } : c)) };
+    const bad = {
+      ...result,
+      coefficients: result.coefficients.map((c, j) => (j === 1 ? { ...c, estimate: Infinity } : c)),
+    };
     expectFulcraError(() => createModelFile(bad, { fulcraVersion: '0.1.0' }), 'model-not-finite', /"age" is Infinity/);
   });
 });

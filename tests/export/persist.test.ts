@@ -1,12 +1,20 @@
 import { describe, expect, it } from 'vitest';
 import { FulcraError } from '../../src/engine/core/data';
 import {
-  classifyStorageError, clearWorkspaceInBrowser, loadWorkspaceFromBrowser, PersistError, saveWorkspaceToBrowser, type KeyValueBackend,
+  classifyStorageError,
+  clearWorkspaceInBrowser,
+  loadWorkspaceFromBrowser,
+  PersistError,
+  saveWorkspaceToBrowser,
+  type KeyValueBackend,
 } from '../../src/io/export/persist';
 import type { Workspace } from '../../src/io/export/workspaceFile';
 
 /** In-memory stand-in for IndexedDB: values go through structuredClone, as IndexedDB stores them. */
-function memoryBackend(fail?: { on: 'get' | 'set' | 'del'; error: unknown }): KeyValueBackend & { map: Map<string, unknown> } {
+function memoryBackend(fail?: {
+  on: 'get' | 'set' | 'del';
+  error: unknown;
+}): KeyValueBackend & { map: Map<string, unknown> } {
   const map = new Map<string, unknown>();
   const maybeFail = (op: 'get' | 'set' | 'del') => {
     if (fail && fail.on === op) throw fail.error;
@@ -59,7 +67,11 @@ describe('persist (IndexedDB via idb-keyval)', () => {
   });
 
   it('reports a full store (QuotaExceededError) as PersistError "storage-full" with a file-export suggestion', async () => {
-    const e = await rejection(saveWorkspaceToBrowser(ws, '0.1.0', { backend: memoryBackend({ on: 'set', error: new DOMException('quota', 'QuotaExceededError') }) }));
+    const e = await rejection(
+      saveWorkspaceToBrowser(ws, '0.1.0', {
+        backend: memoryBackend({ on: 'set', error: new DOMException('quota', 'QuotaExceededError') }),
+      }),
+    );
     expect(e).toBeInstanceOf(PersistError);
     expect(e.code).toBe('storage-full');
     expect(e.message).toMatch(/storage for this page is full/);
@@ -68,7 +80,9 @@ describe('persist (IndexedDB via idb-keyval)', () => {
 
   it('reports denied storage (SecurityError, InvalidStateError) as "storage-denied"', async () => {
     for (const name of ['SecurityError', 'InvalidStateError']) {
-      const e = await rejection(loadWorkspaceFromBrowser({ backend: memoryBackend({ on: 'get', error: new DOMException('no', name) }) }));
+      const e = await rejection(
+        loadWorkspaceFromBrowser({ backend: memoryBackend({ on: 'get', error: new DOMException('no', name) }) }),
+      );
       expect(e.code).toBe('storage-denied');
     }
   });
@@ -83,7 +97,12 @@ describe('persist (IndexedDB via idb-keyval)', () => {
     const backend = memoryBackend();
     backend.map.set('fulcra:workspace', { fulcraWorkspace: 9, fulcraVersion: '9', saved: 'x', workspace: {} });
     expect((await rejection(loadWorkspaceFromBrowser({ backend }))).code).toBe('workspace-file-version');
-    backend.map.set('fulcra:workspace', { fulcraWorkspace: 1, fulcraVersion: '0.1.0', saved: 'x', workspace: { ...ws, data: { nRows: 3, columns: [{ kind: 'numeric', name: 'age', values: [1, 2, 3] }] } } });
+    backend.map.set('fulcra:workspace', {
+      fulcraWorkspace: 1,
+      fulcraVersion: '0.1.0',
+      saved: 'x',
+      workspace: { ...ws, data: { nRows: 3, columns: [{ kind: 'numeric', name: 'age', values: [1, 2, 3] }] } },
+    });
     const e = await rejection(loadWorkspaceFromBrowser({ backend }));
     expect(e.code).toBe('workspace-file-invalid');
     expect(e.message).toMatch(/"workspace\.data\.columns\[0\]" is not a numeric \(Float64Array\)/);

@@ -17,7 +17,12 @@ describe('PMML 4.4 export', () => {
   it('is well-formed PMML 4.4 with the RegressionModel structure the standard asks for', () => {
     expect(doc.tag).toBe('PMML');
     expect(doc.attrs).toMatchObject({ xmlns: 'http://www.dmg.org/PMML-4_4', version: '4.4' });
-    expect(doc.children.map((c) => c.tag)).toEqual(['Header', 'DataDictionary', 'TransformationDictionary', 'RegressionModel']);
+    expect(doc.children.map((c) => c.tag)).toEqual([
+      'Header',
+      'DataDictionary',
+      'TransformationDictionary',
+      'RegressionModel',
+    ]);
     expect(kid(kid(doc, 'Header'), 'Application').attrs).toEqual({ name: 'Fulcra', version: '0.1.0' });
     const dd = kid(doc, 'DataDictionary');
     const fields = kids(dd, 'DataField');
@@ -34,9 +39,22 @@ describe('PMML 4.4 export', () => {
     expect(t1.attrs.targetCategory).toBe('1');
     expect(t2.attrs).toEqual({ intercept: '0', targetCategory: '0' });
     const order = t1.children.map((c) => c.tag);
-    expect(order).toEqual([...order].sort((a, b) => ['NumericPredictor', 'CategoricalPredictor', 'PredictorTerm'].indexOf(a) - ['NumericPredictor', 'CategoricalPredictor', 'PredictorTerm'].indexOf(b)));
-    expect(kids(t1, 'CategoricalPredictor').map((c) => `${c.attrs.name}=${c.attrs.value}`)).toEqual(['race=2', 'race=3']);
-    expect(kids(t1, 'PredictorTerm').map((c) => c.children.map((f) => f.attrs.field).join('*'))).toEqual(['smoke*race=2', 'smoke*race=3', 'age*lwt']);
+    expect(order).toEqual(
+      [...order].sort(
+        (a, b) =>
+          ['NumericPredictor', 'CategoricalPredictor', 'PredictorTerm'].indexOf(a) -
+          ['NumericPredictor', 'CategoricalPredictor', 'PredictorTerm'].indexOf(b),
+      ),
+    );
+    expect(kids(t1, 'CategoricalPredictor').map((c) => `${c.attrs.name}=${c.attrs.value}`)).toEqual([
+      'race=2',
+      'race=3',
+    ]);
+    expect(kids(t1, 'PredictorTerm').map((c) => c.children.map((f) => f.attrs.field).join('*'))).toEqual([
+      'smoke*race=2',
+      'smoke*race=3',
+      'age*lwt',
+    ]);
     const derived = kids(kid(doc, 'TransformationDictionary'), 'DerivedField').map((d) => d.attrs.name);
     expect(derived).toEqual(["age'", "age''", 'race=2', 'race=3']);
     // every referenced field is declared
@@ -44,7 +62,8 @@ describe('PMML 4.4 export', () => {
     const refs = [...xml.matchAll(/<(?:FieldRef|NormDiscrete) field="([^"]*)"/g)].map((m) => m[1]);
     expect(refs.length).toBe(14); // 2 spline columns × 3 cubes + 3 products × 2 factors + 2 indicators
     for (const f of refs) expect(declared.has(f), f).toBe(true);
-    for (const p of [...kids(t1, 'NumericPredictor'), ...kids(t1, 'CategoricalPredictor')]) expect(declared.has(p.attrs.name)).toBe(true);
+    for (const p of [...kids(t1, 'NumericPredictor'), ...kids(t1, 'CategoricalPredictor')])
+      expect(declared.has(p.attrs.name)).toBe(true);
   });
 
   it('scores birthwt (spline, categorical, interactions) to Fulcra\u2019s risks within 1e-12', () => {
@@ -87,8 +106,13 @@ describe('PMML 4.4 export', () => {
   });
 
   it('refuses, naming the column, a fit whose design does not follow its recipe', () => {
-    const bad = { ...result, coefficients: result.coefficients.map((c) => (c.name === "age''" ? { ...c, name: 'age^2' } : c)) };
+    const bad = {
+      ...result,
+      coefficients: result.coefficients.map((c) => (c.name === "age''" ? { ...c, name: 'age^2' } : c)),
+    };
     expect(() => modelToPmml(bad, opts)).toThrow(FulcraError);
-    expect(() => modelToPmml(bad, opts)).toThrow(/design column 3 is "age\^2" but the recipe of "age \(spline\)" implies "age''"/);
+    expect(() => modelToPmml(bad, opts)).toThrow(
+      /design column 3 is "age\^2" but the recipe of "age \(spline\)" implies "age''"/,
+    );
   });
 });

@@ -5,10 +5,18 @@ import { expect } from 'vitest';
 import type { Dataset } from '../../src/engine/core/data';
 
 // ---- a small XML parser (elements, attributes, text, the five predefined entities) ----
-export interface El { tag: string; attrs: Record<string, string>; children: El[]; text: string }
+export interface El {
+  tag: string;
+  attrs: Record<string, string>;
+  children: El[];
+  text: string;
+}
 
 function unescape(s: string): string {
-  return s.replace(/&(lt|gt|quot|apos|amp);/g, (_, e) => ({ lt: '<', gt: '>', quot: '"', apos: "'", amp: '&' })[e as 'lt']);
+  return s.replace(
+    /&(lt|gt|quot|apos|amp);/g,
+    (_, e) => ({ lt: '<', gt: '>', quot: '"', apos: "'", amp: '&' })[e as 'lt'],
+  );
 }
 
 export function parseXml(xml: string): El {
@@ -56,7 +64,8 @@ export type Row = Record<string, number | string>;
 export function pmmlScorer(doc: El): { risk: (row: Row) => number; fields: El[] } {
   const fields = kids(kid(doc, 'DataDictionary'), 'DataField');
   const derived = new Map<string, El>();
-  for (const td of kids(doc, 'TransformationDictionary')) for (const d of kids(td, 'DerivedField')) derived.set(d.attrs.name, d.children[0]);
+  for (const td of kids(doc, 'TransformationDictionary'))
+    for (const d of kids(td, 'DerivedField')) derived.set(d.attrs.name, d.children[0]);
   const model = kid(doc, 'RegressionModel');
   const tables = kids(model, 'RegressionTable');
   const value = (name: string, row: Row): number | string => {
@@ -67,18 +76,27 @@ export function pmmlScorer(doc: El): { risk: (row: Row) => number; fields: El[] 
   };
   const expr = (e: El, row: Row): number => {
     switch (e.tag) {
-      case 'Constant': return Number(e.text);
-      case 'FieldRef': return Number(value(e.attrs.field, row));
-      case 'NormDiscrete': return String(value(e.attrs.field, row)) === e.attrs.value ? 1 : 0;
+      case 'Constant':
+        return Number(e.text);
+      case 'FieldRef':
+        return Number(value(e.attrs.field, row));
+      case 'NormDiscrete':
+        return String(value(e.attrs.field, row)) === e.attrs.value ? 1 : 0;
       case 'Apply': {
         const a = e.children.map((c) => expr(c, row));
         switch (e.attrs.function) {
-          case '+': return a[0] + a[1];
-          case '-': return a[0] - a[1];
-          case '*': return a[0] * a[1];
-          case '/': return a[0] / a[1];
-          case 'max': return Math.max(...a);
-          case 'pow': return a[0] ** a[1];
+          case '+':
+            return a[0] + a[1];
+          case '-':
+            return a[0] - a[1];
+          case '*':
+            return a[0] * a[1];
+          case '/':
+            return a[0] / a[1];
+          case 'max':
+            return Math.max(...a);
+          case 'pow':
+            return a[0] ** a[1];
         }
       }
     }
@@ -91,7 +109,8 @@ export function pmmlScorer(doc: El): { risk: (row: Row) => number; fields: El[] 
       const c = Number(p.attrs.coefficient);
       if (p.tag === 'NumericPredictor') y += c * Number(value(p.attrs.name, row)) ** Number(p.attrs.exponent ?? 1);
       else if (p.tag === 'CategoricalPredictor') y += String(value(p.attrs.name, row)) === p.attrs.value ? c : 0;
-      else if (p.tag === 'PredictorTerm') y += c * p.children.map((f) => Number(value(f.attrs.field, row))).reduce((s, v) => s * v, 1);
+      else if (p.tag === 'PredictorTerm')
+        y += c * p.children.map((f) => Number(value(f.attrs.field, row))).reduce((s, v) => s * v, 1);
       else throw new Error(`unknown predictor ${p.tag}`);
     }
     return 1 / (1 + Math.exp(-y));
@@ -104,4 +123,3 @@ export function rowOf(data: Dataset, r: number): Row {
   for (const c of data.columns) row[c.name] = c.kind === 'numeric' ? c.values[r] : c.levels[c.codes[r]];
   return row;
 }
-

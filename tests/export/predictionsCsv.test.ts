@@ -13,7 +13,8 @@ describe('neutraliseCell (OWASP CSV-injection rule: quote-prefix formula starter
   });
 
   it('leaves plain numbers (negative, signed, exponent) and ordinary text unchanged', () => {
-    for (const s of ['-1.5', '+2', '-3e-4', '-.5', '-10.', 'ward A', 'x=1', '1-2', '']) expect(neutraliseCell(s)).toBe(s);
+    for (const s of ['-1.5', '+2', '-3e-4', '-.5', '-10.', 'ward A', 'x=1', '1-2', ''])
+      expect(neutraliseCell(s)).toBe(s);
   });
 
   it('follows the decimal mark: "-1,5" is a number only with a decimal comma', () => {
@@ -39,7 +40,12 @@ const data: Dataset = {
   columns: [
     { kind: 'numeric', name: 'ssi', values: Float64Array.of(0, 1, 0, 1, 0, 0, 0, 1) },
     { kind: 'numeric', name: 'duration', values: Float64Array.of(-1.5, 95, 60, 180, NaN, 45, 150, 75) },
-    { kind: 'categorical', name: 'note', levels: ['=HYPERLINK("http://x")', 'ward, "B"', 'two\nlines', '-3', '@risk'], codes: Int32Array.of(0, 1, 2, 3, 4, -1, 1, 0) },
+    {
+      kind: 'categorical',
+      name: 'note',
+      levels: ['=HYPERLINK("http://x")', 'ward, "B"', 'two\nlines', '-3', '@risk'],
+      codes: Int32Array.of(0, 1, 2, 3, 4, -1, 1, 0),
+    },
   ],
 };
 
@@ -57,12 +63,33 @@ describe('predictionsCsv', () => {
     const csv = predictionsCsv(data, pred, { threshold: 0.5 });
     expect(csv.endsWith('\r\n')).toBe(true);
     const parsed = Papa.parse<string[]>(csv, { skipEmptyLines: true }).data;
-    expect(parsed[0]).toEqual(['ssi', 'duration', 'note', 'predicted risk', 'risk lower 95% CI', 'risk upper 95% CI', 'flagged at risk >= 0.5']);
+    expect(parsed[0]).toEqual([
+      'ssi',
+      'duration',
+      'note',
+      'predicted risk',
+      'risk lower 95% CI',
+      'risk upper 95% CI',
+      'flagged at risk >= 0.5',
+    ]);
     expect(parsed).toHaveLength(1 + data.nRows);
-    const notes = ['\'=HYPERLINK("http://x")', 'ward, "B"', 'two\nlines', '-3', "'@risk", '', 'ward, "B"', '\'=HYPERLINK("http://x")'];
+    const notes = [
+      '\'=HYPERLINK("http://x")',
+      'ward, "B"',
+      'two\nlines',
+      '-3',
+      "'@risk",
+      '',
+      'ward, "B"',
+      '\'=HYPERLINK("http://x")',
+    ];
     parsed.slice(1).forEach((row, r0) => {
       expect(row[2]).toBe(notes[r0]);
-      expect(row[1]).toBe(Number.isNaN((data.columns[1] as { values: Float64Array }).values[r0]) ? '' : String((data.columns[1] as { values: Float64Array }).values[r0]));
+      expect(row[1]).toBe(
+        Number.isNaN((data.columns[1] as { values: Float64Array }).values[r0])
+          ? ''
+          : String((data.columns[1] as { values: Float64Array }).values[r0]),
+      );
       const i = Array.from(pred.rowsUsed).indexOf(r0);
       if (i < 0) {
         expect(row.slice(3)).toEqual(['', '', '', '']);
@@ -94,7 +121,10 @@ describe('predictionsCsv', () => {
   });
 
   it('renames its own columns when the data already has a "predicted risk" column', () => {
-    const d2: Dataset = { ...data, columns: [...data.columns, { kind: 'numeric', name: 'predicted risk', values: new Float64Array(8) }] };
+    const d2: Dataset = {
+      ...data,
+      columns: [...data.columns, { kind: 'numeric', name: 'predicted risk', values: new Float64Array(8) }],
+    };
     const header = predictionsCsv(d2, pred).split('\r\n')[0];
     expect(header).toContain('predicted risk,predicted risk (Fulcra)');
   });

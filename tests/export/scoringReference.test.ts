@@ -33,7 +33,12 @@ const newData: Dataset = {
   columns: [
     { kind: 'numeric', name: 'age', values: Float64Array.from(ref.newdata.age) },
     { kind: 'numeric', name: 'lwt', values: Float64Array.from(ref.newdata.lwt) },
-    { kind: 'categorical', name: 'race', levels: ['1', '2', '3'], codes: Int32Array.from(ref.newdata.race as string[], (r) => Number(r) - 1) },
+    {
+      kind: 'categorical',
+      name: 'race',
+      levels: ['1', '2', '3'],
+      codes: Int32Array.from(ref.newdata.race as string[], (r) => Number(r) - 1),
+    },
     { kind: 'numeric', name: 'smoke', values: Float64Array.from(ref.newdata.smoke) },
   ],
 };
@@ -47,7 +52,9 @@ const maxAbs = (a: ArrayLike<number>, b: ArrayLike<number>) => {
 
 describe('scoring with exported models reproduces R glm() risks on birthwt', () => {
   const result = fit(data, spec);
-  const reopened = modelFileToFitResult(readModelFile(modelFileToJson(createModelFile(result, { fulcraVersion: '0.1.0' }))));
+  const reopened = modelFileToFitResult(
+    readModelFile(modelFileToJson(createModelFile(result, { fulcraVersion: '0.1.0' }))),
+  );
   const scorer = pmmlScorer(parseXml(modelToPmml(result, { fulcraVersion: '0.1.0', created: '2026-12-02T02:00:00Z' })));
 
   it('a re-opened model file gives R\u2019s fitted risks (max error < 1e-9) and R\u2019s predict() on new cases', () => {

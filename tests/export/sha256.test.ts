@@ -13,7 +13,9 @@ describe('sha256', () => {
     // FIPS 180-4 / NIST CSRC SHA-256 examples ("abc", the 448-bit message) and the empty string; values recalled
     // from memory and equal to node:crypto createHash("sha256") digests
     expect(sha256Hex(utf8('abc'))).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
-    expect(sha256Hex(utf8('abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq'))).toBe('248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1');
+    expect(sha256Hex(utf8('abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq'))).toBe(
+      '248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1',
+    );
     expect(sha256Hex(new Uint8Array(0))).toBe('e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855');
   });
 
@@ -23,7 +25,7 @@ describe('sha256', () => {
       const len = Math.floor(rng.next() * 3000);
       const bytes = Uint8Array.from({ length: len }, () => Math.floor(rng.next() * 256));
       const h = new Sha256();
-      for (let i = 0; i < len; ) {
+      for (let i = 0; i < len;) {
         const k = 1 + Math.floor(rng.next() * 130);
         h.update(bytes.subarray(i, i + k));
         i += k;

@@ -3,7 +3,13 @@ import { describe, expect, it } from 'vitest';
 import type { Dataset } from '../../src/engine/core/data';
 import { fit } from '../../src/engine/fitting/fit';
 import { gunzipSync } from 'node:zlib';
-import { readWorkspaceBytes, readWorkspaceFile, workspaceToGzip, workspaceToJson, type Workspace } from '../../src/io/export/workspaceFile';
+import {
+  readWorkspaceBytes,
+  readWorkspaceFile,
+  workspaceToGzip,
+  workspaceToJson,
+  type Workspace,
+} from '../../src/io/export/workspaceFile';
 import { datasetChecksum } from '../../src/io/export/checksum';
 import { birthwtSpec, loadBirthwt } from '../report/birthwtRecord';
 
@@ -13,8 +19,17 @@ function workspace(): Workspace {
     nRows: birthwt.nRows,
     columns: [
       ...birthwt.columns,
-      { kind: 'numeric', name: 'with gaps', values: Float64Array.from({ length: birthwt.nRows }, (_, i) => (i % 7 === 0 ? NaN : i / 3)) },
-      { kind: 'categorical', name: 'ward \u00e9\u03b2', levels: ['A', 'B \u2265 2'], codes: Int32Array.from({ length: birthwt.nRows }, (_, i) => (i % 5 === 0 ? -1 : i % 2)) },
+      {
+        kind: 'numeric',
+        name: 'with gaps',
+        values: Float64Array.from({ length: birthwt.nRows }, (_, i) => (i % 7 === 0 ? NaN : i / 3)),
+      },
+      {
+        kind: 'categorical',
+        name: 'ward \u00e9\u03b2',
+        levels: ['A', 'B \u2265 2'],
+        codes: Int32Array.from({ length: birthwt.nRows }, (_, i) => (i % 5 === 0 ? -1 : i % 2)),
+      },
     ],
   };
   return {
@@ -32,12 +47,15 @@ function workspace(): Workspace {
 
 const info = { fulcraVersion: '0.1.0', saved: '2026-12-02T01:50:00Z' };
 
-
 describe('workspace file', () => {
   it('round-trips every part of the workspace, typed arrays bit for bit (NaN and −1 missing kept)', () => {
     const ws = workspace();
     const back = readWorkspaceFile(workspaceToJson(ws, info));
-    expect(back.info).toEqual({ fulcraVersion: '0.1.0', saved: '2026-12-02T01:50:00Z', dataChecksum: datasetChecksum(ws.data!) });
+    expect(back.info).toEqual({
+      fulcraVersion: '0.1.0',
+      saved: '2026-12-02T01:50:00Z',
+      dataChecksum: datasetChecksum(ws.data!),
+    });
     expect(back.workspace).toEqual(ws);
     for (const [i, c] of ws.data!.columns.entries()) {
       const d = back.workspace.data!.columns[i];
@@ -73,7 +91,16 @@ describe('workspace file', () => {
   });
 
   it('saves and reads a workspace with no data yet', () => {
-    const ws: Workspace = { fileName: null, data: null, spec: null, fitOptions: {}, seed: null, threshold: null, costs: null, freeText: {} };
+    const ws: Workspace = {
+      fileName: null,
+      data: null,
+      spec: null,
+      fitOptions: {},
+      seed: null,
+      threshold: null,
+      costs: null,
+      freeText: {},
+    };
     expect(readWorkspaceFile(workspaceToJson(ws, info)).workspace).toEqual(ws);
   });
 
@@ -84,15 +111,52 @@ describe('workspace file', () => {
       f(o);
       return JSON.stringify(o);
     };
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.fulcraWorkspace = 3))), 'workspace-file-version', /schema version 3/);
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.fulcraWorkspace = 3))),
+      'workspace-file-version',
+      /schema version 3/,
+    );
     expectFulcraError(() => readWorkspaceFile('{"fulcraModel":1}'), 'workspace-file-version', /model file/);
     expectFulcraError(() => readWorkspaceFile('not json'), 'workspace-file-invalid', /not valid JSON/);
     const flip = (s: string) => (s[10] === 'A' ? 'B' : 'A');
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.data.columns[1].values = o.workspace.data.columns[1].values.slice(0, 10) + flip(o.workspace.data.columns[1].values) + o.workspace.data.columns[1].values.slice(11)))), 'workspace-file-invalid', /"workspace\.data" does not match its checksum/);
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.data.columns[2].values = 'AAAA'))), 'workspace-file-invalid', /"workspace\.data\.columns\[2\]\.values" holds 0\.375 values; nRows is 189/);
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.data.columns[0].values = '@@@@'))), 'workspace-file-invalid', /is not valid base64/);
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.spec.terms[0].type = 'square'))), 'workspace-file-invalid', /"workspace\.spec\.terms\[0\]\.type" must be one of main, spline, interaction/);
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.costs.falsePositive = 'one'))), 'workspace-file-invalid', /"workspace\.costs\.falsePositive" must be a number/);
-    expectFulcraError(() => readWorkspaceFile(edit((o) => (o.workspace.data.columns[3].levels = ['1']))), 'workspace-file-invalid', /checksum|outside the 1 levels/);
+    expectFulcraError(
+      () =>
+        readWorkspaceFile(
+          edit(
+            (o) =>
+              (o.workspace.data.columns[1].values =
+                o.workspace.data.columns[1].values.slice(0, 10) +
+                flip(o.workspace.data.columns[1].values) +
+                o.workspace.data.columns[1].values.slice(11)),
+          ),
+        ),
+      'workspace-file-invalid',
+      /"workspace\.data" does not match its checksum/,
+    );
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[2].values = 'AAAA'))),
+      'workspace-file-invalid',
+      /"workspace\.data\.columns\[2\]\.values" holds 0\.375 values; nRows is 189/,
+    );
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[0].values = '@@@@'))),
+      'workspace-file-invalid',
+      /is not valid base64/,
+    );
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.workspace.spec.terms[0].type = 'square'))),
+      'workspace-file-invalid',
+      /"workspace\.spec\.terms\[0\]\.type" must be one of main, spline, interaction/,
+    );
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.workspace.costs.falsePositive = 'one'))),
+      'workspace-file-invalid',
+      /"workspace\.costs\.falsePositive" must be a number/,
+    );
+    expectFulcraError(
+      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[3].levels = ['1']))),
+      'workspace-file-invalid',
+      /checksum|outside the 1 levels/,
+    );
   });
 });

@@ -6,7 +6,8 @@ import { nonFinitePaths, stem } from './walk';
 
 /** NaN is documented for a missing numeric cell and for the min/median/max of a column with no numbers. */
 const documentedNaN = (path: string, v: number) =>
-  Number.isNaN(v) && (stem(path) === 'dataset.columns.values' || /^columns\.profile\.(min|median|max)$/.test(stem(path)));
+  Number.isNaN(v) &&
+  (stem(path) === 'dataset.columns.values' || /^columns\.profile\.(min|median|max)$/.test(stem(path)));
 
 /** Structural checks every import result must pass. */
 function checkResult(r: ImportResult): void {
@@ -20,7 +21,8 @@ function checkResult(r: ImportResult): void {
       for (const k of c.codes) expect(k >= -1 && k < c.levels.length).toBe(true);
     }
   }
-  for (const w of r.warnings) expect(typeof w.code === 'string' && w.code.length > 0 && w.message.length > 0).toBe(true);
+  for (const w of r.warnings)
+    expect(typeof w.code === 'string' && w.code.length > 0 && w.message.length > 0).toBe(true);
 }
 
 async function onlyFulcraErrors(run: () => Promise<ImportResult>): Promise<ImportResult | null> {
@@ -50,10 +52,14 @@ const SETTINGS = { numRuns: 150, seed: 8675309, endOnFailure: true } as const;
 describe('delimited import under hostile bytes', () => {
   it('random bytes with random import options: only FulcraError is thrown and results are consistent', async () => {
     await fc.assert(
-      fc.asyncProperty(fc.array(hostileByte, { minLength: 1, maxLength: 3000, size: 'large' }).map((a) => Uint8Array.from(a)), options, async (bytes, o) => {
-        const r = await onlyFulcraErrors(() => importFile(bytes, 'fuzz.csv', o));
-        if (r) checkResult(r);
-      }),
+      fc.asyncProperty(
+        fc.array(hostileByte, { minLength: 1, maxLength: 3000, size: 'large' }).map((a) => Uint8Array.from(a)),
+        options,
+        async (bytes, o) => {
+          const r = await onlyFulcraErrors(() => importFile(bytes, 'fuzz.csv', o));
+          if (r) checkResult(r);
+        },
+      ),
       SETTINGS,
     );
   });
@@ -62,10 +68,20 @@ describe('delimited import under hostile bytes', () => {
 // ---- structured tables: the row count and the cell texts must survive quoting, delimiters and line ends ----
 
 const MISSING = ['', 'NA', 'n/a', '.', '-', '?', '#N/A', '#DIV/0!'];
-const textChar = fc.constantFrom(...Array.from('abcXYZ019 .,;|\t"\'éß中😀#-+e'), '\n', '\r', '\r\n', '\u00a0', '\u0000');
+const textChar = fc.constantFrom(
+  ...Array.from('abcXYZ019 .,;|\t"\'éß中😀#-+e'),
+  '\n',
+  '\r',
+  '\r\n',
+  '\u00a0',
+  '\u0000',
+);
 const textCell = fc.oneof(
   { weight: 6, arbitrary: fc.array(textChar, { minLength: 1, maxLength: 12 }).map((a) => a.join('')) },
-  { weight: 2, arbitrary: fc.constantFrom('007', '1.50', '1,234', '1e5', '-0', '12 mg', 'TRUE', ' padded ', 'Infinity', '0x1F') },
+  {
+    weight: 2,
+    arbitrary: fc.constantFrom('007', '1.50', '1,234', '1e5', '-0', '12 mg', 'TRUE', ' padded ', 'Infinity', '0x1F'),
+  },
 );
 
 interface Table {
@@ -92,8 +108,17 @@ const table: fc.Arbitrary<Table> = fc
       width: fc.constant(t.width),
       trailingEol: fc.constant(t.trailingEol),
       bom: fc.constant(t.bom),
-      rows: fc.array(fc.array(fc.oneof({ weight: 5, arbitrary: textCell }, { weight: 2, arbitrary: fc.constantFrom(...MISSING) }), { minLength: t.width, maxLength: t.width }), { minLength: t.height, maxLength: t.height }),
-      eol: fc.array(fc.constantFrom('\n' as const, '\r\n' as const, '\r' as const), { minLength: t.height + 1, maxLength: t.height + 1 }),
+      rows: fc.array(
+        fc.array(fc.oneof({ weight: 5, arbitrary: textCell }, { weight: 2, arbitrary: fc.constantFrom(...MISSING) }), {
+          minLength: t.width,
+          maxLength: t.width,
+        }),
+        { minLength: t.height, maxLength: t.height },
+      ),
+      eol: fc.array(fc.constantFrom('\n' as const, '\r\n' as const, '\r' as const), {
+        minLength: t.height + 1,
+        maxLength: t.height + 1,
+      }),
     }),
   );
 
@@ -106,7 +131,9 @@ function writeTable(t: Table): string {
   const header = Array.from({ length: t.width }, (_, j) => `c${j}`);
   const lines = [header, ...t.rows].map((r) => r.map((f) => writeField(f, t.delimiter)).join(t.delimiter));
   let out = t.bom ? '\ufeff' : '';
-  lines.forEach((l, i) => { out += l + (i < lines.length - 1 || t.trailingEol ? t.eol[i] : ''); });
+  lines.forEach((l, i) => {
+    out += l + (i < lines.length - 1 || t.trailingEol ? t.eol[i] : '');
+  });
   return out;
 }
 
@@ -120,12 +147,20 @@ describe('delimited import of generated tables', () => {
       fc.asyncProperty(table, async (t) => {
         if (t.rows.some((r) => r.some((c) => c.includes('\u0000')))) {
           // NUL bytes make the file binary: the importer must refuse it with a FulcraError, not crash.
-          const e = await importText(writeTable(t), { delimiter: t.delimiter, header: true }).then(() => null, (x: unknown) => x);
+          const e = await importText(writeTable(t), { delimiter: t.delimiter, header: true }).then(
+            () => null,
+            (x: unknown) => x,
+          );
           expect(e === null || e instanceof FulcraError).toBe(true);
           return;
         }
         const columnTypes = Object.fromEntries(Array.from({ length: t.width }, (_, j) => [`c${j}`, 'text' as const]));
-        const r = await importText(writeTable(t), { delimiter: t.delimiter, header: true, columnTypes, missingTokens: MISSING });
+        const r = await importText(writeTable(t), {
+          delimiter: t.delimiter,
+          header: true,
+          columnTypes,
+          missingTokens: MISSING,
+        });
         checkResult(r);
         const kept = t.rows.filter(nonBlank);
         expect(r.dataset.nRows).toBe(kept.length);
@@ -182,12 +217,15 @@ describe('numbers round-trip exactly', () => {
 
   it('reads back safe integers written with en-US thousands separators in quoted fields', async () => {
     await fc.assert(
-      fc.asyncProperty(fc.array(fc.integer({ min: -(2 ** 53) + 1, max: 2 ** 53 - 1 }), { minLength: 1, maxLength: 40 }), async (xs) => {
-        const text = 'x,tag\n' + xs.map((v, i) => `"${v.toLocaleString('en-US')}",r${i}`).join('\n');
-        const r = await importText(text, { delimiter: ',', header: true, columnTypes: { x: 'numeric' } });
-        const col = r.dataset.columns[0] as NumericColumn;
-        expect(Array.from(col.values)).toEqual(xs.map((v) => (v === 0 ? 0 : v)));
-      }),
+      fc.asyncProperty(
+        fc.array(fc.integer({ min: -(2 ** 53) + 1, max: 2 ** 53 - 1 }), { minLength: 1, maxLength: 40 }),
+        async (xs) => {
+          const text = 'x,tag\n' + xs.map((v, i) => `"${v.toLocaleString('en-US')}",r${i}`).join('\n');
+          const r = await importText(text, { delimiter: ',', header: true, columnTypes: { x: 'numeric' } });
+          const col = r.dataset.columns[0] as NumericColumn;
+          expect(Array.from(col.values)).toEqual(xs.map((v) => (v === 0 ? 0 : v)));
+        },
+      ),
       { ...SETTINGS, numRuns: 100 },
     );
   });
@@ -207,7 +245,10 @@ describe('delimited import of fixed hostile files', () => {
 
   it('refuses a file with NUL bytes with a FulcraError that says it is not text', async () => {
     const bytes = new TextEncoder().encode('a,b\n1,2\n\u0000\u0000\u0000,3\n');
-    const e = await importFile(bytes, 'nul.csv').then(() => null, (x: unknown) => x);
+    const e = await importFile(bytes, 'nul.csv').then(
+      () => null,
+      (x: unknown) => x,
+    );
     expect(e).toBeInstanceOf(FulcraError);
     expect((e as FulcraError).code).toBe('not-text');
   });
@@ -219,7 +260,20 @@ describe('delimited import of fixed hostile files', () => {
   });
 
   it('reads invalid UTF-8 as Windows-1252 with an encoding-fallback warning, keeping the row count', async () => {
-    const bytes = Uint8Array.from([...new TextEncoder().encode('name,y\n'), 0x43, 0x61, 0x66, 0xe9, 0x2c, 0x31, 0x0a, 0x41, 0x2c, 0x30, 0x0a]);
+    const bytes = Uint8Array.from([
+      ...new TextEncoder().encode('name,y\n'),
+      0x43,
+      0x61,
+      0x66,
+      0xe9,
+      0x2c,
+      0x31,
+      0x0a,
+      0x41,
+      0x2c,
+      0x30,
+      0x0a,
+    ]);
     const r = await importFile(bytes, 'latin.csv');
     expect(r.warnings.map((w) => w.code)).toContain('encoding-fallback');
     expect(r.dataset.nRows).toBe(2);

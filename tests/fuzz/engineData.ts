@@ -29,13 +29,33 @@ export interface EngineCase {
 const MAGNITUDES = [1e-300, 1e-150, 1e-8, 1, 1e8, 1e150, 1e300];
 
 const predictorKind: fc.Arbitrary<PredictorKind> = fc.oneof(
-  { weight: 6, arbitrary: fc.record({ kind: fc.constant('normal' as const), scale: fc.constantFrom(...MAGNITUDES), shift: fc.constantFrom(0, 1, -1e6, 1e300) }) },
+  {
+    weight: 6,
+    arbitrary: fc.record({
+      kind: fc.constant('normal' as const),
+      scale: fc.constantFrom(...MAGNITUDES),
+      shift: fc.constantFrom(0, 1, -1e6, 1e300),
+    }),
+  },
   { weight: 1, arbitrary: fc.constant({ kind: 'huge-range' as const }) },
-  { weight: 1, arbitrary: fc.record({ kind: fc.constant('constant' as const), value: fc.constantFrom(0, 1, -1e300, 1e-300) }) },
+  {
+    weight: 1,
+    arbitrary: fc.record({ kind: fc.constant('constant' as const), value: fc.constantFrom(0, 1, -1e300, 1e-300) }),
+  },
   { weight: 1, arbitrary: fc.constant({ kind: 'all-missing' as const }) },
-  { weight: 1, arbitrary: fc.record({ kind: fc.constant('some-missing' as const), share: fc.constantFrom(0.1, 0.5, 0.95) }) },
+  {
+    weight: 1,
+    arbitrary: fc.record({ kind: fc.constant('some-missing' as const), share: fc.constantFrom(0.1, 0.5, 0.95) }),
+  },
   { weight: 2, arbitrary: fc.record({ kind: fc.constant('duplicate' as const), of: fc.nat(7) }) },
-  { weight: 3, arbitrary: fc.record({ kind: fc.constant('categorical' as const), levels: fc.integer({ min: 2, max: 6 }), missing: fc.boolean() }) },
+  {
+    weight: 3,
+    arbitrary: fc.record({
+      kind: fc.constant('categorical' as const),
+      levels: fc.integer({ min: 2, max: 6 }),
+      missing: fc.boolean(),
+    }),
+  },
   { weight: 1, arbitrary: fc.constant({ kind: 'single-level' as const }) },
   { weight: 1, arbitrary: fc.constant({ kind: 'separator' as const }) },
 );
@@ -58,9 +78,10 @@ export function buildCase(c: EngineCase): { data: Dataset; spec: ModelSpec; y01:
   for (let i = 0; i < n; i++) y01[i] = c.outcome === 'one-class' ? 1 : rng.next() < rate ? 1 : 0;
   if (c.outcome === 'rare') y01[Math.floor(rng.next() * n)] = 1;
   const columns: Column[] = [];
-  const outcomeCol: Column = c.outcome === 'labelled'
-    ? { kind: 'categorical', name: 'outcome', levels: ['no', 'yes'], codes: Int32Array.from(y01, (v) => v) }
-    : { kind: 'numeric', name: 'outcome', values: y01 };
+  const outcomeCol: Column =
+    c.outcome === 'labelled'
+      ? { kind: 'categorical', name: 'outcome', levels: ['no', 'yes'], codes: Int32Array.from(y01, (v) => v) }
+      : { kind: 'numeric', name: 'outcome', values: y01 };
   columns.push(outcomeCol);
   const predictors: Column[] = [];
   c.predictors.forEach((k, j) => {
@@ -71,7 +92,8 @@ export function buildCase(c: EngineCase): { data: Dataset; spec: ModelSpec; y01:
         for (let i = 0; i < n; i++) values[i] = k.shift + k.scale * rng.normal();
         break;
       case 'huge-range':
-        for (let i = 0; i < n; i++) values[i] = (rng.next() < 0.5 ? 1e-300 : 1e300) * (rng.next() < 0.5 ? -1 : 1) * (1 + rng.next());
+        for (let i = 0; i < n; i++)
+          values[i] = (rng.next() < 0.5 ? 1e-300 : 1e300) * (rng.next() < 0.5 ? -1 : 1) * (1 + rng.next());
         break;
       case 'constant':
         values.fill(k.value);
@@ -96,7 +118,9 @@ export function buildCase(c: EngineCase): { data: Dataset; spec: ModelSpec; y01:
       }
       case 'categorical': {
         const levels = Array.from({ length: k.levels }, (_, l) => `L${l}`);
-        const codes = Int32Array.from({ length: n }, () => (k.missing && rng.next() < 0.1 ? -1 : Math.floor(rng.next() * k.levels)));
+        const codes = Int32Array.from({ length: n }, () =>
+          k.missing && rng.next() < 0.1 ? -1 : Math.floor(rng.next() * k.levels),
+        );
         predictors.push({ kind: 'categorical', name, levels, codes });
         return;
       }
@@ -111,9 +135,14 @@ export function buildCase(c: EngineCase): { data: Dataset; spec: ModelSpec; y01:
   const numeric = predictors.filter((p) => p.kind === 'numeric').map((p) => p.name);
   if (c.spline && numeric.length > 0) {
     const col = numeric[0];
-    terms.splice(terms.findIndex((t) => t.type === 'main' && t.column === col), 1, { type: 'spline', column: col, knots: 3 });
+    terms.splice(
+      terms.findIndex((t) => t.type === 'main' && t.column === col),
+      1,
+      { type: 'spline', column: col, knots: 3 },
+    );
   }
-  if (c.interaction && predictors.length >= 2) terms.push({ type: 'interaction', columns: [predictors[0].name, predictors[1].name] });
+  if (c.interaction && predictors.length >= 2)
+    terms.push({ type: 'interaction', columns: [predictors[0].name, predictors[1].name] });
   const spec: ModelSpec = { outcome: 'outcome', event: c.outcome === 'labelled' ? 'yes' : '1', terms };
   return { data: { nRows: n, columns }, spec, y01, event: spec.event! };
 }

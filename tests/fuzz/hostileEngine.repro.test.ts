@@ -21,7 +21,8 @@ const u = Float64Array.from({ length: N }, () => rng.normal());
 const num = (name: string, values: Float64Array): NumericColumn => ({ kind: 'numeric', name, values });
 const data = (x: Float64Array): Dataset => ({ nRows: N, columns: [num('y', y), num('z', z), num('x', x)] });
 const main = (column: string): TermSpec => ({ type: 'main', column });
-const fitX = (x: Float64Array, terms: TermSpec[] = [main('z'), main('x')]) => fit(data(x), { outcome: 'y', terms }, { profile: false });
+const fitX = (x: Float64Array, terms: TermSpec[] = [main('z'), main('x')]) =>
+  fit(data(x), { outcome: 'y', terms }, { profile: false });
 
 describe('engine fuzz findings: reproductions and regression tests', () => {
   it('control: a predictor on an ordinary scale is estimated and the record is finite', () => {
@@ -42,7 +43,8 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // varying column is treated as having no spread and reported "the same value in every row" (it is not). Fix: scale
   // by max |x − m| before squaring (two-pass with rescaling).
   it('estimates a varying predictor measured in units of 1e300 (scale equivariance)', () => {
-    const small = fitX(u), big = fitX(Float64Array.from(u, (v) => v * 1e300));
+    const small = fitX(u),
+      big = fitX(Float64Array.from(u, (v) => v * 1e300));
     expect(big.coefficients[2].aliased).toBe(false);
     expect(big.coefficients[2].estimate * 1e300).toBeCloseTo(small.coefficients[2].estimate, 6);
   });
@@ -51,7 +53,8 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // back to 1 and the column (values ~1e-170 next to standardised ones) is dropped as "a copy of" another predictor.
   // Same fix.
   it('estimates a varying predictor measured in units of 1e-170 (scale equivariance)', () => {
-    const small = fitX(u), tiny = fitX(Float64Array.from(u, (v) => v * 1e-170));
+    const small = fitX(u),
+      tiny = fitX(Float64Array.from(u, (v) => v * 1e-170));
     expect(tiny.coefficients[2].aliased).toBe(false);
     expect(tiny.coefficients[2].estimate * 1e-170).toBeCloseTo(small.coefficients[2].estimate, 6);
   });
@@ -61,14 +64,20 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // makes the intercept NaN. Fix: evaluate ((x − t)/s)³·s with s = t_k − t_1 (same value, no overflow), and reject
   // non-finite design columns with a FulcraError naming the column.
   it('fits a 3-knot spline of a predictor measured in units of 1e150', () => {
-    const r = fitX(Float64Array.from(u, (v) => v * 1e150), [main('z'), { type: 'spline', column: 'x', knots: 3 }]);
+    const r = fitX(
+      Float64Array.from(u, (v) => v * 1e150),
+      [main('z'), { type: 'spline', column: 'x', knots: 3 }],
+    );
     expect(nonFinitePaths(r)).toEqual([]);
   });
 
   // Fixed (regression test). Was: splines.ts:47: (t_k − t_1)² underflows to 0 for a spread of ~1e-300, so the basis is
   // 0/0 = NaN. Same fix.
   it('fits a 3-knot spline of a predictor measured in units of 1e-300', () => {
-    const r = fitX(Float64Array.from(u, (v) => v * 1e-300), [main('z'), { type: 'spline', column: 'x', knots: 3 }]);
+    const r = fitX(
+      Float64Array.from(u, (v) => v * 1e-300),
+      [main('z'), { type: 'spline', column: 'x', knots: 3 }],
+    );
     expect(nonFinitePaths(r)).toEqual([]);
   });
 
@@ -78,10 +87,24 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // suggestion to rescale.
   it('never returns a NaN intercept when an interaction product leaves the double range', () => {
     const big = Float64Array.from(u, (v) => 1e300 * (1 + Math.abs(v)));
-    const d: Dataset = { nRows: N, columns: [num('y', y), num('z', Float64Array.from(z, (v) => 1e9 * v)), num('x', big)] };
+    const d: Dataset = {
+      nRows: N,
+      columns: [
+        num('y', y),
+        num(
+          'z',
+          Float64Array.from(z, (v) => 1e9 * v),
+        ),
+        num('x', big),
+      ],
+    };
     let r: unknown;
     try {
-      r = fit(d, { outcome: 'y', terms: [main('z'), main('x'), { type: 'interaction', columns: ['z', 'x'] }] }, { profile: false });
+      r = fit(
+        d,
+        { outcome: 'y', terms: [main('z'), main('x'), { type: 'interaction', columns: ['z', 'x'] }] },
+        { profile: false },
+      );
     } catch (e) {
       expect((e as Error).name).toBe('FulcraError');
       return;
@@ -95,8 +118,11 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // fuzz run (fit: 28 rows, ML), outcome and linear predictor as returned.
   it('draws a finite calibration curve when the largest linear predictors exceed 37', () => {
     const yy = Float64Array.from([1, 1, 1, 0, 1, 1, 0, 1, 0, 1, 1, 0, 1, 0, 1, 1, 1, 1, 1, 1, 1, 0, 0, 1, 1, 1, 0, 1]);
-    const eta = Float64Array.from([28.1606, 28.2041, 0.0422, -18.5344, 819.431, -0.1235, 0.537, 1.7761, 0.7343, 0.7756, 18.5021,
-      0.4806, 1.069, -3.8257, 0.4998, 1.5581, 0.3201, 1.5344, 0.8431, 22814.26, 28.1939, 0.4454, 0.0689, 4436.68, -0.1545, 28.1695, 0.6279, 28.2136]);
+    const eta = Float64Array.from([
+      28.1606, 28.2041, 0.0422, -18.5344, 819.431, -0.1235, 0.537, 1.7761, 0.7343, 0.7756, 18.5021, 0.4806, 1.069,
+      -3.8257, 0.4998, 1.5581, 0.3201, 1.5344, 0.8431, 22814.26, 28.1939, 0.4454, 0.0689, 4436.68, -0.1545, 28.1695,
+      0.6279, 28.2136,
+    ]);
     const c = calibrationCurve(yy, eta);
     expect(c.observed.length).toBeGreaterThan(0);
     expect(nonFinitePaths(c)).toEqual([]);
@@ -107,7 +133,13 @@ describe('engine fuzz findings: reproductions and regression tests', () => {
   // throw FulcraError('value-out-of-range') naming the row and column when η is not finite (or warn and report null).
   it('scores a new case at the edge of the double range without an infinite η or a NaN interval', () => {
     const r = fitX(u);
-    const newData: Dataset = { nRows: 2, columns: [num('z', Float64Array.of(0, 0)), num('x', Float64Array.of(1.7e308 / Math.abs(r.coefficients[2].estimate) * 2, 1))] };
+    const newData: Dataset = {
+      nRows: 2,
+      columns: [
+        num('z', Float64Array.of(0, 0)),
+        num('x', Float64Array.of((1.7e308 / Math.abs(r.coefficients[2].estimate)) * 2, 1)),
+      ],
+    };
     let out: unknown;
     try {
       out = predict(r, newData);

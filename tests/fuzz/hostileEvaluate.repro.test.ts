@@ -35,7 +35,9 @@ describe('evaluation reproductions (fuzz findings)', () => {
   // per 100 is 0/0 = NaN in costThresholds and expectedCostCurve. Fix: return null (as atThreshold does when
   // total is 0) or throw FulcraError('bad-weight', 'the case weights sum to 0').
   it('refuses all-zero case weights with a FulcraError instead of a NaN expected cost', () => {
-    expect(() => prepareThresholds(Float64Array.of(1, 0), Float64Array.of(0.2, 0.7), Float64Array.of(0, 0))).toThrow(/weight is 0/);
+    expect(() => prepareThresholds(Float64Array.of(1, 0), Float64Array.of(0.2, 0.7), Float64Array.of(0, 0))).toThrow(
+      /weight is 0/,
+    );
     const prep = prepareThresholds(Float64Array.of(1, 0), Float64Array.of(0.2, 0.7), Float64Array.of(0, 1));
     const costs = { falseNegative: 5, falsePositive: 1 };
     expect(nonFinitePaths([costThresholds(prep, costs), expectedCostCurve(prep, costs)])).toEqual([]);

@@ -31,7 +31,9 @@ describe('penalised pipelines and bootstrap validation under hostile designs', (
       fc.asyncProperty(smallCase, fc.boolean(), async (c, lasso) => {
         const { data, spec } = buildCase(c);
         const pipeline: Pipeline = {
-          data, spec, seed: 1,
+          data,
+          spec,
+          seed: 1,
           fitOptions: lasso ? {} : { method: 'ml' },
           penalty: lasso ? { alpha: 1, lambda: 0.02, folds: 3, criterion: 'deviance', nLambda: 8 } : null,
         };
@@ -46,11 +48,24 @@ describe('penalised pipelines and bootstrap validation under hostile designs', (
 
   // Regression: exp(β) overflowed for β > 709.78 in pipeline.ts (now oddsRatio.ts, as fit.ts does).
   it('reports a finite odds ratio for a predictor measured in units of 1e-8', async () => {
-    const n = 60, rng = createRng(5);
+    const n = 60,
+      rng = createRng(5);
     const x = Float64Array.from({ length: n }, () => 1e-8 * rng.normal());
     const y = Float64Array.from(x, (v) => (rng.next() < 1 / (1 + Math.exp(-v * 1e8)) ? 1 : 0));
-    const data: Dataset = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x', values: x }] };
-    const f = await fitPipeline({ data, spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] }, fitOptions: { method: 'ml' }, penalty: null, seed: 1 });
+    const data: Dataset = {
+      nRows: n,
+      columns: [
+        { kind: 'numeric', name: 'y', values: y },
+        { kind: 'numeric', name: 'x', values: x },
+      ],
+    };
+    const f = await fitPipeline({
+      data,
+      spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] },
+      fitOptions: { method: 'ml' },
+      penalty: null,
+      seed: 1,
+    });
     expect(f.coefficients[1].estimate).toBeGreaterThan(710);
     expect(nonFinitePaths(f)).toEqual([]);
   });
@@ -59,14 +74,24 @@ describe('penalised pipelines and bootstrap validation under hostile designs', (
   for (const unit of [1e300, 1e-170]) {
     for (const lasso of [false, true]) {
       it(`estimates a predictor in units of ${unit} like the same predictor in units of 1 (${lasso ? 'lasso' : 'ML'} pipeline)`, async () => {
-        const n = 60, rng = createRng(5);
+        const n = 60,
+          rng = createRng(5);
         const u = Float64Array.from({ length: n }, () => rng.normal());
         const y = Float64Array.from(u, (v) => (rng.next() < 1 / (1 + Math.exp(-v)) ? 1 : 0));
-        const run = (x: Float64Array) => fitPipeline({
-          data: { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x', values: x }] },
-          spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] }, seed: 1, fitOptions: { method: 'ml' },
-          penalty: lasso ? { alpha: 1, lambda: 0.01, folds: 3, criterion: 'deviance', nLambda: 8 } : null,
-        });
+        const run = (x: Float64Array) =>
+          fitPipeline({
+            data: {
+              nRows: n,
+              columns: [
+                { kind: 'numeric', name: 'y', values: y },
+                { kind: 'numeric', name: 'x', values: x },
+              ],
+            },
+            spec: { outcome: 'y', terms: [{ type: 'main', column: 'x' }] },
+            seed: 1,
+            fitOptions: { method: 'ml' },
+            penalty: lasso ? { alpha: 1, lambda: 0.01, folds: 3, criterion: 'deviance', nLambda: 8 } : null,
+          });
         const ref = (await run(u)).coefficients[1].estimate;
         const scaled = (await run(u.map((v) => v * unit))).coefficients[1].estimate * unit;
         expect(ref).not.toBe(0);

@@ -4,7 +4,11 @@
  * array elements have the path `name[]`); null is always allowed.
  * Returns the offending paths (at most `limit`) so a failure names where it happened.
  */
-export function nonFinitePaths(value: unknown, allow: (path: string, value: number) => boolean = () => false, limit = 5): string[] {
+export function nonFinitePaths(
+  value: unknown,
+  allow: (path: string, value: number) => boolean = () => false,
+  limit = 5,
+): string[] {
   const bad: string[] = [];
   const seen = new Set<object>();
   const visit = (v: unknown, path: string): void => {

@@ -16,14 +16,19 @@ const info = (r: ImportResult, name: string) => r.columns.find((c) => c.name ===
 /** Values of a numeric column, or of a two-valued numeric column stored as levels (binary). */
 const num = (r: ImportResult, name: string) => {
   const c = getColumn(r.dataset, name);
-  return c.kind === 'numeric' ? Array.from((c as NumericColumn).values) : Array.from(c.codes, (k) => (k < 0 ? NaN : Number(c.levels[k])));
+  return c.kind === 'numeric'
+    ? Array.from((c as NumericColumn).values)
+    : Array.from(c.codes, (k) => (k < 0 ? NaN : Number(c.levels[k])));
 };
 const cat = (r: ImportResult, name: string) => {
   const c = getColumn(r.dataset, name) as CategoricalColumn;
   return Array.from(c.codes, (k) => (k < 0 ? null : c.levels[k]));
 };
 async function fatal(name: string, code: string, options: ImportOptions = {}): Promise<FulcraError> {
-  const e = await load(name, options).then(() => null, (x: unknown) => x);
+  const e = await load(name, options).then(
+    () => null,
+    (x: unknown) => x,
+  );
   expect(e).toBeInstanceOf(FulcraError);
   expect((e as FulcraError).code).toBe(code);
   return e as FulcraError;
@@ -137,7 +142,9 @@ const cases: Record<string, () => Promise<void>> = {
     const r = await load('semicolon-decimal-comma.csv');
     expect(r.format).toMatchObject({ delimiter: ';', decimal: ',' });
     // Reference: pandas 1.5.3 read_csv(sep=';', decimal=',', thousands='.'), tests/fixtures/io/csv-reference.json.
-    const ref = JSON.parse(readFileSync(new URL('../fixtures/io/csv-reference.json', import.meta.url), 'utf8')).pandasDecimalComma;
+    const ref = JSON.parse(
+      readFileSync(new URL('../fixtures/io/csv-reference.json', import.meta.url), 'utf8'),
+    ).pandasDecimalComma;
     expect(num(r, 'bmi')).toEqual(ref.bmi);
     expect(num(r, 'crp')).toEqual(ref.crp);
     expect(warn(r, 'thousands-separator').message).toContain('row 4 ("1.250,5")');
@@ -165,7 +172,9 @@ const cases: Record<string, () => Promise<void>> = {
   'text-in-numeric.csv': async () => {
     const r = await load('text-in-numeric.csv');
     expect(info(r, 'age').type).toBe('numeric');
-    expect(info(r, 'age').reason).toBe('92% of present cells are numbers; 3 cells are text: rows 14, 32, 37 (read as missing)');
+    expect(info(r, 'age').reason).toBe(
+      '92% of present cells are numbers; 3 cells are text: rows 14, 32, 37 (read as missing)',
+    );
     expect(warn(r, 'text-in-numeric').message).toContain('14 ("unknown"), 32 ("see notes"), 37 ("4o")');
     expect(num(r, 'age')[12]).toBeNaN();
     const asText = await load('text-in-numeric.csv', { columnTypes: { age: 'categorical' } });
@@ -175,13 +184,35 @@ const cases: Record<string, () => Promise<void>> = {
   },
   'many-rows-mostly-numeric.csv': async () => {
     const r = await load('many-rows-mostly-numeric.csv');
-    expect(info(r, 'crp').reason).toBe('99% of present cells are numbers; 3 cells are text: rows 14, 88, 301 (read as missing)');
+    expect(info(r, 'crp').reason).toBe(
+      '99% of present cells are numbers; 3 cells are text: rows 14, 88, 301 (read as missing)',
+    );
     expect(info(r, 'id').type).toBe('identifier');
   },
   'missing-tokens.csv': async () => {
     const r = await load('missing-tokens.csv');
-    expect(num(r, 'age').map((v) => (Number.isNaN(v) ? null : v))).toEqual([34, null, null, null, null, null, null, null, null, null, 47]);
-    expect(info(r, 'age').profile.missingTokens).toEqual({ NA: 2, 'N/A': 1, '.': 1, '-': 1, '?': 1, '#N/A': 1, '#DIV/0!': 1 });
+    expect(num(r, 'age').map((v) => (Number.isNaN(v) ? null : v))).toEqual([
+      34,
+      null,
+      null,
+      null,
+      null,
+      null,
+      null,
+      null,
+      null,
+      null,
+      47,
+    ]);
+    expect(info(r, 'age').profile.missingTokens).toEqual({
+      NA: 2,
+      'N/A': 1,
+      '.': 1,
+      '-': 1,
+      '?': 1,
+      '#N/A': 1,
+      '#DIV/0!': 1,
+    });
     expect(warn(r, 'spreadsheet-errors').message).toContain('rows 8 ("#N/A"), 9 ("#DIV/0!")');
     const custom = await load('missing-tokens.csv', { missingTokens: ['', 'NA'], columnTypes: { age: 'categorical' } });
     expect(cat(custom, 'age').filter((v) => v === null)).toHaveLength(3);
@@ -200,7 +231,11 @@ const cases: Record<string, () => Promise<void>> = {
   'pasted-from-spreadsheet.txt': async () => {
     const r = await importText(new TextDecoder().decode(read('pasted-from-spreadsheet.txt')));
     expect(r.columns.map((c) => c.name)).toEqual(['Patient', 'Age (years)', 'Infected']);
-    expect(proposeOutcomeEvent(getColumn(r.dataset, 'Infected'))).toMatchObject({ status: 'proposed', event: 'infected', nonEvent: 'not infected' });
+    expect(proposeOutcomeEvent(getColumn(r.dataset, 'Infected'))).toMatchObject({
+      status: 'proposed',
+      event: 'infected',
+      nonEvent: 'not infected',
+    });
   },
   'leading-zeros.csv': async () => {
     const r = await load('leading-zeros.csv');
@@ -216,7 +251,9 @@ const cases: Record<string, () => Promise<void>> = {
     const r = await load('dates-day-first.csv');
     expect(info(r, 'admitted').type).toBe('date');
     expect(info(r, 'admitted').note).toContain('days since 1970-01-01');
-    expect(num(r, 'admitted')).toEqual([Date.UTC(2021, 11, 25), Date.UTC(2022, 0, 3), Date.UTC(2022, 1, 14)].map((t) => t / 86_400_000));
+    expect(num(r, 'admitted')).toEqual(
+      [Date.UTC(2021, 11, 25), Date.UTC(2022, 0, 3), Date.UTC(2022, 1, 14)].map((t) => t / 86_400_000),
+    );
     expect(codes(r)).not.toContain('ambiguous-date-order');
   },
   'dates-ambiguous.csv': async () => {
@@ -246,7 +283,10 @@ const cases: Record<string, () => Promise<void>> = {
   },
   'ambiguous-outcome.csv': async () => {
     const r = await load('ambiguous-outcome.csv');
-    expect(proposeOutcomeEvent(getColumn(r.dataset, 'result'))).toMatchObject({ status: 'needsChoice', levels: ['A', 'B'] });
+    expect(proposeOutcomeEvent(getColumn(r.dataset, 'result'))).toMatchObject({
+      status: 'needsChoice',
+      levels: ['A', 'B'],
+    });
   },
   'spaces-around.csv': async () => {
     const r = await load('spaces-around.csv');
@@ -328,7 +368,9 @@ const cases: Record<string, () => Promise<void>> = {
 
 describe('bad input fixtures', () => {
   it('has at least 30 fixtures and a test for each file the fixture script writes', () => {
-    const files = readdirSync(DIR).filter((f) => !f.endsWith('.ts')).sort();
+    const files = readdirSync(DIR)
+      .filter((f) => !f.endsWith('.ts'))
+      .sort();
     expect(files.length).toBeGreaterThanOrEqual(30);
     expect(files).toEqual(Object.keys(cases).sort());
   });

@@ -1,7 +1,13 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { CELL_MISSING, CELL_NUMBER, CELL_TEXT, CellReader } from '../../src/io/cellReader';
-import { DEFAULT_MISSING_TOKENS, numberFlags, parseNumberText, parseSpanNumber, splitUnit } from '../../src/io/cellText';
+import {
+  DEFAULT_MISSING_TOKENS,
+  numberFlags,
+  parseNumberText,
+  parseSpanNumber,
+  splitUnit,
+} from '../../src/io/cellText';
 
 describe('parseNumberText', () => {
   it('reads plain decimals with a point and rejects what Number() would wrongly accept', () => {
@@ -44,7 +50,24 @@ describe('splitUnit', () => {
 describe('CellReader', () => {
   it('recognises every default missing token case-insensitively, and spreadsheet errors as errors', () => {
     const r = new CellReader(false, DEFAULT_MISSING_TOKENS);
-    for (const t of ['', '  ', 'NA', 'na', 'N/A', 'n/a', '.', '-', '?', '#N/A', '#DIV/0!', '#VALUE!', '#REF!', '#NAME?', '#NUM!', '#NULL!']) {
+    for (const t of [
+      '',
+      '  ',
+      'NA',
+      'na',
+      'N/A',
+      'n/a',
+      '.',
+      '-',
+      '?',
+      '#N/A',
+      '#DIV/0!',
+      '#VALUE!',
+      '#REF!',
+      '#NAME?',
+      '#NUM!',
+      '#NULL!',
+    ]) {
       expect(r.read(t), JSON.stringify(t)).toBe(CELL_MISSING);
     }
     r.read('#REF!');
@@ -82,6 +105,7 @@ describe('parseSpanNumber', () => {
 
   it('reads a decimal comma when told, and declines anything that is not a plain decimal', () => {
     expect(span('12,75', 44)).toBe(12.75);
-    for (const s of ['', '-', '.', '1e', '1,5', '1.2.3', '12 mg', '0x10', '1e400', '1'.repeat(30)]) expect(span(s), s).toBeNaN();
+    for (const s of ['', '-', '.', '1e', '1,5', '1.2.3', '12 mg', '0x10', '1e400', '1'.repeat(30)])
+      expect(span(s), s).toBeNaN();
   });
 });

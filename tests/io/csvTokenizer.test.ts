@@ -35,7 +35,12 @@ describe('CsvTokenizer', () => {
     const text = 'a,"b ""q"" c",d\r\n1,"x\ny",3\r2,,"z"\n"",last';
     const whole = tokenize(text);
     for (const size of [1, 2, 3, 5, 7, 64]) expect(tokenize(text, ',', size)).toEqual(whole);
-    expect(whole).toEqual([['a', 'b "q" c', 'd'], ['1', 'x\ny', '3'], ['2', '', 'z'], ['', 'last']]);
+    expect(whole).toEqual([
+      ['a', 'b "q" c', 'd'],
+      ['1', 'x\ny', '3'],
+      ['2', '', 'z'],
+      ['', 'last'],
+    ]);
   });
 
   it('keeps a trailing empty field after a final delimiter and ignores a final line end', () => {
@@ -61,14 +66,20 @@ describe('CsvTokenizer', () => {
 
   it('property: on any text, importText either returns a result or throws a FulcraError', async () => {
     await fc.assert(
-      fc.asyncProperty(fc.string({ unit: fc.constantFrom('a', '1', ',', ';', '\t', '"', '\n', '\r', ' ', '.', '-', 'é', '#N/A', '<') , maxLength: 60 }), async (s) => {
-        try {
-          const r = await importText(s);
-          expect(r.dataset.nRows).toBeGreaterThan(0);
-        } catch (e) {
-          expect(e).toBeInstanceOf(FulcraError);
-        }
-      }),
+      fc.asyncProperty(
+        fc.string({
+          unit: fc.constantFrom('a', '1', ',', ';', '\t', '"', '\n', '\r', ' ', '.', '-', 'é', '#N/A', '<'),
+          maxLength: 60,
+        }),
+        async (s) => {
+          try {
+            const r = await importText(s);
+            expect(r.dataset.nRows).toBeGreaterThan(0);
+          } catch (e) {
+            expect(e).toBeInstanceOf(FulcraError);
+          }
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -76,13 +87,17 @@ describe('CsvTokenizer', () => {
   it('property: on any bytes, importFile (as .csv or .xlsx) either returns a result or throws a FulcraError', async () => {
     const zipLike = fc.uint8Array({ maxLength: 300 }).map((b) => Uint8Array.from([0x50, 0x4b, 3, 4, ...b]));
     await fc.assert(
-      fc.asyncProperty(fc.oneof(fc.uint8Array({ maxLength: 300 }), zipLike), fc.constantFrom('x.csv', 'x.xlsx'), async (bytes, name) => {
-        try {
-          await importFile(bytes, name);
-        } catch (e) {
-          expect(e).toBeInstanceOf(FulcraError);
-        }
-      }),
+      fc.asyncProperty(
+        fc.oneof(fc.uint8Array({ maxLength: 300 }), zipLike),
+        fc.constantFrom('x.csv', 'x.xlsx'),
+        async (bytes, name) => {
+          try {
+            await importFile(bytes, name);
+          } catch (e) {
+            expect(e).toBeInstanceOf(FulcraError);
+          }
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -91,7 +106,11 @@ describe('CsvTokenizer', () => {
     const good = new Uint8Array(readFileSync(new URL('deflated-shared-strings.xlsx', BAD)));
     const damaged = fc.oneof(
       fc.integer({ min: 0, max: good.length - 1 }).map((n) => good.slice(0, n)),
-      fc.array(fc.tuple(fc.integer({ min: 0, max: good.length - 1 }), fc.integer({ min: 0, max: 255 })), { minLength: 1, maxLength: 8 })
+      fc
+        .array(fc.tuple(fc.integer({ min: 0, max: good.length - 1 }), fc.integer({ min: 0, max: 255 })), {
+          minLength: 1,
+          maxLength: 8,
+        })
         .map((edits) => {
           const b = good.slice();
           for (const [i, v] of edits) b[i] = v;
@@ -122,7 +141,24 @@ describe('CsvTokenizer', () => {
       return out;
     };
     const cell = fc.oneof(
-      fc.constantFrom('', 'NA', ' 7 ', '1,234', '12 mg', 'yes', 'no', 'Café', '"q""x"', '"a,b"', '#DIV/0!', '007', '2021-03-04', '-0', '1e3', '\u00a0x'),
+      fc.constantFrom(
+        '',
+        'NA',
+        ' 7 ',
+        '1,234',
+        '12 mg',
+        'yes',
+        'no',
+        'Café',
+        '"q""x"',
+        '"a,b"',
+        '#DIV/0!',
+        '007',
+        '2021-03-04',
+        '-0',
+        '1e3',
+        '\u00a0x',
+      ),
       fc.integer({ min: -50, max: 50 }).map(String),
       fc.double({ noNaN: true, noDefaultInfinity: true }).map(String),
     );
@@ -148,15 +184,23 @@ describe('CsvTokenizer', () => {
   it('property: numbers it writes itself come back bit-for-bit (comma and semicolon/decimal-comma files)', async () => {
     const num = fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 });
     await fc.assert(
-      fc.asyncProperty(fc.array(fc.tuple(num, num), { minLength: 3, maxLength: 30 }), fc.boolean(), async (rows, comma) => {
-        const fmt = (v: number) => (comma ? String(v).replace('.', ',') : String(v));
-        const sep = comma ? ';' : ',';
-        const text = `x${sep}y\n` + rows.map(([a, b]) => `${fmt(a)}${sep}${fmt(b)}`).join('\n');
-        const r = await importText(text, { decimal: comma ? ',' : '.', delimiter: sep, columnTypes: { x: 'numeric', y: 'numeric' } });
-        const [x, y] = r.dataset.columns;
-        expect(x.kind === 'numeric' && Array.from(x.values)).toEqual(rows.map((p) => p[0] + 0));
-        expect(y.kind === 'numeric' && Array.from(y.values)).toEqual(rows.map((p) => p[1] + 0));
-      }),
+      fc.asyncProperty(
+        fc.array(fc.tuple(num, num), { minLength: 3, maxLength: 30 }),
+        fc.boolean(),
+        async (rows, comma) => {
+          const fmt = (v: number) => (comma ? String(v).replace('.', ',') : String(v));
+          const sep = comma ? ';' : ',';
+          const text = `x${sep}y\n` + rows.map(([a, b]) => `${fmt(a)}${sep}${fmt(b)}`).join('\n');
+          const r = await importText(text, {
+            decimal: comma ? ',' : '.',
+            delimiter: sep,
+            columnTypes: { x: 'numeric', y: 'numeric' },
+          });
+          const [x, y] = r.dataset.columns;
+          expect(x.kind === 'numeric' && Array.from(x.values)).toEqual(rows.map((p) => p[0] + 0));
+          expect(y.kind === 'numeric' && Array.from(y.values)).toEqual(rows.map((p) => p[1] + 0));
+        },
+      ),
       { numRuns: 150 },
     );
   });

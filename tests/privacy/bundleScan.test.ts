@@ -43,8 +43,11 @@ async function builtDir(): Promise<string> {
   const sources = [...walk(join(ROOT, 'src')), join(ROOT, 'index.html')];
   if (hasJs(dist) && newest(walk(dist)) >= newest(sources)) return dist;
   // NODE_ENV=production: the test runner sets NODE_ENV=test, which would make a development build of React.
-  await promisify(execFile)('npx', ['vite', 'build', '--outDir', SCAN_DIR, '--emptyOutDir', '--logLevel', 'error'],
-    { cwd: ROOT, maxBuffer: 16 << 20, env: { ...process.env, NODE_ENV: 'production' } });
+  await promisify(execFile)('npx', ['vite', 'build', '--outDir', SCAN_DIR, '--emptyOutDir', '--logLevel', 'error'], {
+    cwd: ROOT,
+    maxBuffer: 16 << 20,
+    env: { ...process.env, NODE_ENV: 'production' },
+  });
   if (!hasJs(SCAN_DIR)) throw new Error(`vite build wrote no JavaScript to ${SCAN_DIR}`);
   return SCAN_DIR;
 }
@@ -64,7 +67,9 @@ describe('built bundle privacy scan', () => {
 
   it('makes no fetch/XMLHttpRequest/WebSocket/EventSource/sendBeacon/importScripts call to an outside address', () => {
     const findings: Finding[] = [];
-    for (const f of files) if (!f.endsWith('.css')) findings.push(...scanNetworkCalls(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f)));
+    for (const f of files)
+      if (!f.endsWith('.css'))
+        findings.push(...scanNetworkCalls(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(dir, f)));
     expect(findings, describeFindings(findings)).toEqual([]);
   });
 
@@ -79,8 +84,13 @@ describe('built bundle privacy scan', () => {
 
   // jspdf (output 'pdfobjectnewwindow', never used) names a cdnjs script; vite.config.ts blanks that string.
   it('carries no third-party CDN address (jsPDF pdfobject) in the bundle', () => {
-    const hits = files.filter((f) => f.endsWith('.js')).flatMap((f) =>
-      [...codeWithoutComments(readFileSync(f, 'utf8'), f).matchAll(/https?:\/\/[^\s'"`]+/g)].map((m) => m[0]).filter((u) => JSPDF_CDN.test(u)));
+    const hits = files
+      .filter((f) => f.endsWith('.js'))
+      .flatMap((f) =>
+        [...codeWithoutComments(readFileSync(f, 'utf8'), f).matchAll(/https?:\/\/[^\s'"`]+/g)]
+          .map((m) => m[0])
+          .filter((u) => JSPDF_CDN.test(u)),
+      );
     expect(hits).toEqual([]);
   });
 

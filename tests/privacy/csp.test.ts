@@ -20,27 +20,45 @@ async function build(mode: 'production' | 'single'): Promise<string> {
   const out = mkdtempSync(join(tmpdir(), `fulcra-csp-${mode}-`));
   dirs.push(out);
   // NODE_ENV=production: the test runner sets NODE_ENV=test, which would make a development build of React.
-  await promisify(execFile)('npx', ['vite', 'build', '--mode', mode, '--outDir', out, '--emptyOutDir', '--logLevel', 'error'],
-    { cwd: ROOT, maxBuffer: 16 << 20, env: { ...process.env, NODE_ENV: 'production' } });
+  await promisify(execFile)(
+    'npx',
+    ['vite', 'build', '--mode', mode, '--outDir', out, '--emptyOutDir', '--logLevel', 'error'],
+    { cwd: ROOT, maxBuffer: 16 << 20, env: { ...process.env, NODE_ENV: 'production' } },
+  );
   return out;
 }
 
-const walk = (dir: string): string[] => readdirSync(dir, { withFileTypes: true })
-  .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : [join(dir, e.name)]));
+const walk = (dir: string): string[] =>
+  readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
+    e.isDirectory() ? walk(join(dir, e.name)) : [join(dir, e.name)],
+  );
 
 /** The policies in <meta http-equiv="Content-Security-Policy">, with the HTML entities of the content decoded. */
 function metaPolicies(html: string): { policy: string; index: number }[] {
-  return [...html.matchAll(/<meta\s+http-equiv="Content-Security-Policy"\s+content="([^"]*)"/gi)]
-    .map((m) => ({ policy: m[1].replace(/&#39;/g, "'").replace(/&quot;/g, '"').replace(/&amp;/g, '&'), index: m.index! }));
+  return [...html.matchAll(/<meta\s+http-equiv="Content-Security-Policy"\s+content="([^"]*)"/gi)].map((m) => ({
+    policy: m[1]
+      .replace(/&#39;/g, "'")
+      .replace(/&quot;/g, '"')
+      .replace(/&amp;/g, '&'),
+    index: m.index!,
+  }));
 }
 
 function directives(policy: string): Map<string, string[]> {
-  return new Map(policy.split(';').map((d) => d.trim().split(/\s+/)).filter((d) => d[0]).map(([k, ...v]) => [k, v]));
+  return new Map(
+    policy
+      .split(';')
+      .map((d) => d.trim().split(/\s+/))
+      .filter((d) => d[0])
+      .map(([k, ...v]) => [k, v]),
+  );
 }
 
 /** Attributes that make the browser load something, outside the inline <script>/<style> text. */
-const loadedUrls = (html: string) => [...html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/gi, '')
-  .matchAll(/\b(?:src|href)\s*=\s*["']?([^"'\s>]+)/gi)].map((m) => m[1]);
+const loadedUrls = (html: string) =>
+  [
+    ...html.replace(/<(script|style)\b[^>]*>[\s\S]*?<\/\1>/gi, '').matchAll(/\b(?:src|href)\s*=\s*["']?([^"'\s>]+)/gi),
+  ].map((m) => m[1]);
 
 function expectNoNetworkAndNoEval(d: Map<string, string[]>) {
   expect(d.get('default-src')).toEqual(["'none'"]);
@@ -50,7 +68,10 @@ function expectNoNetworkAndNoEval(d: Map<string, string[]>) {
   expect(d.get('form-action')).toEqual(["'none'"]);
   for (const [name, sources] of d) {
     expect(sources, name).not.toContain("'unsafe-eval'");
-    expect(sources.filter((s) => /^(https?:|wss?:|\*|\/\/)/.test(s) || s.includes('*')), name).toEqual([]);
+    expect(
+      sources.filter((s) => /^(https?:|wss?:|\*|\/\/)/.test(s) || s.includes('*')),
+      name,
+    ).toEqual([]);
   }
   expect(d.get('script-src')).not.toContain("'unsafe-inline'");
 }
@@ -60,7 +81,9 @@ let single = '';
 beforeAll(async () => {
   [normal, single] = await Promise.all([build('production'), build('single')]);
 }, 600_000);
-afterAll(() => { for (const d of dirs) rmSync(d, { recursive: true, force: true }); });
+afterAll(() => {
+  for (const d of dirs) rmSync(d, { recursive: true, force: true });
+});
 
 describe('served build (npm run build)', () => {
   it('has one policy, before any script or stylesheet, with no connection, no eval and scripts only from its own files', () => {
@@ -93,7 +116,10 @@ describe('both builds', () => {
   it("leave out jsPDF's optional HTML/SVG-image modules (html2canvas, DOMPurify, canvg), which Fulcra never calls", () => {
     const files = [...walk(normal), ...walk(single)];
     expect(files.filter((f) => /[\\/](html2canvas|purify\.es|index\.es)-[\w-]+\.js$/.test(f))).toEqual([]);
-    const all = files.filter((f) => /\.(js|html)$/.test(f)).map((f) => readFileSync(f, 'utf8')).join('\n');
+    const all = files
+      .filter((f) => /\.(js|html)$/.test(f))
+      .map((f) => readFileSync(f, 'utf8'))
+      .join('\n');
     // Text found only in each library (html2canvas 1.4.1, dompurify 3.5.0, canvg 3.0.11 in node_modules), checked
     // present in a build made without the stubs.
     expect(all).not.toContain('html2canvas-container');

@@ -11,7 +11,8 @@ export function codeWithoutComments(source: string, file: string): string {
   if (/\.html?$/i.test(file)) return source.replace(/<!--[\s\S]*?-->/g, '');
   const ext = (/\.(tsx|ts|jsx|mjs|cjs|js|css)$/i.exec(file)?.[1] ?? 'js').toLowerCase();
   const loader: Loader = ext === 'mjs' || ext === 'cjs' ? 'js' : (ext as Loader);
-  return transformSync(source, { loader, legalComments: 'none', jsx: 'preserve', sourcefile: file, logLevel: 'silent' }).code;
+  return transformSync(source, { loader, legalComments: 'none', jsx: 'preserve', sourcefile: file, logLevel: 'silent' })
+    .code;
 }
 
 /** Constructs that run text as code or as HTML. */
@@ -57,7 +58,8 @@ export function scanCode(code: string, file: string, extraAllowed: readonly RegE
   const out: Finding[] = [];
   for (const f of FORBIDDEN) {
     const re = new RegExp(f.pattern.source, 'g');
-    for (const m of code.matchAll(re)) out.push({ file, line: lineOf(code, m.index!), what: f.name, text: code.slice(m.index!, m.index! + 60) });
+    for (const m of code.matchAll(re))
+      out.push({ file, line: lineOf(code, m.index!), what: f.name, text: code.slice(m.index!, m.index! + 60) });
   }
   for (const m of code.matchAll(URL_RE)) {
     const url = m[0];
@@ -69,14 +71,23 @@ export function scanCode(code: string, file: string, extraAllowed: readonly RegE
 
 /** Whether a URL literal points outside the machine: absolute http(s)/ws(s) or protocol-relative, not loopback. */
 function outside(url: string): boolean {
-  return /^(?:(?:https?|wss?):)?\/\//i.test(url) && !/^(?:(?:https?|wss?):)?\/\/(?:127\.0\.0\.1|localhost)(?::\d+)?(?:\/|$)/i.test(url);
+  return (
+    /^(?:(?:https?|wss?):)?\/\//i.test(url) &&
+    !/^(?:(?:https?|wss?):)?\/\/(?:127\.0\.0\.1|localhost)(?::\d+)?(?:\/|$)/i.test(url)
+  );
 }
 
 const LITERAL = String.raw`([\x60'"])((?:(?!\1)[^\\]|\\.)*)\1`;
 const NETWORK_CALLS: readonly { name: string; pattern: RegExp }[] = [
   { name: 'fetch', pattern: new RegExp(String.raw`\bfetch\s*\(\s*` + LITERAL, 'g') },
-  { name: 'XMLHttpRequest.open', pattern: new RegExp(String.raw`\.open\s*\(\s*[\x60'"][A-Za-z]+[\x60'"]\s*,\s*` + LITERAL, 'g') },
-  { name: 'WebSocket/EventSource/Worker', pattern: new RegExp(String.raw`\bnew\s+(?:WebSocket|EventSource|Worker|SharedWorker)\s*\(\s*` + LITERAL, 'g') },
+  {
+    name: 'XMLHttpRequest.open',
+    pattern: new RegExp(String.raw`\.open\s*\(\s*[\x60'"][A-Za-z]+[\x60'"]\s*,\s*` + LITERAL, 'g'),
+  },
+  {
+    name: 'WebSocket/EventSource/Worker',
+    pattern: new RegExp(String.raw`\bnew\s+(?:WebSocket|EventSource|Worker|SharedWorker)\s*\(\s*` + LITERAL, 'g'),
+  },
   { name: 'sendBeacon', pattern: new RegExp(String.raw`\bsendBeacon\s*\(\s*` + LITERAL, 'g') },
   { name: 'importScripts', pattern: new RegExp(String.raw`\bimportScripts\s*\(\s*` + LITERAL, 'g') },
   { name: 'src/href assignment', pattern: new RegExp(String.raw`\.(?:src|href)\s*=\s*` + LITERAL, 'g') },
@@ -91,7 +102,13 @@ export function scanNetworkCalls(code: string, file: string): Finding[] {
   const out: Finding[] = [];
   for (const c of NETWORK_CALLS) {
     for (const m of code.matchAll(c.pattern)) {
-      if (outside(m[2])) out.push({ file, line: lineOf(code, m.index!), what: `${c.name} to an outside address`, text: code.slice(m.index!, m.index! + 120) });
+      if (outside(m[2]))
+        out.push({
+          file,
+          line: lineOf(code, m.index!),
+          what: `${c.name} to an outside address`,
+          text: code.slice(m.index!, m.index! + 120),
+        });
     }
   }
   return out;

@@ -25,7 +25,9 @@ describe('scanner self-check', () => {
       'const t = <div dangerouslySetInnerHTML={{ __html: s }} />;',
     ].join('\n');
     const found = scanCode(codeWithoutComments(src, 'probe.tsx'), 'probe.tsx');
-    expect(found.map((f) => f.what).sort()).toEqual(['absolute URL', 'dangerouslySetInnerHTML', 'eval(', 'innerHTML =', 'new Function('].sort());
+    expect(found.map((f) => f.what).sort()).toEqual(
+      ['absolute URL', 'dangerouslySetInnerHTML', 'eval(', 'innerHTML =', 'new Function('].sort(),
+    );
     expect(found.find((f) => f.what === 'absolute URL')!.text).toBe('https://tracker.example.com/collect');
   });
 
@@ -35,11 +37,20 @@ describe('scanner self-check', () => {
   });
 
   it('reports network calls to outside addresses but not to relative or loopback ones', () => {
-    const bad = ['fetch("https://x.example/collect", { method: "POST" })', 'new WebSocket(`wss://live.example.net/s`)',
-      'navigator.sendBeacon("//cdn.example.com/b", d)', "importScripts('https://cdn.example.com/lib.js')",
-      'x.open("GET", "https://api.example.com/v1")', 'script.src = "https://cdn.example.com/a.js"'];
+    const bad = [
+      'fetch("https://x.example/collect", { method: "POST" })',
+      'new WebSocket(`wss://live.example.net/s`)',
+      'navigator.sendBeacon("//cdn.example.com/b", d)',
+      "importScripts('https://cdn.example.com/lib.js')",
+      'x.open("GET", "https://api.example.com/v1")',
+      'script.src = "https://cdn.example.com/a.js"',
+    ];
     for (const b of bad) expect(scanNetworkCalls(b, 'probe.js'), b).toHaveLength(1);
-    const good = ['fetch(link.href, opts)', 'new Worker(new URL("./w.js", import.meta.url))', 'fetch("http://127.0.0.1:4190/run")'];
+    const good = [
+      'fetch(link.href, opts)',
+      'new Worker(new URL("./w.js", import.meta.url))',
+      'fetch("http://127.0.0.1:4190/run")',
+    ];
     for (const g of good) expect(scanNetworkCalls(g, 'probe.js'), g).toEqual([]);
   });
 });
@@ -54,9 +65,11 @@ describe('source privacy scan', () => {
     for (const f of files.filter((x) => /\.(ts|tsx)$/.test(x))) {
       const code = codeWithoutComments(readFileSync(f, 'utf8'), f);
       for (const m of code.matchAll(/\.output\(\s*(["'`])([^"'`]*)\1/g)) {
-        if (!['arraybuffer', 'blob'].includes(m[2])) findings.push({ file: relative(ROOT, f), line: 0, what: `jsPDF output "${m[2]}"`, text: m[0] });
+        if (!['arraybuffer', 'blob'].includes(m[2]))
+          findings.push({ file: relative(ROOT, f), line: 0, what: `jsPDF output "${m[2]}"`, text: m[0] });
       }
-      for (const m of code.matchAll(/\b(addSvgAsImage|doc\.html|pdf\.html)\s*\(/g)) findings.push({ file: relative(ROOT, f), line: 0, what: m[1], text: m[0] });
+      for (const m of code.matchAll(/\b(addSvgAsImage|doc\.html|pdf\.html)\s*\(/g))
+        findings.push({ file: relative(ROOT, f), line: 0, what: m[1], text: m[0] });
     }
     expect(findings, describeFindings(findings)).toEqual([]);
   });

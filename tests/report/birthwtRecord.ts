@@ -23,9 +23,15 @@ export function loadBirthwt(): Dataset {
   return {
     nRows: rows.length,
     columns: [
-      num('low'), num('age'), num('lwt'),
+      num('low'),
+      num('age'),
+      num('lwt'),
       { kind: 'categorical', name: 'race', levels: ['1', '2', '3'], codes: Int32Array.from(col('race'), (r) => r - 1) },
-      num('smoke'), num('ptl'), num('ht'), num('ui'), num('bwt'),
+      num('smoke'),
+      num('ptl'),
+      num('ht'),
+      num('ui'),
+      num('bwt'),
     ],
   };
 }
@@ -34,7 +40,9 @@ export function loadBirthwt(): Dataset {
 export const birthwtSpec: ModelSpec = {
   outcome: 'low',
   event: '1',
-  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((column) => (column === 'race' ? { type: 'main', column, reference: '1' } : { type: 'main', column })),
+  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((column) =>
+    column === 'race' ? { type: 'main', column, reference: '1' } : { type: 'main', column },
+  ),
 };
 
 /** A model with every kind of term: spline, categorical, numeric, categorical×numeric and numeric×numeric. */
@@ -59,13 +67,26 @@ export async function birthwtReportInput(spec: ModelSpec = birthwtSpec): Promise
   const pred = predict(result, data);
   const y = Float64Array.from(pred.rowsUsed, (r) => (data.columns[0] as { values: Float64Array }).values[r]);
   const evaluation = evaluate(y, pred.risk, { eta: pred.eta, costs: COSTS });
-  const validation = await bootstrapValidation({ data, spec, fitOptions: { profile: false }, penalty: null, seed: 20261202 }, { B: 20, seed: 20261202 });
-  const sampleSize = riley2020SampleSize({ parameters: result.parameters, outcomeProportion: result.events / result.nUsed, actual: { n: result.nUsed, events: result.events } });
+  const validation = await bootstrapValidation(
+    { data, spec, fitOptions: { profile: false }, penalty: null, seed: 20261202 },
+    { B: 20, seed: 20261202 },
+  );
+  const sampleSize = riley2020SampleSize({
+    parameters: result.parameters,
+    outcomeProportion: result.events / result.nUsed,
+    actual: { n: result.nUsed, events: result.events },
+  });
   return reportInputFromRecords({
-    meta: { fulcraVersion: FULCRA_VERSION, created: '2026-12-02T01:30:00Z', seed: 20261202, dataChecksum: datasetChecksum(data) },
+    meta: {
+      fulcraVersion: FULCRA_VERSION,
+      created: '2026-12-02T01:30:00Z',
+      seed: 20261202,
+      dataChecksum: datasetChecksum(data),
+    },
     source: { fileName: 'birthwt.csv', rows: data.nRows, columns: data.columns.length, dateRange: null },
     freeText: {
-      purpose: 'Flag pregnancies at high risk of a low birth weight (< 2.5 kg) at booking so that extra antenatal review can be offered.',
+      purpose:
+        'Flag pregnancies at high risk of a low birth weight (< 2.5 kg) at booking so that extra antenatal review can be offered.',
       setting: 'Baystate Medical Center, Springfield, Massachusetts, 1986 (the MASS::birthwt data).',
       population: 'Mothers delivering at the centre; 189 births.',
     },

@@ -57,9 +57,18 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
 
   it('has every section in order', () => {
     const headings = [
-      '1. Purpose, setting and population', '2. Data and outcome', '3. Predictors and their handling', '4. Sample size',
-      '5. Modelling method', '6. Model equation', '7. Coefficients and odds ratios', '8. Performance',
-      '9. Calibration, discrimination and net benefit', '10. Decision threshold', '11. Warnings', '12. Cautions',
+      '1. Purpose, setting and population',
+      '2. Data and outcome',
+      '3. Predictors and their handling',
+      '4. Sample size',
+      '5. Modelling method',
+      '6. Model equation',
+      '7. Coefficients and odds ratios',
+      '8. Performance',
+      '9. Calibration, discrimination and net benefit',
+      '10. Decision threshold',
+      '11. Warnings',
+      '12. Cautions',
     ];
     const at = headings.map((h) => text.indexOf(h));
     expect(at.every((i) => i >= 0)).toBe(true);
@@ -97,7 +106,8 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
 
   it('shows odds ratios, profile intervals and p-values as the formatter writes them', () => {
     const smoke = input.model.coefficients.find((c) => c.name === 'smoke')!;
-    const row = `smoke ${formatFixed(smoke.estimate, 4)} ${formatFixed(smoke.se, 4)} ${formatFixed(smoke.oddsRatio, 3)} ` +
+    const row =
+      `smoke ${formatFixed(smoke.estimate, 4)} ${formatFixed(smoke.se, 4)} ${formatFixed(smoke.oddsRatio, 3)} ` +
       `${formatFixed(Math.exp(smoke.profileLower!), 3)} to ${formatFixed(Math.exp(smoke.profileUpper!), 3)} ${formatP(smoke.p)}`;
     expect(text.replace(/\s+/g, ' ')).toContain(row);
     const ageLwt = input.model.coefficients.find((c) => c.name === 'age:lwt')!;
@@ -107,12 +117,16 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
 
   it('shows apparent and optimism-corrected performance with the AUC\u2019s DeLong interval', () => {
     const a = input.apparent!;
-    expect(text).toContain(`${formatFixed(a.auc!.estimate, 3)} (${formatFixed(a.auc!.lower, 3)} to ${formatFixed(a.auc!.upper, 3)})`);
+    expect(text).toContain(
+      `${formatFixed(a.auc!.estimate, 3)} (${formatFixed(a.auc!.lower, 3)} to ${formatFixed(a.auc!.upper, 3)})`,
+    );
     expect(text).toContain(formatFixed(input.corrected!.auc!.estimate, 3));
     expect(text).toContain('Optimism-corrected');
     expect(text).toContain('20 replicates');
     const ce = input.calibrationErrors!;
-    expect(text.replace(/\s+/g, ' ')).toContain(`ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)}`);
+    expect(text.replace(/\s+/g, ' ')).toContain(
+      `ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)}`,
+    );
   });
 
   it('states the threshold, both costs and the confusion matrix at it', () => {
@@ -151,7 +165,11 @@ describe('model-summary PDF with little to report', () => {
     const ridge = fit(data, birthwtSpec, { method: 'ridge', lambda: 0.05 });
     const input: ReportInput = {
       meta: { fulcraVersion: '0.1.0', created: '2026-12-02T02:00:00Z', seed: null, dataChecksum: '0'.repeat(64) },
-      source: { fileName: 'x.csv', rows: data.nRows, dateRange: { column: 'admitted', from: '2024-01-03', to: '2024-12-30' } },
+      source: {
+        fileName: 'x.csv',
+        rows: data.nRows,
+        dateRange: { column: 'admitted', from: '2024-01-03', to: '2024-12-30' },
+      },
       model: ridge,
       lambdaChoice: '10-fold cross-validation, one-standard-error rule',
     };
@@ -173,10 +191,23 @@ describe('model-summary PDF with little to report', () => {
   it('builds from a model re-opened from its file, with the same equation', () => {
     const data = loadBirthwt();
     const original = fit(data, birthwtRichSpec);
-    const reopened = modelFileToFitResult(readModelFile(modelFileToJson(createModelFile(original, { fulcraVersion: FULCRA_VERSION }))));
-    const meta = { fulcraVersion: FULCRA_VERSION, created: '2026-12-02T02:00:00Z', seed: null, dataChecksum: '1'.repeat(64) };
-    const a = pdfText(buildModelReport({ meta, source: { fileName: 'b.csv', rows: 189 }, model: original }), 'orig').text;
-    const b = pdfText(buildModelReport({ meta, source: { fileName: 'b.csv', rows: 189 }, model: reopened }), 'reopened').text;
+    const reopened = modelFileToFitResult(
+      readModelFile(modelFileToJson(createModelFile(original, { fulcraVersion: FULCRA_VERSION }))),
+    );
+    const meta = {
+      fulcraVersion: FULCRA_VERSION,
+      created: '2026-12-02T02:00:00Z',
+      seed: null,
+      dataChecksum: '1'.repeat(64),
+    };
+    const a = pdfText(
+      buildModelReport({ meta, source: { fileName: 'b.csv', rows: 189 }, model: original }),
+      'orig',
+    ).text;
+    const b = pdfText(
+      buildModelReport({ meta, source: { fileName: 'b.csv', rows: 189 }, model: reopened }),
+      'reopened',
+    ).text;
     const eq = (t: string) => t.slice(t.indexOf('logit(risk) ='), t.indexOf('risk = 1 / (1 + exp('));
     expect(eq(b)).toBe(eq(a));
     expect(eq(a)).toContain(`${formatSig(original.coefficients[0].estimate, 6)}`);

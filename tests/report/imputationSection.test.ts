@@ -17,7 +17,11 @@ const text = (bytes: Uint8Array, name: string) => {
 
 describe('model-summary PDF after multiple imputation (through the worker api)', () => {
   // birthwt with values removed (fixture reference/mi-pool.json, from tests/fixtures/reference/mi-pool.R).
-  const spec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };
+  const spec: ModelSpec = {
+    outcome: 'low',
+    event: '1',
+    terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
+  };
   const req: FitRequest = { spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: false };
   const costs = { missedCase: 5, falseAlarm: 1 };
 

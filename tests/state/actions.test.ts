@@ -4,15 +4,37 @@ import { initialState, type AppState } from '../../src/state/appState';
 import { createStore } from '../../src/state/store';
 import type { DataSummary, FitView } from '../../src/worker/protocol';
 
-const col = (name: string, kind: 'numeric' | 'categorical', levels: string[] = [], proposedEvent: string | null = null) => ({
-  name, kind, type: kind === 'numeric' ? 'numeric' as const : levels.length === 2 ? 'binary' as const : 'categorical' as const,
-  reason: '', modelling: true, levels, missing: 0, distinct: levels.length, min: null, median: null, max: null, bins: [], proposedEvent,
+const col = (
+  name: string,
+  kind: 'numeric' | 'categorical',
+  levels: string[] = [],
+  proposedEvent: string | null = null,
+) => ({
+  name,
+  kind,
+  type:
+    kind === 'numeric' ? ('numeric' as const) : levels.length === 2 ? ('binary' as const) : ('categorical' as const),
+  reason: '',
+  modelling: true,
+  levels,
+  missing: 0,
+  distinct: levels.length,
+  min: null,
+  median: null,
+  max: null,
+  bins: [],
+  proposedEvent,
 });
 
 const data: DataSummary = {
   source: { kind: 'file', name: 'x.csv', notice: null },
   nRows: 10,
-  columns: [col('age', 'numeric'), col('ward', 'categorical', ['A', 'B', 'C']), col('dm', 'categorical', ['no', 'yes'], 'yes'), col('infected', 'categorical', ['no', 'yes'], 'yes')],
+  columns: [
+    col('age', 'numeric'),
+    col('ward', 'categorical', ['A', 'B', 'C']),
+    col('dm', 'categorical', ['no', 'yes'], 'yes'),
+    col('infected', 'categorical', ['no', 'yes'], 'yes'),
+  ],
   warnings: [{ code: 'ragged', message: 'Row 4 has 3 cells.', suggestion: 'Check row 4.' }],
   suggestedSpec: null,
   truth: null,
@@ -30,10 +52,15 @@ describe('state actions', () => {
   });
 
   it('takes roles and reference levels from a demo’s model', () => {
-    const s = A.dataLoaded(initialState, { ...data, suggestedSpec: { outcome: 'infected', event: 'yes', terms: [{ type: 'main', column: 'ward', reference: 'B' }] } });
+    const s = A.dataLoaded(initialState, {
+      ...data,
+      suggestedSpec: { outcome: 'infected', event: 'yes', terms: [{ type: 'main', column: 'ward', reference: 'B' }] },
+    });
     expect(s.outcome).toBe('infected');
     expect(s.roles.ward).toEqual({ include: true, reference: 'B', knots: 0 });
-    expect(A.buildSpec(s)).toEqual({ spec: { outcome: 'infected', event: 'yes', terms: [{ type: 'main', column: 'ward', reference: 'B' }] } });
+    expect(A.buildSpec(s)).toEqual({
+      spec: { outcome: 'infected', event: 'yes', terms: [{ type: 'main', column: 'ward', reference: 'B' }] },
+    });
   });
 
   it('proposes the event level of a yes/no outcome and never uses the outcome as a predictor', () => {
@@ -55,17 +82,25 @@ describe('state actions', () => {
     s = A.setPredictor(s, { column: 'age', role: { include: true, knots: 4 } });
     s = A.setPredictor(s, { column: 'ward', role: { include: true, reference: 'C' } });
     s = A.toggleInteraction(s, ['age', 'ward']);
-    expect(A.buildSpec(s)).toEqual({ spec: { outcome: 'infected', event: 'yes', terms: [
-      { type: 'spline', column: 'age', knots: 4 },
-      { type: 'main', column: 'ward', reference: 'C' },
-      { type: 'interaction', columns: ['age', 'ward'] },
-    ] } });
+    expect(A.buildSpec(s)).toEqual({
+      spec: {
+        outcome: 'infected',
+        event: 'yes',
+        terms: [
+          { type: 'spline', column: 'age', knots: 4 },
+          { type: 'main', column: 'ward', reference: 'C' },
+          { type: 'interaction', columns: ['age', 'ward'] },
+        ],
+      },
+    });
     expect(A.toggleInteraction(s, ['ward', 'age']).interactions).toEqual([]);
     expect(A.setPredictor(s, { column: 'ward', role: { include: false } }).interactions).toEqual([]);
   });
 
   it('marks the fit stale when a setting changes, and a new fit clears the results of the old one', () => {
-    const fit = { warnings: [{ code: 'few-events', message: 'Few events.', suggestion: 'Use a penalty.' }] } as unknown as FitView;
+    const fit = {
+      warnings: [{ code: 'few-events', message: 'Few events.', suggestion: 'Use a penalty.' }],
+    } as unknown as FitView;
     let s = A.fitDone({ ...loaded(), riskCurve: {} as AppState['riskCurve'], validationStatus: 'done' }, fit);
     expect(s.fitStale).toBe(false);
     expect(s.riskCurve).toBeNull();
@@ -76,7 +111,9 @@ describe('state actions', () => {
   });
 
   it('offers Firth as the one-click remedy for separation', () => {
-    const s = A.withWarnings(initialState, [{ code: 'complete-separation', message: 'ward separates.', suggestion: 'Use Firth.' }]);
+    const s = A.withWarnings(initialState, [
+      { code: 'complete-separation', message: 'ward separates.', suggestion: 'Use Firth.' },
+    ]);
     expect(s.notices[0]).toMatchObject({ kind: 'warning', action: 'use-firth', code: 'complete-separation' });
   });
 

@@ -19,7 +19,9 @@ function harness() {
     latest: (_key, run) => run(api as never).catch(report),
     progress: (fn) => fn,
     transfer: (v) => v,
-    cancel: (id) => { void api.cancel(id); },
+    cancel: (id) => {
+      void api.cancel(id);
+    },
     terminate: () => {},
   };
   const store = createStore();

@@ -31,7 +31,9 @@ function harness() {
     latest: (_key, run) => run(api as never).catch(report),
     progress: (fn) => fn,
     transfer: (v) => v,
-    cancel: (id) => { void api.cancel(id); },
+    cancel: (id) => {
+      void api.cancel(id);
+    },
     terminate: () => {},
   };
   const ctl = createController(store, client);
@@ -43,11 +45,14 @@ function harness() {
 }
 
 /** In-memory stand-in for IndexedDB (structured clone, as IndexedDB stores values); counts writes per key. */
-function memoryBackend(failSet?: unknown): KeyValueBackend & { map: Map<string, unknown>; writes: Map<string, number> } {
+function memoryBackend(
+  failSet?: unknown,
+): KeyValueBackend & { map: Map<string, unknown>; writes: Map<string, number> } {
   const map = new Map<string, unknown>();
   const writes = new Map<string, number>();
   return {
-    map, writes,
+    map,
+    writes,
     get: async (k) => (map.has(k) ? structuredClone(map.get(k)) : undefined),
     set: async (k, v) => {
       if (failSet) throw failSet;
@@ -202,13 +207,27 @@ describe('workspace kept in the browser', () => {
 describe('settings of a saved workspace', () => {
   it('a workspace without Fulcra’s extra record gets its roles, method, cut-off, costs and words from the spec', () => {
     const w = settingsFromWorkspace({
-      fileName: 'audit.csv', data: null, seed: null, threshold: 0.2,
-      spec: { outcome: 'ssi', event: 'yes', terms: [{ type: 'main', column: 'asa', reference: 'I' }, { type: 'spline', column: 'age', knots: 4 }, { type: 'interaction', columns: ['asa', 'age'] }] },
+      fileName: 'audit.csv',
+      data: null,
+      seed: null,
+      threshold: 0.2,
+      spec: {
+        outcome: 'ssi',
+        event: 'yes',
+        terms: [
+          { type: 'main', column: 'asa', reference: 'I' },
+          { type: 'spline', column: 'age', knots: 4 },
+          { type: 'interaction', columns: ['asa', 'age'] },
+        ],
+      },
       fitOptions: { method: 'firth', level: 0.9 },
       costs: { falseNegative: 12, falsePositive: 3 },
       freeText: { purpose: 'audit' },
     });
-    expect(w.roles).toEqual({ asa: { include: true, reference: 'I', knots: 0 }, age: { include: true, reference: null, knots: 4 } });
+    expect(w.roles).toEqual({
+      asa: { include: true, reference: 'I', knots: 0 },
+      age: { include: true, reference: null, knots: 4 },
+    });
     expect(w.interactions).toEqual([['asa', 'age']]);
     expect([w.outcome, w.event, w.method, w.level, w.threshold]).toEqual(['ssi', 'yes', 'firth', 0.9, 0.2]);
     expect(w.costs).toEqual({ missedCase: 12, falseAlarm: 3 });
@@ -217,11 +236,49 @@ describe('settings of a saved workspace', () => {
   });
 
   it('restoring ignores roles and an outcome of columns the data no longer have', () => {
-    const summary = { source: { kind: 'file', name: 'a.csv', notice: null }, nRows: 2, warnings: [], suggestedSpec: null, truth: null, format: null,
-      columns: [{ name: 'age', kind: 'numeric', type: 'numeric', reason: '', modelling: true, levels: [], missing: 0, distinct: 2, min: 1, median: 1.5, max: 2, bins: [], proposedEvent: null }],
+    const summary = {
+      source: { kind: 'file', name: 'a.csv', notice: null },
+      nRows: 2,
+      warnings: [],
+      suggestedSpec: null,
+      truth: null,
+      format: null,
+      columns: [
+        {
+          name: 'age',
+          kind: 'numeric',
+          type: 'numeric',
+          reason: '',
+          modelling: true,
+          levels: [],
+          missing: 0,
+          distinct: 2,
+          min: 1,
+          median: 1.5,
+          max: 2,
+          bins: [],
+          proposedEvent: null,
+        },
+      ],
     } as DataSummary;
-    const settings = { ...settingsFromWorkspace({ fileName: null, data: null, spec: null, fitOptions: {}, seed: null, threshold: null, costs: null, freeText: {} }),
-      outcome: 'gone', roles: { age: { include: true, reference: null, knots: 0 as const }, gone: { include: true, reference: null, knots: 0 as const } }, interactions: [['age', 'gone']] as [string, string][] };
+    const settings = {
+      ...settingsFromWorkspace({
+        fileName: null,
+        data: null,
+        spec: null,
+        fitOptions: {},
+        seed: null,
+        threshold: null,
+        costs: null,
+        freeText: {},
+      }),
+      outcome: 'gone',
+      roles: {
+        age: { include: true, reference: null, knots: 0 as const },
+        gone: { include: true, reference: null, knots: 0 as const },
+      },
+      interactions: [['age', 'gone']] as [string, string][],
+    };
     const s = A.workspaceRestored(createStore().get(), { summary, settings });
     expect(Object.keys(s.roles)).toEqual(['age']);
     expect(s.outcome).toBeNull();

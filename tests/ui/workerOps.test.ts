@@ -16,7 +16,14 @@ import { modelFileText, modelReport, pmmlText } from '../../src/worker/reportOps
 import { readModelFile } from '../../src/io/export/readModelFile';
 
 const demo = generateDemo('ssi');
-const request = (method: FitRequest['method']): FitRequest => ({ spec: demo.spec, method, level: 0.95, alpha: 0.5, lambdaRule: '1se', profile: false });
+const request = (method: FitRequest['method']): FitRequest => ({
+  spec: demo.spec,
+  method,
+  level: 0.95,
+  alpha: 0.5,
+  lambdaRule: '1se',
+  profile: false,
+});
 
 async function fitted(method: FitRequest['method'] = 'ml') {
   const s = createSession();
@@ -39,8 +46,13 @@ describe('worker operations (run in Node, as in the worker)', () => {
     const { s } = await fitted();
     for (const t of [0.02, 0.1, 0.137, 0.5]) {
       const v = thresholdAt(s, t, { missedCase: 10, falseAlarm: 1 });
-      let tp = 0, fp = 0;
-      for (let i = 0; i < s.y!.length; i++) if (s.risk![i] >= t) { if (s.y![i] === 1) tp++; else fp++; }
+      let tp = 0,
+        fp = 0;
+      for (let i = 0; i < s.y!.length; i++)
+        if (s.risk![i] >= t) {
+          if (s.y![i] === 1) tp++;
+          else fp++;
+        }
       expect([v.metrics.tp, v.metrics.fp]).toEqual([tp, fp]);
       const n = s.y!.length;
       expect(v.netBenefit).toBeCloseTo(tp / n - (fp / n) * (t / (1 - t)), 12);
@@ -69,8 +81,12 @@ describe('worker operations (run in Node, as in the worker)', () => {
     const surf = lossSurface(s, 1, 2);
     const G = surf.xs.length;
     const min = surf.values.indexOf(Math.min(...surf.values));
-    const nearest = (axis: number[], v: number) => axis.reduce((best, x, k) => (Math.abs(x - v) < Math.abs(axis[best] - v) ? k : best), 0);
-    expect([min % G, Math.floor(min / G)]).toEqual([nearest(surf.xs, surf.optimum[0]), nearest(surf.ys, surf.optimum[1])]);
+    const nearest = (axis: number[], v: number) =>
+      axis.reduce((best, x, k) => (Math.abs(x - v) < Math.abs(axis[best] - v) ? k : best), 0);
+    expect([min % G, Math.floor(min / G)]).toEqual([
+      nearest(surf.xs, surf.optimum[0]),
+      nearest(surf.ys, surf.optimum[1]),
+    ]);
     const last = surf.path.at(-1)!;
     expect(last[0]).toBeCloseTo(surf.optimum[0], 6);
     expect(last[1]).toBeCloseTo(surf.optimum[1], 6);
@@ -95,7 +111,13 @@ describe('worker operations (run in Node, as in the worker)', () => {
     expect(v.metrics.map((m) => m.name)).toEqual(['auc', 'slope', 'intercept', 'brier']);
     const signal = { aborted: false };
     let seen = 0;
-    const run = validate(s, 200, { signal, onProgress: (d) => { seen = d; if (d === 2) signal.aborted = true; } });
+    const run = validate(s, 200, {
+      signal,
+      onProgress: (d) => {
+        seen = d;
+        if (d === 2) signal.aborted = true;
+      },
+    });
     await expect(run).rejects.toMatchObject({ code: 'cancelled' });
     expect(seen).toBeLessThanOrEqual(3);
   });
@@ -111,13 +133,27 @@ describe('worker operations (run in Node, as in the worker)', () => {
 
   it('imports pasted cells and scores them, skipping a row with a missing predictor', async () => {
     const { s } = await fitted();
-    const text = 'age\tbmi\tdiabetes\tasa_class\twound_class\tduration_min\tprophylaxis\tsmoker\n'
-      + '70\t31\tyes\tIII\tdirty\t200\tnone\tyes\n55\t\tno\tI\tclean\t90\ton time\tno\n';
+    const text =
+      'age\tbmi\tdiabetes\tasa_class\twound_class\tduration_min\tprophylaxis\tsmoker\n' +
+      '70\t31\tyes\tIII\tdirty\t200\tnone\tyes\n55\t\tno\tI\tclean\t90\ton time\tno\n';
     const imported = await readPasted(text, {}, {});
     const batch = scoreImported(s, imported, 0.2);
     expect(batch).toMatchObject({ n: 2, scored: 1, skipped: 1 });
     expect(batch.preview[0].row).toBe(2);
-    const one = scoreOne(s, { age: 70, bmi: 31, diabetes: 'yes', asa_class: 'III', wound_class: 'dirty', duration_min: 200, prophylaxis: 'none', smoker: 'yes' }, 0.2);
+    const one = scoreOne(
+      s,
+      {
+        age: 70,
+        bmi: 31,
+        diabetes: 'yes',
+        asa_class: 'III',
+        wound_class: 'dirty',
+        duration_min: 200,
+        prophylaxis: 'none',
+        smoker: 'yes',
+      },
+      0.2,
+    );
     expect(batch.preview[0].risk).toBeCloseTo(one.risk, 12);
     const summary = loadImported(createSession(), imported, 'paste', 'pasted');
     expect(summary.columns.map((c) => c.name)).toContain('wound_class');
@@ -153,7 +189,17 @@ describe('worker operations (run in Node, as in the worker)', () => {
 describe('memory guard in the worker', () => {
   it('refuses a model whose design would not fit in the memory of a tab, saying so in plain words', async () => {
     const { checkFitBudget } = await import('../../src/worker/budget');
-    const wide = { nRows: 3_000_000, columns: [{ kind: 'numeric' as const, name: 'y', values: new Float64Array(1) }, ...Array.from({ length: 40 }, (_, j) => ({ kind: 'numeric' as const, name: `x${j}`, values: new Float64Array(1) }))] };
+    const wide = {
+      nRows: 3_000_000,
+      columns: [
+        { kind: 'numeric' as const, name: 'y', values: new Float64Array(1) },
+        ...Array.from({ length: 40 }, (_, j) => ({
+          kind: 'numeric' as const,
+          name: `x${j}`,
+          values: new Float64Array(1),
+        })),
+      ],
+    };
     const spec = { outcome: 'y', terms: wide.columns.slice(1).map((c) => ({ type: 'main' as const, column: c.name })) };
     expect(() => checkFitBudget(wide, spec)).toThrow(expect.objectContaining({ code: 'too-big' }));
     const demo = generateDemo('ssi');

@@ -50,7 +50,8 @@ async function main(): Promise<void> {
   readBin(a.xBin, X.subarray(n));
   const y = allocF64(n);
   readBin(a.yBin, y);
-  const seconds: number[] = [], cpuSeconds: number[] = [];
+  const seconds: number[] = [],
+    cpuSeconds: number[] = [];
   let last: ReturnType<typeof newtonLogistic> | undefined;
   for (let r = 0; r < a.repeats; r++) {
     const c0 = process.cpuUsage();
@@ -61,8 +62,14 @@ async function main(): Promise<void> {
     cpuSeconds.push((c.user + c.system) / 1e6);
   }
   const out: FitChildResult = {
-    seconds, cpuSeconds, iterations: last!.iterations, converged: last!.converged, beta: Array.from(last!.beta),
-    maxRssBytes: resourceUsage().maxRSS * 1024, baselineRssBytes, designBytes: n * q * 8,
+    seconds,
+    cpuSeconds,
+    iterations: last!.iterations,
+    converged: last!.converged,
+    beta: Array.from(last!.beta),
+    maxRssBytes: resourceUsage().maxRSS * 1024,
+    baselineRssBytes,
+    designBytes: n * q * 8,
   };
   if (a.polish) {
     const t = newtonLogistic({ X, n, p: q, y, start: last!.beta }, { tol: 1e-300, maxIter: 3 });

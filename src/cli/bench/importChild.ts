@@ -8,10 +8,20 @@ import { importFile } from '../../io';
 
 async function main(): Promise<void> {
   const bytes = new Uint8Array(readFileSync(process.argv[2]));
-  const c0 = process.cpuUsage(), t0 = process.hrtime.bigint();
+  const c0 = process.cpuUsage(),
+    t0 = process.hrtime.bigint();
   const r = await importFile(bytes, 'bench.csv');
-  const seconds = Number(process.hrtime.bigint() - t0) / 1e9, c = process.cpuUsage(c0);
-  process.stdout.write(JSON.stringify({ bytes: bytes.byteLength, seconds, cpuSeconds: (c.user + c.system) / 1e6, nRows: r.dataset.nRows, columns: r.dataset.columns.length }) + '\n');
+  const seconds = Number(process.hrtime.bigint() - t0) / 1e9,
+    c = process.cpuUsage(c0);
+  process.stdout.write(
+    JSON.stringify({
+      bytes: bytes.byteLength,
+      seconds,
+      cpuSeconds: (c.user + c.system) / 1e6,
+      nRows: r.dataset.nRows,
+      columns: r.dataset.columns.length,
+    }) + '\n',
+  );
 }
 
 void main();

@@ -35,7 +35,8 @@ import + fit in the page. Data and results go to bench-out/.
 /** "1e5x50" → {n: 100000, p: 50}. */
 export function parseSize(s: string): { n: number; p: number } {
   const m = /^\s*([0-9.eE+]+)\s*[x×]\s*([0-9]+)\s*$/.exec(s);
-  const n = m ? Number(m[1]) : NaN, p = m ? Number(m[2]) : NaN;
+  const n = m ? Number(m[1]) : NaN,
+    p = m ? Number(m[2]) : NaN;
   if (!m || !Number.isInteger(n) || n < 10 || !Number.isInteger(p) || p < 1) {
     throw new FulcraError('bad-argument', `Size "${s}" is not of the form ROWSxPREDICTORS (e.g. 1e5x50).`);
   }
@@ -43,7 +44,17 @@ export function parseSize(s: string): { n: number; p: number } {
 }
 
 export function parseBenchArgs(argv: string[]): BenchOptions {
-  const o: BenchOptions = { sizes: [], quick: false, json: false, references: true, extras: true, browser: false, out: 'bench-out', seed: 20261202, help: false };
+  const o: BenchOptions = {
+    sizes: [],
+    quick: false,
+    json: false,
+    references: true,
+    extras: true,
+    browser: false,
+    out: 'bench-out',
+    seed: 20261202,
+    help: false,
+  };
   let sizes: string | undefined;
   for (let k = 0; k < argv.length; k++) {
     const a = argv[k];
@@ -62,11 +73,16 @@ export function parseBenchArgs(argv: string[]): BenchOptions {
     else if (a === '--help' || a === '-h') o.help = true;
     else if (a === '--repeats' || a === '--seed') {
       const v = Number(value());
-      if (!Number.isInteger(v) || v < (a === '--repeats' ? 1 : 0)) throw new FulcraError('bad-argument', `${a} must be a whole number, got ${argv[k]}.`);
-      if (a === '--repeats') o.repeats = v; else o.seed = v;
+      if (!Number.isInteger(v) || v < (a === '--repeats' ? 1 : 0))
+        throw new FulcraError('bad-argument', `${a} must be a whole number, got ${argv[k]}.`);
+      if (a === '--repeats') o.repeats = v;
+      else o.seed = v;
     } else throw new FulcraError('bad-argument', `Unknown option "${a}".`, 'Run npm run bench -- --help.');
   }
   const list = sizes ?? (o.quick ? '1e4x10,1e4x50,1e5x10' : '1e4x10,1e4x50,1e5x10,1e5x50,1e6x10,1e6x50');
-  o.sizes = list.split(',').filter((s) => s.trim()).map(parseSize);
+  o.sizes = list
+    .split(',')
+    .filter((s) => s.trim())
+    .map(parseSize);
   return o;
 }

@@ -40,13 +40,21 @@ export const maxRelGap = (b: number[], ref: number[]): number => {
 /** Threads the reference libraries may use: stated in the output; the caller's settings win. */
 export function referenceThreads(): Record<string, string> {
   const cores = String(availableParallelism());
-  return { OPENBLAS_NUM_THREADS: process.env.OPENBLAS_NUM_THREADS ?? cores, OMP_NUM_THREADS: process.env.OMP_NUM_THREADS ?? cores };
+  return {
+    OPENBLAS_NUM_THREADS: process.env.OPENBLAS_NUM_THREADS ?? cores,
+    OMP_NUM_THREADS: process.env.OMP_NUM_THREADS ?? cores,
+  };
 }
 
-export function runJson(cmd: string, args: string[], env?: Record<string, string>): { ok: true; value: any } | { ok: false; error: string } {
+export function runJson(
+  cmd: string,
+  args: string[],
+  env?: Record<string, string>,
+): { ok: true; value: any } | { ok: false; error: string } {
   const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28, env: { ...process.env, ...env } });
   if (r.error) return { ok: false, error: String(r.error.message) };
-  if (r.status !== 0) return { ok: false, error: (r.stderr || r.stdout || `exit ${r.status}`).trim().split('\n').slice(-3).join(' | ') };
+  if (r.status !== 0)
+    return { ok: false, error: (r.stderr || r.stdout || `exit ${r.status}`).trim().split('\n').slice(-3).join(' | ') };
   const line = r.stdout.trim().split('\n').pop() ?? '';
   try {
     return { ok: true, value: JSON.parse(line) };
@@ -56,7 +64,12 @@ export function runJson(cmd: string, args: string[], env?: Record<string, string
 }
 
 /** Times the engine in a child process on `threads` threads (1: no pool). */
-export function fulcraFit(f: SynthFiles, threads: number, repeats: number, polish: boolean): { timing: FitTiming; tight?: number[] } | { error: string } {
+export function fulcraFit(
+  f: SynthFiles,
+  threads: number,
+  repeats: number,
+  polish: boolean,
+): { timing: FitTiming; tight?: number[] } | { error: string } {
   const args: FitChildArgs = { xBin: f.xBin, yBin: f.yBin, n: f.n, p: f.p, tol: 1e-10, repeats, polish, threads };
   const r = runJson(process.execPath, ['--import', 'tsx', join(here, 'fitChild.ts'), JSON.stringify(args)]);
   if (!r.ok) return { error: r.error };
@@ -65,33 +78,76 @@ export function fulcraFit(f: SynthFiles, threads: number, repeats: number, polis
     timing: {
       who: threads === 1 ? ONE_THREAD : 'Fulcra engine',
       library: `Fulcra newtonLogistic (src/engine/fitting/newton.ts, tol 1e-10), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`}`,
-      seconds: v.seconds, cpuSeconds: v.cpuSeconds,
-      median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, maxRssBytes: v.maxRssBytes,
+      seconds: v.seconds,
+      cpuSeconds: v.cpuSeconds,
+      median: median(v.seconds),
+      iterations: v.iterations,
+      beta: v.beta,
+      gap: null,
+      maxRssBytes: v.maxRssBytes,
       addedRssBytes: v.maxRssBytes - v.baselineRssBytes,
-      notes: [v.converged ? '' : 'not converged', `${threads} thread${threads === 1 ? '' : 's'}; peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`].filter(Boolean),
+      notes: [
+        v.converged ? '' : 'not converged',
+        `${threads} thread${threads === 1 ? '' : 's'}; peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`,
+      ].filter(Boolean),
     },
     tight: v.tight,
   };
 }
 
-export function sklearnFit(f: SynthFiles, solver: 'newton-cholesky' | 'lbfgs', repeats: number): FitTiming | { error: string } {
+export function sklearnFit(
+  f: SynthFiles,
+  solver: 'newton-cholesky' | 'lbfgs',
+  repeats: number,
+): FitTiming | { error: string } {
   const py = '/usr/bin/python3';
   if (!existsSync(py)) return { error: `${py} not found` };
-  const r = runJson(py, [join(here, 'reference', 'sklearn_fit.py'), f.xBin, f.yBin, String(f.n), String(f.p), solver, '1e-10', String(repeats)], referenceThreads());
+  const r = runJson(
+    py,
+    [
+      join(here, 'reference', 'sklearn_fit.py'),
+      f.xBin,
+      f.yBin,
+      String(f.n),
+      String(f.p),
+      solver,
+      '1e-10',
+      String(repeats),
+    ],
+    referenceThreads(),
+  );
   if (!r.ok) return { error: r.error };
   const v = r.value;
   return {
-    who: `sklearn ${solver}`, library: `${v.library}; BLAS ${v.threads.join(', ')}`, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
-    median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, notes: v.warnings,
+    who: `sklearn ${solver}`,
+    library: `${v.library}; BLAS ${v.threads.join(', ')}`,
+    seconds: v.seconds,
+    cpuSeconds: v.cpuSeconds,
+    median: median(v.seconds),
+    iterations: v.iterations,
+    beta: v.beta,
+    gap: null,
+    notes: v.warnings,
   };
 }
 
 export function glmFit(f: SynthFiles, repeats: number): FitTiming | { error: string } {
-  const r = runJson('Rscript', [join(here, 'reference', 'glm_fit.R'), f.xBin, f.yBin, String(f.n), String(f.p), '1e-10', String(repeats)], referenceThreads());
+  const r = runJson(
+    'Rscript',
+    [join(here, 'reference', 'glm_fit.R'), f.xBin, f.yBin, String(f.n), String(f.p), '1e-10', String(repeats)],
+    referenceThreads(),
+  );
   if (!r.ok) return { error: r.error };
   const v = r.value;
   return {
-    who: 'R glm.fit', library: `${v.library} (LINPACK QR, no multithreaded BLAS in the IRLS loop)`, seconds: v.seconds, cpuSeconds: v.cpuSeconds,
-    median: median(v.seconds), iterations: v.iterations, beta: v.beta, gap: null, notes: v.converged ? [] : ['not converged'],
+    who: 'R glm.fit',
+    library: `${v.library} (LINPACK QR, no multithreaded BLAS in the IRLS loop)`,
+    seconds: v.seconds,
+    cpuSeconds: v.cpuSeconds,
+    median: median(v.seconds),
+    iterations: v.iterations,
+    beta: v.beta,
+    gap: null,
+    notes: v.converged ? [] : ['not converged'],
   };
 }

@@ -1,4 +1,14 @@
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, writeFileSync, writeSync } from 'node:fs';
+import {
+  closeSync,
+  existsSync,
+  mkdirSync,
+  openSync,
+  readFileSync,
+  readSync,
+  renameSync,
+  writeFileSync,
+  writeSync,
+} from 'node:fs';
 import { join } from 'node:path';
 import { createRng } from '../../engine/numerics';
 
@@ -37,13 +47,18 @@ export function trueCoefficients(p: number): Float64Array {
  * Seeded synthetic data: predictors N(0, 1) rounded to 4 decimals (so CSV text round-trips exactly and every
  * reader sees the same doubles), y ~ Bernoulli(logistic(Xβ)). Returns column-major predictors without intercept.
  */
-export function synthesise(n: number, p: number, seed: number): { X: Float64Array; y: Float64Array; beta: Float64Array } {
+export function synthesise(
+  n: number,
+  p: number,
+  seed: number,
+): { X: Float64Array; y: Float64Array; beta: Float64Array } {
   const rng = createRng(seed);
   const beta = trueCoefficients(p);
   const X = new Float64Array(n * p);
   const eta = new Float64Array(n).fill(beta[0]);
   for (let j = 0; j < p; j++) {
-    const o = j * n, b = beta[j + 1];
+    const o = j * n,
+      b = beta[j + 1];
     for (let i = 0; i < n; i++) {
       const v = Math.round(rng.normal() * 1e4) / 1e4;
       X[o + i] = v;
@@ -133,8 +148,15 @@ export function ensureSynth(dir: string, n: number, p: number, seed: number): Sy
   let ev = 0;
   for (let i = 0; i < n; i++) ev += y[i];
   const files: SynthFiles = {
-    n, p, seed, csv: `${base}.csv`, xBin: `${base}.x.f64`, yBin: `${base}.y.f64`,
-    trueBeta: Array.from(beta), csvBytes, eventRate: ev / n,
+    n,
+    p,
+    seed,
+    csv: `${base}.csv`,
+    xBin: `${base}.x.f64`,
+    yBin: `${base}.y.f64`,
+    trueBeta: Array.from(beta),
+    csvBytes,
+    eventRate: ev / n,
   };
   writeFileSync(`${meta}.tmp`, JSON.stringify(files, null, 1));
   renameSync(`${meta}.tmp`, meta);

@@ -1,6 +1,15 @@
 import { FulcraError } from '../core/data';
 import { createRng } from '../numerics/rng';
-import { bernoulliLogit, categorical, clamp, drawLevel, numeric, round, type DemoScenario, type TrueCoefficient } from './shared';
+import {
+  bernoulliLogit,
+  categorical,
+  clamp,
+  drawLevel,
+  numeric,
+  round,
+  type DemoScenario,
+  type TrueCoefficient,
+} from './shared';
 
 const LOTS = ['F-231', 'F-232', 'F-233', 'F-234'];
 const LINES = ['A', 'B', 'C'];
@@ -20,18 +29,23 @@ export const sealTruth: TrueCoefficient[] = [
   { column: 'humidity_pct', value: 0.03 },
 ];
 
-const coef = (column: string, level?: string) =>
-  sealTruth.find((t) => t.column === column && t.level === level)!.value;
+const coef = (column: string, level?: string) => sealTruth.find((t) => t.column === column && t.level === level)!.value;
 
 /**
  * INVENTED seal-failure log of a fictional packaging plant: n seals drawn from a logistic model with the
  * known coefficients `sealTruth` (outcome `seal_failed`, event "yes"). No missing values.
  */
 export function generateSealLog(n = 5000, seed = 20240612): DemoScenario {
-  if (!Number.isInteger(n) || n < 10) throw new FulcraError('bad-demo-size', `Demo size must be an integer ≥ 10, got ${n}.`);
+  if (!Number.isInteger(n) || n < 10)
+    throw new FulcraError('bad-demo-size', `Demo size must be an integer ≥ 10, got ${n}.`);
   const rng = createRng(seed);
-  const temp = new Float64Array(n), dwell = new Float64Array(n), press = new Float64Array(n), hum = new Float64Array(n);
-  const lot = new Int32Array(n), line = new Int32Array(n), failed = new Int32Array(n);
+  const temp = new Float64Array(n),
+    dwell = new Float64Array(n),
+    press = new Float64Array(n),
+    hum = new Float64Array(n);
+  const lot = new Int32Array(n),
+    line = new Int32Array(n),
+    failed = new Int32Array(n);
   for (let i = 0; i < n; i++) {
     temp[i] = round(180 + 6 * rng.normal(), 1);
     dwell[i] = round(clamp(1.2 + 0.25 * rng.normal(), 0.4, 2.5), 2);
@@ -39,9 +53,14 @@ export function generateSealLog(n = 5000, seed = 20240612): DemoScenario {
     lot[i] = drawLevel(rng, [0.3, 0.3, 0.2, 0.2]);
     line[i] = drawLevel(rng, [0.4, 0.35, 0.25]);
     hum[i] = round(clamp(45 + 10 * rng.normal(), 15, 90), 0);
-    const eta = sealTruth[0].value + coef('seal_temp_c') * temp[i] + coef('dwell_s') * dwell[i]
-      + coef('pressure_bar') * press[i] + (lot[i] > 0 ? coef('film_lot', LOTS[lot[i]]) : 0)
-      + (line[i] > 0 ? coef('line', LINES[line[i]]) : 0) + coef('humidity_pct') * hum[i];
+    const eta =
+      sealTruth[0].value +
+      coef('seal_temp_c') * temp[i] +
+      coef('dwell_s') * dwell[i] +
+      coef('pressure_bar') * press[i] +
+      (lot[i] > 0 ? coef('film_lot', LOTS[lot[i]]) : 0) +
+      (line[i] > 0 ? coef('line', LINES[line[i]]) : 0) +
+      coef('humidity_pct') * hum[i];
     failed[i] = bernoulliLogit(rng, eta) ? 1 : 0;
   }
   return {
@@ -53,8 +72,12 @@ export function generateSealLog(n = 5000, seed = 20240612): DemoScenario {
     dataset: {
       nRows: n,
       columns: [
-        numeric('seal_temp_c', temp), numeric('dwell_s', dwell), numeric('pressure_bar', press),
-        categorical('film_lot', LOTS, lot), categorical('line', LINES, line), numeric('humidity_pct', hum),
+        numeric('seal_temp_c', temp),
+        numeric('dwell_s', dwell),
+        numeric('pressure_bar', press),
+        categorical('film_lot', LOTS, lot),
+        categorical('line', LINES, line),
+        numeric('humidity_pct', hum),
         categorical('seal_failed', NO_YES, failed),
       ],
     },

@@ -1,8 +1,15 @@
 import { FulcraError } from '../core/data';
 import { createRng } from '../numerics/rng';
 import {
-  bernoulliLogit, categorical, clamp, drawLevel, numeric, punchMissing, round,
-  type DemoScenario, type TrueCoefficient,
+  bernoulliLogit,
+  categorical,
+  clamp,
+  drawLevel,
+  numeric,
+  punchMissing,
+  round,
+  type DemoScenario,
+  type TrueCoefficient,
 } from './shared';
 
 const ASA = ['I', 'II', 'III', 'IV'];
@@ -28,8 +35,7 @@ export const ssiTruth: TrueCoefficient[] = [
   { column: 'smoker', level: 'yes', value: 0.45 },
 ];
 
-const coef = (column: string, level?: string) =>
-  ssiTruth.find((t) => t.column === column && t.level === level)!.value;
+const coef = (column: string, level?: string) => ssiTruth.find((t) => t.column === column && t.level === level)!.value;
 
 /**
  * INVENTED surgical-site-infection registry of "Northfield General Hospital (fictional)": n operations
@@ -37,11 +43,18 @@ const coef = (column: string, level?: string) =>
  * about 2% of BMI, 1% of duration and 1% of smoker cells are then removed completely at random.
  */
 export function generateSsiRegistry(n = 2000, seed = 20240611): DemoScenario {
-  if (!Number.isInteger(n) || n < 10) throw new FulcraError('bad-demo-size', `Demo size must be an integer ≥ 10, got ${n}.`);
+  if (!Number.isInteger(n) || n < 10)
+    throw new FulcraError('bad-demo-size', `Demo size must be an integer ≥ 10, got ${n}.`);
   const rng = createRng(seed);
-  const age = new Float64Array(n), bmi = new Float64Array(n), dur = new Float64Array(n);
-  const diab = new Int32Array(n), asa = new Int32Array(n), wound = new Int32Array(n);
-  const timing = new Int32Array(n), smoker = new Int32Array(n), ssi = new Int32Array(n);
+  const age = new Float64Array(n),
+    bmi = new Float64Array(n),
+    dur = new Float64Array(n);
+  const diab = new Int32Array(n),
+    asa = new Int32Array(n),
+    wound = new Int32Array(n);
+  const timing = new Int32Array(n),
+    smoker = new Int32Array(n),
+    ssi = new Int32Array(n);
   for (let i = 0; i < n; i++) {
     age[i] = Math.round(clamp(60 + 14 * rng.normal(), 18, 95));
     bmi[i] = round(clamp(28 + 5 * rng.normal(), 16, 55), 1);
@@ -51,16 +64,20 @@ export function generateSsiRegistry(n = 2000, seed = 20240611): DemoScenario {
     dur[i] = Math.round(clamp(120 * Math.exp(0.45 * rng.normal()), 20, 600));
     timing[i] = drawLevel(rng, [0.8, 0.12, 0.08]);
     smoker[i] = rng.next() < 0.2 ? 1 : 0;
-    const eta = ssiTruth[0].value + coef('age') * age[i] + coef('bmi') * bmi[i]
-      + (diab[i] ? coef('diabetes', 'yes') : 0)
-      + (asa[i] > 0 ? coef('asa_class', ASA[asa[i]]) : 0)
-      + (wound[i] > 0 ? coef('wound_class', WOUND[wound[i]]) : 0)
-      + coef('duration_min') * dur[i]
-      + (timing[i] > 0 ? coef('prophylaxis', TIMING[timing[i]]) : 0)
-      + (smoker[i] ? coef('smoker', 'yes') : 0);
+    const eta =
+      ssiTruth[0].value +
+      coef('age') * age[i] +
+      coef('bmi') * bmi[i] +
+      (diab[i] ? coef('diabetes', 'yes') : 0) +
+      (asa[i] > 0 ? coef('asa_class', ASA[asa[i]]) : 0) +
+      (wound[i] > 0 ? coef('wound_class', WOUND[wound[i]]) : 0) +
+      coef('duration_min') * dur[i] +
+      (timing[i] > 0 ? coef('prophylaxis', TIMING[timing[i]]) : 0) +
+      (smoker[i] ? coef('smoker', 'yes') : 0);
     ssi[i] = bernoulliLogit(rng, eta) ? 1 : 0;
   }
-  const bmiCol = numeric('bmi', bmi), durCol = numeric('duration_min', dur);
+  const bmiCol = numeric('bmi', bmi),
+    durCol = numeric('duration_min', dur);
   const smokerCol = categorical('smoker', YESNO, smoker);
   punchMissing(rng, bmiCol, 0.02);
   punchMissing(rng, durCol, 0.01);
@@ -74,8 +91,14 @@ export function generateSsiRegistry(n = 2000, seed = 20240611): DemoScenario {
     dataset: {
       nRows: n,
       columns: [
-        numeric('age', age), bmiCol, categorical('diabetes', YESNO, diab), categorical('asa_class', ASA, asa),
-        categorical('wound_class', WOUND, wound), durCol, categorical('prophylaxis', TIMING, timing), smokerCol,
+        numeric('age', age),
+        bmiCol,
+        categorical('diabetes', YESNO, diab),
+        categorical('asa_class', ASA, asa),
+        categorical('wound_class', WOUND, wound),
+        durCol,
+        categorical('prophylaxis', TIMING, timing),
+        smokerCol,
         categorical('ssi_30d', YESNO, ssi),
       ],
     },

@@ -15,7 +15,12 @@ export interface Aliasing {
  * naming the columns it duplicates (or saying it is constant).
  */
 export function findAliased(
-  X: Float64Array, n: number, p: number, names: string[], terms: string[], tol = 1e-9,
+  X: Float64Array,
+  n: number,
+  p: number,
+  names: string[],
+  terms: string[],
+  tol = 1e-9,
 ): Aliasing {
   const w = new Float64Array(n).fill(1);
   const xtx = crossProductWeighted(X, n, p, w, new Float64Array(p * p), new Float64Array(n));
@@ -27,7 +32,14 @@ export function findAliased(
     let constant = true;
     for (let i = 1; i < n && constant; i++) if (X[j * n + i] !== X[j * n]) constant = false;
     if (constant && j > 0) {
-      warnings.push(warning('aliased', `"${names[j]}" has the same value in every row used, so its effect cannot be estimated; it was left out.`, 'Remove it from the model.', [terms[j]]));
+      warnings.push(
+        warning(
+          'aliased',
+          `"${names[j]}" has the same value in every row used, so its effect cannot be estimated; it was left out.`,
+          'Remove it from the model.',
+          [terms[j]],
+        ),
+      );
       continue;
     }
     // Regression of column j on the earlier kept columns: the non-zero coefficients name what it duplicates.
@@ -37,8 +49,18 @@ export function findAliased(
     const scale = Math.max(...Array.from(b, Math.abs), 0);
     const parts = [];
     for (let k = 0; k < j; k++) if (!aliased[k] && Math.abs(b[k]) > 1e-6 * scale) parts.push(names[k]);
-    const what = parts.length === 1 ? `a copy of "${parts[0]}"` : `a linear combination of ${parts.map((s) => `"${s}"`).join(', ')}`;
-    warnings.push(warning('aliased', `"${names[j]}" is ${what} (up to scale and shift), so its effect cannot be told apart; it was left out.`, 'Remove one of the duplicated predictors.', [...new Set([terms[j], ...parts.map((s) => terms[names.indexOf(s)])])]));
+    const what =
+      parts.length === 1
+        ? `a copy of "${parts[0]}"`
+        : `a linear combination of ${parts.map((s) => `"${s}"`).join(', ')}`;
+    warnings.push(
+      warning(
+        'aliased',
+        `"${names[j]}" is ${what} (up to scale and shift), so its effect cannot be told apart; it was left out.`,
+        'Remove one of the duplicated predictors.',
+        [...new Set([terms[j], ...parts.map((s) => terms[names.indexOf(s)])])],
+      ),
+    );
   }
   return { aliased, warnings };
 }

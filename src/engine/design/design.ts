@@ -52,15 +52,20 @@ function numericGetter(col: Column): Getter {
   if (col.kind === 'numeric') return (r) => col.values[r];
   const parsed = col.levels.map(parseDecimal);
   const bad = col.levels.findIndex((_, i) => Number.isNaN(parsed[i]));
-  if (bad >= 0) throw new FulcraError('not-numeric', `Column "${col.name}" must be numeric but has the value "${col.levels[bad]}".`);
+  if (bad >= 0)
+    throw new FulcraError(
+      'not-numeric',
+      `Column "${col.name}" must be numeric but has the value "${col.levels[bad]}".`,
+    );
   return (r) => (col.codes[r] < 0 ? NaN : parsed[col.codes[r]]);
 }
 
 /** 1 where the column's value is missing, for every row of the dataset. */
 function missingMask(col: Column): Uint8Array {
   const m = new Uint8Array(col.kind === 'numeric' ? col.values.length : col.codes.length);
-  if (col.kind === 'numeric') { for (let r = 0; r < m.length; r++) if (Number.isNaN(col.values[r])) m[r] = 1; }
-  else for (let r = 0; r < m.length; r++) if (col.codes[r] < 0) m[r] = 1;
+  if (col.kind === 'numeric') {
+    for (let r = 0; r < m.length; r++) if (Number.isNaN(col.values[r])) m[r] = 1;
+  } else for (let r = 0; r < m.length; r++) if (col.codes[r] < 0) m[r] = 1;
   return m;
 }
 
@@ -74,7 +79,11 @@ function levelGetter(col: Column): (row: number) => string | null {
 function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; levels?: string[]; reference?: string } {
   const t = recipe.terms.find((u) => u.type !== 'interaction' && u.column === part);
   if (t && t.type === 'categorical') {
-    return { names: t.levels.filter((l) => l !== t.reference).map((l) => `${part}=${l}`), levels: t.levels, reference: t.reference };
+    return {
+      names: t.levels.filter((l) => l !== t.reference).map((l) => `${part}=${l}`),
+      levels: t.levels,
+      reference: t.reference,
+    };
   }
   return { names: [part] };
 }
@@ -86,7 +95,9 @@ function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; le
  * when its column exists, unless `outcome: 'ignore'` (scoring).
  */
 export function designFromRecipe(
-  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
+  recipe: DesignRecipe,
+  data: Dataset,
+  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
 ): EncodedDesign {
   return encodeRecipe(recipe, data, opts, null);
 }
@@ -100,19 +111,31 @@ export type LinearPredictorRows = Omit<EncodedDesign, 'X' | 'p'> & { eta: Float6
  * η is bit-for-bit scoreDesign(model, designFromRecipe(recipe, data).X, n). Same rows, errors and messages.
  */
 export function linearPredictorFromRecipe(
-  recipe: DesignRecipe, beta: ArrayLike<number>, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
+  recipe: DesignRecipe,
+  beta: ArrayLike<number>,
+  data: Dataset,
+  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
 ): LinearPredictorRows {
   return encodeRecipe(recipe, data, opts, beta);
 }
 
 function encodeRecipe(
-  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: null,
+  recipe: DesignRecipe,
+  data: Dataset,
+  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
+  beta: null,
 ): EncodedDesign;
 function encodeRecipe(
-  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number>,
+  recipe: DesignRecipe,
+  data: Dataset,
+  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
+  beta: ArrayLike<number>,
 ): LinearPredictorRows;
 function encodeRecipe(
-  recipe: DesignRecipe, data: Dataset, opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' }, beta: ArrayLike<number> | null,
+  recipe: DesignRecipe,
+  data: Dataset,
+  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
+  beta: ArrayLike<number> | null,
 ): EncodedDesign | LinearPredictorRows {
   const { rows, outcome = 'if-present' } = opts;
   const used = new Set<string>();
@@ -133,7 +156,13 @@ function encodeRecipe(
   for (const c of checked) {
     const m = missingMask(c);
     let k = 0;
-    for (let i = 0; i < candidate.length; i++) { const r = candidate[i]; if (m[r]) { k++; anyMissing[r] = 1; } }
+    for (let i = 0; i < candidate.length; i++) {
+      const r = candidate[i];
+      if (m[r]) {
+        k++;
+        anyMissing[r] = 1;
+      }
+    }
     if (k > 0) droppedByColumn[c.name] = (droppedByColumn[c.name] ?? 0) + k;
   }
   let n = 0;
@@ -151,7 +180,10 @@ function encodeRecipe(
   };
   const p = 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
   if (beta && beta.length !== p) {
-    throw new FulcraError('recipe-mismatch', `The data give ${p} design columns but the model has ${beta.length} coefficients.`);
+    throw new FulcraError(
+      'recipe-mismatch',
+      `The data give ${p} design columns but the model has ${beta.length} coefficients.`,
+    );
   }
   // Design: X in shared memory while a row pool is installed, so that its threads can read it. Linear predictor:
   // no X; each term's columns are scratch columns, reused once added to η.
@@ -186,7 +218,11 @@ function encodeRecipe(
 
   const blocks: { name: string; term: string; values: Float64Array }[] = [];
   const termColumns: { name: string; columns: number[] }[] = [];
-  const encodeMain = (t: RecipeTerm, part: string | undefined, alloc: () => Float64Array): { name: string; values: Float64Array }[] => {
+  const encodeMain = (
+    t: RecipeTerm,
+    part: string | undefined,
+    alloc: () => Float64Array,
+  ): { name: string; values: Float64Array }[] => {
     const column = part ?? (t as { column: string }).column;
     const col = cols.get(column)!;
     const enc = part ? partEncoding(recipe, part) : null;
@@ -215,8 +251,10 @@ function encodeRecipe(
       return out;
     }
     const x = alloc();
-    if (col.kind === 'numeric') { const v = col.values; for (let i = 0; i < n; i++) x[i] = v[rowsUsed[i]]; }
-    else {
+    if (col.kind === 'numeric') {
+      const v = col.values;
+      for (let i = 0; i < n; i++) x[i] = v[rowsUsed[i]];
+    } else {
       const get = numericGetter(col);
       for (let i = 0; i < n; i++) x[i] = get(rowsUsed[i]);
     }
@@ -237,7 +275,8 @@ function encodeRecipe(
   for (const t of recipe.terms) {
     let cs: { name: string; values: Float64Array }[];
     if (t.type === 'interaction') {
-      const a = encodeMain(t, t.parts[0], scratchColumn), b = encodeMain(t, t.parts[1], scratchColumn);
+      const a = encodeMain(t, t.parts[0], scratchColumn),
+        b = encodeMain(t, t.parts[1], scratchColumn);
       cs = [];
       for (const ca of a) {
         for (const cb of b) {
@@ -252,14 +291,16 @@ function encodeRecipe(
     termColumns.push({ name: t.name, columns: cs.map((_, k) => blocks.length + 1 + k) });
     for (const c of cs) {
       checkFinite(c.name, t.name, c.values);
-      const j = blocks.length + 1, bj = beta ? beta[j] : 0;
+      const j = blocks.length + 1,
+        bj = beta ? beta[j] : 0;
       if (bj !== 0) for (let i = 0; i < n; i++) eta![i] += bj * c.values[i];
       blocks.push({ name: c.name, term: t.name, values: c.values });
     }
     if (beta) spare.push(...cs.map((c) => c.values));
   }
 
-  if (nextColumn !== p) throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
+  if (nextColumn !== p)
+    throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
   if (overflow) throw overflow;
 
   let y: Float64Array | null = null;
@@ -274,13 +315,20 @@ function encodeRecipe(
       for (let i = 0; i < n; i++) {
         const v = outcomeCol.values[rowsUsed[i]];
         if (v !== 0 && v !== 1) {
-          throw new FulcraError('outcome-not-binary', `Row ${rowsUsed[i] + 1}: the outcome "${recipe.outcome}" is ${v}; a numeric outcome must be 0 or 1.`);
+          throw new FulcraError(
+            'outcome-not-binary',
+            `Row ${rowsUsed[i] + 1}: the outcome "${recipe.outcome}" is ${v}; a numeric outcome must be 0 or 1.`,
+          );
         }
       }
     }
   }
   const common = {
-    n, y, rowsUsed, nDropped: candidate.length - n, droppedByColumn,
+    n,
+    y,
+    rowsUsed,
+    nDropped: candidate.length - n,
+    droppedByColumn,
     columnNames: [INTERCEPT, ...blocks.map((b) => b.name)],
     columnTerms: [INTERCEPT, ...blocks.map((b) => b.term)],
     termColumns,
@@ -300,7 +348,9 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
   if (col.kind === 'categorical') {
     const byCode = new Array<number>(col.levels.length).fill(0);
     for (const r of rows) byCode[col.codes[r]]++;
-    col.levels.forEach((l, k) => { if (byCode[k] > 0) counts.set(l, byCode[k]); });
+    col.levels.forEach((l, k) => {
+      if (byCode[k] > 0) counts.set(l, byCode[k]);
+    });
   } else {
     const byValue = new Map<number, number>();
     for (const r of rows) byValue.set(col.values[r], (byValue.get(col.values[r]) ?? 0) + 1);
@@ -310,24 +360,46 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
   if (col.kind === 'numeric') {
     const bad = seen.find((v) => v !== '0' && v !== '1');
     if (bad !== undefined) {
-      throw new FulcraError('outcome-not-binary', `The outcome "${col.name}" has the value ${bad}; a numeric outcome must be 0 or 1.`, 'Choose a 0/1 column or a categorical column with an event level.');
+      throw new FulcraError(
+        'outcome-not-binary',
+        `The outcome "${col.name}" has the value ${bad}; a numeric outcome must be 0 or 1.`,
+        'Choose a 0/1 column or a categorical column with an event level.',
+      );
     }
     const ev = event ?? '1';
-    if (ev !== '0' && ev !== '1') throw new FulcraError('unknown-event-level', `The event level "${ev}" is not 0 or 1 for the numeric outcome "${col.name}".`);
+    if (ev !== '0' && ev !== '1')
+      throw new FulcraError(
+        'unknown-event-level',
+        `The event level "${ev}" is not 0 or 1 for the numeric outcome "${col.name}".`,
+      );
     return ev;
   }
   if (event !== undefined) {
     if (!col.levels.includes(event)) {
-      throw new FulcraError('unknown-event-level', `The outcome "${col.name}" has no level "${event}" (levels: ${col.levels.join(', ')}).`);
+      throw new FulcraError(
+        'unknown-event-level',
+        `The outcome "${col.name}" has no level "${event}" (levels: ${col.levels.join(', ')}).`,
+      );
     }
     return event;
   }
   const ordered = col.levels.filter((l) => counts.has(l));
   if (ordered.length > 2) {
-    throw new FulcraError('event-level-needed', `The outcome "${col.name}" has ${ordered.length} values (${ordered.join(', ')}); say which one is the event.`, 'Choose the event level; every other value counts as a non-event.');
+    throw new FulcraError(
+      'event-level-needed',
+      `The outcome "${col.name}" has ${ordered.length} values (${ordered.join(', ')}); say which one is the event.`,
+      'Choose the event level; every other value counts as a non-event.',
+    );
   }
   if (ordered.length === 2) {
-    warnings.push(warning('event-level-assumed', `No event level was given for "${col.name}"; "${ordered[1]}" is counted as the event and "${ordered[0]}" as the non-event.`, 'Set the event level explicitly if this is the wrong way round.', [col.name]));
+    warnings.push(
+      warning(
+        'event-level-assumed',
+        `No event level was given for "${col.name}"; "${ordered[1]}" is counted as the event and "${ordered[0]}" as the non-event.`,
+        'Set the event level explicitly if this is the wrong way round.',
+        [col.name],
+      ),
+    );
     return ordered[1];
   }
   return ordered[0] ?? '1';
@@ -350,7 +422,8 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     names.add(nm);
     const cs = t.type === 'interaction' ? t.columns : [t.column];
     for (const c of cs) {
-      if (c === spec.outcome) throw new FulcraError('outcome-as-predictor', `The outcome "${c}" cannot also be a predictor.`);
+      if (c === spec.outcome)
+        throw new FulcraError('outcome-as-predictor', `The outcome "${c}" cannot also be a predictor.`);
       getColumn(data, c);
       usedCols.add(c);
     }
@@ -364,7 +437,10 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     miss.sort((a, b) => b.k - a.k);
     throw new FulcraError(
       'no-complete-rows',
-      `No row has a value in every column used (most missing: ${miss.slice(0, 3).map((m) => `"${m.c}" ${m.k}`).join(', ')}).`,
+      `No row has a value in every column used (most missing: ${miss
+        .slice(0, 3)
+        .map((m) => `"${m.c}" ${m.k}`)
+        .join(', ')}).`,
       'Remove the predictors with the most missing values or fill them in.',
     );
   }
@@ -378,7 +454,11 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
         const pc = getColumn(data, part);
         const hasMain = spec.terms.some((u) => u.type === 'main' && u.column === part);
         if (pc.kind === 'categorical' && !hasMain) {
-          throw new FulcraError('interaction-needs-main-effect', `The interaction "${name}" uses the categorical column "${part}", which is not in the model on its own.`, `Add "${part}" as a main term.`);
+          throw new FulcraError(
+            'interaction-needs-main-effect',
+            `The interaction "${name}" uses the categorical column "${part}", which is not in the model on its own.`,
+            `Add "${part}" as a main term.`,
+          );
         }
       }
       recipeTerms.push({ type: 'interaction', name, parts: [t.columns[0], t.columns[1]] });
@@ -387,7 +467,16 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     const col = getColumn(data, t.column);
     if (t.type === 'spline') {
       const get = numericGetter(col);
-      recipeTerms.push({ type: 'spline', name, column: t.column, knots: rcsKnots(rows.map((r) => get(r)), t.knots, t.column) });
+      recipeTerms.push({
+        type: 'spline',
+        name,
+        column: t.column,
+        knots: rcsKnots(
+          rows.map((r) => get(r)),
+          t.knots,
+          t.column,
+        ),
+      });
       continue;
     }
     if (col.kind === 'numeric') {
@@ -400,12 +489,27 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     let reference = t.reference;
     if (reference === undefined) {
       let best = -1;
-      col.levels.forEach((l, k) => { if (counts[k] > best) { best = counts[k]; reference = l; } });
+      col.levels.forEach((l, k) => {
+        if (counts[k] > best) {
+          best = counts[k];
+          reference = l;
+        }
+      });
     } else if (!levels.includes(reference)) {
-      throw new FulcraError('unknown-reference', `The reference level "${reference}" does not occur in column "${t.column}" (levels: ${levels.join(', ')}).`);
+      throw new FulcraError(
+        'unknown-reference',
+        `The reference level "${reference}" does not occur in column "${t.column}" (levels: ${levels.join(', ')}).`,
+      );
     }
     if (levels.length < 2) {
-      warnings.push(warning('constant-predictor', `"${t.column}" has the single value "${levels[0]}" in every row used, so it cannot be estimated.`, 'Remove it from the model.', [name]));
+      warnings.push(
+        warning(
+          'constant-predictor',
+          `"${t.column}" has the single value "${levels[0]}" in every row used, so it cannot be estimated.`,
+          'Remove it from the model.',
+          [name],
+        ),
+      );
     }
     recipeTerms.push({ type: 'categorical', name, column: t.column, levels, reference: reference! });
   }
@@ -413,8 +517,17 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
   const enc = designFromRecipe(recipe, data);
   recipe.columnNames = enc.columnNames;
   if (enc.nDropped > 0) {
-    const parts = Object.entries(enc.droppedByColumn).map(([c, k]) => `"${c}" ${k}`).join(', ');
-    warnings.push(warning('rows-dropped', `${enc.nDropped} of ${data.nRows} rows were left out because of missing values (${parts}).`, 'Check whether the missing values are related to the outcome; if so, consider imputation.', Object.keys(enc.droppedByColumn)));
+    const parts = Object.entries(enc.droppedByColumn)
+      .map(([c, k]) => `"${c}" ${k}`)
+      .join(', ');
+    warnings.push(
+      warning(
+        'rows-dropped',
+        `${enc.nDropped} of ${data.nRows} rows were left out because of missing values (${parts}).`,
+        'Check whether the missing values are related to the outcome; if so, consider imputation.',
+        Object.keys(enc.droppedByColumn),
+      ),
+    );
   }
   return { ...enc, y: enc.y!, recipe, warnings };
 }

@@ -20,8 +20,11 @@ export function quantileSorted(sorted: ArrayLike<number>, q: number): number {
  * Throws a FulcraError naming `column` when fewer than `k` distinct knots result (too few distinct values).
  */
 export function rcsKnots(values: ArrayLike<number>, k: 3 | 4 | 5, column: string): number[] {
-  const finite = Array.from(values).filter((v) => Number.isFinite(v)).sort((a, b) => a - b);
-  if (finite.length === 0) throw new FulcraError('spline-no-data', `Column "${column}" has no values to place spline knots.`);
+  const finite = Array.from(values)
+    .filter((v) => Number.isFinite(v))
+    .sort((a, b) => a - b);
+  if (finite.length === 0)
+    throw new FulcraError('spline-no-data', `Column "${column}" has no values to place spline knots.`);
   const knots = rcsKnotQuantiles[k].map((q) => quantileSorted(finite, q));
   for (let i = 1; i < knots.length; i++) {
     if (!(knots[i] > knots[i - 1])) {
@@ -41,13 +44,19 @@ export function rcsKnots(values: ArrayLike<number>, k: 3 | 4 | 5, column: string
  *   X_j = [(x−t_j)₊³ − (x−t_{k−1})₊³·(t_k−t_j)/(t_k−t_{k−1}) + (x−t_k)₊³·(t_{k−1}−t_j)/(t_k−t_{k−1})] / (t_k−t₁)²
  * The linear column x itself is not included. NaN in x gives NaN.
  */
-export function rcsBasis(x: number, knots: number[], out: Float64Array | number[] = new Float64Array(knots.length - 2)): Float64Array | number[] {
+export function rcsBasis(
+  x: number,
+  knots: number[],
+  out: Float64Array | number[] = new Float64Array(knots.length - 2),
+): Float64Array | number[] {
   const k = knots.length;
-  const tk = knots[k - 1], tk1 = knots[k - 2];
+  const tk = knots[k - 1],
+    tk1 = knots[k - 2];
   // ((x − t)/s)³·s equals (x − t)³/s² but neither overflows nor underflows for any scale of x (s = t_k − t₁).
   const s = tk - knots[0];
   const cube = (v: number) => (v > 0 ? (v / s) ** 3 : 0);
-  const a = cube(x - tk1), b = cube(x - tk);
+  const a = cube(x - tk1),
+    b = cube(x - tk);
   const r = tk - tk1;
   for (let j = 0; j < k - 2; j++) {
     const tj = knots[j];

@@ -24,11 +24,30 @@ export function brierScore(y: Float64Array, p: Float64Array, weights?: Float64Ar
     sy += w * y[i];
     se += w * d * d;
   }
-  if (!(sw > 0)) return { brier: null, brierNull: null, scaledBrier: null, warnings: [warning('no-cases', 'There are no cases (or all weights are 0), so the Brier score cannot be computed.', 'Check the data selection.')] };
+  if (!(sw > 0))
+    return {
+      brier: null,
+      brierNull: null,
+      scaledBrier: null,
+      warnings: [
+        warning(
+          'no-cases',
+          'There are no cases (or all weights are 0), so the Brier score cannot be computed.',
+          'Check the data selection.',
+        ),
+      ],
+    };
   const brier = se / sw;
   const rate = sy / sw;
   const brierNull = rate * (1 - rate);
   const warnings: EngineWarning[] = [];
-  if (brierNull === 0) warnings.push(warning('one-class-only', 'All outcomes are the same, so the scaled Brier score is undefined.', 'Evaluate on data that contain both events and non-events.'));
+  if (brierNull === 0)
+    warnings.push(
+      warning(
+        'one-class-only',
+        'All outcomes are the same, so the scaled Brier score is undefined.',
+        'Evaluate on data that contain both events and non-events.',
+      ),
+    );
   return { brier, brierNull, scaledBrier: brierNull > 0 ? 1 - brier / brierNull : null, warnings };
 }

@@ -32,23 +32,46 @@ export interface CalibrationRegression {
 export const RISK_CLIP = 1e-12;
 
 /** LP = logit(p), with risks of exactly 0 or 1 clipped to [1e−12, 1 − 1e−12] and a warning saying how many. */
-export function riskToLinearPredictor(p: Float64Array): { eta: Float64Array; clipped: number; warnings: EngineWarning[] } {
+export function riskToLinearPredictor(p: Float64Array): {
+  eta: Float64Array;
+  clipped: number;
+  warnings: EngineWarning[];
+} {
   const eta = new Float64Array(p.length);
   let clipped = 0;
   for (let i = 0; i < p.length; i++) {
     let v = p[i];
-    if (!(v >= 0 && v <= 1)) throw new FulcraError('bad-score', `Predicted risks must lie in [0, 1]; row ${i + 1} is ${v}.`);
-    if (v < RISK_CLIP || v > 1 - RISK_CLIP) { v = Math.min(1 - RISK_CLIP, Math.max(RISK_CLIP, v)); clipped++; }
+    if (!(v >= 0 && v <= 1))
+      throw new FulcraError('bad-score', `Predicted risks must lie in [0, 1]; row ${i + 1} is ${v}.`);
+    if (v < RISK_CLIP || v > 1 - RISK_CLIP) {
+      v = Math.min(1 - RISK_CLIP, Math.max(RISK_CLIP, v));
+      clipped++;
+    }
     eta[i] = Math.log(v / (1 - v));
   }
-  const warnings = clipped > 0
-    ? [warning('risk-clipped', `${clipped} predicted risk(s) were exactly 0 or 1 (or closer than 1e-12); they were set to 1e-12 or 1 − 1e-12 for calibration on the logit scale.`, 'Risks of exactly 0 or 1 are rarely credible; check how the predictions were made.')]
-    : [];
+  const warnings =
+    clipped > 0
+      ? [
+          warning(
+            'risk-clipped',
+            `${clipped} predicted risk(s) were exactly 0 or 1 (or closer than 1e-12); they were set to 1e-12 or 1 − 1e-12 for calibration on the logit scale.`,
+            'Risks of exactly 0 or 1 are rarely credible; check how the predictions were made.',
+          ),
+        ]
+      : [];
   return { eta, clipped, warnings };
 }
 
 /** Fits a small logistic model and returns beta with its covariance (inverse information), or null on failure. */
-export function fitSmallLogistic(X: Float64Array, n: number, p: number, y: Float64Array, weights?: Float64Array, offset?: Float64Array, start?: Float64Array) {
+export function fitSmallLogistic(
+  X: Float64Array,
+  n: number,
+  p: number,
+  y: Float64Array,
+  weights?: Float64Array,
+  offset?: Float64Array,
+  start?: Float64Array,
+) {
   const fit = newtonLogistic({ X, n, p, y, weights, offset, start }, { tol: 1e-12, maxIter: 100 });
   const ch = cholesky(fit.information, p);
   const cov = ch.rank === p ? choleskyInverse(ch) : null;
@@ -65,18 +88,26 @@ function interval(est: number, variance: number, z: number): IntervalEstimate {
  * Biometrika 45:562; Steyerberg 2019, Clinical Prediction Models, ch. 15): glm(y ~ 1, offset = eta) and
  * glm(y ~ eta), maximum likelihood, Wald intervals (as R's confint.default). Optional case weights.
  */
-export function calibrationRegression(y: Float64Array, eta: Float64Array, options: { weights?: Float64Array; level?: number } = {}): CalibrationRegression {
+export function calibrationRegression(
+  y: Float64Array,
+  eta: Float64Array,
+  options: { weights?: Float64Array; level?: number } = {},
+): CalibrationRegression {
   const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1)) throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  if (!(level > 0 && level < 1))
+    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
   const n = y.length;
-  if (eta.length !== n) throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
+  if (eta.length !== n)
+    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
   const w = options.weights;
   let sw = 0;
   let sy = 0;
   let sp = 0;
   for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1) throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(eta[i])) throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
+    if (y[i] !== 0 && y[i] !== 1)
+      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
+    if (!Number.isFinite(eta[i]))
+      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
     const wi = w ? w[i] : 1;
     sw += wi;
     sy += wi * y[i];
@@ -85,9 +116,20 @@ export function calibrationRegression(y: Float64Array, eta: Float64Array, option
   const base = { level, ciMethod: 'wald' as const };
   if (!(sw > 0) || sy === 0 || sy === sw) {
     return {
-      interceptInTheLarge: null, slope: null, slopeModelIntercept: null,
-      observedRate: sw > 0 ? sy / sw : null, meanPredicted: sw > 0 ? sp / sw : null, observedOverExpected: sp > 0 ? sy / sp : null, ...base,
-      warnings: [warning('one-class-only', 'Calibration intercept and slope need both events and non-events.', 'Evaluate on data that contain both.')],
+      interceptInTheLarge: null,
+      slope: null,
+      slopeModelIntercept: null,
+      observedRate: sw > 0 ? sy / sw : null,
+      meanPredicted: sw > 0 ? sp / sw : null,
+      observedOverExpected: sp > 0 ? sy / sp : null,
+      ...base,
+      warnings: [
+        warning(
+          'one-class-only',
+          'Calibration intercept and slope need both events and non-events.',
+          'Evaluate on data that contain both.',
+        ),
+      ],
     };
   }
   const warnings: EngineWarning[] = [];
@@ -99,12 +141,25 @@ export function calibrationRegression(y: Float64Array, eta: Float64Array, option
   X.set(eta, n);
   const sl = fitSmallLogistic(X, n, 2, y, w, undefined, new Float64Array([0, 1]));
   if (!citl.converged || !sl.converged) {
-    warnings.push(warning('calibration-not-converged', `The ${!citl.converged ? 'calibration-in-the-large' : 'calibration slope'} fit did not converge, usually because the linear predictor separates events from non-events perfectly; ${!citl.converged ? 'neither estimate is' : 'the slope is not'} reported.`, 'Check for perfect separation (e.g. a predictor that leaks the outcome) or evaluate on more data.'));
+    warnings.push(
+      warning(
+        'calibration-not-converged',
+        `The ${!citl.converged ? 'calibration-in-the-large' : 'calibration slope'} fit did not converge, usually because the linear predictor separates events from non-events perfectly; ${!citl.converged ? 'neither estimate is' : 'the slope is not'} reported.`,
+        'Check for perfect separation (e.g. a predictor that leaks the outcome) or evaluate on more data.',
+      ),
+    );
   }
   const slopeOk = sl.converged && citl.converged && sl.cov !== null;
   let slope: IntervalEstimate | null = null;
   if (slopeOk) slope = interval(sl.beta[1], sl.cov![3], z);
-  else if (!sl.cov) warnings.push(warning('calibration-slope-undefined', 'The linear predictor has (almost) no spread, so the calibration slope cannot be estimated.', 'Check that the model has predictors.'));
+  else if (!sl.cov)
+    warnings.push(
+      warning(
+        'calibration-slope-undefined',
+        'The linear predictor has (almost) no spread, so the calibration slope cannot be estimated.',
+        'Check that the model has predictors.',
+      ),
+    );
   return {
     interceptInTheLarge: citl.converged && citl.cov ? interval(citl.beta[0], citl.cov[0], z) : null,
     slope,

@@ -69,35 +69,76 @@ export interface CalibrationCurveOptions {
  * Wald interval on the logit scale, transformed back. ICI/E50/E90/Emax compare each case's risk with its
  * recalibrated risk (Austin & Steyerberg 2019, with the spline instead of loess).
  */
-export function calibrationCurve(y: Float64Array, eta: Float64Array, options: CalibrationCurveOptions = {}): CalibrationCurve {
+export function calibrationCurve(
+  y: Float64Array,
+  eta: Float64Array,
+  options: CalibrationCurveOptions = {},
+): CalibrationCurve {
   const nk = options.knots ?? 4;
-  if (![3, 4, 5].includes(nk)) throw new FulcraError('bad-knots', `The calibration curve takes 3, 4 or 5 knots, got ${nk}.`);
+  if (![3, 4, 5].includes(nk))
+    throw new FulcraError('bad-knots', `The calibration curve takes 3, 4 or 5 knots, got ${nk}.`);
   const gridSize = options.gridSize ?? 100;
-  if (!(Number.isInteger(gridSize) && gridSize >= 2)) throw new FulcraError('bad-grid', `The grid size must be an integer ≥ 2, got ${gridSize}.`);
+  if (!(Number.isInteger(gridSize) && gridSize >= 2))
+    throw new FulcraError('bad-grid', `The grid size must be an integer ≥ 2, got ${gridSize}.`);
   const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1)) throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  if (!(level > 0 && level < 1))
+    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
   const n = y.length;
-  if (eta.length !== n) throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
+  if (eta.length !== n)
+    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
   let events = 0;
   for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1) throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(eta[i])) throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
+    if (y[i] !== 0 && y[i] !== 1)
+      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
+    if (!Number.isFinite(eta[i]))
+      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
     events += y[i];
   }
   const warnings: EngineWarning[] = [];
-  const empty: CalibrationCurve = { knots: [], predicted: [], observed: [], lower: [], upper: [], level, ici: null, e50: null, e90: null, emax: null, method: '', warnings };
+  const empty: CalibrationCurve = {
+    knots: [],
+    predicted: [],
+    observed: [],
+    lower: [],
+    upper: [],
+    level,
+    ici: null,
+    e50: null,
+    e90: null,
+    emax: null,
+    method: '',
+    warnings,
+  };
   if (events === 0 || events === n) {
-    warnings.push(warning('one-class-only', 'A calibration curve needs both events and non-events.', 'Evaluate on data that contain both.'));
+    warnings.push(
+      warning(
+        'one-class-only',
+        'A calibration curve needs both events and non-events.',
+        'Evaluate on data that contain both.',
+      ),
+    );
     return empty;
   }
   const sorted = eta.slice().sort();
   if (sorted[0] === sorted[n - 1]) {
-    warnings.push(warning('calibration-curve-undefined', 'Every case has the same predicted risk, so no calibration curve can be drawn.', 'Compare the single predicted risk with the observed outcome rate instead.'));
+    warnings.push(
+      warning(
+        'calibration-curve-undefined',
+        'Every case has the same predicted risk, so no calibration curve can be drawn.',
+        'Compare the single predicted risk with the observed outcome rate instead.',
+      ),
+    );
     return empty;
   }
   let knots = Array.from(new Set(RCS_KNOT_QUANTILES[nk].map((q) => quantileSorted(sorted, q))));
   if (knots.length < nk) {
-    warnings.push(warning('calibration-knots-reduced', `The linear predictor has too many tied values for ${nk} distinct knots; ${knots.length >= 3 ? `${knots.length} knots were used` : 'a straight line (calibration slope model) was used instead'}.`, 'This is expected when the model has few distinct predictions.'));
+    warnings.push(
+      warning(
+        'calibration-knots-reduced',
+        `The linear predictor has too many tied values for ${nk} distinct knots; ${knots.length >= 3 ? `${knots.length} knots were used` : 'a straight line (calibration slope model) was used instead'}.`,
+        'This is expected when the model has few distinct predictions.',
+      ),
+    );
     if (knots.length < 3) knots = [];
   }
   const p = knots.length > 0 ? knots.length : 2;
@@ -115,11 +156,23 @@ export function calibrationCurve(y: Float64Array, eta: Float64Array, options: Ca
   start[1] = 1;
   const fit = fitSmallLogistic(X, n, p, y, options.weights, undefined, start);
   if (!fit.converged) {
-    warnings.push(warning('calibration-curve-not-converged', 'The calibration curve fit did not converge (usually perfect separation of events from non-events), so no curve or ICI is reported.', 'Use fewer knots, check for perfect separation, or evaluate on more data.'));
+    warnings.push(
+      warning(
+        'calibration-curve-not-converged',
+        'The calibration curve fit did not converge (usually perfect separation of events from non-events), so no curve or ICI is reported.',
+        'Use fewer knots, check for perfect separation, or evaluate on more data.',
+      ),
+    );
     return empty;
   }
   if (!fit.cov) {
-    warnings.push(warning('calibration-curve-singular', 'The calibration curve could not be estimated (the spline terms are collinear).', 'Use fewer knots.'));
+    warnings.push(
+      warning(
+        'calibration-curve-singular',
+        'The calibration curve could not be estimated (the spline terms are collinear).',
+        'Use fewer knots.',
+      ),
+    );
     return empty;
   }
   const w = options.weights;
@@ -147,7 +200,10 @@ export function calibrationCurve(y: Float64Array, eta: Float64Array, options: Ca
     const e = Math.log(pg / (1 - pg));
     x[0] = 1;
     x[1] = e;
-    if (p > 2) { rcsTerms(e, knots, terms); x.set(terms, 2); }
+    if (p > 2) {
+      rcsTerms(e, knots, terms);
+      x.set(terms, 2);
+    }
     let lp = 0;
     let v = 0;
     for (let a = 0; a < p; a++) {
@@ -161,14 +217,20 @@ export function calibrationCurve(y: Float64Array, eta: Float64Array, options: Ca
     upper.push(1 / (1 + Math.exp(-(lp + z * se))));
   }
   return {
-    knots, predicted, observed, lower, upper, level,
+    knots,
+    predicted,
+    observed,
+    lower,
+    upper,
+    level,
     ici: sum / sw,
     e50: w ? weightedQuantile(absErr, w, 0.5) : quantileSorted(errSorted, 0.5),
     e90: w ? weightedQuantile(absErr, w, 0.9) : quantileSorted(errSorted, 0.9),
     emax: errSorted[n - 1],
-    method: knots.length > 0
-      ? `Logistic regression of the outcome on a restricted cubic spline of the linear predictor with ${knots.length} knots (Harrell's quantiles); ${Math.round(level * 100)}% pointwise Wald band on the logit scale; drawn from the 1st to the 99th percentile of the predicted risks.`
-      : 'Logistic regression of the outcome on the linear predictor (straight line; too few distinct predictions for a spline).',
+    method:
+      knots.length > 0
+        ? `Logistic regression of the outcome on a restricted cubic spline of the linear predictor with ${knots.length} knots (Harrell's quantiles); ${Math.round(level * 100)}% pointwise Wald band on the logit scale; drawn from the 1st to the 99th percentile of the predicted risks.`
+        : 'Logistic regression of the outcome on the linear predictor (straight line; too few distinct predictions for a spline).',
     warnings,
   };
 }

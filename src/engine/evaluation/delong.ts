@@ -40,7 +40,8 @@ function lowerBound(a: Float64Array, v: number): number {
   let hi = a.length;
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (a[mid] < v) lo = mid + 1; else hi = mid;
+    if (a[mid] < v) lo = mid + 1;
+    else hi = mid;
   }
   return lo;
 }
@@ -50,7 +51,8 @@ function upperBound(a: Float64Array, v: number): number {
   let hi = a.length;
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (a[mid] <= v) lo = mid + 1; else hi = mid;
+    if (a[mid] <= v) lo = mid + 1;
+    else hi = mid;
   }
   return lo;
 }
@@ -61,7 +63,9 @@ function placements(y: Float64Array, s: Float64Array): Placements {
   for (let i = 0; i < y.length; i++) m += y[i];
   const x = new Float64Array(m);
   const z = new Float64Array(y.length - m);
-  for (let i = 0, a = 0, b = 0; i < y.length; i++) if (y[i] === 1) x[a++] = s[i]; else z[b++] = s[i];
+  for (let i = 0, a = 0, b = 0; i < y.length; i++)
+    if (y[i] === 1) x[a++] = s[i];
+    else z[b++] = s[i];
   const xs = x.slice().sort();
   const zs = z.slice().sort();
   const v10 = new Float64Array(x.length);
@@ -90,7 +94,8 @@ function cov(a: Float64Array, b: Float64Array, ma: number, mb: number): number {
 }
 
 function checkLevel(level: number): void {
-  if (!(level > 0 && level < 1)) throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  if (!(level > 0 && level < 1))
+    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
 }
 
 /**
@@ -112,7 +117,11 @@ export function delongAuc(y: Float64Array, score: Float64Array, options: DelongO
 export function delongFromPrepared(prep: PreparedThresholds, options: DelongOptions = {}): AucInterval {
   const level = options.level ?? 0.95;
   checkLevel(level);
-  if (prep.weighted) throw new FulcraError('weights-not-supported', 'The DeLong interval is defined for unweighted cases; prepare the thresholds without weights.');
+  if (prep.weighted)
+    throw new FulcraError(
+      'weights-not-supported',
+      'The DeLong interval is defined for unweighted cases; prepare the thresholds without weights.',
+    );
   const { risks, eventsAtOrAbove: ea, nonEventsAtOrAbove: na, events: m, nonEvents: n } = prep;
   const K = risks.length;
   const warnings = discriminationWarnings(m, n, K);
@@ -140,19 +149,53 @@ export function delongFromPrepared(prep: PreparedThresholds, options: DelongOpti
   if (auc === 1 || auc === 0) {
     const k = Math.min(m, n);
     const bound = k / (k + z * z);
-    warnings.push(warning('auc-perfect', `The model separates events from non-events perfectly in these data (AUC = ${auc}). The DeLong standard error is 0, so no two-sided interval is given; the ${Math.round(level * 100)}% interval shown is one-sided, from the largest variance an AUC can have with ${k} cases in the smaller class.`, 'Perfect separation usually means a predictor leaks the outcome or the sample is small; check on new data.'));
-    return { auc, se, lower: auc === 1 ? bound : 0, upper: auc === 1 ? 1 : 1 - bound, ciMethod: 'max-variance-bound', ...base };
+    warnings.push(
+      warning(
+        'auc-perfect',
+        `The model separates events from non-events perfectly in these data (AUC = ${auc}). The DeLong standard error is 0, so no two-sided interval is given; the ${Math.round(level * 100)}% interval shown is one-sided, from the largest variance an AUC can have with ${k} cases in the smaller class.`,
+        'Perfect separation usually means a predictor leaks the outcome or the sample is small; check on new data.',
+      ),
+    );
+    return {
+      auc,
+      se,
+      lower: auc === 1 ? bound : 0,
+      upper: auc === 1 ? 1 : 1 - bound,
+      ciMethod: 'max-variance-bound',
+      ...base,
+    };
   }
   if (!(se > 0)) {
-    if (K > 1) warnings.push(warning('auc-zero-variance', 'The DeLong standard error is 0, so no confidence interval can be given.', 'Evaluate on more varied data.'));
+    if (K > 1)
+      warnings.push(
+        warning(
+          'auc-zero-variance',
+          'The DeLong standard error is 0, so no confidence interval can be given.',
+          'Evaluate on more varied data.',
+        ),
+      );
     return { auc, se, lower: null, upper: null, ciMethod: 'none', ...base };
   }
   if (options.scale === 'logit') {
     const l = Math.log(auc / (1 - auc));
     const h = (z * se) / (auc * (1 - auc));
-    return { auc, se, lower: 1 / (1 + Math.exp(-(l - h))), upper: 1 / (1 + Math.exp(-(l + h))), ciMethod: 'delong-logit-scale', ...base };
+    return {
+      auc,
+      se,
+      lower: 1 / (1 + Math.exp(-(l - h))),
+      upper: 1 / (1 + Math.exp(-(l + h))),
+      ciMethod: 'delong-logit-scale',
+      ...base,
+    };
   }
-  return { auc, se, lower: Math.max(0, auc - z * se), upper: Math.min(1, auc + z * se), ciMethod: 'delong-auc-scale', ...base };
+  return {
+    auc,
+    se,
+    lower: Math.max(0, auc - z * se),
+    upper: Math.min(1, auc + z * se),
+    ciMethod: 'delong-auc-scale',
+    ...base,
+  };
 }
 
 export interface PairedDelongTest {
@@ -175,7 +218,12 @@ export interface PairedDelongTest {
  * Paired DeLong test of two scores on the same cases (DeLong et al. 1988): z = (A1 − A2)/SE(A1 − A2),
  * two-sided p, and a Wald interval for the difference. As pROC's roc.test(method = "delong", paired = TRUE).
  */
-export function delongPairedTest(y: Float64Array, score1: Float64Array, score2: Float64Array, options: { level?: number } = {}): PairedDelongTest {
+export function delongPairedTest(
+  y: Float64Array,
+  score1: Float64Array,
+  score2: Float64Array,
+  options: { level?: number } = {},
+): PairedDelongTest {
   const level = options.level ?? 0.95;
   checkLevel(level);
   checkScoredOutcome(y, score1, undefined, false);
@@ -196,11 +244,29 @@ export function delongPairedTest(y: Float64Array, score1: Float64Array, score2: 
   const vd = v1 + v2 - 2 * c12;
   const correlation = v1 > 0 && v2 > 0 ? c12 / Math.sqrt(v1 * v2) : null;
   if (!(vd > 1e-15 * Math.max(v1, v2, 1e-300))) {
-    warnings.push(warning('auc-difference-zero-variance', 'The two scores rank the cases identically (or both perfectly), so the difference in AUC has no variance and cannot be tested.', 'Compare models that differ in how they rank cases.'));
+    warnings.push(
+      warning(
+        'auc-difference-zero-variance',
+        'The two scores rank the cases identically (or both perfectly), so the difference in AUC has no variance and cannot be tested.',
+        'Compare models that differ in how they rank cases.',
+      ),
+    );
     return { auc1, auc2, difference: auc1 - auc2, ...none, correlation };
   }
   const se = Math.sqrt(vd);
   const z = (auc1 - auc2) / se;
   const q = qnorm(1 - (1 - level) / 2);
-  return { auc1, auc2, difference: auc1 - auc2, se, z, p: twoSidedP(z), lower: auc1 - auc2 - q * se, upper: auc1 - auc2 + q * se, correlation, level, warnings };
+  return {
+    auc1,
+    auc2,
+    difference: auc1 - auc2,
+    se,
+    z,
+    p: twoSidedP(z),
+    lower: auc1 - auc2 - q * se,
+    upper: auc1 - auc2 + q * se,
+    correlation,
+    level,
+    warnings,
+  };
 }

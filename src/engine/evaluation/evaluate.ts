@@ -8,8 +8,16 @@ import { decisionCurve, type DecisionCurve } from './netBenefit';
 import { prFromPrepared, type PrCurve } from './prCurve';
 import { rocFromPrepared, type RocCurve } from './roc';
 import {
-  atThreshold, costThresholds, expectedCostCurve, FLAG_RULE, prepareThresholds, thresholdGrid,
-  type CostThresholds, type DecisionCosts, type PreparedThresholds, type ThresholdMetrics,
+  atThreshold,
+  costThresholds,
+  expectedCostCurve,
+  FLAG_RULE,
+  prepareThresholds,
+  thresholdGrid,
+  type CostThresholds,
+  type DecisionCosts,
+  type PreparedThresholds,
+  type ThresholdMetrics,
 } from './threshold';
 import { warning, type EngineWarning } from '../core/warnings';
 
@@ -68,7 +76,11 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
   let eta: Float64Array;
   const warnings: EngineWarning[] = [];
   if (options.eta) {
-    if (options.eta.length !== y.length) throw new FulcraError('length-mismatch', `The outcome has ${y.length} rows but the linear predictor has ${options.eta.length}.`);
+    if (options.eta.length !== y.length)
+      throw new FulcraError(
+        'length-mismatch',
+        `The outcome has ${y.length} rows but the linear predictor has ${options.eta.length}.`,
+      );
     eta = options.eta;
   } else {
     const lp = riskToLinearPredictor(p);
@@ -78,25 +90,62 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
   let auc: AucInterval;
   const roc = rocFromPrepared(prep, options.rocPoints ?? 500);
   if (w) {
-    auc = { auc: roc.auc, se: null, lower: null, upper: null, level, ciMethod: 'none', events: prep.events, nonEvents: prep.nonEvents, warnings: [] };
-    warnings.push(warning('weights-no-delong', 'With case weights the AUC is the weighted one, and no DeLong interval is given (the DeLong variance assumes unweighted cases).', 'Use a bootstrap interval for weighted data.'));
+    auc = {
+      auc: roc.auc,
+      se: null,
+      lower: null,
+      upper: null,
+      level,
+      ciMethod: 'none',
+      events: prep.events,
+      nonEvents: prep.nonEvents,
+      warnings: [],
+    };
+    warnings.push(
+      warning(
+        'weights-no-delong',
+        'With case weights the AUC is the weighted one, and no DeLong interval is given (the DeLong variance assumes unweighted cases).',
+        'Use a bootstrap interval for weighted data.',
+      ),
+    );
   } else {
     auc = delongFromPrepared(prep, { level, scale: options.aucScale });
   }
   let hl: HosmerLemeshowResult | null = null;
-  if (w) warnings.push(warning('weights-no-hl', 'The Hosmer–Lemeshow test is not computed with case weights.', 'Read the calibration curve, slope and intercept.'));
+  if (w)
+    warnings.push(
+      warning(
+        'weights-no-hl',
+        'The Hosmer–Lemeshow test is not computed with case weights.',
+        'Read the calibration curve, slope and intercept.',
+      ),
+    );
   else hl = hosmerLemeshow(y, p, options.hlGroups ?? 10);
   const pr = prFromPrepared(prep, options.rocPoints ?? 500);
   const brier = brierScore(y, p, w);
   const calibration = calibrationRegression(y, eta, { weights: w, level });
   const curve = calibrationCurve(y, eta, { knots: options.calibrationKnots, level, weights: w });
   const dc = decisionCurve(prep, options.grid ?? thresholdGrid());
-  const costs = options.costs ? { thresholds: costThresholds(prep, options.costs), curve: expectedCostCurve(prep, options.costs, options.grid ?? thresholdGrid()) } : null;
+  const costs = options.costs
+    ? {
+        thresholds: costThresholds(prep, options.costs),
+        curve: expectedCostCurve(prep, options.costs, options.grid ?? thresholdGrid()),
+      }
+    : null;
   const t = options.threshold ?? costs?.thresholds.decisionTheory.threshold;
   let meanRisk = 0;
   for (let i = 0; i < p.length; i++) meanRisk += (w ? w[i] : 1) * p[i];
-  const parts = [roc.warnings, auc.warnings, pr.warnings, brier.warnings, calibration.warnings, curve.warnings, hl?.warnings ?? []];
-  for (const list of parts) for (const x of list) if (!warnings.some((v) => v.code === x.code && v.message === x.message)) warnings.push(x);
+  const parts = [
+    roc.warnings,
+    auc.warnings,
+    pr.warnings,
+    brier.warnings,
+    calibration.warnings,
+    curve.warnings,
+    hl?.warnings ?? [],
+  ];
+  for (const list of parts)
+    for (const x of list) if (!warnings.some((v) => v.code === x.code && v.message === x.message)) warnings.push(x);
   return {
     n: y.length,
     events: prep.events,

@@ -22,7 +22,8 @@ export interface DecisionCurve {
 
 export function decisionCurve(prep: PreparedThresholds, grid: Float64Array = thresholdGrid()): DecisionCurve {
   for (const t of grid) {
-    if (!(t > 0 && t < 1)) throw new FulcraError('bad-threshold', `Decision-curve thresholds must lie strictly between 0 and 1, got ${t}.`);
+    if (!(t > 0 && t < 1))
+      throw new FulcraError('bad-threshold', `Decision-curve thresholds must lie strictly between 0 and 1, got ${t}.`);
   }
   const n = prep.total;
   const prevalence = n > 0 ? prep.events / n : 0;
@@ -39,5 +40,12 @@ export function decisionCurve(prep: PreparedThresholds, grid: Float64Array = thr
     treatAll.push(all);
     avoided.push(((nb - all) / odds) * 100);
   }
-  return { thresholds, model, treatAll, treatNone: thresholds.map(() => 0), interventionsAvoidedPer100: avoided, prevalence };
+  return {
+    thresholds,
+    model,
+    treatAll,
+    treatNone: thresholds.map(() => 0),
+    interventionsAvoidedPer100: avoided,
+    prevalence,
+  };
 }

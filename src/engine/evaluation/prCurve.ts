@@ -26,8 +26,19 @@ export function prFromPrepared(prep: PreparedThresholds, maxPoints = 500): PrCur
   const K = risks.length;
   if (E === 0) {
     return {
-      recall: [], precision: [], threshold: [], nPointsFull: 0, averagePrecision: null, baseline: total > 0 ? 0 : null,
-      warnings: [warning('no-events', 'There are no events, so precision and recall cannot be measured.', 'Evaluate on data that contain events.')],
+      recall: [],
+      precision: [],
+      threshold: [],
+      nPointsFull: 0,
+      averagePrecision: null,
+      baseline: total > 0 ? 0 : null,
+      warnings: [
+        warning(
+          'no-events',
+          'There are no events, so precision and recall cannot be measured.',
+          'Evaluate on data that contain events.',
+        ),
+      ],
     };
   }
   let ap = 0;
@@ -54,6 +65,10 @@ export function prFromPrepared(prep: PreparedThresholds, maxPoints = 500): PrCur
 }
 
 /** PR curve of scores (higher = higher risk) for a 0/1 outcome, with optional case weights. */
-export function prCurve(y: Float64Array, score: Float64Array, options: { weights?: Float64Array; maxPoints?: number } = {}): PrCurve {
+export function prCurve(
+  y: Float64Array,
+  score: Float64Array,
+  options: { weights?: Float64Array; maxPoints?: number } = {},
+): PrCurve {
   return prFromPrepared(prepareThresholds(y, score, options.weights, false), options.maxPoints ?? Infinity);
 }

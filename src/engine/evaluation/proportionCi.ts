@@ -14,9 +14,11 @@ export interface ProportionEstimate {
 export type ProportionCiMethod = 'wilson' | 'clopper-pearson';
 
 function check(x: number, n: number, level: number): void {
-  if (!(n >= 0) || !Number.isFinite(n)) throw new FulcraError('bad-count', `The number of cases must be a finite count ≥ 0, got ${n}.`);
+  if (!(n >= 0) || !Number.isFinite(n))
+    throw new FulcraError('bad-count', `The number of cases must be a finite count ≥ 0, got ${n}.`);
   if (!(x >= 0 && x <= n)) throw new FulcraError('bad-count', `The count ${x} must lie between 0 and n = ${n}.`);
-  if (!(level > 0 && level < 1)) throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  if (!(level > 0 && level < 1))
+    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
 }
 
 /**
@@ -32,7 +34,9 @@ export function wilsonCi(x: number, n: number, level = 0.95): ProportionEstimate
   const centre = (p + z2 / (2 * n)) / (1 + z2 / n);
   const half = (z / (1 + z2 / n)) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
   return {
-    x, n, estimate: p,
+    x,
+    n,
+    estimate: p,
     lower: x === 0 ? 0 : Math.max(0, centre - half),
     upper: x === n ? 1 : Math.min(1, centre + half),
     method: 'wilson',
@@ -48,13 +52,20 @@ export function clopperPearsonCi(x: number, n: number, level = 0.95): Proportion
   if (n === 0) return { x, n, estimate: null, lower: null, upper: null, method: 'clopper-pearson' };
   const a = (1 - level) / 2;
   return {
-    x, n, estimate: x / n,
+    x,
+    n,
+    estimate: x / n,
     lower: x === 0 ? 0 : qbeta(a, x, n - x + 1),
     upper: x === n ? 1 : qbeta(1 - a, x + 1, n - x),
     method: 'clopper-pearson',
   };
 }
 
-export function proportionCi(x: number, n: number, level = 0.95, method: ProportionCiMethod = 'wilson'): ProportionEstimate {
+export function proportionCi(
+  x: number,
+  n: number,
+  level = 0.95,
+  method: ProportionCiMethod = 'wilson',
+): ProportionEstimate {
   return method === 'wilson' ? wilsonCi(x, n, level) : clopperPearsonCi(x, n, level);
 }

@@ -19,15 +19,38 @@ export interface RocCurve {
 }
 
 /** Warnings shared by every discrimination measure: one class absent or tiny, all scores tied. */
-export function discriminationWarnings(events: number, nonEvents: number, distinct: number, eventsLabel = 'events'): EngineWarning[] {
+export function discriminationWarnings(
+  events: number,
+  nonEvents: number,
+  distinct: number,
+  eventsLabel = 'events',
+): EngineWarning[] {
   const w: EngineWarning[] = [];
   if (events === 0 || nonEvents === 0) {
-    w.push(warning('one-class-only', `There are no ${events === 0 ? eventsLabel : 'non-events'}, so discrimination (AUC, ROC) cannot be measured.`, 'Evaluate on data that contain both events and non-events.'));
+    w.push(
+      warning(
+        'one-class-only',
+        `There are no ${events === 0 ? eventsLabel : 'non-events'}, so discrimination (AUC, ROC) cannot be measured.`,
+        'Evaluate on data that contain both events and non-events.',
+      ),
+    );
   } else if (events < 2 || nonEvents < 2) {
-    w.push(warning('class-too-small', `There is only one ${events < 2 ? eventsLabel.replace(/s$/, '') : 'non-event'}; the AUC is shown but has no standard error or confidence interval.`, 'Evaluate on more data; an AUC from one case of a class says almost nothing.'));
+    w.push(
+      warning(
+        'class-too-small',
+        `There is only one ${events < 2 ? eventsLabel.replace(/s$/, '') : 'non-event'}; the AUC is shown but has no standard error or confidence interval.`,
+        'Evaluate on more data; an AUC from one case of a class says almost nothing.',
+      ),
+    );
   }
   if (distinct === 1 && events > 0 && nonEvents > 0) {
-    w.push(warning('scores-all-tied', 'Every case has the same predicted risk, so the model does not rank cases at all (AUC = 0.5 by ties).', 'Check that the model has predictors and that the right column was chosen as the prediction.'));
+    w.push(
+      warning(
+        'scores-all-tied',
+        'Every case has the same predicted risk, so the model does not rank cases at all (AUC = 0.5 by ties).',
+        'Check that the model has predictors and that the right column was chosen as the prediction.',
+      ),
+    );
   }
   return w;
 }
@@ -78,10 +101,23 @@ export function rocFromPrepared(prep: PreparedThresholds, maxPoints = 500): RocC
       while (!keepAll && nextMark <= walked) nextMark += step;
     }
   }
-  return { fpr, tpr, threshold, nPointsFull: K + 1, auc: Math.min(1, Math.max(0, auc)), events: E, nonEvents: N, warnings };
+  return {
+    fpr,
+    tpr,
+    threshold,
+    nPointsFull: K + 1,
+    auc: Math.min(1, Math.max(0, auc)),
+    events: E,
+    nonEvents: N,
+    warnings,
+  };
 }
 
 /** ROC curve and AUC of scores (higher score = higher risk) for a 0/1 outcome, with optional case weights. */
-export function rocCurve(y: Float64Array, score: Float64Array, options: { weights?: Float64Array; maxPoints?: number } = {}): RocCurve {
+export function rocCurve(
+  y: Float64Array,
+  score: Float64Array,
+  options: { weights?: Float64Array; maxPoints?: number } = {},
+): RocCurve {
   return rocFromPrepared(prepareThresholds(y, score, options.weights, false), options.maxPoints ?? Infinity);
 }

@@ -5,7 +5,10 @@ import { warning, type EngineWarning } from '../core/warnings';
 /** Cox–Snell R² of a fitted model: 1 − exp(−(D_null − D_model)/n), from its deviance and null deviance. */
 export function coxSnellR2(deviance: number, nullDeviance: number, n: number): number {
   if (!(n > 0) || !(deviance >= 0) || !(nullDeviance >= deviance)) {
-    throw new FulcraError('bad-deviance', `Need n > 0 and 0 ≤ deviance ≤ null deviance; got deviance ${deviance}, null deviance ${nullDeviance}, n ${n}.`);
+    throw new FulcraError(
+      'bad-deviance',
+      `Need n > 0 and 0 ≤ deviance ≤ null deviance; got deviance ${deviance}, null deviance ${nullDeviance}, n ${n}.`,
+    );
   }
   return 1 - Math.exp((deviance - nullDeviance) / n);
 }
@@ -69,34 +72,69 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   const S = input.shrinkage ?? 0.9;
   const delta = input.optimism ?? 0.05;
   const margin = input.margin ?? 0.05;
-  if (!(Number.isInteger(P) && P >= 1)) throw new FulcraError('bad-parameters', `The number of parameters must be a whole number ≥ 1, got ${P}.`);
-  if (!(phi > 0 && phi < 1)) throw new FulcraError('bad-proportion', `The outcome proportion must lie strictly between 0 and 1, got ${phi}.`);
-  if (!(S > 0 && S < 1)) throw new FulcraError('bad-shrinkage', `The target shrinkage must lie strictly between 0 and 1, got ${S}.`);
+  if (!(Number.isInteger(P) && P >= 1))
+    throw new FulcraError('bad-parameters', `The number of parameters must be a whole number ≥ 1, got ${P}.`);
+  if (!(phi > 0 && phi < 1))
+    throw new FulcraError('bad-proportion', `The outcome proportion must lie strictly between 0 and 1, got ${phi}.`);
+  if (!(S > 0 && S < 1))
+    throw new FulcraError('bad-shrinkage', `The target shrinkage must lie strictly between 0 and 1, got ${S}.`);
   if (!(delta > 0)) throw new FulcraError('bad-optimism', `The acceptable optimism must be > 0, got ${delta}.`);
-  if (!(margin > 0 && margin < 1)) throw new FulcraError('bad-margin', `The margin of error must lie strictly between 0 and 1, got ${margin}.`);
+  if (!(margin > 0 && margin < 1))
+    throw new FulcraError('bad-margin', `The margin of error must lie strictly between 0 and 1, got ${margin}.`);
   const maxR2 = maxCoxSnellR2(phi);
   const fromFit = input.r2cs === undefined && input.fitted !== undefined;
-  const r2 = input.r2cs ?? (input.fitted ? coxSnellR2(input.fitted.deviance, input.fitted.nullDeviance, input.fitted.n) : 0.15 * maxR2);
-  const source: SampleSizeResult['r2csSource'] = input.r2cs !== undefined ? 'given' : fromFit ? 'fitted-model' : 'default-15-percent-of-max';
-  if (!(r2 > 0 && r2 < maxR2)) throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome proportion of ${Number(phi.toPrecision(3))}, got ${r2}.`);
-  if (!(r2 < S)) throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² (${r2}) must be below the target shrinkage (${S}).`);
+  const r2 =
+    input.r2cs ??
+    (input.fitted ? coxSnellR2(input.fitted.deviance, input.fitted.nullDeviance, input.fitted.n) : 0.15 * maxR2);
+  const source: SampleSizeResult['r2csSource'] =
+    input.r2cs !== undefined ? 'given' : fromFit ? 'fitted-model' : 'default-15-percent-of-max';
+  if (!(r2 > 0 && r2 < maxR2))
+    throw new FulcraError(
+      'bad-r2',
+      `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome proportion of ${Number(phi.toPrecision(3))}, got ${r2}.`,
+    );
+  if (!(r2 < S))
+    throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² (${r2}) must be below the target shrinkage (${S}).`);
   const warnings: EngineWarning[] = [];
   if (fromFit) {
-    warnings.push(warning('r2-apparent', `The Cox–Snell R² (${r2.toFixed(3)}) was taken from the fitted model; this apparent value is optimistic, so the sample size may be underestimated.`, 'Prefer an R² reported for this outcome in an independent study, or an optimism-corrected one.'));
+    warnings.push(
+      warning(
+        'r2-apparent',
+        `The Cox–Snell R² (${r2.toFixed(3)}) was taken from the fitted model; this apparent value is optimistic, so the sample size may be underestimated.`,
+        'Prefer an R² reported for this outcome in an independent study, or an optimism-corrected one.',
+      ),
+    );
   } else if (source === 'default-15-percent-of-max') {
-    warnings.push(warning('r2-assumed', `No anticipated R² was given, so 15% of the largest possible Cox–Snell R² (${(0.15 * maxR2).toFixed(3)}) was assumed.`, 'Give the R² of a previous model for this outcome, or of the fitted model, for a better estimate.'));
+    warnings.push(
+      warning(
+        'r2-assumed',
+        `No anticipated R² was given, so 15% of the largest possible Cox–Snell R² (${(0.15 * maxR2).toFixed(3)}) was assumed.`,
+        'Give the R² of a previous model for this outcome, or of the fitted model, for a better estimate.',
+      ),
+    );
   }
   const nFor = (s: number) => Math.ceil(P / ((s - 1) * Math.log(1 - r2 / s)) - 1e-9);
   const sVh = r2 / (r2 + delta * maxR2);
   const z = qnorm(0.975);
-  const n3 = Math.ceil(((z / margin) ** 2) * phi * (1 - phi) - 1e-9);
-  const mk = (id: 'i' | 'ii' | 'iii', n: number, text: string): SampleSizeCriterion => ({ id, n, events: Math.ceil(n * phi - 1e-9), eventsPerParameter: (n * phi) / P, text });
+  const n3 = Math.ceil((z / margin) ** 2 * phi * (1 - phi) - 1e-9);
+  const mk = (id: 'i' | 'ii' | 'iii', n: number, text: string): SampleSizeCriterion => ({
+    id,
+    n,
+    events: Math.ceil(n * phi - 1e-9),
+    eventsPerParameter: (n * phi) / P,
+    text,
+  });
   const criteria = [
-    mk('i', nFor(S), `(i) For the model's predictions to need shrinking by no more than ${Math.round((1 - S) * 100)}% (expected shrinkage factor ≥ ${S})`),
+    mk(
+      'i',
+      nFor(S),
+      `(i) For the model's predictions to need shrinking by no more than ${Math.round((1 - S) * 100)}% (expected shrinkage factor ≥ ${S})`,
+    ),
     mk('ii', nFor(sVh), `(ii) For the apparent Nagelkerke R² to exceed the true one by no more than ${delta}`),
     mk('iii', n3, `(iii) To estimate the overall outcome risk within ±${margin} (95% confidence)`),
   ];
-  for (const c of criteria) c.text += ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events per parameter).`;
+  for (const c of criteria)
+    c.text += ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events per parameter).`;
   const bindingC = criteria.reduce((a, b) => (b.n > a.n ? b : a));
   const summary = [
     `With ${P} candidate parameter${P === 1 ? '' : 's'}, an outcome proportion of ${Number(phi.toPrecision(3))} and a Cox–Snell R² of ${r2.toFixed(3)}${source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)'}, the model needs at least ${bindingC.n} cases (${bindingC.events} events, ${bindingC.eventsPerParameter.toFixed(1)} events per parameter).`,
@@ -106,15 +144,27 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   let actual: SampleSizeResult['actual'] = null;
   if (input.actual) {
     const { n, events } = input.actual;
-    if (!(n >= 0 && events >= 0 && events <= n)) throw new FulcraError('bad-count', `The data at hand must have 0 ≤ events ≤ n, got ${events} events in ${n}.`);
+    if (!(n >= 0 && events >= 0 && events <= n))
+      throw new FulcraError('bad-count', `The data at hand must have 0 ≤ events ≤ n, got ${events} events in ${n}.`);
     const enough = n >= bindingC.n && events >= bindingC.events;
     actual = { n, events, eventsPerParameter: events / P, enough };
-    summary.push(enough
-      ? `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) meet this.`
-      : `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) fall short: expect an over-fitted model; use fewer parameters or a penalised fit.`);
+    summary.push(
+      enough
+        ? `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) meet this.`
+        : `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) fall short: expect an over-fitted model; use fewer parameters or a penalised fit.`,
+    );
   }
   return {
-    criteria, requiredN: bindingC.n, requiredEvents: bindingC.events, requiredEventsPerParameter: bindingC.eventsPerParameter, binding: bindingC.id,
-    r2cs: r2, r2csSource: source, maxR2cs: maxR2, summary, actual, warnings,
+    criteria,
+    requiredN: bindingC.n,
+    requiredEvents: bindingC.events,
+    requiredEventsPerParameter: bindingC.eventsPerParameter,
+    binding: bindingC.id,
+    r2cs: r2,
+    r2csSource: source,
+    maxR2cs: maxR2,
+    summary,
+    actual,
+    warnings,
   };
 }

@@ -25,23 +25,47 @@ export const FLAG_RULE = 'A case is flagged when its risk is greater than or equ
  * and optional non-negative finite weights. Throws FulcraError naming the first bad row.
  */
 export function checkScoredOutcome(y: Float64Array, s: Float64Array, weights?: Float64Array, isRisk = true): void {
-  if (y.length !== s.length) throw new FulcraError('length-mismatch', `The outcome has ${y.length} rows but the scores have ${s.length}.`);
-  if (weights && weights.length !== y.length) throw new FulcraError('length-mismatch', `The outcome has ${y.length} rows but the weights have ${weights.length}.`);
+  if (y.length !== s.length)
+    throw new FulcraError('length-mismatch', `The outcome has ${y.length} rows but the scores have ${s.length}.`);
+  if (weights && weights.length !== y.length)
+    throw new FulcraError(
+      'length-mismatch',
+      `The outcome has ${y.length} rows but the weights have ${weights.length}.`,
+    );
   for (let i = 0; i < y.length; i++) {
-    if (y[i] !== 0 && y[i] !== 1) throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`, 'Remove rows with a missing outcome first.');
+    if (y[i] !== 0 && y[i] !== 1)
+      throw new FulcraError(
+        'bad-outcome',
+        `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`,
+        'Remove rows with a missing outcome first.',
+      );
     const v = s[i];
     if (!Number.isFinite(v) || (isRisk && (v < 0 || v > 1))) {
-      throw new FulcraError('bad-score', `${isRisk ? 'Predicted risks must lie in [0, 1]' : 'Scores must be finite numbers'}; row ${i + 1} is ${v}.`, 'Remove rows with a missing prediction first.');
+      throw new FulcraError(
+        'bad-score',
+        `${isRisk ? 'Predicted risks must lie in [0, 1]' : 'Scores must be finite numbers'}; row ${i + 1} is ${v}.`,
+        'Remove rows with a missing prediction first.',
+      );
     }
-    if (weights && !(weights[i] >= 0 && Number.isFinite(weights[i]))) throw new FulcraError('bad-weight', `Weights must be finite and ≥ 0; row ${i + 1} is ${weights[i]}.`);
+    if (weights && !(weights[i] >= 0 && Number.isFinite(weights[i])))
+      throw new FulcraError('bad-weight', `Weights must be finite and ≥ 0; row ${i + 1} is ${weights[i]}.`);
   }
   if (weights && y.length > 0 && weights.every((w) => w === 0)) {
-    throw new FulcraError('bad-weight', 'Every case weight is 0, so there is nothing to evaluate.', 'Give at least one case a positive weight.');
+    throw new FulcraError(
+      'bad-weight',
+      'Every case weight is 0, so there is nothing to evaluate.',
+      'Give at least one case a positive weight.',
+    );
   }
 }
 
 /** Sorts once and accumulates counts (see PreparedThresholds). O(n log n); works for any score, not only risks. */
-export function prepareThresholds(y: Float64Array, p: Float64Array, weights?: Float64Array, isRisk = true): PreparedThresholds {
+export function prepareThresholds(
+  y: Float64Array,
+  p: Float64Array,
+  weights?: Float64Array,
+  isRisk = true,
+): PreparedThresholds {
   checkScoredOutcome(y, p, weights, isRisk);
   const n = y.length;
   let values: Float64Array;
@@ -53,7 +77,9 @@ export function prepareThresholds(y: Float64Array, p: Float64Array, weights?: Fl
     for (let i = 0; i < n; i++) m += y[i];
     const pe = new Float64Array(m);
     const pn = new Float64Array(n - m);
-    for (let i = 0, a = 0, b = 0; i < n; i++) if (y[i] === 1) pe[a++] = p[i]; else pn[b++] = p[i];
+    for (let i = 0, a = 0, b = 0; i < n; i++)
+      if (y[i] === 1) pe[a++] = p[i];
+      else pn[b++] = p[i];
     pe.sort();
     pn.sort();
     values = new Float64Array(n);
@@ -64,8 +90,14 @@ export function prepareThresholds(y: Float64Array, p: Float64Array, weights?: Fl
     while (a < pe.length || b < pn.length) {
       const v = b >= pn.length || (a < pe.length && pe[a] <= pn[b]) ? pe[a] : pn[b];
       values[k] = v;
-      while (a < pe.length && pe[a] === v) { ev[k]++; a++; }
-      while (b < pn.length && pn[b] === v) { ne[k]++; b++; }
+      while (a < pe.length && pe[a] === v) {
+        ev[k]++;
+        a++;
+      }
+      while (b < pn.length && pn[b] === v) {
+        ne[k]++;
+        b++;
+      }
       k++;
     }
   } else {
@@ -75,12 +107,13 @@ export function prepareThresholds(y: Float64Array, p: Float64Array, weights?: Fl
     values = new Float64Array(n);
     ev = new Float64Array(n);
     ne = new Float64Array(n);
-    for (let r = 0; r < n; ) {
+    for (let r = 0; r < n;) {
       const v = p[idx[r]];
       values[k] = v;
       for (; r < n && p[idx[r]] === v; r++) {
         const i = idx[r];
-        if (y[i] === 1) ev[k] += weights[i]; else ne[k] += weights[i];
+        if (y[i] === 1) ev[k] += weights[i];
+        else ne[k] += weights[i];
       }
       k++;
     }
@@ -105,7 +138,8 @@ export function firstAtOrAbove(risks: Float64Array, t: number): number {
   let hi = risks.length;
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (risks[mid] < t) lo = mid + 1; else hi = mid;
+    if (risks[mid] < t) lo = mid + 1;
+    else hi = mid;
   }
   return lo;
 }
@@ -127,15 +161,23 @@ export interface DecisionCosts {
 
 function checkCosts(c: DecisionCosts): void {
   const b = c.truePositiveBenefit ?? 0;
-  for (const [name, v] of [['falseNegative', c.falseNegative], ['falsePositive', c.falsePositive], ['truePositiveBenefit', b]] as const) {
-    if (!(v >= 0 && Number.isFinite(v))) throw new FulcraError('bad-cost', `The cost ${name} must be a finite number ≥ 0, got ${v}.`);
+  for (const [name, v] of [
+    ['falseNegative', c.falseNegative],
+    ['falsePositive', c.falsePositive],
+    ['truePositiveBenefit', b],
+  ] as const) {
+    if (!(v >= 0 && Number.isFinite(v)))
+      throw new FulcraError('bad-cost', `The cost ${name} must be a finite number ≥ 0, got ${v}.`);
   }
-  if (c.falsePositive === 0 && c.falseNegative + b === 0) throw new FulcraError('bad-cost', 'At least one cost must be greater than 0.');
+  if (c.falsePositive === 0 && c.falseNegative + b === 0)
+    throw new FulcraError('bad-cost', 'At least one cost must be greater than 0.');
 }
 
 /** Expected cost per 100 cases: 100·(C_FN·FN + C_FP·FP − B·TP)/n. */
 export function costPer100(conf: { tp: number; fp: number; fn: number }, total: number, c: DecisionCosts): number {
-  return (100 * (c.falseNegative * conf.fn + c.falsePositive * conf.fp - (c.truePositiveBenefit ?? 0) * conf.tp)) / total;
+  return (
+    (100 * (c.falseNegative * conf.fn + c.falsePositive * conf.fp - (c.truePositiveBenefit ?? 0) * conf.tp)) / total
+  );
 }
 
 export interface ThresholdMetrics {
@@ -174,9 +216,15 @@ export interface AtThresholdOptions {
  * CI of the ratio (x1/n1)/(x0/n0) of two independent proportions by the log method:
  * exp(ln LR ± z·√(1/x1 − 1/n1 + 1/x0 − 1/n0)) (Simel, Samsa & Matchar 1991); null when x1 or x0 is 0.
  */
-export function likelihoodRatioCi(x1: number, n1: number, x0: number, n0: number, level = 0.95): { lower: number; upper: number } | null {
+export function likelihoodRatioCi(
+  x1: number,
+  n1: number,
+  x0: number,
+  n0: number,
+  level = 0.95,
+): { lower: number; upper: number } | null {
   if (!(x1 > 0 && x0 > 0 && n1 >= x1 && n0 >= x0)) return null;
-  const lr = (x1 / n1) / (x0 / n0);
+  const lr = x1 / n1 / (x0 / n0);
   const se = Math.sqrt(1 / x1 - 1 / n1 + 1 / x0 - 1 / n0);
   const z = qnorm(1 - (1 - level) / 2);
   return { lower: lr * Math.exp(-z * se), upper: lr * Math.exp(z * se) };
@@ -216,7 +264,13 @@ export interface CostThresholds {
    * The threshold that minimises the expected cost on these data. Any t in (rangeLower, threshold]
    * gives the same flags. threshold is null when flagging nobody is cheapest.
    */
-  empirical: { threshold: number | null; rangeLower: number | null; expectedCostPer100: number; flagged: number; assumptions: string[] };
+  empirical: {
+    threshold: number | null;
+    rangeLower: number | null;
+    expectedCostPer100: number;
+    flagged: number;
+    assumptions: string[];
+  };
 }
 
 /** Decision-theory threshold p* = C_FP/(C_FP + C_FN + B) (e.g. Pauker & Kassirer 1980, NEJM 302:1109). */
@@ -235,7 +289,10 @@ export function costThresholds(prep: PreparedThresholds, costs: DecisionCosts): 
     const tp = prep.eventsAtOrAbove[k];
     const fp = prep.nonEventsAtOrAbove[k];
     const v = costPer100({ tp, fp, fn: prep.events - tp }, prep.total, costs);
-    if (v < best - 1e-12 * Math.abs(best)) { best = v; bestK = k; }
+    if (v < best - 1e-12 * Math.abs(best)) {
+      best = v;
+      bestK = k;
+    }
   }
   const B = costs.truePositiveBenefit ?? 0;
   return {
@@ -266,7 +323,8 @@ export function costThresholds(prep: PreparedThresholds, costs: DecisionCosts): 
 
 /** Evenly spaced thresholds from..to (inclusive) with the given step; default 0.01..0.99 by 0.01. */
 export function thresholdGrid(from = 0.01, to = 0.99, step = 0.01): Float64Array {
-  if (!(step > 0) || !(to >= from)) throw new FulcraError('bad-grid', `Bad threshold grid: from ${from} to ${to} by ${step}.`);
+  if (!(step > 0) || !(to >= from))
+    throw new FulcraError('bad-grid', `Bad threshold grid: from ${from} to ${to} by ${step}.`);
   const n = Math.floor((to - from) / step + 1e-9) + 1;
   const g = new Float64Array(n);
   for (let i = 0; i < n; i++) g[i] = Math.round((from + i * step) * 1e12) / 1e12;
@@ -274,7 +332,11 @@ export function thresholdGrid(from = 0.01, to = 0.99, step = 0.01): Float64Array
 }
 
 /** Expected cost per 100 cases at each threshold of the grid (flag rule risk ≥ t). */
-export function expectedCostCurve(prep: PreparedThresholds, costs: DecisionCosts, grid: Float64Array = thresholdGrid()): { thresholds: number[]; costPer100: number[] } {
+export function expectedCostCurve(
+  prep: PreparedThresholds,
+  costs: DecisionCosts,
+  grid: Float64Array = thresholdGrid(),
+): { thresholds: number[]; costPer100: number[] } {
   checkCosts(costs);
   const thresholds = Array.from(grid);
   return { thresholds, costPer100: thresholds.map((t) => costPer100(confusionAt(prep, t), prep.total, costs)) };

@@ -13,6 +13,9 @@ export function firthLogistic(problem: LogisticProblem, options: Partial<NewtonO
 /** ℓ*(β̂) = ℓ + ½·log det I at a Firth fit: −N·objective, N = Σ weights (no ridge penalty). */
 export function firthPenalisedLogLik(result: NewtonResult, problem: LogisticProblem): number {
   let N = problem.n;
-  if (problem.weights) { N = 0; for (const w of problem.weights) N += w; }
+  if (problem.weights) {
+    N = 0;
+    for (const w of problem.weights) N += w;
+  }
   return -N * result.objective;
 }

@@ -4,7 +4,14 @@ import { buildDesign, type Design } from '../design/design';
 import { pchisqUpper } from '../numerics/distributions';
 import { informationCriteria, nullDeviance, sandwich, waldTable } from './inference';
 import { cholesky, choleskyInverse } from '../numerics/linalg';
-import { defaultFitOptions, type CoefficientRow, type FitOptions, type FitResult, type ModelSpec, type TermRow } from '../core/model';
+import {
+  defaultFitOptions,
+  type CoefficientRow,
+  type FitOptions,
+  type FitResult,
+  type ModelSpec,
+  type TermRow,
+} from '../core/model';
 import { newtonLogistic, type LogisticProblem, type NewtonResult } from './newton';
 import { profileInterval } from './profileCi';
 import { detectSeparation } from './separation';
@@ -25,7 +32,10 @@ export const fitOptionTable: { [K in keyof EngineFitOptions]: { valid: (v: unkno
   method: { valid: (v) => v === 'ml' || v === 'ridge' || v === 'firth', expected: "'ml', 'ridge' or 'firth'" },
   lambda: { valid: (v) => typeof v === 'number' && Number.isFinite(v) && v >= 0, expected: 'a finite number ≥ 0' },
   tol: { valid: (v) => typeof v === 'number' && v > 0 && v < 1, expected: 'a number between 0 and 1' },
-  maxIter: { valid: (v) => Number.isInteger(v) && (v as number) >= 1 && (v as number) <= 10_000, expected: 'an integer from 1 to 10000' },
+  maxIter: {
+    valid: (v) => Number.isInteger(v) && (v as number) >= 1 && (v as number) <= 10_000,
+    expected: 'an integer from 1 to 10000',
+  },
   level: { valid: (v) => typeof v === 'number' && v > 0 && v < 1, expected: 'a number between 0 and 1 (e.g. 0.95)' },
   profile: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
   termTests: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
@@ -35,18 +45,28 @@ export const fitOptionTable: { [K in keyof EngineFitOptions]: { valid: (v: unkno
 export function validateFitOptions(options: Partial<EngineFitOptions> = {}): EngineFitOptions {
   for (const key of Object.keys(options)) {
     if (!(key in fitOptionTable)) {
-      throw new FulcraError('bad-option', `Unknown fit option "${key}". Known options: ${Object.keys(fitOptionTable).join(', ')}.`);
+      throw new FulcraError(
+        'bad-option',
+        `Unknown fit option "${key}". Known options: ${Object.keys(fitOptionTable).join(', ')}.`,
+      );
     }
   }
   const o = { ...defaultEngineFitOptions, ...options };
   for (const key of Object.keys(fitOptionTable) as (keyof EngineFitOptions)[]) {
     const v = o[key];
     if (!fitOptionTable[key].valid(v)) {
-      throw new FulcraError('bad-option', `Fit option ${key} = ${JSON.stringify(v)} is not valid; expected ${fitOptionTable[key].expected}.`);
+      throw new FulcraError(
+        'bad-option',
+        `Fit option ${key} = ${JSON.stringify(v)} is not valid; expected ${fitOptionTable[key].expected}.`,
+      );
     }
   }
   if (o.method === 'ridge' && !(o.lambda > 0)) {
-    throw new FulcraError('bad-option', `Ridge needs lambda > 0, got ${o.lambda}.`, 'Set lambda, or use method "ml" for an unpenalised fit.');
+    throw new FulcraError(
+      'bad-option',
+      `Ridge needs lambda > 0, got ${o.lambda}.`,
+      'Set lambda, or use method "ml" for an unpenalised fit.',
+    );
   }
   return o;
 }
@@ -114,8 +134,14 @@ export function originalScaleBeta(prep: PreparedFit, betaKept: ArrayLike<number>
 function constrainedStat(prep: PreparedFit, nr: NewtonResult, zero: number[], o: FitOptions): number {
   const fixed = new Uint8Array(prep.problem.p);
   const start = Float64Array.from(nr.beta);
-  for (const k of zero) { fixed[k] = 1; start[k] = 0; }
-  const r = newtonLogistic({ ...prep.problem, fixed, start }, { tol: Math.min(o.tol, 1e-12), maxIter: Math.max(o.maxIter, 100), information: false });
+  for (const k of zero) {
+    fixed[k] = 1;
+    start[k] = 0;
+  }
+  const r = newtonLogistic(
+    { ...prep.problem, fixed, start },
+    { tol: Math.min(o.tol, 1e-12), maxIter: Math.max(o.maxIter, 100), information: false },
+  );
   return Math.max(0, 2 * prep.problem.n * (r.objective - nr.objective));
 }
 
@@ -140,16 +166,26 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const sepCols = new Set(sep.columns.map((k) => keep[k]));
   if (sep.kind !== 'none') {
     const terms = [...new Set([...sepCols].map((j) => columnTerms[j]))];
-    const what = sep.kind === 'complete' ? 'complete separation: the predictors split events from non-events perfectly'
-      : `quasi-complete separation: ${sep.determinedRows} of ${n} rows are predicted perfectly`;
-    warnings.push(warning(
-      sep.kind === 'complete' ? 'complete-separation' : 'quasi-separation',
-      `The data show ${what}, so the maximum-likelihood estimates for ${terms.map((t) => `"${t}"`).join(', ')} do not exist (they grow without bound); the values shown for them are where the iterations stopped and have no standard errors.`,
-      'Refit with the Firth method (bias-reduced, finite estimates) or a ridge penalty, or merge sparse categories.',
-      terms,
-    ));
+    const what =
+      sep.kind === 'complete'
+        ? 'complete separation: the predictors split events from non-events perfectly'
+        : `quasi-complete separation: ${sep.determinedRows} of ${n} rows are predicted perfectly`;
+    warnings.push(
+      warning(
+        sep.kind === 'complete' ? 'complete-separation' : 'quasi-separation',
+        `The data show ${what}, so the maximum-likelihood estimates for ${terms.map((t) => `"${t}"`).join(', ')} do not exist (they grow without bound); the values shown for them are where the iterations stopped and have no standard errors.`,
+        'Refit with the Firth method (bias-reduced, finite estimates) or a ridge penalty, or merge sparse categories.',
+        terms,
+      ),
+    );
   } else if (!nr.converged) {
-    warnings.push(warning('not-converged', `The fit did not converge in ${o.maxIter} iterations.`, 'Increase the iteration limit, or check for extreme or nearly duplicated predictors.'));
+    warnings.push(
+      warning(
+        'not-converged',
+        `The fit did not converge in ${o.maxIter} iterations.`,
+        'Increase the iteration limit, or check for extreme or nearly duplicated predictors.',
+      ),
+    );
   }
 
   const beta = originalScaleBeta(prep, nr.beta);
@@ -169,34 +205,56 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const profiles: ({ lower: number | null; upper: number | null } | null)[] = new Array(p).fill(null);
   if (o.profile && covariance && sep.kind === 'none') {
     keep.forEach((j, k) => {
-      if (j > 0) profiles[j] = profileInterval({ problem, beta: nr.beta, objective: nr.objective, index: k, scale: std.scale[j], estimate: beta[j], se: wald[j]?.se ?? NaN }, o.level);
+      if (j > 0)
+        profiles[j] = profileInterval(
+          {
+            problem,
+            beta: nr.beta,
+            objective: nr.objective,
+            index: k,
+            scale: std.scale[j],
+            estimate: beta[j],
+            se: wald[j]?.se ?? NaN,
+          },
+          o.level,
+        );
     });
     // The original intercept is a coordinate only of the uncentred design: shift the columns back in place
     // (x/s = z + m/s), profile coordinate 0, then centre them again.
     const Zk = problem.X;
-    const shift = (sign: 1 | -1) => keep.forEach((j, k) => {
-      if (j === 0) return;
-      const c = sign * std.centerOverScale[j];
-      for (let i = 0; i < n; i++) Zk[k * n + i] += c;
-    });
+    const shift = (sign: 1 | -1) =>
+      keep.forEach((j, k) => {
+        if (j === 0) return;
+        const c = sign * std.centerOverScale[j];
+        for (let i = 0; i < n; i++) Zk[k * n + i] += c;
+      });
     shift(1);
     try {
       const b0 = Float64Array.from(nr.beta);
       b0[0] = beta[0];
-      profiles[0] = profileInterval({ problem, beta: b0, objective: nr.objective, index: 0, scale: 1, estimate: beta[0], se: wald[0]?.se ?? NaN }, o.level);
+      profiles[0] = profileInterval(
+        { problem, beta: b0, objective: nr.objective, index: 0, scale: 1, estimate: beta[0], se: wald[0]?.se ?? NaN },
+        o.level,
+      );
     } finally {
       shift(-1);
     }
   }
 
   const coefficients: CoefficientRow[] = columnNames.map((name, j) => {
-    const w = sepCols.has(j) ? null : wald[j] ?? null;
+    const w = sepCols.has(j) ? null : (wald[j] ?? null);
     const or = Math.exp(beta[j]);
     return {
-      name, term: columnTerms[j], estimate: beta[j],
-      se: w?.se ?? null, z: w?.z ?? null, p: w?.p ?? null,
-      waldLower: w?.lower ?? null, waldUpper: w?.upper ?? null,
-      profileLower: profiles[j]?.lower ?? null, profileUpper: profiles[j]?.upper ?? null,
+      name,
+      term: columnTerms[j],
+      estimate: beta[j],
+      se: w?.se ?? null,
+      z: w?.z ?? null,
+      p: w?.p ?? null,
+      waldLower: w?.lower ?? null,
+      waldUpper: w?.upper ?? null,
+      profileLower: profiles[j]?.lower ?? null,
+      profileUpper: profiles[j]?.upper ?? null,
       oddsRatio: Number.isFinite(or) ? or : Number.MAX_VALUE,
       aliased: prep.aliased[j],
     };
@@ -205,7 +263,8 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const kIndex = new Map(keep.map((j, k) => [j, k]));
   const terms: TermRow[] = design.termColumns.map((t) => {
     const kept = t.columns.filter((j) => kIndex.has(j)).map((j) => kIndex.get(j)!);
-    if (ridge || !o.termTests || kept.length === 0) return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
+    if (ridge || !o.termTests || kept.length === 0)
+      return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
     const chi2 = constrainedStat(prep, nr, kept, o);
     return { name: t.name, columns: t.columns, df: kept.length, lrChi2: chi2, lrP: pchisqUpper(chi2, kept.length) };
   });
@@ -214,7 +273,13 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const nullDev = nullDeviance(y);
   const modelDf = pk - 1;
   let modelLrChi2 = Math.max(0, nullDev - deviance);
-  if (o.method === 'firth' && modelDf > 0) modelLrChi2 = constrainedStat(prep, nr, Array.from({ length: modelDf }, (_, k) => k + 1), o);
+  if (o.method === 'firth' && modelDf > 0)
+    modelLrChi2 = constrainedStat(
+      prep,
+      nr,
+      Array.from({ length: modelDf }, (_, k) => k + 1),
+      o,
+    );
   const modelLrP = modelDf > 0 ? pchisqUpper(modelLrChi2, modelDf) : 1;
   const { aic, bic } = informationCriteria(deviance, pk, n);
 
@@ -225,23 +290,55 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const parameters = pk - 1;
   const eventsPerParameter = minority / Math.max(parameters, 1);
   if (minority < parameters) {
-    warnings.push(warning('few-events', `There are ${minority} ${events <= nonEvents ? 'events' : 'non-events'} for ${parameters} estimated coefficients; the model cannot be estimated reliably.`, 'Use fewer predictors (or fewer categories/knots), or the Firth or ridge method.'));
+    warnings.push(
+      warning(
+        'few-events',
+        `There are ${minority} ${events <= nonEvents ? 'events' : 'non-events'} for ${parameters} estimated coefficients; the model cannot be estimated reliably.`,
+        'Use fewer predictors (or fewer categories/knots), or the Firth or ridge method.',
+      ),
+    );
   } else if (eventsPerParameter < 10) {
-    warnings.push(warning('low-events-per-parameter', `${eventsPerParameter.toFixed(1)} ${events <= nonEvents ? 'events' : 'non-events'} per estimated coefficient (fewer than the common rule of thumb of 10); estimates may be biased away from zero and the model may be overfitted.`, 'Consider fewer predictors, Firth\'s method, or a ridge penalty, and validate internally.'));
+    warnings.push(
+      warning(
+        'low-events-per-parameter',
+        `${eventsPerParameter.toFixed(1)} ${events <= nonEvents ? 'events' : 'non-events'} per estimated coefficient (fewer than the common rule of thumb of 10); estimates may be biased away from zero and the model may be overfitted.`,
+        "Consider fewer predictors, Firth's method, or a ridge penalty, and validate internally.",
+      ),
+    );
   }
   if (ridge) {
-    warnings.push(warning('penalised-no-inference', `Ridge estimates (λ = ${o.lambda.toPrecision(4)}) are shrunk towards zero on purpose, so standard errors, p-values, confidence intervals, likelihood-ratio tests and AIC/BIC are not valid and are not shown.`, 'Use bootstrap validation to judge the model, or refit with maximum likelihood or Firth for an inference table.'));
+    warnings.push(
+      warning(
+        'penalised-no-inference',
+        `Ridge estimates (λ = ${o.lambda.toPrecision(4)}) are shrunk towards zero on purpose, so standard errors, p-values, confidence intervals, likelihood-ratio tests and AIC/BIC are not valid and are not shown.`,
+        'Use bootstrap validation to judge the model, or refit with maximum likelihood or Firth for an inference table.',
+      ),
+    );
   }
 
   return {
-    method: o.method, lambda: ridge ? o.lambda : 0, level: o.level,
-    converged: nr.converged, iterations: nr.iterations,
-    coefficients, terms,
-    deviance, nullDeviance: nullDev, logLik: nr.logLik,
-    aic: ridge ? null : aic, bic: ridge ? null : bic,
-    modelLrChi2: ridge ? null : modelLrChi2, modelDf, modelLrP: ridge ? null : modelLrP,
-    nUsed: n, nDropped: design.nDropped, droppedByColumn: design.droppedByColumn,
-    events, nonEvents, parameters, eventsPerParameter,
+    method: o.method,
+    lambda: ridge ? o.lambda : 0,
+    level: o.level,
+    converged: nr.converged,
+    iterations: nr.iterations,
+    coefficients,
+    terms,
+    deviance,
+    nullDeviance: nullDev,
+    logLik: nr.logLik,
+    aic: ridge ? null : aic,
+    bic: ridge ? null : bic,
+    modelLrChi2: ridge ? null : modelLrChi2,
+    modelDf,
+    modelLrP: ridge ? null : modelLrP,
+    nUsed: n,
+    nDropped: design.nDropped,
+    droppedByColumn: design.droppedByColumn,
+    events,
+    nonEvents,
+    parameters,
+    eventsPerParameter,
     covariance: covariance ? Array.from(covariance) : null,
     recipe: design.recipe,
     warnings,

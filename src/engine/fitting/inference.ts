@@ -40,16 +40,19 @@ export function informationCriteria(deviance: number, k: number, n: number): { a
 
 /** V = A·B·A' for row-major p×p A and B. */
 export function sandwich(A: Float64Array, B: ArrayLike<number>, p: number): Float64Array {
-  const AB = new Float64Array(p * p), out = new Float64Array(p * p);
-  for (let i = 0; i < p; i++) for (let k = 0; k < p; k++) {
-    const a = A[i * p + k];
-    if (a === 0) continue;
-    for (let j = 0; j < p; j++) AB[i * p + j] += a * B[k * p + j];
-  }
-  for (let i = 0; i < p; i++) for (let j = 0; j < p; j++) {
-    let s = 0;
-    for (let k = 0; k < p; k++) s += AB[i * p + k] * A[j * p + k];
-    out[i * p + j] = s;
-  }
+  const AB = new Float64Array(p * p),
+    out = new Float64Array(p * p);
+  for (let i = 0; i < p; i++)
+    for (let k = 0; k < p; k++) {
+      const a = A[i * p + k];
+      if (a === 0) continue;
+      for (let j = 0; j < p; j++) AB[i * p + j] += a * B[k * p + j];
+    }
+  for (let i = 0; i < p; i++)
+    for (let j = 0; j < p; j++) {
+      let s = 0;
+      for (let k = 0; k < p; k++) s += AB[i * p + k] * A[j * p + k];
+      out[i * p + j] = s;
+    }
   return out;
 }

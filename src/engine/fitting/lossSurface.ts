@@ -51,15 +51,22 @@ export const SURFACE_WORK_LIMIT = 5e8;
  * coefficients around the estimate, the others held at their estimates, with the Newton path from the zero start
  * re-run on the same data and projected on the pair. Coefficients on the original scale.
  */
-export function lossSurface(result: FitResult, data: Dataset, options: Partial<LossSurfaceOptions> & { i: number; j: number }): LossSurface {
+export function lossSurface(
+  result: FitResult,
+  data: Dataset,
+  options: Partial<LossSurfaceOptions> & { i: number; j: number },
+): LossSurface {
   const { i, j, grid = 41, span = 3 } = options;
   const coefs = result.coefficients;
   for (const k of [i, j]) {
-    if (!Number.isInteger(k) || k < 0 || k >= coefs.length) throw new FulcraError('bad-argument', `Coefficient index ${k} is out of range 0–${coefs.length - 1}.`);
-    if (coefs[k].aliased) throw new FulcraError('bad-argument', `"${coefs[k].name}" is aliased and has no estimate to vary.`);
+    if (!Number.isInteger(k) || k < 0 || k >= coefs.length)
+      throw new FulcraError('bad-argument', `Coefficient index ${k} is out of range 0–${coefs.length - 1}.`);
+    if (coefs[k].aliased)
+      throw new FulcraError('bad-argument', `"${coefs[k].name}" is aliased and has no estimate to vary.`);
   }
   if (i === j) throw new FulcraError('bad-argument', 'Choose two different coefficients.');
-  if (!Number.isInteger(grid) || grid < 3 || grid > 201) throw new FulcraError('bad-argument', `grid must be an integer from 3 to 201, got ${grid}.`);
+  if (!Number.isInteger(grid) || grid < 3 || grid > 201)
+    throw new FulcraError('bad-argument', `grid must be an integer from 3 to 201, got ${grid}.`);
   if (!(span > 0)) throw new FulcraError('bad-argument', `span must be > 0, got ${span}.`);
 
   const d = designFromRecipe(result.recipe, data);
@@ -72,13 +79,23 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   keep.forEach((c, k) => Zk.set(Z.subarray(c * n, (c + 1) * n), k * n));
   const ridge = result.method === 'ridge';
   const nr = newtonLogistic(
-    { X: Zk, n, p: keep.length, y, firth: result.method === 'firth', penalty: ridge ? Float64Array.from(keep, (c) => (c === 0 ? 0 : result.lambda)) : undefined },
+    {
+      X: Zk,
+      n,
+      p: keep.length,
+      y,
+      firth: result.method === 'firth',
+      penalty: ridge ? Float64Array.from(keep, (c) => (c === 0 ? 0 : result.lambda)) : undefined,
+    },
     { recordPath: true, maxIter: Math.max(result.iterations, 1) },
   );
   const toOriginal = (bk: Float64Array): [number, number] => {
     const full = new Float64Array(p);
     keep.forEach((c, k) => (full[c] = bk[k]));
-    const orig = (c: number) => (c === 0 ? full[0] - full.reduce((s, b, m) => (m === 0 || b === 0 ? s : s + b * centerOverScale[m]), 0) : full[c] / scale[c]);
+    const orig = (c: number) =>
+      c === 0
+        ? full[0] - full.reduce((s, b, m) => (m === 0 || b === 0 ? s : s + b * centerOverScale[m]), 0)
+        : full[c] / scale[c];
     return [orig(i), orig(j)];
   };
   const pts = [toOriginal(new Float64Array(keep.length)), ...(nr.path ?? []).map(toOriginal)];
@@ -91,20 +108,30 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   // Firth's penalty −½·log det(X'WX)/n needs X'WX at every grid point: only within a work budget.
   const firth = result.method === 'firth' && n * pk * pk * grid * grid <= 3e8;
   const w = firth ? new Float64Array(n) : null;
-  const info = new Float64Array(pk * pk), work = new Float64Array(1024);
+  const info = new Float64Array(pk * pk),
+    work = new Float64Array(1024);
   // Only η̂, xᵢ, xⱼ and y are needed per row: on every row, or on an evenly spaced subsample for big grids
   // (never for Firth, whose budget above is far smaller).
-  const m = n * grid * grid > SURFACE_WORK_LIMIT ? Math.min(n, Math.max(20_000, Math.floor(SURFACE_WORK_LIMIT / (grid * grid)))) : n;
-  let ev = etaBase, Xi = X.subarray(i * n, (i + 1) * n), Xj = X.subarray(j * n, (j + 1) * n), yv = y;
+  const m =
+    n * grid * grid > SURFACE_WORK_LIMIT
+      ? Math.min(n, Math.max(20_000, Math.floor(SURFACE_WORK_LIMIT / (grid * grid))))
+      : n;
+  let ev = etaBase,
+    Xi = X.subarray(i * n, (i + 1) * n),
+    Xj = X.subarray(j * n, (j + 1) * n),
+    yv = y;
   // Subsample z = value and slope at the estimate from every row + the subsample's change beyond the linear term:
   // shift[0] + shift[1]·(bᵢ − β̂ᵢ) + shift[2]·(bⱼ − β̂ⱼ) is added, so the grid's minimum stays at the estimate.
   const shift = [0, 0, 0];
   if (m < n) {
     const moments = (e: Float64Array, a: Float64Array, b: Float64Array, yy: Float64Array): number[] => {
-      const k = e.length, v = [0, 0, 0];
+      const k = e.length,
+        v = [0, 0, 0];
       for (let r = 0; r < k; r++) {
         const res = sigmoid(e[r]) - yy[r];
-        v[0] += caseLoss(e[r], yy[r]); v[1] += res * a[r]; v[2] += res * b[r];
+        v[0] += caseLoss(e[r], yy[r]);
+        v[1] += res * a[r];
+        v[2] += res * b[r];
       }
       return v.map((t) => t / k);
     };
@@ -118,7 +145,8 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   const shifted = (bi: number, bj: number): number => shift[0] + shift[1] * (bi - beta[i]) + shift[2] * (bj - beta[j]);
   /** Σ case losses over the m rows with coefficients i, j at (bi, bj), the others at their estimates; fills w for Firth. */
   const lossSum = (bi: number, bj: number): number => {
-    const di = bi - beta[i], dj = bj - beta[j];
+    const di = bi - beta[i],
+      dj = bj - beta[j];
     let s = 0;
     for (let r = 0; r < m; r++) {
       const e = ev[r] + di * Xi[r] + dj * Xj[r];
@@ -128,7 +156,9 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
     return s;
   };
   const penalty = (bi: number, bj: number): number =>
-    (ridge ? 0.5 * result.lambda * (penBase + (i > 0 ? (bi * scale[i]) ** 2 : 0) + (j > 0 ? (bj * scale[j]) ** 2 : 0)) : 0);
+    ridge
+      ? 0.5 * result.lambda * (penBase + (i > 0 ? (bi * scale[i]) ** 2 : 0) + (j > 0 ? (bj * scale[j]) ** 2 : 0))
+      : 0;
   const objective = (bi: number, bj: number): number => {
     const s = lossSum(bi, bj);
     let pen = penalty(bi, bj);
@@ -139,18 +169,31 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
   for (let r = 0; r < m && binary; r++) binary = yv[r] === 0 || yv[r] === 1;
   const axis = (k: number, c: 0 | 1): number[] => {
     const se = coefs[k].se ?? Math.max(0.5 * Math.abs(beta[k]), k === 0 ? 0.5 : 0.5 / scale[k]);
-    let lo = beta[k] - span * se, hi = beta[k] + span * se;
-    for (const pt of pts) { lo = Math.min(lo, pt[c]); hi = Math.max(hi, pt[c]); }
+    let lo = beta[k] - span * se,
+      hi = beta[k] + span * se;
+    for (const pt of pts) {
+      lo = Math.min(lo, pt[c]);
+      hi = Math.max(hi, pt[c]);
+    }
     const pad = 0.05 * (hi - lo);
-    lo -= pad; hi += pad;
+    lo -= pad;
+    hi += pad;
     return Array.from({ length: grid }, (_, g) => lo + ((hi - lo) * g) / (grid - 1));
   };
-  const x = axis(i, 0), yy = axis(j, 1);
+  const x = axis(i, 0),
+    yy = axis(j, 1);
   const z: number[] = [];
   if (firth || !binary) {
     for (const bj of yy) for (const bi of x) z.push(objective(bi, bj));
   } else {
-    const sums = gridLossSums(ev, Xi, Xj, yv, x.map((v) => v - beta[i]), yy.map((v) => v - beta[j]));
+    const sums = gridLossSums(
+      ev,
+      Xi,
+      Xj,
+      yv,
+      x.map((v) => v - beta[i]),
+      yy.map((v) => v - beta[j]),
+    );
     for (let a = 0; a < grid; a++) {
       for (let b = 0; b < grid; b++) {
         let v = sums[a * grid + b];
@@ -160,11 +203,17 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
     }
   }
   return {
-    nameX: coefs[i].name, nameY: coefs[j].name, x, y: yy, z,
-    estimate: [beta[i], beta[j]], minimum: objective(beta[i], beta[j]),
+    nameX: coefs[i].name,
+    nameY: coefs[j].name,
+    x,
+    y: yy,
+    z,
+    estimate: [beta[i], beta[j]],
+    minimum: objective(beta[i], beta[j]),
     path: { x: pts.map((q) => q[0]), y: pts.map((q) => q[1]) },
     objective: ridge ? 'cross-entropy+ridge' : firth ? 'cross-entropy+firth' : 'cross-entropy',
-    rowsUsed: m, subsampled: m < n,
+    rowsUsed: m,
+    subsampled: m < n,
   };
 }
 
@@ -174,17 +223,24 @@ export function lossSurface(result: FitResult, data: Dataset, options: Partial<L
  * (directly when an end could overflow).
  */
 function geometric(out: Float64Array, o: number, e0: number, d: number[], u: number): void {
-  const G = d.length, h = G > 1 ? (d[G - 1] - d[0]) / (G - 1) : 0;
+  const G = d.length,
+    h = G > 1 ? (d[G - 1] - d[0]) / (G - 1) : 0;
   if (!(Math.abs(e0) + Math.max(Math.abs(d[0]), Math.abs(d[G - 1])) * Math.abs(u) < 700)) {
     for (let k = 0; k < G; k++) out[o + k] = Math.exp(e0 + d[k] * u); // an end overflows: one exp each
   } else if (h * u >= 0) {
     const ratio = Math.exp(-h * u);
     let v = Math.exp(e0 + d[G - 1] * u);
-    for (let k = G - 1; k >= 0; k--) { out[o + k] = v; v *= ratio; }
+    for (let k = G - 1; k >= 0; k--) {
+      out[o + k] = v;
+      v *= ratio;
+    }
   } else {
     const ratio = Math.exp(h * u);
     let v = Math.exp(e0 + d[0] * u);
-    for (let k = 0; k < G; k++) { out[o + k] = v; v *= ratio; }
+    for (let k = 0; k < G; k++) {
+      out[o + k] = v;
+      v *= ratio;
+    }
   }
 }
 
@@ -195,24 +251,50 @@ function geometric(out: Float64Array, o: number, e0: number, d: number[], u: num
  * passes 1e200, and at the end). da and db must be evenly spaced. Row-major G×G over (db index, da index); a point
  * where a factor overflowed is NaN or ±Infinity (the caller sums that point directly).
  */
-export function gridLossSums(eta: Float64Array, xi: Float64Array, xj: Float64Array, y: Float64Array, da: number[], db: number[]): Float64Array {
-  const n = eta.length, Ga = da.length, Gb = db.length;
-  const prod = new Float64Array(Ga * Gb).fill(1), logs = new Float64Array(Ga * Gb);
+export function gridLossSums(
+  eta: Float64Array,
+  xi: Float64Array,
+  xj: Float64Array,
+  y: Float64Array,
+  da: number[],
+  db: number[],
+): Float64Array {
+  const n = eta.length,
+    Ga = da.length,
+    Gb = db.length;
+  const prod = new Float64Array(Ga * Gb).fill(1),
+    logs = new Float64Array(Ga * Gb);
   // four rows at a time: P[t·Ga + a] = Fᵣ·Pᵣ[a], Q[t·Gb + b] = Qᵣ[b] for the rows r0 + t
-  const P = new Float64Array(4 * Ga), Q = new Float64Array(4 * Gb);
+  const P = new Float64Array(4 * Ga),
+    Q = new Float64Array(4 * Gb);
   for (let r0 = 0; r0 < n; r0 += 4) {
     const m = Math.min(4, n - r0);
     for (let t = 0; t < 4; t++) {
-      if (t >= m) { P.fill(0, t * Ga, (t + 1) * Ga); Q.fill(0, t * Gb, (t + 1) * Gb); continue; }
-      const r = r0 + t, s = y[r] === 1 ? -1 : 1;
+      if (t >= m) {
+        P.fill(0, t * Ga, (t + 1) * Ga);
+        Q.fill(0, t * Gb, (t + 1) * Gb);
+        continue;
+      }
+      const r = r0 + t,
+        s = y[r] === 1 ? -1 : 1;
       geometric(P, t * Ga, s * eta[r], da, s * xi[r]);
       geometric(Q, t * Gb, 0, db, s * xj[r]);
     }
     for (let b = 0; b < Gb; b++) {
-      const q0 = Q[b], q1 = Q[Gb + b], q2 = Q[2 * Gb + b], q3 = Q[3 * Gb + b], o = b * Ga;
+      const q0 = Q[b],
+        q1 = Q[Gb + b],
+        q2 = Q[2 * Gb + b],
+        q3 = Q[3 * Gb + b],
+        o = b * Ga;
       for (let a = 0; a < Ga; a++) {
-        const v = prod[o + a] * ((1 + P[a] * q0) * (1 + P[Ga + a] * q1)) * ((1 + P[2 * Ga + a] * q2) * (1 + P[3 * Ga + a] * q3));
-        if (v > 1e200) { logs[o + a] += Math.log(v); prod[o + a] = 1; } else prod[o + a] = v;
+        const v =
+          prod[o + a] *
+          ((1 + P[a] * q0) * (1 + P[Ga + a] * q1)) *
+          ((1 + P[2 * Ga + a] * q2) * (1 + P[3 * Ga + a] * q3));
+        if (v > 1e200) {
+          logs[o + a] += Math.log(v);
+          prod[o + a] = 1;
+        } else prod[o + a] = v;
       }
     }
   }

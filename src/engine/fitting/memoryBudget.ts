@@ -41,12 +41,15 @@ export type BudgetCheck =
   | { ok: false; code: 'too-big'; message: string; suggestion: string; needed: number; available: number };
 
 function estimate(job: MemoryEstimate['job'], rows: number, columns: number, parts: MemoryPart[]): MemoryEstimate {
-  const all = [...parts, { label: 'working overhead', bytes: OVERHEAD }].filter((p) => p.bytes > 0).sort((a, b) => b.bytes - a.bytes);
+  const all = [...parts, { label: 'working overhead', bytes: OVERHEAD }]
+    .filter((p) => p.bytes > 0)
+    .sort((a, b) => b.bytes - a.bytes);
   return { job, rows, columns, bytes: all.reduce((s, p) => s + p.bytes, 0), parts: all };
 }
 
 function checkCount(name: string, v: number, min = 0): void {
-  if (!(Number.isFinite(v) && v >= min)) throw new FulcraError('bad-argument', `${name} must be a finite number ≥ ${min}, got ${v}.`);
+  if (!(Number.isFinite(v) && v >= min))
+    throw new FulcraError('bad-argument', `${name} must be a finite number ≥ ${min}, got ${v}.`);
 }
 
 /** What a sample from the start of a file says about its shape. */
@@ -69,7 +72,11 @@ const DELIMITERS = [',', ';', '\t', '|'];
  * ends outside quotes (a final partial line is not counted unless the sample is the whole file); the delimiter is
  * the candidate giving the most fields on the widest line. `fileBytes` is the size of the whole file.
  */
-export function sampleShape(sample: string, fileBytes: number, sampleBytes = Math.min(fileBytes, sample.length)): ImportShape {
+export function sampleShape(
+  sample: string,
+  fileBytes: number,
+  sampleBytes = Math.min(fileBytes, sample.length),
+): ImportShape {
   checkCount('fileBytes', fileBytes);
   checkCount('sampleBytes', sampleBytes);
   const counts = new Map(DELIMITERS.map((d) => [d, 0]));
@@ -85,7 +92,10 @@ export function sampleShape(sample: string, fileBytes: number, sampleBytes = Mat
       if (c === '\r' && sample[i + 1] === '\n') i++;
       rows++;
       last = i + 1;
-      for (const d of DELIMITERS) { widest.set(d, Math.max(widest.get(d)!, counts.get(d)! + 1)); counts.set(d, 0); }
+      for (const d of DELIMITERS) {
+        widest.set(d, Math.max(widest.get(d)!, counts.get(d)! + 1));
+        counts.set(d, 0);
+      }
     }
   }
   if (sampleBytes >= fileBytes && last < sample.length) {
@@ -193,7 +203,10 @@ export function availableBytes(): number {
 
 /** "3.1 GB", "2 GB", "740 MB": binary units, as operating systems show memory; at most one decimal below 10 GB. */
 export function formatBytes(b: number): string {
-  if (b >= GiB) { const g = b / GiB; return `${g < 10 ? +g.toFixed(1) : Math.round(g)} GB`; }
+  if (b >= GiB) {
+    const g = b / GiB;
+    return `${g < 10 ? +g.toFixed(1) : Math.round(g)} GB`;
+  }
   if (b >= MiB) return `${Math.max(1, Math.round(b / MiB))} MB`;
   return `${Math.max(1, Math.round(b / 1024))} KB`;
 }
@@ -210,14 +223,18 @@ export function checkBudget(est: MemoryEstimate, available: number = availableBy
   const what = est.job === 'import' ? 'This file needs' : 'This model needs';
   const doing = est.job === 'import' ? 'to open' : 'to fit and check';
   const message = `${what} about ${formatBytes(needed)} of memory ${doing}; the tab can use about ${formatBytes(available)}.`;
-  const fixed = est.parts.filter((p) => p.label === 'working overhead' || p.label === 'the file itself').reduce((s, p) => s + p.bytes, 0);
+  const fixed = est.parts
+    .filter((p) => p.label === 'working overhead' || p.label === 'the file itself')
+    .reduce((s, p) => s + p.bytes, 0);
   const share = Math.max(0, Math.min(1, (available - fixed) / Math.max(1, needed - fixed)));
   const rowsFit = Math.floor(share * est.rows * 0.9);
-  const sample = rowsFit > 0 && est.rows > 0
-    ? `a random sample of about ${rowsFit.toLocaleString('en-US')} of the ${est.rows.toLocaleString('en-US')} rows`
-    : 'a random sample of the rows';
-  const suggestion = est.job === 'import'
-    ? `Save a copy of the file with only the columns you need, or with ${sample}, and open that.`
-    : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), turn off profile intervals, or fit on ${sample}.`;
+  const sample =
+    rowsFit > 0 && est.rows > 0
+      ? `a random sample of about ${rowsFit.toLocaleString('en-US')} of the ${est.rows.toLocaleString('en-US')} rows`
+      : 'a random sample of the rows';
+  const suggestion =
+    est.job === 'import'
+      ? `Save a copy of the file with only the columns you need, or with ${sample}, and open that.`
+      : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), turn off profile intervals, or fit on ${sample}.`;
   return { ok: false, code: 'too-big', message, suggestion, needed, available };
 }

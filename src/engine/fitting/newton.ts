@@ -74,15 +74,30 @@ function validate(pr: LogisticProblem): void {
   if (!Number.isInteger(p) || p < 1) throw new FulcraError('bad-argument', `p must be a positive integer, got ${p}.`);
   if (X.length !== n * p) throw new FulcraError('bad-argument', `X has length ${X.length}, expected n·p = ${n * p}.`);
   if (y.length !== n) throw new FulcraError('bad-argument', `y has length ${y.length}, expected n = ${n}.`);
-  for (const [name, a, len] of [['weights', pr.weights, n], ['offset', pr.offset, n], ['penalty', pr.penalty, p], ['start', pr.start, p], ['fixed', pr.fixed, p]] as const) {
-    if (a && a.length !== len) throw new FulcraError('bad-argument', `${name} has length ${a.length}, expected ${len}.`);
-    if (a) for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i])) throw new FulcraError('bad-argument', `${name}[${i}] is ${a[i]}; it must be finite.`);
+  for (const [name, a, len] of [
+    ['weights', pr.weights, n],
+    ['offset', pr.offset, n],
+    ['penalty', pr.penalty, p],
+    ['start', pr.start, p],
+    ['fixed', pr.fixed, p],
+  ] as const) {
+    if (a && a.length !== len)
+      throw new FulcraError('bad-argument', `${name} has length ${a.length}, expected ${len}.`);
+    if (a)
+      for (let i = 0; i < a.length; i++)
+        if (!Number.isFinite(a[i]))
+          throw new FulcraError('bad-argument', `${name}[${i}] is ${a[i]}; it must be finite.`);
   }
   for (let i = 0; i < n; i++) {
-    if (!(y[i] >= 0 && y[i] <= 1)) throw new FulcraError('bad-argument', `y[${i}] is ${y[i]}; the outcome must be 0 or 1.`);
-    if (pr.weights && pr.weights[i] < 0) throw new FulcraError('bad-argument', `weights[${i}] is ${pr.weights[i]}; weights must be ≥ 0.`);
+    if (!(y[i] >= 0 && y[i] <= 1))
+      throw new FulcraError('bad-argument', `y[${i}] is ${y[i]}; the outcome must be 0 or 1.`);
+    if (pr.weights && pr.weights[i] < 0)
+      throw new FulcraError('bad-argument', `weights[${i}] is ${pr.weights[i]}; weights must be ≥ 0.`);
   }
-  if (pr.penalty) for (let j = 0; j < p; j++) if (pr.penalty[j] < 0) throw new FulcraError('bad-argument', `penalty[${j}] is ${pr.penalty[j]}; it must be ≥ 0.`);
+  if (pr.penalty)
+    for (let j = 0; j < p; j++)
+      if (pr.penalty[j] < 0)
+        throw new FulcraError('bad-argument', `penalty[${j}] is ${pr.penalty[j]}; it must be ≥ 0.`);
   // X itself is checked by the first pass over it (see createWorkspace), not by a pass of its own.
 }
 
@@ -96,7 +111,11 @@ function checkFirstPass(pr: LogisticProblem, loss: number, g: Float64Array): voi
   if (probe === 0) return;
   const { X, n, p } = pr;
   for (let k = 0; k < n * p; k++) {
-    if (!Number.isFinite(X[k])) throw new FulcraError('bad-argument', `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`);
+    if (!Number.isFinite(X[k]))
+      throw new FulcraError(
+        'bad-argument',
+        `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`,
+      );
   }
 }
 
@@ -134,12 +153,21 @@ type Workspace = ReturnType<typeof createWorkspace>;
 function createWorkspace(pr: LogisticProblem, N: number) {
   const { X, n, p, y, weights: c, offset, penalty, firth = false } = pr;
   const passes = createRowPasses(X, n, p, y, c, offset);
-  const Lwork = new Float64Array(p * p), dropWork = new Uint8Array(p);
-  const Linv = firth ? new Float64Array(p * p) : null, buf = new Float64Array(1024);
-  const fr = firth ? new Float64Array(n) : null, fg = new Float64Array(p);
+  const Lwork = new Float64Array(p * p),
+    dropWork = new Uint8Array(p);
+  const Linv = firth ? new Float64Array(p * p) : null,
+    buf = new Float64Array(1024);
+  const fr = firth ? new Float64Array(n) : null,
+    fg = new Float64Array(p);
   const newSlot = (): Slot => ({
-    eta: takeBuffer(n, passes.pooled), w: takeBuffer(n, passes.pooled), g: new Float64Array(p),
-    info: new Float64Array(p * p), infoValid: false, hat: firth ? new Float64Array(n) : null, ll: 0, obj: 0,
+    eta: takeBuffer(n, passes.pooled),
+    w: takeBuffer(n, passes.pooled),
+    g: new Float64Array(p),
+    info: new Float64Array(p * p),
+    infoValid: false,
+    hat: firth ? new Float64Array(n) : null,
+    ll: 0,
+    obj: 0,
   });
   const penaltyTerm = (b: ArrayLike<number>): number => {
     if (!penalty) return 0;
@@ -155,16 +183,20 @@ function createWorkspace(pr: LogisticProblem, N: number) {
   let firstPass = true;
   const evaluate = (b: Float64Array, s: Slot, withInfo: boolean): void => {
     const loss = passes.logistic(b, s.eta, s.w, s.g);
-    if (firstPass) { checkFirstPass(pr, loss, s.g); firstPass = false; }
+    if (firstPass) {
+      checkFirstPass(pr, loss, s.g);
+      firstPass = false;
+    }
     s.ll = -loss;
     let obj = loss / N + penaltyTerm(b);
     if (penalty) for (let j = 0; j < p; j++) s.g[j] -= N * penalty[j] * b[j];
     s.infoValid = false;
     if (withInfo || firth) computeInfo(s);
     if (firth) {
-      const hat = s.hat!, L = Linv!;
+      const hat = s.hat!,
+        L = Linv!;
       const infoChol = cholesky(s.info, p, 1e-12, Lwork, dropWork);
-      obj -= 0.5 * choleskyLogDet(infoChol) / N;
+      obj -= (0.5 * choleskyLogDet(infoChol)) / N;
       choleskyFactorInverse(infoChol, L);
       // hᵢ = wᵢ·‖L⁻¹xᵢ‖², by blocks of rows so that the columns stay in cache
       hat.fill(0);
@@ -175,12 +207,20 @@ function createWorkspace(pr: LogisticProblem, N: number) {
           buf.fill(0, 0, i1 - i0);
           let j = 0;
           for (; j + 3 <= k; j += 4) {
-            const a0 = L[k * p + j], a1 = L[k * p + j + 1], a2 = L[k * p + j + 2], a3 = L[k * p + j + 3];
-            const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-            for (let i = i0; i < i1; i++) buf[i - i0] += a0 * X[o0 + i] + a1 * X[o1 + i] + a2 * X[o2 + i] + a3 * X[o3 + i];
+            const a0 = L[k * p + j],
+              a1 = L[k * p + j + 1],
+              a2 = L[k * p + j + 2],
+              a3 = L[k * p + j + 3];
+            const o0 = j * n,
+              o1 = o0 + n,
+              o2 = o1 + n,
+              o3 = o2 + n;
+            for (let i = i0; i < i1; i++)
+              buf[i - i0] += a0 * X[o0 + i] + a1 * X[o1 + i] + a2 * X[o2 + i] + a3 * X[o3 + i];
           }
           for (; j <= k; j++) {
-            const a = L[k * p + j], oj = j * n;
+            const a = L[k * p + j],
+              oj = j * n;
             for (let i = i0; i < i1; i++) buf[i - i0] += a * X[oj + i];
           }
           for (let i = i0; i < i1; i++) hat[i] += buf[i - i0] * buf[i - i0];
@@ -205,8 +245,12 @@ function createWorkspace(pr: LogisticProblem, N: number) {
  */
 function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean {
   const { p, penalty, fixed, firth = false } = pr;
-  const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
-  const H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
+  const U = new Float64Array(p),
+    step = new Float64Array(p),
+    trial = new Float64Array(p);
+  const H = new Float64Array(p * p),
+    Hfac = new Float64Array(p * p),
+    Hdrop = new Uint8Array(p);
   // Firth's step uses the expected information, not the penalised Hessian: linear convergence, tighter step rule.
   const stepTol = firth ? opt.tol * 100 : Math.sqrt(opt.tol);
   let first = true;
@@ -221,7 +265,10 @@ function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, op
       for (let j = 0; j < p; j++) {
         if (!fixed[j]) continue;
         U[j] = 0;
-        for (let k = 0; k < p; k++) { H[j * p + k] = 0; H[k * p + j] = 0; }
+        for (let k = 0; k < p; k++) {
+          H[j * p + k] = 0;
+          H[k * p + j] = 0;
+        }
       }
     }
     const hChol = cholesky(H, p, 1e-12, Hfac, Hdrop);
@@ -232,16 +279,21 @@ function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, op
     for (let j = 0; j < p; j++) if (Hdrop[j] && !run.initialDrop[j] && !fixed?.[j]) degenerate = true;
     if (degenerate) return false; // a column lost all information during the iterations: diverging coefficients
 
-    const obj = cur.obj, D = 2 * N * obj;
+    const obj = cur.obj,
+      D = 2 * N * obj;
     let accepted = false;
     let t = 1;
     for (let half = 0; half < 40; half++) {
       for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
       ws.evaluate(trial, run.other, false);
-      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) { accepted = true; break; }
+      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) {
+        accepted = true;
+        break;
+      }
       t *= 0.5;
     }
-    let maxFull = 0, dec = 0;
+    let maxFull = 0,
+      dec = 0;
     for (let j = 0; j < p; j++) {
       maxFull = Math.max(maxFull, Math.abs(step[j]) / (1 + Math.abs(run.beta[j])));
       dec += U[j] * step[j];
@@ -277,10 +329,13 @@ const SUB_BLOCK = 128;
  */
 function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean | null {
   const { n, p, penalty, fixed, weights: c } = pr;
-  const mFine = Math.max(10_000, 8 * p * p, Math.min(32 * p * p, Math.floor(n / 16))), mCoarse = Math.max(4_000, 2 * p * p);
+  const mFine = Math.max(10_000, 8 * p * p, Math.min(32 * p * p, Math.floor(n / 16))),
+    mCoarse = Math.max(4_000, 2 * p * p);
   // Blocks of rows spread evenly over the data (starts ⌊k·n/count⌋); the coarse blocks are a subset of the fine ones.
-  const nFine = Math.ceil(mFine / SUB_BLOCK), nCoarse = Math.ceil(mCoarse / SUB_BLOCK);
-  const fineBlocks = ws.passes.allocInt32(nFine), coarseBlocks = ws.passes.allocInt32(nCoarse);
+  const nFine = Math.ceil(mFine / SUB_BLOCK),
+    nCoarse = Math.ceil(mCoarse / SUB_BLOCK);
+  const fineBlocks = ws.passes.allocInt32(nFine),
+    coarseBlocks = ws.passes.allocInt32(nCoarse);
   for (let k = 0; k < nFine; k++) fineBlocks[k] = Math.floor((k * n) / nFine);
   for (let k = 0; k < nCoarse; k++) coarseBlocks[k] = fineBlocks[Math.floor((k * nFine) / nCoarse)];
   /** Σ cᵢ over the blocks' rows. */
@@ -289,25 +344,36 @@ function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt
     for (const a of blocks) for (let i = a; i < Math.min(n, a + SUB_BLOCK); i++) s += c ? c[i] : 1;
     return s;
   };
-  const Ncoarse = weightOf(coarseBlocks), Nfine = weightOf(fineBlocks);
+  const Ncoarse = weightOf(coarseBlocks),
+    Nfine = weightOf(fineBlocks);
   if (!(Ncoarse > 0) || !(Nfine > 0)) return null;
-  const Hs = new Float64Array(p * p), H = new Float64Array(p * p), Hfac = new Float64Array(p * p), Hdrop = new Uint8Array(p);
+  const Hs = new Float64Array(p * p),
+    H = new Float64Array(p * p),
+    Hfac = new Float64Array(p * p),
+    Hdrop = new Uint8Array(p);
   /** The data part of the Hessian at run.beta estimated on a subsample: Σ_s cᵢwᵢxᵢxᵢ'·N/Σ_s cᵢ. */
   const subsampleHessian = (fine: boolean): void => {
     ws.passes.informationOnBlocks(run.cur.w, fine ? fineBlocks : coarseBlocks, SUB_BLOCK, Hs);
     const sc = N / (fine ? Nfine : Ncoarse);
     for (let q = 0; q < p * p; q++) Hs[q] *= sc;
   };
-  const U = new Float64Array(p), step = new Float64Array(p), trial = new Float64Array(p);
+  const U = new Float64Array(p),
+    step = new Float64Array(p),
+    trial = new Float64Array(p);
   ws.evaluate(run.beta, run.cur, false);
   const budget = Math.min(30, opt.maxIter - 1);
   // Stop at 1e-2·√tol, where one exact step ends the job; for wide designs (X'WX costs more than ~6 passes) go on
   // to 1e-12, where the exact step changes η so little that its X'WX is also the information at the end.
   const cheapTol = p >= 24 ? Math.min(1e-12, 1e-2 * Math.sqrt(opt.tol)) : 1e-2 * Math.sqrt(opt.tol);
-  let useFine = false, haveFine = false, lastRel = Infinity;
+  let useFine = false,
+    haveFine = false,
+    lastRel = Infinity;
   while (run.iterations < budget) {
     if (!useFine) subsampleHessian(false);
-    else if (!haveFine) { subsampleHessian(true); haveFine = true; }
+    else if (!haveFine) {
+      subsampleHessian(true);
+      haveFine = true;
+    }
     H.set(Hs);
     U.set(run.cur.g);
     if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
@@ -315,16 +381,23 @@ function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt
       for (let j = 0; j < p; j++) {
         if (!fixed[j]) continue;
         U[j] = 0;
-        for (let k = 0; k < p; k++) { H[j * p + k] = 0; H[k * p + j] = 0; }
+        for (let k = 0; k < p; k++) {
+          H[j * p + k] = 0;
+          H[k * p + j] = 0;
+        }
       }
     }
     choleskySolve(cholesky(H, p, 1e-12, Hfac, Hdrop), U, step);
     const obj = run.cur.obj;
-    let accepted = false, t = 1;
+    let accepted = false,
+      t = 1;
     for (let half = 0; half < 30; half++) {
       for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
       ws.evaluate(trial, run.other, false);
-      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) { accepted = true; break; }
+      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) {
+        accepted = true;
+        break;
+      }
       t *= 0.5;
     }
     if (!accepted) break; // the estimated Hessian gives no descent: exact Newton from here
@@ -355,17 +428,26 @@ export function newtonLogistic(problem: LogisticProblem, options: Partial<Newton
   validate(problem);
   const opt = { ...defaultNewtonOptions, ...options };
   if (!(opt.tol > 0)) throw new FulcraError('bad-argument', `tol must be > 0, got ${opt.tol}.`);
-  if (!Number.isInteger(opt.maxIter) || opt.maxIter < 0) throw new FulcraError('bad-argument', `maxIter must be a non-negative integer, got ${opt.maxIter}.`);
+  if (!Number.isInteger(opt.maxIter) || opt.maxIter < 0)
+    throw new FulcraError('bad-argument', `maxIter must be a non-negative integer, got ${opt.maxIter}.`);
   const { n, p, weights: c, penalty, firth = false } = problem;
 
   let N = n;
-  if (c) { N = 0; for (let i = 0; i < n; i++) N += c[i]; }
+  if (c) {
+    N = 0;
+    for (let i = 0; i < n; i++) N += c[i];
+  }
   if (!(N > 0)) throw new FulcraError('bad-argument', 'The case weights sum to 0; there is nothing to fit.');
 
   const ws = createWorkspace(problem, N);
   const newRun = (cur: Slot, other: Slot): Run => ({
     beta: problem.start ? Float64Array.from(problem.start) : new Float64Array(p),
-    cur, other, iterations: 0, path: opt.recordPath ? [] : undefined, lastInfo: null, initialDrop: new Uint8Array(p),
+    cur,
+    other,
+    iterations: 0,
+    path: opt.recordPath ? [] : undefined,
+    lastInfo: null,
+    initialDrop: new Uint8Array(p),
   });
   let run = newRun(ws.newSlot(), ws.newSlot());
   let converged: boolean | null = null;
@@ -396,8 +478,15 @@ export function newtonLogistic(problem: LogisticProblem, options: Partial<Newton
   const fitted = new Float64Array(n);
   for (let i = 0; i < n; i++) fitted[i] = sigmoid(cur.eta[i]);
   const result: NewtonResult = {
-    beta: run.beta, converged, iterations: run.iterations, logLik: cur.ll, objective: cur.obj, information, fitted,
-    dropped: Uint8Array.from(run.initialDrop), score: Float64Array.from(cur.g),
+    beta: run.beta,
+    converged,
+    iterations: run.iterations,
+    logLik: cur.ll,
+    objective: cur.obj,
+    information,
+    fitted,
+    dropped: Uint8Array.from(run.initialDrop),
+    score: Float64Array.from(cur.g),
   };
   if (run.path) result.path = run.path;
   if (firth) result.hat = Float64Array.from(cur.hat!);

@@ -26,17 +26,24 @@ export function predict(result: FitResult, data: Dataset): Prediction {
   const d = designFromRecipe(result.recipe, data, { outcome: 'ignore' });
   const { X, n, p } = d;
   if (p !== result.coefficients.length) {
-    throw new FulcraError('recipe-mismatch', `The data give ${p} design columns but the model has ${result.coefficients.length}.`);
+    throw new FulcraError(
+      'recipe-mismatch',
+      `The data give ${p} design columns but the model has ${result.coefficients.length}.`,
+    );
   }
   const beta = result.coefficients.map((c) => c.estimate);
   const V = result.covariance;
   const zc = qnorm(0.5 + result.level / 2);
-  const eta = new Float64Array(n), risk = new Float64Array(n), lower = new Float64Array(n), upper = new Float64Array(n);
+  const eta = new Float64Array(n),
+    risk = new Float64Array(n),
+    lower = new Float64Array(n),
+    upper = new Float64Array(n);
   for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) eta[i] += beta[j] * X[j * n + i];
   for (let i = 0; i < n; i++) {
     if (Number.isFinite(eta[i])) continue;
     let worst = 1;
-    for (let j = 2; j < p; j++) if (Math.abs(beta[j] * X[j * n + i]) > Math.abs(beta[worst] * X[worst * n + i])) worst = j;
+    for (let j = 2; j < p; j++)
+      if (Math.abs(beta[j] * X[j * n + i]) > Math.abs(beta[worst] * X[worst * n + i])) worst = j;
     throw new FulcraError(
       'value-out-of-range',
       `Row ${d.rowsUsed[i] + 1}: the value of "${d.columnNames[worst]}" is so extreme that the risk score cannot be computed.`,
@@ -46,7 +53,11 @@ export function predict(result: FitResult, data: Dataset): Prediction {
   const x = new Float64Array(p);
   for (let i = 0; i < n; i++) {
     risk[i] = sigmoid(eta[i]);
-    if (!V) { lower[i] = NaN; upper[i] = NaN; continue; }
+    if (!V) {
+      lower[i] = NaN;
+      upper[i] = NaN;
+      continue;
+    }
     for (let j = 0; j < p; j++) x[j] = X[j * n + i];
     let v = 0;
     for (let a = 0; a < p; a++) {
@@ -60,26 +71,52 @@ export function predict(result: FitResult, data: Dataset): Prediction {
     upper[i] = sigmoid(eta[i] + zc * se);
   }
   const warnings: EngineWarning[] = [];
-  if (!V) warnings.push(warning('no-prediction-interval', 'This model has no valid covariance matrix (penalised fit or separation), so the risks have no confidence interval.', 'Use bootstrap validation to judge the uncertainty.'));
+  if (!V)
+    warnings.push(
+      warning(
+        'no-prediction-interval',
+        'This model has no valid covariance matrix (penalised fit or separation), so the risks have no confidence interval.',
+        'Use bootstrap validation to judge the uncertainty.',
+      ),
+    );
   if (d.nDropped > 0) {
-    const parts = Object.entries(d.droppedByColumn).map(([c, k]) => `"${c}" ${k}`).join(', ');
-    warnings.push(warning('rows-not-scored', `${d.nDropped} rows were not scored because of missing values (${parts}).`, 'Fill in the missing values to score those rows.', Object.keys(d.droppedByColumn)));
+    const parts = Object.entries(d.droppedByColumn)
+      .map(([c, k]) => `"${c}" ${k}`)
+      .join(', ');
+    warnings.push(
+      warning(
+        'rows-not-scored',
+        `${d.nDropped} rows were not scored because of missing values (${parts}).`,
+        'Fill in the missing values to score those rows.',
+        Object.keys(d.droppedByColumn),
+      ),
+    );
   }
   return { eta, risk, lower, upper, rowsUsed: d.rowsUsed, warnings };
 }
 
 /** Risk for one case given as a plain record of column → value (numbers, or level strings for categorical terms). */
-export function predictOne(result: FitResult, record: Record<string, number | string | null | undefined>): { eta: number; risk: number; lower: number; upper: number } {
+export function predictOne(
+  result: FitResult,
+  record: Record<string, number | string | null | undefined>,
+): { eta: number; risk: number; lower: number; upper: number } {
   const categorical = new Set(result.recipe.terms.flatMap((t) => (t.type === 'categorical' ? [t.column] : [])));
   const needed = new Set(result.recipe.terms.flatMap((t) => (t.type === 'interaction' ? [...t.parts] : [t.column])));
   const columns: Column[] = [...needed].map((name) => {
     const v = record[name];
-    if (v === null || v === undefined || (typeof v === 'string' && v.trim() === '') || (typeof v === 'number' && Number.isNaN(v))) {
+    if (
+      v === null ||
+      v === undefined ||
+      (typeof v === 'string' && v.trim() === '') ||
+      (typeof v === 'number' && Number.isNaN(v))
+    ) {
       throw new FulcraError('missing-value', `No value was given for "${name}".`);
     }
-    if (categorical.has(name)) return { kind: 'categorical', name, codes: Int32Array.of(0), levels: [String(v).trim()] };
+    if (categorical.has(name))
+      return { kind: 'categorical', name, codes: Int32Array.of(0), levels: [String(v).trim()] };
     const x = typeof v === 'number' ? v : parseDecimal(v);
-    if (!Number.isFinite(x)) throw new FulcraError('not-numeric', `"${name}" must be a plain decimal number, got "${v}".`);
+    if (!Number.isFinite(x))
+      throw new FulcraError('not-numeric', `"${name}" must be a plain decimal number, got "${v}".`);
     return { kind: 'numeric', name, values: Float64Array.of(x) };
   });
   const r = predict(result, { nRows: 1, columns });

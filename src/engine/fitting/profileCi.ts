@@ -25,11 +25,18 @@ export interface ProfileTarget {
  * a bracket; it stops when |f| < 1e-9 or the bracket is below `tol`·(1 + |θ|). A bound is null when the profile
  * never reaches the critical value (separation).
  */
-export function profileInterval(t: ProfileTarget, level: number, tol = 1e-11): { lower: number | null; upper: number | null } {
+export function profileInterval(
+  t: ProfileTarget,
+  level: number,
+  tol = 1e-11,
+): { lower: number | null; upper: number | null } {
   const { problem, index, scale } = t;
   const p = problem.p;
   let N = problem.n;
-  if (problem.weights) { N = 0; for (const w of problem.weights) N += w; }
+  if (problem.weights) {
+    N = 0;
+    for (const w of problem.weights) N += w;
+  }
   const crit = qchisq(level, 1);
   const fixed = new Uint8Array(p);
   fixed[index] = 1;
@@ -44,12 +51,14 @@ export function profileInterval(t: ProfileTarget, level: number, tol = 1e-11): {
   const zc = Math.sqrt(crit);
   const bound = (dir: 1 | -1): number | null => {
     start = Float64Array.from(t.beta);
-    let inner = t.estimate, outer = NaN;
+    let inner = t.estimate,
+      outer = NaN;
     let theta = t.estimate + dir * zc * step0;
     for (let it = 0; it < 100; it++) {
       const { f, df } = evalAt(theta);
       if (Math.abs(f) < 1e-9) return theta;
-      if (f < 0) inner = theta; else outer = theta;
+      if (f < 0) inner = theta;
+      else outer = theta;
       if (!Number.isNaN(outer) && Math.abs(outer - inner) < tol * (1 + Math.abs(theta))) return 0.5 * (inner + outer);
       let next = theta - f / df;
       const outward = (next - inner) * dir > 0;

@@ -23,8 +23,10 @@ export function detectSeparation(fit: NewtonResult, y: ArrayLike<number>): Separ
     if (r < 1e-8) determined++;
   }
   const path = fit.path ?? [];
-  if (fit.converged || determined === 0 || path.length < 2) return { kind: 'none', columns: [], determinedRows: determined };
-  const a = path[Math.max(0, path.length - 6)], b = path[path.length - 1];
+  if (fit.converged || determined === 0 || path.length < 2)
+    return { kind: 'none', columns: [], determinedRows: determined };
+  const a = path[Math.max(0, path.length - 6)],
+    b = path[path.length - 1];
   const p = b.length;
   let max = 0;
   for (let j = 1; j < p; j++) max = Math.max(max, Math.abs(b[j] - a[j]));

@@ -33,8 +33,18 @@ export interface FitImputedResult extends PooledCoefficients {
  * per imputation unless `options.profile` is set; pooled intervals are t intervals. Warnings of the
  * imputation and of the fits are passed on once each, saying in how many imputations they arose.
  */
-export async function fitImputed(data: Dataset, spec: ModelSpec, imp: MiceResult, options: FitImputedOptions = {}, hooks: MiceHooks = {}): Promise<FitImputedResult> {
-  if (imp.m < 2) throw new FulcraError('too-few-imputations', `Pooling needs at least 2 imputations; the imputation has m = ${imp.m}.`);
+export async function fitImputed(
+  data: Dataset,
+  spec: ModelSpec,
+  imp: MiceResult,
+  options: FitImputedOptions = {},
+  hooks: MiceHooks = {},
+): Promise<FitImputedResult> {
+  if (imp.m < 2)
+    throw new FulcraError(
+      'too-few-imputations',
+      `Pooling needs at least 2 imputations; the imputation has m = ${imp.m}.`,
+    );
   const { excludeImputedOutcome = false, ...fitOptions } = options;
   const opts: Partial<FitOptions> = { ...fitOptions, profile: fitOptions.profile ?? false };
   const outcomeRows = excludeImputedOutcome ? imp.imputed.find((c) => c.column === spec.outcome)?.rows : undefined;
@@ -51,25 +61,37 @@ export async function fitImputed(data: Dataset, spec: ModelSpec, imp: MiceResult
   const pooled = poolCoefficients(fits, opts.level ?? fits[0].level);
   const warnings: EngineWarning[] = [...imp.warnings];
   const seen = new Map<string, { w: EngineWarning; count: number }>();
-  for (const f of fits) for (const w of f.warnings) {
-    const key = `${w.code}\u0000${w.message}`;
-    const s = seen.get(key);
-    if (s) s.count++;
-    else seen.set(key, { w, count: 1 });
-  }
+  for (const f of fits)
+    for (const w of f.warnings) {
+      const key = `${w.code}\u0000${w.message}`;
+      const s = seen.get(key);
+      if (s) s.count++;
+      else seen.set(key, { w, count: 1 });
+    }
   for (const { w, count } of seen.values())
     warnings.push({ ...w, message: `${w.message} (in ${count} of ${imp.m} imputed datasets)` });
   const notConverged = fits.filter((f) => !f.converged).length;
   if (notConverged > 0 && !fits.some((f) => f.warnings.some((w) => w.code === 'not-converged')))
-    warnings.push(warning('mi-fit-not-converged', `The model fit did not converge in ${notConverged} of ${imp.m} imputed datasets.`,
-      'Raise the iteration limit, or use Firth fitting if a term separates the outcome.'));
+    warnings.push(
+      warning(
+        'mi-fit-not-converged',
+        `The model fit did not converge in ${notConverged} of ${imp.m} imputed datasets.`,
+        'Raise the iteration limit, or use Firth fitting if a term separates the outcome.',
+      ),
+    );
   warnings.push(...pooled.warnings);
   const imputedRows = new Set<number>();
   for (const c of imp.imputed) for (const i of c.rows) imputedRows.add(i);
   return {
-    ...pooled, warnings, method: fits[0].method as FitOptions['method'], nRows: data.nRows, nImputedRows: imputedRows.size,
+    ...pooled,
+    warnings,
+    method: fits[0].method as FitOptions['method'],
+    nRows: data.nRows,
+    nImputedRows: imputedRows.size,
     nExcluded: keep ? data.nRows - keep.length : 0,
-    events: fits.reduce((s, f) => s + f.events, 0) / imp.m, nonEvents: fits.reduce((s, f) => s + f.nonEvents, 0) / imp.m, notConverged,
+    events: fits.reduce((s, f) => s + f.events, 0) / imp.m,
+    nonEvents: fits.reduce((s, f) => s + f.nonEvents, 0) / imp.m,
+    notConverged,
   };
 }
 
@@ -84,8 +106,10 @@ function keptRows(n: number, drop: Int32Array): Int32Array {
 function subsetRows(data: Dataset, rows: Int32Array): Dataset {
   return {
     nRows: rows.length,
-    columns: data.columns.map((c) => (c.kind === 'numeric'
-      ? { ...c, values: Float64Array.from(rows, (i) => c.values[i]) }
-      : { ...c, codes: Int32Array.from(rows, (i) => c.codes[i]) })),
+    columns: data.columns.map((c) =>
+      c.kind === 'numeric'
+        ? { ...c, values: Float64Array.from(rows, (i) => c.values[i]) }
+        : { ...c, codes: Int32Array.from(rows, (i) => c.codes[i]) },
+    ),
   };
 }

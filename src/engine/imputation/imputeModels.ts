@@ -22,7 +22,8 @@ export function drawChiSquare(rng: Rng, df: number): number {
 
 function drawGamma(rng: Rng, shape: number): number {
   if (shape < 1) return drawGamma(rng, shape + 1) * Math.pow(1 - rng.next(), 1 / shape);
-  const d = shape - 1 / 3, c = 1 / Math.sqrt(9 * d);
+  const d = shape - 1 / 3,
+    c = 1 / Math.sqrt(9 * d);
   for (;;) {
     let x: number, v: number;
     do {
@@ -71,7 +72,14 @@ export function drawLinear(design: ImputationDesign, y: Float64Array, obs: Int32
   const Xo = gatherRows(design, obs);
   const yo = new Float64Array(no);
   for (let r = 0; r < no; r++) yo[r] = y[obs[r]];
-  const xtx = crossProductWeighted(Xo, no, q, new Float64Array(no).fill(1), new Float64Array(q * q), new Float64Array(no));
+  const xtx = crossProductWeighted(
+    Xo,
+    no,
+    q,
+    new Float64Array(no).fill(1),
+    new Float64Array(q * q),
+    new Float64Array(no),
+  );
   const ch = cholesky(xtx, q, 1e-10);
   const xty = new Float64Array(q);
   for (let j = 0; j < q; j++) {
@@ -133,16 +141,24 @@ export function drawLogistic(design: ImputationDesign, y01: Float64Array, obs: I
   const no = obs.length;
   const nAug = q > 1 ? 4 * (q - 1) : 0;
   const N = no + nAug;
-  const Xa = new Float64Array(N * q), ya = new Float64Array(N), wa = new Float64Array(N);
+  const Xa = new Float64Array(N * q),
+    ya = new Float64Array(N),
+    wa = new Float64Array(N);
   for (let r = 0; r < no; r++) {
     ya[r] = y01[obs[r]];
     wa[r] = 1;
   }
   for (let j = 0; j < q; j++) for (let r = 0; r < no; r++) Xa[j * N + r] = X[j * n + obs[r]];
   if (nAug > 0) {
-    const mean = new Float64Array(q), sd = new Float64Array(q), lo = new Float64Array(q), hi = new Float64Array(q);
+    const mean = new Float64Array(q),
+      sd = new Float64Array(q),
+      lo = new Float64Array(q),
+      hi = new Float64Array(q);
     for (let j = 0; j < q; j++) {
-      let s = 0, s2 = 0, mn = Infinity, mx = -Infinity;
+      let s = 0,
+        s2 = 0,
+        mn = Infinity,
+        mx = -Infinity;
       for (let i = 0; i < n; i++) {
         const v = X[j * n + i];
         s += v;
@@ -197,7 +213,14 @@ export interface CategoricalImputation {
  * of each level against the most frequent level on the rows holding those two levels (Begg & Gray 1984,
  * Biometrika 71:11), each with its own parameter draw; level probabilities ∝ exp(x'β*_k), then one draw.
  */
-export function imputeCategorical(design: ImputationDesign, codes: Int32Array, levels: number, obs: Int32Array, mis: Int32Array, rng: Rng): CategoricalImputation {
+export function imputeCategorical(
+  design: ImputationDesign,
+  codes: Int32Array,
+  levels: number,
+  obs: Int32Array,
+  mis: Int32Array,
+  rng: Rng,
+): CategoricalImputation {
   const counts = new Array<number>(levels).fill(0);
   for (let r = 0; r < obs.length; r++) counts[codes[obs[r]]]++;
   const present = counts.map((c, k) => (c > 0 ? k : -1)).filter((k) => k >= 0);

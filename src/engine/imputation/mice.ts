@@ -20,7 +20,11 @@ export interface MiceOptions {
 
 export const defaultMiceOptions: MiceOptions = { m: 10, maxit: 10, seed: 1, donors: 5, auxiliary: [] };
 
-const limits: Array<[keyof MiceOptions, number, number]> = [['m', 1, 1000], ['maxit', 0, 1000], ['donors', 1, 100]];
+const limits: Array<[keyof MiceOptions, number, number]> = [
+  ['m', 1, 1000],
+  ['maxit', 0, 1000],
+  ['donors', 1, 100],
+];
 
 export type ImputationMethod = 'pmm' | 'logistic' | 'multinomial';
 
@@ -72,13 +76,20 @@ interface Var {
  * imputeCategorical). Starting values are random draws from the observed values. Predictors enter linearly
  * (numeric ones standardised, categorical ones as indicators).
  */
-export async function mice(data: Dataset, spec: ModelSpec, options: Partial<MiceOptions> = {}, hooks: MiceHooks = {}): Promise<MiceResult> {
+export async function mice(
+  data: Dataset,
+  spec: ModelSpec,
+  options: Partial<MiceOptions> = {},
+  hooks: MiceHooks = {},
+): Promise<MiceResult> {
   const opt = { ...defaultMiceOptions, ...options };
   for (const [key, lo, hi] of limits) {
     const v = opt[key] as number;
-    if (!Number.isInteger(v) || v < lo || v > hi) throw new FulcraError('bad-argument', `${key} must be an integer from ${lo} to ${hi}; got ${v}.`);
+    if (!Number.isInteger(v) || v < lo || v > hi)
+      throw new FulcraError('bad-argument', `${key} must be an integer from ${lo} to ${hi}; got ${v}.`);
   }
-  if (!Number.isFinite(opt.seed)) throw new FulcraError('bad-argument', `seed must be a finite number; got ${opt.seed}.`);
+  if (!Number.isFinite(opt.seed))
+    throw new FulcraError('bad-argument', `seed must be a finite number; got ${opt.seed}.`);
   const columns = [...modelColumns(spec)];
   for (const a of opt.auxiliary) if (!columns.includes(a)) columns.push(a);
   const warnings: EngineWarning[] = [];
@@ -86,24 +97,56 @@ export async function mice(data: Dataset, spec: ModelSpec, options: Partial<Mice
   for (const name of columns) {
     const v = prepare(getColumn(data, name), data.nRows);
     if (v.obs.length === 0) {
-      warnings.push(warning('mi-no-observed', `Column "${name}" has no observed values, so it can neither be imputed nor used to impute others.`,
-        'Remove this column from the model (or from the auxiliary columns).', [name]));
+      warnings.push(
+        warning(
+          'mi-no-observed',
+          `Column "${name}" has no observed values, so it can neither be imputed nor used to impute others.`,
+          'Remove this column from the model (or from the auxiliary columns).',
+          [name],
+        ),
+      );
       continue;
     }
     vars.push(v);
   }
   const targets = vars.filter((v) => v.mis.length > 0);
   if (targets.length === 0)
-    warnings.push(warning('mi-nothing-missing', 'No value is missing in the columns of the model, so every imputed dataset equals the data.', 'Fit the model directly.'));
+    warnings.push(
+      warning(
+        'mi-nothing-missing',
+        'No value is missing in the columns of the model, so every imputed dataset equals the data.',
+        'Fit the model directly.',
+      ),
+    );
   const outcome = targets.find((v) => v.col.name === spec.outcome);
   if (outcome)
-    warnings.push(warning('mi-outcome-imputed', `The outcome "${spec.outcome}" is missing in ${outcome.mis.length} rows; these are imputed and used in the fits.`,
-      'Consider also fitting without the rows whose outcome was imputed (the option to exclude them from the fits; von Hippel 2007, Sociol Methodol 37:83).', [spec.outcome]));
-  const nonlinear = spec.terms.filter((t) => t.type !== 'main' && (t.type === 'spline' ? [t.column] : t.columns).some((c) => targets.some((v) => v.col.name === c)));
+    warnings.push(
+      warning(
+        'mi-outcome-imputed',
+        `The outcome "${spec.outcome}" is missing in ${outcome.mis.length} rows; these are imputed and used in the fits.`,
+        'Consider also fitting without the rows whose outcome was imputed (the option to exclude them from the fits; von Hippel 2007, Sociol Methodol 37:83).',
+        [spec.outcome],
+      ),
+    );
+  const nonlinear = spec.terms.filter(
+    (t) =>
+      t.type !== 'main' &&
+      (t.type === 'spline' ? [t.column] : t.columns).some((c) => targets.some((v) => v.col.name === c)),
+  );
   if (nonlinear.length > 0) {
-    const cols = [...new Set(nonlinear.flatMap((t) => (t.type === 'spline' ? [t.column] : t.type === 'interaction' ? t.columns : [])))];
-    warnings.push(warning('mi-nonlinear-terms', `The imputation models are linear in ${cols.join(', ')}, but the model has spline or interaction terms in them; imputed values do not carry these curves or interactions, which biases their estimates towards none.`,
-      'Treat these estimates with caution; for an interaction with a grouping column, impute and fit each group separately.', cols));
+    const cols = [
+      ...new Set(
+        nonlinear.flatMap((t) => (t.type === 'spline' ? [t.column] : t.type === 'interaction' ? t.columns : [])),
+      ),
+    ];
+    warnings.push(
+      warning(
+        'mi-nonlinear-terms',
+        `The imputation models are linear in ${cols.join(', ')}, but the model has spline or interaction terms in them; imputed values do not carry these curves or interactions, which biases their estimates towards none.`,
+        'Treat these estimates with caution; for an interaction with a grouping column, impute and fit each group separately.',
+        cols,
+      ),
+    );
   }
 
   const rng = createRng(opt.seed);
@@ -152,21 +195,50 @@ export async function mice(data: Dataset, spec: ModelSpec, options: Partial<Mice
   }
   targets.forEach((t, j) => {
     if (notConverged[j] > 0)
-      warnings.push(warning('mi-imputation-not-converged', `The logistic imputation model for "${t.col.name}" did not converge in ${notConverged[j]} fits.`,
-        'Check for a predictor that almost perfectly predicts this column; the imputations still use a stabilised fit.', [t.col.name]));
+      warnings.push(
+        warning(
+          'mi-imputation-not-converged',
+          `The logistic imputation model for "${t.col.name}" did not converge in ${notConverged[j]} fits.`,
+          'Check for a predictor that almost perfectly predicts this column; the imputations still use a stabilised fit.',
+          [t.col.name],
+        ),
+      );
     if (aliased[j] > 0)
-      warnings.push(warning('mi-collinear-predictors', `In the imputation model for "${t.col.name}", ${aliased[j]} predictor column(s) were linear combinations of others and were left out.`,
-        'Look for duplicated or derived columns among the model and auxiliary columns.', [t.col.name]));
+      warnings.push(
+        warning(
+          'mi-collinear-predictors',
+          `In the imputation model for "${t.col.name}", ${aliased[j]} predictor column(s) were linear combinations of others and were left out.`,
+          'Look for duplicated or derived columns among the model and auxiliary columns.',
+          [t.col.name],
+        ),
+      );
   });
-  const imputed: ImputedColumn[] = targets.map((t, j) => ({ column: t.col.name, method: t.method, rows: t.mis, draws: draws[j], chainMean: chainMean[j] }));
-  return { m: opt.m, maxit: opt.maxit, seed: opt.seed, donors: opt.donors, columns: vars.map((v) => v.col.name), imputed, warnings };
+  const imputed: ImputedColumn[] = targets.map((t, j) => ({
+    column: t.col.name,
+    method: t.method,
+    rows: t.mis,
+    draws: draws[j],
+    chainMean: chainMean[j],
+  }));
+  return {
+    m: opt.m,
+    maxit: opt.maxit,
+    seed: opt.seed,
+    donors: opt.donors,
+    columns: vars.map((v) => v.col.name),
+    imputed,
+    warnings,
+  };
 }
 
 function prepare(col: Column, n: number): Var {
   const values = col.kind === 'numeric' ? Float64Array.from(col.values) : Float64Array.from(col.codes);
-  const obs: number[] = [], mis: number[] = [];
+  const obs: number[] = [],
+    mis: number[] = [];
   for (let i = 0; i < n; i++) (isMissing(col, i) ? mis : obs).push(i);
-  let mean = 0, sd = 0, binary = true;
+  let mean = 0,
+    sd = 0,
+    binary = true;
   if (col.kind === 'numeric') {
     for (const i of obs) {
       mean += values[i];
@@ -177,7 +249,8 @@ function prepare(col: Column, n: number): Var {
     sd = obs.length > 1 ? Math.sqrt(sd / (obs.length - 1)) : 0;
   }
   const levels = col.kind === 'categorical' ? col.levels.length : 2;
-  const method: ImputationMethod = col.kind === 'numeric' ? (binary ? 'logistic' : 'pmm') : levels > 2 ? 'multinomial' : 'logistic';
+  const method: ImputationMethod =
+    col.kind === 'numeric' ? (binary ? 'logistic' : 'pmm') : levels > 2 ? 'multinomial' : 'logistic';
   return { col, values, obs: Int32Array.from(obs), mis: Int32Array.from(mis), method, levels, mean, sd };
 }
 
@@ -208,7 +281,8 @@ function buildDesign(vars: Var[], state: Float64Array[], target: number): Imputa
 
 /** The k-th completed dataset (0-based): a copy of `data` with imputed cells filled in. */
 export function completeDataset(data: Dataset, imp: MiceResult, k: number): Dataset {
-  if (!Number.isInteger(k) || k < 0 || k >= imp.m) throw new FulcraError('bad-argument', `Imputation index must be an integer from 0 to ${imp.m - 1}; got ${k}.`);
+  if (!Number.isInteger(k) || k < 0 || k >= imp.m)
+    throw new FulcraError('bad-argument', `Imputation index must be an integer from 0 to ${imp.m - 1}; got ${k}.`);
   const byName = new Map(imp.imputed.map((c) => [c.column, c]));
   return {
     nRows: data.nRows,

@@ -56,7 +56,8 @@ export function missingReport(data: Dataset, spec: ModelSpec): MissingReport {
   let complete = 0;
   for (let i = 0; i < n; i++) {
     let key = '';
-    let count = 0, last = -1;
+    let count = 0,
+      last = -1;
     for (let j = 0; j < cols.length; j++) {
       const miss = isMissing(cols[j], i);
       key += miss ? '1' : '0';
@@ -73,23 +74,38 @@ export function missingReport(data: Dataset, spec: ModelSpec): MissingReport {
   const patterns = [...patternCounts.entries()]
     .map(([key, rows]) => ({ missing: [...key].map((ch) => ch === '1'), rows }))
     .sort((a, b) => b.rows - a.rows || a.missing.filter(Boolean).length - b.missing.filter(Boolean).length);
-  const byColumn = columns.map((column, j) => ({ column, missing: missing[j], onlyThisMissing: only[j], fraction: n > 0 ? missing[j] / n : 0 }));
+  const byColumn = columns.map((column, j) => ({
+    column,
+    missing: missing[j],
+    onlyThisMissing: only[j],
+    fraction: n > 0 ? missing[j] / n : 0,
+  }));
   const dropped = n - complete;
   const warnings: EngineWarning[] = [];
   const withMissing = byColumn.filter((c) => c.missing > 0).map((c) => c.column);
   if (dropped > 0 && complete === 0) {
-    warnings.push(warning('no-complete-rows', `Every one of the ${n} rows has a missing value in ${withMissing.join(', ')}, so complete-case analysis has no rows to fit.`,
-      'Use multiple imputation, or leave out the predictor with the most missing values.', withMissing));
+    warnings.push(
+      warning(
+        'no-complete-rows',
+        `Every one of the ${n} rows has a missing value in ${withMissing.join(', ')}, so complete-case analysis has no rows to fit.`,
+        'Use multiple imputation, or leave out the predictor with the most missing values.',
+        withMissing,
+      ),
+    );
   }
   if (dropped > 0) {
     const pct = ((100 * dropped) / n).toFixed(1);
-    warnings.push(warning('complete-case-mcar',
-      `Complete-case analysis drops ${dropped} of ${n} rows (${pct}%) with a missing value in ${withMissing.join(', ')}. ` +
-      'Its estimates are unbiased if values are missing completely at random (MCAR: whether a value is missing is unrelated to any data). ' +
-      'For logistic regression the estimates also stay unbiased when whether a row is complete depends only on the predictors (even on the missing values themselves) and not on the outcome given them; ' +
-      'the odds ratios, but not the intercept or predicted risks, also stay unbiased when it depends only on the outcome. When it depends on both, the odds ratios can be biased, and the dropped rows always cost precision.',
-      'If missingness may depend on observed values, compare with multiple imputation (which assumes missing at random given the variables in the imputation model).',
-      withMissing));
+    warnings.push(
+      warning(
+        'complete-case-mcar',
+        `Complete-case analysis drops ${dropped} of ${n} rows (${pct}%) with a missing value in ${withMissing.join(', ')}. ` +
+          'Its estimates are unbiased if values are missing completely at random (MCAR: whether a value is missing is unrelated to any data). ' +
+          'For logistic regression the estimates also stay unbiased when whether a row is complete depends only on the predictors (even on the missing values themselves) and not on the outcome given them; ' +
+          'the odds ratios, but not the intercept or predicted risks, also stay unbiased when it depends only on the outcome. When it depends on both, the odds ratios can be biased, and the dropped rows always cost precision.',
+        'If missingness may depend on observed values, compare with multiple imputation (which assumes missing at random given the variables in the imputation model).',
+        withMissing,
+      ),
+    );
   }
   return { columns, byColumn, nRows: n, completeRows: complete, droppedRows: dropped, patterns, warnings };
 }

@@ -15,7 +15,14 @@ export interface PmmResult {
  * rows with the closest predictions, chosen at random. Ties are broken at random (observed rows are
  * shuffled before sorting).
  */
-export function pmmImpute(design: ImputationDesign, y: Float64Array, obs: Int32Array, mis: Int32Array, rng: Rng, donors = 5): PmmResult {
+export function pmmImpute(
+  design: ImputationDesign,
+  y: Float64Array,
+  obs: Int32Array,
+  mis: Int32Array,
+  rng: Rng,
+  donors = 5,
+): PmmResult {
   const draw = drawLinear(design, y, obs, rng);
   const no = obs.length;
   const order = Int32Array.from(obs);
@@ -30,7 +37,8 @@ export function pmmImpute(design: ImputationDesign, y: Float64Array, obs: Int32A
   const pos: number[] = new Array(no);
   for (let r = 0; r < no; r++) pos[r] = r;
   pos.sort((a, b) => pred[a] - pred[b]);
-  const sorted = new Int32Array(no), yhat = new Float64Array(no);
+  const sorted = new Int32Array(no),
+    yhat = new Float64Array(no);
   for (let r = 0; r < no; r++) {
     sorted[r] = order[pos[r]];
     yhat[r] = pred[pos[r]];
@@ -39,14 +47,16 @@ export function pmmImpute(design: ImputationDesign, y: Float64Array, obs: Int32A
   const values = new Float64Array(mis.length);
   for (let r = 0; r < mis.length; r++) {
     const target = rowDot(design, mis[r], draw.beta);
-    let lo = 0, hi = no;
+    let lo = 0,
+      hi = no;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
       if (yhat[mid] < target) lo = mid + 1;
       else hi = mid;
     }
     // Expand the window [left, right) around the insertion point to the k closest predictions.
-    let left = lo, right = lo;
+    let left = lo,
+      right = lo;
     while (right - left < k) {
       if (left === 0) right++;
       else if (right === no) left--;

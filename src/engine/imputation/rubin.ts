@@ -81,7 +81,10 @@ export function poolRubin(input: RubinInput): RubinResult {
   const p = estimates[0].length;
   for (let k = 0; k < m; k++)
     if (estimates[k].length !== p || variances[k].length !== p)
-      throw new FulcraError('bad-argument', `Imputation ${k + 1} has a different number of parameters than the first (${p}).`);
+      throw new FulcraError(
+        'bad-argument',
+        `Imputation ${k + 1} has a different number of parameters than the first (${p}).`,
+      );
   if (!(input.dfcom > 0)) throw new FulcraError('bad-argument', `dfcom must be positive; got ${input.dfcom}.`);
   if (!(level > 0 && level < 1)) throw new FulcraError('bad-argument', `level must be in (0, 1); got ${level}.`);
   const dfcom = Math.max(input.dfcom, 1);
@@ -90,7 +93,8 @@ export function poolRubin(input: RubinInput): RubinResult {
   const bad: string[] = [];
   const rows: PooledEstimate[] = [];
   for (let j = 0; j < p; j++) {
-    let qbar = 0, ubar = 0;
+    let qbar = 0,
+      ubar = 0;
     for (let k = 0; k < m; k++) {
       qbar += estimates[k][j];
       ubar += variances[k][j];
@@ -108,15 +112,33 @@ export function poolRubin(input: RubinInput): RubinResult {
     const statistic = qbar / se;
     const tq = qt((1 + level) / 2, df);
     rows.push({
-      name: names[j], m, estimate: qbar, within: ubar, between: b, total: t, se, dfcom, df, statistic,
+      name: names[j],
+      m,
+      estimate: qbar,
+      within: ubar,
+      between: b,
+      total: t,
+      se,
+      dfcom,
+      df,
+      statistic,
       p: 2 * pt(-Math.abs(statistic), Math.max(df, 0.001)),
-      lower: qbar - tq * se, upper: qbar + tq * se,
-      riv, lambda: ((1 + 1 / m) * b) / t, fmi: (riv + 2 / (df + 3)) / (riv + 1),
+      lower: qbar - tq * se,
+      upper: qbar + tq * se,
+      riv,
+      lambda: ((1 + 1 / m) * b) / t,
+      fmi: (riv + 2 / (df + 3)) / (riv + 1),
     });
   }
   if (bad.length > 0)
-    warnings.push(warning('mi-nonfinite', `Some imputations gave no finite estimate or variance for ${bad.join(', ')}, so the pooled values are not usable.`,
-      'Look at the fits on the completed datasets: a term may be separated or aliased in some imputations.', bad));
+    warnings.push(
+      warning(
+        'mi-nonfinite',
+        `Some imputations gave no finite estimate or variance for ${bad.join(', ')}, so the pooled values are not usable.`,
+        'Look at the fits on the completed datasets: a term may be separated or aliased in some imputations.',
+        bad,
+      ),
+    );
   return { rows, warnings };
 }
 
@@ -169,7 +191,10 @@ export function poolCoefficients(fits: FitResult[], level = 0.95): PooledCoeffic
   fits.forEach((f, k) => {
     const other = f.coefficients.map((c) => c.name);
     if (other.join('\u0000') !== names.join('\u0000'))
-      throw new FulcraError('bad-argument', `Fit ${k + 1} has coefficients ${other.join(', ')}, unlike the first fit (${names.join(', ')}).`);
+      throw new FulcraError(
+        'bad-argument',
+        `Fit ${k + 1} has coefficients ${other.join(', ')}, unlike the first fit (${names.join(', ')}).`,
+      );
   });
   const estimates = fits.map((f) => f.coefficients.map((c) => c.estimate));
   const variances = fits.map((f) => f.coefficients.map((c) => (c.se === null ? null : c.se * c.se)));
@@ -177,31 +202,93 @@ export function poolCoefficients(fits: FitResult[], level = 0.95): PooledCoeffic
   const estimated = fits[0].coefficients.filter((c) => !c.aliased).length;
   const dfcom = Math.max(fits[0].nUsed - estimated, 1);
   const idx = names.map((_, j) => j).filter((j) => usable[j]);
-  const pooled = idx.length > 0
-    ? poolRubin({ estimates: estimates.map((e) => idx.map((j) => e[j])), variances: variances.map((v) => idx.map((j) => v[j] as number)), dfcom, level, names: idx.map((j) => names[j]) })
-    : { rows: [], warnings: [] };
+  const pooled =
+    idx.length > 0
+      ? poolRubin({
+          estimates: estimates.map((e) => idx.map((j) => e[j])),
+          variances: variances.map((v) => idx.map((j) => v[j] as number)),
+          dfcom,
+          level,
+          names: idx.map((j) => names[j]),
+        })
+      : { rows: [], warnings: [] };
   const warnings = [...pooled.warnings];
   const coefficients = names.map((name, j): PooledCoefficientRow => {
     const first = fits[0].coefficients[j];
     const r = pooled.rows[idx.indexOf(j)];
     const mean = estimates.reduce((s, e) => s + e[j], 0) / m;
     if (!r) {
-      return { ...first, estimate: mean, se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null,
-        oddsRatio: oddsRatio(mean), aliased: fits.some((f) => f.coefficients[j].aliased), t: null, m,
-        within: null, between: null, total: null, dfcom, df: null, riv: null, lambda: null, fmi: null };
+      return {
+        ...first,
+        estimate: mean,
+        se: null,
+        z: null,
+        p: null,
+        waldLower: null,
+        waldUpper: null,
+        profileLower: null,
+        profileUpper: null,
+        oddsRatio: oddsRatio(mean),
+        aliased: fits.some((f) => f.coefficients[j].aliased),
+        t: null,
+        m,
+        within: null,
+        between: null,
+        total: null,
+        dfcom,
+        df: null,
+        riv: null,
+        lambda: null,
+        fmi: null,
+      };
     }
-    return { name, term: first.term, estimate: r.estimate, se: r.se, z: r.statistic, p: r.p, waldLower: r.lower, waldUpper: r.upper,
-      profileLower: null, profileUpper: null, oddsRatio: oddsRatio(r.estimate), aliased: false, t: r.statistic, m,
-      within: r.within, between: r.between, total: r.total, dfcom, df: r.df, riv: r.riv, lambda: r.lambda, fmi: r.fmi };
+    return {
+      name,
+      term: first.term,
+      estimate: r.estimate,
+      se: r.se,
+      z: r.statistic,
+      p: r.p,
+      waldLower: r.lower,
+      waldUpper: r.upper,
+      profileLower: null,
+      profileUpper: null,
+      oddsRatio: oddsRatio(r.estimate),
+      aliased: false,
+      t: r.statistic,
+      m,
+      within: r.within,
+      between: r.between,
+      total: r.total,
+      dfcom,
+      df: r.df,
+      riv: r.riv,
+      lambda: r.lambda,
+      fmi: r.fmi,
+    };
   });
   const aliasedSome = names.filter((_, j) => fits.some((f) => f.coefficients[j].aliased));
   if (aliasedSome.length > 0)
-    warnings.push(warning('mi-aliased', `${aliasedSome.join(', ')} could not be estimated (aliased) in at least one imputed dataset, so no pooled inference is given for them.`,
-      'Merge sparse categories or drop the redundant term.', aliasedSome));
-  const noSe = names.filter((_, j) => !aliasedSome.includes(names[j]) && fits.some((f) => f.coefficients[j].se === null));
+    warnings.push(
+      warning(
+        'mi-aliased',
+        `${aliasedSome.join(', ')} could not be estimated (aliased) in at least one imputed dataset, so no pooled inference is given for them.`,
+        'Merge sparse categories or drop the redundant term.',
+        aliasedSome,
+      ),
+    );
+  const noSe = names.filter(
+    (_, j) => !aliasedSome.includes(names[j]) && fits.some((f) => f.coefficients[j].se === null),
+  );
   if (noSe.length > 0)
-    warnings.push(warning('mi-no-inference', `The fits give no standard error for ${noSe.join(', ')} in at least one imputed dataset (a penalised fit, or a term that separates the outcome), so only the mean of the estimates is reported, without intervals or p-values.`,
-      'Use maximum likelihood or Firth fitting for pooled inference, and check the terms for separation.', noSe));
+    warnings.push(
+      warning(
+        'mi-no-inference',
+        `The fits give no standard error for ${noSe.join(', ')} in at least one imputed dataset (a penalised fit, or a term that separates the outcome), so only the mean of the estimates is reported, without intervals or p-values.`,
+        'Use maximum likelihood or Firth fitting for pooled inference, and check the terms for separation.',
+        noSe,
+      ),
+    );
   const terms = fits[0].terms.map((t): PooledTermTest => {
     const cols = t.columns;
     const ok = cols.length > 0 && cols.every((j) => usable[j]) && fits.every((f) => f.covariance !== null);
@@ -238,24 +325,37 @@ export function poolWaldTest(estimates: ArrayLike<number>[], covariances: ArrayL
   const k = estimates[0].length;
   if (k < 1) throw new FulcraError('bad-argument', 'The test needs at least one parameter.');
   if (covariances.length !== m || covariances.some((c) => c.length !== k * k) || estimates.some((e) => e.length !== k))
-    throw new FulcraError('bad-argument', `Expected ${m} estimate vectors of length ${k} and ${m} covariance matrices of length ${k * k}.`);
-  const qbar = new Float64Array(k), ubar = new Float64Array(k * k), b = new Float64Array(k * k);
+    throw new FulcraError(
+      'bad-argument',
+      `Expected ${m} estimate vectors of length ${k} and ${m} covariance matrices of length ${k * k}.`,
+    );
+  const qbar = new Float64Array(k),
+    ubar = new Float64Array(k * k),
+    b = new Float64Array(k * k);
   for (let i = 0; i < m; i++) for (let a = 0; a < k; a++) qbar[a] += estimates[i][a] / m;
   for (let i = 0; i < m; i++) {
     for (let a = 0; a < k * k; a++) ubar[a] += covariances[i][a] / m;
-    for (let a = 0; a < k; a++) for (let c = 0; c < k; c++) b[a * k + c] += ((estimates[i][a] - qbar[a]) * (estimates[i][c] - qbar[c])) / (m - 1);
+    for (let a = 0; a < k; a++)
+      for (let c = 0; c < k; c++) b[a * k + c] += ((estimates[i][a] - qbar[a]) * (estimates[i][c] - qbar[c])) / (m - 1);
   }
   const ch = cholesky(ubar, k, 1e-12);
   if (ch.rank < k) return { statistic: NaN, df1: k, df2: NaN, riv: NaN, p: NaN };
   const inv = choleskyInverse(ch);
-  let trace = 0, quad = 0;
-  for (let a = 0; a < k; a++) for (let c = 0; c < k; c++) {
-    trace += b[a * k + c] * inv[c * k + a];
-    quad += qbar[a] * inv[a * k + c] * qbar[c];
-  }
+  let trace = 0,
+    quad = 0;
+  for (let a = 0; a < k; a++)
+    for (let c = 0; c < k; c++) {
+      trace += b[a * k + c] * inv[c * k + a];
+      quad += qbar[a] * inv[a * k + c] * qbar[c];
+    }
   const riv = ((1 + 1 / m) * trace) / k;
   const statistic = quad / (k * (1 + riv));
   const t = k * (m - 1);
-  const df2 = riv === 0 ? Infinity : t > 4 ? 4 + (t - 4) * (1 + (1 - 2 / t) / riv) ** 2 : (t * (1 + 1 / k) * (1 + 1 / riv) ** 2) / 2;
+  const df2 =
+    riv === 0
+      ? Infinity
+      : t > 4
+        ? 4 + (t - 4) * (1 + (1 - 2 / t) / riv) ** 2
+        : (t * (1 + 1 / k) * (1 + 1 / riv) ** 2) / 2;
   return { statistic, df1: k, df2, riv, p: pfUpper(statistic, k, df2) };
 }

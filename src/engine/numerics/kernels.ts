@@ -14,44 +14,85 @@ export const ROW_BLOCK = 256;
  * [rowStart, rowEnd) only (a partial sum for one worker of a pool), default all.
  */
 export function accumulateXtWX(
-  X: Float64Array, n: number, p: number, w: Float64Array, out: Float64Array,
-  work: Float64Array = new Float64Array(ROW_BLOCK * p), rowStart = 0, rowEnd = n,
+  X: Float64Array,
+  n: number,
+  p: number,
+  w: Float64Array,
+  out: Float64Array,
+  work: Float64Array = new Float64Array(ROW_BLOCK * p),
+  rowStart = 0,
+  rowEnd = n,
 ): Float64Array {
   const R = ROW_BLOCK;
   const acc = new Float64Array(p * p);
   for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
     const m = Math.min(R, rowEnd - r0);
     for (let j = 0; j < p; j++) {
-      const o = j * n + r0, ob = j * R;
+      const o = j * n + r0,
+        ob = j * R;
       for (let i = 0; i < m; i++) work[ob + i] = w[r0 + i] * X[o + i];
     }
     let j = 0;
     for (; j + 1 < p; j += 2) {
-      const a0 = j * R, a1 = a0 + R;
+      const a0 = j * R,
+        a1 = a0 + R;
       let k = j & ~3;
       for (; k + 3 < p; k += 4) {
-        const x0 = k * n + r0, x1 = x0 + n, x2 = x1 + n, x3 = x2 + n;
-        let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s10 = 0, s11 = 0, s12 = 0, s13 = 0;
+        const x0 = k * n + r0,
+          x1 = x0 + n,
+          x2 = x1 + n,
+          x3 = x2 + n;
+        let s00 = 0,
+          s01 = 0,
+          s02 = 0,
+          s03 = 0,
+          s10 = 0,
+          s11 = 0,
+          s12 = 0,
+          s13 = 0;
         for (let i = 0; i < m; i++) {
-          const u = work[a0 + i], v = work[a1 + i];
-          const b0 = X[x0 + i], b1 = X[x1 + i], b2 = X[x2 + i], b3 = X[x3 + i];
-          s00 += u * b0; s01 += u * b1; s02 += u * b2; s03 += u * b3;
-          s10 += v * b0; s11 += v * b1; s12 += v * b2; s13 += v * b3;
+          const u = work[a0 + i],
+            v = work[a1 + i];
+          const b0 = X[x0 + i],
+            b1 = X[x1 + i],
+            b2 = X[x2 + i],
+            b3 = X[x3 + i];
+          s00 += u * b0;
+          s01 += u * b1;
+          s02 += u * b2;
+          s03 += u * b3;
+          s10 += v * b0;
+          s11 += v * b1;
+          s12 += v * b2;
+          s13 += v * b3;
         }
-        const c0 = j * p + k, c1 = c0 + p;
-        acc[c0] += s00; acc[c0 + 1] += s01; acc[c0 + 2] += s02; acc[c0 + 3] += s03;
-        acc[c1] += s10; acc[c1 + 1] += s11; acc[c1 + 2] += s12; acc[c1 + 3] += s13;
+        const c0 = j * p + k,
+          c1 = c0 + p;
+        acc[c0] += s00;
+        acc[c0 + 1] += s01;
+        acc[c0 + 2] += s02;
+        acc[c0 + 3] += s03;
+        acc[c1] += s10;
+        acc[c1 + 1] += s11;
+        acc[c1 + 2] += s12;
+        acc[c1 + 3] += s13;
       }
       for (; k < p; k++) {
         const x0 = k * n + r0;
-        let s0 = 0, s1 = 0;
-        for (let i = 0; i < m; i++) { const b = X[x0 + i]; s0 += work[a0 + i] * b; s1 += work[a1 + i] * b; }
+        let s0 = 0,
+          s1 = 0;
+        for (let i = 0; i < m; i++) {
+          const b = X[x0 + i];
+          s0 += work[a0 + i] * b;
+          s1 += work[a1 + i] * b;
+        }
         acc[j * p + k] += s0;
         acc[(j + 1) * p + k] += s1;
       }
     }
     if (j < p) {
-      const a0 = j * R, x0 = j * n + r0;
+      const a0 = j * R,
+        x0 = j * n + r0;
       let s = 0;
       for (let i = 0; i < m; i++) s += work[a0 + i] * X[x0 + i];
       acc[j * p + j] += s;
@@ -68,30 +109,66 @@ export function accumulateXtWX(
 }
 
 /** eta[r0..r1) += X[r0..r1, ·]β, four columns per pass over the block. */
-function addEtaBlock(X: Float64Array, n: number, p: number, beta: ArrayLike<number>, r0: number, r1: number, eta: Float64Array): void {
+function addEtaBlock(
+  X: Float64Array,
+  n: number,
+  p: number,
+  beta: ArrayLike<number>,
+  r0: number,
+  r1: number,
+  eta: Float64Array,
+): void {
   let j = 0;
   for (; j + 3 < p; j += 4) {
-    const b0 = beta[j], b1 = beta[j + 1], b2 = beta[j + 2], b3 = beta[j + 3];
-    const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+    const b0 = beta[j],
+      b1 = beta[j + 1],
+      b2 = beta[j + 2],
+      b3 = beta[j + 3];
+    const o0 = j * n,
+      o1 = o0 + n,
+      o2 = o1 + n,
+      o3 = o2 + n;
     for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
   }
   for (; j < p; j++) {
-    const b = beta[j], o = j * n;
+    const b = beta[j],
+      o = j * n;
     for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
   }
 }
 
 /** g += X[r0..r1, ·]'r[r0..r1), four columns per pass over the block of r (row i at r[i − rOff]). */
-function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0: number, r1: number, g: Float64Array, rOff = 0): void {
+function addXtrBlock(
+  X: Float64Array,
+  n: number,
+  p: number,
+  r: Float64Array,
+  r0: number,
+  r1: number,
+  g: Float64Array,
+  rOff = 0,
+): void {
   let j = 0;
   for (; j + 3 < p; j += 4) {
-    const o0 = j * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-    let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+    const o0 = j * n,
+      o1 = o0 + n,
+      o2 = o1 + n,
+      o3 = o2 + n;
+    let s0 = 0,
+      s1 = 0,
+      s2 = 0,
+      s3 = 0;
     for (let i = r0; i < r1; i++) {
       const v = r[i - rOff];
-      s0 += X[o0 + i] * v; s1 += X[o1 + i] * v; s2 += X[o2 + i] * v; s3 += X[o3 + i] * v;
+      s0 += X[o0 + i] * v;
+      s1 += X[o1 + i] * v;
+      s2 += X[o2 + i] * v;
+      s3 += X[o3 + i] * v;
     }
-    g[j] += s0; g[j + 1] += s1; g[j + 2] += s2; g[j + 3] += s3;
+    g[j] += s0;
+    g[j + 1] += s1;
+    g[j + 2] += s2;
+    g[j + 3] += s3;
   }
   for (; j < p; j++) {
     const o = j * n;
@@ -103,7 +180,12 @@ function addXtrBlock(X: Float64Array, n: number, p: number, r: Float64Array, r0:
 
 /** η = offset + Xβ into `out` (length n), row-blocked, four columns per pass. */
 export function blockedLinearPredictor(
-  X: Float64Array, n: number, p: number, beta: ArrayLike<number>, offset: Float64Array | undefined, out: Float64Array,
+  X: Float64Array,
+  n: number,
+  p: number,
+  beta: ArrayLike<number>,
+  offset: Float64Array | undefined,
+  out: Float64Array,
 ): Float64Array {
   const R = 2048;
   for (let r0 = 0; r0 < n; r0 += R) {
@@ -138,23 +220,38 @@ const rowScratch = new Float64Array(512);
  * when an array is given for it (otherwise a block-sized scratch: one length-n buffer less to touch).
  */
 export function logisticRows(
-  X: Float64Array, n: number, p: number, y: Float64Array, beta: ArrayLike<number>,
-  c: Float64Array | undefined, offset: Float64Array | undefined,
-  eta: Float64Array, r: Float64Array | undefined, w: Float64Array, g: Float64Array, rowStart = 0, rowEnd = n,
+  X: Float64Array,
+  n: number,
+  p: number,
+  y: Float64Array,
+  beta: ArrayLike<number>,
+  c: Float64Array | undefined,
+  offset: Float64Array | undefined,
+  eta: Float64Array,
+  r: Float64Array | undefined,
+  w: Float64Array,
+  g: Float64Array,
+  rowStart = 0,
+  rowEnd = n,
 ): number {
   const R = 512;
   let loss = 0;
   const res = r ?? rowScratch;
   g.fill(0, 0, p);
   for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
-    const r1 = Math.min(rowEnd, r0 + R), ro = r ? 0 : r0;
+    const r1 = Math.min(rowEnd, r0 + R),
+      ro = r ? 0 : r0;
     if (offset) for (let i = r0; i < r1; i++) eta[i] = offset[i];
     else for (let i = r0; i < r1; i++) eta[i] = 0;
     addEtaBlock(X, n, p, beta, r0, r1, eta);
     for (let i = r0; i < r1; i++) {
-      const t = eta[i], a = Math.exp(-Math.abs(t)), yi = y[i], ci = c ? c[i] : 1;
+      const t = eta[i],
+        a = Math.exp(-Math.abs(t)),
+        yi = y[i],
+        ci = c ? c[i] : 1;
       const d = 1 / (1 + a);
-      const m = t >= 0 ? d : a * d, mc = t >= 0 ? a * d : d;
+      const m = t >= 0 ? d : a * d,
+        mc = t >= 0 ? a * d : d;
       w[i] = ci * m * mc;
       res[i - ro] = ci * (yi === 1 ? mc : yi - m);
       if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));

@@ -16,7 +16,13 @@ export interface Cholesky {
  * `tol` × its original diagonal (i.e. 1 − R² of that column on the earlier kept ones < tol).
  * Dropped columns get a zero row/column in L and are ignored by the solvers below.
  */
-export function cholesky(A: Float64Array, p: number, tol = 1e-12, L = new Float64Array(p * p), dropped = new Uint8Array(p)): Cholesky {
+export function cholesky(
+  A: Float64Array,
+  p: number,
+  tol = 1e-12,
+  L = new Float64Array(p * p),
+  dropped = new Uint8Array(p),
+): Cholesky {
   L.fill(0);
   dropped.fill(0);
   let rank = 0;
@@ -44,13 +50,19 @@ export function cholesky(A: Float64Array, p: number, tol = 1e-12, L = new Float6
 export function choleskySolve(ch: Cholesky, b: ArrayLike<number>, x = new Float64Array(ch.p)): Float64Array {
   const { L, p, dropped } = ch;
   for (let i = 0; i < p; i++) {
-    if (dropped[i]) { x[i] = 0; continue; }
+    if (dropped[i]) {
+      x[i] = 0;
+      continue;
+    }
     let s = b[i];
     for (let k = 0; k < i; k++) s -= L[i * p + k] * x[k];
     x[i] = s / L[i * p + i];
   }
   for (let i = p - 1; i >= 0; i--) {
-    if (dropped[i]) { x[i] = 0; continue; }
+    if (dropped[i]) {
+      x[i] = 0;
+      continue;
+    }
     let s = x[i];
     for (let k = i + 1; k < p; k++) s -= L[k * p + i] * x[k];
     x[i] = s / L[i * p + i];

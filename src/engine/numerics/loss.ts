@@ -20,8 +20,12 @@ export function sigmoid(eta: number): number {
 
 /** η = offset + Xβ for a column-major n×p X, written into `out` (length n). */
 export function linearPredictor(
-  X: Float64Array, n: number, p: number, beta: ArrayLike<number>,
-  offset: Float64Array | undefined, out: Float64Array,
+  X: Float64Array,
+  n: number,
+  p: number,
+  beta: ArrayLike<number>,
+  offset: Float64Array | undefined,
+  out: Float64Array,
 ): Float64Array {
   if (offset) out.set(offset);
   else out.fill(0);
@@ -65,7 +69,12 @@ export function meanCrossEntropy(eta: Float64Array, y: Float64Array, weights?: F
  * Cost n·p(p+1)/2 multiply-adds.
  */
 export function crossProductWeighted(
-  X: Float64Array, n: number, p: number, w: Float64Array, out: Float64Array, wx: Float64Array,
+  X: Float64Array,
+  n: number,
+  p: number,
+  w: Float64Array,
+  out: Float64Array,
+  wx: Float64Array,
 ): Float64Array {
   out.fill(0);
   const B = 1024;
@@ -76,8 +85,14 @@ export function crossProductWeighted(
       for (let i = i0; i < i1; i++) wx[i - i0] = w[i] * X[oj + i];
       let k = j;
       for (; k + 3 < p; k += 4) {
-        const o0 = k * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-        let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+        const o0 = k * n,
+          o1 = o0 + n,
+          o2 = o1 + n,
+          o3 = o2 + n;
+        let s0 = 0,
+          s1 = 0,
+          s2 = 0,
+          s3 = 0;
         for (let i = i0; i < i1; i++) {
           const a = wx[i - i0];
           s0 += a * X[o0 + i];
@@ -117,7 +132,11 @@ export interface LossEvaluation {
  * X column-major n×p; weights are case weights (default 1); penalty length p (default 0).
  */
 export function logisticLoss(
-  X: Float64Array, n: number, p: number, y: Float64Array, beta: ArrayLike<number>,
+  X: Float64Array,
+  n: number,
+  p: number,
+  y: Float64Array,
+  beta: ArrayLike<number>,
   opts: { weights?: Float64Array; offset?: Float64Array; penalty?: Float64Array } = {},
 ): LossEvaluation {
   const eta = linearPredictor(X, n, p, beta, opts.offset, new Float64Array(n));
@@ -126,7 +145,8 @@ export function logisticLoss(
   let sw = 0;
   for (let i = 0; i < n; i++) {
     const ci = opts.weights ? opts.weights[i] : 1;
-    const mu = sigmoid(eta[i]), muc = sigmoid(-eta[i]);
+    const mu = sigmoid(eta[i]),
+      muc = sigmoid(-eta[i]);
     sw += ci;
     w[i] = ci * mu * muc;
     r[i] = ci * (y[i] === 1 ? -muc : mu - y[i]);

@@ -26,29 +26,44 @@ export const CHUNK_ROWS = 32_768;
 /** One full-data pass, as sent to the pool's helpers (typed arrays over SharedArrayBuffers; beta is copied). */
 export interface RowJob {
   op: 'logistic' | 'information';
-  X: Float64Array; n: number; p: number;
+  X: Float64Array;
+  n: number;
+  p: number;
   /** Rows per chunk (CHUNK_ROWS for full-data passes). */
   chunkRows: number;
   /** logistic: outcome, optional case weights and offset, the coefficients; fills eta and w over all rows. */
-  y?: Float64Array; c?: Float64Array; offset?: Float64Array; beta?: Float64Array;
+  y?: Float64Array;
+  c?: Float64Array;
+  offset?: Float64Array;
+  beta?: Float64Array;
   eta?: Float64Array;
   /** information on a row subsample: starts of blocks of `blockRows` rows; chunk k takes blocks [k·chunkRows, …). */
-  blocks?: Int32Array; blockRows?: number;
+  blocks?: Int32Array;
+  blockRows?: number;
   /** logistic: written (case weight × μ(1 − μ)); information: read. */
   w: Float64Array;
   /** Per-chunk partials: loss (length K) and X'r (K·p) for 'logistic'; X'WX (K·p·p, row-major, both triangles) for 'information'. */
-  partLoss: Float64Array; partG: Float64Array; partH?: Float64Array;
+  partLoss: Float64Array;
+  partG: Float64Array;
+  partH?: Float64Array;
   /** Shared Int32Array(2): helpers that finished, and helpers that failed. */
   done: Int32Array;
 }
 
 /** The kernel work of chunks [k0, k1) of a job (on whichever thread runs them). */
-export function runChunks(job: RowJob, k0: number, k1: number, work: Float64Array = new Float64Array(ROW_BLOCK * job.p)): void {
+export function runChunks(
+  job: RowJob,
+  k0: number,
+  k1: number,
+  work: Float64Array = new Float64Array(ROW_BLOCK * job.p),
+): void {
   const { X, n, p, chunkRows } = job;
   for (let k = k0; k < k1; k++) {
     if (job.blocks) {
       // A row subsample: chunk k is the group of blocks [k·chunkRows, (k + 1)·chunkRows).
-      const H = job.partH!.subarray(k * p * p, (k + 1) * p * p), B = job.blockRows!, one = new Float64Array(p * p);
+      const H = job.partH!.subarray(k * p * p, (k + 1) * p * p),
+        B = job.blockRows!,
+        one = new Float64Array(p * p);
       H.fill(0);
       for (let q = k * chunkRows; q < Math.min(job.blocks.length, (k + 1) * chunkRows); q++) {
         const s = job.blocks[q];
@@ -57,9 +72,24 @@ export function runChunks(job: RowJob, k0: number, k1: number, work: Float64Arra
       }
       continue;
     }
-    const a = k * chunkRows, b = Math.min(n, a + chunkRows);
+    const a = k * chunkRows,
+      b = Math.min(n, a + chunkRows);
     if (job.op === 'logistic') {
-      job.partLoss[k] = logisticRows(X, n, p, job.y!, job.beta!, job.c, job.offset, job.eta!, undefined, job.w, job.partG.subarray(k * p, (k + 1) * p), a, b);
+      job.partLoss[k] = logisticRows(
+        X,
+        n,
+        p,
+        job.y!,
+        job.beta!,
+        job.c,
+        job.offset,
+        job.eta!,
+        undefined,
+        job.w,
+        job.partG.subarray(k * p, (k + 1) * p),
+        a,
+        b,
+      );
     } else {
       accumulateXtWX(X, n, p, job.w, job.partH!.subarray(k * p * p, (k + 1) * p * p), work, a, b);
     }
@@ -109,7 +139,7 @@ const spares: Float64Array[] = [];
 const MAX_SPARES = 8;
 
 export function takeBuffer(length: number, shared: boolean): Float64Array {
-  const k = spares.findIndex((a) => a.length === length && (a.buffer instanceof ArrayBuffer) !== shared);
+  const k = spares.findIndex((a) => a.length === length && a.buffer instanceof ArrayBuffer !== shared);
   return k >= 0 ? spares.splice(k, 1)[0] : f64(length, shared);
 }
 
@@ -121,7 +151,8 @@ export function giveBackBuffers(...arrays: Float64Array[]): void {
   }
 }
 
-const isShared = (a: Float64Array | undefined): boolean => !a || (sharedMemory() && a.buffer instanceof SharedArrayBuffer);
+const isShared = (a: Float64Array | undefined): boolean =>
+  !a || (sharedMemory() && a.buffer instanceof SharedArrayBuffer);
 
 /**
  * Runs the passes of one problem (fixed X, y, weights, offset; eta/r/w buffers given per call): on the pool when
@@ -130,14 +161,21 @@ const isShared = (a: Float64Array | undefined): boolean => !a || (sharedMemory()
  * depend on the number of threads.
  */
 export function createRowPasses(
-  X: Float64Array, n: number, p: number, y: Float64Array | undefined, c: Float64Array | undefined, offset: Float64Array | undefined,
+  X: Float64Array,
+  n: number,
+  p: number,
+  y: Float64Array | undefined,
+  c: Float64Array | undefined,
+  offset: Float64Array | undefined,
   chunkRows = CHUNK_ROWS,
 ) {
-  if (chunkRows % 512 !== 0) throw new FulcraError('bad-argument', `chunkRows must be a multiple of 512, got ${chunkRows}.`);
+  if (chunkRows % 512 !== 0)
+    throw new FulcraError('bad-argument', `chunkRows must be a multiple of 512, got ${chunkRows}.`);
   const K = Math.max(1, Math.ceil(n / chunkRows));
   const pool = installed && K > 1 && [X, y, c, offset].every(isShared) ? installed : null;
   const alloc = (len: number) => f64(len, pool !== null);
-  const partLoss = alloc(K), partG = alloc(K * p);
+  const partLoss = alloc(K),
+    partG = alloc(K * p);
   let partH: Float64Array | null = null;
   const done = new Int32Array(pool ? new SharedArrayBuffer(8) : new ArrayBuffer(8));
   const work = new Float64Array(ROW_BLOCK * p);
@@ -158,7 +196,26 @@ export function createRowPasses(
     /** −Σ cᵢ·loglikᵢ; fills eta, w = cμ(1 − μ) and g = X'(c(y − μ)), summing the chunks in order. */
     logistic(beta: ArrayLike<number>, eta: Float64Array, w: Float64Array, g: Float64Array): number {
       if (!y) throw new FulcraError('bad-argument', 'These row passes were set up without an outcome.');
-      exec({ op: 'logistic', X, n, p, chunkRows, y, c, offset, beta: Float64Array.from(beta), eta, w, partLoss, partG, done }, K, isShared(eta) && isShared(w));
+      exec(
+        {
+          op: 'logistic',
+          X,
+          n,
+          p,
+          chunkRows,
+          y,
+          c,
+          offset,
+          beta: Float64Array.from(beta),
+          eta,
+          w,
+          partLoss,
+          partG,
+          done,
+        },
+        K,
+        isShared(eta) && isShared(w),
+      );
       let loss = 0;
       for (let k = 0; k < K; k++) loss += partLoss[k];
       sumParts(partG, K, p, g);
@@ -176,11 +233,15 @@ export function createRowPasses(
      * in BLOCK_GROUPS fixed groups of blocks summed in order.
      */
     informationOnBlocks(w: Float64Array, blocks: Int32Array, blockRows: number, out: Float64Array): Float64Array {
-      const per = Math.ceil(blocks.length / BLOCK_GROUPS), groups = Math.ceil(blocks.length / per);
+      const per = Math.ceil(blocks.length / BLOCK_GROUPS),
+        groups = Math.ceil(blocks.length / per);
       partH ??= alloc(K * p * p);
       const partB = groups <= K ? partH : alloc(groups * p * p);
-      exec({ op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done }, groups,
-        isShared(w) && blocks.buffer instanceof SharedArrayBuffer);
+      exec(
+        { op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done },
+        groups,
+        isShared(w) && blocks.buffer instanceof SharedArrayBuffer,
+      );
       return sumParts(partB, groups, p * p, out);
     },
     /** An Int32Array the pool can read. */
@@ -219,18 +280,30 @@ export function messagePool(helpers: { postMessage(m: unknown): void }[]): RowPo
       });
       const [k0, k1] = chunkRange(chunks, threads, 0);
       runChunks(job, k0, k1, work);
-      let waited = 0, last = -1;
+      let waited = 0,
+        last = -1;
       for (;;) {
         const d = Atomics.load(job.done, 0);
         if (d >= helpers.length) break;
-        if (d !== last) { last = d; waited = 0; }
+        if (d !== last) {
+          last = d;
+          waited = 0;
+        }
         // A helper that never answers (killed by the host) must not hang the fit for ever.
         if (Atomics.wait(job.done, 0, d, 1000) === 'timed-out' && ++waited >= HELPER_TIMEOUT_S) {
-          throw new FulcraError('internal', `A helper thread did not finish its share of the rows within ${HELPER_TIMEOUT_S} s.`, 'Reload the page (or rerun the command); the fit then starts again.');
+          throw new FulcraError(
+            'internal',
+            `A helper thread did not finish its share of the rows within ${HELPER_TIMEOUT_S} s.`,
+            'Reload the page (or rerun the command); the fit then starts again.',
+          );
         }
       }
       if (Atomics.load(job.done, 1) > 0) {
-        throw new FulcraError('internal', 'A helper thread failed while summing its rows.', 'Reload the page (or rerun the command); the fit then starts again.');
+        throw new FulcraError(
+          'internal',
+          'A helper thread failed while summing its rows.',
+          'Reload the page (or rerun the command); the fit then starts again.',
+        );
       }
     },
   };

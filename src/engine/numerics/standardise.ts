@@ -15,14 +15,19 @@ export interface Standardised {
 /** Centres and scales columns 1…p−1 of the column-major X into a new array, or into X itself when `inPlace`. */
 export function standardise(X: Float64Array, n: number, p: number, inPlace = false): Standardised {
   const Z = inPlace ? X : new Float64Array(n * p);
-  const center = new Float64Array(p), scale = new Float64Array(p).fill(1), centerOverScale = new Float64Array(p);
+  const center = new Float64Array(p),
+    scale = new Float64Array(p).fill(1),
+    centerOverScale = new Float64Array(p);
   if (!inPlace) Z.set(X.subarray(0, n));
   for (let j = 1; j < p; j++) {
     const o = j * n;
     // Work on x/M (M = max |x|) so that sums and squares neither overflow nor underflow at any scale.
     let M = 0;
     for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
-    if (M === 0) { for (let i = 0; i < n; i++) Z[o + i] = 0; continue; }
+    if (M === 0) {
+      for (let i = 0; i < n; i++) Z[o + i] = 0;
+      continue;
+    }
     const invM = 1 / M;
     const safeM = Number.isFinite(invM) && invM !== 0;
     const u = (i: number) => (safeM ? X[o + i] * invM : X[o + i] / M);

@@ -52,8 +52,10 @@ export function standardise(problem: PenalisedProblem): Standardised {
   let W = 0;
   for (let i = 0; i < n; i++) {
     const wi = problem.weights ? problem.weights[i] : 1;
-    if (!(wi >= 0) || !Number.isFinite(wi)) throw new FulcraError('bad-weight', `Weight ${wi} in row ${i + 1} is not a finite number ≥ 0.`);
-    if (y[i] !== 0 && y[i] !== 1 && wi > 0) throw new FulcraError('bad-outcome', `Outcome ${y[i]} in row ${i + 1} is not 0 or 1.`);
+    if (!(wi >= 0) || !Number.isFinite(wi))
+      throw new FulcraError('bad-weight', `Weight ${wi} in row ${i + 1} is not a finite number ≥ 0.`);
+    if (y[i] !== 0 && y[i] !== 1 && wi > 0)
+      throw new FulcraError('bad-outcome', `Outcome ${y[i]} in row ${i + 1} is not 0 or 1.`);
     w[i] = wi;
     W += wi;
   }
@@ -63,13 +65,20 @@ export function standardise(problem: PenalisedProblem): Standardised {
     w[i] /= W;
     ybar += w[i] * y[i];
   }
-  const mean = new Float64Array(p), sd = new Float64Array(p), constant: boolean[] = [];
+  const mean = new Float64Array(p),
+    sd = new Float64Array(p),
+    constant: boolean[] = [];
   for (let j = 0; j < p; j++) {
     const o = j * n;
     // Moments of x/M (M = max |x|) so that columns in units of 1e300 or 1e-300 neither overflow nor underflow.
     let M = 0;
     for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
-    if (!(M > 0)) { mean[j] = 0; sd[j] = 0; constant.push(true); continue; }
+    if (!(M > 0)) {
+      mean[j] = 0;
+      sd[j] = 0;
+      constant.push(true);
+      continue;
+    }
     let m = 0;
     for (let i = 0; i < n; i++) m += w[i] * (X[o + i] / M);
     let v = 0;
@@ -103,7 +112,9 @@ function linearPredictor(s: Standardised, b0: number, b: Float64Array, eta: Floa
   eta.fill(b0);
   for (let j = 0; j < p; j++) {
     if (b[j] === 0) continue;
-    const o = j * n, c = b[j] / sd[j], m = mean[j];
+    const o = j * n,
+      c = b[j] / sd[j],
+      m = mean[j];
     for (let i = 0; i < n; i++) eta[i] += c * (X[o + i] - m);
   }
 }
@@ -115,12 +126,13 @@ function meanDeviance(s: Standardised, eta: Float64Array): number {
 }
 
 function penalty(b: Float64Array, lambda: number, alpha: number): number {
-  let l1 = 0, l2 = 0;
+  let l1 = 0,
+    l2 = 0;
   for (let j = 0; j < b.length; j++) {
     l1 += Math.abs(b[j]);
     l2 += b[j] * b[j];
   }
-  return lambda * ((1 - alpha) / 2 * l2 + alpha * l1);
+  return lambda * (((1 - alpha) / 2) * l2 + alpha * l1);
 }
 
 /**
@@ -140,20 +152,27 @@ export function solveAtLambda(
   const q = p + 1; // index 0 is the intercept
   let b0 = start.b0;
   const b = Float64Array.from(start.b);
-  const eta = new Float64Array(n), v = new Float64Array(n), col = new Float64Array(n);
-  const G = new Float64Array(q * q), g = new Float64Array(q), move = new Float64Array(q);
-  const l1 = lambda * alpha * (1 + 1e-10), l2 = lambda * (1 - alpha);
+  const eta = new Float64Array(n),
+    v = new Float64Array(n),
+    col = new Float64Array(n);
+  const G = new Float64Array(q * q),
+    g = new Float64Array(q),
+    move = new Float64Array(q);
+  const l1 = lambda * alpha * (1 + 1e-10),
+    l2 = lambda * (1 - alpha);
   const innerTol = Math.min(1e-24, options.tol * options.tol * 1e-4);
   linearPredictor(s, b0, b, eta);
   let dev = meanDeviance(s, eta);
   let obj = dev / 2 + penalty(b, lambda, alpha);
-  let converged = false, iter = 0;
+  let converged = false,
+    iter = 0;
   const oldB = new Float64Array(p);
   const active = new Uint8Array(p);
 
   // Coordinate k (1-based predictor) of the quadratic model; returns G_kk·Δ².
   const update = (k: number): number => {
-    const j = k - 1, Gkk = G[k * q + k];
+    const j = k - 1,
+      Gkk = G[k * q + k];
     const target = g[k] - move[k] + Gkk * b[j];
     const a = Math.abs(target) - l1;
     const bj = a > 0 ? (Math.sign(target) * a) / (Gkk + l2) : 0;
@@ -184,24 +203,29 @@ export function solveAtLambda(
     }
     for (let k = 1; k < q; k++) {
       if (constant[k - 1]) continue;
-      const o = (k - 1) * n, m = mean[k - 1], sk = sd[k - 1];
+      const o = (k - 1) * n,
+        m = mean[k - 1],
+        sk = sd[k - 1];
       let gk = 0;
       for (let i = 0; i < n; i++) gk += (X[o + i] - m) * col[i];
       g[k] = gk / sk;
     }
     for (let k = 1; k < q; k++) {
       if (constant[k - 1]) continue;
-      const o = (k - 1) * n, m = mean[k - 1], sk = sd[k - 1];
+      const o = (k - 1) * n,
+        m = mean[k - 1],
+        sk = sd[k - 1];
       const t = col; // the gradient pass above is done with col, reuse it
       let g0 = 0;
       for (let i = 0; i < n; i++) {
-        t[i] = v[i] * (X[o + i] - m) / sk;
+        t[i] = (v[i] * (X[o + i] - m)) / sk;
         g0 += t[i];
       }
       G[k] = G[k * q] = g0;
       for (let l = 1; l <= k; l++) {
         if (constant[l - 1]) continue;
-        const ol = (l - 1) * n, ml = mean[l - 1];
+        const ol = (l - 1) * n,
+          ml = mean[l - 1];
         let acc = 0;
         for (let i = 0; i < n; i++) acc += t[i] * (X[ol + i] - ml);
         G[k * q + l] = G[l * q + k] = acc / sd[l - 1];
@@ -270,8 +294,10 @@ export interface PenalisedFit {
 }
 
 function checkAlphaLambda(alpha: number, lambda: number): void {
-  if (!(alpha >= 0 && alpha <= 1)) throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${alpha}.`);
-  if (!(lambda >= 0) || !Number.isFinite(lambda)) throw new FulcraError('bad-lambda', `lambda must be a finite number ≥ 0; got ${lambda}.`);
+  if (!(alpha >= 0 && alpha <= 1))
+    throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${alpha}.`);
+  if (!(lambda >= 0) || !Number.isFinite(lambda))
+    throw new FulcraError('bad-lambda', `lambda must be a finite number ≥ 0; got ${lambda}.`);
 }
 
 /**
@@ -291,7 +317,13 @@ export function penalisedLogistic(
   return assemble(s, problem, alpha, lambda, sol);
 }
 
-export function assemble(s: Standardised, problem: PenalisedProblem, alpha: number, lambda: number, sol: CdSolution): PenalisedFit {
+export function assemble(
+  s: Standardised,
+  problem: PenalisedProblem,
+  alpha: number,
+  lambda: number,
+  sol: CdSolution,
+): PenalisedFit {
   let W = 0;
   for (let i = 0; i < s.n; i++) W += problem.weights ? problem.weights[i] : 1;
   let nonzero = 0;

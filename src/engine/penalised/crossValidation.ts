@@ -82,12 +82,16 @@ export async function crossValidateLambda(
 ): Promise<CvResult> {
   const o = { ...defaultCvOptions, ...options };
   if (o.criterion !== 'deviance' && o.criterion !== 'brier') {
-    throw new FulcraError('bad-criterion', `The cross-validation criterion must be "deviance" or "brier"; got "${String(o.criterion)}".`);
+    throw new FulcraError(
+      'bad-criterion',
+      `The cross-validation criterion must be "deviance" or "brier"; got "${String(o.criterion)}".`,
+    );
   }
   const { n, p, y } = problem;
   const w = problem.weights ?? new Float64Array(n).fill(1);
   const fold = typeof o.folds === 'number' ? stratifiedFolds(y, o.folds, createRng(o.seed), w) : o.folds;
-  if (fold.length !== n) throw new FulcraError('bad-folds', `The fold assignment has ${fold.length} entries for ${n} rows.`);
+  if (fold.length !== n)
+    throw new FulcraError('bad-folds', `The fold assignment has ${fold.length} entries for ${n} rows.`);
   const K = countFolds(fold);
   const full = lambdaPath(problem, alpha, o);
   const warnings: EngineWarning[] = [...full.warnings];
@@ -97,20 +101,28 @@ export async function crossValidateLambda(
   const wTrain = new Float64Array(n);
   let emptyClassFolds = 0;
   for (let f = 0; f < K; f++) {
-    let ev = 0, ne = 0, evTrain = 0, neTrain = 0;
+    let ev = 0,
+      ne = 0,
+      evTrain = 0,
+      neTrain = 0;
     for (let i = 0; i < n; i++) {
       wTrain[i] = fold[i] === f || fold[i] < 0 ? 0 : w[i];
       if (fold[i] === f) {
         foldWeight[f] += w[i];
-        if (y[i] === 1) ev += w[i]; else ne += w[i];
+        if (y[i] === 1) ev += w[i];
+        else ne += w[i];
       } else if (wTrain[i] > 0) {
-        if (y[i] === 1) evTrain += w[i]; else neTrain += w[i];
+        if (y[i] === 1) evTrain += w[i];
+        else neTrain += w[i];
       }
     }
     if (ev === 0 || ne === 0) emptyClassFolds++;
     if (evTrain === 0 || neTrain === 0) {
-      throw new FulcraError('fold-one-class', `Without fold ${f + 1}, the remaining rows hold only ${evTrain === 0 ? 'non-events' : 'events'}, so no model can be fitted for cross-validation.`,
-        'Use fewer folds, or collect more events.');
+      throw new FulcraError(
+        'fold-one-class',
+        `Without fold ${f + 1}, the remaining rows hold only ${evTrain === 0 ? 'non-events' : 'events'}, so no model can be fitted for cross-validation.`,
+        'Use fewer folds, or collect more events.',
+      );
     }
     const fit = lambdaPath({ ...problem, weights: wTrain }, alpha, { ...o, lambda: full.lambda });
     if (!fit.converged) warnings.push(...fit.warnings.filter((x) => x.code === 'not-converged').slice(0, 1));
@@ -146,17 +158,36 @@ export async function crossValidateLambda(
     }
   }
   if (emptyClassFolds > 0) {
-    warnings.push(warning('fold-one-class', `${emptyClassFolds} of ${K} folds hold rows of only one outcome class.`,
-      'Use fewer folds, so each fold holds both events and non-events.'));
+    warnings.push(
+      warning(
+        'fold-one-class',
+        `${emptyClassFolds} of ${K} folds hold rows of only one outcome class.`,
+        'Use fewer folds, so each fold holds both events and non-events.',
+      ),
+    );
   }
   if (indexMin === L - 1 && L > 1) {
-    warnings.push(warning('lambda-at-edge', 'The smallest cross-validated error is at the smallest λ of the path.',
-      'The best penalty may be weaker still: lower the λ ratio to extend the path.'));
+    warnings.push(
+      warning(
+        'lambda-at-edge',
+        'The smallest cross-validated error is at the smallest λ of the path.',
+        'The best penalty may be weaker still: lower the λ ratio to extend the path.',
+      ),
+    );
   }
   return {
-    alpha, criterion: o.criterion, folds: K, seed: o.seed, path,
-    lambdaMin: path[indexMin].lambda, lambda1se: path[index1se].lambda, indexMin, index1se,
-    coefficientsMin: full.coefficients[indexMin], coefficients1se: full.coefficients[index1se],
-    fullPath: full, warnings,
+    alpha,
+    criterion: o.criterion,
+    folds: K,
+    seed: o.seed,
+    path,
+    lambdaMin: path[indexMin].lambda,
+    lambda1se: path[index1se].lambda,
+    indexMin,
+    index1se,
+    coefficientsMin: full.coefficients[indexMin],
+    coefficients1se: full.coefficients[index1se],
+    fullPath: full,
+    warnings,
   };
 }

@@ -8,8 +8,10 @@ import type { Rng } from '../numerics/rng';
  * Rows with weight 0 get fold −1 (they are in no fold).
  */
 export function stratifiedFolds(y: Float64Array, k: number, rng: Rng, weights?: Float64Array): Int32Array {
-  if (!Number.isInteger(k) || k < 2) throw new FulcraError('bad-folds', `The number of folds must be a whole number ≥ 2; got ${k}.`);
-  const events: number[] = [], nonEvents: number[] = [];
+  if (!Number.isInteger(k) || k < 2)
+    throw new FulcraError('bad-folds', `The number of folds must be a whole number ≥ 2; got ${k}.`);
+  const events: number[] = [],
+    nonEvents: number[] = [];
   for (let i = 0; i < y.length; i++) {
     if (weights && !(weights[i] > 0)) continue;
     (y[i] === 1 ? events : nonEvents).push(i);

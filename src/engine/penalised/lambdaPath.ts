@@ -57,8 +57,10 @@ export function lambdaMax(s: Standardised, alpha: number): number {
 
 /** nLambda values log-spaced from λ_max down to ratio·λ_max. */
 export function lambdaSequence(max: number, ratio: number, nLambda: number): number[] {
-  if (!(nLambda >= 1) || !Number.isInteger(nLambda)) throw new FulcraError('bad-nlambda', `nLambda must be a whole number ≥ 1; got ${nLambda}.`);
-  if (!(ratio > 0 && ratio < 1)) throw new FulcraError('bad-lambda-ratio', `The λ ratio must be between 0 and 1; got ${ratio}.`);
+  if (!(nLambda >= 1) || !Number.isInteger(nLambda))
+    throw new FulcraError('bad-nlambda', `nLambda must be a whole number ≥ 1; got ${nLambda}.`);
+  if (!(ratio > 0 && ratio < 1))
+    throw new FulcraError('bad-lambda-ratio', `The λ ratio must be between 0 and 1; got ${ratio}.`);
   if (nLambda === 1) return [max];
   return Array.from({ length: nLambda }, (_, k) => max * Math.exp((k / (nLambda - 1)) * Math.log(ratio)));
 }
@@ -69,7 +71,8 @@ export function lambdaSequence(max: number, ratio: number, nLambda: number): num
  */
 export function lambdaPath(problem: PenalisedProblem, alpha: number, options: Partial<PathOptions> = {}): LambdaPath {
   const o = { ...defaultPathOptions, ...options };
-  if (!(alpha >= 0 && alpha <= 1)) throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${alpha}.`);
+  if (!(alpha >= 0 && alpha <= 1))
+    throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${alpha}.`);
   const s = standardise(problem);
   const warnings: EngineWarning[] = [];
   if (s.ybar <= 0 || s.ybar >= 1) {
@@ -81,20 +84,42 @@ export function lambdaPath(problem: PenalisedProblem, alpha: number, options: Pa
   const constantCols: number[] = [];
   s.constant.forEach((c, j) => c && constantCols.push(j + 1));
   if (constantCols.length > 0) {
-    warnings.push(warning('constant-column', `Predictor column(s) ${constantCols.join(', ')} do not vary among the rows used; their coefficient is kept at 0.`,
-      'Remove predictors that take a single value.'));
+    warnings.push(
+      warning(
+        'constant-column',
+        `Predictor column(s) ${constantCols.join(', ')} do not vary among the rows used; their coefficient is kept at 0.`,
+        'Remove predictors that take a single value.',
+      ),
+    );
   }
   const nullDev = -2 * (s.ybar * Math.log(s.ybar) + (1 - s.ybar) * Math.log(1 - s.ybar));
   let start: { b0: number; b: Float64Array } = { b0: Math.log(s.ybar / (1 - s.ybar)), b: new Float64Array(s.p) };
-  const out: LambdaPath = { alpha, lambda: [], coefficients: [], nonzero: [], devianceRatio: [], nullDeviance: 0, converged: true, warnings };
+  const out: LambdaPath = {
+    alpha,
+    lambda: [],
+    coefficients: [],
+    nonzero: [],
+    devianceRatio: [],
+    nullDeviance: 0,
+    converged: true,
+    warnings,
+  };
   let W = 0;
   for (let i = 0; i < s.n; i++) W += problem.weights ? problem.weights[i] : 1;
   out.nullDeviance = nullDev * W;
   for (let k = 0; k < lambdas.length; k++) {
     // As in glmnet, the first point of an automatic sequence is the null model (λ = λ_max, or ∞ for a ridge).
-    const sol = k === 0 && !o.lambda
-      ? { b0: start.b0, b: new Float64Array(s.p), converged: true, iterations: 0, objective: nullDev / 2, meanDeviance: nullDev }
-      : solveAtLambda(s, lambdas[k], alpha, start, o);
+    const sol =
+      k === 0 && !o.lambda
+        ? {
+            b0: start.b0,
+            b: new Float64Array(s.p),
+            converged: true,
+            iterations: 0,
+            objective: nullDev / 2,
+            meanDeviance: nullDev,
+          }
+        : solveAtLambda(s, lambdas[k], alpha, start, o);
     const fit = assemble(s, problem, alpha, lambdas[k], sol);
     const ratio = 1 - sol.meanDeviance / nullDev;
     out.lambda.push(lambdas[k]);
@@ -106,8 +131,13 @@ export function lambdaPath(problem: PenalisedProblem, alpha: number, options: Pa
     if (o.earlyStop && !o.lambda && k >= 4 && (ratio - out.devianceRatio[k - 1] < 1e-5 || ratio > 0.999)) break;
   }
   if (!out.converged) {
-    warnings.push(warning('not-converged', 'The penalised fit did not converge at every λ.',
-      'Raise the iteration limit, or use a larger smallest λ (a larger λ ratio).'));
+    warnings.push(
+      warning(
+        'not-converged',
+        'The penalised fit did not converge at every λ.',
+        'Raise the iteration limit, or use a larger smallest λ (a larger λ ratio).',
+      ),
+    );
   }
   return out;
 }
@@ -115,8 +145,10 @@ export function lambdaPath(problem: PenalisedProblem, alpha: number, options: Pa
 function checkUserLambda(lambda: number[]): number[] {
   if (lambda.length === 0) throw new FulcraError('bad-lambda', 'The λ sequence is empty.');
   for (let k = 0; k < lambda.length; k++) {
-    if (!(lambda[k] >= 0) || !Number.isFinite(lambda[k])) throw new FulcraError('bad-lambda', `λ value ${lambda[k]} is not a finite number ≥ 0.`);
-    if (k > 0 && lambda[k] > lambda[k - 1]) throw new FulcraError('bad-lambda', 'The λ sequence must be decreasing (warm starts run from large to small λ).');
+    if (!(lambda[k] >= 0) || !Number.isFinite(lambda[k]))
+      throw new FulcraError('bad-lambda', `λ value ${lambda[k]} is not a finite number ≥ 0.`);
+    if (k > 0 && lambda[k] > lambda[k - 1])
+      throw new FulcraError('bad-lambda', 'The λ sequence must be decreasing (warm starts run from large to small λ).');
   }
   return lambda.slice();
 }

@@ -70,7 +70,9 @@ export function performanceMetrics(y: Float64Array, eta: Float64Array, weights?:
  * so the results equal performanceMetrics' to the solver tolerance, warnings and nulls included.
  */
 function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Array): { train: Metrics; test: Metrics } {
-  const n = y.length, risk = new Float64Array(n), expNeg = new Float64Array(n);
+  const n = y.length,
+    risk = new Float64Array(n),
+    expNeg = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     if (!Number.isFinite(eta[i]) || (y[i] !== 0 && y[i] !== 1) || !(counts[i] >= 0)) {
       return { train: performanceMetrics(y, eta, counts), test: performanceMetrics(y, eta) };
@@ -80,13 +82,32 @@ function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Arr
   }
   const order = radixOrder(risk);
   // Mann–Whitney sums over groups of tied risks, resample-weighted (W) and unit-weighted (1).
-  let uW = 0, belowW = 0, eW = 0, u1 = 0, below1 = 0, e1 = 0, seW = 0, se1 = 0, sw = 0;
-  for (let r = 0; r < n; ) {
+  let uW = 0,
+    belowW = 0,
+    eW = 0,
+    u1 = 0,
+    below1 = 0,
+    e1 = 0,
+    seW = 0,
+    se1 = 0,
+    sw = 0;
+  for (let r = 0; r < n;) {
     const v = risk[order[r]];
-    let ge = 0, gn = 0, ce = 0, cn = 0;
+    let ge = 0,
+      gn = 0,
+      ce = 0,
+      cn = 0;
     for (; r < n && risk[order[r]] === v; r++) {
-      const i = order[r], c = counts[i], d = y[i] - v;
-      if (y[i] === 1) { ge += c; ce++; } else { gn += c; cn++; }
+      const i = order[r],
+        c = counts[i],
+        d = y[i] - v;
+      if (y[i] === 1) {
+        ge += c;
+        ce++;
+      } else {
+        gn += c;
+        cn++;
+      }
       seW += c * d * d;
       se1 += d * d;
       sw += c;
@@ -98,10 +119,21 @@ function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Arr
     below1 += cn;
     e1 += ce;
   }
-  const metrics = (w: Float64Array | undefined, u: number, events: number, nonEvents: number, brier: number): Metrics => {
+  const metrics = (
+    w: Float64Array | undefined,
+    u: number,
+    events: number,
+    nonEvents: number,
+    brier: number,
+  ): Metrics => {
     const cal = calibrationByNewton(y, eta, expNeg, w);
     if (!cal) return performanceMetrics(y, eta, w);
-    return { auc: Math.min(1, Math.max(0, u / (events * nonEvents))), calibrationSlope: cal.slope, calibrationInTheLarge: cal.citl, brier };
+    return {
+      auc: Math.min(1, Math.max(0, u / (events * nonEvents))),
+      calibrationSlope: cal.slope,
+      calibrationInTheLarge: cal.citl,
+      brier,
+    };
   };
   return { train: metrics(counts, uW, eW, belowW, seW / sw), test: metrics(undefined, u1, e1, below1, se1 / n) };
 }
@@ -110,18 +142,31 @@ const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
 
 /** Row order of non-negative doubles, ascending: stable LSD radix sort of the IEEE-754 bits in 11-bit digits. */
 function radixOrder(v: Float64Array): Uint32Array {
-  const n = v.length, bits = new Uint32Array(v.buffer, v.byteOffset, 2 * n), count = new Uint32Array(2048);
-  let idx = new Uint32Array(n), tmp = new Uint32Array(n);
+  const n = v.length,
+    bits = new Uint32Array(v.buffer, v.byteOffset, 2 * n),
+    count = new Uint32Array(2048);
+  let idx = new Uint32Array(n),
+    tmp = new Uint32Array(n);
   for (let i = 0; i < n; i++) idx[i] = i;
   for (let pass = 0; pass < 6; pass++) {
-    const word = (pass < 3) === LITTLE_ENDIAN ? 0 : 1, shift = (pass % 3) * 11;
+    const word = pass < 3 === LITTLE_ENDIAN ? 0 : 1,
+      shift = (pass % 3) * 11;
     count.fill(0);
     for (let i = 0; i < n; i++) count[(bits[2 * i + word] >>> shift) & 2047]++;
     if (count[(bits[word] >>> shift) & 2047] === n) continue;
     let sum = 0;
-    for (let k = 0; k < 2048; k++) { const c = count[k]; count[k] = sum; sum += c; }
-    for (let r = 0; r < n; r++) { const i = idx[r]; tmp[count[(bits[2 * i + word] >>> shift) & 2047]++] = i; }
-    const t = idx; idx = tmp; tmp = t;
+    for (let k = 0; k < 2048; k++) {
+      const c = count[k];
+      count[k] = sum;
+      sum += c;
+    }
+    for (let r = 0; r < n; r++) {
+      const i = idx[r];
+      tmp[count[(bits[2 * i + word] >>> shift) & 2047]++] = i;
+    }
+    const t = idx;
+    idx = tmp;
+    tmp = t;
   }
   return idx;
 }
@@ -131,18 +176,26 @@ function radixOrder(v: Float64Array): Uint32Array {
  * halving, to a relative step of 1e-10 (expNeg = e^−eta); null unless both classes have weight, both fits converge
  * within 50 steps and the slope model's information is well conditioned (the caller then uses calibrationRegression).
  */
-function calibrationByNewton(y: Float64Array, eta: Float64Array, expNeg: Float64Array, w: Float64Array | undefined): { citl: number; slope: number } | null {
+function calibrationByNewton(
+  y: Float64Array,
+  eta: Float64Array,
+  expNeg: Float64Array,
+  w: Float64Array | undefined,
+): { citl: number; slope: number } | null {
   const n = y.length;
-  let sw = 0, sy = 0;
+  let sw = 0,
+    sy = 0;
   for (let i = 0; i < n; i++) {
     const wi = w ? w[i] : 1;
     sw += wi;
     sy += wi * y[i];
   }
   if (!(sw > 0) || sy === 0 || sy === sw) return null;
-  let a = 0, converged = false;
+  let a = 0,
+    converged = false;
   for (let it = 0; it < 50 && !converged; it++) {
-    let g = 0, h = 0;
+    let g = 0,
+      h = 0;
     const ea = Math.exp(-a);
     for (let i = 0; i < n; i++) {
       const wi = w ? w[i] : 1;
@@ -157,14 +210,22 @@ function calibrationByNewton(y: Float64Array, eta: Float64Array, expNeg: Float64
     converged = Math.abs(step) <= 1e-10 * (1 + Math.abs(a));
   }
   if (!converged) return null;
-  let b0 = 0, b1 = 1;
+  let b0 = 0,
+    b1 = 1;
   converged = false;
   for (let it = 0; it < 50 && !converged; it++) {
-    let g0 = 0, g1 = 0, h00 = 0, h01 = 0, h11 = 0;
+    let g0 = 0,
+      g1 = 0,
+      h00 = 0,
+      h01 = 0,
+      h11 = 0;
     for (let i = 0; i < n; i++) {
       const wi = w ? w[i] : 1;
       if (wi === 0) continue;
-      const e = eta[i], m = 1 / (1 + (it === 0 ? expNeg[i] : Math.exp(-(b0 + b1 * e)))), r = wi * (y[i] - m), v = wi * m * (1 - m);
+      const e = eta[i],
+        m = 1 / (1 + (it === 0 ? expNeg[i] : Math.exp(-(b0 + b1 * e)))),
+        r = wi * (y[i] - m),
+        v = wi * m * (1 - m);
       g0 += r;
       g1 += r * e;
       h00 += v;
@@ -173,7 +234,8 @@ function calibrationByNewton(y: Float64Array, eta: Float64Array, expNeg: Float64
     }
     const det = h00 * h11 - h01 * h01;
     if (!(det > 1e-8 * h00 * h11)) return null;
-    const s0 = (h11 * g0 - h01 * g1) / det, s1 = (h00 * g1 - h01 * g0) / det;
+    const s0 = (h11 * g0 - h01 * g1) / det,
+      s1 = (h00 * g1 - h01 * g0) / det;
     if (!Number.isFinite(s0) || !Number.isFinite(s1)) return null;
     b0 += s0;
     b1 += s1;
@@ -183,7 +245,8 @@ function calibrationByNewton(y: Float64Array, eta: Float64Array, expNeg: Float64
 }
 
 function quantile(sorted: number[], q: number): number {
-  const h = (sorted.length - 1) * q, lo = Math.floor(h);
+  const h = (sorted.length - 1) * q,
+    lo = Math.floor(h);
   return lo + 1 < sorted.length ? sorted[lo] + (h - lo) * (sorted[lo + 1] - sorted[lo]) : sorted[lo];
 }
 
@@ -195,8 +258,9 @@ function spread(values: number[]): { mean: number; sd: number | null; lower: num
 }
 
 function bothClasses(y: Float64Array, w: Float64Array): boolean {
-  let ev = 0, ne = 0;
-  for (let i = 0; i < y.length; i++) if (w[i] > 0) (y[i] === 1 ? ev++ : ne++);
+  let ev = 0,
+    ne = 0;
+  for (let i = 0; i < y.length; i++) if (w[i] > 0) y[i] === 1 ? ev++ : ne++;
   return ev > 0 && ne > 0;
 }
 
@@ -237,18 +301,29 @@ export async function bootstrapOnDesign(
   if (o.counts) {
     o.B = o.counts.length;
     o.counts.forEach((c, b) => {
-      if (c.length !== d.n) throw new FulcraError('bad-resample', `Resample ${b + 1} has ${c.length} counts for ${d.n} rows.`);
+      if (c.length !== d.n)
+        throw new FulcraError('bad-resample', `Resample ${b + 1} has ${c.length} counts for ${d.n} rows.`);
     });
   }
-  if (!Number.isInteger(o.B) || o.B < 1) throw new FulcraError('bad-replicates', `The number of bootstrap replicates must be a whole number ≥ 1; got ${o.B}.`);
+  if (!Number.isInteger(o.B) || o.B < 1)
+    throw new FulcraError(
+      'bad-replicates',
+      `The number of bootstrap replicates must be a whole number ≥ 1; got ${o.B}.`,
+    );
   const { n, y } = d;
   const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
   const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
   const start = dev.converged ? dev.beta : undefined;
   const rng = createRng(o.seed);
-  const optimism: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
+  const optimism: Record<MetricName, number[]> = {
+    auc: [],
+    calibrationSlope: [],
+    calibrationInTheLarge: [],
+    brier: [],
+  };
   const counts = new Float64Array(n);
-  let failed = 0, notConverged = 0;
+  let failed = 0,
+    notConverged = 0;
   for (let b = 0; b < o.B; b++) {
     counts.fill(0);
     if (o.counts) counts.set(o.counts[b]);
@@ -264,7 +339,8 @@ export async function bootstrapOnDesign(
         if (!fit.converged) notConverged++;
         const { train, test } = replicateMetrics(y, linearPredictor(d, fit.beta), counts);
         for (const m of METRICS) {
-          const a = train[m], t = test[m];
+          const a = train[m],
+            t = test[m];
           if (a !== null && t !== null && Number.isFinite(a - t)) optimism[m].push(a - t);
         }
       }
@@ -272,17 +348,43 @@ export async function bootstrapOnDesign(
     await checkpoint(hooks, b + 1, o.B);
   }
   const rows = METRICS.map((metric): ValidationRow => {
-    const a = apparent[metric], v = optimism[metric];
-    if (a === null || v.length === 0) return { metric, apparent: a, optimism: null, corrected: null, sd: null, lower: null, upper: null, replicates: v.length };
+    const a = apparent[metric],
+      v = optimism[metric];
+    if (a === null || v.length === 0)
+      return {
+        metric,
+        apparent: a,
+        optimism: null,
+        corrected: null,
+        sd: null,
+        lower: null,
+        upper: null,
+        replicates: v.length,
+      };
     const s = spread(v);
-    return { metric, apparent: a, optimism: s.mean, corrected: a - s.mean, sd: s.sd, lower: s.lower, upper: s.upper, replicates: v.length };
+    return {
+      metric,
+      apparent: a,
+      optimism: s.mean,
+      corrected: a - s.mean,
+      sd: s.sd,
+      lower: s.lower,
+      upper: s.upper,
+      replicates: v.length,
+    };
   });
   const warnings = [...d.warnings, ...runWarnings(failed, notConverged, o.B, 'bootstrap replicates')];
   return { method: 'bootstrap', planned: o.B, failed, seed: o.seed, rows, lambda: dev.lambda, warnings };
 }
 
 /** A replicate whose data cannot support the procedure (e.g. a CV fold left with one class) counts as failed. */
-async function tryFit(d: PipelineDesign, pipeline: Pick<Pipeline, 'fitOptions' | 'penalty'>, w: Float64Array, seed: number, start?: Float64Array): Promise<ProcedureFit | null> {
+async function tryFit(
+  d: PipelineDesign,
+  pipeline: Pick<Pipeline, 'fitOptions' | 'penalty'>,
+  w: Float64Array,
+  seed: number,
+  start?: Float64Array,
+): Promise<ProcedureFit | null> {
   try {
     return await fitProcedure(d, pipeline, w, seed, undefined, start);
   } catch (e) {
@@ -294,12 +396,22 @@ async function tryFit(d: PipelineDesign, pipeline: Pick<Pipeline, 'fitOptions' |
 function runWarnings(failed: number, notConverged: number, total: number, what: string): EngineWarning[] {
   const w: EngineWarning[] = [];
   if (failed > 0) {
-    w.push(warning('replicates-skipped', `${failed} of ${total} ${what} held only one outcome class (or left a cross-validation fold without one) and were skipped.`,
-      'With so few events the validation is unstable; collect more events or use a simpler model.'));
+    w.push(
+      warning(
+        'replicates-skipped',
+        `${failed} of ${total} ${what} held only one outcome class (or left a cross-validation fold without one) and were skipped.`,
+        'With so few events the validation is unstable; collect more events or use a simpler model.',
+      ),
+    );
   }
   if (notConverged > 0) {
-    w.push(warning('replicates-not-converged', `The model did not converge in ${notConverged} of ${total} ${what} (often separation in a resample).`,
-      'Consider Firth correction or a penalty, or fewer predictors.'));
+    w.push(
+      warning(
+        'replicates-not-converged',
+        `The model did not converge in ${notConverged} of ${total} ${what} (often separation in a resample).`,
+        'Consider Firth correction or a penalty, or fewer predictors.',
+      ),
+    );
   }
   return w;
 }
@@ -333,16 +445,24 @@ export async function repeatedCvOnDesign(
   hooks?: LongRunHooks,
 ): Promise<InternalValidation> {
   const o = { ...defaultRepeatedCvOptions, ...options };
-  if (!Number.isInteger(o.repeats) || o.repeats < 1) throw new FulcraError('bad-repeats', `The number of repeats must be a whole number ≥ 1; got ${o.repeats}.`);
+  if (!Number.isInteger(o.repeats) || o.repeats < 1)
+    throw new FulcraError('bad-repeats', `The number of repeats must be a whole number ≥ 1; got ${o.repeats}.`);
   const { n, p, X, y } = d;
   const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
   const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
   const start = dev.converged ? dev.beta : undefined;
   const rng = createRng(o.seed);
-  const perRepeat: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
+  const perRepeat: Record<MetricName, number[]> = {
+    auc: [],
+    calibrationSlope: [],
+    calibrationInTheLarge: [],
+    brier: [],
+  };
   const total = o.folds * o.repeats;
-  const w = new Float64Array(n), eta = new Float64Array(n);
-  let failed = 0, notConverged = 0;
+  const w = new Float64Array(n),
+    eta = new Float64Array(n);
+  let failed = 0,
+    notConverged = 0;
   for (let r = 0; r < o.repeats; r++) {
     const fold = stratifiedFolds(y, o.folds, rng);
     let complete = true;
@@ -375,10 +495,30 @@ export async function repeatedCvOnDesign(
     for (const k of METRICS) if (m[k] !== null) perRepeat[k].push(m[k] as number);
   }
   const rows = METRICS.map((metric): ValidationRow => {
-    const a = apparent[metric], v = perRepeat[metric];
-    if (a === null || v.length === 0) return { metric, apparent: a, optimism: null, corrected: null, sd: null, lower: null, upper: null, replicates: v.length };
+    const a = apparent[metric],
+      v = perRepeat[metric];
+    if (a === null || v.length === 0)
+      return {
+        metric,
+        apparent: a,
+        optimism: null,
+        corrected: null,
+        sd: null,
+        lower: null,
+        upper: null,
+        replicates: v.length,
+      };
     const s = spread(v);
-    return { metric, apparent: a, optimism: a - s.mean, corrected: s.mean, sd: s.sd, lower: s.lower, upper: s.upper, replicates: v.length };
+    return {
+      metric,
+      apparent: a,
+      optimism: a - s.mean,
+      corrected: s.mean,
+      sd: s.sd,
+      lower: s.lower,
+      upper: s.upper,
+      replicates: v.length,
+    };
   });
   const warnings = [...d.warnings, ...runWarnings(failed, notConverged, total, 'cross-validation folds')];
   return { method: 'repeated-cv', planned: total, failed, seed: o.seed, rows, lambda: dev.lambda, warnings };

@@ -1,7 +1,13 @@
 import { FulcraError, type Dataset } from '../core/data';
 import { linearPredictorFromRecipe } from '../design/design';
 import { evaluate, type EvaluateOptions, type EvaluationRecord } from '../evaluation/evaluate';
-import { recalibrate, recalibratedModel, type RecalibratedModel, type RecalibrationResult, type ScoringModel } from './recalibration';
+import {
+  recalibrate,
+  recalibratedModel,
+  type RecalibratedModel,
+  type RecalibrationResult,
+  type ScoringModel,
+} from './recalibration';
 import { warning, type EngineWarning } from '../core/warnings';
 
 export interface ExternalValidation {
@@ -39,26 +45,48 @@ export function scoreDesign(model: ScoringModel, X: Float64Array, n: number): Fl
  * recalibration (recalibration.ts), returning both updated models. Rows with a missing value in a used
  * column are dropped and counted; a categorical level the model never saw throws, naming row and column.
  */
-export function externalValidation(model: ScoringModel, data: Dataset, options: Omit<EvaluateOptions, 'eta' | 'weights'> = {}): ExternalValidation {
+export function externalValidation(
+  model: ScoringModel,
+  data: Dataset,
+  options: Omit<EvaluateOptions, 'eta' | 'weights'> = {},
+): ExternalValidation {
   const { recipe } = model;
-  if (model.coefficients.length !== recipe.columnNames.length || model.coefficients.some((c, j) => c.name !== recipe.columnNames[j])) {
+  if (
+    model.coefficients.length !== recipe.columnNames.length ||
+    model.coefficients.some((c, j) => c.name !== recipe.columnNames[j])
+  ) {
     throw new FulcraError('model-mismatch', 'The coefficients do not line up with the model recipe’s design columns.');
   }
-  const enc = linearPredictorFromRecipe(recipe, model.coefficients.map((c) => c.estimate), data);
+  const enc = linearPredictorFromRecipe(
+    recipe,
+    model.coefficients.map((c) => c.estimate),
+    data,
+  );
   if (!enc.y) {
-    throw new FulcraError('no-outcome', `The new data have no column "${recipe.outcome}", so the model cannot be validated on them.`,
-      'Add the outcome column, or score the data without validating.');
+    throw new FulcraError(
+      'no-outcome',
+      `The new data have no column "${recipe.outcome}", so the model cannot be validated on them.`,
+      'Add the outcome column, or score the data without validating.',
+    );
   }
-  if (enc.n === 0) throw new FulcraError('no-complete-rows', 'No row of the new data has a value in every column the model uses.');
+  if (enc.n === 0)
+    throw new FulcraError('no-complete-rows', 'No row of the new data has a value in every column the model uses.');
   const eta = enc.eta;
   const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
   const evaluation = evaluate(enc.y, risk, { ...options, eta });
   const recalibration = recalibrate(enc.y, eta, { level: options.level });
   const warnings: EngineWarning[] = [...evaluation.warnings, ...recalibration.warnings];
   if (enc.nDropped > 0) {
-    const by = Object.entries(enc.droppedByColumn).map(([c, k]) => `"${c}" ${k}`).join(', ');
-    warnings.push(warning('rows-dropped', `${enc.nDropped} of ${data.nRows} rows of the new data were left out for missing values (${by}).`,
-      'If the missing values are not random, the validation may not represent all cases.'));
+    const by = Object.entries(enc.droppedByColumn)
+      .map(([c, k]) => `"${c}" ${k}`)
+      .join(', ');
+    warnings.push(
+      warning(
+        'rows-dropped',
+        `${enc.nDropped} of ${data.nRows} rows of the new data were left out for missing values (${by}).`,
+        'If the missing values are not random, the validation may not represent all cases.',
+      ),
+    );
   }
   return {
     nRows: data.nRows,

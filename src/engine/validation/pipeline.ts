@@ -1,5 +1,12 @@
 import { oddsRatio } from '../fitting/oddsRatio';
-import { assemble, defaultCdOptions, penalisedLogistic, solveAtLambda, standardise as standardiseWeighted, type PenalisedProblem } from '../penalised/coordinateDescent';
+import {
+  assemble,
+  defaultCdOptions,
+  penalisedLogistic,
+  solveAtLambda,
+  standardise as standardiseWeighted,
+  type PenalisedProblem,
+} from '../penalised/coordinateDescent';
 import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks } from '../penalised/crossValidation';
 import { FulcraError, type Dataset } from '../core/data';
 import { buildDesign } from '../design/design';
@@ -22,7 +29,13 @@ export interface PenaltySelection {
   nLambda: number;
 }
 
-export const defaultPenaltySelection: PenaltySelection = { alpha: 1, lambda: 'cv-1se', folds: 10, criterion: 'deviance', nLambda: 100 };
+export const defaultPenaltySelection: PenaltySelection = {
+  alpha: 1,
+  lambda: 'cv-1se',
+  folds: 10,
+  criterion: 'deviance',
+  nLambda: 100,
+};
 
 /**
  * Everything needed to re-run a model building procedure from scratch, as a plain record (it crosses the
@@ -80,18 +93,33 @@ export interface PipelineFit {
 /** Builds the design of a pipeline (complete cases, reference levels and spline knots from the full data). */
 export function pipelineDesign(pipeline: Pipeline): PipelineDesign {
   const d = buildDesign(pipeline.data, pipeline.spec);
-  return withStandardised({ X: d.X, n: d.n, p: d.p, y: d.y, columnNames: d.columnNames, recipe: d.recipe, warnings: d.warnings });
+  return withStandardised({
+    X: d.X,
+    n: d.n,
+    p: d.p,
+    y: d.y,
+    columnNames: d.columnNames,
+    recipe: d.recipe,
+    warnings: d.warnings,
+  });
 }
 
 /** Adds the centred and scaled copy of the design used by the Newton fits (better conditioned). */
-export function withStandardised(d: Omit<PipelineDesign, 'Z' | 'center' | 'scale' | 'centerOverScale'>): PipelineDesign {
+export function withStandardised(
+  d: Omit<PipelineDesign, 'Z' | 'center' | 'scale' | 'centerOverScale'>,
+): PipelineDesign {
   const { Z, center, scale, centerOverScale } = standardise(d.X, d.n, d.p);
   return { ...d, Z, center, scale, centerOverScale };
 }
 
 function checkPenalty(s: PenaltySelection): void {
-  if (!(s.alpha >= 0 && s.alpha <= 1)) throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${s.alpha}.`);
-  if (typeof s.lambda === 'number' ? !(s.lambda >= 0 && Number.isFinite(s.lambda)) : s.lambda !== 'cv-min' && s.lambda !== 'cv-1se') {
+  if (!(s.alpha >= 0 && s.alpha <= 1))
+    throw new FulcraError('bad-alpha', `alpha must be between 0 (ridge) and 1 (lasso); got ${s.alpha}.`);
+  if (
+    typeof s.lambda === 'number'
+      ? !(s.lambda >= 0 && Number.isFinite(s.lambda))
+      : s.lambda !== 'cv-min' && s.lambda !== 'cv-1se'
+  ) {
     throw new FulcraError('bad-lambda', `lambda must be a number ≥ 0, "cv-min" or "cv-1se"; got ${String(s.lambda)}.`);
   }
 }
@@ -122,9 +150,19 @@ export async function fitProcedure(
       const f = penalisedLogistic(problem, pen.alpha, pen.lambda, { tol: o.tol, maxIter: Math.max(o.maxIter, 100) });
       return { beta: f.coefficients, lambda: pen.lambda, converged: f.converged, cv: null };
     }
-    const cv = await crossValidateLambda(problem, pen.alpha, { folds: pen.folds, seed, criterion: pen.criterion, nLambda: pen.nLambda }, hooks);
+    const cv = await crossValidateLambda(
+      problem,
+      pen.alpha,
+      { folds: pen.folds, seed, criterion: pen.criterion, nLambda: pen.nLambda },
+      hooks,
+    );
     const k = pen.lambda === 'cv-min' ? cv.indexMin : cv.index1se;
-    return { beta: Float64Array.from(cv.fullPath.coefficients[k]), lambda: cv.path[k].lambda, converged: cv.fullPath.converged, cv };
+    return {
+      beta: Float64Array.from(cv.fullPath.coefficients[k]),
+      lambda: cv.path[k].lambda,
+      converged: cv.fullPath.converged,
+      cv,
+    };
   }
   if (o.method === 'ridge') {
     if (p === 1) return { beta: interceptOnly(d.y, weights), lambda: o.lambda, converged: true, cv: null };
@@ -150,7 +188,8 @@ export async function fitProcedure(
 
 /** Original-scale coefficients to the Z scale of the Newton fits (inverse of the map in fitProcedure); null if not finite. */
 function toStandardised(d: PipelineDesign, beta: Float64Array): Float64Array | null {
-  if (beta.length !== d.p) throw new FulcraError('bad-start', `The start has ${beta.length} coefficients for ${d.p} design columns.`);
+  if (beta.length !== d.p)
+    throw new FulcraError('bad-start', `The start has ${beta.length} coefficients for ${d.p} design columns.`);
   const z = new Float64Array(d.p);
   z[0] = beta[0];
   for (let j = 1; j < d.p; j++) {
@@ -161,8 +200,17 @@ function toStandardised(d: PipelineDesign, beta: Float64Array): Float64Array | n
 }
 
 /** Ridge at fixed λ from original-scale coefficients, on this weighting's standardised scale (see coordinateDescent). */
-function warmRidge(problem: PenalisedProblem, lambda: number, start: Float64Array, cd: { tol: number; maxIter: number }) {
-  if (start.length !== problem.p + 1) throw new FulcraError('bad-start', `The start has ${start.length} coefficients for ${problem.p + 1} design columns.`);
+function warmRidge(
+  problem: PenalisedProblem,
+  lambda: number,
+  start: Float64Array,
+  cd: { tol: number; maxIter: number },
+) {
+  if (start.length !== problem.p + 1)
+    throw new FulcraError(
+      'bad-start',
+      `The start has ${start.length} coefficients for ${problem.p + 1} design columns.`,
+    );
   const s = standardiseWeighted(problem);
   const b = new Float64Array(s.p);
   let b0 = start[0];
@@ -176,7 +224,8 @@ function warmRidge(problem: PenalisedProblem, lambda: number, start: Float64Arra
 }
 
 function interceptOnly(y: Float64Array, weights?: Float64Array): Float64Array {
-  let sw = 0, sy = 0;
+  let sw = 0,
+    sy = 0;
   for (let i = 0; i < y.length; i++) {
     const w = weights ? weights[i] : 1;
     sw += w;
@@ -190,10 +239,22 @@ export async function fitPipeline(pipeline: Pipeline, hooks?: LongRunHooks): Pro
   const d = pipelineDesign(pipeline);
   const f = await fitProcedure(d, pipeline, undefined, pipeline.seed, hooks);
   const a = pipeline.penalty?.alpha;
-  const method: FitMethod = pipeline.penalty ? (a === 1 ? 'lasso' : a === 0 ? 'ridge' : 'elastic-net') : (pipeline.fitOptions.method ?? defaultFitOptions.method);
+  const method: FitMethod = pipeline.penalty
+    ? a === 1
+      ? 'lasso'
+      : a === 0
+        ? 'ridge'
+        : 'elastic-net'
+    : (pipeline.fitOptions.method ?? defaultFitOptions.method);
   const warnings = [...d.warnings, ...(f.cv?.warnings ?? [])];
   if (!f.converged) {
-    warnings.push(warning('not-converged', 'The model fit did not converge.', 'Raise the iteration limit, or use a penalty or Firth correction if the data separate.'));
+    warnings.push(
+      warning(
+        'not-converged',
+        'The model fit did not converge.',
+        'Raise the iteration limit, or use a penalty or Firth correction if the data separate.',
+      ),
+    );
   }
   return {
     method,

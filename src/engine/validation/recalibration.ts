@@ -56,29 +56,61 @@ function deviance(y: Float64Array, fitted: Float64Array, w?: Float64Array): numb
 }
 
 /** Fits both recalibration models of `lp` on the 0/1 outcome y (optional case weights). */
-export function recalibrate(y: Float64Array, lp: Float64Array, options: { weights?: Float64Array; level?: number } = {}): RecalibrationResult {
+export function recalibrate(
+  y: Float64Array,
+  lp: Float64Array,
+  options: { weights?: Float64Array; level?: number } = {},
+): RecalibrationResult {
   const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1)) throw new FulcraError('bad-level', `The confidence level must be between 0 and 1; got ${level}.`);
-  const n = y.length, w = options.weights;
-  if (lp.length !== n) throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${lp.length}.`);
-  let ev = 0, sw = 0;
+  if (!(level > 0 && level < 1))
+    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1; got ${level}.`);
+  const n = y.length,
+    w = options.weights;
+  if (lp.length !== n)
+    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${lp.length}.`);
+  let ev = 0,
+    sw = 0;
   for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1) throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(lp[i])) throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${lp[i]}.`);
+    if (y[i] !== 0 && y[i] !== 1)
+      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
+    if (!Number.isFinite(lp[i]))
+      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${lp[i]}.`);
     const wi = w ? w[i] : 1;
     ev += wi * y[i];
     sw += wi;
   }
   if (!(ev > 0 && ev < sw)) {
-    return { interceptOnly: null, interceptSlope: null, warnings: [warning('one-class-only', 'Recalibration needs both events and non-events in the new data.', 'Recalibrate on data that contain both.')] };
+    return {
+      interceptOnly: null,
+      interceptSlope: null,
+      warnings: [
+        warning(
+          'one-class-only',
+          'Recalibration needs both events and non-events in the new data.',
+          'Recalibrate on data that contain both.',
+        ),
+      ],
+    };
   }
   const z = qnorm(1 - (1 - level) / 2);
-  const est = (e: number, v: number): IntervalEstimate => ({ estimate: e, se: Math.sqrt(v), lower: e - z * Math.sqrt(v), upper: e + z * Math.sqrt(v) });
+  const est = (e: number, v: number): IntervalEstimate => ({
+    estimate: e,
+    se: Math.sqrt(v),
+    lower: e - z * Math.sqrt(v),
+    upper: e + z * Math.sqrt(v),
+  });
   const warnings: EngineWarning[] = [];
   const ones = new Float64Array(n).fill(1);
   const a = fitSmallLogistic(ones, n, 1, y, w, lp);
   const interceptOnly: Recalibration | null = a.cov
-    ? { kind: 'intercept', intercept: est(a.beta[0], a.cov[0]), slope: null, deviance: deviance(y, a.fitted, w), converged: a.converged, level }
+    ? {
+        kind: 'intercept',
+        intercept: est(a.beta[0], a.cov[0]),
+        slope: null,
+        deviance: deviance(y, a.fitted, w),
+        converged: a.converged,
+        level,
+      }
     : null;
   const X = new Float64Array(2 * n);
   X.set(ones);
@@ -86,12 +118,31 @@ export function recalibrate(y: Float64Array, lp: Float64Array, options: { weight
   const s = fitSmallLogistic(X, n, 2, y, w);
   let interceptSlope: Recalibration | null = null;
   if (s.cov) {
-    interceptSlope = { kind: 'intercept-slope', intercept: est(s.beta[0], s.cov[0]), slope: est(s.beta[1], s.cov[3]), deviance: deviance(y, s.fitted, w), converged: s.converged, level };
+    interceptSlope = {
+      kind: 'intercept-slope',
+      intercept: est(s.beta[0], s.cov[0]),
+      slope: est(s.beta[1], s.cov[3]),
+      deviance: deviance(y, s.fitted, w),
+      converged: s.converged,
+      level,
+    };
   } else {
-    warnings.push(warning('recalibration-slope-undefined', 'The linear predictor does not vary in the new data, so a slope cannot be re-estimated.', 'Use intercept-only recalibration.'));
+    warnings.push(
+      warning(
+        'recalibration-slope-undefined',
+        'The linear predictor does not vary in the new data, so a slope cannot be re-estimated.',
+        'Use intercept-only recalibration.',
+      ),
+    );
   }
   if (!a.converged || !s.converged) {
-    warnings.push(warning('recalibration-not-converged', 'A recalibration fit did not converge (the linear predictor may separate events from non-events).', 'Treat the recalibrated model as unreliable.'));
+    warnings.push(
+      warning(
+        'recalibration-not-converged',
+        'A recalibration fit did not converge (the linear predictor may separate events from non-events).',
+        'Treat the recalibrated model as unreliable.',
+      ),
+    );
   }
   return { interceptOnly, interceptSlope, warnings };
 }
@@ -104,7 +155,8 @@ export function recalibratedModel(model: ScoringModel, r: Recalibration): Recali
   if (model.coefficients[0]?.name !== '(Intercept)') {
     throw new FulcraError('no-intercept', 'The model to recalibrate must have its intercept first.');
   }
-  const a = r.intercept.estimate, b = r.slope ? r.slope.estimate : 1;
+  const a = r.intercept.estimate,
+    b = r.slope ? r.slope.estimate : 1;
   const coefficients = model.coefficients.map((c, j) => {
     const estimate = j === 0 ? a + b * c.estimate : b * c.estimate;
     return { name: c.name, estimate, oddsRatio: oddsRatio(estimate) };

@@ -91,7 +91,12 @@ const finiteOrNull = (x: number | null): number | null => (x === null || !Number
 /** Builds the model-file record from a fit. Throws when an estimate is not finite (the model cannot be scored). */
 export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile {
   const bad = fit.coefficients.find((c) => !Number.isFinite(c.estimate));
-  if (bad) throw new FulcraError('model-not-finite', `The coefficient of "${bad.name}" is ${bad.estimate}; a model with non-finite coefficients cannot be saved for scoring.`, 'Refit with Firth or ridge penalisation.');
+  if (bad)
+    throw new FulcraError(
+      'model-not-finite',
+      `The coefficient of "${bad.name}" is ${bad.estimate}; a model with non-finite coefficients cannot be saved for scoring.`,
+      'Refit with Firth or ridge penalisation.',
+    );
   return {
     fulcraModel: 1,
     fulcraVersion: info.fulcraVersion,
@@ -110,13 +115,33 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
       profileUpper: finiteOrNull(c.profileUpper),
       aliased: c.aliased,
     })),
-    terms: fit.terms.map((t) => ({ name: t.name, columns: [...t.columns], df: t.df, lrChi2: finiteOrNull(t.lrChi2), lrP: finiteOrNull(t.lrP) })),
+    terms: fit.terms.map((t) => ({
+      name: t.name,
+      columns: [...t.columns],
+      df: t.df,
+      lrChi2: finiteOrNull(t.lrChi2),
+      lrP: finiteOrNull(t.lrP),
+    })),
     covariance: fit.covariance && fit.covariance.every(Number.isFinite) ? [...fit.covariance] : null,
     fit: {
-      method: fit.method, lambda: fit.lambda, level: fit.level, converged: fit.converged, iterations: fit.iterations,
-      nUsed: fit.nUsed, nDropped: fit.nDropped, events: fit.events, nonEvents: fit.nonEvents, parameters: fit.parameters,
-      deviance: fit.deviance, nullDeviance: fit.nullDeviance, logLik: fit.logLik, aic: fit.aic, bic: fit.bic,
-      modelLrChi2: fit.modelLrChi2, modelDf: fit.modelDf, modelLrP: fit.modelLrP,
+      method: fit.method,
+      lambda: fit.lambda,
+      level: fit.level,
+      converged: fit.converged,
+      iterations: fit.iterations,
+      nUsed: fit.nUsed,
+      nDropped: fit.nDropped,
+      events: fit.events,
+      nonEvents: fit.nonEvents,
+      parameters: fit.parameters,
+      deviance: fit.deviance,
+      nullDeviance: fit.nullDeviance,
+      logLik: fit.logLik,
+      aic: fit.aic,
+      bic: fit.bic,
+      modelLrChi2: fit.modelLrChi2,
+      modelDf: fit.modelDf,
+      modelLrP: fit.modelLrP,
     },
     training: { fileName: info.fileName ?? null, rows: info.rows ?? null, performance: info.performance ?? null },
     threshold: info.threshold ?? null,

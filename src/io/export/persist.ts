@@ -48,24 +48,50 @@ export interface StoredWorkspace {
 export function classifyStorageError(e: unknown): PersistError {
   if (e instanceof PersistError) return e;
   const name = typeof e === 'object' && e !== null && 'name' in e ? String((e as { name: unknown }).name) : '';
-  const inner = typeof e === 'object' && e !== null && 'inner' in e ? classifyStorageError((e as { inner: unknown }).inner) : null;
+  const inner =
+    typeof e === 'object' && e !== null && 'inner' in e ? classifyStorageError((e as { inner: unknown }).inner) : null;
   if (name === 'QuotaExceededError' || inner?.code === 'storage-full') {
-    return new PersistError('storage-full', 'The browser\u2019s storage for this page is full, so the workspace could not be kept for next time.', e);
+    return new PersistError(
+      'storage-full',
+      'The browser\u2019s storage for this page is full, so the workspace could not be kept for next time.',
+      e,
+    );
   }
   if (name === 'SecurityError' || name === 'InvalidStateError' || name === 'NotAllowedError') {
-    return new PersistError('storage-denied', 'The browser does not allow this page to store data (private browsing or blocked site data), so the workspace could not be kept for next time.', e);
+    return new PersistError(
+      'storage-denied',
+      'The browser does not allow this page to store data (private browsing or blocked site data), so the workspace could not be kept for next time.',
+      e,
+    );
   }
   if (name === 'ReferenceError' || (e instanceof Error && /indexedDB is not defined/.test(e.message))) {
-    return new PersistError('storage-unavailable', 'This browser has no storage for web pages (IndexedDB), so the workspace cannot be kept for next time.', e);
+    return new PersistError(
+      'storage-unavailable',
+      'This browser has no storage for web pages (IndexedDB), so the workspace cannot be kept for next time.',
+      e,
+    );
   }
   const detail = e instanceof Error ? e.message : String(e);
-  return new PersistError('storage-failed', `The workspace could not be stored in the browser (${name || 'error'}: ${detail}).`, e);
+  return new PersistError(
+    'storage-failed',
+    `The workspace could not be stored in the browser (${name || 'error'}: ${detail}).`,
+    e,
+  );
 }
 
 /** Stores the workspace in IndexedDB under `key`. Rejects with a PersistError. */
-export async function saveWorkspaceToBrowser(ws: Workspace, fulcraVersion: string, options: { key?: string; backend?: KeyValueBackend; saved?: string } = {}): Promise<void> {
+export async function saveWorkspaceToBrowser(
+  ws: Workspace,
+  fulcraVersion: string,
+  options: { key?: string; backend?: KeyValueBackend; saved?: string } = {},
+): Promise<void> {
   const backend = options.backend ?? idbBackend;
-  const record: StoredWorkspace = { fulcraWorkspace: WORKSPACE_FILE_VERSION, fulcraVersion, saved: options.saved ?? new Date().toISOString(), workspace: ws };
+  const record: StoredWorkspace = {
+    fulcraWorkspace: WORKSPACE_FILE_VERSION,
+    fulcraVersion,
+    saved: options.saved ?? new Date().toISOString(),
+    workspace: ws,
+  };
   try {
     await backend.set(options.key ?? WORKSPACE_KEY, record);
   } catch (e) {
@@ -78,7 +104,9 @@ export async function saveWorkspaceToBrowser(ws: Workspace, fulcraVersion: strin
  * with damaged fields rejects with FulcraError 'workspace-file-version' / 'workspace-file-invalid';
  * storage failures reject with a PersistError.
  */
-export async function loadWorkspaceFromBrowser(options: { key?: string; backend?: KeyValueBackend } = {}): Promise<StoredWorkspace | null> {
+export async function loadWorkspaceFromBrowser(
+  options: { key?: string; backend?: KeyValueBackend } = {},
+): Promise<StoredWorkspace | null> {
   const backend = options.backend ?? idbBackend;
   let raw: unknown;
   try {
@@ -90,19 +118,29 @@ export async function loadWorkspaceFromBrowser(options: { key?: string; backend?
   const c = new FieldChecker('workspace-file-invalid', 'stored workspace');
   const o = c.object(raw, '(record)');
   if (o.fulcraWorkspace !== WORKSPACE_FILE_VERSION) {
-    throw new FulcraError('workspace-file-version', `The workspace stored in this browser has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`, 'Start a new workspace; open a saved workspace file if you have one.');
+    throw new FulcraError(
+      'workspace-file-version',
+      `The workspace stored in this browser has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
+      'Start a new workspace; open a saved workspace file if you have one.',
+    );
   }
   const w = c.object(o.workspace, 'workspace');
   return {
     fulcraWorkspace: WORKSPACE_FILE_VERSION,
     fulcraVersion: c.string(o.fulcraVersion, 'fulcraVersion'),
     saved: c.string(o.saved, 'saved'),
-    workspace: checkWorkspaceFields(c, w, w.data === null || w.data === undefined ? null : checkStoredDataset(c, w.data)),
+    workspace: checkWorkspaceFields(
+      c,
+      w,
+      w.data === null || w.data === undefined ? null : checkStoredDataset(c, w.data),
+    ),
   };
 }
 
 /** Removes the stored workspace. */
-export async function clearWorkspaceInBrowser(options: { key?: string; backend?: KeyValueBackend } = {}): Promise<void> {
+export async function clearWorkspaceInBrowser(
+  options: { key?: string; backend?: KeyValueBackend } = {},
+): Promise<void> {
   try {
     await (options.backend ?? idbBackend).del(options.key ?? WORKSPACE_KEY);
   } catch (e) {
@@ -116,11 +154,20 @@ function checkStoredDataset(c: FieldChecker, v: unknown): Dataset {
   const columns = c.array(d.columns, 'workspace.data.columns').map((x, i) => {
     const col = c.object(x, `workspace.data.columns[${i}]`);
     const name = c.string(col.name, `workspace.data.columns[${i}].name`);
-    if (col.kind === 'numeric' && col.values instanceof Float64Array && col.values.length === nRows) return { kind: 'numeric' as const, name, values: col.values };
+    if (col.kind === 'numeric' && col.values instanceof Float64Array && col.values.length === nRows)
+      return { kind: 'numeric' as const, name, values: col.values };
     if (col.kind === 'categorical' && col.codes instanceof Int32Array && col.codes.length === nRows) {
-      return { kind: 'categorical' as const, name, codes: col.codes, levels: c.stringArray(col.levels, `workspace.data.columns[${i}].levels`) };
+      return {
+        kind: 'categorical' as const,
+        name,
+        codes: col.codes,
+        levels: c.stringArray(col.levels, `workspace.data.columns[${i}].levels`),
+      };
     }
-    return c.fail(`workspace.data.columns[${i}]`, 'is not a numeric (Float64Array) or categorical (Int32Array) column of nRows values');
+    return c.fail(
+      `workspace.data.columns[${i}]`,
+      'is not a numeric (Float64Array) or categorical (Int32Array) column of nRows values',
+    );
   });
   return { nRows, columns };
 }

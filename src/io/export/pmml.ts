@@ -43,24 +43,31 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
   const derivedNames = new Set<string>();
   const predictors: { expr: ColumnExpr; coefficient: number }[] = [];
 
-  const mainOf = (column: string): RecipeTerm | undefined => recipe.terms.find((t) => t.type !== 'interaction' && t.column === column);
+  const mainOf = (column: string): RecipeTerm | undefined =>
+    recipe.terms.find((t) => t.type !== 'interaction' && t.column === column);
   const addNumericField = (column: string): void => {
     const existing = dataFields.get(column);
-    if (existing && existing.optype !== 'continuous') unsupported(`column "${column}" is used both as categorical and as numeric`);
+    if (existing && existing.optype !== 'continuous')
+      unsupported(`column "${column}" is used both as categorical and as numeric`);
     dataFields.set(column, { optype: 'continuous' });
   };
   const addIndicator = (column: string, level: string): string => {
     const name = `${column}=${level}`;
     if (!derivedNames.has(name)) {
       derivedNames.add(name);
-      derived.push(`    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n      <NormDiscrete field="${x(column)}" value="${x(level)}"/>\n    </DerivedField>`);
+      derived.push(
+        `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n      <NormDiscrete field="${x(column)}" value="${x(level)}"/>\n    </DerivedField>`,
+      );
     }
     return name;
   };
 
   const partColumns = (part: string): { name: string; field: string }[] => {
     const t = mainOf(part);
-    if (t && t.type === 'categorical') return t.levels.filter((l) => l !== t.reference).map((l) => ({ name: `${part}=${l}`, field: addIndicator(part, l) }));
+    if (t && t.type === 'categorical')
+      return t.levels
+        .filter((l) => l !== t.reference)
+        .map((l) => ({ name: `${part}=${l}`, field: addIndicator(part, l) }));
     addNumericField(part);
     return [{ name: part, field: part }];
   };
@@ -72,7 +79,9 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
       exprs.push({ name: t.column, kind: 'numeric', field: t.column });
     } else if (t.type === 'categorical') {
       dataFields.set(t.column, { optype: 'categorical', values: [...t.levels] });
-      for (const level of t.levels) if (level !== t.reference) exprs.push({ name: `${t.column}=${level}`, kind: 'categorical', field: t.column, value: level });
+      for (const level of t.levels)
+        if (level !== t.reference)
+          exprs.push({ name: `${t.column}=${level}`, kind: 'categorical', field: t.column, value: level });
     } else if (t.type === 'spline') {
       addNumericField(t.column);
       exprs.push({ name: t.column, kind: 'numeric', field: t.column });
@@ -80,26 +89,34 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
         const name = t.column + "'".repeat(j + 1);
         if (!derivedNames.has(name)) {
           derivedNames.add(name);
-          derived.push(`    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n${splineExpression(t.column, t.knots, j, 6)}\n    </DerivedField>`);
+          derived.push(
+            `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n${splineExpression(t.column, t.knots, j, 6)}\n    </DerivedField>`,
+          );
         }
         exprs.push({ name, kind: 'numeric', field: name });
       }
     } else {
       const a = partColumns(t.parts[0]);
       const b = partColumns(t.parts[1]);
-      for (const ca of a) for (const cb of b) exprs.push({ name: `${ca.name}:${cb.name}`, kind: 'product', factors: [ca.field, cb.field] });
+      for (const ca of a)
+        for (const cb of b)
+          exprs.push({ name: `${ca.name}:${cb.name}`, kind: 'product', factors: [ca.field, cb.field] });
     }
     const row = fit.terms.find((r) => r.name === t.name);
     if (!row) unsupported(`the fit has no term named "${t.name}"`);
-    if (row.columns.length !== exprs.length) unsupported(`term "${t.name}" has ${row.columns.length} design columns; its recipe implies ${exprs.length}`);
+    if (row.columns.length !== exprs.length)
+      unsupported(`term "${t.name}" has ${row.columns.length} design columns; its recipe implies ${exprs.length}`);
     row.columns.forEach((j, k) => {
       const coef = fit.coefficients[j];
-      if (!coef || coef.name !== exprs[k].name) unsupported(`design column ${j} is "${coef?.name}" but the recipe of "${t.name}" implies "${exprs[k].name}"`);
+      if (!coef || coef.name !== exprs[k].name)
+        unsupported(`design column ${j} is "${coef?.name}" but the recipe of "${t.name}" implies "${exprs[k].name}"`);
       if (!coef.aliased) predictors.push({ expr: exprs[k], coefficient: coef.estimate });
     });
   }
-  for (const name of derivedNames) if (dataFields.has(name)) unsupported(`the derived field "${name}" has the same name as a data column`);
-  for (const p of predictors) if (!Number.isFinite(p.coefficient)) unsupported(`the coefficient of "${p.expr.name}" is not finite`);
+  for (const name of derivedNames)
+    if (dataFields.has(name)) unsupported(`the derived field "${name}" has the same name as a data column`);
+  for (const p of predictors)
+    if (!Number.isFinite(p.coefficient)) unsupported(`the coefficient of "${p.expr.name}" is not finite`);
   const intercept = fit.coefficients[0]?.estimate;
   if (intercept === undefined || !Number.isFinite(intercept)) unsupported('the intercept is missing or not finite');
 
@@ -117,9 +134,17 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
   const cat = predictors.filter((p) => p.expr.kind === 'categorical');
   const prod = predictors.filter((p) => p.expr.kind === 'product');
   const table = [
-    ...num.map((p) => `      <NumericPredictor name="${x(p.expr.field!)}" exponent="1" coefficient="${n(p.coefficient)}"/>`),
-    ...cat.map((p) => `      <CategoricalPredictor name="${x(p.expr.field!)}" value="${x(p.expr.value!)}" coefficient="${n(p.coefficient)}"/>`),
-    ...prod.map((p) => `      <PredictorTerm name="${x(p.expr.name)}" coefficient="${n(p.coefficient)}">\n${p.expr.factors!.map((f) => `        <FieldRef field="${x(f)}"/>`).join('\n')}\n      </PredictorTerm>`),
+    ...num.map(
+      (p) => `      <NumericPredictor name="${x(p.expr.field!)}" exponent="1" coefficient="${n(p.coefficient)}"/>`,
+    ),
+    ...cat.map(
+      (p) =>
+        `      <CategoricalPredictor name="${x(p.expr.field!)}" value="${x(p.expr.value!)}" coefficient="${n(p.coefficient)}"/>`,
+    ),
+    ...prod.map(
+      (p) =>
+        `      <PredictorTerm name="${x(p.expr.name)}" coefficient="${n(p.coefficient)}">\n${p.expr.factors!.map((f) => `        <FieldRef field="${x(f)}"/>`).join('\n')}\n      </PredictorTerm>`,
+    ),
   ];
   const modelName = options.modelName ?? `Risk of ${recipe.outcome} = ${recipe.event}`;
   return [
@@ -151,7 +176,11 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
 }
 
 function unsupported(what: string): never {
-  throw new FulcraError('pmml-unsupported', `The model cannot be written as PMML: ${what}.`, 'Refit the model in Fulcra and export again.');
+  throw new FulcraError(
+    'pmml-unsupported',
+    `The model cannot be written as PMML: ${what}.`,
+    'Refit the model in Fulcra and export again.',
+  );
 }
 
 function targetCategories(event: string, levels?: string[]): [string, string] {
@@ -167,7 +196,8 @@ function splineExpression(field: string, knots: number[], j: number, indent: num
   const tk = knots[k - 1];
   const tk1 = knots[k - 2];
   const tj = knots[j];
-  const c = (t: number) => apply('pow', [apply('max', [apply('-', [fieldRef(field), constant(t)]), constant(0)]), constant(3)]);
+  const c = (t: number) =>
+    apply('pow', [apply('max', [apply('-', [fieldRef(field), constant(t)]), constant(0)]), constant(3)]);
   const expr = apply('/', [
     apply('+', [
       apply('-', [c(tj), apply('*', [c(tk1), constant((tk - tj) / (tk - tk1))])]),
@@ -185,7 +215,9 @@ const constant = (v: number): Node => ({ tag: 'Constant', attrs: { dataType: 'do
 
 function render(node: Node, indent: number): string {
   const pad = ' '.repeat(indent);
-  const attrs = Object.entries(node.attrs).map(([k, v]) => ` ${k}="${x(v)}"`).join('');
+  const attrs = Object.entries(node.attrs)
+    .map(([k, v]) => ` ${k}="${x(v)}"`)
+    .join('');
   if (node.text !== undefined) return `${pad}<${node.tag}${attrs}>${x(node.text)}</${node.tag}>`;
   if (node.children.length === 0) return `${pad}<${node.tag}${attrs}/>`;
   return `${pad}<${node.tag}${attrs}>\n${node.children.map((ch) => render(ch, indent + 2)).join('\n')}\n${pad}</${node.tag}>`;
@@ -197,5 +229,10 @@ function n(v: number): string {
 }
 
 function x(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&apos;');
+  return s
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/"/g, '&quot;')
+    .replace(/'/g, '&apos;');
 }

@@ -56,20 +56,36 @@ export function predictionsCsv(data: Dataset, pred: PredictionsForCsv, options: 
  * The same CSV text as predictionsCsv, in chunks of `rowsPerChunk` lines (header in the first chunk), so a large
  * file can be assembled as `new Blob([...chunks])` without one huge string. Arguments are checked before the first chunk.
  */
-export function predictionsCsvChunks(data: Dataset, pred: PredictionsForCsv, options: PredictionsCsvOptions = {}, rowsPerChunk = 20_000): Generator<string> {
+export function predictionsCsvChunks(
+  data: Dataset,
+  pred: PredictionsForCsv,
+  options: PredictionsCsvOptions = {},
+  rowsPerChunk = 20_000,
+): Generator<string> {
   const decimal = options.decimal ?? '.';
   const delimiter = options.delimiter ?? (decimal === ',' ? ';' : ',');
-  if (decimal === ',' && delimiter === ',') throw new FulcraError('csv-delimiter', 'A decimal comma needs a delimiter other than a comma.', 'Use ";" or tab as the delimiter.');
+  if (decimal === ',' && delimiter === ',')
+    throw new FulcraError(
+      'csv-delimiter',
+      'A decimal comma needs a delimiter other than a comma.',
+      'Use ";" or tab as the delimiter.',
+    );
   const nl = options.newline ?? '\r\n';
   const level = options.level ?? 0.95;
   const t = options.threshold;
-  if (t !== undefined && t !== null && !(t >= 0 && t <= 1)) throw new FulcraError('bad-threshold', `The threshold must be between 0 and 1, got ${t}.`);
-  if (pred.risk.length !== pred.rowsUsed.length) throw new FulcraError('prediction-length', `There are ${pred.risk.length} risks for ${pred.rowsUsed.length} scored rows.`);
+  if (t !== undefined && t !== null && !(t >= 0 && t <= 1))
+    throw new FulcraError('bad-threshold', `The threshold must be between 0 and 1, got ${t}.`);
+  if (pred.risk.length !== pred.rowsUsed.length)
+    throw new FulcraError(
+      'prediction-length',
+      `There are ${pred.risk.length} risks for ${pred.rowsUsed.length} scored rows.`,
+    );
   const hasCi = !!pred.lower && !!pred.upper;
 
   const byRow = new Int32Array(data.nRows).fill(-1);
   pred.rowsUsed.forEach((r, i) => {
-    if (r < 0 || r >= data.nRows) throw new FulcraError('prediction-row', `Scored row index ${r} is outside the dataset (0…${data.nRows - 1}).`);
+    if (r < 0 || r >= data.nRows)
+      throw new FulcraError('prediction-row', `Scored row index ${r} is outside the dataset (0…${data.nRows - 1}).`);
     byRow[r] = i;
   });
 
@@ -96,7 +112,8 @@ export function predictionsCsvChunks(data: Dataset, pred: PredictionsForCsv, opt
     const i = byRow[r];
     out.push(i < 0 ? '' : num(pred.risk[i], decimal));
     if (hasCi) out.push(i < 0 ? '' : num(pred.lower![i], decimal), i < 0 ? '' : num(pred.upper![i], decimal));
-    if (t !== undefined && t !== null) out.push(i < 0 || Number.isNaN(pred.risk[i]) ? '' : pred.risk[i] >= t ? '1' : '0');
+    if (t !== undefined && t !== null)
+      out.push(i < 0 || Number.isNaN(pred.risk[i]) ? '' : pred.risk[i] >= t ? '1' : '0');
     return out.join(delimiter);
   };
   return (function* () {

@@ -14,10 +14,18 @@ export function readModelFile(text: string): ModelFile {
   const o = c.object(raw, '(file)');
   if (!('fulcraModel' in o)) {
     const hint = 'fulcraWorkspace' in o ? ' It looks like a workspace file; open it with "Open workspace".' : '';
-    throw new FulcraError('model-file-version', `This is not a Fulcra model file (it has no "fulcraModel" field).${hint}`, 'Choose a file saved with "Save model".');
+    throw new FulcraError(
+      'model-file-version',
+      `This is not a Fulcra model file (it has no "fulcraModel" field).${hint}`,
+      'Choose a file saved with "Save model".',
+    );
   }
   if (o.fulcraModel !== MODEL_FILE_VERSION) {
-    throw new FulcraError('model-file-version', `This model file has schema version ${JSON.stringify(o.fulcraModel)}; this Fulcra reads version ${MODEL_FILE_VERSION}.`, 'Open it with the Fulcra version that saved it, or save the model again.');
+    throw new FulcraError(
+      'model-file-version',
+      `This model file has schema version ${JSON.stringify(o.fulcraModel)}; this Fulcra reads version ${MODEL_FILE_VERSION}.`,
+      'Open it with the Fulcra version that saved it, or save the model again.',
+    );
   }
   const recipe = checkRecipe(c, o.recipe);
   const coefs = c.array(o.coefficients, 'coefficients').map((x, i) => {
@@ -36,9 +44,11 @@ export function readModelFile(text: string): ModelFile {
       aliased: c.boolean(r.aliased, `${p}.aliased`),
     };
   });
-  if (coefs.length !== recipe.columnNames.length) c.fail('coefficients', `has ${coefs.length} rows but recipe.columnNames has ${recipe.columnNames.length}`);
+  if (coefs.length !== recipe.columnNames.length)
+    c.fail('coefficients', `has ${coefs.length} rows but recipe.columnNames has ${recipe.columnNames.length}`);
   coefs.forEach((k, i) => {
-    if (k.name !== recipe.columnNames[i]) c.fail(`coefficients[${i}].name`, `is "${k.name}" but recipe.columnNames[${i}] is "${recipe.columnNames[i]}"`);
+    if (k.name !== recipe.columnNames[i])
+      c.fail(`coefficients[${i}].name`, `is "${k.name}" but recipe.columnNames[${i}] is "${recipe.columnNames[i]}"`);
   });
   const terms = c.array(o.terms, 'terms').map((x, i) => {
     const r = c.object(x, `terms[${i}]`);
@@ -51,20 +61,29 @@ export function readModelFile(text: string): ModelFile {
     };
   });
   const covariance = o.covariance === null ? null : c.numberArray(o.covariance, 'covariance');
-  if (covariance && covariance.length !== coefs.length * coefs.length) c.fail('covariance', `must have ${coefs.length * coefs.length} entries (p×p), has ${covariance.length}`);
+  if (covariance && covariance.length !== coefs.length * coefs.length)
+    c.fail('covariance', `must have ${coefs.length * coefs.length} entries (p×p), has ${covariance.length}`);
   const f = c.object(o.fit, 'fit');
   const num = (k: string) => c.number(f[k], `fit.${k}`);
   const numOrNull = (k: string) => (f[k] === null ? null : num(k));
   const t = c.object(o.training, 'training');
   const th = o.threshold === null || o.threshold === undefined ? null : c.object(o.threshold, 'threshold');
   const notes = o.notes === undefined ? {} : c.object(o.notes, 'notes');
-  const warnings = o.warnings === undefined ? [] : c.array(o.warnings, 'warnings').map((x, i) => {
-    const w = c.object(x, `warnings[${i}]`);
-    const out: EngineWarning = { code: c.string(w.code, `warnings[${i}].code`), message: c.string(w.message, `warnings[${i}].message`), suggestion: c.string(w.suggestion, `warnings[${i}].suggestion`) };
-    if (w.terms !== undefined) out.terms = c.stringArray(w.terms, `warnings[${i}].terms`);
-    return out;
-  });
-  const perf = t.performance === null || t.performance === undefined ? null : c.object(t.performance, 'training.performance');
+  const warnings =
+    o.warnings === undefined
+      ? []
+      : c.array(o.warnings, 'warnings').map((x, i) => {
+          const w = c.object(x, `warnings[${i}]`);
+          const out: EngineWarning = {
+            code: c.string(w.code, `warnings[${i}].code`),
+            message: c.string(w.message, `warnings[${i}].message`),
+            suggestion: c.string(w.suggestion, `warnings[${i}].suggestion`),
+          };
+          if (w.terms !== undefined) out.terms = c.stringArray(w.terms, `warnings[${i}].terms`);
+          return out;
+        });
+  const perf =
+    t.performance === null || t.performance === undefined ? null : c.object(t.performance, 'training.performance');
   return {
     fulcraModel: 1,
     fulcraVersion: c.string(o.fulcraVersion, 'fulcraVersion'),
@@ -76,17 +95,38 @@ export function readModelFile(text: string): ModelFile {
     covariance,
     fit: {
       method: c.oneOf(f.method, ['ml', 'ridge', 'firth', 'lasso', 'elastic-net'] as const, 'fit.method'),
-      lambda: num('lambda'), level: num('level'), converged: c.boolean(f.converged, 'fit.converged'), iterations: num('iterations'),
-      nUsed: num('nUsed'), nDropped: num('nDropped'), events: num('events'), nonEvents: num('nonEvents'), parameters: num('parameters'),
-      deviance: num('deviance'), nullDeviance: num('nullDeviance'), logLik: num('logLik'), aic: numOrNull('aic'), bic: numOrNull('bic'),
-      modelLrChi2: numOrNull('modelLrChi2'), modelDf: num('modelDf'), modelLrP: numOrNull('modelLrP'),
+      lambda: num('lambda'),
+      level: num('level'),
+      converged: c.boolean(f.converged, 'fit.converged'),
+      iterations: num('iterations'),
+      nUsed: num('nUsed'),
+      nDropped: num('nDropped'),
+      events: num('events'),
+      nonEvents: num('nonEvents'),
+      parameters: num('parameters'),
+      deviance: num('deviance'),
+      nullDeviance: num('nullDeviance'),
+      logLik: num('logLik'),
+      aic: numOrNull('aic'),
+      bic: numOrNull('bic'),
+      modelLrChi2: numOrNull('modelLrChi2'),
+      modelDf: num('modelDf'),
+      modelLrP: numOrNull('modelLrP'),
     },
     training: {
       fileName: t.fileName === null || t.fileName === undefined ? null : c.string(t.fileName, 'training.fileName'),
       rows: t.rows === null || t.rows === undefined ? null : c.number(t.rows, 'training.rows'),
-      performance: perf ? Object.fromEntries(Object.entries(perf).map(([k, v]) => [k, c.number(v, `training.performance.${k}`)])) : null,
+      performance: perf
+        ? Object.fromEntries(Object.entries(perf).map(([k, v]) => [k, c.number(v, `training.performance.${k}`)]))
+        : null,
     },
-    threshold: th ? { value: c.finite(th.value, 'threshold.value'), costFalseNegative: c.finite(th.costFalseNegative, 'threshold.costFalseNegative'), costFalsePositive: c.finite(th.costFalsePositive, 'threshold.costFalsePositive') } : null,
+    threshold: th
+      ? {
+          value: c.finite(th.value, 'threshold.value'),
+          costFalseNegative: c.finite(th.costFalseNegative, 'threshold.costFalseNegative'),
+          costFalsePositive: c.finite(th.costFalsePositive, 'threshold.costFalsePositive'),
+        }
+      : null,
     notes: Object.fromEntries(Object.entries(notes).map(([k, v]) => [k, c.string(v, `notes.${k}`)])),
     warnings,
   };

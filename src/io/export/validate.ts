@@ -11,11 +11,16 @@ export class FieldChecker {
   ) {}
 
   fail(path: string, what: string): never {
-    throw new FulcraError(this.code, `This ${this.fileKind} is damaged or incomplete: "${path}" ${what}.`, 'Export the file again from Fulcra, or check that it was not edited by hand.');
+    throw new FulcraError(
+      this.code,
+      `This ${this.fileKind} is damaged or incomplete: "${path}" ${what}.`,
+      'Export the file again from Fulcra, or check that it was not edited by hand.',
+    );
   }
 
   object(v: unknown, path: string): Record<string, unknown> {
-    if (typeof v !== 'object' || v === null || Array.isArray(v)) this.fail(path, v === undefined ? 'is missing' : 'must be an object');
+    if (typeof v !== 'object' || v === null || Array.isArray(v))
+      this.fail(path, v === undefined ? 'is missing' : 'must be an object');
     return v as Record<string, unknown>;
   }
 
@@ -69,6 +74,10 @@ export function parseJsonFile(text: string, code: string, fileKind: string): unk
   try {
     return JSON.parse(text);
   } catch (e) {
-    throw new FulcraError(code, `This is not a ${fileKind}: the text is not valid JSON (${(e as Error).message}).`, `Choose a ${fileKind} exported by Fulcra.`);
+    throw new FulcraError(
+      code,
+      `This is not a ${fileKind}: the text is not valid JSON (${(e as Error).message}).`,
+      `Choose a ${fileKind} exported by Fulcra.`,
+    );
   }
 }

@@ -59,10 +59,18 @@ export function readWorkspaceFile(text: string): { workspace: Workspace; info: W
   const o = c.object(raw, '(file)');
   if (!('fulcraWorkspace' in o)) {
     const hint = 'fulcraModel' in o ? ' It looks like a model file; open it with "Open model".' : '';
-    throw new FulcraError('workspace-file-version', `This is not a Fulcra workspace file (it has no "fulcraWorkspace" field).${hint}`, 'Choose a file saved with "Save workspace".');
+    throw new FulcraError(
+      'workspace-file-version',
+      `This is not a Fulcra workspace file (it has no "fulcraWorkspace" field).${hint}`,
+      'Choose a file saved with "Save workspace".',
+    );
   }
   if (o.fulcraWorkspace !== WORKSPACE_FILE_VERSION) {
-    throw new FulcraError('workspace-file-version', `This workspace file has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`, 'Open it with the Fulcra version that saved it.');
+    throw new FulcraError(
+      'workspace-file-version',
+      `This workspace file has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
+      'Open it with the Fulcra version that saved it.',
+    );
   }
   const info: WorkspaceFileInfo = {
     fulcraVersion: c.string(o.fulcraVersion, 'fulcraVersion'),
@@ -88,7 +96,12 @@ export function checkWorkspaceFields(c: FieldChecker, w: Record<string, unknown>
     fitOptions: w.fitOptions === undefined ? {} : checkFitOptions(c, w.fitOptions),
     seed: w.seed === null || w.seed === undefined ? null : c.finite(w.seed, 'workspace.seed'),
     threshold: w.threshold === null || w.threshold === undefined ? null : c.finite(w.threshold, 'workspace.threshold'),
-    costs: costs ? { falseNegative: c.finite(costs.falseNegative, 'workspace.costs.falseNegative'), falsePositive: c.finite(costs.falsePositive, 'workspace.costs.falsePositive') } : null,
+    costs: costs
+      ? {
+          falseNegative: c.finite(costs.falseNegative, 'workspace.costs.falseNegative'),
+          falsePositive: c.finite(costs.falsePositive, 'workspace.costs.falsePositive'),
+        }
+      : null,
     freeText: Object.fromEntries(Object.entries(ft).map(([k, v]) => [k, c.string(v, `workspace.freeText.${k}`)])),
   };
   if (w.extra !== undefined) ws.extra = c.object(w.extra, 'workspace.extra');
@@ -123,8 +136,10 @@ function checkSpec(c: FieldChecker, v: unknown): ModelSpec {
 function checkFitOptions(c: FieldChecker, v: unknown): Partial<FitOptions> {
   const o = c.object(v, 'workspace.fitOptions');
   const out: Partial<FitOptions> = {};
-  if (o.method !== undefined) out.method = c.oneOf(o.method, ['ml', 'ridge', 'firth'] as const, 'workspace.fitOptions.method');
-  for (const k of ['lambda', 'tol', 'maxIter', 'level'] as const) if (o[k] !== undefined) out[k] = c.number(o[k], `workspace.fitOptions.${k}`);
+  if (o.method !== undefined)
+    out.method = c.oneOf(o.method, ['ml', 'ridge', 'firth'] as const, 'workspace.fitOptions.method');
+  for (const k of ['lambda', 'tol', 'maxIter', 'level'] as const)
+    if (o[k] !== undefined) out[k] = c.number(o[k], `workspace.fitOptions.${k}`);
   if (o.profile !== undefined) out.profile = c.boolean(o.profile, 'workspace.fitOptions.profile');
   return out;
 }
@@ -165,7 +180,8 @@ function decodeDataset(c: FieldChecker, v: unknown): Dataset {
     const bytes = base64ToBytes(c.string(col[field], `${p}.${field}`));
     const width = kind === 'numeric' ? 8 : 4;
     if (!bytes) c.fail(`${p}.${field}`, 'is not valid base64');
-    if (bytes.length !== nRows * width) c.fail(`${p}.${field}`, `holds ${bytes.length / width} values; nRows is ${nRows}`);
+    if (bytes.length !== nRows * width)
+      c.fail(`${p}.${field}`, `holds ${bytes.length / width} values; nRows is ${nRows}`);
     const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     if (kind === 'numeric') {
       return { kind, name, values: Float64Array.from({ length: nRows }, (_, r) => view.getFloat64(8 * r, true)) };
@@ -180,20 +196,29 @@ function decodeDataset(c: FieldChecker, v: unknown): Dataset {
 }
 
 /** gzip (RFC 1952) of the workspace file text, for large data: suggested extension `.fulcra-workspace.json.gz`. */
-export async function workspaceToGzip(ws: Workspace, info: { fulcraVersion: string; saved?: string }): Promise<Uint8Array> {
+export async function workspaceToGzip(
+  ws: Workspace,
+  info: { fulcraVersion: string; saved?: string },
+): Promise<Uint8Array> {
   const stream = new Blob([workspaceToJson(ws, info)]).stream().pipeThrough(new CompressionStream('gzip'));
   return new Uint8Array(await new Response(stream).arrayBuffer());
 }
 
 /** Reads a workspace file given as bytes, plain UTF-8 JSON or gzip-compressed (detected by its magic bytes 1f 8b). */
-export async function readWorkspaceBytes(bytes: Uint8Array): Promise<{ workspace: Workspace; info: WorkspaceFileInfo }> {
+export async function readWorkspaceBytes(
+  bytes: Uint8Array,
+): Promise<{ workspace: Workspace; info: WorkspaceFileInfo }> {
   if (bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b) {
     let text: string;
     try {
       const stream = new Blob([new Uint8Array(bytes)]).stream().pipeThrough(new DecompressionStream('gzip'));
       text = await new Response(stream).text();
     } catch (e) {
-      throw new FulcraError('workspace-file-invalid', `This compressed workspace file is damaged (${(e as Error).message}).`, 'Export the workspace again.');
+      throw new FulcraError(
+        'workspace-file-invalid',
+        `This compressed workspace file is damaged (${(e as Error).message}).`,
+        'Export the workspace again.',
+      );
     }
     return readWorkspaceFile(text);
   }

@@ -15,7 +15,13 @@ export function DataGrid({ data }: { data: DataSummary }) {
   const { ctl } = useEnv();
   const scroller = useRef<HTMLDivElement>(null);
   const [win, setWin] = useState<{ start: number; rows: string[][] }>({ start: 0, rows: [] });
-  const v = useVirtualizer({ count: data.nRows, getScrollElement: () => scroller.current, estimateSize: () => ROW_H, overscan: 12, scrollMargin: HEAD_H });
+  const v = useVirtualizer({
+    count: data.nRows,
+    getScrollElement: () => scroller.current,
+    estimateSize: () => ROW_H,
+    overscan: 12,
+    scrollMargin: HEAD_H,
+  });
   const items = v.getVirtualItems();
   const first = items[0]?.index ?? 0;
   const last = items[items.length - 1]?.index ?? 0;
@@ -23,20 +29,35 @@ export function DataGrid({ data }: { data: DataSummary }) {
     if (first >= win.start && last < win.start + win.rows.length) return;
     const start = Math.max(0, first - 60);
     let live = true;
-    void ctl.getRows(start, last - first + 120).then((rows) => { if (live && rows) setWin({ start, rows }); });
-    return () => { live = false; };
+    void ctl.getRows(start, last - first + 120).then((rows) => {
+      if (live && rows) setWin({ start, rows });
+    });
+    return () => {
+      live = false;
+    };
   }, [first, last, win, ctl]);
   useEffect(() => setWin({ start: 0, rows: [] }), [data]);
   const width = 64 + data.columns.length * COL_W;
   return (
     <div className="grid-wrap">
-      <div ref={scroller} className="grid-scroll" role="grid" aria-label="Data rows" aria-rowcount={data.nRows + 1} tabIndex={0}>
+      <div
+        ref={scroller}
+        className="grid-scroll"
+        role="grid"
+        aria-label="Data rows"
+        aria-rowcount={data.nRows + 1}
+        tabIndex={0}
+      >
         <div className="grid-head" role="row" style={{ width, height: HEAD_H }}>
-          <div role="columnheader" className="cell rownum">Row</div>
+          <div role="columnheader" className="cell rownum">
+            Row
+          </div>
           {data.columns.map((c) => (
             <div role="columnheader" key={c.name} className="cell head" style={{ width: COL_W }} title={c.reason}>
               <div className="colname">{c.name}</div>
-              <div className="colmeta">{c.type} · {pct(c.missing / Math.max(1, data.nRows), 1)} missing</div>
+              <div className="colmeta">
+                {c.type} · {pct(c.missing / Math.max(1, data.nRows), 1)} missing
+              </div>
               <Sparkline col={c} />
             </div>
           ))}
@@ -45,11 +66,28 @@ export function DataGrid({ data }: { data: DataSummary }) {
           {items.map((it) => {
             const row = win.rows[it.index - win.start];
             return (
-              <div key={it.key} role="row" aria-rowindex={it.index + 2} className="grid-row" style={{ transform: `translateY(${it.start - HEAD_H}px)`, height: ROW_H, width }}>
-                <div role="rowheader" className="cell rownum">{count(it.index + 1)}</div>
+              <div
+                key={it.key}
+                role="row"
+                aria-rowindex={it.index + 2}
+                className="grid-row"
+                style={{ transform: `translateY(${it.start - HEAD_H}px)`, height: ROW_H, width }}
+              >
+                <div role="rowheader" className="cell rownum">
+                  {count(it.index + 1)}
+                </div>
                 {data.columns.map((c, j) => {
                   const text = row?.[j];
-                  return <div role="gridcell" key={c.name} className={`cell ${text === '' ? 'missing' : ''}`} style={{ width: COL_W }}>{text === undefined ? '…' : text === '' ? 'missing' : text}</div>;
+                  return (
+                    <div
+                      role="gridcell"
+                      key={c.name}
+                      className={`cell ${text === '' ? 'missing' : ''}`}
+                      style={{ width: COL_W }}
+                    >
+                      {text === undefined ? '…' : text === '' ? 'missing' : text}
+                    </div>
+                  );
                 })}
               </div>
             );

@@ -30,18 +30,49 @@ export function ExportReport() {
         <summary>Your words for the summary: purpose, setting, population, notes</summary>
         <div className="report-text">
           {FIELDS.map((f) => (
-            <label key={f.key} htmlFor={`${id}-${f.key}`}>{f.label}
-              <textarea id={`${id}-${f.key}`} rows={2} value={text[f.key] ?? ''} onChange={(e) => store.apply(setReportText, { [f.key]: e.target.value })} />
+            <label key={f.key} htmlFor={`${id}-${f.key}`}>
+              {f.label}
+              <textarea
+                id={`${id}-${f.key}`}
+                rows={2}
+                value={text[f.key] ?? ''}
+                onChange={(e) => store.apply(setReportText, { [f.key]: e.target.value })}
+              />
             </label>
           ))}
         </div>
       </details>
       <div className="row">
-        <button type="button" onClick={() => void run()}>Download the model summary (PDF)</button>
-        <button type="button" onClick={() => void ctl.modelFile(text).then((t) => t && downloadFile(t, suggestedFileName('model', outcome), 'application/json'))}>Save the model file (JSON)</button>
-        <button type="button" onClick={() => void ctl.pmml().then((t) => t && downloadFile(t, suggestedFileName('pmml', outcome), 'application/xml'))}>Save as PMML</button>
+        <button type="button" onClick={() => void run()}>
+          Download the model summary (PDF)
+        </button>
+        <button
+          type="button"
+          onClick={() =>
+            void ctl
+              .modelFile(text)
+              .then((t) => t && downloadFile(t, suggestedFileName('model', outcome), 'application/json'))
+          }
+        >
+          Save the model file (JSON)
+        </button>
+        <button
+          type="button"
+          onClick={() =>
+            void ctl.pmml().then((t) => t && downloadFile(t, suggestedFileName('pmml', outcome), 'application/xml'))
+          }
+        >
+          Save as PMML
+        </button>
       </div>
-      <span className="hint"> Includes the equation, odds ratios, performance{validated ? ' with the bootstrap correction' : ' (run bootstrap validation first to include optimism-corrected values)'}, plots, the cut-off of {pct(t)} with its costs, warnings and cautions.</span>
+      <span className="hint">
+        {' '}
+        Includes the equation, odds ratios, performance
+        {validated
+          ? ' with the bootstrap correction'
+          : ' (run bootstrap validation first to include optimism-corrected values)'}
+        , plots, the cut-off of {pct(t)} with its costs, warnings and cautions.
+      </span>
     </section>
   );
 }

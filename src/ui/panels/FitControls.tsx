@@ -30,16 +30,32 @@ export function FitControls() {
         <legend>Method</legend>
         {METHODS.map((m) => (
           <label key={m.id} title={m.hint}>
-            <input type="radio" name={`${id}-method`} value={m.id} checked={method === m.id} onChange={() => store.apply(A.chooseMethod, m.id)} /> {m.label}
+            <input
+              type="radio"
+              name={`${id}-method`}
+              value={m.id}
+              checked={method === m.id}
+              onChange={() => store.apply(A.chooseMethod, m.id)}
+            />{' '}
+            {m.label}
           </label>
         ))}
       </fieldset>
       <div className="row">
         {method === 'elasticnet' && (
-          <NumberField label="Lasso share α (0 = ridge, 1 = lasso)" min={0.05} max={0.95} step={0.05} value={alpha} valid={(v) => v > 0 && v < 1} onChange={(v) => store.apply(A.setAlpha, v)} />
+          <NumberField
+            label="Lasso share α (0 = ridge, 1 = lasso)"
+            min={0.05}
+            max={0.95}
+            step={0.05}
+            value={alpha}
+            valid={(v) => v > 0 && v < 1}
+            onChange={(v) => store.apply(A.setAlpha, v)}
+          />
         )}
         {penalised && (
-          <label>Penalty chosen by
+          <label>
+            Penalty chosen by
             <select value={rule} onChange={(e) => store.apply(A.setLambdaRule, e.target.value as 'min' | '1se')}>
               <option value="1se">one-standard-error rule (simpler model)</option>
               <option value="min">lowest cross-validated deviance</option>
@@ -47,15 +63,24 @@ export function FitControls() {
           </label>
         )}
         {!penalised && (
-          <label>Interval level
+          <label>
+            Interval level
             <select value={level} onChange={(e) => store.apply(A.setLevel, Number(e.target.value))}>
-              <option value={0.9}>90%</option><option value={0.95}>95%</option><option value={0.99}>99%</option>
+              <option value={0.9}>90%</option>
+              <option value={0.95}>95%</option>
+              <option value={0.99}>99%</option>
             </select>
           </label>
         )}
       </div>
-      <button type="button" className="primary" disabled={busy} onClick={() => void ctl.fitModel()}>Fit the model</button>
-      {stale && <p className="stale" role="status">The settings changed since the last fit: results shown are for the previous model.</p>}
+      <button type="button" className="primary" disabled={busy} onClick={() => void ctl.fitModel()}>
+        Fit the model
+      </button>
+      {stale && (
+        <p className="stale" role="status">
+          The settings changed since the last fit: results shown are for the previous model.
+        </p>
+      )}
     </section>
   );
 }

@@ -21,8 +21,18 @@ export function ModelPanel() {
           <div>
             <h3>Odds ratios</h3>
             <ForestPlot rows={view.rows} level={view.fit.level} />
-            <NumbersTable summary="Odds ratios as numbers" headers={['Term', 'Odds ratio', 'Lower', 'Upper']}
-              rows={view.rows.filter((r) => r.term !== '(Intercept)').map((r) => [r.name, num(r.oddsRatio), num(Math.exp(r.profileLower ?? r.waldLower ?? NaN)), num(Math.exp(r.profileUpper ?? r.waldUpper ?? NaN))])} />
+            <NumbersTable
+              summary="Odds ratios as numbers"
+              headers={['Term', 'Odds ratio', 'Lower', 'Upper']}
+              rows={view.rows
+                .filter((r) => r.term !== '(Intercept)')
+                .map((r) => [
+                  r.name,
+                  num(r.oddsRatio),
+                  num(Math.exp(r.profileLower ?? r.waldLower ?? NaN)),
+                  num(Math.exp(r.profileUpper ?? r.waldUpper ?? NaN)),
+                ])}
+            />
           </div>
           <div>
             <TermTests view={view} />
@@ -39,29 +49,44 @@ export function ModelPanel() {
 
 function FitSummary({ view }: { view: FitView }) {
   const f = view.fit;
-  const methodName = { ml: 'maximum likelihood', firth: 'Firth penalised likelihood', ridge: 'ridge', lasso: 'lasso', elasticnet: 'elastic net' }[view.request.method];
+  const methodName = {
+    ml: 'maximum likelihood',
+    firth: 'Firth penalised likelihood',
+    ridge: 'ridge',
+    lasso: 'lasso',
+    elasticnet: 'elastic net',
+  }[view.request.method];
   return (
     <section className="summary" aria-label="Fit summary" data-testid="fit-summary">
       <p>
-        Fitted by <strong>{methodName}</strong>{f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge'} on{' '}
-        <strong>{count(f.nUsed)}</strong> rows ({count(f.events)} events, {count(f.nonEvents)} non-events
-        {f.nDropped > 0 ? `; ${count(f.nDropped)} rows left out for missing values` : ''}).{' '}
-        {f.parameters} {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
-        {view.threads > 1 && <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>}
+        Fitted by <strong>{methodName}</strong>
+        {f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge'} on <strong>{count(f.nUsed)}</strong>{' '}
+        rows ({count(f.events)} events, {count(f.nonEvents)} non-events
+        {f.nDropped > 0 ? `; ${count(f.nDropped)} rows left out for missing values` : ''}). {f.parameters}{' '}
+        {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
+        {view.threads > 1 && (
+          <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>
+        )}
       </p>
       {view.lambda && (
-        <p>Penalty λ = {num(view.lambda.chosen, 5)} ({view.lambda.rule === '1se' ? 'one-standard-error rule' : 'lowest CV deviance'};
-          λ at the minimum {num(view.lambda.lambdaMin, 5)}, by the 1-SE rule {num(view.lambda.lambda1se, 5)}; α = {num(view.lambda.alpha, 2)}).</p>
+        <p>
+          Penalty λ = {num(view.lambda.chosen, 5)} (
+          {view.lambda.rule === '1se' ? 'one-standard-error rule' : 'lowest CV deviance'}; λ at the minimum{' '}
+          {num(view.lambda.lambdaMin, 5)}, by the 1-SE rule {num(view.lambda.lambda1se, 5)}; α ={' '}
+          {num(view.lambda.alpha, 2)}).
+        </p>
       )}
       {f.modelLrChi2 === null || f.modelLrP === null ? (
         <p>
-          Deviance {num(f.deviance, 2)} at the shrunken estimates vs {num(f.nullDeviance, 2)} without predictors. No likelihood-ratio
-          test, AIC or BIC: the penalised estimate is not a likelihood maximum.
+          Deviance {num(f.deviance, 2)} at the shrunken estimates vs {num(f.nullDeviance, 2)} without predictors. No
+          likelihood-ratio test, AIC or BIC: the penalised estimate is not a likelihood maximum.
         </p>
       ) : (
         <p>
-          Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors: likelihood-ratio χ² = {num(f.modelLrChi2, 2)} on {f.modelDf} df,
-          p {pValue(f.modelLrP).startsWith('<') ? pValue(f.modelLrP) : `= ${pValue(f.modelLrP)}`}. AIC {num(f.aic, 1)}, BIC {num(f.bic, 1)}.
+          Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors: likelihood-ratio χ² ={' '}
+          {num(f.modelLrChi2, 2)} on {f.modelDf} df, p{' '}
+          {pValue(f.modelLrP).startsWith('<') ? pValue(f.modelLrP) : `= ${pValue(f.modelLrP)}`}. AIC {num(f.aic, 1)},
+          BIC {num(f.bic, 1)}.
         </p>
       )}
     </section>
@@ -74,9 +99,23 @@ function TermTests({ view }: { view: FitView }) {
   return (
     <table className="terms" aria-label="Likelihood-ratio test per term">
       <caption>Does each term matter? Likelihood-ratio test of leaving it out</caption>
-      <thead><tr><th scope="col">Term</th><th scope="col">df</th><th scope="col">χ²</th><th scope="col">p</th></tr></thead>
+      <thead>
+        <tr>
+          <th scope="col">Term</th>
+          <th scope="col">df</th>
+          <th scope="col">χ²</th>
+          <th scope="col">p</th>
+        </tr>
+      </thead>
       <tbody>
-        {terms.map((t) => <tr key={t.name}><th scope="row">{t.name}</th><td className="num">{t.df}</td><td className="num">{num(t.lrChi2, 2)}</td><td className="num">{pValue(t.lrP)}</td></tr>)}
+        {terms.map((t) => (
+          <tr key={t.name}>
+            <th scope="row">{t.name}</th>
+            <td className="num">{t.df}</td>
+            <td className="num">{num(t.lrChi2, 2)}</td>
+            <td className="num">{pValue(t.lrP)}</td>
+          </tr>
+        ))}
       </tbody>
     </table>
   );
@@ -87,7 +126,11 @@ function SampleSize({ view }: { view: FitView }) {
   return (
     <section className="sample-size" aria-label="Sample-size check">
       <h3>Is the sample big enough?</h3>
-      <ul>{view.sampleSize.lines.map((l) => <li key={l}>{l}</li>)}</ul>
+      <ul>
+        {view.sampleSize.lines.map((l) => (
+          <li key={l}>{l}</li>
+        ))}
+      </ul>
     </section>
   );
 }

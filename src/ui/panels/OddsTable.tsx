@@ -9,7 +9,9 @@ export function OddsTable({ view }: { view: FitView }) {
   return (
     <table className="odds" data-testid="odds-table">
       <caption>
-        {penalised ? 'Penalised estimates (no valid confidence intervals or p-values for penalised fits).' : `Odds ratios with ${level}% confidence intervals.`}
+        {penalised
+          ? 'Penalised estimates (no valid confidence intervals or p-values for penalised fits).'
+          : `Odds ratios with ${level}% confidence intervals.`}
       </caption>
       <thead>
         <tr>
@@ -26,11 +28,24 @@ export function OddsTable({ view }: { view: FitView }) {
       <tbody>
         {view.rows.map((r) => (
           <tr key={r.name} className={r.aliased ? 'aliased' : ''} data-name={r.name}>
-            <th scope="row">{r.name}{r.aliased ? ' (aliased: dropped)' : ''}</th>
-            <td className="num" data-col="estimate">{num(r.estimate, 4)}</td>
-            <td className="num" data-col="or">{r.term === '(Intercept)' ? '—' : num(r.oddsRatio, 3)}</td>
-            {!penalised && <td className="num">{r.term === '(Intercept)' ? '—' : ci(exp(r.profileLower), exp(r.profileUpper), 3)}</td>}
-            {!penalised && <td className="num">{r.term === '(Intercept)' ? '—' : ci(exp(r.waldLower), exp(r.waldUpper), 3)}</td>}
+            <th scope="row">
+              {r.name}
+              {r.aliased ? ' (aliased: dropped)' : ''}
+            </th>
+            <td className="num" data-col="estimate">
+              {num(r.estimate, 4)}
+            </td>
+            <td className="num" data-col="or">
+              {r.term === '(Intercept)' ? '—' : num(r.oddsRatio, 3)}
+            </td>
+            {!penalised && (
+              <td className="num">
+                {r.term === '(Intercept)' ? '—' : ci(exp(r.profileLower), exp(r.profileUpper), 3)}
+              </td>
+            )}
+            {!penalised && (
+              <td className="num">{r.term === '(Intercept)' ? '—' : ci(exp(r.waldLower), exp(r.waldUpper), 3)}</td>
+            )}
             {!penalised && <td className="num">{num(r.se, 4)}</td>}
             {!penalised && <td className="num">{pValue(r.p)}</td>}
             {truth && <td className="num">{num(r.truth, 3)}</td>}

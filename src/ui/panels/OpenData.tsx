@@ -17,20 +17,29 @@ export function OpenData({ compact = false }: { compact?: boolean }) {
   return (
     <section
       className={`open ${over ? 'over' : ''} ${compact ? 'compact' : ''}`}
-      onDragOver={(e) => { e.preventDefault(); setOver(true); }}
+      onDragOver={(e) => {
+        e.preventDefault();
+        setOver(true);
+      }}
       onDragLeave={() => setOver(false)}
       onDrop={onDrop}
       aria-label="Open your own data"
     >
       <div>
-        <label htmlFor={`${id}-file`} className="button-like">Open a spreadsheet (.csv, .tsv, .txt, .xlsx)</label>
+        <label htmlFor={`${id}-file`} className="button-like">
+          Open a spreadsheet (.csv, .tsv, .txt, .xlsx)
+        </label>
         <input
           id={`${id}-file`}
           data-testid="file-input"
           type="file"
           accept=".csv,.tsv,.txt,.xlsx,text/csv,text/plain"
           className="visually-hidden"
-          onChange={(e) => { const f = e.target.files?.[0]; if (f) void ctl.openFile(f); e.target.value = ''; }}
+          onChange={(e) => {
+            const f = e.target.files?.[0];
+            if (f) void ctl.openFile(f);
+            e.target.value = '';
+          }}
         />
         <span className="hint"> or drop a file here. It is read on this computer only.</span>
       </div>
@@ -39,7 +48,9 @@ export function OpenData({ compact = false }: { compact?: boolean }) {
         <div className="paste">
           <label htmlFor={`${id}-paste`}>Or paste cells copied from a spreadsheet (first row = column names)</label>
           <textarea id={`${id}-paste`} rows={3} value={pasted} onChange={(e) => setPasted(e.target.value)} />
-          <button type="button" disabled={!pasted.trim()} onClick={() => void ctl.pasteText(pasted)}>Use pasted cells</button>
+          <button type="button" disabled={!pasted.trim()} onClick={() => void ctl.pasteText(pasted)}>
+            Use pasted cells
+          </button>
         </div>
       )}
     </section>

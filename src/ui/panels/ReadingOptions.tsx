@@ -15,35 +15,67 @@ export function ReadingOptions() {
     <details className="reading">
       <summary>How to read the file{data?.format ? ` (read as ${describe(data.format)})` : ''}</summary>
       <div className="row">
-        <label>Separator
-          <select value={settings.delimiter} onChange={(e) => set({ delimiter: e.target.value as ImportSettings['delimiter'] })}>
-            <option value="auto">detect</option><option value=",">comma</option><option value=";">semicolon</option>
-            <option value={'\t'}>tab</option><option value="|">vertical bar</option>
+        <label>
+          Separator
+          <select
+            value={settings.delimiter}
+            onChange={(e) => set({ delimiter: e.target.value as ImportSettings['delimiter'] })}
+          >
+            <option value="auto">detect</option>
+            <option value=",">comma</option>
+            <option value=";">semicolon</option>
+            <option value={'\t'}>tab</option>
+            <option value="|">vertical bar</option>
           </select>
         </label>
-        <label>Decimal mark
-          <select value={settings.decimal} onChange={(e) => set({ decimal: e.target.value as ImportSettings['decimal'] })}>
-            <option value="auto">detect</option><option value=".">point (1.5)</option><option value=",">comma (1,5)</option>
+        <label>
+          Decimal mark
+          <select
+            value={settings.decimal}
+            onChange={(e) => set({ decimal: e.target.value as ImportSettings['decimal'] })}
+          >
+            <option value="auto">detect</option>
+            <option value=".">point (1.5)</option>
+            <option value=",">comma (1,5)</option>
           </select>
         </label>
-        <label>Text encoding
-          <select value={settings.encoding} onChange={(e) => set({ encoding: e.target.value as ImportSettings['encoding'] })}>
-            <option value="auto">detect</option><option value="utf-8">UTF-8</option><option value="windows-1252">Windows-1252</option>
+        <label>
+          Text encoding
+          <select
+            value={settings.encoding}
+            onChange={(e) => set({ encoding: e.target.value as ImportSettings['encoding'] })}
+          >
+            <option value="auto">detect</option>
+            <option value="utf-8">UTF-8</option>
+            <option value="windows-1252">Windows-1252</option>
           </select>
         </label>
-        <label>First row holds column names
+        <label>
+          First row holds column names
           <select value={settings.header} onChange={(e) => set({ header: e.target.value as ImportSettings['header'] })}>
-            <option value="auto">detect</option><option value="yes">yes</option><option value="no">no</option>
+            <option value="auto">detect</option>
+            <option value="yes">yes</option>
+            <option value="no">no</option>
           </select>
         </label>
         {sheets.length > 1 && (
-          <label>Sheet
-            <select value={settings.sheet ?? data?.format?.sheet ?? ''} onChange={(e) => set({ sheet: e.target.value })}>
-              {sheets.map((sh) => <option key={sh}>{sh}</option>)}
+          <label>
+            Sheet
+            <select
+              value={settings.sheet ?? data?.format?.sheet ?? ''}
+              onChange={(e) => set({ sheet: e.target.value })}
+            >
+              {sheets.map((sh) => (
+                <option key={sh}>{sh}</option>
+              ))}
             </select>
           </label>
         )}
-        {fromFile && <button type="button" onClick={() => void ctl.reread()}>Read the file again with these settings</button>}
+        {fromFile && (
+          <button type="button" onClick={() => void ctl.reread()}>
+            Read the file again with these settings
+          </button>
+        )}
       </div>
     </details>
   );
@@ -51,6 +83,13 @@ export function ReadingOptions() {
 
 function describe(f: ImportFormat): string {
   if (f.kind === 'xlsx') return `workbook, sheet "${f.sheet ?? ''}"`;
-  const sep = f.delimiter === '\t' ? 'tab' : f.delimiter === ',' ? 'comma' : f.delimiter === ';' ? 'semicolon' : f.delimiter ?? '?';
+  const sep =
+    f.delimiter === '\t'
+      ? 'tab'
+      : f.delimiter === ','
+        ? 'comma'
+        : f.delimiter === ';'
+          ? 'semicolon'
+          : (f.delimiter ?? '?');
   return `${sep}-separated, decimal ${f.decimal === ',' ? 'comma' : 'point'}, ${f.encoding ?? ''}${f.header ? ', header row' : ', no header row'}`;
 }

@@ -28,9 +28,12 @@ function RiskCurve() {
   return (
     <section aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Predicted risk against one predictor</h2>
-      <label>Predictor
+      <label>
+        Predictor
         <select value={curve?.predictor ?? ''} onChange={(e) => void ctl.riskCurve(e.target.value)}>
-          {unique.map((c) => <option key={c}>{c}</option>)}
+          {unique.map((c) => (
+            <option key={c}>{c}</option>
+          ))}
         </select>
       </label>
       {curve && (
@@ -39,15 +42,42 @@ function RiskCurve() {
             title={`Predicted risk against ${curve.predictor}`}
             xLabel={curve.predictor}
             yLabel="Predicted risk"
-            xDomain={curve.numeric ? [curve.points[0].x, curve.points[curve.points.length - 1].x] : [-0.5, curve.points.length - 0.5]}
+            xDomain={
+              curve.numeric
+                ? [curve.points[0].x, curve.points[curve.points.length - 1].x]
+                : [-0.5, curve.points.length - 0.5]
+            }
             yDomain={[0, Math.min(1, finiteMax([0.05, ...curve.points.flatMap((p) => [p.risk, p.upper])], 1) * 1.05)]}
-            series={[{ label: 'predicted risk', color: palette.blue, points: curve.points.map((p) => ({ x: p.x, y: p.risk })) }]}
-            band={curve.points.some((p) => Number.isFinite(p.lower)) ? curve.points.map((p) => ({ x: p.x, lower: p.lower, upper: p.upper })) : undefined}
+            series={[
+              {
+                label: 'predicted risk',
+                color: palette.blue,
+                points: curve.points.map((p) => ({ x: p.x, y: p.risk })),
+              },
+            ]}
+            band={
+              curve.points.some((p) => Number.isFinite(p.lower))
+                ? curve.points.map((p) => ({ x: p.x, lower: p.lower, upper: p.upper }))
+                : undefined
+            }
             rug={curve.numeric ? curve.rug : undefined}
           />
-          <p className="hint">Other predictors held at: {Object.entries(curve.heldAt).map(([k, v]) => `${k} = ${typeof v === 'number' ? num(v, 2) : v}`).join(', ') || 'none'}. {curve.points.some((p) => Number.isFinite(p.lower)) ? `Band: ${Math.round((fit?.fit.level ?? 0.95) * 100)}% confidence interval.` : 'No confidence band: a penalised fit has no valid covariance.'}</p>
-          <NumbersTable summary="Risk curve as numbers" headers={[curve.predictor, 'Risk', 'Lower', 'Upper']}
-            rows={curve.points.map((p) => [p.label, pct(p.risk), pct(p.lower), pct(p.upper)])} maxRows={30} />
+          <p className="hint">
+            Other predictors held at:{' '}
+            {Object.entries(curve.heldAt)
+              .map(([k, v]) => `${k} = ${typeof v === 'number' ? num(v, 2) : v}`)
+              .join(', ') || 'none'}
+            .{' '}
+            {curve.points.some((p) => Number.isFinite(p.lower))
+              ? `Band: ${Math.round((fit?.fit.level ?? 0.95) * 100)}% confidence interval.`
+              : 'No confidence band: a penalised fit has no valid covariance.'}
+          </p>
+          <NumbersTable
+            summary="Risk curve as numbers"
+            headers={[curve.predictor, 'Risk', 'Lower', 'Upper']}
+            rows={curve.points.map((p) => [p.label, pct(p.risk), pct(p.lower), pct(p.upper)])}
+            maxRows={30}
+          />
         </>
       )}
     </section>
@@ -74,9 +104,14 @@ function LossSurface() {
       <h2 id={`${id}-h`}>The loss the fit minimises</h2>
       <div className="row">
         {[0, 1].map((k) => (
-          <label key={k}>{k === 0 ? 'Across' : 'Up'}
+          <label key={k}>
+            {k === 0 ? 'Across' : 'Up'}
             <select value={pair[k]} onChange={(e) => choose(k as 0 | 1, Number(e.target.value))}>
-              {names.map((n, i) => <option key={n} value={i}>{n}</option>)}
+              {names.map((n, i) => (
+                <option key={n} value={i}>
+                  {n}
+                </option>
+              ))}
             </select>
           </label>
         ))}
@@ -85,14 +120,19 @@ function LossSurface() {
         <>
           <LossSurfacePlot view={surf} />
           <p className="hint">
-            Mean cross-entropy{surf.penalised ? ' plus the penalty' : ''} with every other coefficient held at its estimate.
+            Mean cross-entropy{surf.penalised ? ' plus the penalty' : ''} with every other coefficient held at its
+            estimate.
             {surf.penalised ? ' The penalty pulls the optimum towards zero.' : ''}
           </p>
           <p className="hint" data-testid="loss-summary">
-            Values on the grid run from {num(Math.min(...surf.values), 5)} to {num(Math.max(...surf.values), 5)}; the estimate is at {surf.names[0]} = {num(surf.optimum[0], 4)}, {surf.names[1]} = {num(surf.optimum[1], 4)}.
+            Values on the grid run from {num(Math.min(...surf.values), 5)} to {num(Math.max(...surf.values), 5)}; the
+            estimate is at {surf.names[0]} = {num(surf.optimum[0], 4)}, {surf.names[1]} = {num(surf.optimum[1], 4)}.
           </p>
-          <NumbersTable summary="Optimiser path as numbers" headers={['Step', surf.names[0], surf.names[1]]}
-            rows={surf.path.map(([a, b], i) => [i, num(a, 4), num(b, 4)])} />
+          <NumbersTable
+            summary="Optimiser path as numbers"
+            headers={['Step', surf.names[0], surf.names[1]]}
+            rows={surf.path.map(([a, b], i) => [i, num(a, 4), num(b, 4)])}
+          />
         </>
       )}
     </section>

@@ -13,19 +13,23 @@ export function StartPanel() {
       <div className="demo-cards">
         <button type="button" className="demo" onClick={() => void ctl.startDemo('ssi')}>
           <strong>Surgical-site infections</strong>
-          <span>Northfield General Hospital (fictional): 2,000 invented operations — age, BMI, diabetes, ASA class,
-            wound class, duration, antibiotic timing, smoking; outcome: infection within 30 days.</span>
+          <span>
+            Northfield General Hospital (fictional): 2,000 invented operations — age, BMI, diabetes, ASA class, wound
+            class, duration, antibiotic timing, smoking; outcome: infection within 30 days.
+          </span>
         </button>
         <button type="button" className="demo" onClick={() => void ctl.startDemo('seals')}>
           <strong>Heat-seal failures</strong>
-          <span>A fictional packaging plant: 5,000 invented seals — temperature, dwell time, pressure, film lot,
-            line, humidity; outcome: seal failure.</span>
+          <span>
+            A fictional packaging plant: 5,000 invented seals — temperature, dwell time, pressure, film lot, line,
+            humidity; outcome: seal failure.
+          </span>
         </button>
       </div>
       <OpenData />
       <aside className="caution">
-        Fulcra is not a medical device. Internal validation is not external validation; recalibrate before using a
-        model elsewhere, and follow local governance and licensed clinical judgement.
+        Fulcra is not a medical device. Internal validation is not external validation; recalibrate before using a model
+        elsewhere, and follow local governance and licensed clinical judgement.
       </aside>
     </div>
   );

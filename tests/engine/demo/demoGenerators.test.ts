@@ -24,7 +24,9 @@ describe('invented demo data', () => {
   });
 
   it('is reproducible for a seed and differs between seeds', () => {
-    const a = generateSsiRegistry(300, 7), b = generateSsiRegistry(300, 7), c = generateSsiRegistry(300, 8);
+    const a = generateSsiRegistry(300, 7),
+      b = generateSsiRegistry(300, 7),
+      c = generateSsiRegistry(300, 8);
     expect(a.dataset).toEqual(b.dataset);
     expect(a.dataset).not.toEqual(c.dataset);
   });
@@ -32,7 +34,17 @@ describe('invented demo data', () => {
   it('has the documented sizes, columns and a few missing values in the registry only', () => {
     const ssi = generateDemo('ssi');
     expect(ssi.dataset.nRows).toBe(2000);
-    expect(ssi.dataset.columns.map((c) => c.name)).toEqual(['age', 'bmi', 'diabetes', 'asa_class', 'wound_class', 'duration_min', 'prophylaxis', 'smoker', 'ssi_30d']);
+    expect(ssi.dataset.columns.map((c) => c.name)).toEqual([
+      'age',
+      'bmi',
+      'diabetes',
+      'asa_class',
+      'wound_class',
+      'duration_min',
+      'prophylaxis',
+      'smoker',
+      'ssi_30d',
+    ]);
     const bmi = ssi.dataset.columns[1];
     const missing = bmi.kind === 'numeric' ? bmi.values.filter(Number.isNaN).length : -1;
     expect(missing).toBeGreaterThan(10);

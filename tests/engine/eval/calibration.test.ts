@@ -15,7 +15,10 @@ const maxAbs = (a: number[], b: number[]) => Math.max(...a.map((v, i) => Math.ab
 
 describe('Brier score on the Pima external test set', () => {
   it('matches R to 1e-14, unweighted and weighted', () => {
-    for (const [res, r] of [[brierScore(d.y, d.p), ref.brier], [brierScore(d.y, d.p, d.w), ref.brierWeighted]] as const) {
+    for (const [res, r] of [
+      [brierScore(d.y, d.p), ref.brier],
+      [brierScore(d.y, d.p, d.w), ref.brierWeighted],
+    ] as const) {
       expect(Math.abs(res.brier! - r.brier)).toBeLessThan(1e-14);
       expect(Math.abs(res.brierNull! - r.brierNull)).toBeLessThan(1e-14);
       expect(Math.abs(res.scaledBrier! - r.scaledBrier)).toBeLessThan(1e-13);
@@ -29,13 +32,20 @@ describe('Brier score on the Pima external test set', () => {
 });
 
 describe('calibration intercept and slope on the Pima external test set', () => {
-  for (const [label, w, r] of [['unweighted', undefined, ref.calibration], ['weighted', d.w, ref.calibrationWeighted]] as const) {
+  for (const [label, w, r] of [
+    ['unweighted', undefined, ref.calibration],
+    ['weighted', d.w, ref.calibrationWeighted],
+  ] as const) {
     it(`matches glm(y ~ 1, offset = lp) and glm(y ~ lp) with confint.default, ${label}, to 1e-8`, () => {
       const res = calibrationRegression(d.y, d.lp, { weights: w });
       const c = res.interceptInTheLarge!;
       const s = res.slope!;
-      expect(maxAbs([c.estimate, c.se, c.lower, c.upper], [r.citl, r.citlSe, r.citlLower, r.citlUpper])).toBeLessThan(1e-8);
-      expect(maxAbs([s.estimate, s.se, s.lower, s.upper], [r.slope, r.slopeSe, r.slopeLower, r.slopeUpper])).toBeLessThan(1e-8);
+      expect(maxAbs([c.estimate, c.se, c.lower, c.upper], [r.citl, r.citlSe, r.citlLower, r.citlUpper])).toBeLessThan(
+        1e-8,
+      );
+      expect(
+        maxAbs([s.estimate, s.se, s.lower, s.upper], [r.slope, r.slopeSe, r.slopeLower, r.slopeUpper]),
+      ).toBeLessThan(1e-8);
       expect(Math.abs(res.slopeModelIntercept! - r.slopeModelIntercept)).toBeLessThan(1e-8);
       expect(Math.abs(res.observedOverExpected! - r.oe)).toBeLessThan(1e-12);
       expect(res.warnings).toEqual([]);
@@ -49,10 +59,15 @@ describe('calibration intercept and slope on the Pima external test set', () => 
     expect(r.warnings.map((w) => w.code)).toEqual(['risk-clipped']);
   });
   it('reports no slope (rather than a diverging estimate) with a warning when the predictions separate the outcome perfectly', () => {
-    const res = calibrationRegression(new Float64Array([0, 0, 0, 1, 1, 1]), new Float64Array([-2, -1, -0.5, 0.5, 1, 2]));
+    const res = calibrationRegression(
+      new Float64Array([0, 0, 0, 1, 1, 1]),
+      new Float64Array([-2, -1, -0.5, 0.5, 1, 2]),
+    );
     expect(res.slope).toBeNull();
     expect(res.warnings.map((w) => w.code)).toContain('calibration-not-converged');
-    const curve = calibrationCurve(new Float64Array([0, 0, 0, 1, 1, 1]), new Float64Array([-2, -1, -0.5, 0.5, 1, 2]), { knots: 3 });
+    const curve = calibrationCurve(new Float64Array([0, 0, 0, 1, 1, 1]), new Float64Array([-2, -1, -0.5, 0.5, 1, 2]), {
+      knots: 3,
+    });
     expect(curve.ici).toBeNull();
     expect(curve.warnings.map((w) => w.code)).toContain('calibration-curve-not-converged');
   });
@@ -103,7 +118,12 @@ describe('Hosmer–Lemeshow (deciles of risk)', () => {
     expect(Math.abs(res.p! - r.p)).toBeLessThan(1e-10);
     expect(res.groups.map((g) => g.n)).toEqual(r.n);
     expect(res.groups.map((g) => g.observedEvents)).toEqual(r.observed);
-    expect(maxAbs(res.groups.map((g) => g.expectedEvents), r.expected)).toBeLessThan(1e-12);
+    expect(
+      maxAbs(
+        res.groups.map((g) => g.expectedEvents),
+        r.expected,
+      ),
+    ).toBeLessThan(1e-12);
   });
   it('declines with a warning when the risks take only two values', () => {
     const res = hosmerLemeshow(new Float64Array([0, 1, 0, 1]), new Float64Array([0.2, 0.2, 0.7, 0.7]));

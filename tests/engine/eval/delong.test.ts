@@ -104,10 +104,18 @@ describe('DeLong edge cases', () => {
     const n = 300;
     const yy = new Float64Array(n);
     const s = new Float64Array(n);
-    for (let i = 0; i < n; i++) { yy[i] = (i * 7919) % 5 < 2 ? 1 : 0; s[i] = ((i * 104729) % 13) / 13 + 0.1 * yy[i]; }
+    for (let i = 0; i < n; i++) {
+      yy[i] = (i * 7919) % 5 < 2 ? 1 : 0;
+      s[i] = ((i * 104729) % 13) / 13 + 0.1 * yy[i];
+    }
     let num = 0;
     let den = 0;
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) if (yy[i] === 1 && yy[j] === 0) { den++; num += s[i] > s[j] ? 1 : s[i] === s[j] ? 0.5 : 0; }
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++)
+        if (yy[i] === 1 && yy[j] === 0) {
+          den++;
+          num += s[i] > s[j] ? 1 : s[i] === s[j] ? 0.5 : 0;
+        }
     expect(delongAuc(yy, s).auc).toBeCloseTo(num / den, 12);
     expect(rocCurve(yy, s).auc).toBeCloseTo(num / den, 12);
   });

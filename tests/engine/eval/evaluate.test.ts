@@ -42,7 +42,9 @@ describe('evaluate', () => {
     expect(c).toEqual(r);
     expect(r.atThreshold!.threshold).toBeCloseTo(0.2, 15);
     expect(atThreshold(c.prepared!, 0.37)).toEqual(atThreshold(r.prepared!, 0.37));
-    expect(r.costs!.thresholds.empirical.expectedCostPer100).toBeLessThanOrEqual(Math.min(...r.costs!.curve.costPer100) + 1e-12);
+    expect(r.costs!.thresholds.empirical.expectedCostPer100).toBeLessThanOrEqual(
+      Math.min(...r.costs!.curve.costPer100) + 1e-12,
+    );
   });
   it('leaves out the DeLong interval and Hosmer–Lemeshow with a warning when case weights are given', () => {
     const r = evaluate(d.y, d.p, { weights: d.w });
@@ -69,7 +71,10 @@ describe('evaluate', () => {
     const n = 200_000;
     const y = new Float64Array(n);
     const p = new Float64Array(n);
-    for (let i = 0; i < n; i++) { p[i] = 0.02 + 0.96 * ((i * 0.6180339887) % 1); y[i] = ((i * 0.7548776662) % 1) < p[i] ? 1 : 0; }
+    for (let i = 0; i < n; i++) {
+      p[i] = 0.02 + 0.96 * ((i * 0.6180339887) % 1);
+      y[i] = (i * 0.7548776662) % 1 < p[i] ? 1 : 0;
+    }
     const r = evaluate(y, p);
     expect(r.roc.fpr.length).toBeLessThanOrEqual(500);
     expect(r.auc.auc!).toBeGreaterThan(0.7);

@@ -24,7 +24,9 @@ describe('precision–recall curve', () => {
       const k = c.recall.length;
       expect(res.threshold.slice(1, k + 1)).toEqual(c.threshold);
       expect(Math.max(...c.recall.map((v: number, i: number) => Math.abs(v - res.recall[i + 1])))).toBeLessThan(1e-12);
-      expect(Math.max(...c.precision.map((v: number, i: number) => Math.abs(v - res.precision[i + 1])))).toBeLessThan(1e-12);
+      expect(Math.max(...c.precision.map((v: number, i: number) => Math.abs(v - res.precision[i + 1])))).toBeLessThan(
+        1e-12,
+      );
     });
   }
   it('thins to at most the requested number of points and keeps both ends', () => {

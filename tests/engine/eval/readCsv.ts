@@ -3,7 +3,9 @@ import { resolve } from 'node:path';
 
 /** Reads a numeric fixture CSV (lines starting with # are comments) into named Float64Array columns. */
 export function readNumericCsv(relPath: string): Record<string, Float64Array> {
-  const lines = readFileSync(resolve(__dirname, '../../fixtures', relPath), 'utf8').split(/\r?\n/).filter((l) => l && !l.startsWith('#'));
+  const lines = readFileSync(resolve(__dirname, '../../fixtures', relPath), 'utf8')
+    .split(/\r?\n/)
+    .filter((l) => l && !l.startsWith('#'));
   const names = lines[0].split(',').map((s) => s.replace(/"/g, ''));
   const cols: Record<string, Float64Array> = {};
   names.forEach((n) => (cols[n] = new Float64Array(lines.length - 1)));

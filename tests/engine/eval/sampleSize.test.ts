@@ -12,10 +12,18 @@ describe('Riley et al. 2020 sample size', () => {
     expect(r.warnings).toEqual([]);
   });
   it('says whether the data at hand are enough', () => {
-    const short = riley2020SampleSize({ parameters: 24, outcomeProportion: 0.174, r2cs: 0.288, actual: { n: 500, events: 87 } });
+    const short = riley2020SampleSize({
+      parameters: 24,
+      outcomeProportion: 0.174,
+      r2cs: 0.288,
+      actual: { n: 500, events: 87 },
+    });
     expect(short.actual!.enough).toBe(false);
     expect(short.summary.at(-1)).toMatch(/fall short/);
-    expect(riley2020SampleSize({ parameters: 24, outcomeProportion: 0.174, r2cs: 0.288, actual: { n: 700, events: 122 } }).actual!.enough).toBe(true);
+    expect(
+      riley2020SampleSize({ parameters: 24, outcomeProportion: 0.174, r2cs: 0.288, actual: { n: 700, events: 122 } })
+        .actual!.enough,
+    ).toBe(true);
   });
   it('assumes 15% of the maximum R²cs with a warning when none is given', () => {
     const r = riley2020SampleSize({ parameters: 10, outcomeProportion: 0.1 });
@@ -27,7 +35,11 @@ describe('Riley et al. 2020 sample size', () => {
     expect(() => coxSnellR2(260, 250, 300)).toThrow(/null deviance/);
   });
   it('takes R²cs from a fitted model when asked, with a warning that it is the apparent (optimistic) value', () => {
-    const r = riley2020SampleSize({ parameters: 8, outcomeProportion: 0.3, fitted: { deviance: 220, nullDeviance: 260, n: 250 } });
+    const r = riley2020SampleSize({
+      parameters: 8,
+      outcomeProportion: 0.3,
+      fitted: { deviance: 220, nullDeviance: 260, n: 250 },
+    });
     expect(r.r2cs).toBeCloseTo(1 - Math.exp(-40 / 250), 15);
     expect(r.r2csSource).toBe('fitted-model');
     expect(r.warnings.map((w) => w.code)).toEqual(['r2-apparent']);

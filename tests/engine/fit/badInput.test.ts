@@ -8,18 +8,34 @@ function dataset(cols: Record<string, (number | string | null)[]>): Dataset {
   const columns: Column[] = Object.entries(cols).map(([name, v]) => {
     if (v.some((x) => typeof x === 'string')) {
       const levels = [...new Set(v.filter((x): x is string => typeof x === 'string'))].sort();
-      return { kind: 'categorical', name, levels, codes: Int32Array.from(v, (x) => (x === null ? -1 : levels.indexOf(x as string))) };
+      return {
+        kind: 'categorical',
+        name,
+        levels,
+        codes: Int32Array.from(v, (x) => (x === null ? -1 : levels.indexOf(x as string))),
+      };
     }
     return { kind: 'numeric', name, values: Float64Array.from(v, (x) => (x === null ? NaN : (x as number))) };
   });
   return { nRows: Object.values(cols)[0].length, columns };
 }
 const main = (...cs: string[]) => cs.map((column) => ({ type: 'main' as const, column }));
-const codeOf = (f: () => unknown) => { try { f(); } catch (e) { return e instanceof FulcraError ? e.code : 'other'; } return 'none'; };
+const codeOf = (f: () => unknown) => {
+  try {
+    f();
+  } catch (e) {
+    return e instanceof FulcraError ? e.code : 'other';
+  }
+  return 'none';
+};
 const finiteEverywhere = (r: ReturnType<typeof fit>) =>
-  r.coefficients.every((c) => [c.estimate, c.se, c.z, c.p, c.waldLower, c.waldUpper, c.profileLower, c.profileUpper, c.oddsRatio].every((v) => v === null || Number.isFinite(v)))
-  && [r.deviance, r.aic, r.bic, r.logLik, r.modelLrChi2, r.modelLrP, r.eventsPerParameter].every(Number.isFinite)
-  && (r.covariance ?? []).every(Number.isFinite);
+  r.coefficients.every((c) =>
+    [c.estimate, c.se, c.z, c.p, c.waldLower, c.waldUpper, c.profileLower, c.profileUpper, c.oddsRatio].every(
+      (v) => v === null || Number.isFinite(v),
+    ),
+  ) &&
+  [r.deviance, r.aic, r.bic, r.logLik, r.modelLrChi2, r.modelLrP, r.eventsPerParameter].every(Number.isFinite) &&
+  (r.covariance ?? []).every(Number.isFinite);
 
 const x = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12];
 const z = [0.3, -1.2, 0.8, 0.1, -0.5, 1.4, -0.9, 0.2, 0.7, -0.3, 1.1, -1.6];
@@ -48,7 +64,13 @@ describe('separation', () => {
     const ward = Array.from({ length: n }, (_, i) => ['A', 'B', 'C', 'D'][i % 4]);
     const xs = Array.from({ length: n }, () => rng.normal());
     const yy = xs.map((v, i) => (ward[i] === 'D' ? 1 : +(rng.next() < 1 / (1 + Math.exp(-(v - 0.5))))));
-    const r = fit(dataset({ y: yy, x: xs, ward }), { outcome: 'y', terms: [{ type: 'main', column: 'x' }, { type: 'main', column: 'ward', reference: 'A' }] });
+    const r = fit(dataset({ y: yy, x: xs, ward }), {
+      outcome: 'y',
+      terms: [
+        { type: 'main', column: 'x' },
+        { type: 'main', column: 'ward', reference: 'A' },
+      ],
+    });
     const w = r.warnings.find((u) => u.code === 'quasi-separation');
     expect(w?.terms).toEqual(['ward']);
     expect(r.coefficients.find((c) => c.name === 'ward=D')!.se).toBeNull();
@@ -58,7 +80,11 @@ describe('separation', () => {
   });
 
   it('gives finite Firth estimates on the completely separated data', () => {
-    const r = fit(dataset({ y: x.map((v) => +(v > 6)), x, z }), { outcome: 'y', terms: main('x', 'z') }, { method: 'firth' });
+    const r = fit(
+      dataset({ y: x.map((v) => +(v > 6)), x, z }),
+      { outcome: 'y', terms: main('x', 'z') },
+      { method: 'firth' },
+    );
     expect(r.converged).toBe(true);
     expect(finiteEverywhere(r)).toBe(true);
     expect(r.coefficients[1].profileLower).not.toBeNull();
@@ -69,7 +95,9 @@ describe('bad input', () => {
   const y = [0, 1, 0, 0, 1, 1, 0, 1, 1, 0, 0, 1];
 
   it('refuses a single outcome class (one-outcome-class)', () => {
-    expect(codeOf(() => fit(dataset({ y: x.map(() => 0), x }), { outcome: 'y', terms: main('x') }))).toBe('one-outcome-class');
+    expect(codeOf(() => fit(dataset({ y: x.map(() => 0), x }), { outcome: 'y', terms: main('x') }))).toBe(
+      'one-outcome-class',
+    );
     expect(() => fit(dataset({ y: x.map(() => 1), x }), { outcome: 'y', terms: main('x') })).toThrow(/"y"/);
   });
 
@@ -85,7 +113,16 @@ describe('bad input', () => {
   });
 
   it('says which columns emptied the data when no complete row is left', () => {
-    const e = (() => { try { fit(dataset({ y, x, m: x.map((v) => (v % 2 ? null : 1)), k: x.map((v) => (v % 2 ? 1 : null)) }), { outcome: 'y', terms: main('x', 'm', 'k') }); } catch (err) { return err as FulcraError; } })();
+    const e = (() => {
+      try {
+        fit(dataset({ y, x, m: x.map((v) => (v % 2 ? null : 1)), k: x.map((v) => (v % 2 ? 1 : null)) }), {
+          outcome: 'y',
+          terms: main('x', 'm', 'k'),
+        });
+      } catch (err) {
+        return err as FulcraError;
+      }
+    })();
     expect(e?.code).toBe('no-complete-rows');
     expect(e?.message).toMatch(/"m" 6/);
   });
@@ -101,7 +138,11 @@ describe('bad input', () => {
 
   it('warns few-events when events are fewer than parameters', () => {
     const yy = x.map((v) => +(v === 3 || v === 8));
-    const r = fit(dataset({ y: yy, x, z, w: x.map((v) => (v * 7) % 5) }), { outcome: 'y', terms: main('x', 'z', 'w') }, { method: 'firth' });
+    const r = fit(
+      dataset({ y: yy, x, z, w: x.map((v) => (v * 7) % 5) }),
+      { outcome: 'y', terms: main('x', 'z', 'w') },
+      { method: 'firth' },
+    );
     expect(r.warnings.map((u) => u.code)).toContain('few-events');
     expect(finiteEverywhere(r)).toBe(true);
   });
@@ -136,7 +177,9 @@ describe('bad input', () => {
   it('names an unknown column and an unknown reference level', () => {
     expect(() => fit(dataset({ y, x }), { outcome: 'y', terms: main('age') })).toThrow(/no column named "age"/);
     const g = x.map((v) => ['u', 'v'][v % 2]);
-    expect(codeOf(() => fit(dataset({ y, g }), { outcome: 'y', terms: [{ type: 'main', column: 'g', reference: 'w' }] }))).toBe('unknown-reference');
+    expect(
+      codeOf(() => fit(dataset({ y, g }), { outcome: 'y', terms: [{ type: 'main', column: 'g', reference: 'w' }] })),
+    ).toBe('unknown-reference');
   });
 
   it('reports non-convergence as a warning when the iteration cap is too small', () => {
@@ -161,7 +204,11 @@ describe('extreme scales', () => {
 
   it('gives the same fit for a predictor in units of 1e300 or 1e-170 (coefficient scaled back)', () => {
     for (const c of [1e300, 1e-170]) {
-      const r = fit(dataset({ y, x: x.map((v) => v * c), z }), { outcome: 'y', terms: main('x', 'z') }, { profile: false });
+      const r = fit(
+        dataset({ y, x: x.map((v) => v * c), z }),
+        { outcome: 'y', terms: main('x', 'z') },
+        { profile: false },
+      );
       expect(r.coefficients[1].aliased).toBe(false);
       expect(r.coefficients[1].estimate * c).toBeCloseTo(base.coefficients[1].estimate, 8);
       expect(r.coefficients[0].estimate).toBeCloseTo(base.coefficients[0].estimate, 8);
@@ -170,13 +217,20 @@ describe('extreme scales', () => {
   });
 
   it('keeps the intercept finite next to a constant predictor of 1e307', () => {
-    const r = fit(dataset({ y, x, c: x.map(() => 1e307) }), { outcome: 'y', terms: main('x', 'c') }, { profile: false });
+    const r = fit(
+      dataset({ y, x, c: x.map(() => 1e307) }),
+      { outcome: 'y', terms: main('x', 'c') },
+      { profile: false },
+    );
     expect(r.coefficients[2].aliased).toBe(true);
     expect(finiteEverywhere(r)).toBe(true);
   });
 
   it('fits a spline of a predictor in units of 1e150 like one in ordinary units', () => {
-    const spec = (col: string) => ({ outcome: 'y', terms: [{ type: 'spline' as const, column: col, knots: 3 as const }] });
+    const spec = (col: string) => ({
+      outcome: 'y',
+      terms: [{ type: 'spline' as const, column: col, knots: 3 as const }],
+    });
     const a = fit(dataset({ y, x }), spec('x'), { profile: false });
     const b = fit(dataset({ y, x: x.map((v) => v * 1e150) }), spec('x'), { profile: false });
     expect(b.deviance).toBeCloseTo(a.deviance, 8);
@@ -185,7 +239,11 @@ describe('extreme scales', () => {
 
   it('refuses a design column that overflows (design-overflow) naming the term', () => {
     const big = x.map((v) => 1e300 * v);
-    expect(() => fit(dataset({ y, x: big, z: z.map((v) => 1e9 * v) }), { outcome: 'y', terms: [...main('x', 'z'), { type: 'interaction', columns: ['x', 'z'] }] }))
-      .toThrow(/"x:z"/);
+    expect(() =>
+      fit(dataset({ y, x: big, z: z.map((v) => 1e9 * v) }), {
+        outcome: 'y',
+        terms: [...main('x', 'z'), { type: 'interaction', columns: ['x', 'z'] }],
+      }),
+    ).toThrow(/"x:z"/);
   });
 });

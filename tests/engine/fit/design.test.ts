@@ -13,7 +13,13 @@ const data: Dataset = {
 
 describe('buildDesign', () => {
   it('takes the second of two outcome levels as the event, with a warning, and counts dropped rows per column', () => {
-    const d = buildDesign(data, { outcome: 'ssi', terms: [{ type: 'main', column: 'age' }, { type: 'main', column: 'ward' }] });
+    const d = buildDesign(data, {
+      outcome: 'ssi',
+      terms: [
+        { type: 'main', column: 'age' },
+        { type: 'main', column: 'ward' },
+      ],
+    });
     expect(d.recipe.event).toBe('yes');
     expect(d.warnings.map((w) => w.code)).toEqual(['event-level-assumed', 'rows-dropped']);
     expect(Array.from(d.rowsUsed)).toEqual([0, 1, 2, 4]);
@@ -25,20 +31,38 @@ describe('buildDesign', () => {
   });
 
   it('counts the 0s as events for a numeric outcome with event "0"', () => {
-    const d = buildDesign({ nRows: 4, columns: [{ kind: 'numeric', name: 'y', values: Float64Array.of(0, 1, 1, 0) }, { kind: 'numeric', name: 'x', values: Float64Array.of(1, 2, 3, 4) }] },
-      { outcome: 'y', event: '0', terms: [{ type: 'main', column: 'x' }] });
+    const d = buildDesign(
+      {
+        nRows: 4,
+        columns: [
+          { kind: 'numeric', name: 'y', values: Float64Array.of(0, 1, 1, 0) },
+          { kind: 'numeric', name: 'x', values: Float64Array.of(1, 2, 3, 4) },
+        ],
+      },
+      { outcome: 'y', event: '0', terms: [{ type: 'main', column: 'x' }] },
+    );
     expect(Array.from(d.y)).toEqual([1, 0, 0, 1]);
   });
 });
 
 describe('designFromRecipe', () => {
-  const fitted = buildDesign(data, { outcome: 'ssi', event: 'yes', terms: [{ type: 'main', column: 'age' }, { type: 'main', column: 'ward', reference: 'A' }] });
+  const fitted = buildDesign(data, {
+    outcome: 'ssi',
+    event: 'yes',
+    terms: [
+      { type: 'main', column: 'age' },
+      { type: 'main', column: 'ward', reference: 'A' },
+    ],
+  });
 
   it('re-creates the coding on new data whose levels are stored in another order, without an outcome', () => {
-    const fresh: Dataset = { nRows: 2, columns: [
-      { kind: 'numeric', name: 'age', values: Float64Array.of(30, 40) },
-      { kind: 'categorical', name: 'ward', codes: Int32Array.of(0, 1), levels: ['B', 'A'] },
-    ] };
+    const fresh: Dataset = {
+      nRows: 2,
+      columns: [
+        { kind: 'numeric', name: 'age', values: Float64Array.of(30, 40) },
+        { kind: 'categorical', name: 'ward', codes: Int32Array.of(0, 1), levels: ['B', 'A'] },
+      ],
+    };
     const d = designFromRecipe(fitted.recipe, fresh);
     expect(d.columnNames).toEqual(fitted.columnNames);
     expect(d.y).toBeNull();
@@ -46,10 +70,13 @@ describe('designFromRecipe', () => {
   });
 
   it('throws naming row and column for a level the model has not seen', () => {
-    const fresh: Dataset = { nRows: 2, columns: [
-      { kind: 'numeric', name: 'age', values: Float64Array.of(30, 40) },
-      { kind: 'categorical', name: 'ward', codes: Int32Array.of(0, 1), levels: ['A', 'Z'] },
-    ] };
+    const fresh: Dataset = {
+      nRows: 2,
+      columns: [
+        { kind: 'numeric', name: 'age', values: Float64Array.of(30, 40) },
+        { kind: 'categorical', name: 'ward', codes: Int32Array.of(0, 1), levels: ['A', 'Z'] },
+      ],
+    };
     expect(() => designFromRecipe(fitted.recipe, fresh)).toThrow(/Row 2, column "ward": the value "Z"/);
   });
 });

@@ -33,7 +33,9 @@ describe('Firth penalised likelihood on brglm2::endometrial', () => {
   it('reports the penalised log-likelihood of the R reference at the optimum', () => {
     const rows = data.nRows;
     const X = new Float64Array(rows * 4).fill(1, 0, rows);
-    ['NV', 'PI', 'EH'].forEach((c, j) => X.set((data.columns.find((d) => d.name === c) as { values: Float64Array }).values, (j + 1) * rows));
+    ['NV', 'PI', 'EH'].forEach((c, j) =>
+      X.set((data.columns.find((d) => d.name === c) as { values: Float64Array }).values, (j + 1) * rows),
+    );
     const y = (data.columns.find((d) => d.name === 'HG') as { values: Float64Array }).values;
     const problem = { X, n: rows, p: 4, y };
     const nr = firthLogistic(problem);

@@ -9,14 +9,26 @@ const ref = readJson('tests/fixtures/reference/fit-birthwt.json');
 const data = readCsvDataset('tests/fixtures/data/birthwt.csv', ['race']);
 const spec: ModelSpec = {
   outcome: 'low',
-  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) => (c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c })),
+  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) =>
+    c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c },
+  ),
 };
 const r = fit(data, spec);
 const col = <K extends keyof (typeof r.coefficients)[number]>(k: K) => r.coefficients.map((c) => c[k] as number);
 
 describe('fit (maximum likelihood) on MASS::birthwt', () => {
   it('names the columns as the design: intercept first, race as indicators against level 1', () => {
-    expect(r.coefficients.map((c) => c.name)).toEqual(['(Intercept)', 'age', 'lwt', 'race=2', 'race=3', 'smoke', 'ptl', 'ht', 'ui']);
+    expect(r.coefficients.map((c) => c.name)).toEqual([
+      '(Intercept)',
+      'age',
+      'lwt',
+      'race=2',
+      'race=3',
+      'smoke',
+      'ptl',
+      'ht',
+      'ui',
+    ]);
     expect(r.terms.find((t) => t.name === 'race')!.columns).toEqual([3, 4]);
   });
 
@@ -57,8 +69,18 @@ describe('fit (maximum likelihood) on MASS::birthwt', () => {
   it('matches the per-term likelihood-ratio tests of drop1(test = "LRT") including 2 df for race', () => {
     expect(r.terms.map((t) => t.name)).toEqual(ref.term_lr.terms);
     expect(r.terms.map((t) => t.df)).toEqual(ref.term_lr.df);
-    expect(maxRelErr(r.terms.map((t) => t.lrChi2!), ref.term_lr.chi2)).toBeLessThan(1e-6);
-    expect(maxRelErr(r.terms.map((t) => t.lrP!), ref.term_lr.p)).toBeLessThan(1e-6);
+    expect(
+      maxRelErr(
+        r.terms.map((t) => t.lrChi2!),
+        ref.term_lr.chi2,
+      ),
+    ).toBeLessThan(1e-6);
+    expect(
+      maxRelErr(
+        r.terms.map((t) => t.lrP!),
+        ref.term_lr.p,
+      ),
+    ).toBeLessThan(1e-6);
   });
 
   it('counts rows, events and events per parameter', () => {

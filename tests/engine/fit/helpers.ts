@@ -10,7 +10,9 @@ export function readJson<T = any>(rel: string): T {
 
 /** Reads a simple numeric CSV (quoted header, no quoted cells); `categorical` columns become level codes. */
 export function readCsvDataset(rel: string, categorical: string[] = []): Dataset {
-  const lines = readFileSync(root + rel, 'utf8').trim().split(/\r?\n/);
+  const lines = readFileSync(root + rel, 'utf8')
+    .trim()
+    .split(/\r?\n/);
   const header = lines[0].split(',').map((h) => h.replace(/"/g, ''));
   const rows = lines.slice(1).map((l) => l.split(',').map((c) => c.replace(/"/g, '')));
   const nRows = rows.length;
@@ -20,14 +22,19 @@ export function readCsvDataset(rel: string, categorical: string[] = []): Dataset
       const codes = Int32Array.from(rows, (r) => levels.indexOf(r[j]));
       return { kind: 'categorical' as const, name, codes, levels };
     }
-    return { kind: 'numeric' as const, name, values: Float64Array.from(rows, (r) => (r[j] === 'NA' || r[j] === '' ? NaN : Number(r[j]))) };
+    return {
+      kind: 'numeric' as const,
+      name,
+      values: Float64Array.from(rows, (r) => (r[j] === 'NA' || r[j] === '' ? NaN : Number(r[j]))),
+    };
   });
   return { nRows, columns };
 }
 
 /** Column-major design from row arrays. */
 export function designFromRows(rows: number[][]): { X: Float64Array; n: number; p: number } {
-  const n = rows.length, p = rows[0].length;
+  const n = rows.length,
+    p = rows[0].length;
   const X = new Float64Array(n * p);
   rows.forEach((r, i) => r.forEach((v, j) => (X[j * n + i] = v)));
   return { X, n, p };

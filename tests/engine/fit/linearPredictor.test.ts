@@ -9,13 +9,20 @@ describe('linearPredictorFromRecipe', () => {
   const demo = generateDemo('ssi');
   const specs: [string, ModelSpec][] = [
     ['the demo model (numeric and categorical terms, rows with missing values)', demo.spec],
-    ['splines, a categorical term and a categorical × numeric interaction', {
-      outcome: 'ssi_30d', event: 'yes', terms: [
-        { type: 'spline', column: 'age', knots: 4 }, { type: 'main', column: 'wound_class', reference: 'clean' },
-        { type: 'main', column: 'duration_min' }, { type: 'interaction', columns: ['wound_class', 'duration_min'] },
-        { type: 'main', column: 'diabetes', reference: 'no' },
-      ],
-    }],
+    [
+      'splines, a categorical term and a categorical × numeric interaction',
+      {
+        outcome: 'ssi_30d',
+        event: 'yes',
+        terms: [
+          { type: 'spline', column: 'age', knots: 4 },
+          { type: 'main', column: 'wound_class', reference: 'clean' },
+          { type: 'main', column: 'duration_min' },
+          { type: 'interaction', columns: ['wound_class', 'duration_min'] },
+          { type: 'main', column: 'diabetes', reference: 'no' },
+        ],
+      },
+    ],
   ];
 
   it.each(specs)('gives bit-for-bit scoreDesign(designFromRecipe(…)) for %s, with the same rows', (_, spec) => {
@@ -32,14 +39,18 @@ describe('linearPredictorFromRecipe', () => {
 
   it('refuses coefficients that do not match the recipe, and an unseen level as designFromRecipe does', () => {
     const r = fit(demo.dataset, demo.spec, { profile: false, termTests: false });
-    expect(() => linearPredictorFromRecipe(r.recipe, [1, 2], demo.dataset)).toThrow(/design columns but the model has 2/);
+    expect(() => linearPredictorFromRecipe(r.recipe, [1, 2], demo.dataset)).toThrow(
+      /design columns but the model has 2/,
+    );
     const other = structuredClone(demo.dataset);
     const wc = other.columns.find((c) => c.name === 'wound_class')!;
     if (wc.kind !== 'categorical') throw new Error('wound_class should be categorical');
     wc.levels = [...wc.levels, 'filthy'];
     wc.codes[5] = wc.levels.length - 1;
     const beta = r.coefficients.map((c) => c.estimate);
-    expect(() => linearPredictorFromRecipe(r.recipe, beta, other)).toThrow(/Row 6, column "wound_class": the value "filthy"/);
+    expect(() => linearPredictorFromRecipe(r.recipe, beta, other)).toThrow(
+      /Row 6, column "wound_class": the value "filthy"/,
+    );
     expect(() => designFromRecipe(r.recipe, other)).toThrow(/Row 6, column "wound_class": the value "filthy"/);
   });
 });

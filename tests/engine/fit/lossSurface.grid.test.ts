@@ -6,9 +6,17 @@ import { gridLossSums, lossSurface } from '../../../src/engine/fitting/lossSurfa
 import type { ModelSpec } from '../../../src/engine/core/model';
 import { createRng } from '../../../src/engine/numerics/rng';
 
-const evenly = (lo: number, hi: number, G: number) => Array.from({ length: G }, (_, g) => lo + ((hi - lo) * g) / (G - 1));
+const evenly = (lo: number, hi: number, G: number) =>
+  Array.from({ length: G }, (_, g) => lo + ((hi - lo) * g) / (G - 1));
 
-function directSum(eta: Float64Array, xi: Float64Array, xj: Float64Array, y: Float64Array, a: number, b: number): number {
+function directSum(
+  eta: Float64Array,
+  xi: Float64Array,
+  xj: Float64Array,
+  y: Float64Array,
+  a: number,
+  b: number,
+): number {
   let s = 0;
   for (let r = 0; r < eta.length; r++) s += caseLoss(eta[r] + a * xi[r] + b * xj[r], y[r]);
   return s;
@@ -16,25 +24,48 @@ function directSum(eta: Float64Array, xi: Float64Array, xj: Float64Array, y: Flo
 
 function simulatedData(n: number, seed: number): { data: Dataset; spec: ModelSpec } {
   const rng = createRng(seed);
-  const x1 = new Float64Array(n), x2 = new Float64Array(n), x3 = new Float64Array(n), y = new Float64Array(n);
+  const x1 = new Float64Array(n),
+    x2 = new Float64Array(n),
+    x3 = new Float64Array(n),
+    y = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    x1[i] = rng.normal(); x2[i] = 10 + 3 * rng.normal(); x3[i] = +(rng.next() < 0.4);
+    x1[i] = rng.normal();
+    x2[i] = 10 + 3 * rng.normal();
+    x3[i] = +(rng.next() < 0.4);
     y[i] = rng.next() < 1 / (1 + Math.exp(-(-0.5 + 0.8 * x1[i] - 0.1 * (x2[i] - 10) + 0.6 * x3[i]))) ? 1 : 0;
   }
   return {
-    data: { nRows: n, columns: [{ kind: 'numeric', name: 'x1', values: x1 }, { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'numeric', name: 'x3', values: x3 }, { kind: 'numeric', name: 'y', values: y }] },
-    spec: { outcome: 'y', event: '1', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'x3' }] },
+    data: {
+      nRows: n,
+      columns: [
+        { kind: 'numeric', name: 'x1', values: x1 },
+        { kind: 'numeric', name: 'x2', values: x2 },
+        { kind: 'numeric', name: 'x3', values: x3 },
+        { kind: 'numeric', name: 'y', values: y },
+      ],
+    },
+    spec: {
+      outcome: 'y',
+      event: '1',
+      terms: [
+        { type: 'main', column: 'x1' },
+        { type: 'main', column: 'x2' },
+        { type: 'main', column: 'x3' },
+      ],
+    },
   };
 }
 
 describe('gridLossSums', () => {
   it('equals the direct sum of case losses at every grid point to 1e-13 relative', () => {
-    const rng = createRng(3), n = 777;
+    const rng = createRng(3),
+      n = 777;
     const eta = Float64Array.from({ length: n }, () => 2 * rng.normal());
     const xi = Float64Array.from({ length: n }, () => rng.normal());
     const xj = Float64Array.from({ length: n }, () => +(rng.next() < 0.5));
     const y = Float64Array.from({ length: n }, () => +(rng.next() < 0.4));
-    const da = evenly(-3, 2, 9), db = evenly(-1.5, 4, 7);
+    const da = evenly(-3, 2, 9),
+      db = evenly(-1.5, 4, 7);
     const sums = gridLossSums(eta, xi, xj, y, da, db);
     for (let b = 0; b < db.length; b++) {
       for (let a = 0; a < da.length; a++) {
@@ -45,9 +76,14 @@ describe('gridLossSums', () => {
   });
 
   it('flags a grid point whose product overflows as non-finite, and stays exact where the losses are huge but representable', () => {
-    const eta = Float64Array.of(600, -5, 0.3), xi = Float64Array.of(1, 1, 1), xj = Float64Array.of(0, 0, 0), y = Float64Array.of(0, 1, 0);
+    const eta = Float64Array.of(600, -5, 0.3),
+      xi = Float64Array.of(1, 1, 1),
+      xj = Float64Array.of(0, 0, 0),
+      y = Float64Array.of(0, 1, 0);
     const sums = gridLossSums(eta, xi, xj, y, [-300, 0, 200], [0, 1]);
-    expect(Math.abs(sums[0] - directSum(eta, xi, xj, y, -300, 0)) / directSum(eta, xi, xj, y, -300, 0)).toBeLessThan(1e-13);
+    expect(Math.abs(sums[0] - directSum(eta, xi, xj, y, -300, 0)) / directSum(eta, xi, xj, y, -300, 0)).toBeLessThan(
+      1e-13,
+    );
     expect(Number.isFinite(sums[2])).toBe(false); // η = 800 for the first row: e^800 overflows
   });
 });
@@ -75,7 +111,8 @@ describe('lossSurface on many rows', () => {
     const G = 150;
     let best = 0;
     for (let k = 1; k < s.z.length; k++) if (s.z[k] < s.z[best]) best = k;
-    const bx = s.x[best % G], by = s.y[Math.floor(best / G)];
+    const bx = s.x[best % G],
+      by = s.y[Math.floor(best / G)];
     expect(Math.abs(bx - s.estimate[0])).toBeLessThanOrEqual(2 * (s.x[1] - s.x[0]));
     expect(Math.abs(by - s.estimate[1])).toBeLessThanOrEqual(2 * (s.y[1] - s.y[0]));
     expect(Math.min(...s.z)).toBeGreaterThanOrEqual(s.minimum - 1e-6);

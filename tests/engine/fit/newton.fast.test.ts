@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { FAST_PATH_MIN_ROWS, newtonLogistic, type LogisticProblem, type NewtonResult } from '../../../src/engine/fitting/newton';
+import {
+  FAST_PATH_MIN_ROWS,
+  newtonLogistic,
+  type LogisticProblem,
+  type NewtonResult,
+} from '../../../src/engine/fitting/newton';
 import { createRng } from '../../../src/engine/numerics/rng';
 
 /** Seeded logistic data: intercept, p − 1 correlated normal and binary predictors, column-major. */
@@ -29,7 +34,8 @@ const relGap = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
 };
 /** Entry-wise gap relative to the largest entry of b (off-diagonal entries of X'WX can be near 0). */
 const matGap = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
-  let s = 0, g = 0;
+  let s = 0,
+    g = 0;
   for (let k = 0; k < b.length; k++) s = Math.max(s, Math.abs(b[k]));
   for (let k = 0; k < b.length; k++) g = Math.max(g, Math.abs(a[k] - b[k]));
   return g / s;
@@ -41,13 +47,19 @@ function expectSameFit(fast: NewtonResult, exact: NewtonResult, p: number): void
   expect(relGap(fast.beta, exact.beta)).toBeLessThan(1e-10);
   expect(matGap(fast.information, exact.information)).toBeLessThan(1e-10);
   // the diagonal (variances of the score) entry by entry
-  expect(relGap(Array.from({ length: p }, (_, j) => fast.information[j * p + j]), Array.from({ length: p }, (_, j) => exact.information[j * p + j]))).toBeLessThan(1e-10);
+  expect(
+    relGap(
+      Array.from({ length: p }, (_, j) => fast.information[j * p + j]),
+      Array.from({ length: p }, (_, j) => exact.information[j * p + j]),
+    ),
+  ).toBeLessThan(1e-10);
   expect(Math.abs(fast.logLik - exact.logLik) / Math.abs(exact.logLik)).toBeLessThan(1e-13);
   expect(Math.abs(fast.objective - exact.objective) / Math.abs(exact.objective)).toBeLessThan(1e-13);
   expect(relGap(fast.fitted, exact.fitted)).toBeLessThan(1e-10);
 }
 
-const n = 40_000, p = 10;
+const n = 40_000,
+  p = 10;
 const base = simulate(n, p, 20261202);
 
 describe('newtonLogistic subsampled-Hessian start for large n', () => {
@@ -59,7 +71,7 @@ describe('newtonLogistic subsampled-Hessian start for large n', () => {
     expect(fast.iterations).toBeGreaterThan(exact.iterations);
   });
 
-  it('gives the exact-Newton β, X\'WX, log-likelihood and fitted risks to 1e-10 relative (unweighted)', () => {
+  it("gives the exact-Newton β, X'WX, log-likelihood and fitted risks to 1e-10 relative (unweighted)", () => {
     expectSameFit(newtonLogistic(base), newtonLogistic(base, { exactHessian: true }), p);
   });
 
@@ -74,7 +86,8 @@ describe('newtonLogistic subsampled-Hessian start for large n', () => {
   it('gives the exact-Newton fit with a ridge penalty to 1e-10 relative, penalty included in the information', () => {
     const penalty = Float64Array.from({ length: p }, (_, j) => (j === 0 ? 0 : 0.01));
     const pr = { ...base, penalty };
-    const fast = newtonLogistic(pr), exact = newtonLogistic(pr, { exactHessian: true });
+    const fast = newtonLogistic(pr),
+      exact = newtonLogistic(pr, { exactHessian: true });
     expectSameFit(fast, exact, p);
     expect(relGap(fast.beta, newtonLogistic(base).beta)).toBeGreaterThan(1e-4); // the penalty does act
   });
@@ -82,11 +95,14 @@ describe('newtonLogistic subsampled-Hessian start for large n', () => {
   it('gives the exact constrained fit with fixed coefficients and a warm start (term tests, profiles)', () => {
     const full = newtonLogistic(base);
     const fixed = new Uint8Array(p);
-    fixed[2] = 1; fixed[5] = 1;
+    fixed[2] = 1;
+    fixed[5] = 1;
     const start = Float64Array.from(full.beta);
-    start[2] = 0; start[5] = 0.1;
+    start[2] = 0;
+    start[5] = 0.1;
     const pr = { ...base, fixed, start };
-    const fast = newtonLogistic(pr, { tol: 1e-12, maxIter: 100 }), exact = newtonLogistic(pr, { tol: 1e-12, maxIter: 100, exactHessian: true });
+    const fast = newtonLogistic(pr, { tol: 1e-12, maxIter: 100 }),
+      exact = newtonLogistic(pr, { tol: 1e-12, maxIter: 100, exactHessian: true });
     expectSameFit(fast, exact, p);
     expect(fast.beta[2]).toBe(0);
     expect(fast.beta[5]).toBe(0.1);
@@ -104,7 +120,8 @@ describe('newtonLogistic subsampled-Hessian start for large n', () => {
     X.set(base.X);
     X.set(base.X.subarray(n, 2 * n), p * n);
     const pr = { ...base, X, p: p + 1 };
-    const fast = newtonLogistic(pr), exact = newtonLogistic(pr, { exactHessian: true });
+    const fast = newtonLogistic(pr),
+      exact = newtonLogistic(pr, { exactHessian: true });
     expect(Array.from(fast.dropped)).toEqual(Array.from(exact.dropped));
     expect(fast.dropped[p]).toBe(1);
     expect(fast.beta[p]).toBe(0);

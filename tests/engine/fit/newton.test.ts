@@ -41,7 +41,12 @@ describe('newtonLogistic', () => {
     const r = newtonLogistic({ X: design(full), n, p: 9, y, weights });
     expect(maxRelErr(r.beta, ref.weighted.coef)).toBeLessThan(1e-8);
     const inv = choleskyInverse(cholesky(r.information, 9));
-    expect(maxRelErr(Array.from({ length: 9 }, (_, j) => Math.sqrt(inv[j * 9 + j])), ref.weighted.se)).toBeLessThan(1e-7);
+    expect(
+      maxRelErr(
+        Array.from({ length: 9 }, (_, j) => Math.sqrt(inv[j * 9 + j])),
+        ref.weighted.se,
+      ),
+    ).toBeLessThan(1e-7);
   });
 
   it('matches glm() with an offset (R 4.2.2 stats::glm, offset = 0.0001·bwt)', () => {
@@ -85,7 +90,10 @@ describe('newtonLogistic', () => {
   it('matches brglm2 Firth estimates on birthwt (brglm2 0.9 glm(method = "brglmFit", type = "AS_mean"), printed to 12 digits)', () => {
     // Values printed by: glm(low ~ age + lwt + race + smoke + ptl + ht + ui, binomial, birthwt, method = "brglmFit",
     // type = "AS_mean", control = brglmControl(epsilon = 1e-14, maxit = 500)) with race a factor (R 4.2.2).
-    const brglm2 = [0.3488566440298, -0.0253153411053, -0.0138335620647, 1.2074083102060, 0.8181124578101, 0.8782206131122, 0.5034091152312, 1.7121697801425, 0.7362392813029];
+    const brglm2 = [
+      0.3488566440298, -0.0253153411053, -0.0138335620647, 1.207408310206, 0.8181124578101, 0.8782206131122,
+      0.5034091152312, 1.7121697801425, 0.7362392813029,
+    ];
     const r = newtonLogistic({ X: design(full), n, p: 9, y, firth: true });
     expect(r.converged).toBe(true);
     expect(maxRelErr(r.beta, brglm2)).toBeLessThan(1e-6);
@@ -95,18 +103,32 @@ describe('newtonLogistic', () => {
   it('returns a score that vanishes at the optimum and equals the free gradient of a fixed coordinate', () => {
     const r = newtonLogistic({ X: design(full), n, p: 9, y });
     expect(Math.max(...Array.from(r.score, Math.abs))).toBeLessThan(1e-6);
-    const fixed = new Uint8Array(9); fixed[1] = 1;
-    const start = Float64Array.from(r.beta); start[1] = 0;
+    const fixed = new Uint8Array(9);
+    fixed[1] = 1;
+    const start = Float64Array.from(r.beta);
+    start[1] = 0;
     const c = newtonLogistic({ X: design(full), n, p: 9, y, fixed, start }, { information: false });
     expect(c.beta[1]).toBe(0);
     expect(Math.abs(c.score[1])).toBeGreaterThan(1);
-    expect(Math.max(...Array.from(c.score).filter((_, j) => j !== 1).map(Math.abs))).toBeLessThan(1e-6);
+    expect(
+      Math.max(
+        ...Array.from(c.score)
+          .filter((_, j) => j !== 1)
+          .map(Math.abs),
+      ),
+    ).toBeLessThan(1e-6);
     expect(-2 * c.logLik + 2 * ref.logLik).toBeCloseTo(ref.term_lr.chi2[0], 6);
   });
 
   it('throws a FulcraError naming a bad argument', () => {
-    expect(() => newtonLogistic({ X: new Float64Array(3), n: 2, p: 2, y: new Float64Array(2) })).toThrow(/X has length 3/);
-    expect(() => newtonLogistic({ X: new Float64Array(2), n: 2, p: 1, y: Float64Array.of(0, 2) })).toThrow(/y\[1\] is 2/);
-    expect(() => newtonLogistic({ X: Float64Array.of(1, NaN), n: 2, p: 1, y: Float64Array.of(0, 1) })).toThrow(/row 1, column 0/);
+    expect(() => newtonLogistic({ X: new Float64Array(3), n: 2, p: 2, y: new Float64Array(2) })).toThrow(
+      /X has length 3/,
+    );
+    expect(() => newtonLogistic({ X: new Float64Array(2), n: 2, p: 1, y: Float64Array.of(0, 2) })).toThrow(
+      /y\[1\] is 2/,
+    );
+    expect(() => newtonLogistic({ X: Float64Array.of(1, NaN), n: 2, p: 1, y: Float64Array.of(0, 1) })).toThrow(
+      /row 1, column 0/,
+    );
   });
 });

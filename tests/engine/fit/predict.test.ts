@@ -11,7 +11,9 @@ const ref = readJson('tests/fixtures/reference/fit-birthwt.json');
 const data = readCsvDataset('tests/fixtures/data/birthwt.csv', ['race']);
 const spec: ModelSpec = {
   outcome: 'low',
-  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) => (c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c })),
+  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) =>
+    c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c },
+  ),
 };
 const r = fit(data, spec, { profile: false });
 
@@ -33,7 +35,10 @@ describe('predict', () => {
   it('scores one case from a plain record, with the category as text or number', () => {
     const one = predictOne(r, { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 0, ui: 1 });
     expect(one.risk).toBeCloseTo(predict(r, data).risk[0], 12);
-    expect(predictOne(r, { age: 19, lwt: 182, race: 2, smoke: 0, ptl: 0, ht: 0, ui: 1 }).risk).toBeCloseTo(one.risk, 12);
+    expect(predictOne(r, { age: 19, lwt: 182, race: 2, smoke: 0, ptl: 0, ht: 0, ui: 1 }).risk).toBeCloseTo(
+      one.risk,
+      12,
+    );
     expect(() => predictOne(r, { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 0 })).toThrow(/"ui"/);
   });
 
@@ -50,12 +55,22 @@ describe('predict', () => {
   });
 
   it('names row and column of an unseen category and skips rows with a missing predictor', () => {
-    const bad: Dataset = { nRows: 2, columns: [
-      ...['age', 'lwt', 'smoke', 'ptl', 'ht', 'ui'].map((name) => ({ kind: 'numeric' as const, name, values: Float64Array.of(20, name === 'lwt' ? NaN : 1) })),
-      { kind: 'categorical', name: 'race', codes: Int32Array.of(0, 1), levels: ['1', '4'] },
-    ] };
+    const bad: Dataset = {
+      nRows: 2,
+      columns: [
+        ...['age', 'lwt', 'smoke', 'ptl', 'ht', 'ui'].map((name) => ({
+          kind: 'numeric' as const,
+          name,
+          values: Float64Array.of(20, name === 'lwt' ? NaN : 1),
+        })),
+        { kind: 'categorical', name: 'race', codes: Int32Array.of(0, 1), levels: ['1', '4'] },
+      ],
+    };
     expect(predict(r, bad).rowsUsed).toEqual(Int32Array.of(0));
-    const bad2 = { ...bad, columns: bad.columns.map((c) => (c.kind === 'numeric' ? { ...c, values: Float64Array.of(20, 100) } : c)) };
+    const bad2 = {
+      ...bad,
+      columns: bad.columns.map((c) => (c.kind === 'numeric' ? { ...c, values: Float64Array.of(20, 100) } : c)),
+    };
     expect(() => predict(r, bad2)).toThrow(/Row 2, column "race": the value "4"/);
   });
 
@@ -88,7 +103,7 @@ describe('lossSurface', () => {
 });
 
 describe('lossSurface (Firth)', () => {
-  it('includes Firth\'s penalty so that the estimate is the grid minimum', () => {
+  it("includes Firth's penalty so that the estimate is the grid minimum", () => {
     const rf = fit(data, spec, { method: 'firth', profile: false });
     const s = lossSurface(rf, data, { i: 1, j: 7, grid: 15 });
     expect(s.objective).toBe('cross-entropy+firth');

@@ -9,7 +9,9 @@ const ref = readJson('tests/fixtures/reference/ridge-birthwt.json');
 const data = readCsvDataset('tests/fixtures/data/birthwt.csv', ['race']);
 const spec: ModelSpec = {
   outcome: 'low',
-  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) => (c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c })),
+  terms: ['age', 'lwt', 'race', 'smoke', 'ptl', 'ht', 'ui'].map((c) =>
+    c === 'race' ? { type: 'main', column: c, reference: '1' } : { type: 'main', column: c },
+  ),
 };
 
 describe('ridge at a fixed lambda on MASS::birthwt', () => {
@@ -24,7 +26,9 @@ describe('ridge at a fixed lambda on MASS::birthwt', () => {
 
   it('gives no inference table and says why (penalised-no-inference)', () => {
     const r = fit(data, spec, { method: 'ridge', lambda: 0.05 });
-    expect(r.coefficients.every((c) => c.se === null && c.p === null && c.waldLower === null && c.profileLower === null)).toBe(true);
+    expect(
+      r.coefficients.every((c) => c.se === null && c.p === null && c.waldLower === null && c.profileLower === null),
+    ).toBe(true);
     expect(r.covariance).toBeNull();
     expect(r.terms.every((t) => t.lrChi2 === null)).toBe(true);
     expect(r.warnings.map((w) => w.code)).toContain('penalised-no-inference');

@@ -8,12 +8,22 @@ import { createRng } from '../../../src/engine/numerics/rng';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
 const truth = { '(Intercept)': -1, x1: 0.8, 'x2=yes': 0.7, x3: -0.5 } as Record<string, number>;
-const spec: ModelSpec = { outcome: 'y', event: '1', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2', reference: 'no' }, { type: 'main', column: 'x3' }] };
+const spec: ModelSpec = {
+  outcome: 'y',
+  event: '1',
+  terms: [
+    { type: 'main', column: 'x1' },
+    { type: 'main', column: 'x2', reference: 'no' },
+    { type: 'main', column: 'x3' },
+  ],
+};
 
 /** n rows from logit P(y=1) = −1 + 0.8·x1 + 0.7·[x2 = yes] − 0.5·x3, corr(x1, x3) = 0.5; then values removed. */
 function simulate(seed: number, n: number, mechanism: 'mcar' | 'mar'): Dataset {
   const rng = createRng(seed);
-  const x1 = new Float64Array(n), x3 = new Float64Array(n), y = new Float64Array(n);
+  const x1 = new Float64Array(n),
+    x3 = new Float64Array(n),
+    y = new Float64Array(n);
   const x2 = new Int32Array(n);
   for (let i = 0; i < n; i++) {
     x1[i] = rng.normal();
@@ -31,16 +41,22 @@ function simulate(seed: number, n: number, mechanism: 'mcar' | 'mar'): Dataset {
     if (rng.next() < p2) x2[i] = -1;
     if (rng.next() < p3) x3[i] = NaN;
   }
-  return { nRows: n, columns: [
-    { kind: 'numeric', name: 'y', values: y },
-    { kind: 'numeric', name: 'x1', values: x1 },
-    { kind: 'categorical', name: 'x2', codes: x2, levels: ['no', 'yes'] },
-    { kind: 'numeric', name: 'x3', values: x3 },
-  ] };
+  return {
+    nRows: n,
+    columns: [
+      { kind: 'numeric', name: 'y', values: y },
+      { kind: 'numeric', name: 'x1', values: x1 },
+      { kind: 'categorical', name: 'x2', codes: x2, levels: ['no', 'yes'] },
+      { kind: 'numeric', name: 'x3', values: x3 },
+    ],
+  };
 }
 
 describe('fitImputed', () => {
-  for (const [mechanism, seed] of [['mcar', 20261], ['mar', 20262]] as const) {
+  for (const [mechanism, seed] of [
+    ['mcar', 20261],
+    ['mar', 20262],
+  ] as const) {
     it(`recovers the known coefficients within their pooled 95% CIs with values removed ${mechanism === 'mcar' ? 'completely at random' : 'at random given the outcome and x3'} (n = 4000, data seed ${seed}, mice seed 3)`, async () => {
       const data = simulate(seed, 4000, mechanism);
       const imp = await mice(data, spec, { m: 10, maxit: 10, seed: 3 });
@@ -69,7 +85,11 @@ describe('fitImputed', () => {
     // Reference: tests/fixtures/reference/mi-pool.R (poolM50: mice(d, m = 50, maxit = 10, seed = 11)); Monte Carlo on both sides.
     const data = birthwtIncomplete();
     const ref = loadPoolFixture();
-    const bwSpec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };
+    const bwSpec: ModelSpec = {
+      outcome: 'low',
+      event: '1',
+      terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
+    };
     const r = await fitImputed(data, bwSpec, await mice(data, bwSpec, { m: 20, seed: 1 }));
     expect(r.dfcom).toBe(ref.dfcom);
     r.coefficients.forEach((c, j) => {
@@ -85,12 +105,18 @@ describe('fitImputed', () => {
 
   it('reports progress per imputed dataset, passes on imputation warnings, and honours cancellation', async () => {
     const data = simulate(5, 300, 'mcar');
-    const imp = await mice(data, { ...spec, terms: [{ type: 'interaction', columns: ['x1', 'x2'] }, ...spec.terms] }, { m: 3, maxit: 2, seed: 1 });
+    const imp = await mice(
+      data,
+      { ...spec, terms: [{ type: 'interaction', columns: ['x1', 'x2'] }, ...spec.terms] },
+      { m: 3, maxit: 2, seed: 1 },
+    );
     const seen: number[] = [];
     const r = await fitImputed(data, spec, imp, {}, { onProgress: (d) => seen.push(d) });
     expect(seen).toEqual([1, 2, 3]);
     expect(r.warnings.map((w) => w.code)).toContain('mi-nonlinear-terms');
-    await expect(fitImputed(data, spec, imp, {}, { signal: { aborted: true } })).rejects.toMatchObject({ code: 'cancelled' });
+    await expect(fitImputed(data, spec, imp, {}, { signal: { aborted: true } })).rejects.toMatchObject({
+      code: 'cancelled',
+    });
   });
 
   it('leaves the rows with an imputed outcome out of every fit when asked, after using them to impute', async () => {

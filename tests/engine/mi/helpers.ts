@@ -9,7 +9,11 @@ export function loadPoolFixture() {
 
 export function birthwtIncomplete(): Dataset {
   const inc = loadPoolFixture().incomplete;
-  const num = (name: string, v: (number | null)[]) => ({ kind: 'numeric' as const, name, values: Float64Array.from(v, (x) => (x === null ? NaN : x)) });
+  const num = (name: string, v: (number | null)[]) => ({
+    kind: 'numeric' as const,
+    name,
+    values: Float64Array.from(v, (x) => (x === null ? NaN : x)),
+  });
   return {
     nRows: inc.nRows,
     columns: [
@@ -23,16 +27,53 @@ export function birthwtIncomplete(): Dataset {
 }
 
 /** A FitResult carrying only what pooling reads: coefficient rows (name, estimate, se, aliased), nUsed, covariance, terms. */
-export function fitRecord(names: string[], estimates: number[], ses: (number | null)[], nUsed: number, aliased: boolean[] = [],
-  covariance: number[] | null = null, terms: { name: string; columns: number[] }[] = []): FitResult {
+export function fitRecord(
+  names: string[],
+  estimates: number[],
+  ses: (number | null)[],
+  nUsed: number,
+  aliased: boolean[] = [],
+  covariance: number[] | null = null,
+  terms: { name: string; columns: number[] }[] = [],
+): FitResult {
   return {
-    method: 'ml', lambda: 0, level: 0.95, converged: true, iterations: 5,
+    method: 'ml',
+    lambda: 0,
+    level: 0.95,
+    converged: true,
+    iterations: 5,
     coefficients: names.map((name, j) => ({
-      name, term: name, estimate: estimates[j], se: ses[j], z: null, p: null, waldLower: null, waldUpper: null,
-      profileLower: null, profileUpper: null, oddsRatio: Math.exp(estimates[j]), aliased: aliased[j] ?? false,
+      name,
+      term: name,
+      estimate: estimates[j],
+      se: ses[j],
+      z: null,
+      p: null,
+      waldLower: null,
+      waldUpper: null,
+      profileLower: null,
+      profileUpper: null,
+      oddsRatio: Math.exp(estimates[j]),
+      aliased: aliased[j] ?? false,
     })),
-    terms: terms.map((t) => ({ ...t, df: t.columns.length, lrChi2: null, lrP: null })), deviance: 0, nullDeviance: 0, logLik: 0, aic: 0, bic: 0, modelLrChi2: 0, modelDf: 0, modelLrP: 1,
-    nUsed, nDropped: 0, droppedByColumn: {}, events: 0, nonEvents: 0, parameters: names.length - 1, eventsPerParameter: 0,
-    covariance, recipe: { outcome: 'y', event: '1', terms: [], columnNames: names }, warnings: [],
+    terms: terms.map((t) => ({ ...t, df: t.columns.length, lrChi2: null, lrP: null })),
+    deviance: 0,
+    nullDeviance: 0,
+    logLik: 0,
+    aic: 0,
+    bic: 0,
+    modelLrChi2: 0,
+    modelDf: 0,
+    modelLrP: 1,
+    nUsed,
+    nDropped: 0,
+    droppedByColumn: {},
+    events: 0,
+    nonEvents: 0,
+    parameters: names.length - 1,
+    eventsPerParameter: 0,
+    covariance,
+    recipe: { outcome: 'y', event: '1', terms: [], columnNames: names },
+    warnings: [],
   };
 }

@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { drawChiSquare, drawLinear, drawLogistic, imputeCategorical } from '../../../src/engine/imputation/imputeModels';
+import {
+  drawChiSquare,
+  drawLinear,
+  drawLogistic,
+  imputeCategorical,
+} from '../../../src/engine/imputation/imputeModels';
 import { newtonLogistic } from '../../../src/engine/fitting/newton';
 import { createRng } from '../../../src/engine/numerics/rng';
 
@@ -17,13 +22,15 @@ describe('drawChiSquare', () => {
     const rng = createRng(11);
     for (const df of [1, 3.5, 40]) {
       const N = 40_000;
-      let s = 0, s2 = 0;
+      let s = 0,
+        s2 = 0;
       for (let i = 0; i < N; i++) {
         const x = drawChiSquare(rng, df);
         s += x;
         s2 += x * x;
       }
-      const mean = s / N, v = s2 / N - mean * mean;
+      const mean = s / N,
+        v = s2 / N - mean * mean;
       expect(Math.abs(mean - df) / df).toBeLessThan(0.03);
       expect(Math.abs(v - 2 * df) / (2 * df)).toBeLessThan(0.08);
     }
@@ -39,8 +46,16 @@ describe('drawLinear', () => {
   const d = design([x]);
 
   it('returns the least-squares coefficients and draws centred on them with the posterior spread', () => {
-    let sx = 0, sy = 0, sxx = 0, sxy = 0;
-    for (let i = 0; i < n; i++) { sx += x[i]; sy += y[i]; sxx += x[i] * x[i]; sxy += x[i] * y[i]; }
+    let sx = 0,
+      sy = 0,
+      sxx = 0,
+      sxy = 0;
+    for (let i = 0; i < n; i++) {
+      sx += x[i];
+      sy += y[i];
+      sxx += x[i] * x[i];
+      sxy += x[i] * y[i];
+    }
     const slope = (sxy - (sx * sy) / n) / (sxx - (sx * sx) / n);
     const icpt = sy / n - slope * (sx / n);
     const rng = createRng(5);
@@ -49,9 +64,10 @@ describe('drawLinear', () => {
     expect(first.coef[1]).toBeCloseTo(slope, 10);
     let rss = 0;
     for (let i = 0; i < n; i++) rss += (y[i] - icpt - slope * x[i]) ** 2;
-    const varSlope = (rss / (n - 2 - 2)) / (sxx - (sx * sx) / n);
+    const varSlope = rss / (n - 2 - 2) / (sxx - (sx * sx) / n);
     const N = 20_000;
-    let s = 0, s2 = 0;
+    let s = 0,
+      s2 = 0;
     for (let k = 0; k < N; k++) {
       const b = drawLinear(d, y, all(n), rng).beta[1];
       s += b;
@@ -80,7 +96,8 @@ describe('drawLogistic', () => {
     const seSlope = Math.sqrt(ml.information[0] / (ml.information[0] * ml.information[3] - ml.information[1] ** 2));
     const rng = createRng(9);
     const N = 600;
-    let s = 0, s2 = 0;
+    let s = 0,
+      s2 = 0;
     for (let k = 0; k < N; k++) {
       const b = drawLogistic(d, y, all(n), rng).beta[1];
       s += b;
@@ -114,7 +131,14 @@ describe('imputeCategorical', () => {
     const obs = Int32Array.from({ length: n / 2 }, (_, i) => i);
     const mis = Int32Array.from({ length: n / 2 }, (_, i) => i + n / 2);
     // Averaged over 20 imputations, the imputed shares given x match the observed shares given x (the fitted model).
-    const imp = [[0, 0, 0], [0, 0, 0]], seen = [[0, 0, 0], [0, 0, 0]];
+    const imp = [
+        [0, 0, 0],
+        [0, 0, 0],
+      ],
+      seen = [
+        [0, 0, 0],
+        [0, 0, 0],
+      ];
     for (const i of obs) seen[x[i]][codes[i]]++;
     for (let k = 0; k < 20; k++) {
       const r = imputeCategorical(design([x]), codes, 3, obs, mis, rng);
@@ -122,14 +146,22 @@ describe('imputeCategorical', () => {
     }
     for (const xv of [0, 1]) {
       const share = (t: number[]) => t.map((c) => c / (t[0] + t[1] + t[2]));
-      const a = share(imp[xv]), b = share(seen[xv]);
+      const a = share(imp[xv]),
+        b = share(seen[xv]);
       a.forEach((s, l) => expect(Math.abs(s - b[l])).toBeLessThan(0.02));
     }
   });
 
   it('imputes the only observed level when just one is present', () => {
     const codes = Int32Array.from([2, 2, -1, 2]);
-    const r = imputeCategorical(design([Float64Array.from([1, 2, 3, 4])]), codes, 3, Int32Array.from([0, 1, 3]), Int32Array.from([2]), createRng(1));
+    const r = imputeCategorical(
+      design([Float64Array.from([1, 2, 3, 4])]),
+      codes,
+      3,
+      Int32Array.from([0, 1, 3]),
+      Int32Array.from([2]),
+      createRng(1),
+    );
     expect(Array.from(r.codes)).toEqual([2]);
   });
 });

@@ -8,14 +8,24 @@ import { cholesky, choleskyInverse } from '../../../src/engine/numerics/linalg';
 import { poolRubin } from '../../../src/engine/imputation/rubin';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
-const spec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };
+const spec: ModelSpec = {
+  outcome: 'low',
+  event: '1',
+  terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
+};
 
 describe('mice', () => {
   it('fills every missing cell of the incomplete birthwt data with a legal value and leaves observed cells alone', async () => {
     const data = birthwtIncomplete();
     const imp = await mice(data, spec, { m: 3, maxit: 4, seed: 5 });
-    expect(imp.imputed.map((c) => [c.column, c.method])).toEqual([['lwt', 'pmm'], ['race', 'multinomial'], ['smoke', 'logistic']]);
-    const observedLwt = new Set(Array.from((data.columns[2] as { values: Float64Array }).values).filter((v) => !Number.isNaN(v)));
+    expect(imp.imputed.map((c) => [c.column, c.method])).toEqual([
+      ['lwt', 'pmm'],
+      ['race', 'multinomial'],
+      ['smoke', 'logistic'],
+    ]);
+    const observedLwt = new Set(
+      Array.from((data.columns[2] as { values: Float64Array }).values).filter((v) => !Number.isNaN(v)),
+    );
     for (let k = 0; k < 3; k++) {
       const done = completeDataset(data, imp, k);
       done.columns.forEach((col, j) => {
@@ -28,11 +38,14 @@ describe('mice', () => {
         }
       });
       const lwt = done.columns[2];
-      if (lwt.kind === 'numeric') for (const i of imp.imputed[0].rows) expect(observedLwt.has(lwt.values[i])).toBe(true);
+      if (lwt.kind === 'numeric')
+        for (const i of imp.imputed[0].rows) expect(observedLwt.has(lwt.values[i])).toBe(true);
       const race = done.columns[3];
       if (race.kind === 'categorical') for (const i of imp.imputed[1].rows) expect([0, 1, 2]).toContain(race.codes[i]);
     }
-    expect(data.columns[2].kind === 'numeric' && Number.isNaN(data.columns[2].values[imp.imputed[0].rows[0]])).toBe(true);
+    expect(data.columns[2].kind === 'numeric' && Number.isNaN(data.columns[2].values[imp.imputed[0].rows[0]])).toBe(
+      true,
+    );
     expect(imp.imputed[0].chainMean.map((c) => c.length)).toEqual([4, 4, 4]);
     expect(imp.warnings).toEqual([]);
   });
@@ -42,7 +55,9 @@ describe('mice', () => {
     const a = await mice(data, spec, { m: 2, maxit: 3, seed: 99 });
     const b = await mice(data, spec, { m: 2, maxit: 3, seed: 99 });
     const c = await mice(data, spec, { m: 2, maxit: 3, seed: 100 });
-    expect(a.imputed.map((x) => x.draws.map((d) => Array.from(d)))).toEqual(b.imputed.map((x) => x.draws.map((d) => Array.from(d))));
+    expect(a.imputed.map((x) => x.draws.map((d) => Array.from(d)))).toEqual(
+      b.imputed.map((x) => x.draws.map((d) => Array.from(d))),
+    );
     expect(a.imputed[0].draws.map((d) => Array.from(d))).not.toEqual(c.imputed[0].draws.map((d) => Array.from(d)));
   });
 
@@ -50,22 +65,56 @@ describe('mice', () => {
     const data = birthwtIncomplete();
     const seen: Array<[number, number]> = [];
     let ticks = 0;
-    await mice(data, spec, { m: 2, maxit: 3 }, { onProgress: (d, t) => seen.push([d, t]), tick: async () => { ticks++; } });
-    expect(seen).toEqual([[1, 6], [2, 6], [3, 6], [4, 6], [5, 6], [6, 6]]);
+    await mice(
+      data,
+      spec,
+      { m: 2, maxit: 3 },
+      {
+        onProgress: (d, t) => seen.push([d, t]),
+        tick: async () => {
+          ticks++;
+        },
+      },
+    );
+    expect(seen).toEqual([
+      [1, 6],
+      [2, 6],
+      [3, 6],
+      [4, 6],
+      [5, 6],
+      [6, 6],
+    ]);
     expect(ticks).toBe(6);
     const signal = { aborted: false };
-    const run = mice(data, spec, { m: 5, maxit: 5 }, { signal, onProgress: (d) => { if (d === 2) signal.aborted = true; } });
+    const run = mice(
+      data,
+      spec,
+      { m: 5, maxit: 5 },
+      {
+        signal,
+        onProgress: (d) => {
+          if (d === 2) signal.aborted = true;
+        },
+      },
+    );
     await expect(run).rejects.toMatchObject({ code: 'cancelled' });
   });
 
   it('imputes a tiny table (5 rows, more predictors than observed rows for one column) without crashing, with finite legal values', async () => {
-    const data: Dataset = { nRows: 5, columns: [
-      { kind: 'numeric', name: 'y', values: Float64Array.from([0, 1, 0, 1, 1]) },
-      { kind: 'numeric', name: 'a', values: Float64Array.from([NaN, NaN, NaN, 2, 3]) },
-      { kind: 'categorical', name: 'g', codes: Int32Array.from([0, 1, 2, -1, 0]), levels: ['p', 'q', 'r'] },
-      { kind: 'numeric', name: 'c', values: Float64Array.from([5, 5, 5, 5, NaN]) },
-    ] };
-    const r = await mice(data, { outcome: 'y', terms: ['a', 'g', 'c'].map((column) => ({ type: 'main' as const, column })) }, { m: 2, maxit: 3 });
+    const data: Dataset = {
+      nRows: 5,
+      columns: [
+        { kind: 'numeric', name: 'y', values: Float64Array.from([0, 1, 0, 1, 1]) },
+        { kind: 'numeric', name: 'a', values: Float64Array.from([NaN, NaN, NaN, 2, 3]) },
+        { kind: 'categorical', name: 'g', codes: Int32Array.from([0, 1, 2, -1, 0]), levels: ['p', 'q', 'r'] },
+        { kind: 'numeric', name: 'c', values: Float64Array.from([5, 5, 5, 5, NaN]) },
+      ],
+    };
+    const r = await mice(
+      data,
+      { outcome: 'y', terms: ['a', 'g', 'c'].map((column) => ({ type: 'main' as const, column })) },
+      { m: 2, maxit: 3 },
+    );
     for (let k = 0; k < 2; k++) {
       const d = completeDataset(data, r, k);
       expect([2, 3]).toContain((d.columns[1] as { values: Float64Array }).values[0]);
@@ -88,15 +137,34 @@ describe('mice', () => {
     const data: Dataset = {
       nRows: n,
       columns: [
-        { kind: 'numeric', name: 'y', values: Float64Array.from({ length: n }, (_, i) => (i === 3 ? NaN : rng.next() < 0.5 ? 1 : 0)) },
-        { kind: 'numeric', name: 'a', values: Float64Array.from({ length: n }, (_, i) => (i % 7 === 0 ? NaN : rng.normal())) },
+        {
+          kind: 'numeric',
+          name: 'y',
+          values: Float64Array.from({ length: n }, (_, i) => (i === 3 ? NaN : rng.next() < 0.5 ? 1 : 0)),
+        },
+        {
+          kind: 'numeric',
+          name: 'a',
+          values: Float64Array.from({ length: n }, (_, i) => (i % 7 === 0 ? NaN : rng.normal())),
+        },
         { kind: 'categorical', name: 'g', codes: Int32Array.from({ length: n }, (_, i) => i % 2), levels: ['u', 'v'] },
         { kind: 'numeric', name: 'empty', values: new Float64Array(n).fill(NaN) },
       ],
     };
-    const r = await mice(data, { outcome: 'y', terms: [{ type: 'interaction', columns: ['a', 'g'] }] }, { m: 2, maxit: 2, auxiliary: ['empty'] });
-    expect(r.warnings.map((w) => w.code).sort()).toEqual(['mi-no-observed', 'mi-nonlinear-terms', 'mi-outcome-imputed']);
-    expect(r.imputed.map((c) => [c.column, c.method])).toEqual([['y', 'logistic'], ['a', 'pmm']]);
+    const r = await mice(
+      data,
+      { outcome: 'y', terms: [{ type: 'interaction', columns: ['a', 'g'] }] },
+      { m: 2, maxit: 2, auxiliary: ['empty'] },
+    );
+    expect(r.warnings.map((w) => w.code).sort()).toEqual([
+      'mi-no-observed',
+      'mi-nonlinear-terms',
+      'mi-outcome-imputed',
+    ]);
+    expect(r.imputed.map((c) => [c.column, c.method])).toEqual([
+      ['y', 'logistic'],
+      ['a', 'pmm'],
+    ]);
     expect(r.columns).toEqual(['y', 'a', 'g']);
     const full = await mice(data, { outcome: 'g', terms: [] }, { m: 2, maxit: 1 });
     expect(full.warnings.map((w) => w.code)).toEqual(['mi-nothing-missing']);
@@ -111,17 +179,32 @@ describe('mice', () => {
     const y = Float64Array.from(x, (v, i) => (rng.next() < 1 / (1 + Math.exp(-(-1 + v + z[i]))) ? 1 : 0));
     const xm = Float64Array.from(x, (v, i) => (rng.next() < (y[i] === 1 ? 0.5 : 0.1) ? NaN : v));
     const zm = Int32Array.from(z, (v, i) => (rng.next() < (y[i] === 1 ? 0.4 : 0.1) ? -1 : v));
-    const data: Dataset = { nRows: n, columns: [
-      { kind: 'numeric', name: 'y', values: y },
-      { kind: 'numeric', name: 'x', values: xm },
-      { kind: 'categorical', name: 'z', codes: zm, levels: ['no', 'yes'] },
-    ] };
-    const imp = await mice(data, { outcome: 'y', terms: [{ type: 'main', column: 'x' }, { type: 'main', column: 'z' }] }, { m: 5, maxit: 5, seed: 17 });
+    const data: Dataset = {
+      nRows: n,
+      columns: [
+        { kind: 'numeric', name: 'y', values: y },
+        { kind: 'numeric', name: 'x', values: xm },
+        { kind: 'categorical', name: 'z', codes: zm, levels: ['no', 'yes'] },
+      ],
+    };
+    const imp = await mice(
+      data,
+      {
+        outcome: 'y',
+        terms: [
+          { type: 'main', column: 'x' },
+          { type: 'main', column: 'z' },
+        ],
+      },
+      { m: 5, maxit: 5, seed: 17 },
+    );
     const mean = (a: ArrayLike<number>) => Array.from(a).reduce((s, v) => s + v, 0) / a.length;
-    const trueX = mean(x), trueZ = mean(z);
+    const trueX = mean(x),
+      trueZ = mean(z);
     const ccX = mean(Array.from(xm).filter((v) => !Number.isNaN(v)));
     const ccZ = mean(Array.from(zm).filter((v) => v >= 0));
-    let miX = 0, miZ = 0;
+    let miX = 0,
+      miZ = 0;
     for (let k = 0; k < 5; k++) {
       const d = completeDataset(data, imp, k);
       miX += mean((d.columns[1] as { values: Float64Array }).values) / 5;
@@ -139,12 +222,14 @@ describe('mice', () => {
     const data = birthwtIncomplete();
     const ref = loadPoolFixture().poolM50;
     const imp = await mice(data, spec, { m: 20, seed: 1 });
-    const est: number[][] = [], vr: number[][] = [];
+    const est: number[][] = [],
+      vr: number[][] = [];
     for (let k = 0; k < 20; k++) {
       const c = completeDataset(data, imp, k).columns;
       const n = data.nRows;
       const num = (j: number) => (c[j] as { values: Float64Array }).values;
-      const lev = (j: number, l: number) => Float64Array.from((c[j] as { codes: Int32Array }).codes, (v) => (v === l ? 1 : 0));
+      const lev = (j: number, l: number) =>
+        Float64Array.from((c[j] as { codes: Int32Array }).codes, (v) => (v === l ? 1 : 0));
       const cols = [new Float64Array(n).fill(1), num(1), num(2), lev(3, 1), lev(3, 2), lev(4, 1)];
       const X = new Float64Array(n * 6);
       cols.forEach((a, j) => X.set(a, j * n));

@@ -4,7 +4,11 @@ import type { Dataset } from '../../../src/engine/core/data';
 import type { ModelSpec } from '../../../src/engine/core/model';
 import { birthwtIncomplete, loadPoolFixture } from './helpers';
 
-const spec: ModelSpec = { outcome: 'low', event: '1', terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })) };
+const spec: ModelSpec = {
+  outcome: 'low',
+  event: '1',
+  terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
+};
 
 describe('missingReport', () => {
   it('counts missing values per column and complete rows as R is.na()/complete.cases() do on the incomplete birthwt data', () => {
@@ -36,7 +40,13 @@ describe('missingReport', () => {
         { kind: 'categorical', name: 'g', codes: Int32Array.from([0, 1, -1, -1, 0]), levels: ['a', 'b'] },
       ],
     };
-    const r = missingReport(data, { outcome: 'y', terms: [{ type: 'interaction', columns: ['x', 'g'] }, { type: 'main', column: 'x' }] });
+    const r = missingReport(data, {
+      outcome: 'y',
+      terms: [
+        { type: 'interaction', columns: ['x', 'g'] },
+        { type: 'main', column: 'x' },
+      ],
+    });
     expect(r.columns).toEqual(['y', 'x', 'g']);
     expect(r.byColumn).toEqual([
       { column: 'y', missing: 1, onlyThisMissing: 0, fraction: 0.2 },
@@ -44,28 +54,52 @@ describe('missingReport', () => {
       { column: 'g', missing: 2, onlyThisMissing: 1, fraction: 0.4 },
     ]);
     expect(r.completeRows).toBe(1);
-    expect(r.patterns).toEqual([
-      { missing: [false, true, false], rows: 2 },
-      { missing: [false, false, false], rows: 1 },
-      { missing: [true, true, true], rows: 1 },
-      { missing: [false, false, true], rows: 1 },
-    ].sort((a, b) => b.rows - a.rows || a.missing.filter(Boolean).length - b.missing.filter(Boolean).length));
+    expect(r.patterns).toEqual(
+      [
+        { missing: [false, true, false], rows: 2 },
+        { missing: [false, false, false], rows: 1 },
+        { missing: [true, true, true], rows: 1 },
+        { missing: [false, false, true], rows: 1 },
+      ].sort((a, b) => b.rows - a.rows || a.missing.filter(Boolean).length - b.missing.filter(Boolean).length),
+    );
   });
 
   it('gives no warning when nothing is missing and a second warning when no row is complete', () => {
-    const full: Dataset = { nRows: 2, columns: [{ kind: 'numeric', name: 'y', values: Float64Array.from([0, 1]) }, { kind: 'numeric', name: 'x', values: Float64Array.from([1, 2]) }] };
+    const full: Dataset = {
+      nRows: 2,
+      columns: [
+        { kind: 'numeric', name: 'y', values: Float64Array.from([0, 1]) },
+        { kind: 'numeric', name: 'x', values: Float64Array.from([1, 2]) },
+      ],
+    };
     expect(missingReport(full, { outcome: 'y', terms: [{ type: 'main', column: 'x' }] }).warnings).toEqual([]);
-    const none: Dataset = { nRows: 2, columns: [{ kind: 'numeric', name: 'y', values: Float64Array.from([0, NaN]) }, { kind: 'numeric', name: 'x', values: Float64Array.from([NaN, 2]) }] };
+    const none: Dataset = {
+      nRows: 2,
+      columns: [
+        { kind: 'numeric', name: 'y', values: Float64Array.from([0, NaN]) },
+        { kind: 'numeric', name: 'x', values: Float64Array.from([NaN, 2]) },
+      ],
+    };
     const r = missingReport(none, { outcome: 'y', terms: [{ type: 'main', column: 'x' }] });
     expect(r.completeRows).toBe(0);
     expect(r.warnings.map((w) => w.code)).toEqual(['no-complete-rows', 'complete-case-mcar']);
   });
 
   it('lists spline and interaction columns once each', () => {
-    expect(modelColumns({ outcome: 'y', terms: [{ type: 'spline', column: 'a', knots: 3 }, { type: 'interaction', columns: ['a', 'b'] }] })).toEqual(['y', 'a', 'b']);
+    expect(
+      modelColumns({
+        outcome: 'y',
+        terms: [
+          { type: 'spline', column: 'a', knots: 3 },
+          { type: 'interaction', columns: ['a', 'b'] },
+        ],
+      }),
+    ).toEqual(['y', 'a', 'b']);
   });
 
   it('throws naming the column when the spec uses a column the data lack', () => {
-    expect(() => missingReport(birthwtIncomplete(), { outcome: 'low', terms: [{ type: 'main', column: 'weight' }] })).toThrow(/weight/);
+    expect(() =>
+      missingReport(birthwtIncomplete(), { outcome: 'low', terms: [{ type: 'main', column: 'weight' }] }),
+    ).toThrow(/weight/);
   });
 });

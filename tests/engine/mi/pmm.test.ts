@@ -16,7 +16,8 @@ describe('pmmImpute', () => {
     const n = 200;
     const x = Float64Array.from({ length: n }, () => rng.normal());
     const y = Float64Array.from(x, (v) => Math.round(10 * (3 + v + 0.3 * rng.normal())) / 10);
-    const obs = Int32Array.from({ length: 150 }, (_, i) => i), mis = Int32Array.from({ length: 50 }, (_, i) => i + 150);
+    const obs = Int32Array.from({ length: 150 }, (_, i) => i),
+      mis = Int32Array.from({ length: 50 }, (_, i) => i + 150);
     const r = pmmImpute(design(x), y, obs, mis, rng);
     const observed = new Set(Array.from(obs, (i) => y[i]));
     expect(Array.from(r.values).every((v) => observed.has(v))).toBe(true);
@@ -27,7 +28,8 @@ describe('pmmImpute', () => {
     const n = 101;
     const x = Float64Array.from({ length: n }, (_, i) => (i < 100 ? i : 42.2));
     const y = Float64Array.from(x);
-    const obs = Int32Array.from({ length: 100 }, (_, i) => i), mis = Int32Array.from([100]);
+    const obs = Int32Array.from({ length: 100 }, (_, i) => i),
+      mis = Int32Array.from([100]);
     const seen = new Set<number>();
     const rng = createRng(6);
     for (let k = 0; k < 300; k++) seen.add(pmmImpute(design(x), y, obs, mis, rng).values[0]);
@@ -39,11 +41,15 @@ describe('pmmImpute', () => {
     const n = 4000;
     const x = Float64Array.from({ length: n }, () => rng.normal());
     const y = Float64Array.from(x, (v) => 10 + 2 * v + rng.normal());
-    const obsL: number[] = [], misL: number[] = [];
+    const obsL: number[] = [],
+      misL: number[] = [];
     for (let i = 0; i < n; i++) (rng.next() < 1 / (1 + Math.exp(-(x[i] - 0.5))) ? misL : obsL).push(i);
-    const obs = Int32Array.from(obsL), mis = Int32Array.from(misL);
+    const obs = Int32Array.from(obsL),
+      mis = Int32Array.from(misL);
     const r = pmmImpute(design(x), y, obs, mis, rng);
-    let trueMean = 0, ccMean = 0, miMean = 0;
+    let trueMean = 0,
+      ccMean = 0,
+      miMean = 0;
     for (let i = 0; i < n; i++) trueMean += y[i] / n;
     for (const i of obs) ccMean += y[i] / obs.length;
     for (const i of obs) miMean += y[i] / n;

@@ -44,16 +44,46 @@ describe('poolRubin', () => {
 
   it('reproduces the 90% intervals of summary(pool(), conf.level = 0.90) to 1e-8', () => {
     const r90 = poolRubin({ estimates: fx.estimates, variances: fx.variances, dfcom: fx.dfcom, level: 0.9 });
-    expect(maxRelErr(r90.rows.map((r) => r.lower), fx.pool90.lower)).toBeLessThan(1e-8);
-    expect(maxRelErr(r90.rows.map((r) => r.upper), fx.pool90.upper)).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        r90.rows.map((r) => r.lower),
+        fx.pool90.lower,
+      ),
+    ).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        r90.rows.map((r) => r.upper),
+        fx.pool90.upper,
+      ),
+    ).toBeLessThan(1e-8);
   });
 
   it('reproduces mice 3.15.0 pool(dfcom = Inf), the large-sample Rubin df, to 1e-8', () => {
     const inf = poolRubin({ estimates: fx.estimates, variances: fx.variances, dfcom: Infinity });
-    expect(maxRelErr(inf.rows.map((r) => r.df), fx.poolInf.df)).toBeLessThan(1e-8);
-    expect(maxRelErr(inf.rows.map((r) => r.fmi), fx.poolInf.fmi)).toBeLessThan(1e-8);
-    expect(maxRelErr(inf.rows.map((r) => r.p), fx.poolInf.p_value)).toBeLessThan(1e-8);
-    expect(maxRelErr(inf.rows.map((r) => r.lower), fx.poolInf.lower)).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        inf.rows.map((r) => r.df),
+        fx.poolInf.df,
+      ),
+    ).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        inf.rows.map((r) => r.fmi),
+        fx.poolInf.fmi,
+      ),
+    ).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        inf.rows.map((r) => r.p),
+        fx.poolInf.p_value,
+      ),
+    ).toBeLessThan(1e-8);
+    expect(
+      maxRelErr(
+        inf.rows.map((r) => r.lower),
+        fx.poolInf.lower,
+      ),
+    ).toBeLessThan(1e-8);
   });
 
   it('gives the complete-data answer when every imputation agrees (b = 0: riv 0, df near dfcom)', () => {
@@ -69,7 +99,18 @@ describe('poolRubin', () => {
   });
 
   it('warns, naming the term, when an imputation has a non-finite estimate', () => {
-    const r = poolRubin({ estimates: [[1, NaN], [1, 2]], variances: [[1, 1], [1, 1]], dfcom: 50, names: ['a', 'b'] });
+    const r = poolRubin({
+      estimates: [
+        [1, NaN],
+        [1, 2],
+      ],
+      variances: [
+        [1, 1],
+        [1, 1],
+      ],
+      dfcom: 50,
+      names: ['a', 'b'],
+    });
     expect(r.warnings.map((w) => w.code)).toEqual(['mi-nonfinite']);
     expect(r.warnings[0].terms).toEqual(['b']);
   });
@@ -83,13 +124,16 @@ describe('poolRubin', () => {
 });
 
 describe('poolCoefficients', () => {
-  const fits = fx.estimates.map((e: number[], k: number) => fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189));
+  const fits = fx.estimates.map((e: number[], k: number) =>
+    fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189),
+  );
 
   it('pools fit records of the 5 birthwt imputations as mice 3.15.0 pool() does, with dfcom = n − rank = 183', () => {
     const r = poolCoefficients(fits);
     expect(r.dfcom).toBe(fx.dfcom);
     expect(r.dfcom).toBe(183);
-    const col = (k: 'estimate' | 'se' | 'df' | 'fmi' | 'p' | 'waldLower' | 'waldUpper') => r.coefficients.map((c) => c[k] as number);
+    const col = (k: 'estimate' | 'se' | 'df' | 'fmi' | 'p' | 'waldLower' | 'waldUpper') =>
+      r.coefficients.map((c) => c[k] as number);
     expect(maxRelErr(col('estimate'), fx.pool.estimate)).toBeLessThan(1e-8);
     expect(maxRelErr(col('se'), fx.pool.std_error)).toBeLessThan(1e-8);
     expect(maxRelErr(col('df'), fx.pool.df)).toBeLessThan(1e-8);
@@ -103,7 +147,17 @@ describe('poolCoefficients', () => {
   });
 
   it('gives no pooled inference, with a warning, for a coefficient aliased in one imputation', () => {
-    const f = fits.map((x: FitResult, k: number) => (k === 2 ? fitRecord(fx.terms, [...fx.estimates[k].slice(0, 5), 0], [...fx.variances[k].slice(0, 5).map(Math.sqrt), null], 189, [false, false, false, false, false, true]) : x));
+    const f = fits.map((x: FitResult, k: number) =>
+      k === 2
+        ? fitRecord(
+            fx.terms,
+            [...fx.estimates[k].slice(0, 5), 0],
+            [...fx.variances[k].slice(0, 5).map(Math.sqrt), null],
+            189,
+            [false, false, false, false, false, true],
+          )
+        : x,
+    );
     const r = poolCoefficients(f);
     expect(r.coefficients[5].se).toBeNull();
     expect(r.coefficients[5].fmi).toBeNull();
@@ -113,10 +167,22 @@ describe('poolCoefficients', () => {
   });
 
   it('reports only mean estimates, with a warning, for fits without standard errors (ridge)', () => {
-    const f = fx.estimates.map((e: number[]) => fitRecord(fx.terms, e, e.map(() => null), 189));
+    const f = fx.estimates.map((e: number[]) =>
+      fitRecord(
+        fx.terms,
+        e,
+        e.map(() => null),
+        189,
+      ),
+    );
     const r = poolCoefficients(f);
     expect(r.coefficients.every((c) => c.se === null && c.p === null)).toBe(true);
-    expect(maxRelErr(r.coefficients.map((c) => c.estimate), fx.pool.estimate)).toBeLessThan(1e-12);
+    expect(
+      maxRelErr(
+        r.coefficients.map((c) => c.estimate),
+        fx.pool.estimate,
+      ),
+    ).toBeLessThan(1e-12);
     expect(r.warnings.map((w) => w.code)).toEqual(['mi-no-inference']);
   });
 
@@ -132,27 +198,30 @@ describe('poolRubin properties', () => {
     dfcom: fc.oneof(fc.constant(Infinity), fc.integer({ min: 1, max: 5000 })),
   });
   it('is unchanged by reordering the imputations, keeps lower < estimate < upper, λ in [0, 1), fmi in (0, 1] and df ≤ dfcom (fast-check)', () => {
-    fc.assert(fc.property(arb, ({ m, seed, dfcom }) => {
-      const rng = createRng(seed);
-      const est = Array.from({ length: m }, () => [rng.normal(), 3 * rng.normal()]);
-      const vr = Array.from({ length: m }, () => [0.01 + rng.next(), 0.5 + rng.next()]);
-      const a = poolRubin({ estimates: est, variances: vr, dfcom }).rows;
-      const b = poolRubin({ estimates: [...est].reverse(), variances: [...vr].reverse(), dfcom }).rows;
-      a.forEach((r, j) => {
-        expect(b[j].estimate).toBeCloseTo(r.estimate, 12);
-        expect(b[j].df).toBeCloseTo(r.df, 8);
-        expect(r.lower).toBeLessThan(r.estimate);
-        expect(r.upper).toBeGreaterThan(r.estimate);
-        expect(r.lambda).toBeGreaterThanOrEqual(0);
-        expect(r.lambda).toBeLessThan(1);
-        expect(r.fmi).toBeGreaterThan(0);
-        expect(r.fmi).toBeLessThanOrEqual(1);
-        expect(r.df).toBeGreaterThan(0);
-        if (dfcom !== Infinity) expect(r.df).toBeLessThanOrEqual(dfcom);
-        expect(r.p).toBeGreaterThanOrEqual(0);
-        expect(r.p).toBeLessThanOrEqual(1);
-      });
-    }), { numRuns: 200, seed: 42 });
+    fc.assert(
+      fc.property(arb, ({ m, seed, dfcom }) => {
+        const rng = createRng(seed);
+        const est = Array.from({ length: m }, () => [rng.normal(), 3 * rng.normal()]);
+        const vr = Array.from({ length: m }, () => [0.01 + rng.next(), 0.5 + rng.next()]);
+        const a = poolRubin({ estimates: est, variances: vr, dfcom }).rows;
+        const b = poolRubin({ estimates: [...est].reverse(), variances: [...vr].reverse(), dfcom }).rows;
+        a.forEach((r, j) => {
+          expect(b[j].estimate).toBeCloseTo(r.estimate, 12);
+          expect(b[j].df).toBeCloseTo(r.df, 8);
+          expect(r.lower).toBeLessThan(r.estimate);
+          expect(r.upper).toBeGreaterThan(r.estimate);
+          expect(r.lambda).toBeGreaterThanOrEqual(0);
+          expect(r.lambda).toBeLessThan(1);
+          expect(r.fmi).toBeGreaterThan(0);
+          expect(r.fmi).toBeLessThanOrEqual(1);
+          expect(r.df).toBeGreaterThan(0);
+          if (dfcom !== Infinity) expect(r.df).toBeLessThanOrEqual(dfcom);
+          expect(r.p).toBeGreaterThanOrEqual(0);
+          expect(r.p).toBeLessThanOrEqual(1);
+        });
+      }),
+      { numRuns: 200, seed: 42 },
+    );
   });
 });
 
@@ -163,7 +232,11 @@ describe('poolWaldTest (D1)', () => {
     est: fx.estimates.map((e: number[]) => idx.map((j) => e[j])),
     cov: fx.covariances.map((c: number[]) => idx.flatMap((a) => idx.map((b) => c[a * 6 + b]))),
   });
-  for (const [name, idx] of [['race', [3, 4]], ['all', [1, 2, 3, 4, 5]], ['age', [1]]] as const) {
+  for (const [name, idx] of [
+    ['race', [3, 4]],
+    ['all', [1, 2, 3, 4, 5]],
+    ['age', [1]],
+  ] as const) {
     it(`reproduces D1 statistic, df2, r and p for ${name === 'all' ? 'all five slopes' : `the ${name} term`} to 1e-8`, () => {
       const { est, cov } = sub([...idx]);
       const r = poolWaldTest(est, cov);
@@ -173,17 +246,35 @@ describe('poolWaldTest (D1)', () => {
   }
 
   it('pools term tests inside poolCoefficients from fit covariances (race term = D1 above)', () => {
-    const terms = [{ name: 'age', columns: [1] }, { name: 'race', columns: [3, 4] }];
-    const fits = fx.estimates.map((e: number[], k: number) => fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189, [], fx.covariances[k], terms));
+    const terms = [
+      { name: 'age', columns: [1] },
+      { name: 'race', columns: [3, 4] },
+    ];
+    const fits = fx.estimates.map((e: number[], k: number) =>
+      fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189, [], fx.covariances[k], terms),
+    );
     const r = poolCoefficients(fits);
     expect(r.terms.map((t) => t.name)).toEqual(['age', 'race']);
     expect(Math.abs((r.terms[1].test?.p as number) - fx.d1.race[4])).toBeLessThan(1e-10);
-    const noCov = poolCoefficients(fx.estimates.map((e: number[], k: number) => fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189, [], null, terms)));
+    const noCov = poolCoefficients(
+      fx.estimates.map((e: number[], k: number) =>
+        fitRecord(fx.terms, e, fx.variances[k].map(Math.sqrt), 189, [], null, terms),
+      ),
+    );
     expect(noCov.terms.every((t) => t.test === null)).toBe(true);
   });
 
   it('refers k·D1 to chi-square when all imputations agree (r = 0)', () => {
-    const r = poolWaldTest([[1, 2], [1, 2]], [[1, 0, 0, 4], [1, 0, 0, 4]]);
+    const r = poolWaldTest(
+      [
+        [1, 2],
+        [1, 2],
+      ],
+      [
+        [1, 0, 0, 4],
+        [1, 0, 0, 4],
+      ],
+    );
     expect(r.riv).toBe(0);
     expect(r.df2).toBe(Infinity);
     expect(r.statistic).toBeCloseTo(1, 12); // (1 + 4/4)/2

@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../../../src/engine/validation/bootstrap';
+import {
+  bootstrapValidation,
+  repeatedCrossValidation,
+  type InternalValidation,
+} from '../../../src/engine/validation/bootstrap';
 import type { Pipeline } from '../../../src/engine/validation/pipeline';
 import { simulate } from './simulate';
 import { PIMA_SPEC, pimaDataset, readFixture } from './pimaData';
@@ -46,20 +50,29 @@ describe('bootstrapValidation', () => {
   it('reports progress per replicate and stops within one replicate of a cancel', async () => {
     const signal = { aborted: false };
     const seen: number[] = [];
-    const run = bootstrapValidation(pipeline(150, 5), { B: 50 }, {
-      signal,
-      onProgress: (done, total) => {
-        seen.push(done);
-        expect(total).toBe(50);
-        if (done === 3) signal.aborted = true;
+    const run = bootstrapValidation(
+      pipeline(150, 5),
+      { B: 50 },
+      {
+        signal,
+        onProgress: (done, total) => {
+          seen.push(done);
+          expect(total).toBe(50);
+          if (done === 3) signal.aborted = true;
+        },
       },
-    });
+    );
     await expect(run).rejects.toMatchObject({ name: 'FulcraError', code: 'cancelled' });
     expect(seen).toEqual([1, 2, 3]);
   });
 
   it('repeats λ selection by cross-validation inside every replicate of a lasso pipeline', async () => {
-    const pl = pipeline(150, 8, { penalty: { alpha: 1, lambda: 'cv-1se', folds: 5, criterion: 'deviance', nLambda: 30 } }, 4);
+    const pl = pipeline(
+      150,
+      8,
+      { penalty: { alpha: 1, lambda: 'cv-1se', folds: 5, criterion: 'deviance', nLambda: 30 } },
+      4,
+    );
     const r = await bootstrapValidation(pl, { B: 6, seed: 2 });
     expect(r.lambda).toBeGreaterThan(0);
     for (const x of r.rows) expect(Number.isFinite(x.corrected!)).toBe(true);
@@ -76,7 +89,16 @@ describe('bootstrapValidation', () => {
     y.fill(0);
     y[7] = 1;
     y[19] = 1;
-    const r = await bootstrapValidation({ data, spec: { ...spec, terms: spec.terms.slice(0, 1) }, fitOptions: { method: 'firth' }, penalty: null, seed: 1 }, { B: 30, seed: 1 });
+    const r = await bootstrapValidation(
+      {
+        data,
+        spec: { ...spec, terms: spec.terms.slice(0, 1) },
+        fitOptions: { method: 'firth' },
+        penalty: null,
+        seed: 1,
+      },
+      { B: 30, seed: 1 },
+    );
     expect(r.failed).toBeGreaterThan(0);
     expect(r.warnings.map((w) => w.code)).toContain('replicates-skipped');
     expect(row(r, 'auc').replicates).toBe(30 - r.failed);
@@ -87,7 +109,13 @@ describe('bootstrapValidation', () => {
     const y = (data.columns[0] as { values: Float64Array }).values;
     y.fill(0);
     y[3] = y[30] = y[45] = 1;
-    const pl: Pipeline = { data, spec, fitOptions: {}, penalty: { alpha: 1, lambda: 'cv-min', folds: 5, criterion: 'deviance', nLambda: 20 }, seed: 1 };
+    const pl: Pipeline = {
+      data,
+      spec,
+      fitOptions: {},
+      penalty: { alpha: 1, lambda: 'cv-min', folds: 5, criterion: 'deviance', nLambda: 20 },
+      seed: 1,
+    };
     const r = await bootstrapValidation(pl, { B: 20, seed: 5 });
     expect(r.failed).toBeGreaterThan(0);
     expect(r.failed).toBeLessThan(20);
@@ -102,7 +130,11 @@ describe('bootstrapValidation', () => {
 describe('repeatedCrossValidation', () => {
   it('is reproducible, reports folds × repeats progress, and finds less optimism at larger n', async () => {
     const seen: number[] = [];
-    const a = await repeatedCrossValidation(pipeline(150, 5, {}, 5), { folds: 5, repeats: 3, seed: 2 }, { onProgress: (d) => seen.push(d) });
+    const a = await repeatedCrossValidation(
+      pipeline(150, 5, {}, 5),
+      { folds: 5, repeats: 3, seed: 2 },
+      { onProgress: (d) => seen.push(d) },
+    );
     const b = await repeatedCrossValidation(pipeline(150, 5, {}, 5), { folds: 5, repeats: 3, seed: 2 });
     expect(b).toEqual(a);
     expect(seen).toEqual(Array.from({ length: 15 }, (_, k) => k + 1));
@@ -114,7 +146,16 @@ describe('repeatedCrossValidation', () => {
 
   it('stops with "cancelled" after the fold in which the signal was raised', async () => {
     const signal = { aborted: false };
-    const run = repeatedCrossValidation(pipeline(100, 5), { folds: 5, repeats: 4 }, { signal, onProgress: (d) => { if (d === 7) signal.aborted = true; } });
+    const run = repeatedCrossValidation(
+      pipeline(100, 5),
+      { folds: 5, repeats: 4 },
+      {
+        signal,
+        onProgress: (d) => {
+          if (d === 7) signal.aborted = true;
+        },
+      },
+    );
     await expect(run).rejects.toMatchObject({ code: 'cancelled' });
   });
 });
@@ -122,8 +163,18 @@ describe('repeatedCrossValidation', () => {
 describe('bootstrapValidation against R', () => {
   it('reproduces the optimism computed in R (glm with count weights, pROC auc) for the same 8 resamples of MASS::Pima.tr to 1e-6', async () => {
     // Reference: validate-bootstrap.R (R 4.2.2 stats::glm, pROC 1.18.0 auc, glm calibration fits).
-    const ref = readFixture<{ metrics: string[]; counts: number[][]; apparent: number[]; optimism: number[]; corrected: number[]; optimismSd: number[] }>('validate-bootstrap.json');
-    const r = await bootstrapValidation({ data: pimaDataset('tr'), spec: PIMA_SPEC, fitOptions: {}, penalty: null, seed: 1 }, { counts: ref.counts.map((c) => Float64Array.from(c)) });
+    const ref = readFixture<{
+      metrics: string[];
+      counts: number[][];
+      apparent: number[];
+      optimism: number[];
+      corrected: number[];
+      optimismSd: number[];
+    }>('validate-bootstrap.json');
+    const r = await bootstrapValidation(
+      { data: pimaDataset('tr'), spec: PIMA_SPEC, fitOptions: {}, penalty: null, seed: 1 },
+      { counts: ref.counts.map((c) => Float64Array.from(c)) },
+    );
     expect(r.planned).toBe(8);
     ref.metrics.forEach((m, k) => {
       const x = row(r, m);

@@ -4,7 +4,16 @@ import { stratifiedFolds } from '../../../src/engine/penalised/folds';
 import { createRng } from '../../../src/engine/numerics/rng';
 import { readFixture, readPima } from './pimaData';
 
-interface CvRef { alpha: number; measure: 'deviance' | 'mse'; lambda: number[]; cvm: number[]; cvsd: number[]; nzero: number[]; lambdaMin: number; lambda1se: number }
+interface CvRef {
+  alpha: number;
+  measure: 'deviance' | 'mse';
+  lambda: number[];
+  cvm: number[];
+  cvsd: number[];
+  nzero: number[];
+  lambdaMin: number;
+  lambda1se: number;
+}
 interface CvFixture {
   foldid: number[];
   cv: CvRef[];
@@ -22,7 +31,10 @@ describe('crossValidateLambda', () => {
   for (const r of ref.cv) {
     it(`matches glmnet fold refits combined by cv.glmnet's rules: error, SE, λ_min, λ_1se to 1e-6 (alpha=${r.alpha}, ${r.measure})`, async () => {
       const folds = Int32Array.from(ref.foldid, (f) => f - 1);
-      const cv = await crossValidateLambda(problem, r.alpha, { folds, criterion: r.measure === 'mse' ? 'brier' : 'deviance' });
+      const cv = await crossValidateLambda(problem, r.alpha, {
+        folds,
+        criterion: r.measure === 'mse' ? 'brier' : 'deviance',
+      });
       const scale = r.measure === 'mse' ? 2 : 1;
       expect(cv.path.length).toBe(r.lambda.length);
       expect(cv.path.map((row) => row.nonzero)).toEqual(r.nzero);
@@ -40,9 +52,13 @@ describe('crossValidateLambda', () => {
   for (const r of ref.cvGlmnet) {
     it(`agrees with cv.glmnet's interpolated error curve to 1e-3 (alpha=${r.alpha}, ${r.measure})`, async () => {
       const folds = Int32Array.from(ref.foldid, (f) => f - 1);
-      const cv = await crossValidateLambda(problem, r.alpha, { folds, criterion: r.measure === 'mse' ? 'brier' : 'deviance' });
+      const cv = await crossValidateLambda(problem, r.alpha, {
+        folds,
+        criterion: r.measure === 'mse' ? 'brier' : 'deviance',
+      });
       const scale = r.measure === 'mse' ? 2 : 1;
-      for (let k = 0; k < r.lambda.length; k++) expect(Math.abs(scale * cv.path[k].error - r.cvm[k]) / r.cvm[k]).toBeLessThan(1e-3);
+      for (let k = 0; k < r.lambda.length; k++)
+        expect(Math.abs(scale * cv.path[k].error - r.cvm[k]) / r.cvm[k]).toBeLessThan(1e-3);
       expect(cv.lambda1se).toBeCloseTo(r.lambda1se, 12);
     });
   }
@@ -60,13 +76,18 @@ describe('crossValidateLambda', () => {
   it('stops with a "cancelled" error after the fold during which the signal was raised', async () => {
     const signal = { aborted: false };
     let done = 0;
-    const run = crossValidateLambda(problem, 1, { folds: 5 }, {
-      signal,
-      onProgress: (d) => {
-        done = d;
-        if (d === 2) signal.aborted = true;
+    const run = crossValidateLambda(
+      problem,
+      1,
+      { folds: 5 },
+      {
+        signal,
+        onProgress: (d) => {
+          done = d;
+          if (d === 2) signal.aborted = true;
+        },
       },
-    });
+    );
     await expect(run).rejects.toMatchObject({ code: 'cancelled' });
     expect(done).toBe(2);
   });
@@ -80,8 +101,12 @@ describe('stratifiedFolds', () => {
   it('balances events across folds and fold sizes within one row', () => {
     const y = new Float64Array(103).map((_, i) => (i % 4 === 0 ? 1 : 0));
     const f = stratifiedFolds(y, 5, createRng(3));
-    const size = [0, 0, 0, 0, 0], ev = [0, 0, 0, 0, 0];
-    f.forEach((k, i) => { size[k]++; ev[k] += y[i]; });
+    const size = [0, 0, 0, 0, 0],
+      ev = [0, 0, 0, 0, 0];
+    f.forEach((k, i) => {
+      size[k]++;
+      ev[k] += y[i];
+    });
     expect(Math.max(...size) - Math.min(...size)).toBeLessThanOrEqual(1);
     expect(Math.max(...ev) - Math.min(...ev)).toBeLessThanOrEqual(1);
     expect(stratifiedFolds(y, 5, createRng(3))).toEqual(f);
@@ -98,7 +123,9 @@ describe('crossValidateLambda on thin data', () => {
   it('throws fold-one-class when leaving a fold out removes every event', async () => {
     const y = new Float64Array(problem.n);
     y[10] = 1;
-    await expect(crossValidateLambda({ ...problem, y }, 1, { folds: 5 })).rejects.toMatchObject({ code: 'fold-one-class' });
+    await expect(crossValidateLambda({ ...problem, y }, 1, { folds: 5 })).rejects.toMatchObject({
+      code: 'fold-one-class',
+    });
   });
 
   it('warns when the smallest CV error sits at the end of a short path', async () => {

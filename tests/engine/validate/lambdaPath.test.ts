@@ -24,10 +24,14 @@ function kktViolation(prob: PenalisedProblem, coef: ArrayLike<number>, alpha: nu
     for (let i = 0; i < n; i++) m += X[j * n + i] / n;
     let v = 0;
     for (let i = 0; i < n; i++) v += (X[j * n + i] - m) ** 2 / n;
-    const sd = Math.sqrt(v), b = coef[j + 1] * sd;
+    const sd = Math.sqrt(v),
+      b = coef[j + 1] * sd;
     let g = 0;
-    for (let i = 0; i < n; i++) g += ((X[j * n + i] - m) / sd) * res[i] / n;
-    const viol = b !== 0 ? Math.abs(g - lambda * (1 - alpha) * b - lambda * alpha * Math.sign(b)) : Math.max(0, Math.abs(g) - lambda * alpha);
+    for (let i = 0; i < n; i++) g += (((X[j * n + i] - m) / sd) * res[i]) / n;
+    const viol =
+      b !== 0
+        ? Math.abs(g - lambda * (1 - alpha) * b - lambda * alpha * Math.sign(b))
+        : Math.max(0, Math.abs(g) - lambda * alpha);
     worst = Math.max(worst, viol);
   }
   return worst;
@@ -80,7 +84,8 @@ describe('penalised fits: arguments and degenerate data', () => {
   });
 
   it('keeps a constant predictor at 0 with a warning, and leaves the others as without it', () => {
-    const n = problem.n, X = new Float64Array(n * 8);
+    const n = problem.n,
+      X = new Float64Array(n * 8);
     X.set(problem.X);
     X.fill(3, 7 * n);
     const withConst = lambdaPath({ X, n, p: 8, y: problem.y }, 1);
@@ -94,11 +99,18 @@ describe('penalised fits: arguments and degenerate data', () => {
   it('treats case weights as repeated rows (weight 2 = row twice)', () => {
     const w = new Float64Array(problem.n).map((_, i) => 1 + (i % 3 === 0 ? 1 : 0));
     const idx: number[] = [];
-    w.forEach((c, i) => { for (let k = 0; k < c; k++) idx.push(i); });
-    const m = idx.length, Xr = new Float64Array(m * problem.p);
+    w.forEach((c, i) => {
+      for (let k = 0; k < c; k++) idx.push(i);
+    });
+    const m = idx.length,
+      Xr = new Float64Array(m * problem.p);
     for (let j = 0; j < problem.p; j++) idx.forEach((i, r) => (Xr[j * m + r] = problem.X[j * problem.n + i]));
     const a = penalisedLogistic({ ...problem, weights: w }, 0.5, 0.02);
-    const b = penalisedLogistic({ X: Xr, n: m, p: problem.p, y: Float64Array.from(idx, (i) => problem.y[i]) }, 0.5, 0.02);
+    const b = penalisedLogistic(
+      { X: Xr, n: m, p: problem.p, y: Float64Array.from(idx, (i) => problem.y[i]) },
+      0.5,
+      0.02,
+    );
     expect(maxAbsDiff(a.coefficients, b.coefficients)).toBeLessThan(1e-9);
   });
 

@@ -22,7 +22,10 @@ export function simulate(n: number, seed: number, noise = 0): { data: Dataset; s
   return {
     data: {
       nRows: n,
-      columns: [{ kind: 'numeric', name: 'y', values: y }, ...xs.map((values, j) => ({ kind: 'numeric' as const, name: names[j], values }))],
+      columns: [
+        { kind: 'numeric', name: 'y', values: y },
+        ...xs.map((values, j) => ({ kind: 'numeric' as const, name: names[j], values })),
+      ],
     },
     spec: { outcome: 'y', terms: names.map((column) => ({ type: 'main' as const, column })) },
   };

@@ -29,22 +29,36 @@ async function runBench(url: string, predictors: number): Promise<PageResult> {
   const buf = await (await fetch(url)).arrayBuffer();
   // Probe: a deliberate 80 ms task must be reported, or the observer does not work in this browser.
   const end = performance.now() + 80;
-  while (performance.now() < end) { /* busy */ }
+  while (performance.now() < end) {
+    /* busy */
+  }
   await new Promise((r) => setTimeout(r, 300));
   const probeSeen = longTasks.some((d) => d >= 70);
   longTasks.length = 0;
   const t0 = performance.now();
   const summary = await api.importFile(Comlink.transfer(buf, [buf]), 'bench.csv', {}, 'bench-import');
   const t1 = performance.now();
-  const spec = { outcome: 'y', event: '1', terms: Array.from({ length: predictors }, (_, j) => ({ type: 'main' as const, column: `x${j + 1}` })) };
-  const view = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: false }, 'bench-fit');
+  const spec = {
+    outcome: 'y',
+    event: '1',
+    terms: Array.from({ length: predictors }, (_, j) => ({ type: 'main' as const, column: `x${j + 1}` })),
+  };
+  const view = await api.fitModel(
+    { spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: false },
+    'bench-fit',
+  );
   const t2 = performance.now();
   await new Promise((r) => setTimeout(r, 200));
   document.getElementById('status')!.textContent = 'done';
   return {
-    importSeconds: (t1 - t0) / 1e3, fitSeconds: (t2 - t1) / 1e3, longTasksMs: [...longTasks], probeSeen,
-    nRows: (summary as { nRows?: number }).nRows ?? view.rowsUsed, coefficients: view.fit.coefficients.map((c) => c.estimate),
-    threads: view.threads, isolated: crossOriginIsolated,
+    importSeconds: (t1 - t0) / 1e3,
+    fitSeconds: (t2 - t1) / 1e3,
+    longTasksMs: [...longTasks],
+    probeSeen,
+    nRows: (summary as { nRows?: number }).nRows ?? view.rowsUsed,
+    coefficients: view.fit.coefficients.map((c) => c.estimate),
+    threads: view.threads,
+    isolated: crossOriginIsolated,
   };
 }
 
