@@ -61,7 +61,10 @@ function cspMetaPlugin(): Plugin {
   };
 }
 
-/** Normal build: the `?worker&inline` import of src/bridge/engineWorker.ts becomes an unused stub, so the engine is bundled once. */
+/**
+ * Normal build: the `?worker&inline` import of src/bridge/engineWorker.ts becomes an unused stub, so the engine is
+ * bundled once.
+ */
 function inlineWorkerStub(): Plugin {
   const stub = '\0fulcra:inline-worker-stub';
   return {
@@ -70,7 +73,8 @@ function inlineWorkerStub(): Plugin {
     resolveId: (id) => (/fulcra\.worker\.ts\?worker&inline$/.test(id) ? stub : undefined),
     load: (id) =>
       id === stub
-        ? 'export default function InlineEngineWorker() { throw new Error("The inline engine worker exists only in the single-file build."); }'
+        ? 'export default function InlineEngineWorker() { ' +
+          'throw new Error("The inline engine worker exists only in the single-file build."); }'
         : undefined,
   };
 }
@@ -97,8 +101,9 @@ function jspdfOptionalStubs(): Plugin {
         : undefined,
     load: (id) =>
       id.startsWith(prefix)
-        ? `const unused = () => { throw new Error('${id.slice(prefix.length)} is not part of Fulcra (jsPDF HTML/SVG-image features are not used).'); };
-export default unused; export const Canvg = { fromString: unused };`
+        ? `const unused = () => { throw new Error('${id.slice(prefix.length)} is not part of Fulcra ` +
+          "(jsPDF HTML/SVG-image features are not used).'); };\n" +
+          'export default unused; export const Canvg = { fromString: unused };'
         : undefined,
   };
 }

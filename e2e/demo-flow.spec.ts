@@ -58,7 +58,15 @@ test('demo → fitted odds ratios equal the engine run in Node → threshold →
   await expectNoSidewaysScroll(page);
 
   await page.getByRole('button', { name: 'Data & roles' }).click();
-  await expect(page.getByRole('grid', { name: 'Data rows' })).toBeVisible();
+  const grid = page.getByRole('grid', { name: 'Data rows' });
+  await expect(grid).toBeVisible();
+  // Spreadsheet row numbers: the header is row 1, so the demo's first data row is row 2.
+  const first = grid.getByRole('row').nth(1);
+  const c0 = demo.dataset.columns[0];
+  const cell = c0.kind === 'numeric' ? String(c0.values[0]) : c0.levels[c0.codes[0]];
+  await expect(first.getByRole('rowheader')).toHaveText('2');
+  await expect(first.getByRole('gridcell').first()).toHaveText(cell);
+  await expect(grid.getByRole('row').nth(2).getByRole('rowheader')).toHaveText('3');
   await shot(page, '06-data');
   await expectNoSidewaysScroll(page);
   await shot(page, '06-data-full', true);

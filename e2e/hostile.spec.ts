@@ -7,11 +7,10 @@ const ATTACK_IMG = '<img src=x onerror="window.__pwned=1">';
 const ATTACK_SCRIPT = '<script>window.__pwned=2</script>';
 const csv = [
   `outcome,"${ATTACK_IMG.replace(/"/g, '""')}",note`,
-  ...Array.from(
-    { length: 40 },
-    (_, i) =>
-      `${i % 3 === 0 ? 'yes' : 'no'},${(i * 7) % 13},"${i === 0 ? ATTACK_SCRIPT : i === 1 ? ATTACK_IMG.replace(/"/g, '""') : `case ${i}`}"`,
-  ),
+  ...Array.from({ length: 40 }, (_, i) => {
+    const note = i === 0 ? ATTACK_SCRIPT : i === 1 ? ATTACK_IMG.replace(/"/g, '""') : `case ${i}`;
+    return `${i % 3 === 0 ? 'yes' : 'no'},${(i * 7) % 13},"${note}"`;
+  }),
 ].join('\n');
 
 test('HTML and script text in a header or a cell is shown as text and never runs', async ({ page }) => {

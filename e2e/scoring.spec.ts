@@ -66,7 +66,8 @@ test('the grid scrolls through 1,000,000 rows, fetching only the visible window'
   await grid.evaluate((el) => {
     el.scrollTop = el.scrollHeight;
   });
-  await expect(grid.getByRole('rowheader', { name: '1,000,000' })).toBeVisible({ timeout: 10_000 });
+  // The last of 1,000,000 data rows is spreadsheet row 1,000,001 (the header is row 1).
+  await expect(grid.getByRole('rowheader', { name: '1,000,001' })).toBeVisible({ timeout: 10_000 });
   expect(await grid.getByRole('row').count()).toBeLessThan(100);
   await grid.evaluate((el) => {
     el.scrollTop = el.scrollHeight / 2;

@@ -63,7 +63,7 @@ test('is one HTML file that loads nothing but itself', () => {
   expect(html).toMatch(/<meta http-equiv="Content-Security-Policy" content="default-src 'none'; script-src 'sha256-/);
 });
 
-test('opened from file:// it fits the demo model in a classic blob worker, with no request beyond file:/blob:/data: and no console error', async ({
+test('from file:// it fits the demo in a blob worker, asking only file:/blob:/data:, logging no error', async ({
   page,
 }) => {
   const seen = watch(page);
@@ -170,21 +170,17 @@ test('its blob: worker inherits the policy: it can neither connect nor eval', as
   expect(probe).toEqual({ blob: 'refused', evalRan: false, refused: ['connect-src', 'script-src'] });
 });
 
-test('opened from file:// it imports a large Excel workbook, whose unzipper starts a blob: worker inside the engine worker', async ({
-  page,
-}) => {
+test('from file:// it imports a large Excel workbook (its unzipper starts a nested blob: worker)', async ({ page }) => {
   const seen = watch(page);
   const sheet: XCell[][] = [['case_id', 'ward', 'age', 'infected']];
   for (let i = 0; i < 20_000; i++)
     sheet.push([i + 1, `W${1 + (i % 5)}`, 40 + ((i * 7919) % 50), i % 9 === 0 ? 'yes' : 'no']);
   await page.goto(pageUrl);
-  await page
-    .getByTestId('file-input')
-    .setInputFiles({
-      name: 'cases.xlsx',
-      mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
-      buffer: Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true)),
-    });
+  await page.getByTestId('file-input').setInputFiles({
+    name: 'cases.xlsx',
+    mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+    buffer: Buffer.from(makeXlsx([{ name: 'Cases', rows: sheet }], true)),
+  });
   await expect(page.getByText('20,000 rows × 4 columns')).toBeVisible({ timeout: 60_000 });
   expect(
     seen.requests.filter((u) => !ON_DISK.test(u)),

@@ -31,7 +31,8 @@ export const layersRule = {
     schema: [],
     messages: {
       upward:
-        '"{{from}}" may not import from "{{to}}": layers point one way, ui → state → bridge → worker → report → engine/io.',
+        '"{{from}}" may not import from "{{to}}": ' +
+        'layers point one way, ui → state → bridge → worker → report → engine/io.',
       cliImport: 'Nothing but the command line imports from src/cli.',
       deepEngine: 'Import the engine through its folder index ("{{index}}"), not "{{spec}}".',
     },

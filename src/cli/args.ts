@@ -1,4 +1,5 @@
-import { FulcraError } from '../engine/core';
+import { FulcraError, type Costs } from '../engine/core';
+import type { LambdaRule } from '../engine/workflow';
 
 /** Parsed command line of `npm run fit`. */
 export interface FitArgs {
@@ -12,9 +13,11 @@ export interface FitArgs {
   interactions: Array<[string, string]>;
   ridge?: number;
   firth: boolean;
-  penalty?: 'ridge' | 'lasso' | 'enet';
+  penalty?: 'ridge' | 'lasso' | 'elastic-net';
   alpha?: number;
-  costs?: { fn: number; fp: number };
+  lambdaRule?: LambdaRule;
+  level?: number;
+  costs?: Costs;
   threshold?: number;
   bootstrap?: number;
   seed: number;
@@ -42,9 +45,11 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --interaction a:b        pairwise interaction (repeatable)
   --firth                  Firth's penalised likelihood (for small samples and separation)
   --ridge LAMBDA           ridge at a fixed lambda (standardised scale)
-  --penalty ridge|lasso|enet   penalised fit with lambda chosen by cross-validation
-  --alpha A                elastic-net mixing (0..1, default 0.5 for enet)
-  --costs FN:FP            cost of a missed case and of a false alarm (e.g. 10:1)
+  --penalty ridge|lasso|elastic-net   penalised fit with lambda chosen by cross-validation
+  --alpha A                elastic-net mixing (0..1, default 0.5 for elastic-net)
+  --lambda-rule cv-1se|cv-min   lambda by the one-standard-error rule (default) or the lowest CV deviance
+  --level L                confidence level of every interval (default 0.95)
+  --costs MISSED:ALARM     cost of a missed case : cost of a false alarm, e.g. 10:1
   --threshold P            probability cut-off to report the confusion matrix at
   --bootstrap B            bootstrap optimism correction with B resamples
   --cv K                   k-fold cross-validation (for --penalty, and repeated-CV validation)
@@ -132,8 +137,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
         break;
       case '--penalty': {
         const v = value();
-        if (v !== 'ridge' && v !== 'lasso' && v !== 'enet') {
-          throw new FulcraError('bad-argument', `--penalty must be ridge, lasso or enet, got "${v}".`);
+        if (v !== 'ridge' && v !== 'lasso' && v !== 'elastic-net') {
+          throw new FulcraError(
+            'bad-argument',
+            `--penalty must be ridge, lasso or elastic-net, got "${v}".` +
+              (v === 'enet' || v === 'elasticnet' ? ' Elastic net is written elastic-net.' : ''),
+          );
         }
         a.penalty = v;
         break;
@@ -141,11 +150,27 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--alpha':
         a.alpha = numberArg(flag, value());
         break;
+      case '--lambda-rule': {
+        const v = value();
+        if (v !== 'cv-1se' && v !== 'cv-min')
+          throw new FulcraError('bad-argument', `--lambda-rule must be cv-1se or cv-min, got "${v}".`);
+        a.lambdaRule = v;
+        break;
+      }
+      case '--level': {
+        const v = numberArg(flag, value());
+        if (!(v > 0 && v < 1)) throw new FulcraError('bad-argument', `--level must be between 0 and 1, got ${v}.`);
+        a.level = v;
+        break;
+      }
       case '--costs': {
-        const [fn, fp] = splitOnce(value(), ':', flag);
-        a.costs = { fn: numberArg('--costs FN', fn), fp: numberArg('--costs FP', fp) };
-        if (!(a.costs.fn > 0 && a.costs.fp > 0)) {
-          throw new FulcraError('bad-argument', '--costs FN:FP needs two positive numbers, e.g. 10:1.');
+        const [missed, alarm] = splitOnce(value(), ':', flag);
+        a.costs = {
+          missedCase: numberArg('--costs MISSED', missed),
+          falseAlarm: numberArg('--costs ALARM', alarm),
+        };
+        if (!(a.costs.missedCase > 0 && a.costs.falseAlarm > 0)) {
+          throw new FulcraError('bad-argument', '--costs MISSED:ALARM needs two positive numbers, e.g. 10:1.');
         }
         break;
       }
@@ -204,7 +229,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if (a.threshold !== undefined && !(a.threshold > 0 && a.threshold < 1)) {
     throw new FulcraError('bad-argument', `--threshold must be between 0 and 1, got ${a.threshold}.`);
   }
-  if (a.firth && (a.ridge !== undefined || a.penalty)) {
+  if ([a.firth, a.ridge !== undefined, a.penalty !== undefined].filter(Boolean).length > 1) {
     throw new FulcraError('bad-argument', 'Choose one of --firth, --ridge and --penalty.');
   }
   return a;

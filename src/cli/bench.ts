@@ -35,7 +35,8 @@ async function main(): Promise<void> {
     seed: o.seed,
     referenceThreads: referenceThreads(),
     timing:
-      'Wall-clock seconds of the fit only: every program loads the data (float64 files with the same values as the CSV) before its timer starts. CPU seconds (user + system of the process, all threads) are shown beside.',
+      'Wall-clock seconds of the fit only: every program loads the data (float64 files with the same values as ' +
+      'the CSV) before its timer starts. CPU seconds (user + system of the process, all threads) are shown beside.',
     sizes: [],
     extras: [],
     browser: null,

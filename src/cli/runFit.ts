@@ -1,47 +1,32 @@
 import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
-import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../engine/validation';
 import { FulcraError, getColumn } from '../engine/core';
-import { linearPredictorFromRecipe } from '../engine/design';
-import { evaluate, type EvaluationRecord } from '../engine/evaluation';
-import { externalValidation, type ExternalValidation } from '../engine/validation';
-import { fit } from '../engine/fitting';
-import type { FitOptions, FitResult, ModelSpec, TermSpec } from '../engine/core';
-import { fitPipeline, type Pipeline, type PipelineFit } from '../engine/validation';
-import { riley2020SampleSize, coxSnellR2, type SampleSizeResult } from '../engine/evaluation';
-import type { EngineWarning } from '../engine/core';
+import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
+import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
+import { analyse, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
 import { importFile } from '../io/importFile';
 import { proposeOutcomeEvent } from '../io/outcome';
 import type { ColumnType, ImportOptions, ImportResult } from '../io/types';
 import type { FitArgs } from './args';
-import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
 import { defaultThreads, startNodeRowPool } from './nodeRowPool';
 
-/** The record `npm run fit --json` prints: the same engine records the page shows. */
-export interface FitRun {
-  fulcra: { version: string; command: string[] };
-  data: {
-    file: string;
-    rows: number;
-    format: ImportResult['format'];
-    columns: { name: string; type: ColumnType; reason: string; missing: number }[];
-    warnings: EngineWarning[];
-  };
-  spec: ModelSpec;
-  /** Maximum likelihood, Firth or fixed-λ ridge: the full inference record. */
-  fit: FitResult | null;
-  /** λ chosen by cross-validation (lasso, elastic net, ridge): coefficients only. */
-  penalised: PipelineFit | null;
-  evaluation: Omit<EvaluationRecord, 'prepared'>;
-  sampleSize: SampleSizeResult | null;
-  validation: InternalValidation | null;
-  external:
-    | (Omit<ExternalValidation, 'evaluation' | 'y' | 'eta' | 'risk' | 'rowsUsed'> & {
-        file: string;
-        evaluation: Omit<EvaluationRecord, 'prepared'>;
-      })
-    | null;
+/** How a file was read: detected format, each column's type with the reason, missing counts, import warnings. */
+export interface DataBlock {
+  file: string;
+  rows: number;
+  format: ImportResult['format'];
+  columns: { name: string; type: ColumnType; reason: string; missing: number }[];
+  warnings: EngineWarning[];
 }
+
+/**
+ * The record `npm run fit --json` prints: Fulcra's version and the arguments, how the data (and the --test
+ * file) were read, then the engine's AnalysisRecord, field for field the one the page holds.
+ */
+export type FitRun = {
+  fulcra: { version: string; command: string[] };
+  data: DataBlock & { test: DataBlock | null };
+} & AnalysisRecord;
 
 export async function loadTable(file: string, args: FitArgs): Promise<ImportResult> {
   let bytes: Uint8Array;
@@ -69,7 +54,8 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
     if (proposal.status !== 'proposed') {
       throw new FulcraError(
         'choose-event',
-        `${proposal.reason} Say which value is the event with --event VALUE${proposal.levels.length ? ` (one of: ${proposal.levels.join(', ')})` : ''}.`,
+        `${proposal.reason} Say which value is the event with --event VALUE` +
+          (proposal.levels.length ? ` (one of: ${proposal.levels.join(', ')}).` : '.'),
       );
     }
     event = proposal.event;
@@ -103,11 +89,6 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
   return { outcome: args.outcome, event, terms };
 }
 
-const stripPrepared = (e: EvaluationRecord): Omit<EvaluationRecord, 'prepared'> => {
-  const { prepared: _prepared, ...rest } = e;
-  return rest;
-};
-
 /** Runs the whole headless procedure and returns the record (printing is the caller's job). */
 export async function runFit(args: FitArgs, argv: string[], version: string): Promise<FitRun> {
   const table = await loadTable(args.file, args);
@@ -125,89 +106,48 @@ export async function runFit(args: FitArgs, argv: string[], version: string): Pr
   }
 }
 
+/** The analysis request of the arguments; the engine fills every default (the same ones the page gets). */
+export function requestFromArgs(args: FitArgs, spec: ModelSpec): AnalysisRequestInput {
+  const method = args.firth ? 'firth' : args.ridge !== undefined ? 'ridge' : (args.penalty ?? 'ml');
+  const lambda = args.ridge ?? args.lambdaRule;
+  // --cv K: the folds of λ selection for --penalty, otherwise repeated K-fold CV (10 repeats) as validation.
+  const validation =
+    args.bootstrap !== undefined
+      ? { method: 'bootstrap' as const, replicates: args.bootstrap, seed: args.seed }
+      : args.cv !== undefined && !args.penalty
+        ? { method: 'repeated-cv' as const, folds: args.cv, repeats: 10, seed: args.seed }
+        : undefined;
+  return {
+    spec,
+    method,
+    level: args.level,
+    alpha: args.penalty === 'elastic-net' ? args.alpha : undefined,
+    lambda,
+    folds: args.penalty ? args.cv : undefined,
+    costs: args.costs,
+    threshold: args.threshold,
+    validation,
+    seed: args.seed,
+  };
+}
+
+function dataBlock(file: string, table: ImportResult): DataBlock {
+  return {
+    file: basename(file),
+    rows: table.dataset.nRows,
+    format: table.format,
+    columns: table.columns.map((c) => ({ name: c.name, type: c.type, reason: c.reason, missing: c.profile.missing })),
+    warnings: table.warnings,
+  };
+}
+
 async function runFitOn(table: ImportResult, args: FitArgs, argv: string[], version: string): Promise<FitRun> {
   const spec = buildSpec(args, table);
-  const data = table.dataset;
-  const fitOptions: Partial<FitOptions> = args.firth
-    ? { method: 'firth' }
-    : args.ridge !== undefined
-      ? { method: 'ridge', lambda: args.ridge }
-      : { method: 'ml' };
-  const pipeline: Pipeline = {
-    data,
-    spec,
-    fitOptions,
-    seed: args.seed,
-    penalty: args.penalty
-      ? {
-          alpha: args.penalty === 'lasso' ? 1 : args.penalty === 'ridge' ? 0 : (args.alpha ?? 0.5),
-          lambda: 'cv-1se',
-          folds: args.cv ?? 10,
-          criterion: 'deviance',
-          nLambda: 100,
-        }
-      : null,
-  };
-  let result: FitResult | null = null;
-  let penalised: PipelineFit | null = null;
-  if (pipeline.penalty) penalised = await fitPipeline(pipeline);
-  else result = fit(data, spec, fitOptions);
-  const model = (result ?? penalised)!;
-
-  const enc = linearPredictorFromRecipe(
-    model.recipe,
-    model.coefficients.map((c) => c.estimate),
-    data,
-  );
-  const eta = enc.eta;
-  const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
-  const costs = args.costs ? { falseNegative: args.costs.fn, falsePositive: args.costs.fp } : undefined;
-  const evaluation = evaluate(enc.y!, risk, { eta, costs, threshold: args.threshold });
-
-  let sampleSize: SampleSizeResult | null = null;
-  const parameters = model.recipe.columnNames.length - 1;
-  if (result && parameters >= 1 && result.events > 0 && result.nonEvents > 0) {
-    const r2 =
-      result.method === 'ml' && result.converged
-        ? coxSnellR2(result.deviance, result.nullDeviance, result.nUsed)
-        : undefined;
-    sampleSize = riley2020SampleSize({
-      parameters,
-      outcomeProportion: result.events / result.nUsed,
-      r2cs: r2 !== undefined && r2 > 0 ? r2 : undefined,
-      actual: { n: result.nUsed, events: Math.min(result.events, result.nonEvents) },
-    });
-  }
-
-  let validation: InternalValidation | null = null;
-  if (args.bootstrap !== undefined)
-    validation = await bootstrapValidation(pipeline, { B: args.bootstrap, seed: args.seed });
-  else if (args.cv !== undefined && !args.penalty)
-    validation = await repeatedCrossValidation(pipeline, { folds: args.cv, repeats: 10, seed: args.seed });
-
-  let external: FitRun['external'] = null;
-  if (args.test) {
-    const testTable = await loadTable(args.test, args);
-    const ev = externalValidation(model, testTable.dataset, { costs, threshold: args.threshold });
-    const { evaluation: e, y: _y, eta: _e, risk: _r, rowsUsed: _u, ...rest } = ev;
-    external = { ...rest, file: basename(args.test), evaluation: stripPrepared(e) };
-  }
-
+  const test = args.test ? await loadTable(args.test, args) : null;
+  const record = await analyse(table.dataset, requestFromArgs(args, spec), {}, test?.dataset);
   return {
     fulcra: { version, command: argv },
-    data: {
-      file: basename(args.file),
-      rows: data.nRows,
-      format: table.format,
-      columns: table.columns.map((c) => ({ name: c.name, type: c.type, reason: c.reason, missing: c.profile.missing })),
-      warnings: table.warnings,
-    },
-    spec,
-    fit: result,
-    penalised,
-    evaluation: stripPrepared(evaluation),
-    sampleSize,
-    validation,
-    external,
+    data: { ...dataBlock(args.file, table), test: test ? dataBlock(args.test!, test) : null },
+    ...record,
   };
 }

@@ -1,99 +1,98 @@
 import type { InternalValidation } from '../engine/validation';
+import type { FitMethod } from '../engine/core';
 import type { FitRun } from './runFit';
 import { fmt, fmtP, pct, table } from './format';
 
-const METHOD: Record<string, string> = {
+const METHOD: Record<FitMethod, string> = {
   ml: 'maximum likelihood',
   firth: "Firth's penalised likelihood",
-  ridge: 'ridge (fixed λ)',
+  ridge: 'ridge',
+  lasso: 'lasso',
+  'elastic-net': 'elastic net',
 };
+
+/** The method line: name, λ and how it was set, convergence. */
+function methodLine(r: FitRun): string {
+  const f = r.fit,
+    lam = r.lambda;
+  let name = METHOD[f.method];
+  if (f.method === 'elastic-net' && lam) name += ` (α = ${lam.alpha})`;
+  if (lam) {
+    const how =
+      lam.rule === 'fixed'
+        ? 'fixed'
+        : `chosen by ${lam.folds}-fold cross-validation (${
+            lam.rule === 'cv-1se' ? 'one-standard-error rule' : 'lowest cross-validated deviance'
+          })`;
+    name += `, λ = ${fmt(lam.chosen, 6)} ${how}`;
+  }
+  const conv = f.converged ? 'converged' : 'DID NOT CONVERGE';
+  const steps = f.method === 'lasso' || f.method === 'elastic-net' ? '' : ` after ${f.iterations} iterations`;
+  return `Method: ${name}; ${conv}${steps}`;
+}
 
 /** The readable report of `npm run fit` (the JSON record holds everything; this is what a person reads). */
 export function summarise(r: FitRun): string {
   const out: string[] = [];
   const f = r.fit;
-  const m = f ?? r.penalised!;
-  out.push(`Fulcra ${r.fulcra.version} — logistic regression of "${r.spec.outcome}" (event: ${r.spec.event})`);
+  const spec = r.request.spec;
+  out.push(`Fulcra ${r.fulcra.version} — logistic regression of "${spec.outcome}" (event: ${f.recipe.event})`);
   out.push(`Data: ${r.data.file}, ${r.data.rows} rows`);
-  if (f) {
+  out.push(methodLine(r));
+  out.push(
+    `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
+      f.nDropped
+        ? ': ' +
+          Object.entries(f.droppedByColumn)
+            .map(([c, k]) => `${c} ${k}`)
+            .join(', ')
+        : ''
+    })`,
+  );
+  out.push(
+    `Events: ${f.events}, non-events: ${f.nonEvents}; ${f.parameters} parameters; ` +
+      `events per parameter ${fmt(f.eventsPerParameter, 1)} (the smaller class)`,
+  );
+  out.push('');
+  if (f.method === 'lasso' || f.method === 'elastic-net') {
     out.push(
-      `Method: ${METHOD[f.method]}${f.method === 'ridge' ? `, λ = ${fmt(f.lambda, 6)}` : ''}; ${f.converged ? 'converged' : 'DID NOT CONVERGE'} after ${f.iterations} iterations`,
-    );
-    out.push(
-      `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
-        f.nDropped
-          ? ': ' +
-            Object.entries(f.droppedByColumn)
-              .map(([c, k]) => `${c} ${k}`)
-              .join(', ')
-          : ''
-      })`,
-    );
-    out.push(
-      `Events: ${f.events}, non-events: ${f.nonEvents}; ${f.parameters} parameters; events per parameter ${fmt(f.eventsPerParameter, 1)}`,
-    );
-    out.push('');
-    const level = Math.round(f.level * 100);
-    out.push(
-      table(
-        ['Coefficient', 'log-odds', 'SE', 'odds ratio', `${level}% CI (profile)`, `${level}% CI (Wald)`, 'p (Wald)'],
-        f.coefficients.map((c) => [
-          c.name + (c.aliased ? ' (aliased)' : ''),
-          fmt(c.estimate),
-          fmt(c.se),
-          c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3),
-          c.profileLower === null
-            ? '—'
-            : c.name === '(Intercept)'
-              ? `${fmt(c.profileLower, 3)} to ${fmt(c.profileUpper, 3)}`
-              : `${fmt(Math.exp(c.profileLower), 3)} to ${fmt(Math.exp(c.profileUpper!), 3)}`,
-          c.waldLower === null
-            ? '—'
-            : c.name === '(Intercept)'
-              ? `${fmt(c.waldLower, 3)} to ${fmt(c.waldUpper, 3)}`
-              : `${fmt(Math.exp(c.waldLower), 3)} to ${fmt(Math.exp(c.waldUpper!), 3)}`,
-          fmtP(c.p),
-        ]),
-      ),
-    );
-    out.push('(Intercept row: CIs on the log-odds scale; other rows: odds-ratio scale.)');
-    out.push('');
-    if (f.terms.some((t) => t.lrChi2 !== null)) {
-      out.push(
-        table(
-          ['Term', 'df', 'LR χ²', 'p'],
-          f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)]),
-        ),
-      );
-      out.push('');
-    }
-    out.push(
-      f.modelLrChi2 === null
-        ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); no LR test, AIC or BIC for a penalised fit`
-        : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`,
-    );
-  } else {
-    const p = r.penalised!;
-    const kind = p.alpha === 1 ? 'lasso' : p.alpha === 0 ? 'ridge' : `elastic net (α = ${p.alpha})`;
-    out.push(`Method: ${kind}, λ = ${fmt(p.lambda, 6)} chosen by cross-validation (one-standard-error rule)`);
-    out.push(
-      'Penalised estimates are shrunk on purpose; they have no valid classical standard errors, so no CIs or p-values are shown.',
-    );
-    out.push('');
-    out.push(
+      'Penalised estimates are shrunk on purpose; they have no valid classical standard errors, ' +
+        'so no CIs or p-values are shown.',
+      '',
       table(
         ['Coefficient', 'log-odds', 'odds ratio'],
-        p.coefficients.map((c) => [c.name, fmt(c.estimate), c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3)]),
+        f.coefficients.map((c) => [c.name, fmt(c.estimate), c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3)]),
       ),
     );
+  } else {
+    out.push(coefficientTable(f));
+    out.push('(Intercept row: CIs on the log-odds scale; other rows: odds-ratio scale.)');
   }
+  out.push('');
+  if (f.terms.some((t) => t.lrChi2 !== null)) {
+    out.push(
+      table(
+        ['Term', 'df', 'LR χ²', 'p'],
+        f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)]),
+      ),
+    );
+    out.push('');
+  }
+  out.push(
+    f.modelLrChi2 === null
+      ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); ` +
+          'no LR test, AIC or BIC for a penalised fit'
+      : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} ` +
+          `on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`,
+  );
   const e = r.evaluation;
   out.push('');
   out.push('Performance on the development data (apparent)');
   out.push(`  AUC ${fmt(e.auc.auc, 3)} (95% CI ${fmt(e.auc.lower, 3)} to ${fmt(e.auc.upper, 3)}, DeLong)`);
   out.push(`  Brier ${fmt(e.brier.brier, 4)}; scaled Brier ${fmt(e.brier.scaledBrier, 3)}`);
   out.push(
-    `  Calibration slope ${fmt(e.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(e.calibration.interceptInTheLarge?.estimate, 3)}`,
+    `  Calibration slope ${fmt(e.calibration.slope?.estimate, 3)}; ` +
+      `calibration-in-the-large ${fmt(e.calibration.interceptInTheLarge?.estimate, 3)}`,
   );
   if (e.atThreshold) {
     const t = e.atThreshold;
@@ -101,39 +100,66 @@ export function summarise(r: FitRun): string {
     out.push(`At a cut-off of ${fmt(t.threshold, 3)} (${t.flagRule})`);
     out.push(`  flagged ${t.tp + t.fp} (true ${t.tp}, false ${t.fp}); not flagged ${t.tn + t.fn} (missed ${t.fn})`);
     out.push(
-      `  sensitivity ${pct(t.sensitivity.estimate)}, specificity ${pct(t.specificity.estimate)}, PPV ${pct(t.ppv.estimate)}, NPV ${pct(t.npv.estimate)}`,
+      `  sensitivity ${pct(t.sensitivity.estimate)}, specificity ${pct(t.specificity.estimate)}, ` +
+        `PPV ${pct(t.ppv.estimate)}, NPV ${pct(t.npv.estimate)}`,
     );
     if (t.expectedCostPer100 !== null) out.push(`  expected cost per 100 cases ${fmt(t.expectedCostPer100, 2)}`);
   }
   if (e.costs) {
     out.push(
-      `  Cost-based cut-off for calibrated risks ${fmt(e.costs.thresholds.decisionTheory.threshold, 4)}; lowest cost on these data at ${fmt(e.costs.thresholds.empirical.threshold, 4)}`,
+      `  Cost-based cut-off for calibrated risks ${fmt(e.costs.thresholds.decisionTheory.threshold, 4)}; ` +
+        `lowest cost on these data at ${fmt(e.costs.thresholds.empirical.threshold, 4)}`,
     );
   }
   if (r.validation) out.push('', validationText(r.validation));
   if (r.external) {
     const x = r.external.evaluation;
-    out.push('', `External validation on ${r.external.file} (${r.external.nUsed} rows used)`);
+    out.push('', `External validation on ${r.data.test?.file ?? 'the test file'} (${r.external.nUsed} rows used)`);
     out.push(
-      `  AUC ${fmt(x.auc.auc, 3)} (95% CI ${fmt(x.auc.lower, 3)} to ${fmt(x.auc.upper, 3)}); calibration slope ${fmt(x.calibration.slope?.estimate, 3)}; calibration-in-the-large ${fmt(x.calibration.interceptInTheLarge?.estimate, 3)}; Brier ${fmt(x.brier.brier, 4)}`,
+      `  AUC ${fmt(x.auc.auc, 3)} (95% CI ${fmt(x.auc.lower, 3)} to ${fmt(x.auc.upper, 3)}); ` +
+        `calibration slope ${fmt(x.calibration.slope?.estimate, 3)}; ` +
+        `calibration-in-the-large ${fmt(x.calibration.interceptInTheLarge?.estimate, 3)}; ` +
+        `Brier ${fmt(x.brier.brier, 4)}`,
     );
   }
   if (r.sampleSize) out.push('', 'Sample size (Riley et al. 2020)', ...r.sampleSize.summary.map((s) => `  ${s}`));
-  const warnings = [
-    ...r.data.warnings,
-    ...(f?.warnings ?? m.warnings ?? []),
-    ...e.warnings,
-    ...(r.validation?.warnings ?? []),
-  ];
+  else if (r.sampleSizeNote) out.push('', r.sampleSizeNote);
+  const warnings = [...r.data.warnings, ...r.warnings, ...(r.validation?.warnings ?? [])];
   if (warnings.length) {
     out.push('', 'Warnings');
     for (const w of warnings) out.push(`  [${w.code}] ${w.message} → ${w.suggestion}`);
   }
   out.push(
     '',
-    'Not a medical device. Apparent and internally validated performance are not external validation; follow local governance and licensed clinical judgement.',
+    'Not a medical device. Apparent and internally validated performance are not external validation; ' +
+      'follow local governance and licensed clinical judgement.',
   );
   return out.join('\n');
+}
+
+/** The inference table of an ML, Firth or ridge fit. */
+function coefficientTable(f: FitRun['fit']): string {
+  const level = Math.round(f.level * 100);
+  return table(
+    ['Coefficient', 'log-odds', 'SE', 'odds ratio', `${level}% CI (profile)`, `${level}% CI (Wald)`, 'p (Wald)'],
+    f.coefficients.map((c) => [
+      c.name + (c.aliased ? ' (aliased)' : ''),
+      fmt(c.estimate),
+      fmt(c.se),
+      c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3),
+      c.profileLower === null
+        ? '—'
+        : c.name === '(Intercept)'
+          ? `${fmt(c.profileLower, 3)} to ${fmt(c.profileUpper, 3)}`
+          : `${fmt(Math.exp(c.profileLower), 3)} to ${fmt(Math.exp(c.profileUpper!), 3)}`,
+      c.waldLower === null
+        ? '—'
+        : c.name === '(Intercept)'
+          ? `${fmt(c.waldLower, 3)} to ${fmt(c.waldUpper, 3)}`
+          : `${fmt(Math.exp(c.waldLower), 3)} to ${fmt(Math.exp(c.waldUpper!), 3)}`,
+      fmtP(c.p),
+    ]),
+  );
 }
 
 const METRIC: Record<string, string> = {

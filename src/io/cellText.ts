@@ -93,7 +93,7 @@ export function parseNumberText(s: string, decimalComma: boolean): number {
   return Number(s.replace(/[. \u00a0\u202f]/g, '').replace(',', '.'));
 }
 
-const UNIT_RE = /^([$€£¥])?\s*([+-]?\d[\d.,\u00a0 ]*(?:[eE][+-]?\d+)?)\s*([A-Za-zµμ%‰°][A-Za-z0-9µμ%‰°/²³.·\-]*)?$/;
+const UNIT_RE = /^([$€£¥])?\s*([+-]?\d[\d.,\u00a0 ]*(?:[eE][+-]?\d+)?)\s*([A-Za-zµμ%‰°][A-Za-z0-9µμ%‰°/²³.·-]*)?$/;
 
 /** Splits "12 mg", "37.5°C", "45%", "$12" into number and unit; null when the cell is not of that form. */
 export function splitUnit(s: string, decimalComma: boolean): { value: number; unit: string } | null {

@@ -154,14 +154,17 @@ export function buildColumn(
     if (b.textCount > 0) {
       add(
         'text-in-numeric',
-        `${q}: ${plural(b.textCount, 'cell is', 'cells are')} text, not numbers — ${rowListWithText(b.textCells)}; read as missing.`,
-        'Correct those cells in the file, add the text to the missing-value list, or choose the type "categorical" if the text matters.',
+        `${q}: ${plural(b.textCount, 'cell is', 'cells are')} text, not numbers — ` +
+          `${rowListWithText(b.textCells)}; read as missing.`,
+        'Correct those cells in the file, add the text to the missing-value list, ' +
+          'or choose the type "categorical" if the text matters.',
       );
     }
     if (b.leadingZeroCells.count > 0) {
       add(
         'leading-zeros-lost',
-        `${q}: ${plural(b.leadingZeroCells.count, 'number has', 'numbers have')} leading zeros (${rowListWithText(b.leadingZeroCells)}); as numbers the zeros are dropped.`,
+        `${q}: ${plural(b.leadingZeroCells.count, 'number has', 'numbers have')} leading zeros ` +
+          `(${rowListWithText(b.leadingZeroCells)}); as numbers the zeros are dropped.`,
         'If these are codes rather than amounts, choose the type "identifier" or "categorical".',
       );
     }
@@ -172,16 +175,19 @@ export function buildColumn(
     if (d.unparsed > 0) {
       add(
         'unreadable-dates',
-        `${q}: ${plural(d.unparsed, 'cell is not a date', 'cells are not dates')} (rows ${d.rows.map((i) => sourceRows[i]).join(', ')}${d.unparsed > 5 ? ' …' : ''}); read as missing.`,
+        `${q}: ${plural(d.unparsed, 'cell is not a date', 'cells are not dates')} ` +
+          `(rows ${d.rows.map((i) => sourceRows[i]).join(', ')}${d.unparsed > 5 ? ' …' : ''}); read as missing.`,
         'Write the dates as YYYY-MM-DD or day/month/year in the file, or choose another type.',
       );
     }
     if (!p.inference.dateOrderSettled) {
+      const order = p.inference.dateOrder === 'dmy' ? 'day/month/year' : 'month/day/year';
       add(
         p.inference.dateOrderConflict ? 'conflicting-date-order' : 'ambiguous-date-order',
         p.inference.dateOrderConflict
-          ? `${q}: some dates only make sense as day/month and others only as month/day; read as ${p.inference.dateOrder === 'dmy' ? 'day/month/year' : 'month/day/year'}, so some are missing.`
-          : `${q}: dates like 03/04/2021 could be day/month or month/day; read as ${p.inference.dateOrder === 'dmy' ? 'day/month/year' : 'month/day/year'}.`,
+          ? `${q}: some dates only make sense as day/month and others only as month/day; ` +
+              `read as ${order}, so some are missing.`
+          : `${q}: dates like 03/04/2021 could be day/month or month/day; read as ${order}.`,
         'Choose the date order in the import settings if this is wrong.',
       );
     }
@@ -222,14 +228,16 @@ export function buildColumn(
   if (b.errorCells.count > 0) {
     add(
       'spreadsheet-errors',
-      `${q}: ${plural(b.errorCells.count, 'cell holds a spreadsheet error', 'cells hold spreadsheet errors')} — ${rowListWithText(b.errorCells)}; read as missing.`,
+      `${q}: ${plural(b.errorCells.count, 'cell holds a spreadsheet error', 'cells hold spreadsheet errors')} — ` +
+        `${rowListWithText(b.errorCells)}; read as missing.`,
       'Fix the formulas in the spreadsheet and save it again.',
     );
   }
   if (b.thousandsCells.count > 0) {
     add(
       'thousands-separator',
-      `${q}: ${plural(b.thousandsCells.count, 'number was', 'numbers were')} written with thousands separators — ${rowListWithText(b.thousandsCells)}; read without them.`,
+      `${q}: ${plural(b.thousandsCells.count, 'number was', 'numbers were')} written with thousands separators — ` +
+        `${rowListWithText(b.thousandsCells)}; read without them.`,
       'If those marks were decimal marks, choose the decimal mark in the import settings.',
     );
   }
@@ -243,7 +251,8 @@ export function buildColumn(
     if (b.unitsStripped.size > 1) {
       add(
         'mixed-units',
-        `${q} has cells in different units (${[...b.unitsStripped.keys()].join(', ')}); they are not comparable as they stand.`,
+        `${q} has cells in different units (${[...b.unitsStripped.keys()].join(', ')}); ` +
+          'they are not comparable as they stand.',
         'Convert the cells to one unit in the file before modelling.',
       );
     }
@@ -254,7 +263,8 @@ export function buildColumn(
   if (b.maxLength > EXCEL_CELL_LIMIT) {
     add(
       'huge-cell',
-      `${q}: the cell at row ${b.maxLengthRow} holds ${plural(b.maxLength, 'character')}, more than a spreadsheet cell can.`,
+      `${q}: the cell at row ${b.maxLengthRow} holds ${plural(b.maxLength, 'character')}, ` +
+        'more than a spreadsheet cell can.',
       'This often means a quote was never closed; check the file around that row.',
     );
   }
@@ -292,7 +302,8 @@ function unitIssue(b: ColumnBuilder, q: string, add: (c: string, m: string, s: s
   if (withUnit > 0 && withUnit >= UNIT_SHARE * b.textCount) {
     add(
       'units-in-cells',
-      `${q}: ${plural(withUnit, 'cell has', 'cells have')} a number with a unit (e.g. "${example}"), so the column is read as text.`,
+      `${q}: ${plural(withUnit, 'cell has', 'cells have')} a number with a unit (e.g. "${example}"), ` +
+        'so the column is read as text.',
       `To use the numbers, choose "strip units" for this column (units seen: ${[...units].slice(0, 5).join(', ')}).`,
     );
   }
@@ -332,7 +343,8 @@ export function rowWarnings(tb: TableBuilder): EngineWarning[] {
     w.push(
       warning(
         'short-rows',
-        `${plural(tb.shortRows.count, 'row has', 'rows have')} fewer cells than the header (${rowList(tb.shortRows)}: ${tb.shortRows.examples[0]} cells); the missing cells are read as missing.`,
+        `${plural(tb.shortRows.count, 'row has', 'rows have')} fewer cells than the header ` +
+          `(${rowList(tb.shortRows)}: ${tb.shortRows.examples[0]} cells); the missing cells are read as missing.`,
         'Check those rows in the file: a cell may have been left out, shifting the others.',
       ),
     );
@@ -341,7 +353,8 @@ export function rowWarnings(tb: TableBuilder): EngineWarning[] {
     w.push(
       warning(
         'long-rows',
-        `${plural(tb.longRows.count, 'row has', 'rows have')} more cells than the header (${rowList(tb.longRows)}: ${tb.longRows.examples[0]} cells); extra columns named "column_N" were added.`,
+        `${plural(tb.longRows.count, 'row has', 'rows have')} more cells than the header ` +
+          `(${rowList(tb.longRows)}: ${tb.longRows.examples[0]} cells); extra columns named "column_N" were added.`,
         'Check those rows in the file: a separator inside a value may need quotes around the value.',
       ),
     );

@@ -32,7 +32,8 @@ export async function finishImport(
   if (tb.cols.length === 0) {
     throw new FulcraError(
       'empty-file',
-      `"${fileName}" holds no cells${tb.records > 0 ? ` (${tb.records} blank row${tb.records === 1 ? '' : 's'})` : ''}.`,
+      `"${fileName}" holds no cells` +
+        `${tb.records > 0 ? ` (${tb.records} blank row${tb.records === 1 ? '' : 's'})` : ''}.`,
       'Check that the right file was chosen, and export it again from the spreadsheet if needed.',
     );
   }
@@ -79,5 +80,7 @@ export async function finishImport(
     infos.push(info);
     all.push(...info.issues);
   }
-  return { dataset: { nRows: tb.nRows, columns }, columns: infos, warnings: all, format, sourceRows };
+  // The spreadsheet row of data row 0 (header = row 1), so that engine messages name rows as the importer does.
+  const dataset = { nRows: tb.nRows, columns, firstRow: sourceRows[0] };
+  return { dataset, columns: infos, warnings: all, format, sourceRows };
 }

@@ -50,7 +50,8 @@ function settle(
     warnings.push(
       warning(
         'separator-line',
-        `The first line "${sep[0].trim()}" names the separator; it was used and skipped, as spreadsheets do (row numbers count from the line after it).`,
+        `The first line "${sep[0].trim()}" names the separator; it was used and skipped, as spreadsheets do ` +
+          '(row numbers count from the line after it).',
         'Nothing to do.',
       ),
     );
@@ -119,7 +120,8 @@ function tokenizerWarnings(tok: CsvTokenizer | ByteTokenizer, names: string[]): 
     w.push(
       warning(
         'unclosed-quote',
-        `At ${where(unclosed)} a quote (") opens but never closes, so the rest of the file was read into that one cell.`,
+        `At ${where(unclosed)} a quote (") opens but never closes, ` +
+          'so the rest of the file was read into that one cell.',
         'Close the quote or remove it in the file, then open it again.',
       ),
     );
@@ -129,7 +131,8 @@ function tokenizerWarnings(tok: CsvTokenizer | ByteTokenizer, names: string[]): 
     w.push(
       warning(
         'stray-quote',
-        `${stray.length === 1 ? 'A cell has' : `${stray.length} cells have`} text after a closing quote (first at ${where(stray[0])}); the text was kept.`,
+        `${stray.length === 1 ? 'A cell has' : `${stray.length} cells have`} text after a closing quote ` +
+          `(first at ${where(stray[0])}); the text was kept.`,
         'Check those cells: quotes inside a quoted value must be doubled ("").',
       ),
     );

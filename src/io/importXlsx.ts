@@ -14,11 +14,13 @@ const ROWS_PER_CHUNK = 20_000;
 
 function notAWorkbook(bytes: Uint8Array, fileName: string): FulcraError {
   const head = new TextDecoder('utf-8').decode(bytes.subarray(0, 200));
+  // eslint-disable-next-line no-control-regex -- control characters (not tab or line breaks) or U+FFFD mean binary
   const isText = !/[\u0000-\u0008\u000e-\u001f\ufffd]/.test(head);
   const shown = head.slice(0, 40).replace(/\s+/g, ' ');
   return new FulcraError(
     'not-xlsx',
-    `"${fileName}" is named like an Excel workbook but is not one${isText ? `: it is plain text starting "${shown}"` : ''}.`,
+    `"${fileName}" is named like an Excel workbook but is not one` +
+      `${isText ? `: it is plain text starting "${shown}"` : ''}.`,
     isText
       ? 'If it is comma- or tab-separated text, rename it to .csv (or choose "delimited text") and open it again.'
       : 'Open it in the program that made it and save it as .xlsx or CSV.',
@@ -77,7 +79,8 @@ export async function importXlsx(
   if (!chosen) {
     throw new FulcraError(
       'unknown-sheet',
-      `The workbook has no sheet ${typeof o.sheet === 'number' ? `number ${o.sheet + 1}` : `"${o.sheet}"`}. Sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`,
+      `The workbook has no sheet ${typeof o.sheet === 'number' ? `number ${o.sheet + 1}` : `"${o.sheet}"`}. ` +
+        `Sheets are: ${names.map((n) => `"${n}"`).join(', ')}.`,
       'Choose one of the listed sheets.',
     );
   }
@@ -104,7 +107,8 @@ export async function importXlsx(
       warnings.push(
         warning(
           'formulas',
-          `${plural(scan.formulas, 'cell holds a formula', 'cells hold formulas')}; the results last saved by the spreadsheet are used, not recalculated.`,
+          `${plural(scan.formulas, 'cell holds a formula', 'cells hold formulas')}; ` +
+            'the results last saved by the spreadsheet are used, not recalculated.',
           'If the results may be out of date, open the workbook in the spreadsheet, let it recalculate, and save it.',
         ),
       );
@@ -113,7 +117,8 @@ export async function importXlsx(
       warnings.push(
         warning(
           'formula-no-value',
-          `${plural(scan.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result (${scan.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
+          `${plural(scan.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result ` +
+            `(${scan.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
           'Open the workbook in the spreadsheet, let it recalculate, and save it.',
         ),
       );
@@ -142,7 +147,8 @@ export async function importXlsx(
     warnings.push(
       warning(
         'several-sheets',
-        `The workbook has ${names.length} sheets (${names.map((n) => `"${n}"`).join(', ')}); sheet "${chosen.name}" was read.`,
+        `The workbook has ${names.length} sheets (${names.map((n) => `"${n}"`).join(', ')}); ` +
+          `sheet "${chosen.name}" was read.`,
         'Choose another sheet in the import settings if needed.',
       ),
     );

@@ -63,7 +63,8 @@ export function inferType(b: ColumnBuilder, name: string, num: NumericSummary, w
     if (b.leadingZeroCells.count > 0 && (distinct === b.numberCount || ID_NAME.test(name))) {
       return out(
         'identifier',
-        `numbers written with leading zeros (e.g. "${b.leadingZeroCells.examples[0]}" at row ${b.leadingZeroCells.rows[0]}), read as codes`,
+        `numbers written with leading zeros ` +
+          `(e.g. "${b.leadingZeroCells.examples[0]}" at row ${b.leadingZeroCells.rows[0]}), read as codes`,
       );
     }
     if (num.integers && distinct === b.numberCount && b.numberCount >= 10 && ID_NAME.test(name)) {

@@ -53,7 +53,8 @@ export class ColumnNamer {
       this.warnings.push(
         warning(
           'markup-name',
-          `The name of ${col} looks like web-page markup or script ("${name.slice(0, 60)}"); it is treated as plain text.`,
+          `The name of ${col} looks like web-page markup or script ("${name.slice(0, 60)}"); ` +
+            'it is treated as plain text.',
           'Check that this file is the spreadsheet you meant to open; rename the column if so.',
           [name],
         ),

@@ -11,7 +11,7 @@ export interface NumericSummary {
 const f64 = new Float64Array(1);
 const u32 = new Uint32Array(f64.buffer);
 
-/** Exact count of distinct values: open-addressing hash set over the IEEE-754 bits (−0 counted as 0), grown as needed. */
+/** Exact count of distinct values: an open-addressing hash set over the IEEE-754 bits (−0 counted as 0) that grows. */
 export function countDistinct(values: Float64Array): number {
   let cap = 1024;
   let keys = new Float64Array(cap).fill(NaN);
@@ -189,7 +189,8 @@ function countDecimals(
 
 /**
  * Count, min, max, median, distinct count and whole-number flag of the present values. `work` (optional,
- * overwritten) is scratch space of at least `values.length`, so that a caller summarising many columns allocates it once.
+ * overwritten) is scratch space of at least `values.length`, so that a caller summarising many columns
+ * allocates it once.
  */
 export function summarizeNumbers(values: Float64Array, work?: Float64Array): NumericSummary {
   let count = 0,

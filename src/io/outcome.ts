@@ -67,14 +67,18 @@ export function proposeOutcomeEvent(column: Column): OutcomeProposal {
     return {
       status: 'unsuitable',
       levels: [],
-      reason: `${q} is a number with many values; the outcome must be yes/no. Make a yes/no column (e.g. above a cut-off) in the file.`,
+      reason:
+        `${q} is a number with many values; the outcome must be yes/no. ` +
+        'Make a yes/no column (e.g. above a cut-off) in the file.',
     };
   }
   if (levels.length > 2) {
     return {
       status: 'needsChoice',
       levels,
-      reason: `${q} has ${levels.length} values; choose the one that counts as the event (the others count as no event).`,
+      reason:
+        `${q} has ${levels.length} values; choose the one that counts as the event ` +
+        '(the others count as no event).',
     };
   }
   const [a, b] = levels;

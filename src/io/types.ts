@@ -58,7 +58,7 @@ export interface ColumnProfile {
   topLevels?: { level: string; count: number }[];
   /** Count of present cells outside `topLevels`. */
   otherCount?: number;
-  /** How often each missing-value token was seen (upper-cased, e.g. { NA: 12, '#DIV/0!': 2 }); empty cells not counted. */
+  /** How often each missing-value token was seen (upper-cased, e.g. { NA: 12, '#DIV/0!': 2 }); empty cells aside. */
   missingTokens?: Record<string, number>;
 }
 

@@ -48,7 +48,8 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   cautions(L);
 
   L.footer(
-    `Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 data SHA-256 ${input.meta.dataChecksum.slice(0, 12)}\u2026`,
+    `Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 ` +
+      `data SHA-256 ${input.meta.dataChecksum.slice(0, 12)}\u2026`,
   );
   return new Uint8Array(L.doc.output('arraybuffer'));
 }

@@ -1,4 +1,4 @@
-import type { FitResult } from '../engine/core';
+import type { Costs, FitResult } from '../engine/core';
 import type { EvaluationRecord } from '../engine/evaluation';
 import type { InternalValidation, MetricName } from '../engine/validation';
 import type { SampleSizeResult } from '../engine/evaluation';
@@ -15,7 +15,7 @@ export interface ReportRecords {
   /** bootstrapValidation() or repeatedCrossValidation(). */
   validation?: InternalValidation;
   sampleSize?: SampleSizeResult;
-  costs?: { falseNegative: number; falsePositive: number };
+  costs?: Costs;
   thresholdRule?: string;
   lambdaChoice?: string;
   missingData?: string;
@@ -78,8 +78,8 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     if (at && r.costs) {
       input.threshold = {
         threshold: at.threshold,
-        costFalseNegative: r.costs.falseNegative,
-        costFalsePositive: r.costs.falsePositive,
+        costMissedCase: r.costs.missedCase,
+        costFalseAlarm: r.costs.falseAlarm,
         tp: at.tp,
         fp: at.fp,
         fn: at.fn,
@@ -118,7 +118,8 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
       optimism: pick(opt),
       method:
         v.method === 'bootstrap'
-          ? 'bootstrap optimism correction, refitting the whole modelling procedure in each replicate (Harrell, Lee & Mark 1996, Stat Med 15:361)'
+          ? 'bootstrap optimism correction, refitting the whole modelling procedure in each replicate ' +
+            '(Harrell, Lee & Mark 1996, Stat Med 15:361)'
           : 'repeated cross-validation',
       replicates: v.planned - v.failed,
     };

@@ -43,8 +43,8 @@ export interface DecisionCurvePlotData {
 
 export interface ThresholdSummary {
   threshold: number;
-  costFalseNegative: number;
-  costFalsePositive: number;
+  costMissedCase: number;
+  costFalseAlarm: number;
   tp: number;
   fp: number;
   fn: number;

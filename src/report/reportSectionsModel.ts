@@ -48,7 +48,8 @@ export function dataSection(L: PdfLayout, input: ReportInput): void {
     ['Outcome', `"${m.recipe.outcome}"; the event is "${m.recipe.event}"`],
     [
       'Rows used',
-      `${formatCount(m.nUsed)}: ${formatCount(m.events)} events (${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
+      `${formatCount(m.nUsed)}: ${formatCount(m.events)} events ` +
+        `(${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
     ],
     [
       'Rows left out',
@@ -59,13 +60,16 @@ export function dataSection(L: PdfLayout, input: ReportInput): void {
   if (dropped.length > 0)
     rows.push(['Missing by column', dropped.map(([c, n]) => `${c}: ${formatCount(n)}`).join('; ')]);
   const imputed = input.imputation
-    ? ` As a sensitivity analysis the same model was also fitted on ${input.imputation.m} multiply imputed datasets and pooled by Rubin\u2019s rules (section \u201cMultiple imputation\u201d).`
+    ? ` As a sensitivity analysis the same model was also fitted on ${input.imputation.m} multiply imputed datasets ` +
+      'and pooled by Rubin\u2019s rules (section \u201cMultiple imputation\u201d).'
     : '';
   rows.push([
     'Missing data handling',
     input.missingData ??
       (m.nDropped > 0
-        ? `Complete-case analysis: rows with any missing value in the model\u2019s variables were left out. This is unbiased only if missingness does not depend on the outcome (for example, if data are missing completely at random).${imputed}`
+        ? 'Complete-case analysis: rows with any missing value in the model\u2019s variables were left out. ' +
+          'This is unbiased only if missingness does not depend on the outcome ' +
+          `(for example, if data are missing completely at random).${imputed}`
         : 'No missing values in the model\u2019s variables.'),
   ]);
   L.keyValues(rows, 42);
@@ -116,7 +120,8 @@ export function sampleSize(L: PdfLayout, input: ReportInput): void {
       'Minimum sample size',
       s.requiredN === null
         ? DASH
-        : `${formatCount(s.requiredN)} (Riley et al. 2020, BMJ 368:m441)${s.bindingCriterion ? `; binding criterion: ${s.bindingCriterion}` : ''}`,
+        : `${formatCount(s.requiredN)} (Riley et al. 2020, BMJ 368:m441)` +
+          (s.bindingCriterion ? `; binding criterion: ${s.bindingCriterion}` : ''),
     ]);
     for (const c of s.criteria ?? []) rows.push([`  ${c.label}`, c.n === null ? DASH : formatCount(c.n)]);
     if (s.assumedR2 !== undefined && s.assumedR2 !== null)
@@ -145,7 +150,9 @@ export function method(L: PdfLayout, input: ReportInput): void {
     text = 'Logistic regression fitted by maximum likelihood (Newton\u2013Raphson).';
   } else if (m.method === 'firth') {
     text =
-      'Logistic regression with Firth\u2019s penalised likelihood (Jeffreys prior; Firth 1993, Biometrika 80:27), which reduces small-sample bias and gives finite estimates under separation (Heinze & Schemper 2002, Stat Med 21:2409).';
+      'Logistic regression with Firth\u2019s penalised likelihood (Jeffreys prior; Firth 1993, Biometrika 80:27), ' +
+      'which reduces small-sample bias and gives finite estimates under separation ' +
+      '(Heinze & Schemper 2002, Stat Med 21:2409).';
   } else {
     const kind =
       m.method === 'lasso'
@@ -153,9 +160,14 @@ export function method(L: PdfLayout, input: ReportInput): void {
         : m.method === 'elastic-net'
           ? `Elastic-net (\u03b1 = ${formatSig(m.alpha ?? 0.5, 3)}: L1 share)`
           : 'Ridge (L2)';
-    text = `${kind} penalised logistic regression, \u03bb = ${formatSig(m.lambda, 4)} on the standardised scale (intercept not penalised). \u03bb chosen by: ${input.lambdaChoice ?? 'set by the user'}. Coefficients are shrunk towards zero on purpose; standard errors, p-values and intervals of a penalised fit are not valid and are not reported.`;
+    text =
+      `${kind} penalised logistic regression, \u03bb = ${formatSig(m.lambda, 4)} on the standardised scale ` +
+      `(intercept not penalised). \u03bb chosen by: ${input.lambdaChoice ?? 'set by the user'}. ` +
+      'Coefficients are shrunk towards zero on purpose; standard errors, p-values and intervals of a penalised fit ' +
+      'are not valid and are not reported.';
   }
   const penalised = isPenalised(m.method);
+  const deviance = `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)})`;
   const rows: [string, string][] = [
     ['Method', text],
     [
@@ -173,8 +185,9 @@ export function method(L: PdfLayout, input: ReportInput): void {
     [
       'Fit',
       penalised
-        ? `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}), unpenalised, at the shrunken estimates`
-        : `deviance ${formatFixed(m.deviance, 2)} (null ${formatFixed(m.nullDeviance, 2)}); likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`,
+        ? `${deviance}, unpenalised, at the shrunken estimates`
+        : `${deviance}; likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, ` +
+          `p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`,
     ],
   ];
   L.keyValues(rows, 30);
@@ -188,7 +201,8 @@ function pText(p: number | null): string {
 export function equation(L: PdfLayout, m: FitResult): void {
   L.section('Model equation');
   L.paragraph(
-    'The full model, so that it can be re-implemented. Square brackets name a design variable; its coding is given below.',
+    'The full model, so that it can be re-implemented. ' +
+      'Square brackets name a design variable; its coding is given below.',
     { size: 9 },
   );
   const eq = modelEquation(m);
@@ -268,7 +282,12 @@ export function imputation(L: PdfLayout, input: ReportInput): void {
   L.section('Multiple imputation (sensitivity analysis)');
   const filled = imp.columns.map((c) => `${c.column}: ${formatCount(c.cells)} cells by ${c.method}`).join('; ');
   L.paragraph(
-    `The same model fitted on each of ${imp.m} datasets completed by chained-equation imputation (van Buuren & Groothuis-Oudshoorn 2011), pooled by Rubin\u2019s rules with Barnard\u2013Rubin degrees of freedom. ${formatCount(imp.nImputedRows)} of ${formatCount(imp.nRows)} rows had a value filled in (${filled}). The model above remains the complete-case fit; large differences between the two columns of \u03b2 below mean the complete-case estimates may be biased by the missing values.`,
+    `The same model fitted on each of ${imp.m} datasets completed by chained-equation imputation ` +
+      '(van Buuren & Groothuis-Oudshoorn 2011), pooled by Rubin\u2019s rules ' +
+      'with Barnard\u2013Rubin degrees of freedom. ' +
+      `${formatCount(imp.nImputedRows)} of ${formatCount(imp.nRows)} rows had a value filled in (${filled}). ` +
+      'The model above remains the complete-case fit; large differences between the two columns of \u03b2 below ' +
+      'mean the complete-case estimates may be biased by the missing values.',
     { size: 9 },
   );
   const lvl = levelText(imp.level);

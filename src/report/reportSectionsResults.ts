@@ -18,10 +18,15 @@ import type { Estimate, PerformanceSummary, ReportInput, ThresholdSummary } from
 
 /** The cautions printed in every report. */
 export const REPORT_CAUTIONS: readonly string[] = [
-  'Fulcra is a statistics workbench, not a medical device. This model has not been assessed by any regulator and must not be used on its own to make decisions about individual patients or products.',
-  'Internal validation (apparent and bootstrap optimism-corrected performance on the development data) is not external validation. Performance in another hospital, period or population is unknown until it is measured there.',
-  'Before use in another setting, check calibration on local data and recalibrate (at least the intercept) if the outcome rate differs.',
-  'Use follows local governance and approval processes, and does not replace the judgement of licensed clinical or quality professionals.',
+  'Fulcra is a statistics workbench, not a medical device. This model has not been assessed by any regulator ' +
+    'and must not be used on its own to make decisions about individual patients or products.',
+  'Internal validation (apparent and bootstrap optimism-corrected performance on the development data) ' +
+    'is not external validation. ' +
+    'Performance in another hospital, period or population is unknown until it is measured there.',
+  'Before use in another setting, check calibration on local data and recalibrate (at least the intercept) ' +
+    'if the outcome rate differs.',
+  'Use follows local governance and approval processes, ' +
+    'and does not replace the judgement of licensed clinical or quality professionals.',
 ];
 
 function est(e: Estimate | null | undefined, digits: number): string {
@@ -69,17 +74,22 @@ export function performance(L: PdfLayout, input: ReportInput): void {
     rows,
   );
   const how = c
-    ? `Optimism-corrected value = apparent − mean optimism; ${c.method ?? 'bootstrap optimism correction (Harrell, Lee & Mark 1996, Stat Med 15:361)'}${c.replicates ? `, ${formatCount(c.replicates)} replicates` : ''}.`
+    ? 'Optimism-corrected value = apparent − mean optimism; ' +
+      (c.method ?? 'bootstrap optimism correction (Harrell, Lee & Mark 1996, Stat Med 15:361)') +
+      `${c.replicates ? `, ${formatCount(c.replicates)} replicates` : ''}.`
     : 'No internal validation was run; apparent performance is optimistic.';
   const ce = input.calibrationErrors;
   if (ce) {
     L.paragraph(
-      `Calibration error of the flexible curve (apparent): ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)} (absolute differences between predicted and calibrated risk; Austin & Steyerberg 2019, Stat Med 38:4051).`,
+      `Calibration error of the flexible curve (apparent): ICI ${formatFixed(ce.ici, 3)}, ` +
+        `E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)} ` +
+        '(absolute differences between predicted and calibrated risk; Austin & Steyerberg 2019, Stat Med 38:4051).',
       { size: 8.5 },
     );
   }
   L.paragraph(
-    `Apparent values are measured on the same data used to fit the model. ${how} AUC interval: DeLong (1988). Calibration slope and intercept: Wald intervals; slope 1 and intercept 0 are ideal.`,
+    `Apparent values are measured on the same data used to fit the model. ${how} AUC interval: DeLong (1988). ` +
+      'Calibration slope and intercept: Wald intervals; slope 1 and intercept 0 are ideal.',
     { size: 8.5 },
   );
 }
@@ -102,7 +112,10 @@ export function plots(L: PdfLayout, input: ReportInput): void {
     L.y = top + 55 + 12;
   }
   L.paragraph(
-    'Calibration: observed risk from a flexible (restricted cubic spline) logistic recalibration on the linear predictor, with its pointwise confidence band; points on the dashed diagonal are perfectly calibrated. Decision curve: net benefit = TP/n \u2212 FP/n \u00d7 t/(1 \u2212 t) (Vickers & Elkin 2006, Med Decis Making 26:565).',
+    'Calibration: observed risk from a flexible (restricted cubic spline) logistic recalibration on the linear ' +
+      'predictor, with its pointwise confidence band; points on the dashed diagonal are perfectly calibrated. ' +
+      'Decision curve: net benefit = TP/n \u2212 FP/n \u00d7 t/(1 \u2212 t) ' +
+      '(Vickers & Elkin 2006, Med Decis Making 26:565).',
     { size: 8.5 },
   );
 }
@@ -120,7 +133,7 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
       (e.lower !== null && e.upper !== null ? ` (${formatPercent(e.lower)} to ${formatPercent(e.upper)})` : '')
     );
   };
-  const ratio = t.costFalseNegative / t.costFalsePositive;
+  const ratio = t.costMissedCase / t.costFalseAlarm;
   L.keyValues(
     [
       [
@@ -129,7 +142,8 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
       ],
       [
         'Costs',
-        `missed event (false negative) ${formatPlain(t.costFalseNegative, 4)}; false alarm (false positive) ${formatPlain(t.costFalsePositive, 4)}; ratio ${formatPlain(ratio, 3)} : 1`,
+        `missed event (false negative) ${formatPlain(t.costMissedCase, 4)}; ` +
+          `false alarm (false positive) ${formatPlain(t.costFalseAlarm, 4)}; ratio ${formatPlain(ratio, 3)} : 1`,
       ],
       ['How chosen', t.rule ?? 'set by the user'],
       ['Flag rule', 'a case is flagged when its predicted risk is greater than or equal to the threshold'],
@@ -160,7 +174,8 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
     if (v?.estimate === null || v?.estimate === undefined) return;
     rows.push([
       label,
-      `${formatSig(v.estimate, digits)}${v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''}`,
+      formatSig(v.estimate, digits) +
+        (v.ci ? ` (95% CI ${formatSig(v.ci.lower, digits)} to ${formatSig(v.ci.upper, digits)}, log method)` : ''),
     ]);
   };
   lr('Positive likelihood ratio', t.lrPositive, 3);

@@ -3,6 +3,7 @@
  * Effects (worker calls) live in controller.ts and feed their results back through these actions.
  */
 import type { MissingReport } from '../engine/imputation';
+import type { ColumnType } from '../io/types';
 import type { EngineWarning, ModelSpec } from '../engine/core';
 import type {
   BatchScoreView,
@@ -13,7 +14,7 @@ import type {
   ExternalView,
   FitView,
   LossSurfaceView,
-  MethodChoice,
+  FitMethod,
   ReportText,
   RiskCurveView,
   ScoreView,
@@ -32,6 +33,18 @@ import {
 } from './appState';
 
 type Perform<I> = (state: AppState, input: I) => AppState;
+
+/** A worker query that brings a derived view up to date after a change; the controller runs it. */
+export type Effect = 'query-threshold' | 'refresh-costs' | 'refresh-drop-report' | 'reread';
+
+/**
+ * A user's change that says what follows it: `perform` is the pure state change, `follows` compares the state
+ * before and after and names the effects the change calls for (none when nothing they depend on moved).
+ */
+export interface Intent<I> {
+  perform: Perform<I>;
+  follows(before: AppState, after: AppState): Effect[];
+}
 
 const invalidateFit = (s: AppState): AppState => (s.fit ? { ...s, fitStale: true } : s);
 
@@ -113,7 +126,7 @@ export const toggleInteraction: Perform<[string, string]> = (s, pair) => {
   return invalidateFit({ ...s, interactions });
 };
 
-export const chooseMethod: Perform<MethodChoice> = (s, method) => invalidateFit({ ...s, method });
+export const chooseMethod: Perform<FitMethod> = (s, method) => invalidateFit({ ...s, method });
 export const setAlpha: Perform<number> = (s, alpha) =>
   Number.isFinite(alpha) ? invalidateFit({ ...s, alpha: Math.min(1, Math.max(0, alpha)) }) : s;
 export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => invalidateFit({ ...s, lambdaRule });
@@ -229,6 +242,44 @@ export const autosaved: Perform<string> = (s, savedAt) => ({ ...s, savedAt });
 
 /** Forgets the data and every setting; only the notice counter survives. */
 export const startAfresh: Perform<void> = (s) => ({ ...initialState, nextNoticeId: s.nextNoticeId });
+
+/** The rows a model drops depend on its outcome, event, predictors and interactions. */
+const modelChanged = (b: AppState, a: AppState): Effect[] =>
+  a.data && (a.outcome !== b.outcome || a.event !== b.event || a.roles !== b.roles || a.interactions !== b.interactions)
+    ? ['refresh-drop-report']
+    : [];
+
+/** Outcome column chosen: the drop report follows. */
+export const changeOutcome: Intent<Parameters<typeof chooseOutcome>[1]> = {
+  perform: chooseOutcome,
+  follows: modelChanged,
+};
+/** Event level chosen: the drop report follows. */
+export const changeEvent: Intent<string | null> = { perform: chooseEvent, follows: modelChanged };
+/** A predictor's role changed: the drop report follows. */
+export const changeRole: Intent<Parameters<typeof setPredictor>[1]> = { perform: setPredictor, follows: modelChanged };
+/** An interaction added or removed: the drop report follows. */
+export const changeInteraction: Intent<[string, string]> = { perform: toggleInteraction, follows: modelChanged };
+
+/** The cut-off moved: with a model, the confusion matrix at the new cut-off follows. */
+export const moveCutoff: Intent<number> = {
+  perform: setThreshold,
+  follows: (b, a) => (a.fit && a.threshold !== b.threshold ? ['query-threshold'] : []),
+};
+
+/** A cost changed: with a model, the cost curve and the confusion matrix follow (a rejected cost changes nothing). */
+export const changeCosts: Intent<Partial<Costs>> = {
+  perform: setCosts,
+  follows: (b, a) => (a.fit && a.costs !== b.costs ? ['refresh-costs'] : []),
+};
+
+/** A column is to be read as another type: a file is read again with the new choice (demos and pastes keep theirs). */
+export const readColumnAs: Intent<{ column: string; type: ColumnType }> = {
+  perform: (s, { column, type }) =>
+    setImportSettings(s, { columnTypes: { ...s.importSettings.columnTypes, [column]: type } }),
+  follows: (b, a) =>
+    a.data?.source.kind === 'file' && a.importSettings.columnTypes !== b.importSettings.columnTypes ? ['reread'] : [],
+};
 
 const REMEDY: Record<string, Notice['action']> = {
   'complete-separation': 'use-firth',

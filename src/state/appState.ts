@@ -10,7 +10,7 @@ import type {
   ExternalView,
   FitView,
   LossSurfaceView,
-  MethodChoice,
+  FitMethod,
   ReportText,
   RiskCurveView,
   ScoreView,
@@ -73,7 +73,7 @@ export interface AppState {
   event: string | null;
   roles: Record<string, PredictorRole>;
   interactions: [string, string][];
-  method: MethodChoice;
+  method: FitMethod;
   alpha: number;
   lambdaRule: 'min' | '1se';
   level: number;

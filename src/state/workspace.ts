@@ -67,7 +67,7 @@ export function toWorkspace(s: AppState, held: HeldData | null, withData: boolea
     fitOptions: { ...(m === 'ml' || m === 'ridge' || m === 'firth' ? { method: m } : {}), level: s.level },
     seed: null,
     threshold: s.threshold,
-    costs: { falseNegative: s.costs.missedCase, falsePositive: s.costs.falseAlarm },
+    costs: { ...s.costs },
     freeText: { ...s.reportText },
     extra: {
       workbench: JSON.parse(JSON.stringify(settingsOf(s))),
@@ -87,7 +87,10 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
   const w = ws.extra?.workbench;
   const base: WorkbenchSettings = { ...settingsOf(initialState), importSettings: defaultImportSettings };
   if (isObject(w) && isObject(w.roles) && Array.isArray(w.interactions) && isObject(w.costs)) {
-    return { ...base, ...(w as unknown as WorkbenchSettings) };
+    const saved = w as unknown as WorkbenchSettings;
+    // Workspaces saved before the one method enum call elastic net 'elasticnet'.
+    const method = (saved.method as string) === 'elasticnet' ? 'elastic-net' : saved.method;
+    return { ...base, ...saved, method };
   }
   const roles: Record<string, PredictorRole> = {};
   const interactions: [string, string][] = [];
@@ -105,10 +108,7 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
     method: ws.fitOptions.method ?? 'ml',
     level: ws.fitOptions.level ?? base.level,
     threshold: ws.threshold ?? base.threshold,
-    costs:
-      ws.costs && ws.costs.falseNegative > 0 && ws.costs.falsePositive > 0
-        ? { missedCase: ws.costs.falseNegative, falseAlarm: ws.costs.falsePositive }
-        : base.costs,
+    costs: ws.costs && ws.costs.missedCase > 0 && ws.costs.falseAlarm > 0 ? { ...ws.costs } : base.costs,
     reportText: { ...ws.freeText },
     fitted: ws.spec !== null,
     view: ws.spec !== null ? 'model' : 'data',

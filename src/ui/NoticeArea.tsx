@@ -30,13 +30,7 @@ export function NoticeArea() {
           </div>
           <div className="notice-actions">
             {n.action && (
-              <button
-                type="button"
-                onClick={() => {
-                  store.apply(dismiss, n.id);
-                  void ctl.useRemedy(n.action!);
-                }}
-              >
+              <button type="button" onClick={() => void ctl.useRemedy(n.action!, n.id)}>
                 {REMEDY_LABEL[n.action]}
               </button>
             )}

@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 
 /**
  * A labelled number input that keeps what the user is typing and reports only valid numbers
@@ -14,9 +14,12 @@ export function NumberField(props: {
   step?: number | 'any';
 }) {
   const [text, setText] = useState(String(props.value));
-  useEffect(() => {
+  // A new value from outside replaces the text unless the text already says it ("0.50" for 0.5 stays).
+  const [shown, setShown] = useState(props.value);
+  if (!Object.is(shown, props.value)) {
+    setShown(props.value);
     if (Number(text) !== props.value) setText(String(props.value));
-  }, [props.value]);
+  }
   const valid = props.valid ?? Number.isFinite;
   const bad = text.trim() === '' || !valid(Number(text));
   return (

@@ -18,7 +18,7 @@ import { fitWithImputation } from './imputeOps';
 import { fitModel } from './modelOps';
 import { rowsWindow } from './profile';
 import type { Costs, DataSummary, FitRequest, Progress, ReportText } from './protocol';
-import { createSession, openJob, requireData, tick, type Session } from './session';
+import { createSession, openJob, requireData, requireRecord, tick, type Session } from './session';
 import { modelFileText, modelReport, pmmlText } from './reportOps';
 import { scoreImported, scoreOne } from './scoreOps';
 import { riskCurve } from './shapeOps';
@@ -92,7 +92,7 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     /** Loads data the page kept (engine restart, saved workspace) without reading a file again. */
     loadDataset: (data: Dataset, summary: DataSummary | null, name: string) =>
       guard(null, () => loadHeld(session, data, summary, name)),
-    /** The workspace file (gzip JSON), encoded here rather than on the page: `ws` comes without data, the worker adds its own. */
+    /** The workspace file (gzip JSON), encoded here, not on the page: `ws` comes without data, the worker adds it. */
     workspaceFile: (ws: Workspace, version: string) =>
       guard(null, async () => {
         const bytes = await workspaceToGzip({ ...ws, data: requireData(session) }, { fulcraVersion: version });
@@ -115,7 +115,7 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
             : [],
         );
       }),
-    /** Test hook (the page only calls it with ?testhooks=1): an uncaught error in the worker, as a crash would raise. */
+    /** Test hook (the page calls it only with ?testhooks=1): an uncaught error in the worker, as a crash raises. */
     crashForTest: () => {
       setTimeout(() => {
         throw new Error('engine crash requested by a test');
@@ -129,6 +129,8 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
         typical = view.typical;
         return view;
       }),
+    /** The current analysis record (request, fit, evaluation, sample size, validations), as `npm run fit --json`. */
+    analysisRecord: () => guard(null, () => requireRecord(session)),
     fitImputed: (req: FitRequest, jobId: string, onProgress?: Progress) =>
       guard(jobId, () => fitWithImputation(session, req, hooksFor(jobId, onProgress))),
     threshold: (t: number, costs: Costs) => guard(null, () => thresholdAt(session, t, costs)),

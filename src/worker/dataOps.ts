@@ -2,7 +2,7 @@ import type { Dataset } from '../engine/core';
 import { generateDemo, type DemoId } from '../engine/demo';
 import { proposeOutcomeEvent } from '../io';
 import type { ColumnInfo, ImportResult } from '../io/types';
-import { MAX_LEVELS, profileColumn } from './profile';
+import { MAX_LEVELS, profileColumn, viewBins } from './profile';
 import type { ColumnView, DataSummary } from './protocol';
 import type { Session } from './session';
 
@@ -31,6 +31,7 @@ export function loadImported(s: Session, result: ImportResult, kind: 'file' | 'p
     suggestedSpec: null,
     truth: null,
     format: result.format,
+    firstRow: result.dataset.firstRow ?? 2,
   });
 }
 
@@ -50,6 +51,7 @@ export function loadHeld(s: Session, data: Dataset, summary: DataSummary | null,
       suggestedSpec: null,
       truth: null,
       format: null,
+      firstRow: data.firstRow ?? 2,
     },
   );
 }
@@ -68,20 +70,18 @@ export function heldCopy(s: Session): { data: Dataset; summary: DataSummary; buf
     buffers.push(codes.buffer);
     return { ...c, codes, levels: [...c.levels] };
   });
-  return { data: { nRows: s.data.nRows, columns }, summary: s.summary, buffers };
+  const data: Dataset = { nRows: s.data.nRows, columns };
+  if (s.data.firstRow !== undefined) data.firstRow = s.data.firstRow;
+  return { data, summary: s.summary, buffers };
 }
 
 function setData(s: Session, data: Dataset, summary: DataSummary): DataSummary {
   s.data = data;
   s.summary = summary;
-  s.fit = null;
-  s.request = null;
+  s.record = null;
   s.y = null;
   s.risk = null;
   s.prepared = null;
-  s.evaluation = null;
-  s.validation = null;
-  s.sampleSize = null;
   s.imputed = null;
   return summary;
 }
@@ -100,12 +100,6 @@ function fromInfo(col: Dataset['columns'][number], info: ColumnInfo | undefined)
           ? [String(p.min), String(p.max)]
           : [],
   };
-  const bins = p.histogram
-    ? p.histogram.counts.map((count, b) => ({
-        label: `${fmt(p.histogram!.edges[b])}–${fmt(p.histogram!.edges[b + 1])}`,
-        count,
-      }))
-    : (p.topLevels ?? []).map((l) => ({ label: l.level, count: l.count }));
   const type = info.type === 'empty' ? 'text' : info.type;
   return {
     ...base,
@@ -118,13 +112,9 @@ function fromInfo(col: Dataset['columns'][number], info: ColumnInfo | undefined)
     min: Number.isFinite(p.min) ? p.min : null,
     median: Number.isFinite(p.median) ? p.median : null,
     max: Number.isFinite(p.max) ? p.max : null,
-    bins,
+    bins: viewBins(p),
     proposedEvent: proposedEvent(col),
   };
-}
-
-function fmt(x: number): string {
-  return Number.isInteger(x) ? String(x) : x.toPrecision(3);
 }
 
 function proposedEvent(col: Dataset['columns'][number]): string | null {

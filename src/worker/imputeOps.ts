@@ -1,5 +1,6 @@
 import { fitImputed } from '../engine/imputation';
 import { mice } from '../engine/imputation';
+import { resolveRequest } from '../engine/workflow';
 import type { FitRequest, ImputedView } from './protocol';
 import { requireData, tick, type Session } from './session';
 
@@ -33,6 +34,7 @@ export async function fitWithImputation(s: Session, req: FitRequest, hooks: Hook
     warnings: pooled.warnings,
   };
   // Kept for the PDF only when it belongs to the current model (same request as the last fit).
-  s.imputed = s.request && JSON.stringify(s.request) === JSON.stringify(req) ? view : null;
+  const same = s.record && JSON.stringify(s.record.request) === JSON.stringify(resolveRequest(req));
+  s.imputed = same ? view : null;
   return view;
 }

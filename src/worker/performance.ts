@@ -1,21 +1,10 @@
-import { evaluate, type EvaluationRecord } from '../engine/evaluation';
+import type { EvaluationSummary } from '../engine/workflow';
 import type { PerformanceView } from './protocol';
 
 const nan = (x: number | null | undefined) => (x === null || x === undefined ? NaN : x);
 
-/** The engine's evaluation record of risks p (linear predictor eta) for outcome y, as the plots and tables read it. */
-export function performanceView(
-  y: Float64Array,
-  p: Float64Array,
-  eta: Float64Array,
-  level: number,
-): { view: PerformanceView; record: EvaluationRecord } {
-  const r = evaluate(y, p, { eta, level, rocPoints: 400 });
-  return { view: toView(r), record: r };
-}
-
 /** The plotted and tabulated subset of an evaluation record. */
-export function toView(r: EvaluationRecord): PerformanceView {
+export function toView(r: EvaluationSummary): PerformanceView {
   const cal = r.calibration,
     curve = r.calibrationCurve,
     hl = r.hosmerLemeshow;

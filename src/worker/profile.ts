@@ -1,61 +1,48 @@
 import type { Column, Dataset } from '../engine/core';
 import { summarizeNumbers } from '../io/numericSummary';
+import { profileColumn as ioProfileColumn } from '../io/profile';
+import type { ColumnProfile } from '../io/types';
 import type { ColumnView } from './protocol';
 
 /** At most this many levels travel to the page (for reference-level and scoring choices). */
 export const MAX_LEVELS = 200;
 
-/** Header profile of a column held by the engine (demo data or data whose io profile is missing). */
+/** The header bins of an io profile: its histogram, or its most frequent levels. */
+export function viewBins(p: ColumnProfile): { label: string; count: number }[] {
+  const h = p.histogram;
+  if (h) return h.counts.map((count, b) => ({ label: `${fmt(h.edges[b])}–${fmt(h.edges[b + 1])}`, count }));
+  return (p.topLevels ?? []).map((l) => ({ label: l.level, count: l.count }));
+}
+
+/**
+ * Header view of a column held by the engine (demo data or data whose io profile is missing): io's profileColumn
+ * (src/io/profile.ts) shaped for the page, with the type read from the column itself.
+ */
 export function profileColumn(col: Column): ColumnView {
-  if (col.kind === 'categorical') {
-    const counts = new Array<number>(col.levels.length).fill(0);
-    let missing = 0;
-    for (const c of col.codes)
-      if (c < 0) missing++;
-      else counts[c]++;
-    const type = col.levels.length === 2 ? 'binary' : 'categorical';
-    return {
-      name: col.name,
-      kind: 'categorical',
-      type,
-      modelling: true,
-      levels: col.levels.slice(0, MAX_LEVELS),
-      missing,
-      distinct: counts.filter((c) => c > 0).length,
-      min: null,
-      median: null,
-      max: null,
-      reason: `${col.levels.length} distinct values`,
-      bins: col.levels.slice(0, 20).map((label, k) => ({ label, count: counts[k] })),
-      proposedEvent: null,
-    };
-  }
   // O(n) summaries (no sort: V8 sorts 10⁶ doubles in ~0.4 s, and a file may have dozens of columns).
-  const sum = summarizeNumbers(col.values, scratch(col.values.length));
-  const { count, min: lo, max: hi, distinct } = sum;
-  const missing = col.values.length - count;
-  const bins: { label: string; count: number }[] = [];
-  if (count > 0) {
-    const k = lo === hi ? 1 : Math.min(20, Math.max(5, distinct));
-    const w = (hi - lo) / k || 1;
-    const counts = new Array<number>(k).fill(0);
-    for (const x of col.values) if (x === x) counts[Math.min(k - 1, Math.floor((x - lo) / w))]++;
-    counts.forEach((c, b) => bins.push({ label: `${fmt(lo + b * w)}–${fmt(lo + (b + 1) * w)}`, count: c }));
-  }
-  const levels = distinct === 2 ? [String(lo), String(hi)] : [];
+  const sum = col.kind === 'numeric' ? summarizeNumbers(col.values, scratch(col.values.length)) : undefined;
+  const p = ioProfileColumn(col, sum);
+  const count = p.n - p.missing;
+  const binary = col.kind === 'categorical' ? col.levels.length === 2 : p.distinct === 2;
+  const finite = (x: number) => (Number.isFinite(x) ? x : null);
   return {
     name: col.name,
-    kind: 'numeric',
-    type: distinct === 2 ? 'binary' : 'numeric',
+    kind: col.kind,
+    type: binary ? 'binary' : col.kind,
     modelling: true,
-    levels,
-    missing,
-    distinct,
-    min: count ? lo : null,
-    median: count ? sum.median : null,
-    max: count ? hi : null,
-    reason: count ? `all ${count} non-missing cells are numbers` : 'every cell is missing',
-    bins,
+    levels: col.kind === 'categorical' ? col.levels.slice(0, MAX_LEVELS) : binary ? [String(p.min), String(p.max)] : [],
+    missing: p.missing,
+    distinct: p.distinct,
+    min: finite(p.min),
+    median: finite(p.median),
+    max: finite(p.max),
+    reason:
+      col.kind === 'categorical'
+        ? `${col.levels.length} distinct values`
+        : count
+          ? `all ${count} non-missing cells are numbers`
+          : 'every cell is missing',
+    bins: viewBins(p),
     proposedEvent: null,
   };
 }

@@ -2,8 +2,9 @@
  * Plain records that cross the worker boundary (structured-clone safe). The main thread imports TYPES only
  * from here and from src/engine; it never runs engine code.
  */
-import type { CoefficientRow, EngineWarning, FitResult, ModelSpec } from '../engine/core';
+import type { CoefficientRow, Costs, EngineWarning, FitResult, ModelSpec } from '../engine/core';
 import type { CostThresholds, ThresholdMetrics } from '../engine/evaluation';
+import type { AnalysisRequest, AnalysisRequestInput, LambdaRecord } from '../engine/workflow';
 import type { ImportFormat } from '../io/types';
 
 export type InferredType = 'numeric' | 'binary' | 'categorical' | 'date' | 'identifier' | 'text';
@@ -38,19 +39,14 @@ export interface DataSummary {
   truth: { column: string | null; level?: string; value: number }[] | null;
   /** How the file was read (null for demos). */
   format: ImportFormat | null;
+  /** Spreadsheet row of the first data row (the Dataset's firstRow): 2 below a header row; absent means 2. */
+  firstRow?: number;
 }
 
-export type MethodChoice = 'ml' | 'firth' | 'ridge' | 'lasso' | 'elasticnet';
+export type { Costs, FitMethod } from '../engine/core';
 
-export interface FitRequest {
-  spec: ModelSpec;
-  method: MethodChoice;
-  level: number;
-  /** Elastic-net mixing (1 = lasso, 0 = ridge). */
-  alpha: number;
-  lambdaRule: 'min' | '1se';
-  profile: boolean;
-}
+/** What the page asks the worker to fit: the engine's one analysis request (defaults filled by the engine). */
+export type FitRequest = AnalysisRequestInput;
 
 /** One line of the odds-ratio table, ready to show (penalised fits carry no intervals). */
 export interface OddsRow extends Pick<
@@ -76,14 +72,7 @@ export interface CurvePoint {
   y: number;
 }
 
-export interface LambdaChoice {
-  alpha: number;
-  lambdaMin: number;
-  lambda1se: number;
-  chosen: number;
-  rule: 'min' | '1se';
-  path: { lambda: number; cvError: number; cvSe: number; nonzero: number }[];
-}
+export type LambdaChoice = LambdaRecord;
 
 export interface PerformanceView {
   auc: number;
@@ -111,7 +100,8 @@ export interface PerformanceView {
 }
 
 export interface FitView {
-  request: FitRequest;
+  /** The request as run, defaults filled in. */
+  request: AnalysisRequest;
   fit: FitResult;
   rows: OddsRow[];
   lambda: LambdaChoice | null;
@@ -124,11 +114,6 @@ export interface FitView {
   /** Threads the row passes of this fit ran on (1 below two chunks of rows or without a pool). */
   threads: number;
   warnings: EngineWarning[];
-}
-
-export interface Costs {
-  missedCase: number;
-  falseAlarm: number;
 }
 
 export interface ThresholdView {

@@ -6,7 +6,7 @@ import { buildModelReport } from '../report/buildModelReport';
 import { reportInputFromRecords } from '../report/fromEngine';
 import { FULCRA_VERSION } from '../report/version';
 import type { Costs, ReportText } from './protocol';
-import { requireData, requireFit, type Session } from './session';
+import { requireData, requireFit, requireRecord, type Session } from './session';
 
 /**
  * The model-summary PDF of the current model, built in the worker from the engine's own records (fit,
@@ -19,32 +19,31 @@ export function modelReport(
   created: string,
   text: ReportText = {},
 ): Uint8Array {
-  const fit = requireFit(s);
+  const record = requireRecord(s);
   const data = requireData(s);
-  const decision = { falseNegative: costs.missedCase, falsePositive: costs.falseAlarm };
-  const evaluation =
-    s.evaluation && s.prepared
-      ? { ...s.evaluation, atThreshold: atThreshold(s.prepared, threshold, { costs: decision }) }
-      : undefined;
-  const req = s.request;
+  const evaluation = s.prepared
+    ? { ...record.evaluation, prepared: null, atThreshold: atThreshold(s.prepared, threshold, { costs }) }
+    : undefined;
+  const lam = record.lambda;
   const lambdaChoice =
-    req && (req.method === 'ridge' || req.method === 'lasso' || req.method === 'elasticnet')
-      ? `10-fold cross-validation over 100 values of λ, ${req.lambdaRule === '1se' ? 'one-standard-error rule' : 'lowest cross-validated deviance'}`
+    lam && lam.rule !== 'fixed'
+      ? `${lam.folds}-fold cross-validation over 100 values of λ, ` +
+        (lam.rule === 'cv-1se' ? 'one-standard-error rule' : 'lowest cross-validated deviance')
       : undefined;
   const input = reportInputFromRecords({
     meta: {
       fulcraVersion: FULCRA_VERSION,
       created,
-      seed: s.validation || lambdaChoice ? 1 : null,
+      seed: record.validation?.seed ?? (lambdaChoice ? record.request.seed : null),
       dataChecksum: datasetChecksum(data),
     },
     source: { fileName: s.summary?.source.name ?? 'data', rows: data.nRows, columns: data.columns.length },
     freeText: { ...text, notes: [s.summary?.source.notice, text.notes].filter(Boolean).join(' ') || undefined },
-    fit,
+    fit: record.fit,
     evaluation,
-    validation: s.validation ?? undefined,
-    sampleSize: s.sampleSize ?? undefined,
-    costs: decision,
+    validation: record.validation ?? undefined,
+    sampleSize: record.sampleSize ?? undefined,
+    costs,
     thresholdRule: `chosen on the page; flag when the predicted risk is at least ${(100 * threshold).toFixed(1)}%`,
     lambdaChoice,
     imputation: s.imputed ? { ...s.imputed, columns: s.imputed.imputedColumns } : undefined,
@@ -70,7 +69,7 @@ export function modelFileText(
       dataChecksum: datasetChecksum(data),
       fileName: s.summary?.source.name ?? null,
       rows: data.nRows,
-      threshold: { value: threshold, costFalseNegative: costs.missedCase, costFalsePositive: costs.falseAlarm },
+      threshold: { value: threshold, costMissedCase: costs.missedCase, costFalseAlarm: costs.falseAlarm },
       notes: { purpose: text.purpose, setting: text.setting, population: text.population },
     }),
   );

@@ -1,25 +1,19 @@
 import { FulcraError, type Dataset } from '../engine/core';
 import type { FitResult } from '../engine/core';
-import type { InternalValidation } from '../engine/validation';
-import type { EvaluationRecord } from '../engine/evaluation';
-import type { SampleSizeResult } from '../engine/evaluation';
 import type { PreparedThresholds } from '../engine/evaluation';
-import type { DataSummary, FitRequest, ImputedView } from './protocol';
+import type { AnalysisRecord } from '../engine/workflow';
+import type { DataSummary, ImputedView } from './protocol';
 
 /** What the worker holds between calls: the data set and the current model. */
 export interface Session {
   data: Dataset | null;
   summary: DataSummary | null;
-  fit: FitResult | null;
-  request: FitRequest | null;
+  /** The current analysis (fit, evaluation, sample size, validations): what the page, the PDF and the api read. */
+  record: AnalysisRecord | null;
   /** Outcome and apparent risks of the rows the model used. */
   y: Float64Array | null;
   risk: Float64Array | null;
   prepared: PreparedThresholds | null;
-  /** The engine's records behind the current model's views (for the model-summary PDF). */
-  evaluation: EvaluationRecord | null;
-  validation: InternalValidation | null;
-  sampleSize: SampleSizeResult | null;
   /** The current model pooled over multiple imputations, when the page asked for it (for the PDF). */
   imputed: ImputedView | null;
   signals: Map<string, { aborted: boolean }>;
@@ -29,14 +23,10 @@ export function createSession(): Session {
   return {
     data: null,
     summary: null,
-    fit: null,
-    request: null,
+    record: null,
     y: null,
     risk: null,
     prepared: null,
-    evaluation: null,
-    validation: null,
-    sampleSize: null,
     imputed: null,
     signals: new Map(),
   };
@@ -47,9 +37,13 @@ export function requireData(s: Session): Dataset {
   return s.data;
 }
 
+export function requireRecord(s: Session): AnalysisRecord {
+  if (!s.record) throw new FulcraError('no-model', 'No model has been fitted yet.', 'Fit a model first.');
+  return s.record;
+}
+
 export function requireFit(s: Session): FitResult {
-  if (!s.fit) throw new FulcraError('no-model', 'No model has been fitted yet.', 'Fit a model first.');
-  return s.fit;
+  return requireRecord(s).fit;
 }
 
 /** Registers a cancellable job and returns its signal. */

@@ -1,24 +1,27 @@
-import { bootstrapValidation } from '../engine/validation';
-import { FulcraError } from '../engine/core';
-import { externalValidation } from '../engine/validation';
 import { lossSurface as engineLossSurface } from '../engine/fitting';
+import { externalValidationStep, internalValidation, type AnalysisRequest } from '../engine/workflow';
 import type { ImportResult } from '../io/types';
-import { toPipeline } from './modelOps';
 import { toView } from './performance';
 import type { ExternalView, LossSurfaceView, ValidationView } from './protocol';
-import { requireData, requireFit, tick, type Session } from './session';
+import { requireData, requireFit, requireRecord, tick, type Session } from './session';
 
 type Hooks = { onProgress?: (d: number, t: number) => void; signal?: { aborted: boolean } };
 
 const NAMES = { auc: 'auc', calibrationSlope: 'slope', calibrationInTheLarge: 'intercept', brier: 'brier' } as const;
 
-/** Bootstrap optimism correction of the whole fitting procedure (the engine repeats λ selection when penalised). */
+/**
+ * Bootstrap optimism correction of the current analysis's whole procedure (the engine repeats λ selection when
+ * penalised), seeded with the request's seed; the record then holds it as `npm run fit --bootstrap B` would.
+ */
 export async function validate(s: Session, replicates: number, hooks: Hooks): Promise<ValidationView> {
   const data = requireData(s);
-  requireFit(s);
-  if (!s.request) throw new FulcraError('no-model', 'No model has been fitted yet.', 'Fit a model first.');
-  const res = await bootstrapValidation(toPipeline(data, s.request), { B: replicates, seed: 1 }, { ...hooks, tick });
-  s.validation = res;
+  const current = requireRecord(s);
+  const request: AnalysisRequest = {
+    ...current.request,
+    validation: { method: 'bootstrap', replicates, seed: current.request.seed },
+  };
+  const res = await internalValidation(data, request, { ...hooks, tick });
+  if (s.record === current) s.record = { ...current, request, validation: res };
   const nan = (x: number | null) => (x === null ? NaN : x);
   return {
     replicates: res.planned - res.failed,
@@ -39,7 +42,8 @@ export async function validate(s: Session, replicates: number, hooks: Hooks): Pr
  */
 export function lossSurface(s: Session, a: number, b: number): LossSurfaceView {
   const f = requireFit(s);
-  const ridgeOnly = s.request?.method === 'ridge' || s.request?.method === 'ml' || s.request?.method === 'firth';
+  const method = requireRecord(s).request.method;
+  const ridgeOnly = method === 'ridge' || method === 'ml' || method === 'firth';
   const r = engineLossSurface(ridgeOnly ? f : { ...f, method: 'ml' }, requireData(s), {
     i: a,
     j: b,
@@ -59,8 +63,9 @@ export function lossSurface(s: Session, a: number, b: number): LossSurfaceView {
 
 /** The fitted model applied unchanged to a new file with known outcomes; logistic recalibration for that setting. */
 export function externalValidate(s: Session, imported: ImportResult): ExternalView {
-  const f = requireFit(s);
-  const ext = externalValidation(f, imported.dataset, { level: f.level, rocPoints: 400 });
+  const current = requireRecord(s);
+  const ext = externalValidationStep(current, imported.dataset);
+  s.record = { ...current, external: ext };
   const rs = ext.recalibration.interceptSlope;
   return {
     n: ext.nUsed,

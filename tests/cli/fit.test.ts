@@ -11,7 +11,7 @@ const ref = JSON.parse(readFileSync('tests/fixtures/reference/fit-birthwt.json',
 const relErr = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
 
 describe('npm run fit', () => {
-  it('prints a JSON record that matches R glm() on MASS::birthwt (R 4.2.2 stats::glm, fixture fit-birthwt.json)', () => {
+  it('prints a JSON record that matches R glm() on MASS::birthwt (R 4.2.2 stats::glm, fit-birthwt.json)', () => {
     const stdout = execFileSync(
       'npx',
       [
@@ -131,13 +131,20 @@ describe('parseFitArgs', () => {
       reference: { b: 'low' },
       splines: { a: 4 },
       interactions: [['a', 'b']],
-      costs: { fn: 10, fp: 1 },
+      costs: { missedCase: 10, falseAlarm: 1 },
       threshold: 0.2,
       bootstrap: 50,
       seed: 7,
       threads: 3,
       json: true,
     });
+  });
+
+  it('reads the penalty, its λ rule, the level and the costs in the one vocabulary', () => {
+    const argv = ['d.csv', '--outcome', 'y', '--penalty', 'elastic-net', '--alpha', '0.3', '--lambda-rule', 'cv-min'];
+    const a = parseFitArgs([...argv, '--level', '0.9', '--costs', '10:1']);
+    expect(a).toMatchObject({ penalty: 'elastic-net', alpha: 0.3, lambdaRule: 'cv-min', level: 0.9 });
+    expect(a.costs).toEqual({ missedCase: 10, falseAlarm: 1 });
   });
 
   it.each([
@@ -149,6 +156,9 @@ describe('parseFitArgs', () => {
     [['d.csv', '--outcome', 'y', '--firth', '--ridge', '1'], 'one of'],
     [['d.csv', '--outcome', 'y', '--frobnicate'], 'Unknown option'],
     [['d.csv', '--outcome', 'y', '--threads', '0'], 'from 1 to 64'],
+    [['d.csv', '--outcome', 'y', '--penalty', 'enet'], 'elastic-net'],
+    [['d.csv', '--outcome', 'y', '--ridge', '1', '--penalty', 'lasso'], 'one of'],
+    [['d.csv', '--outcome', 'y', '--lambda-rule', 'min'], 'cv-1se or cv-min'],
   ])('rejects %j with a message', (argv, text) => {
     expect(() => parseFitArgs(argv)).toThrow(FulcraError);
     expect(() => parseFitArgs(argv)).toThrow(text);
@@ -156,7 +166,8 @@ describe('parseFitArgs', () => {
 });
 
 describe('runFit (the record behind npm run fit --json)', () => {
-  it('validates externally with the same calibration-in-the-large and slope as R glm with an offset (fixture validate-recalibration.json, R 4.2.2 stats::glm)', async () => {
+  // fixture validate-recalibration.json, R 4.2.2 stats::glm with an offset
+  it('validates externally with the calibration-in-the-large and slope of R glm with an offset', async () => {
     const { runFit } = await import('../../src/cli/runFit');
     const rec = JSON.parse(readFileSync('tests/fixtures/reference/validate-recalibration.json', 'utf8'));
     const argv = [
@@ -199,9 +210,11 @@ describe('runFit (the record behind npm run fit --json)', () => {
     ];
     const a = await runFit(parseFitArgs(argv), argv, 'test');
     const b = await runFit(parseFitArgs(argv), argv, 'test');
-    expect(a.fit).toBeNull();
-    expect(a.penalised!.method).toBe('lasso');
-    expect(a.penalised!.lambda).toBeGreaterThan(0);
+    expect(a.fit.method).toBe('lasso');
+    expect(a.fit.coefficients.every((c) => c.se === null && c.p === null)).toBe(true);
+    expect(a.lambda!.rule).toBe('cv-1se');
+    expect(a.fit.lambda).toBe(a.lambda!.chosen);
+    expect(a.lambda!.chosen).toBeGreaterThan(0);
     expect(a.validation!.rows).toEqual(b.validation!.rows);
     expect(a.validation!.rows.find((r) => r.metric === 'auc')!.corrected).toBeLessThanOrEqual(
       a.evaluation.auc.auc! + 1e-12,

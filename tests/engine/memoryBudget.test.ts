@@ -205,15 +205,18 @@ const PROBE_DATA = `
         x1[i] = rng.normal(); x2[i] = rng.normal(); g[i] = Math.floor(rng.next() * L);
         y[i] = rng.next() < 1 / (1 + Math.exp(0.5 - 0.4 * x1[i] + 0.2 * x2[i] - 0.05 * (g[i] % 6))) ? 1 : 0;
       }
-      const data = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y }, { kind: 'numeric', name: 'x1', values: x1 },
-        { kind: 'numeric', name: 'x2', values: x2 }, { kind: 'categorical', name: 'g', codes: g, levels: Array.from({ length: L }, (_, l) => 'L' + l) }] };`;
+      const levels = Array.from({ length: L }, (_, l) => 'L' + l);
+      const data = { nRows: n, columns: [{ kind: 'numeric', name: 'y', values: y },
+        { kind: 'numeric', name: 'x1', values: x1 }, { kind: 'numeric', name: 'x2', values: x2 },
+        { kind: 'categorical', name: 'g', codes: g, levels }] };`;
 
 describe('estimates against measured memory', () => {
   it('covers the measured peak of a 100 000-row fit with 30 design columns, within a factor of 4', async () => {
     const m = await probe(`
       const { fit } = await import(root + 'src/engine/fitting/fit.ts');
       ${PROBE_DATA}
-      const spec = { outcome: 'y', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
+      const spec = { outcome: 'y',
+        terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
       globalThis.gc();
       const before = peak(), rss = process.memoryUsage().rss;
       const r = fit(data, spec, { profile: false });
@@ -227,25 +230,31 @@ describe('estimates against measured memory', () => {
     expect(est).toBeLessThanOrEqual(4 * measured);
   }, 180_000);
 
-  it("covers the measured peak of the worker's whole fit job (fit with profile intervals and term tests, then the evaluation) at 100 000 × 30", async () => {
-    const m = await probe(`
+  it(
+    "covers the measured peak of the worker's whole fit job (fit with profile intervals and term tests, then " +
+      'the evaluation) at 100 000 × 30',
+    async () => {
+      const m = await probe(`
       const { createApi } = await import(root + 'src/worker/api.ts');
       ${PROBE_DATA}
-      const spec = { outcome: 'y', event: '1', terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
+      const spec = { outcome: 'y', event: '1',
+        terms: [{ type: 'main', column: 'x1' }, { type: 'main', column: 'x2' }, { type: 'main', column: 'g' }] };
       const api = createApi();
       await api.loadDataset(data, null, 'probe.csv');
       globalThis.gc();
       const before = peak(), rss = process.memoryUsage().rss;
-      const v = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: true }, 'job');
+      const v = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, profile: true }, 'job');
       console.log(JSON.stringify({ before, rss, after: peak(), n, p: v.fit.coefficients.length }));
     `);
-    expect(m.p).toBe(30);
-    expect(m.after).toBeGreaterThan(m.before);
-    const measured = m.after - m.rss;
-    const est = estimateFitBytes({ rows: m.n, designColumns: m.p }).bytes;
-    expect(est).toBeGreaterThanOrEqual(measured);
-    expect(est).toBeLessThanOrEqual(4 * measured);
-  }, 180_000);
+      expect(m.p).toBe(30);
+      expect(m.after).toBeGreaterThan(m.before);
+      const measured = m.after - m.rss;
+      const est = estimateFitBytes({ rows: m.n, designColumns: m.p }).bytes;
+      expect(est).toBeGreaterThanOrEqual(measured);
+      expect(est).toBeLessThanOrEqual(4 * measured);
+    },
+    180_000,
+  );
 
   it('covers the measured peak of importing a 100 000-row, 11-column CSV, within a factor of 4', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'fulcra-csv-'));
@@ -269,7 +278,8 @@ describe('estimates against measured memory', () => {
     expect(m.after).toBeGreaterThan(m.before);
     const measured = m.after - m.rss;
     const sample = lines.slice(0, 600).join('\n');
-    const est = estimateImportBytes(sampleShape(sample, m.fileBytes, sample.length)).bytes - m.fileBytes; // the file was already loaded
+    // the file was already loaded
+    const est = estimateImportBytes(sampleShape(sample, m.fileBytes, sample.length)).bytes - m.fileBytes;
     expect(est).toBeGreaterThanOrEqual(measured);
     expect(est).toBeLessThanOrEqual(4 * measured);
   }, 180_000);

@@ -176,7 +176,7 @@ describe('a non-finite value in X', () => {
     [Infinity, 'zero weight on that row', 200],
     [NaN, 'zero start', 40_000],
     [-Infinity, 'nonzero start', 40_000],
-  ])('%s (%s, n = %i) is reported with its row and column', (bad, how, n) => {
+  ])('%s (%s, n = %i) is reported with its position and column', (bad, how, n) => {
     const pr = problem(n, 3, 17);
     const row = n - 7,
       col = 2;
@@ -186,6 +186,6 @@ describe('a non-finite value in X', () => {
       pr.weights = new Float64Array(n).fill(1);
       pr.weights[row] = 0;
     }
-    expect(() => newtonLogistic(pr, { tol: 1e-10 })).toThrow(`in row ${row}, column ${col}`);
+    expect(() => newtonLogistic(pr, { tol: 1e-10 })).toThrow(`value number ${row + 1} of design column ${col + 1}.`);
   });
 });

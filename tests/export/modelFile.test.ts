@@ -1,4 +1,5 @@
 import { expectFulcraError } from './expectFulcraError';
+import { deleteAt, getAt, setAt } from './editJson';
 import { describe, expect, it } from 'vitest';
 import { fit } from '../../src/engine/fitting/fit';
 import { predict } from '../../src/engine/fitting/predict';
@@ -23,13 +24,13 @@ const saved = () =>
       fileName: 'birthwt.csv',
       rows: data.nRows,
       performance: { auc: 0.708 },
-      threshold: { value: 1 / 6, costFalseNegative: 5, costFalsePositive: 1 },
+      threshold: { value: 1 / 6, costMissedCase: 5, costFalseAlarm: 1 },
       notes: { purpose: 'audit' },
     }),
   );
 
 describe('model file', () => {
-  it('round-trips: save → load → identical predictions (bit for bit) and intervals on birthwt with splines and interactions', () => {
+  it('round-trips birthwt with splines and interactions: the same predictions (bit for bit) and intervals', () => {
     const reopened = modelFileToFitResult(readModelFile(saved()));
     const a = predict(result, data);
     const b = predict(reopened, data);
@@ -39,7 +40,7 @@ describe('model file', () => {
     expect(Array.from(b.upper)).toEqual(Array.from(a.upper));
   });
 
-  it('keeps the schema fields: version, recipe, coefficients, covariance, training summary, threshold, checksum', () => {
+  it('keeps the schema fields: version, recipe, coefficients, covariance, training, threshold, checksum', () => {
     const f = JSON.parse(saved());
     expect(f.fulcraModel).toBe(MODEL_FILE_VERSION);
     expect(f.recipe).toEqual(result.recipe);
@@ -50,9 +51,17 @@ describe('model file', () => {
     expect(f.fit.nUsed).toBe(189);
     expect(f.fit.events).toBe(59);
     expect(f.training).toEqual({ fileName: 'birthwt.csv', rows: 189, performance: { auc: 0.708 } });
-    expect(f.threshold).toEqual({ value: 1 / 6, costFalseNegative: 5, costFalsePositive: 1 });
+    expect(f.threshold).toEqual({ value: 1 / 6, costMissedCase: 5, costFalseAlarm: 1 });
     expect(f.dataChecksum).toBe(datasetChecksum(data));
     expect(f.created).toBe('2026-12-02T01:40:00Z');
+  });
+
+  it('reads a file saved before the one cost vocabulary (costFalseNegative / costFalsePositive)', () => {
+    const old = saved()
+      .replace('"costMissedCase": 5', '"costFalseNegative": 5')
+      .replace('"costFalseAlarm": 1', '"costFalsePositive": 1');
+    expect(old).toContain('"costFalsePositive": 1');
+    expect(readModelFile(old).threshold).toEqual({ value: 1 / 6, costMissedCase: 5, costFalseAlarm: 1 });
   });
 
   it('refuses another schema version, and a workspace file, with a clear message', () => {
@@ -71,13 +80,22 @@ describe('model file', () => {
   });
 
   it('names the missing or wrong field', () => {
-    const cases: [(f: any) => void, RegExp][] = [
-      [(f) => delete f.recipe, /"recipe" is missing/],
-      [(f) => (f.coefficients[2].estimate = 'x'), /"coefficients\[2\]\.estimate" must be a number/],
-      [(f) => f.coefficients.pop(), /"coefficients" has 10 rows but recipe\.columnNames has 11/],
-      [(f) => (f.recipe.terms[2].reference = '9'), /"recipe\.terms\[2\]\.reference" \("9"\) is not one of the levels/],
-      [(f) => (f.covariance = [1, 2]), /"covariance" must have 121 entries/],
-      [(f) => (f.fit.method = 'boosted'), /"fit\.method" must be one of ml, ridge, firth, lasso, elastic-net/],
+    const cases: [(f: unknown) => void, RegExp][] = [
+      [(f) => deleteAt(f, ['recipe']), /"recipe" is missing/],
+      [(f) => setAt(f, ['coefficients', 2, 'estimate'], 'x'), /"coefficients\[2\]\.estimate" must be a number/],
+      [
+        (f) => (getAt(f, ['coefficients']) as unknown[]).pop(),
+        /"coefficients" has 10 rows but recipe\.columnNames has 11/,
+      ],
+      [
+        (f) => setAt(f, ['recipe', 'terms', 2, 'reference'], '9'),
+        /"recipe\.terms\[2\]\.reference" \("9"\) is not one of the levels/,
+      ],
+      [(f) => setAt(f, ['covariance'], [1, 2]), /"covariance" must have 121 entries/],
+      [
+        (f) => setAt(f, ['fit', 'method'], 'boosted'),
+        /"fit\.method" must be one of ml, ridge, firth, lasso, elastic-net/,
+      ],
     ];
     for (const [edit, message] of cases) {
       const f = JSON.parse(saved());

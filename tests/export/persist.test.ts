@@ -40,7 +40,7 @@ const ws: Workspace = {
   fitOptions: { method: 'ml' },
   seed: 1,
   threshold: 0.1,
-  costs: { falseNegative: 9, falsePositive: 1 },
+  costs: { missedCase: 9, falseAlarm: 1 },
   freeText: { purpose: 'p' },
 };
 
@@ -55,7 +55,7 @@ async function rejection(p: Promise<unknown>): Promise<FulcraError> {
 }
 
 describe('persist (IndexedDB via idb-keyval)', () => {
-  it('saves and restores the workspace, typed arrays included; null when nothing is stored; clear removes it', async () => {
+  it('saves and restores the workspace with its typed arrays; null if none is stored; clear removes it', async () => {
     const backend = memoryBackend();
     expect(await loadWorkspaceFromBrowser({ backend })).toBeNull();
     await saveWorkspaceToBrowser(ws, '0.1.0', { backend, saved: '2026-12-02T02:00:00Z' });
@@ -66,7 +66,7 @@ describe('persist (IndexedDB via idb-keyval)', () => {
     expect(await loadWorkspaceFromBrowser({ backend })).toBeNull();
   });
 
-  it('reports a full store (QuotaExceededError) as PersistError "storage-full" with a file-export suggestion', async () => {
+  it('reports a full store (QuotaExceededError) as PersistError "storage-full", suggesting a file export', async () => {
     const e = await rejection(
       saveWorkspaceToBrowser(ws, '0.1.0', {
         backend: memoryBackend({ on: 'set', error: new DOMException('quota', 'QuotaExceededError') }),

@@ -57,7 +57,7 @@ describe('scoring with exported models reproduces R glm() risks on birthwt', () 
   );
   const scorer = pmmlScorer(parseXml(modelToPmml(result, { fulcraVersion: '0.1.0', created: '2026-12-02T02:00:00Z' })));
 
-  it('a re-opened model file gives R\u2019s fitted risks (max error < 1e-9) and R\u2019s predict() on new cases', () => {
+  it("a re-opened model file gives R's fitted risks (max error < 1e-9) and R's predict() on new cases", () => {
     expect(maxAbs(predict(reopened, data).risk, ref.fitted)).toBeLessThan(1e-9);
     const p = predict(reopened, newData);
     expect(p.rowsUsed.length).toBe(newData.nRows);

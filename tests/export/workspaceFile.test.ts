@@ -1,4 +1,5 @@
 import { expectFulcraError } from './expectFulcraError';
+import { getAt, setAt } from './editJson';
 import { describe, expect, it } from 'vitest';
 import type { Dataset } from '../../src/engine/core/data';
 import { fit } from '../../src/engine/fitting/fit';
@@ -39,7 +40,7 @@ function workspace(): Workspace {
     fitOptions: { method: 'firth', level: 0.9, profile: false },
     seed: 42,
     threshold: 0.2,
-    costs: { falseNegative: 4, falsePositive: 1 },
+    costs: { missedCase: 4, falseAlarm: 1 },
     freeText: { purpose: 'Audit \u2264 30 days', setting: 'Ward 3', population: 'adults' },
     extra: { columnTypes: { race: 'categorical' }, tab: 'threshold' },
   };
@@ -62,6 +63,26 @@ describe('workspace file', () => {
       if (c.kind === 'numeric') expect(d.kind === 'numeric' && d.values instanceof Float64Array).toBe(true);
       else expect(d.kind === 'categorical' && d.codes instanceof Int32Array).toBe(true);
     }
+  });
+
+  it('keeps the spreadsheet row number of the first data row (a file read without a header starts at row 1)', () => {
+    const ws = workspace();
+    ws.data = { ...ws.data!, firstRow: 1 };
+    expect(readWorkspaceFile(workspaceToJson(ws, info)).workspace.data!.firstRow).toBe(1);
+    const plain = workspace();
+    expect(readWorkspaceFile(workspaceToJson(plain, info)).workspace.data!.firstRow).toBeUndefined();
+    expect(() => readWorkspaceFile(workspaceToJson({ ...ws, data: { ...ws.data!, firstRow: 0 } }, info))).toThrow(
+      /workspace\.data\.firstRow/,
+    );
+  });
+
+  it('reads a file saved before the one cost vocabulary (costs named falseNegative / falsePositive)', () => {
+    const old = workspaceToJson(workspace(), info).replace(
+      '"costs":{"missedCase":4,"falseAlarm":1}',
+      '"costs":{"falseNegative":4,"falsePositive":1}',
+    );
+    expect(old).toContain('"falseNegative":4');
+    expect(readWorkspaceFile(old).workspace.costs).toEqual({ missedCase: 4, falseAlarm: 1 });
   });
 
   it('re-opens to the same fit', () => {
@@ -106,13 +127,13 @@ describe('workspace file', () => {
 
   it('refuses another version, a model file, damaged data and wrong fields, naming what is wrong', () => {
     const good = JSON.parse(workspaceToJson(workspace(), info));
-    const edit = (f: (o: any) => void) => {
+    const edit = (f: (o: unknown) => void) => {
       const o = structuredClone(good);
       f(o);
       return JSON.stringify(o);
     };
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.fulcraWorkspace = 3))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['fulcraWorkspace'], 3))),
       'workspace-file-version',
       /schema version 3/,
     );
@@ -122,39 +143,37 @@ describe('workspace file', () => {
     expectFulcraError(
       () =>
         readWorkspaceFile(
-          edit(
-            (o) =>
-              (o.workspace.data.columns[1].values =
-                o.workspace.data.columns[1].values.slice(0, 10) +
-                flip(o.workspace.data.columns[1].values) +
-                o.workspace.data.columns[1].values.slice(11)),
-          ),
+          edit((o) => {
+            const path = ['workspace', 'data', 'columns', 1, 'values'];
+            const s = getAt(o, path) as string;
+            setAt(o, path, s.slice(0, 10) + flip(s) + s.slice(11));
+          }),
         ),
       'workspace-file-invalid',
       /"workspace\.data" does not match its checksum/,
     );
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[2].values = 'AAAA'))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['workspace', 'data', 'columns', 2, 'values'], 'AAAA'))),
       'workspace-file-invalid',
       /"workspace\.data\.columns\[2\]\.values" holds 0\.375 values; nRows is 189/,
     );
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[0].values = '@@@@'))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['workspace', 'data', 'columns', 0, 'values'], '@@@@'))),
       'workspace-file-invalid',
       /is not valid base64/,
     );
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.workspace.spec.terms[0].type = 'square'))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['workspace', 'spec', 'terms', 0, 'type'], 'square'))),
       'workspace-file-invalid',
       /"workspace\.spec\.terms\[0\]\.type" must be one of main, spline, interaction/,
     );
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.workspace.costs.falsePositive = 'one'))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['workspace', 'costs', 'falseAlarm'], 'one'))),
       'workspace-file-invalid',
-      /"workspace\.costs\.falsePositive" must be a number/,
+      /"workspace\.costs\.falseAlarm" must be a number/,
     );
     expectFulcraError(
-      () => readWorkspaceFile(edit((o) => (o.workspace.data.columns[3].levels = ['1']))),
+      () => readWorkspaceFile(edit((o) => setAt(o, ['workspace', 'data', 'columns', 3, 'levels'], ['1']))),
       'workspace-file-invalid',
       /checksum|outside the 1 levels/,
     );

@@ -34,7 +34,7 @@ async function onlyFulcraErrors(run: () => Promise<ImportResult>): Promise<Impor
   }
 }
 
-/** Bytes that matter to a delimited-text reader, mixed with random ones (no NUL: a NUL makes the file binary, tested below). */
+/** Bytes that matter to a delimited-text reader, mixed with random ones (no NUL: a NUL makes the file binary). */
 const hostileByte = fc.oneof(
   { weight: 1, arbitrary: fc.integer({ min: 1, max: 255 }) },
   { weight: 10, arbitrary: fc.constantFrom(...Array.from(',;\t|"\r\n\n\na1.- eNA', (c) => c.charCodeAt(0))) },

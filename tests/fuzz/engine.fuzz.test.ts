@@ -107,7 +107,7 @@ describe('engine under hostile designs', () => {
           const y = Float64Array.from(rows, ({ row }) => y01[row]);
           const risk = Float64Array.from(rows, ({ k }) => pr.value.risk[k]);
           const eta = Float64Array.from(rows, ({ k }) => pr.value.eta[k]);
-          const costs = { falseNegative: 5, falsePositive: 1 };
+          const costs = { missedCase: 5, falseAlarm: 1 };
           const ev = guarded(() => evaluate(y, risk, { eta, costs }));
           if ('error' in ev) throw ev.error; // risks from a fit are valid input
           expect(nonFinitePaths(ev.value), 'evaluation').toEqual([]);

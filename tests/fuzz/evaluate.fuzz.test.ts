@@ -20,8 +20,8 @@ const scored = fc.array(fc.tuple(fc.constantFrom(0, 1), risk, fc.constantFrom(0,
   maxLength: 120,
 });
 const costs = fc.record({
-  falseNegative: fc.constantFrom(0, 1, 5, 1e6),
-  falsePositive: fc.constantFrom(0.001, 1, 3),
+  missedCase: fc.constantFrom(0, 1, 5, 1e6),
+  falseAlarm: fc.constantFrom(0.001, 1, 3),
   truePositiveBenefit: fc.constantFrom(undefined, 0, 2),
 });
 

@@ -10,7 +10,7 @@ describe('evaluation reproductions (fuzz findings)', () => {
   it('control: the same functions on ordinary input return only finite numbers', () => {
     const y = Float64Array.of(1, 0, 1, 0, 0, 1, 0, 0, 1, 0);
     const p = Float64Array.of(0.9, 0.1, 0.7, 0.3, 0.2, 0.6, 0.4, 0.15, 0.8, 0.5);
-    expect(nonFinitePaths(evaluate(y, p, { costs: { falseNegative: 5, falsePositive: 1 } }))).toEqual([]);
+    expect(nonFinitePaths(evaluate(y, p, { costs: { missedCase: 5, falseAlarm: 1 } }))).toEqual([]);
     expect(nonFinitePaths(prCurve(y, p, { weights: new Float64Array(10).fill(1) }))).toEqual([]);
   });
 
@@ -39,7 +39,7 @@ describe('evaluation reproductions (fuzz findings)', () => {
       /weight is 0/,
     );
     const prep = prepareThresholds(Float64Array.of(1, 0), Float64Array.of(0.2, 0.7), Float64Array.of(0, 1));
-    const costs = { falseNegative: 5, falsePositive: 1 };
+    const costs = { missedCase: 5, falseAlarm: 1 };
     expect(nonFinitePaths([costThresholds(prep, costs), expectedCostCurve(prep, costs)])).toEqual([]);
   });
 });

@@ -84,7 +84,7 @@ describe('CsvTokenizer', () => {
     );
   });
 
-  it('property: on any bytes, importFile (as .csv or .xlsx) either returns a result or throws a FulcraError', async () => {
+  it('property: on any bytes, importFile (.csv or .xlsx) either returns a result or throws a FulcraError', async () => {
     const zipLike = fc.uint8Array({ maxLength: 300 }).map((b) => Uint8Array.from([0x50, 0x4b, 3, 4, ...b]));
     await fc.assert(
       fc.asyncProperty(

@@ -86,7 +86,7 @@ afterAll(() => {
 });
 
 describe('served build (npm run build)', () => {
-  it('has one policy, before any script or stylesheet, with no connection, no eval and scripts only from its own files', () => {
+  it('has one policy, before any script or stylesheet: no connection, no eval, scripts only from its own files', () => {
     const html = readFileSync(join(normal, 'index.html'), 'utf8');
     const metas = metaPolicies(html);
     expect(metas).toHaveLength(1);
@@ -113,7 +113,7 @@ describe('served build (npm run build)', () => {
 });
 
 describe('both builds', () => {
-  it("leave out jsPDF's optional HTML/SVG-image modules (html2canvas, DOMPurify, canvg), which Fulcra never calls", () => {
+  it("leave out jsPDF's optional HTML/SVG-image modules (html2canvas, DOMPurify, canvg), never called", () => {
     const files = [...walk(normal), ...walk(single)];
     expect(files.filter((f) => /[\\/](html2canvas|purify\.es|index\.es)-[\w-]+\.js$/.test(f))).toEqual([]);
     const all = files
@@ -153,7 +153,7 @@ describe('single-file build (npm run build:single)', () => {
     expect(metas[0].policy).not.toContain("'self'");
   });
 
-  it('keeps every inline script intact: no </script or <!-- inside the code that could end or escape the element', () => {
+  it('keeps every inline script intact: no </script or <!-- in the code that could end or escape the element', () => {
     const html = readFileSync(join(single, 'fulcra.html'), 'utf8');
     expect((html.match(/<script\b/gi) ?? []).length).toBe((html.match(/<\/script>/gi) ?? []).length);
     for (const m of html.matchAll(/<script\b[^>]*>([\s\S]*?)<\/script>/gi)) {

@@ -76,7 +76,7 @@ describe('source privacy scan', () => {
 
   it('finds the source files', () => expect(files.length).toBeGreaterThan(20));
 
-  it('has no innerHTML/eval/new Function/dangerouslySetInnerHTML and no outside URL in code under src/ or index.html', () => {
+  it('has no innerHTML/eval/new Function/dangerouslySetInnerHTML and no outside URL in src/ or index.html', () => {
     const findings: Finding[] = [];
     for (const f of files) {
       const rel = relative(ROOT, f);

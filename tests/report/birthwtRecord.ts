@@ -59,7 +59,7 @@ export const birthwtRichSpec: ModelSpec = {
   ],
 };
 
-export const COSTS = { falseNegative: 5, falsePositive: 1 };
+export const COSTS = { missedCase: 5, falseAlarm: 1 };
 
 export async function birthwtReportInput(spec: ModelSpec = birthwtSpec): Promise<ReportInput> {
   const data = loadBirthwt();
@@ -86,7 +86,8 @@ export async function birthwtReportInput(spec: ModelSpec = birthwtSpec): Promise
     source: { fileName: 'birthwt.csv', rows: data.nRows, columns: data.columns.length, dateRange: null },
     freeText: {
       purpose:
-        'Flag pregnancies at high risk of a low birth weight (< 2.5 kg) at booking so that extra antenatal review can be offered.',
+        'Flag pregnancies at high risk of a low birth weight (< 2.5 kg) at booking ' +
+        'so that extra antenatal review can be offered.',
       setting: 'Baystate Medical Center, Springfield, Massachusetts, 1986 (the MASS::birthwt data).',
       population: 'Mothers delivering at the centre; 189 births.',
     },

@@ -108,7 +108,8 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
     const smoke = input.model.coefficients.find((c) => c.name === 'smoke')!;
     const row =
       `smoke ${formatFixed(smoke.estimate, 4)} ${formatFixed(smoke.se, 4)} ${formatFixed(smoke.oddsRatio, 3)} ` +
-      `${formatFixed(Math.exp(smoke.profileLower!), 3)} to ${formatFixed(Math.exp(smoke.profileUpper!), 3)} ${formatP(smoke.p)}`;
+      `${formatFixed(Math.exp(smoke.profileLower!), 3)} to ${formatFixed(Math.exp(smoke.profileUpper!), 3)} ` +
+      formatP(smoke.p);
     expect(text.replace(/\s+/g, ' ')).toContain(row);
     const ageLwt = input.model.coefficients.find((c) => c.name === 'age:lwt')!;
     expect(Math.abs(ageLwt.estimate)).toBeLessThan(0.005);
@@ -125,7 +126,8 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
     expect(text).toContain('20 replicates');
     const ce = input.calibrationErrors!;
     expect(text.replace(/\s+/g, ' ')).toContain(
-      `ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)}`,
+      `ICI ${formatFixed(ce.ici, 3)}, E50 ${formatFixed(ce.e50, 3)}, ` +
+        `E90 ${formatFixed(ce.e90, 3)}, Emax ${formatFixed(ce.emax, 3)}`,
     );
   });
 
@@ -160,7 +162,7 @@ describe('model-summary PDF of a real birthwt fit with splines and interactions'
 });
 
 describe('model-summary PDF with little to report', () => {
-  it('builds for a ridge fit with no inference and no evaluation, saying what is missing, numbering sections without gaps', () => {
+  it('builds for a ridge fit with no inference or evaluation, says what is missing, numbers sections in order', () => {
     const data = loadBirthwt();
     const ridge = fit(data, birthwtSpec, { method: 'ridge', lambda: 0.05 });
     const input: ReportInput = {

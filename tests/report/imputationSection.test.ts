@@ -22,7 +22,7 @@ describe('model-summary PDF after multiple imputation (through the worker api)',
     event: '1',
     terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
   };
-  const req: FitRequest = { spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: false };
+  const req: FitRequest = { spec, method: 'ml', level: 0.95, alpha: 1, profile: false };
   const costs = { missedCase: 5, falseAlarm: 1 };
 
   it('adds the pooled model beside the complete-case one, and drops it after a new fit', async () => {

@@ -168,3 +168,54 @@ describe('reading the same file again', () => {
     expect(other.outcome).toBeNull();
   });
 });
+
+describe('what follows a change (intents)', () => {
+  /** Applies `intent` to `before` and returns the new state with the effects it calls for. */
+  const act = <I>(intent: A.Intent<I>, before: AppState, input: I) => {
+    const after = intent.perform(before, input);
+    return { after, effects: intent.follows(before, after) };
+  };
+  const fitted = (s: AppState): AppState => ({ ...s, fit: {} as FitView });
+
+  it('a change of outcome, event, predictor or interaction asks for the rows the model would drop', () => {
+    let s = act(A.changeOutcome, loaded(), { column: 'infected' });
+    expect(s.effects).toEqual(['refresh-drop-report']);
+    s = act(A.changeRole, s.after, { column: 'age', role: { include: true } });
+    expect(s.effects).toEqual(['refresh-drop-report']);
+    s = act(A.changeRole, s.after, { column: 'ward', role: { include: true } });
+    expect(act(A.changeInteraction, s.after, ['age', 'ward']).effects).toEqual(['refresh-drop-report']);
+    expect(act(A.changeEvent, s.after, 'no').effects).toEqual(['refresh-drop-report']);
+  });
+
+  it('asks for nothing when the change is refused or there are no data', () => {
+    const s = A.chooseOutcome(loaded(), { column: 'infected' });
+    expect(act(A.changeRole, s, { column: 'infected', role: { include: true } }).effects).toEqual([]);
+    expect(act(A.changeOutcome, s, { column: 'no such column' }).effects).toEqual([]);
+    expect(act(A.changeEvent, initialState, 'yes').effects).toEqual([]);
+  });
+
+  it('moving the cut-off asks for the confusion matrix only when there is a model and the cut-off moved', () => {
+    expect(act(A.moveCutoff, loaded(), 0.2).effects).toEqual([]);
+    expect(act(A.moveCutoff, fitted(loaded()), 0.2).effects).toEqual(['query-threshold']);
+    expect(act(A.moveCutoff, fitted(loaded()), 0.5).effects).toEqual([]);
+    expect(act(A.moveCutoff, fitted(loaded()), NaN).effects).toEqual([]);
+  });
+
+  it('a new cost asks for the cost curve; a refused cost asks for nothing', () => {
+    const s = fitted(loaded());
+    const moved = act(A.changeCosts, s, { missedCase: 4 });
+    expect(moved.after.costs).toEqual({ missedCase: 4, falseAlarm: 1 });
+    expect(moved.effects).toEqual(['refresh-costs']);
+    expect(act(A.changeCosts, s, { falseAlarm: 0 }).effects).toEqual([]);
+    expect(act(A.changeCosts, loaded(), { missedCase: 4 }).effects).toEqual([]);
+  });
+
+  it('reading a column as another type keeps the other choices and reads a file again, not a demo', () => {
+    const s = { ...loaded(), importSettings: { ...loaded().importSettings, columnTypes: { age: 'text' as const } } };
+    const file = act(A.readColumnAs, s, { column: 'ward', type: 'text' });
+    expect(file.after.importSettings.columnTypes).toEqual({ age: 'text', ward: 'text' });
+    expect(file.effects).toEqual(['reread']);
+    const demo = { ...s, data: { ...data, source: { kind: 'demo' as const, name: 'SSI', notice: null } } };
+    expect(act(A.readColumnAs, demo, { column: 'ward', type: 'text' }).effects).toEqual([]);
+  });
+});

@@ -69,6 +69,52 @@ describe('controller with the worker api in-process', () => {
     expect(store.get().fit?.fit.method).toBe('firth');
   });
 
+  it('a cost changed through the controller brings the cost curve and the matrix up to date', async () => {
+    const { store, ctl } = harness();
+    await ctl.startDemo('ssi');
+    await ctl.act(A.changeCosts, { missedCase: 4 });
+    const s = store.get();
+    expect(s.costView?.optimal.decisionTheory.threshold).toBeCloseTo(1 / 5, 12);
+    expect(s.thresholdView?.metrics.threshold).toBe(s.threshold);
+    await ctl.act(A.moveCutoff, 0.3);
+    expect(store.get().thresholdView?.metrics.threshold).toBe(0.3);
+  });
+
+  it('a load and every role change bring the drop report up to date', async () => {
+    const { store, ctl } = harness();
+    await ctl.pasteText('age\tward\tinfected\n50\tA\tno\n61\t\tyes\n\tB\tyes\n45\tA\tno\n38\tB\tno\n');
+    expect(store.get().dropReport).toBeNull();
+    await ctl.act(A.changeOutcome, { column: 'infected', event: 'yes' });
+    await ctl.act(A.changeRole, { column: 'age', role: { include: true } });
+    expect(store.get().dropReport).toMatchObject({ nRows: 5, droppedRows: 1 });
+    await ctl.act(A.changeRole, { column: 'ward', role: { include: true } });
+    expect(store.get().dropReport).toMatchObject({ nRows: 5, droppedRows: 2 });
+    await ctl.act(A.changeRole, { column: 'age', role: { include: false } });
+    expect(store.get().dropReport).toMatchObject({ droppedRows: 1 });
+    await ctl.pasteText('age\tinfected\n50\tno\n\tyes\n');
+    expect(store.get().dropReport).toBeNull();
+    await ctl.startDemo('ssi');
+    expect(store.get().dropReport?.nRows).toBe(store.get().data?.nRows);
+  });
+
+  it('the data summary gives the spreadsheet row of the first data row: 2 below a header, 1 without one', async () => {
+    const { store, ctl } = harness();
+    await ctl.pasteText('age\tinfected\n50\tno\n61\tyes\n');
+    expect(store.get().data?.firstRow).toBe(2);
+    store.apply(A.setImportSettings, { header: 'no' });
+    await ctl.pasteText('50\tno\n61\tyes\n70\tyes\n');
+    expect(store.get().data?.firstRow).toBe(1);
+  });
+
+  it('a remedy taken from a notice removes that notice', async () => {
+    const { store, ctl } = harness();
+    store.apply(A.notify, { kind: 'warning', text: 'Few events.', action: 'reload' });
+    const id = store.get().notices[0].id;
+    await ctl.useRemedy('reload', id);
+    expect(store.get().notices).toEqual([]);
+    expect(store.get().view).toBe('data');
+  });
+
   it('a cancelled bootstrap ends as "cancelled" with no error and no job left', async () => {
     const { store, ctl, errors } = harness();
     await ctl.startDemo('ssi');

@@ -66,7 +66,7 @@ function memoryBackend(
 const estimates = (s: ReturnType<typeof createStore>) => s.get().fit?.fit.coefficients.map((c) => c.estimate) ?? [];
 
 describe('engine crash containment', () => {
-  it('after a crash the restarted engine gets the data back and the model is refitted to the same estimates', async () => {
+  it('after a crash the restarted engine gets the data back and the model is refitted to the same fit', async () => {
     const { store, ctl, crash, errors } = harness();
     await ctl.startDemo('ssi');
     store.apply(A.setThreshold, 0.2);
@@ -80,7 +80,8 @@ describe('engine crash containment', () => {
     expect(s.threshold).toBe(0.2);
     expect(s.thresholdView?.metrics.threshold).toBe(0.2);
     expect(s.notices.map((n) => n.text)).toContain(
-      `The calculation engine stopped unexpectedly and was restarted. Your data (${s.data!.source.name}) were loaded into it again and the model was refitted; nothing was lost.`,
+      'The calculation engine stopped unexpectedly and was restarted. ' +
+        `Your data (${s.data!.source.name}) were loaded into it again and the model was refitted; nothing was lost.`,
     );
     // The new engine really holds the data: it answers a row query.
     expect(await ctl.getRows(0, 2)).toHaveLength(2);
@@ -174,7 +175,7 @@ describe('workspace kept in the browser', () => {
     h.stop();
   });
 
-  it('full storage gives one clear notice that suggests the workspace file, and the file still round-trips', async () => {
+  it('full storage gives one notice that suggests the workspace file, and the file still round-trips', async () => {
     const full = Object.assign(new Error('quota'), { name: 'QuotaExceededError' });
     const h = await setUp(memoryBackend(full));
     h.store.apply(A.setReportText, { notes: 'x' });
@@ -205,6 +206,23 @@ describe('workspace kept in the browser', () => {
 });
 
 describe('settings of a saved workspace', () => {
+  it('a workspace saved when elastic net was called "elasticnet" opens with the method "elastic-net"', () => {
+    const workbench = { roles: {}, interactions: [], costs: { missedCase: 5, falseAlarm: 1 }, method: 'elasticnet' };
+    const w = settingsFromWorkspace({
+      fileName: null,
+      data: null,
+      seed: null,
+      threshold: null,
+      spec: null,
+      fitOptions: {},
+      costs: null,
+      freeText: {},
+      extra: { workbench },
+    });
+    expect(w.method).toBe('elastic-net');
+    expect(w.costs).toEqual({ missedCase: 5, falseAlarm: 1 });
+  });
+
   it('a workspace without Fulcra’s extra record gets its roles, method, cut-off, costs and words from the spec', () => {
     const w = settingsFromWorkspace({
       fileName: 'audit.csv',
@@ -221,7 +239,7 @@ describe('settings of a saved workspace', () => {
         ],
       },
       fitOptions: { method: 'firth', level: 0.9 },
-      costs: { falseNegative: 12, falsePositive: 3 },
+      costs: { missedCase: 12, falseAlarm: 3 },
       freeText: { purpose: 'audit' },
     });
     expect(w.roles).toEqual({

@@ -21,7 +21,6 @@ const request = (method: FitRequest['method']): FitRequest => ({
   method,
   level: 0.95,
   alpha: 0.5,
-  lambdaRule: '1se',
   profile: false,
 });
 
@@ -100,7 +99,7 @@ describe('worker operations (run in Node, as in the worker)', () => {
   it('fits a lasso with λ chosen by cross-validation and no inference table', async () => {
     const { view } = await fitted('lasso');
     expect(view.lambda?.chosen).toBeGreaterThan(0);
-    expect(view.lambda!.chosen).toBeGreaterThanOrEqual(view.lambda!.lambdaMin);
+    expect(view.lambda!.chosen).toBeGreaterThanOrEqual(view.lambda!.lambdaMin!);
     expect(view.rows.every((r) => r.se === null)).toBe(true);
     expect(view.warnings.some((w) => w.code === 'penalised-no-inference')).toBe(true);
   });
@@ -171,7 +170,7 @@ describe('worker operations (run in Node, as in the worker)', () => {
     const { s, view } = await fitted();
     const back = readModelFile(modelFileText(s, { missedCase: 10, falseAlarm: 1 }, 0.1, '2026-01-01T00:00:00Z'));
     expect(back.coefficients.map((c) => c.estimate)).toEqual(view.rows.map((r) => r.estimate));
-    expect(back.threshold).toEqual({ value: 0.1, costFalseNegative: 10, costFalsePositive: 1 });
+    expect(back.threshold).toEqual({ value: 0.1, costMissedCase: 10, costFalseAlarm: 1 });
     expect(pmmlText(s, '2026-01-01T00:00:00Z')).toContain('<PMML');
   });
 

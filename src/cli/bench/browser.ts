@@ -19,7 +19,9 @@ export async function browserBench(o: {
   seed: number;
   log: (s: string) => void;
 }): Promise<BrowserResult> {
-  const how = `vite build + vite preview of src/cli/bench/page (real worker facade via Comlink), Chromium /usr/bin/chromium headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile CIs off)`;
+  const how =
+    'vite build + vite preview of src/cli/bench/page (real worker facade via Comlink), Chromium /usr/bin/chromium ' +
+    `headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile CIs off)`;
   const base: BrowserResult = {
     n: o.n,
     p: o.p,
@@ -73,7 +75,9 @@ export async function browserBench(o: {
         (window as unknown as { runBench: (u: string, p: number) => Promise<PageResult> }).runBench('./bench.csv', p),
       [o.p] as const,
     );
-    const threads = `${r.threads} thread${r.threads === 1 ? '' : 's'} for the fit's row passes (page ${r.isolated ? '' : 'not '}cross-origin isolated)`;
+    const threads =
+      `${r.threads} thread${r.threads === 1 ? '' : 's'} for the fit's row passes ` +
+      `(page ${r.isolated ? '' : 'not '}cross-origin isolated)`;
     if (!r.probeSeen)
       return {
         ...base,

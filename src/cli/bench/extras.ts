@@ -45,9 +45,10 @@ const mainEffects = (p: number): ModelSpec => ({
 export async function csvImport(dir: string, n: number, p: number, seed: number): Promise<Measurement> {
   const f = ensureSynth(dir, n, p, seed);
   const name = `CSV import ${n}×${p + 1}`;
-  const runs: { bytes: number; seconds: number; cpuSeconds: number; nRows: number; columns: number }[] = [];
+  type ImportRun = { bytes: number; seconds: number; cpuSeconds: number; nRows: number; columns: number };
+  const runs: ImportRun[] = [];
   for (let k = 0; k < 3; k++) {
-    const r = runJson(process.execPath, [
+    const r = runJson<ImportRun>(process.execPath, [
       '--import',
       'tsx',
       fileURLToPath(new URL('./importChild.ts', import.meta.url)),
@@ -64,7 +65,10 @@ export async function csvImport(dir: string, n: number, p: number, seed: number)
     value: v.bytes / 1e6 / v.seconds,
     unit: 'MB/s',
     cpuSeconds: v.cpuSeconds,
-    detail: `${(v.bytes / 1e6).toFixed(1)} MB in ${v.seconds.toFixed(2)} s (median of 3 fresh processes: ${runs.map((u) => u.seconds.toFixed(2)).join(' / ')} s) through importFile (file already in memory)${ok ? '' : '; WRONG SHAPE ' + v.nRows + '×' + v.columns}`,
+    detail:
+      `${(v.bytes / 1e6).toFixed(1)} MB in ${v.seconds.toFixed(2)} s ` +
+      `(median of 3 fresh processes: ${runs.map((u) => u.seconds.toFixed(2)).join(' / ')} s) ` +
+      `through importFile (file already in memory)${ok ? '' : '; WRONG SHAPE ' + v.nRows + '×' + v.columns}`,
   };
 }
 
@@ -88,7 +92,7 @@ export function thresholdQueries(n: number, queries: number, seed: number): Meas
   for (let q = 0; q < queries; q++) {
     const t = rng.next();
     t0 = process.hrtime.bigint();
-    sink += atThreshold(prep, t, { costs: { falseNegative: 10, falsePositive: 1 } }).tp;
+    sink += atThreshold(prep, t, { costs: { missedCase: 10, falseAlarm: 1 } }).tp;
     times[q] = seconds(t0);
   }
   times.sort();
@@ -97,7 +101,10 @@ export function thresholdQueries(n: number, queries: number, seed: number): Meas
       name: `threshold query at n = ${n}`,
       value: times[queries >> 1] * 1e3,
       unit: 'ms',
-      detail: `median of ${queries} atThreshold calls (99th percentile ${(times[Math.floor(queries * 0.99)] * 1e3).toFixed(4)} ms) after one prepareThresholds; checksum ${sink}`,
+      detail:
+        `median of ${queries} atThreshold calls ` +
+        `(99th percentile ${(times[Math.floor(queries * 0.99)] * 1e3).toFixed(4)} ms) ` +
+        `after one prepareThresholds; checksum ${sink}`,
     },
     {
       name: `threshold prepare at n = ${n}`,

@@ -84,16 +84,20 @@ function ratioTarget(r: BenchRecord, n: number, p: number, fulcra: string, ref: 
 const LIMITS: [RegExp, string][] = [
   [
     /sklearn newton-cholesky/,
-    "X'WX and the per-iteration passes over X run at about 1.3·10⁹ multiply-adds per second per thread in plain TypeScript, where BLAS uses SIMD; a second thread adds about 1.5×, not 2×, on this machine (a pass over a 10⁵×51 X: 10.8 → 7.4 ms; X'WX: 85 → 55 ms); WebAssembly SIMD kernels are the next step.",
+    "X'WX and the per-iteration passes over X run at about 1.3·10⁹ multiply-adds per second per thread in plain " +
+      'TypeScript, where BLAS uses SIMD; a second thread adds about 1.5×, not 2×, on this machine ' +
+      "(a pass over a 10⁵×51 X: 10.8 → 7.4 ms; X'WX: 85 → 55 ms); WebAssembly SIMD kernels are the next step.",
   ],
   [
     /^CSV import/,
-    "per-cell work in the column builder and the per-column summaries (distinct count, median) after the parse; the machine's other load also counts here (wall time).",
+    'per-cell work in the column builder and the per-column summaries (distinct count, median) after the parse; ' +
+      "the machine's other load also counts here (wall time).",
   ],
   [/^bootstrap/, 'each replicate is a full weighted refit plus two calibration fits and two AUC sorts on one thread.'],
   [
     /^loss surface/,
-    'n × 64² softplus evaluations on one thread; above ~1.2·10⁵ rows the grid uses an evenly spaced row subsample (stated in the record).',
+    'n × 64² softplus evaluations on one thread; above ~1.2·10⁵ rows the grid uses an evenly spaced row subsample ' +
+      '(stated in the record).',
   ],
   [/main-thread task/, 'rendering of a large table or plot on the main thread.'],
   [/peak memory/, 'working copies of the design made by the solver.'],
@@ -174,7 +178,9 @@ export function judgeTargets(r: BenchRecord): Target[] {
       goal: '≤ 1.5 × float64 design (data + fit, above the runtime)',
       measured:
         f?.maxRssBytes && f.addedRssBytes !== undefined
-          ? `${(f.addedRssBytes / big.designBytes).toFixed(2)} × (peak RSS ${(f.maxRssBytes / 2 ** 20).toFixed(0)} MiB incl. runtime = ${(f.maxRssBytes / big.designBytes).toFixed(2)} ×; design ${(big.designBytes / 2 ** 20).toFixed(0)} MiB)`
+          ? `${(f.addedRssBytes / big.designBytes).toFixed(2)} × ` +
+            `(peak RSS ${(f.maxRssBytes / 2 ** 20).toFixed(0)} MiB incl. runtime = ` +
+            `${(f.maxRssBytes / big.designBytes).toFixed(2)} ×; design ${(big.designBytes / 2 ** 20).toFixed(0)} MiB)`
           : 'not run',
       met: f?.addedRssBytes !== undefined && big.n >= 1e6 ? f.addedRssBytes <= 1.5 * big.designBytes : null,
     });
@@ -188,7 +194,8 @@ const lpad = (s: string, w: number) => (s.length >= w ? s : ' '.repeat(w - s.len
 export function renderReport(r: BenchRecord): string {
   const out: string[] = [];
   out.push(
-    `Fulcra benchmark ${r.date}  Node ${r.node}  ${r.cpu} × ${r.cores}  load average ${r.loadAverageAtStart.toFixed(1)} → ${r.loadAverageAtEnd?.toFixed(1)}`,
+    `Fulcra benchmark ${r.date}  Node ${r.node}  ${r.cpu} × ${r.cores}  ` +
+      `load average ${r.loadAverageAtStart.toFixed(1)} → ${r.loadAverageAtEnd?.toFixed(1)}`,
   );
   out.push(
     `Reference threads: ${Object.entries(r.referenceThreads)
@@ -197,40 +204,62 @@ export function renderReport(r: BenchRecord): string {
   );
   out.push('');
   out.push(
-    `${pad('size', 10)}${pad('program', 26)}${lpad('median s', 10)}${lpad('CPU s', 9)}${lpad('iter', 6)}${lpad('engine/it', 11)}${lpad('max rel gap', 13)}  notes`,
+    pad('size', 10) +
+      pad('program', 26) +
+      lpad('median s', 10) +
+      lpad('CPU s', 9) +
+      lpad('iter', 6) +
+      lpad('engine/it', 11) +
+      lpad('max rel gap', 13) +
+      '  notes',
   );
   for (const s of r.sizes) {
     const eng = s.fits.find((f) => f.who === 'Fulcra engine');
     for (const f of s.fits) {
       const ratio = (a?: FitTiming) => (a && a !== f ? (a.median / f.median).toFixed(2) : '');
       out.push(
-        `${pad(`${s.n.toExponential(0)}×${s.p}`, 10)}${pad(f.who, 26)}${lpad(f.median.toFixed(3), 10)}${lpad(median(f.cpuSeconds).toFixed(3), 9)}${lpad(String(f.iterations ?? ''), 6)}${lpad(ratio(eng), 11)}${lpad(f.gap === null ? '' : f.gap.toExponential(1), 13)}  ${f.notes.join('; ')}`,
+        pad(`${s.n.toExponential(0)}×${s.p}`, 10) +
+          pad(f.who, 26) +
+          lpad(f.median.toFixed(3), 10) +
+          lpad(median(f.cpuSeconds).toFixed(3), 9) +
+          lpad(String(f.iterations ?? ''), 6) +
+          lpad(ratio(eng), 11) +
+          lpad(f.gap === null ? '' : f.gap.toExponential(1), 13) +
+          `  ${f.notes.join('; ')}`,
       );
     }
     for (const e of s.errors) out.push(`${pad(`${s.n.toExponential(0)}×${s.p}`, 10)}ERROR ${e}`);
   }
   out.push(
-    "Fulcra engine = the engine on all cores (a pool of worker threads over fixed chunks of rows, as the page runs it); engine/it = its median ÷ this program's median; gap = max_j |β_j − β*_j|/|β*_j| to the tight optimum β* (speed counts at ≤ 1e-8).",
+    'Fulcra engine = the engine on all cores ' +
+      '(a pool of worker threads over fixed chunks of rows, as the page runs it); ' +
+      "engine/it = its median ÷ this program's median; " +
+      'gap = max_j |β_j − β*_j|/|β*_j| to the tight optimum β* (speed counts at ≤ 1e-8).',
   );
   if (r.extras.length) {
     out.push('');
     for (const m of r.extras)
       out.push(
-        `${pad(m.name, 34)}${lpad(m.value.toPrecision(4), 10)} ${pad(m.unit, 5)} ${m.cpuSeconds === undefined ? '' : `[CPU ${m.cpuSeconds.toFixed(2)} s] `}${m.detail}`,
+        `${pad(m.name, 34)}${lpad(m.value.toPrecision(4), 10)} ${pad(m.unit, 5)} ` +
+          `${m.cpuSeconds === undefined ? '' : `[CPU ${m.cpuSeconds.toFixed(2)} s] `}${m.detail}`,
       );
   }
   if (r.browser) {
     const b = r.browser;
     out.push('');
     out.push(
-      `browser ${b.n}×${b.p}: import ${b.importSeconds?.toFixed(2) ?? '-'} s, fit ${b.fitSeconds?.toFixed(2) ?? '-'} s, longest main-thread task ${b.longestTaskMs?.toFixed(0) ?? '-'} ms (${b.longTasks} long tasks); ${b.how}${b.error ? '; ERROR ' + b.error : ''}`,
+      `browser ${b.n}×${b.p}: import ${b.importSeconds?.toFixed(2) ?? '-'} s, ` +
+        `fit ${b.fitSeconds?.toFixed(2) ?? '-'} s, ` +
+        `longest main-thread task ${b.longestTaskMs?.toFixed(0) ?? '-'} ms (${b.longTasks} long tasks); ` +
+        `${b.how}${b.error ? '; ERROR ' + b.error : ''}`,
     );
   }
   out.push('');
   out.push('Targets');
   for (const t of r.targets) {
     out.push(
-      `  ${pad(t.met === null ? 'not judged' : t.met ? 'met' : 'MISSED', 11)}${pad(t.name, 62)} ${pad(t.goal, 44)} ${t.measured}`,
+      `  ${pad(t.met === null ? 'not judged' : t.met ? 'met' : 'MISSED', 11)}` +
+        `${pad(t.name, 62)} ${pad(t.goal, 44)} ${t.measured}`,
     );
     const why = t.met === false ? limitOf(t.name) : undefined;
     if (why) out.push(`  ${' '.repeat(11)}what limits it: ${why}`);

@@ -46,18 +46,33 @@ export function referenceThreads(): Record<string, string> {
   };
 }
 
-export function runJson(
+/** What a reference script (reference/sklearn_fit.py, reference/glm_fit.R) prints as its last line. */
+interface ReferenceResult {
+  library: string;
+  seconds: number[];
+  cpuSeconds: number[];
+  iterations: number;
+  beta: number[];
+  /** sklearn only: the BLAS libraries and their thread counts, and the first line of each warning. */
+  threads?: string[];
+  warnings?: string[];
+  /** R only. */
+  converged?: boolean;
+}
+
+/** Runs a child that prints one JSON line last; the caller names the shape it prints. */
+export function runJson<T>(
   cmd: string,
   args: string[],
   env?: Record<string, string>,
-): { ok: true; value: any } | { ok: false; error: string } {
+): { ok: true; value: T } | { ok: false; error: string } {
   const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28, env: { ...process.env, ...env } });
   if (r.error) return { ok: false, error: String(r.error.message) };
   if (r.status !== 0)
     return { ok: false, error: (r.stderr || r.stdout || `exit ${r.status}`).trim().split('\n').slice(-3).join(' | ') };
   const line = r.stdout.trim().split('\n').pop() ?? '';
   try {
-    return { ok: true, value: JSON.parse(line) };
+    return { ok: true, value: JSON.parse(line) as T };
   } catch {
     return { ok: false, error: `unreadable output: ${line.slice(0, 200)}` };
   }
@@ -71,13 +86,22 @@ export function fulcraFit(
   polish: boolean,
 ): { timing: FitTiming; tight?: number[] } | { error: string } {
   const args: FitChildArgs = { xBin: f.xBin, yBin: f.yBin, n: f.n, p: f.p, tol: 1e-10, repeats, polish, threads };
-  const r = runJson(process.execPath, ['--import', 'tsx', join(here, 'fitChild.ts'), JSON.stringify(args)]);
+  const r = runJson<FitChildResult>(process.execPath, [
+    '--import',
+    'tsx',
+    join(here, 'fitChild.ts'),
+    JSON.stringify(args),
+  ]);
   if (!r.ok) return { error: r.error };
-  const v = r.value as FitChildResult;
+  const v = r.value;
   return {
     timing: {
       who: threads === 1 ? ONE_THREAD : 'Fulcra engine',
-      library: `Fulcra newtonLogistic (src/engine/fitting/newton.ts, tol 1e-10), Node, ${threads === 1 ? '1 thread' : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`}`,
+      library:
+        'Fulcra newtonLogistic (src/engine/fitting/newton.ts, tol 1e-10), Node, ' +
+        (threads === 1
+          ? '1 thread'
+          : `${threads} threads (worker_threads row pool, src/cli/nodeRowPool.ts, started before the timer)`),
       seconds: v.seconds,
       cpuSeconds: v.cpuSeconds,
       median: median(v.seconds),
@@ -88,7 +112,10 @@ export function fulcraFit(
       addedRssBytes: v.maxRssBytes - v.baselineRssBytes,
       notes: [
         v.converged ? '' : 'not converged',
-        `${threads} thread${threads === 1 ? '' : 's'}; peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB (runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`,
+        `${threads} thread${threads === 1 ? '' : 's'}; peak RSS ${(v.maxRssBytes / 2 ** 20).toFixed(0)} MiB ` +
+          `(runtime ${(v.baselineRssBytes / 2 ** 20).toFixed(0)} MiB before data) = ` +
+          `${(v.maxRssBytes / v.designBytes).toFixed(2)} × design; ` +
+          `data + fit ${((v.maxRssBytes - v.baselineRssBytes) / v.designBytes).toFixed(2)} × design`,
       ].filter(Boolean),
     },
     tight: v.tight,
@@ -102,7 +129,7 @@ export function sklearnFit(
 ): FitTiming | { error: string } {
   const py = '/usr/bin/python3';
   if (!existsSync(py)) return { error: `${py} not found` };
-  const r = runJson(
+  const r = runJson<ReferenceResult>(
     py,
     [
       join(here, 'reference', 'sklearn_fit.py'),
@@ -120,19 +147,19 @@ export function sklearnFit(
   const v = r.value;
   return {
     who: `sklearn ${solver}`,
-    library: `${v.library}; BLAS ${v.threads.join(', ')}`,
+    library: `${v.library}; BLAS ${(v.threads ?? []).join(', ')}`,
     seconds: v.seconds,
     cpuSeconds: v.cpuSeconds,
     median: median(v.seconds),
     iterations: v.iterations,
     beta: v.beta,
     gap: null,
-    notes: v.warnings,
+    notes: v.warnings ?? [],
   };
 }
 
 export function glmFit(f: SynthFiles, repeats: number): FitTiming | { error: string } {
-  const r = runJson(
+  const r = runJson<ReferenceResult>(
     'Rscript',
     [join(here, 'reference', 'glm_fit.R'), f.xBin, f.yBin, String(f.n), String(f.p), '1e-10', String(repeats)],
     referenceThreads(),

@@ -24,6 +24,16 @@ export type Column = NumericColumn | CategoricalColumn;
 export interface Dataset {
   nRows: number;
   columns: Column[];
+  /**
+   * Spreadsheet row number of data row 0 (default 2: the header is row 1). A file read without a header row
+   * starts at 1; a sheet whose header sits lower starts further down.
+   */
+  firstRow?: number;
+}
+
+/** The spreadsheet row number of 0-based data row `index`: every engine message that names a row uses it. */
+export function sheetRow(data: Pick<Dataset, 'firstRow'>, index: number): number {
+  return (data.firstRow ?? 2) + index;
 }
 
 /** Finds a column by name or throws a FulcraError naming the column and the columns that exist. */

@@ -1,4 +1,6 @@
 /** Public surface of engine/core. */
+export * from './costs';
 export * from './data';
 export * from './model';
+export * from './vectors';
 export * from './warnings';

@@ -1,4 +1,4 @@
-import { FulcraError, getColumn, type Column, type Dataset } from '../core/data';
+import { FulcraError, getColumn, sheetRow, type Column, type Dataset } from '../core/data';
 import type { DesignRecipe, ModelSpec } from '../core/model';
 import { rcsBasis, rcsKnots } from './splines';
 import { warning, type EngineWarning } from '../core/warnings';
@@ -88,55 +88,19 @@ function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; le
   return { names: [part] };
 }
 
-/**
- * Builds the design matrix for `data` from a recipe (fit data, new data for scoring or external validation).
- * Rows with a missing value in a used column are dropped and counted per column. An unseen categorical level
- * throws a FulcraError naming the row (1-based) and column. The outcome is encoded (and rows missing it dropped)
- * when its column exists, unless `outcome: 'ignore'` (scoring).
- */
-export function designFromRecipe(
-  recipe: DesignRecipe,
-  data: Dataset,
-  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
-): EncodedDesign {
-  return encodeRecipe(recipe, data, opts, null);
+type RecipeOptions = { rows?: Int32Array; outcome?: 'if-present' | 'ignore' };
+
+/** The rows a recipe uses on `data` (complete cases among `opts.rows`) and the columns it reads. */
+interface RecipeRows {
+  cols: Map<string, Column>;
+  outcomeCol: Column | null;
+  rowsUsed: Int32Array;
+  n: number;
+  nDropped: number;
+  droppedByColumn: Record<string, number>;
 }
 
-/** designFromRecipe's rows, outcome and column bookkeeping, with the linear predictor instead of the design. */
-export type LinearPredictorRows = Omit<EncodedDesign, 'X' | 'p'> & { eta: Float64Array };
-
-/**
- * The linear predictor Σⱼ βⱼ·xᵢⱼ (intercept first) of the rows of `data`, without building the n×p design: each
- * term's columns go into scratch columns that are added to η in column order and reused, so memory is O(n) and
- * η is bit-for-bit scoreDesign(model, designFromRecipe(recipe, data).X, n). Same rows, errors and messages.
- */
-export function linearPredictorFromRecipe(
-  recipe: DesignRecipe,
-  beta: ArrayLike<number>,
-  data: Dataset,
-  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' } = {},
-): LinearPredictorRows {
-  return encodeRecipe(recipe, data, opts, beta);
-}
-
-function encodeRecipe(
-  recipe: DesignRecipe,
-  data: Dataset,
-  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
-  beta: null,
-): EncodedDesign;
-function encodeRecipe(
-  recipe: DesignRecipe,
-  data: Dataset,
-  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
-  beta: ArrayLike<number>,
-): LinearPredictorRows;
-function encodeRecipe(
-  recipe: DesignRecipe,
-  data: Dataset,
-  opts: { rows?: Int32Array; outcome?: 'if-present' | 'ignore' },
-  beta: ArrayLike<number> | null,
-): EncodedDesign | LinearPredictorRows {
+function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): RecipeRows {
   const { rows, outcome = 'if-present' } = opts;
   const used = new Set<string>();
   for (const t of recipe.terms) for (const c of columnsOfTerm(t)) used.add(c);
@@ -144,7 +108,6 @@ function encodeRecipe(
   const cols = new Map<string, Column>();
   for (const name of used) cols.set(name, getColumn(data, name));
   const outcomeCol = hasOutcome ? getColumn(data, recipe.outcome) : null;
-
   const droppedByColumn: Record<string, number> = {};
   let candidate = rows;
   if (!candidate) {
@@ -169,8 +132,11 @@ function encodeRecipe(
   for (let i = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) n++;
   const rowsUsed = new Int32Array(n);
   for (let i = 0, k = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) rowsUsed[k++] = candidate[i];
+  return { cols, outcomeCol, rowsUsed, n, nDropped: candidate.length - n, droppedByColumn };
+}
 
-  // The design is written column by column straight into X (no separate column arrays copied in afterwards).
+/** Number of design columns of a recipe, intercept included. */
+function recipeWidth(recipe: DesignRecipe): number {
   const width = (t: RecipeTerm, part?: string): number => {
     if (t.type === 'interaction' && !part) return width(t, t.parts[0]) * width(t, t.parts[1]);
     const enc = part ? partEncoding(recipe, part) : null;
@@ -178,51 +144,21 @@ function encodeRecipe(
     if (enc?.levels) return enc.levels.length - 1;
     return t.type === 'spline' && !part ? t.knots.length - 1 : 1;
   };
-  const p = 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
-  if (beta && beta.length !== p) {
-    throw new FulcraError(
-      'recipe-mismatch',
-      `The data give ${p} design columns but the model has ${beta.length} coefficients.`,
-    );
-  }
-  // Design: X in shared memory while a row pool is installed, so that its threads can read it. Linear predictor:
-  // no X; each term's columns are scratch columns, reused once added to η.
-  const X = beta ? new Float64Array(0) : allocF64(n * p);
-  const eta = beta ? new Float64Array(n) : null;
-  if (!beta) X.fill(1, 0, n);
-  else if (beta[0] !== 0) for (let i = 0; i < n; i++) eta![i] += beta[0] * 1;
-  const spare: Float64Array[] = [];
-  let nextColumn = 1;
-  const column = (): Float64Array => {
-    if (!beta) return X.subarray(nextColumn * n, ++nextColumn * n);
-    nextColumn++;
-    const reused = spare.pop();
-    return reused ? reused.fill(0) : new Float64Array(n); // indicator columns rely on zeros
-  };
-  const scratchColumn = (): Float64Array => new Float64Array(n);
-  let overflow: FulcraError | null = null;
-  /** The first non-finite design value, in column order (thrown after every term is encoded). */
-  const checkFinite = (name: string, term: string, v: Float64Array): void => {
-    if (overflow) return;
-    let probe = 0;
-    for (let i = 0; i < n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
-    if (probe === 0) return;
-    let bad = 0;
-    while (Number.isFinite(v[bad])) bad++;
-    overflow = new FulcraError(
-      'design-overflow',
-      `The design column "${name}" of term "${term}" is ${v[bad]} in row ${rowsUsed[bad] + 1}: the values are too large for double precision.`,
-      'Rescale the predictor (e.g. other units) before fitting.',
-    );
-  };
+  return 1 + recipe.terms.reduce((a, t) => a + width(t), 0);
+}
 
-  const blocks: { name: string; term: string; values: Float64Array }[] = [];
-  const termColumns: { name: string; columns: number[] }[] = [];
-  const encodeMain = (
-    t: RecipeTerm,
-    part: string | undefined,
-    alloc: () => Float64Array,
-  ): { name: string; values: Float64Array }[] => {
+type EncodedColumn = { name: string; values: Float64Array };
+
+/**
+ * The per-term column encoder shared by the design and the linear predictor: the columns of one term (indicators
+ * against the reference, the value, its spline basis, or products of the parts' columns) for the used rows,
+ * written into columns from `alloc` (which must hand out zeroed columns). Throws naming the spreadsheet row of an
+ * unseen level.
+ */
+function termEncoder(recipe: DesignRecipe, data: Dataset, sel: RecipeRows) {
+  const { cols, rowsUsed, n } = sel;
+  const scratch = (): Float64Array => new Float64Array(n);
+  const encodeMain = (t: RecipeTerm, part: string | undefined, alloc: () => Float64Array): EncodedColumn[] => {
     const column = part ?? (t as { column: string }).column;
     const col = cols.get(column)!;
     const enc = part ? partEncoding(recipe, part) : null;
@@ -240,10 +176,10 @@ function encodeRecipe(
         const k = codes ? codeMap[codes[rowsUsed[i]]] : slot(get(rowsUsed[i])!);
         if (k >= 0) out[k].values[i] = 1;
         else if (k === -2) {
-          const v = get(rowsUsed[i]);
           throw new FulcraError(
             'unseen-level',
-            `Row ${rowsUsed[i] + 1}, column "${column}": the value "${v}" was not seen when the model was fitted (known: ${levels.join(', ')}).`,
+            `Row ${sheetRow(data, rowsUsed[i])}, column "${column}": the value "${get(rowsUsed[i])}" was not seen ` +
+              `when the model was fitted (known: ${levels.join(', ')}).`,
             'Recode the value to one of the known levels or remove the row.',
           );
         }
@@ -258,82 +194,189 @@ function encodeRecipe(
       const get = numericGetter(col);
       for (let i = 0; i < n; i++) x[i] = get(rowsUsed[i]);
     }
-    if (t.type === 'spline' && !part) {
-      const out = [{ name: column, values: x }];
-      const k = t.knots.length;
-      const basis = Array.from({ length: k - 2 }, (_, j) => ({ name: column + "'".repeat(j + 1), values: alloc() }));
-      const tmp = new Float64Array(k - 2);
-      for (let i = 0; i < n; i++) {
-        rcsBasis(x[i], t.knots, tmp);
-        for (let j = 0; j < k - 2; j++) basis[j].values[i] = tmp[j];
-      }
-      return out.concat(basis);
+    if (t.type !== 'spline' || part) return [{ name: column, values: x }];
+    const k = t.knots.length;
+    const basis = Array.from({ length: k - 2 }, (_, j) => ({ name: column + "'".repeat(j + 1), values: alloc() }));
+    const tmp = new Float64Array(k - 2);
+    for (let i = 0; i < n; i++) {
+      rcsBasis(x[i], t.knots, tmp);
+      for (let j = 0; j < k - 2; j++) basis[j].values[i] = tmp[j];
     }
-    return [{ name: column, values: x }];
+    return [{ name: column, values: x }, ...basis];
   };
+  return (t: RecipeTerm, alloc: () => Float64Array): EncodedColumn[] => {
+    if (t.type !== 'interaction') return encodeMain(t, undefined, alloc);
+    const a = encodeMain(t, t.parts[0], scratch),
+      b = encodeMain(t, t.parts[1], scratch);
+    const cs: EncodedColumn[] = [];
+    for (const ca of a) {
+      for (const cb of b) {
+        const v = alloc();
+        for (let i = 0; i < n; i++) v[i] = ca.values[i] * cb.values[i];
+        cs.push({ name: `${ca.name}:${cb.name}`, values: v });
+      }
+    }
+    return cs;
+  };
+}
 
+/** Null when every value is finite, else the error naming the first non-finite one (by spreadsheet row). */
+function overflowError(data: Dataset, sel: RecipeRows, name: string, term: string, v: Float64Array) {
+  let probe = 0;
+  for (let i = 0; i < sel.n; i++) probe += v[i] * 0; // 0 unless a value is ±Infinity or NaN
+  if (probe === 0) return null;
+  let bad = 0;
+  while (Number.isFinite(v[bad])) bad++;
+  return new FulcraError(
+    'design-overflow',
+    `The design column "${name}" of term "${term}" is ${v[bad]} in row ${sheetRow(data, sel.rowsUsed[bad])}: ` +
+      'the values are too large for double precision.',
+    'Rescale the predictor (e.g. other units) before fitting.',
+  );
+}
+
+/**
+ * Encodes every term in recipe order: `alloc` gives each design column (1, 2, …) its storage, `use(j, values)`
+ * sees it once written, `release` gets a term's columns back when the term is done. Returns the column
+ * bookkeeping; throws the first non-finite value (in column order) after every term is encoded.
+ */
+function encodeTerms(
+  recipe: DesignRecipe,
+  data: Dataset,
+  sel: RecipeRows,
+  alloc: () => Float64Array,
+  use: (j: number, values: Float64Array) => void,
+  release?: (values: Float64Array[]) => void,
+) {
+  const encodeTerm = termEncoder(recipe, data, sel);
+  const columnNames = [INTERCEPT],
+    columnTerms = [INTERCEPT];
+  const termColumns: { name: string; columns: number[] }[] = [];
+  let overflow: FulcraError | null = null;
   for (const t of recipe.terms) {
-    let cs: { name: string; values: Float64Array }[];
-    if (t.type === 'interaction') {
-      const a = encodeMain(t, t.parts[0], scratchColumn),
-        b = encodeMain(t, t.parts[1], scratchColumn);
-      cs = [];
-      for (const ca of a) {
-        for (const cb of b) {
-          const v = column();
-          for (let i = 0; i < n; i++) v[i] = ca.values[i] * cb.values[i];
-          cs.push({ name: `${ca.name}:${cb.name}`, values: v });
-        }
-      }
-    } else {
-      cs = encodeMain(t, undefined, column);
-    }
-    termColumns.push({ name: t.name, columns: cs.map((_, k) => blocks.length + 1 + k) });
+    const cs = encodeTerm(t, alloc);
+    termColumns.push({ name: t.name, columns: cs.map((_, k) => columnNames.length + k) });
     for (const c of cs) {
-      checkFinite(c.name, t.name, c.values);
-      const j = blocks.length + 1,
-        bj = beta ? beta[j] : 0;
-      if (bj !== 0) for (let i = 0; i < n; i++) eta![i] += bj * c.values[i];
-      blocks.push({ name: c.name, term: t.name, values: c.values });
+      overflow ??= overflowError(data, sel, c.name, t.name, c.values);
+      use(columnNames.length, c.values);
+      columnNames.push(c.name);
+      columnTerms.push(t.name);
     }
-    if (beta) spare.push(...cs.map((c) => c.values));
+    release?.(cs.map((c) => c.values));
   }
-
-  if (nextColumn !== p)
-    throw new FulcraError('internal', `The design has ${nextColumn} columns where the recipe gives ${p}.`);
   if (overflow) throw overflow;
+  return { columnNames, columnTerms, termColumns };
+}
 
-  let y: Float64Array | null = null;
-  if (outcomeCol) {
-    y = allocF64(n);
-    if (outcomeCol.kind === 'categorical') {
-      const ev = outcomeCol.levels.indexOf(recipe.event);
-      for (let i = 0; i < n; i++) y[i] = outcomeCol.codes[rowsUsed[i]] === ev ? 1 : 0;
-    } else {
-      const ev = Number(recipe.event);
-      for (let i = 0; i < n; i++) y[i] = outcomeCol.values[rowsUsed[i]] === ev ? 1 : 0;
-      for (let i = 0; i < n; i++) {
-        const v = outcomeCol.values[rowsUsed[i]];
-        if (v !== 0 && v !== 1) {
-          throw new FulcraError(
-            'outcome-not-binary',
-            `Row ${rowsUsed[i] + 1}: the outcome "${recipe.outcome}" is ${v}; a numeric outcome must be 0 or 1.`,
-          );
-        }
-      }
-    }
+/** The 0/1 outcome of the used rows (event = recipe.event); throws naming the row of a numeric outcome not 0/1. */
+function outcomeVector(recipe: DesignRecipe, data: Dataset, sel: RecipeRows): Float64Array | null {
+  const { outcomeCol, rowsUsed, n } = sel;
+  if (!outcomeCol) return null;
+  const y = allocF64(n);
+  if (outcomeCol.kind === 'categorical') {
+    const ev = outcomeCol.levels.indexOf(recipe.event);
+    for (let i = 0; i < n; i++) y[i] = outcomeCol.codes[rowsUsed[i]] === ev ? 1 : 0;
+    return y;
   }
-  const common = {
-    n,
-    y,
-    rowsUsed,
-    nDropped: candidate.length - n,
-    droppedByColumn,
-    columnNames: [INTERCEPT, ...blocks.map((b) => b.name)],
-    columnTerms: [INTERCEPT, ...blocks.map((b) => b.term)],
-    termColumns,
-  };
-  return eta ? { ...common, eta } : { ...common, X, p };
+  const ev = Number(recipe.event);
+  for (let i = 0; i < n; i++) {
+    const v = outcomeCol.values[rowsUsed[i]];
+    if (v !== 0 && v !== 1) {
+      throw new FulcraError(
+        'outcome-not-binary',
+        `Row ${sheetRow(data, rowsUsed[i])}: the outcome "${recipe.outcome}" is ${v}; ` +
+          'a numeric outcome must be 0 or 1.',
+      );
+    }
+    y[i] = v === ev ? 1 : 0;
+  }
+  return y;
+}
+
+/**
+ * Builds the design matrix for `data` from a recipe (fit data, new data for scoring or external validation).
+ * Rows with a missing value in a used column are dropped and counted per column. An unseen categorical level
+ * throws a FulcraError naming the spreadsheet row (sheetRow) and column. The outcome is encoded (and rows missing
+ * it dropped) when its column exists, unless `outcome: 'ignore'` (scoring).
+ */
+export function designFromRecipe(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions = {}): EncodedDesign {
+  const sel = recipeRows(recipe, data, opts);
+  const { n } = sel;
+  const p = recipeWidth(recipe);
+  // X in shared memory while a row pool is installed, so that its threads can read it; written column by column.
+  const X = allocF64(n * p);
+  X.fill(1, 0, n);
+  let next = 1;
+  const names = encodeTerms(
+    recipe,
+    data,
+    sel,
+    () => X.subarray(next * n, ++next * n),
+    () => {},
+  );
+  if (next !== p) throw new FulcraError('internal', `The design has ${next} columns where the recipe gives ${p}.`);
+  const y = outcomeVector(recipe, data, sel);
+  const { rowsUsed, nDropped, droppedByColumn } = sel;
+  return { X, n, p, y, rowsUsed, nDropped, droppedByColumn, ...names };
+}
+
+/** designFromRecipe's rows, outcome and column bookkeeping, with the linear predictor instead of the design. */
+export type LinearPredictorRows = Omit<EncodedDesign, 'X' | 'p'> & { eta: Float64Array };
+
+/**
+ * The linear predictor Σⱼ βⱼ·xᵢⱼ (intercept first) of the rows of `data`, without building the n×p design: each
+ * term's columns go into scratch columns that are added to η in column order and reused, so memory is O(n) and
+ * η is bit-for-bit scoreDesign(model, designFromRecipe(recipe, data).X, n). Same rows, errors and messages.
+ */
+export function linearPredictorFromRecipe(
+  recipe: DesignRecipe,
+  beta: ArrayLike<number>,
+  data: Dataset,
+  opts: RecipeOptions = {},
+): LinearPredictorRows {
+  const sel = recipeRows(recipe, data, opts);
+  const { n } = sel;
+  const p = recipeWidth(recipe);
+  if (beta.length !== p) {
+    throw new FulcraError(
+      'recipe-mismatch',
+      `The data give ${p} design columns but the model has ${beta.length} coefficients.`,
+    );
+  }
+  const eta = new Float64Array(n);
+  if (beta[0] !== 0) for (let i = 0; i < n; i++) eta[i] += beta[0] * 1;
+  const spare: Float64Array[] = [];
+  const names = encodeTerms(
+    recipe,
+    data,
+    sel,
+    () => spare.pop()?.fill(0) ?? new Float64Array(n), // indicator columns rely on zeros
+    (j, v) => {
+      const bj = beta[j];
+      if (bj !== 0) for (let i = 0; i < n; i++) eta[i] += bj * v[i];
+    },
+    (used) => spare.push(...used),
+  );
+  const y = outcomeVector(recipe, data, sel);
+  const { rowsUsed, nDropped, droppedByColumn } = sel;
+  return { eta, n, y, rowsUsed, nDropped, droppedByColumn, ...names };
+}
+
+/**
+ * The warning that rows were left out for missing values: `lead` followed by the count per column,
+ * e.g. `… ("age" 3, "bmi" 1).`; `withColumns` also lists the columns as the warning's terms.
+ */
+export function droppedRowsWarning(
+  code: string,
+  lead: string,
+  suggestion: string,
+  droppedByColumn: Record<string, number>,
+  withColumns: boolean,
+): EngineWarning {
+  const list = Object.entries(droppedByColumn)
+    .map(([c, k]) => `"${c}" ${k}`)
+    .join(', ');
+  return warning(code, `${lead} (${list}).`, suggestion, withColumns ? Object.keys(droppedByColumn) : undefined);
 }
 
 function termName(t: ModelSpec['terms'][number]): string {
@@ -395,7 +438,8 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
     warnings.push(
       warning(
         'event-level-assumed',
-        `No event level was given for "${col.name}"; "${ordered[1]}" is counted as the event and "${ordered[0]}" as the non-event.`,
+        `No event level was given for "${col.name}"; "${ordered[1]}" is counted as the event and ` +
+          `"${ordered[0]}" as the non-event.`,
         'Set the event level explicitly if this is the wrong way round.',
         [col.name],
       ),
@@ -517,17 +561,9 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
   const enc = designFromRecipe(recipe, data);
   recipe.columnNames = enc.columnNames;
   if (enc.nDropped > 0) {
-    const parts = Object.entries(enc.droppedByColumn)
-      .map(([c, k]) => `"${c}" ${k}`)
-      .join(', ');
-    warnings.push(
-      warning(
-        'rows-dropped',
-        `${enc.nDropped} of ${data.nRows} rows were left out because of missing values (${parts}).`,
-        'Check whether the missing values are related to the outcome; if so, consider imputation.',
-        Object.keys(enc.droppedByColumn),
-      ),
-    );
+    const lead = `${enc.nDropped} of ${data.nRows} rows were left out because of missing values`;
+    const hint = 'Check whether the missing values are related to the outcome; if so, consider imputation.';
+    warnings.push(droppedRowsWarning('rows-dropped', lead, hint, enc.droppedByColumn, true));
   }
   return { ...enc, y: enc.y!, recipe, warnings };
 }

@@ -1,4 +1,5 @@
 import { FulcraError } from '../core/data';
+import { quantileSorted } from '../numerics/quantile';
 
 /** Knot quantiles recommended by Harrell, Regression Modeling Strategies 2nd ed., Table 2.3. */
 export const rcsKnotQuantiles: Record<3 | 4 | 5, number[]> = {
@@ -7,12 +8,9 @@ export const rcsKnotQuantiles: Record<3 | 4 | 5, number[]> = {
   5: [0.05, 0.275, 0.5, 0.725, 0.95],
 };
 
-/** Sample quantile with linear interpolation between order statistics (Hyndman & Fan type 7, R's default). */
-export function quantileSorted(sorted: ArrayLike<number>, q: number): number {
-  const h = (sorted.length - 1) * q;
-  const lo = Math.floor(h);
-  const hi = Math.min(lo + 1, sorted.length - 1);
-  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+/** Harrell's k knot quantiles (type 7) of sorted values; tied knots are left in for the caller to judge. */
+export function harrellKnots(sorted: ArrayLike<number>, k: 3 | 4 | 5): number[] {
+  return rcsKnotQuantiles[k].map((q) => quantileSorted(sorted, q));
 }
 
 /**
@@ -25,12 +23,13 @@ export function rcsKnots(values: ArrayLike<number>, k: 3 | 4 | 5, column: string
     .sort((a, b) => a - b);
   if (finite.length === 0)
     throw new FulcraError('spline-no-data', `Column "${column}" has no values to place spline knots.`);
-  const knots = rcsKnotQuantiles[k].map((q) => quantileSorted(finite, q));
+  const knots = harrellKnots(finite, k);
   for (let i = 1; i < knots.length; i++) {
     if (!(knots[i] > knots[i - 1])) {
       throw new FulcraError(
         'spline-knots-tied',
-        `Column "${column}" has too few distinct values for a ${k}-knot spline (knots ${knots.map((x) => +x.toPrecision(6)).join(', ')} are not distinct).`,
+        `Column "${column}" has too few distinct values for a ${k}-knot spline (knots ` +
+          `${knots.map((x) => +x.toPrecision(6)).join(', ')} are not distinct).`,
         'Use fewer knots or enter the column as a plain numeric term.',
       );
     }

@@ -1,5 +1,7 @@
 import { FulcraError } from '../core/data';
+import { checkLevel, checkOutcomeAndPredictor, valueNumber, type WeightsAndLevel } from '../core/vectors';
 import { qnorm } from '../numerics/distributions';
+import { logit, RISK_CLIP, sigmoid } from '../numerics/loss';
 import { cholesky, choleskyInverse } from '../numerics/linalg';
 import { newtonLogistic } from '../fitting/newton';
 import { warning, type EngineWarning } from '../core/warnings';
@@ -28,9 +30,6 @@ export interface CalibrationRegression {
   warnings: EngineWarning[];
 }
 
-/** Smallest/largest risk used on the logit scale; risks of exactly 0 or 1 are moved here, with a warning. */
-export const RISK_CLIP = 1e-12;
-
 /** LP = logit(p), with risks of exactly 0 or 1 clipped to [1e−12, 1 − 1e−12] and a warning saying how many. */
 export function riskToLinearPredictor(p: Float64Array): {
   eta: Float64Array;
@@ -40,21 +39,19 @@ export function riskToLinearPredictor(p: Float64Array): {
   const eta = new Float64Array(p.length);
   let clipped = 0;
   for (let i = 0; i < p.length; i++) {
-    let v = p[i];
+    const v = p[i];
     if (!(v >= 0 && v <= 1))
-      throw new FulcraError('bad-score', `Predicted risks must lie in [0, 1]; row ${i + 1} is ${v}.`);
-    if (v < RISK_CLIP || v > 1 - RISK_CLIP) {
-      v = Math.min(1 - RISK_CLIP, Math.max(RISK_CLIP, v));
-      clipped++;
-    }
-    eta[i] = Math.log(v / (1 - v));
+      throw new FulcraError('bad-score', `Predicted risks must lie in [0, 1]; ${valueNumber(i)} is ${v}.`);
+    if (v < RISK_CLIP || v > 1 - RISK_CLIP) clipped++;
+    eta[i] = logit(v);
   }
   const warnings =
     clipped > 0
       ? [
           warning(
             'risk-clipped',
-            `${clipped} predicted risk(s) were exactly 0 or 1 (or closer than 1e-12); they were set to 1e-12 or 1 − 1e-12 for calibration on the logit scale.`,
+            `${clipped} predicted risk(s) were exactly 0 or 1 (or closer than 1e-12); they were set to 1e-12 or ` +
+              `1 − 1e-12 for calibration on the logit scale.`,
             'Risks of exactly 0 or 1 are rarely credible; check how the predictions were made.',
           ),
         ]
@@ -75,7 +72,7 @@ export function fitSmallLogistic(
   const fit = newtonLogistic({ X, n, p, y, weights, offset, start }, { tol: 1e-12, maxIter: 100 });
   const ch = cholesky(fit.information, p);
   const cov = ch.rank === p ? choleskyInverse(ch) : null;
-  return { beta: fit.beta, cov, converged: fit.converged, fitted: fit.fitted };
+  return { beta: fit.beta, cov, converged: fit.converged, fitted: fit.fitted, logLik: fit.logLik };
 }
 
 function interval(est: number, variance: number, z: number): IntervalEstimate {
@@ -91,27 +88,20 @@ function interval(est: number, variance: number, z: number): IntervalEstimate {
 export function calibrationRegression(
   y: Float64Array,
   eta: Float64Array,
-  options: { weights?: Float64Array; level?: number } = {},
+  options: WeightsAndLevel = {},
 ): CalibrationRegression {
-  const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1))
-    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  const level = checkLevel(options.level);
   const n = y.length;
-  if (eta.length !== n)
-    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
+  checkOutcomeAndPredictor(y, eta);
   const w = options.weights;
   let sw = 0;
   let sy = 0;
   let sp = 0;
   for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1)
-      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(eta[i]))
-      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
     const wi = w ? w[i] : 1;
     sw += wi;
     sy += wi * y[i];
-    sp += wi / (1 + Math.exp(-eta[i]));
+    sp += wi * sigmoid(eta[i]);
   }
   const base = { level, ciMethod: 'wald' as const };
   if (!(sw > 0) || sy === 0 || sy === sw) {
@@ -144,7 +134,9 @@ export function calibrationRegression(
     warnings.push(
       warning(
         'calibration-not-converged',
-        `The ${!citl.converged ? 'calibration-in-the-large' : 'calibration slope'} fit did not converge, usually because the linear predictor separates events from non-events perfectly; ${!citl.converged ? 'neither estimate is' : 'the slope is not'} reported.`,
+        `The ${!citl.converged ? 'calibration-in-the-large' : 'calibration slope'} fit did not converge, ` +
+          `usually because the linear predictor separates events from non-events perfectly; ` +
+          `${!citl.converged ? 'neither estimate is' : 'the slope is not'} reported.`,
         'Check for perfect separation (e.g. a predictor that leaks the outcome) or evaluate on more data.',
       ),
     );

@@ -1,46 +1,19 @@
 import { FulcraError } from '../core/data';
+import { checkLevel, checkOutcomeAndPredictor } from '../core/vectors';
+import { harrellKnots, rcsBasis } from '../design/splines';
 import { qnorm } from '../numerics/distributions';
-import { fitSmallLogistic, RISK_CLIP } from './calibration';
+import { clampRisk, logit, sigmoid } from '../numerics/loss';
+import { quantileSorted, weightedQuantile } from '../numerics/quantile';
+import { fitSmallLogistic } from './calibration';
 import { warning, type EngineWarning } from '../core/warnings';
-
-/** Quantile of sorted data, R's type 7 (linear interpolation between order statistics). */
-export function quantileSorted(sorted: ArrayLike<number>, q: number): number {
-  const n = sorted.length;
-  if (n === 0) return NaN;
-  const h = (n - 1) * q;
-  const lo = Math.floor(h);
-  const hi = Math.min(n - 1, lo + 1);
-  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
-}
-
-/** Harrell's default knot positions (quantiles of the predictor) for 3, 4 and 5 knots. */
-export const RCS_KNOT_QUANTILES: Record<3 | 4 | 5, number[]> = {
-  3: [0.1, 0.5, 0.9],
-  4: [0.05, 0.35, 0.65, 0.95],
-  5: [0.05, 0.275, 0.5, 0.725, 0.95],
-};
-
-/**
- * The k − 2 non-linear restricted-cubic-spline basis terms at x (Harrell 2015, Regression Modeling
- * Strategies, §2.4.5): (x−t_j)₊³ − (x−t_{k−1})₊³·(t_k−t_j)/(t_k−t_{k−1}) + (x−t_k)₊³·(t_{k−1}−t_j)/(t_k−t_{k−1}),
- * each divided by (t_k − t_1)². Linear beyond the outer knots.
- */
-export function rcsTerms(x: number, knots: number[], out: Float64Array): void {
-  const k = knots.length;
-  const tk = knots[k - 1];
-  const tk1 = knots[k - 2];
-  const norm = (tk - knots[0]) ** 2;
-  const c = (v: number) => (v > 0 ? v * v * v : 0);
-  for (let j = 0; j < k - 2; j++) {
-    const tj = knots[j];
-    out[j] = (c(x - tj) - (c(x - tk1) * (tk - tj)) / (tk - tk1) + (c(x - tk) * (tk1 - tj)) / (tk - tk1)) / norm;
-  }
-}
 
 export interface CalibrationCurve {
   /** Knots on the linear-predictor (logit) scale; empty when the curve fell back to a straight line. */
   knots: number[];
-  /** Grid of predicted risks (1st to 99th percentile of the risks) with the estimated observed risk and its pointwise band. */
+  /**
+   * Grid of predicted risks (1st to 99th percentile of the risks) with the estimated observed risk and its
+   * pointwise band.
+   */
   predicted: number[];
   observed: number[];
   lower: number[];
@@ -80,20 +53,11 @@ export function calibrationCurve(
   const gridSize = options.gridSize ?? 100;
   if (!(Number.isInteger(gridSize) && gridSize >= 2))
     throw new FulcraError('bad-grid', `The grid size must be an integer ≥ 2, got ${gridSize}.`);
-  const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1))
-    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1, got ${level}.`);
+  const level = checkLevel(options.level);
   const n = y.length;
-  if (eta.length !== n)
-    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${eta.length}.`);
+  checkOutcomeAndPredictor(y, eta);
   let events = 0;
-  for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1)
-      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(eta[i]))
-      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${eta[i]}.`);
-    events += y[i];
-  }
+  for (let i = 0; i < n; i++) events += y[i];
   const warnings: EngineWarning[] = [];
   const empty: CalibrationCurve = {
     knots: [],
@@ -130,12 +94,15 @@ export function calibrationCurve(
     );
     return empty;
   }
-  let knots = Array.from(new Set(RCS_KNOT_QUANTILES[nk].map((q) => quantileSorted(sorted, q))));
+  let knots = Array.from(new Set(harrellKnots(sorted, nk)));
   if (knots.length < nk) {
     warnings.push(
       warning(
         'calibration-knots-reduced',
-        `The linear predictor has too many tied values for ${nk} distinct knots; ${knots.length >= 3 ? `${knots.length} knots were used` : 'a straight line (calibration slope model) was used instead'}.`,
+        `The linear predictor has too many tied values for ${nk} distinct knots; ` +
+          (knots.length >= 3
+            ? `${knots.length} knots were used.`
+            : 'a straight line (calibration slope model) was used instead.'),
         'This is expected when the model has few distinct predictions.',
       ),
     );
@@ -148,7 +115,7 @@ export function calibrationCurve(
     X[i] = 1;
     X[n + i] = eta[i];
     if (p > 2) {
-      rcsTerms(eta[i], knots, terms);
+      rcsBasis(eta[i], knots, terms);
       for (let j = 0; j < p - 2; j++) X[(j + 2) * n + i] = terms[j];
     }
   }
@@ -159,7 +126,8 @@ export function calibrationCurve(
     warnings.push(
       warning(
         'calibration-curve-not-converged',
-        'The calibration curve fit did not converge (usually perfect separation of events from non-events), so no curve or ICI is reported.',
+        'The calibration curve fit did not converge (usually perfect separation of events from non-events), so ' +
+          'no curve or ICI is reported.',
         'Use fewer knots, check for perfect separation, or evaluate on more data.',
       ),
     );
@@ -180,7 +148,7 @@ export function calibrationCurve(
   let sw = 0;
   let sum = 0;
   for (let i = 0; i < n; i++) {
-    const pi = 1 / (1 + Math.exp(-eta[i]));
+    const pi = sigmoid(eta[i]);
     absErr[i] = Math.abs(pi - fit.fitted[i]);
     const wi = w ? w[i] : 1;
     sw += wi;
@@ -188,20 +156,20 @@ export function calibrationCurve(
   }
   const errSorted = absErr.slice().sort();
   const z = qnorm(1 - (1 - level) / 2);
-  const pLo = 1 / (1 + Math.exp(-quantileSorted(sorted, 0.01)));
-  const pHi = 1 / (1 + Math.exp(-quantileSorted(sorted, 0.99)));
+  const pLo = sigmoid(quantileSorted(sorted, 0.01));
+  const pHi = sigmoid(quantileSorted(sorted, 0.99));
   const predicted: number[] = [];
   const observed: number[] = [];
   const lower: number[] = [];
   const upper: number[] = [];
   const x = new Float64Array(p);
   for (let g = 0; g < gridSize; g++) {
-    const pg = Math.min(1 - RISK_CLIP, Math.max(RISK_CLIP, pLo + ((pHi - pLo) * g) / (gridSize - 1)));
-    const e = Math.log(pg / (1 - pg));
+    const pg = clampRisk(pLo + ((pHi - pLo) * g) / (gridSize - 1));
+    const e = logit(pg);
     x[0] = 1;
     x[1] = e;
     if (p > 2) {
-      rcsTerms(e, knots, terms);
+      rcsBasis(e, knots, terms);
       x.set(terms, 2);
     }
     let lp = 0;
@@ -212,9 +180,9 @@ export function calibrationCurve(
     }
     const se = Math.sqrt(Math.max(0, v));
     predicted.push(pg);
-    observed.push(1 / (1 + Math.exp(-lp)));
-    lower.push(1 / (1 + Math.exp(-(lp - z * se))));
-    upper.push(1 / (1 + Math.exp(-(lp + z * se))));
+    observed.push(sigmoid(lp));
+    lower.push(sigmoid(lp - z * se));
+    upper.push(sigmoid(lp + z * se));
   }
   return {
     knots,
@@ -229,21 +197,11 @@ export function calibrationCurve(
     emax: errSorted[n - 1],
     method:
       knots.length > 0
-        ? `Logistic regression of the outcome on a restricted cubic spline of the linear predictor with ${knots.length} knots (Harrell's quantiles); ${Math.round(level * 100)}% pointwise Wald band on the logit scale; drawn from the 1st to the 99th percentile of the predicted risks.`
-        : 'Logistic regression of the outcome on the linear predictor (straight line; too few distinct predictions for a spline).',
+        ? `Logistic regression of the outcome on a restricted cubic spline of the linear predictor with ` +
+          `${knots.length} knots (Harrell's quantiles); ${Math.round(level * 100)}% pointwise Wald band on the ` +
+          `logit scale; drawn from the 1st to the 99th percentile of the predicted risks.`
+        : 'Logistic regression of the outcome on the linear predictor (straight line; too few distinct ' +
+          'predictions for a spline).',
     warnings,
   };
-}
-
-/** Smallest value whose cumulative weight reaches q of the total (weighted ECDF inverse). */
-function weightedQuantile(v: Float64Array, w: Float64Array, q: number): number {
-  const idx = Array.from(v.keys()).sort((a, b) => v[a] - v[b]);
-  let total = 0;
-  for (let i = 0; i < w.length; i++) total += w[i];
-  let acc = 0;
-  for (const i of idx) {
-    acc += w[i];
-    if (acc >= q * total) return v[i];
-  }
-  return v[idx[idx.length - 1]];
 }

@@ -1,4 +1,6 @@
 import { FulcraError } from '../core/data';
+import { sigmoid } from '../numerics/loss';
+import { searchSorted } from '../numerics/searchSorted';
 import { qnorm, twoSidedP } from '../numerics/distributions';
 import { warning, type EngineWarning } from '../core/warnings';
 import { discriminationWarnings } from './roc';
@@ -35,27 +37,8 @@ interface Placements {
   v01: Float64Array;
 }
 
-function lowerBound(a: Float64Array, v: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid] < v) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
-
-function upperBound(a: Float64Array, v: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid] <= v) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
+const lowerBound = (a: Float64Array, v: number): number => searchSorted(a, v, 'left');
+const upperBound = (a: Float64Array, v: number): number => searchSorted(a, v, 'right');
 
 /** Placement values in case order (needed to pair two scores), O(n log n): two sorts and binary searches. */
 function placements(y: Float64Array, s: Float64Array): Placements {
@@ -152,7 +135,9 @@ export function delongFromPrepared(prep: PreparedThresholds, options: DelongOpti
     warnings.push(
       warning(
         'auc-perfect',
-        `The model separates events from non-events perfectly in these data (AUC = ${auc}). The DeLong standard error is 0, so no two-sided interval is given; the ${Math.round(level * 100)}% interval shown is one-sided, from the largest variance an AUC can have with ${k} cases in the smaller class.`,
+        `The model separates events from non-events perfectly in these data (AUC = ${auc}). The DeLong standard ` +
+          `error is 0, so no two-sided interval is given; the ${Math.round(level * 100)}% interval shown is ` +
+          `one-sided, from the largest variance an AUC can have with ${k} cases in the smaller class.`,
         'Perfect separation usually means a predictor leaks the outcome or the sample is small; check on new data.',
       ),
     );
@@ -182,8 +167,8 @@ export function delongFromPrepared(prep: PreparedThresholds, options: DelongOpti
     return {
       auc,
       se,
-      lower: 1 / (1 + Math.exp(-(l - h))),
-      upper: 1 / (1 + Math.exp(-(l + h))),
+      lower: sigmoid(l - h),
+      upper: sigmoid(l + h),
       ciMethod: 'delong-logit-scale',
       ...base,
     };
@@ -247,7 +232,8 @@ export function delongPairedTest(
     warnings.push(
       warning(
         'auc-difference-zero-variance',
-        'The two scores rank the cases identically (or both perfectly), so the difference in AUC has no variance and cannot be tested.',
+        'The two scores rank the cases identically (or both perfectly), so the difference in AUC has no ' +
+          'variance and cannot be tested.',
         'Compare models that differ in how they rank cases.',
       ),
     );

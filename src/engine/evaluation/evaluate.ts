@@ -104,7 +104,8 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
     warnings.push(
       warning(
         'weights-no-delong',
-        'With case weights the AUC is the weighted one, and no DeLong interval is given (the DeLong variance assumes unweighted cases).',
+        'With case weights the AUC is the weighted one, and no DeLong interval is given (the DeLong variance ' +
+          'assumes unweighted cases).',
         'Use a bootstrap interval for weighted data.',
       ),
     );

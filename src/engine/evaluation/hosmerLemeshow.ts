@@ -1,6 +1,6 @@
 import { FulcraError } from '../core/data';
 import { pchisqUpper } from '../numerics/distributions';
-import { quantileSorted } from './calibrationCurve';
+import { quantileSorted } from '../numerics/quantile';
 import { warning, type EngineWarning } from '../core/warnings';
 import { checkScoredOutcome } from './threshold';
 
@@ -29,7 +29,9 @@ export interface HosmerLemeshowResult {
 }
 
 const CAVEAT =
-  'The Hosmer–Lemeshow test is secondary: its result depends on how cases are binned, it has little power in small samples, and in large samples it rejects almost any model. Read the calibration curve, slope and intercept first.';
+  'The Hosmer–Lemeshow test is secondary: its result depends on how cases are binned, it has little power in ' +
+  'small samples, and in large samples it rejects almost any model. Read the calibration curve, slope and ' +
+  'intercept first.';
 
 /**
  * Hosmer–Lemeshow goodness-of-fit (Hosmer & Lemeshow 1980, Commun Stat A9:1043) with "deciles of risk":
@@ -41,7 +43,10 @@ export function hosmerLemeshow(y: Float64Array, p: Float64Array, g = 10): Hosmer
   if (!(Number.isInteger(g) && g >= 3))
     throw new FulcraError('bad-groups', `The number of groups must be an integer ≥ 3, got ${g}.`);
   checkScoredOutcome(y, p, undefined, true);
-  const groupingRule = `Cases sorted by predicted risk and cut at the ${g}-quantiles of the risks (R type 7; tied cut points merged; each group runs from above the previous cut up to and including its own). Empty groups are dropped; df = number of groups − 2.`;
+  const groupingRule =
+    `Cases sorted by predicted risk and cut at the ${g}-quantiles of the risks (R type 7; ` +
+    `tied cut points merged; each group runs from above the previous cut up to and including its own). Empty ` +
+    `groups are dropped; df = number of groups − 2.`;
   const warnings: EngineWarning[] = [];
   const sorted = p.slice().sort();
   const breaks = Array.from(new Set(Array.from({ length: g + 1 }, (_, j) => quantileSorted(sorted, j / g))));
@@ -89,7 +94,8 @@ export function hosmerLemeshow(y: Float64Array, p: Float64Array, g = 10): Hosmer
       groups.length < 3
         ? warning(
             'hl-too-few-groups',
-            `Only ${groups.length} group(s) of distinct risk could be formed, so the Hosmer–Lemeshow test cannot be computed.`,
+            `Only ${groups.length} group(s) of distinct risk could be formed, so the Hosmer–Lemeshow test ` +
+              `cannot be computed.`,
             'Use the calibration curve instead.',
           )
         : warning(

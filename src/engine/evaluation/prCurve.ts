@@ -1,5 +1,5 @@
 import { warning, type EngineWarning } from '../core/warnings';
-import { prepareThresholds, type PreparedThresholds } from './threshold';
+import { prepareThresholds, type CurveOptions, type PreparedThresholds } from './threshold';
 
 /**
  * Precision–recall curve from the highest threshold down (flag score ≥ threshold), starting at
@@ -65,10 +65,6 @@ export function prFromPrepared(prep: PreparedThresholds, maxPoints = 500): PrCur
 }
 
 /** PR curve of scores (higher = higher risk) for a 0/1 outcome, with optional case weights. */
-export function prCurve(
-  y: Float64Array,
-  score: Float64Array,
-  options: { weights?: Float64Array; maxPoints?: number } = {},
-): PrCurve {
+export function prCurve(y: Float64Array, score: Float64Array, options: CurveOptions = {}): PrCurve {
   return prFromPrepared(prepareThresholds(y, score, options.weights, false), options.maxPoints ?? Infinity);
 }

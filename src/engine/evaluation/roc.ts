@@ -1,5 +1,5 @@
 import { warning, type EngineWarning } from '../core/warnings';
-import { prepareThresholds, type PreparedThresholds } from './threshold';
+import { prepareThresholds, type CurveOptions, type PreparedThresholds } from './threshold';
 
 /**
  * ROC curve from the highest threshold down: point j is (fpr, tpr) when flagging score ≥ threshold[j];
@@ -11,7 +11,10 @@ export interface RocCurve {
   threshold: (number | null)[];
   /** Points on the full curve (distinct scores + 1) before thinning. */
   nPointsFull: number;
-  /** Area under the curve = Mann–Whitney probability P(score_event > score_non-event) + ½·P(tie); null with one class. */
+  /**
+   * Area under the curve = Mann–Whitney probability P(score_event > score_non-event) + ½·P(tie); null with one
+   * class.
+   */
   auc: number | null;
   events: number;
   nonEvents: number;
@@ -38,7 +41,8 @@ export function discriminationWarnings(
     w.push(
       warning(
         'class-too-small',
-        `There is only one ${events < 2 ? eventsLabel.replace(/s$/, '') : 'non-event'}; the AUC is shown but has no standard error or confidence interval.`,
+        `There is only one ${events < 2 ? eventsLabel.replace(/s$/, '') : 'non-event'}; the AUC is shown but ` +
+          `has no standard error or confidence interval.`,
         'Evaluate on more data; an AUC from one case of a class says almost nothing.',
       ),
     );
@@ -114,10 +118,6 @@ export function rocFromPrepared(prep: PreparedThresholds, maxPoints = 500): RocC
 }
 
 /** ROC curve and AUC of scores (higher score = higher risk) for a 0/1 outcome, with optional case weights. */
-export function rocCurve(
-  y: Float64Array,
-  score: Float64Array,
-  options: { weights?: Float64Array; maxPoints?: number } = {},
-): RocCurve {
+export function rocCurve(y: Float64Array, score: Float64Array, options: CurveOptions = {}): RocCurve {
   return rocFromPrepared(prepareThresholds(y, score, options.weights, false), options.maxPoints ?? Infinity);
 }

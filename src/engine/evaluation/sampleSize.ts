@@ -23,7 +23,10 @@ export interface SampleSizeInput {
   parameters: number;
   /** Anticipated outcome proportion φ. */
   outcomeProportion: number;
-  /** Anticipated Cox–Snell R²; when omitted (and no fitted model), 15% of the maximum is used (a conservative default). */
+  /**
+   * Anticipated Cox–Snell R²; when omitted (and no fitted model), 15% of the maximum is used (a conservative
+   * default).
+   */
   r2cs?: number;
   /** Take R²cs from a fitted model instead: 1 − exp((D_model − D_null)/n). */
   fitted?: { deviance: number; nullDeviance: number; n: number };
@@ -91,7 +94,8 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   if (!(r2 > 0 && r2 < maxR2))
     throw new FulcraError(
       'bad-r2',
-      `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome proportion of ${Number(phi.toPrecision(3))}, got ${r2}.`,
+      `The anticipated Cox–Snell R² must lie between 0 and its maximum ${maxR2.toFixed(3)} for an outcome ` +
+        `proportion of ${Number(phi.toPrecision(3))}, got ${r2}.`,
     );
   if (!(r2 < S))
     throw new FulcraError('bad-r2', `The anticipated Cox–Snell R² (${r2}) must be below the target shrinkage (${S}).`);
@@ -100,7 +104,8 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
     warnings.push(
       warning(
         'r2-apparent',
-        `The Cox–Snell R² (${r2.toFixed(3)}) was taken from the fitted model; this apparent value is optimistic, so the sample size may be underestimated.`,
+        `The Cox–Snell R² (${r2.toFixed(3)}) was taken from the fitted model; this apparent value is ` +
+          `optimistic, so the sample size may be underestimated.`,
         'Prefer an R² reported for this outcome in an independent study, or an optimism-corrected one.',
       ),
     );
@@ -108,7 +113,8 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
     warnings.push(
       warning(
         'r2-assumed',
-        `No anticipated R² was given, so 15% of the largest possible Cox–Snell R² (${(0.15 * maxR2).toFixed(3)}) was assumed.`,
+        `No anticipated R² was given, so 15% of the largest possible Cox–Snell R² ` +
+          `(${(0.15 * maxR2).toFixed(3)}) was assumed.`,
         'Give the R² of a previous model for this outcome, or of the fitted model, for a better estimate.',
       ),
     );
@@ -128,16 +134,23 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
     mk(
       'i',
       nFor(S),
-      `(i) For the model's predictions to need shrinking by no more than ${Math.round((1 - S) * 100)}% (expected shrinkage factor ≥ ${S})`,
+      `(i) For the model's predictions to need shrinking by no more than ${Math.round((1 - S) * 100)}% ` +
+        `(expected shrinkage factor ≥ ${S})`,
     ),
     mk('ii', nFor(sVh), `(ii) For the apparent Nagelkerke R² to exceed the true one by no more than ${delta}`),
     mk('iii', n3, `(iii) To estimate the overall outcome risk within ±${margin} (95% confidence)`),
   ];
   for (const c of criteria)
-    c.text += ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events per parameter).`;
+    c.text +=
+      ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events ` +
+      `per parameter).`;
   const bindingC = criteria.reduce((a, b) => (b.n > a.n ? b : a));
+  const r2Source = source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)';
   const summary = [
-    `With ${P} candidate parameter${P === 1 ? '' : 's'}, an outcome proportion of ${Number(phi.toPrecision(3))} and a Cox–Snell R² of ${r2.toFixed(3)}${source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)'}, the model needs at least ${bindingC.n} cases (${bindingC.events} events, ${bindingC.eventsPerParameter.toFixed(1)} events per parameter).`,
+    `With ${P} candidate parameter${P === 1 ? '' : 's'}, an outcome proportion of ${Number(phi.toPrecision(3))} ` +
+      `and a Cox–Snell R² of ` +
+      `${r2.toFixed(3)}${r2Source}, the model needs at least ${bindingC.n} cases (${bindingC.events} events, ` +
+      `${bindingC.eventsPerParameter.toFixed(1)} events per parameter).`,
     `The binding requirement is criterion (${bindingC.id}).`,
     ...criteria.map((c) => c.text),
   ];
@@ -151,7 +164,8 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
     summary.push(
       enough
         ? `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) meet this.`
-        : `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) fall short: expect an over-fitted model; use fewer parameters or a penalised fit.`,
+        : `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) fall short: ` +
+            `expect an over-fitted model; use fewer parameters or a penalised fit.`,
     );
   }
   return {

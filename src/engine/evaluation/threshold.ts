@@ -1,3 +1,6 @@
+import type { Costs } from '../core/costs';
+import { valueNumber } from '../core/vectors';
+import { searchSorted } from '../numerics/searchSorted';
 import { FulcraError } from '../core/data';
 import { qnorm } from '../numerics/distributions';
 import { proportionCi, type ProportionCiMethod, type ProportionEstimate } from './proportionCi';
@@ -36,19 +39,20 @@ export function checkScoredOutcome(y: Float64Array, s: Float64Array, weights?: F
     if (y[i] !== 0 && y[i] !== 1)
       throw new FulcraError(
         'bad-outcome',
-        `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`,
+        `The outcome must be 0 or 1; ${valueNumber(i)} is ${y[i]}.`,
         'Remove rows with a missing outcome first.',
       );
     const v = s[i];
     if (!Number.isFinite(v) || (isRisk && (v < 0 || v > 1))) {
       throw new FulcraError(
         'bad-score',
-        `${isRisk ? 'Predicted risks must lie in [0, 1]' : 'Scores must be finite numbers'}; row ${i + 1} is ${v}.`,
+        `${isRisk ? 'Predicted risks must lie in [0, 1]' : 'Scores must be finite numbers'}; ` +
+          `${valueNumber(i)} is ${v}.`,
         'Remove rows with a missing prediction first.',
       );
     }
     if (weights && !(weights[i] >= 0 && Number.isFinite(weights[i])))
-      throw new FulcraError('bad-weight', `Weights must be finite and ≥ 0; row ${i + 1} is ${weights[i]}.`);
+      throw new FulcraError('bad-weight', `Weights must be finite and ≥ 0; ${valueNumber(i)} is ${weights[i]}.`);
   }
   if (weights && y.length > 0 && weights.every((w) => w === 0)) {
     throw new FulcraError(
@@ -132,16 +136,16 @@ export function prepareThresholds(
   return { risks, eventsAtOrAbove, nonEventsAtOrAbove, events: se, nonEvents: sn, total: se + sn, weighted: !!weights };
 }
 
+/** Options of the curves drawn from one threshold structure (ROC, precision–recall). */
+export interface CurveOptions {
+  weights?: Float64Array;
+  /** Most points kept in the returned curve (the AUC is computed from all of them). */
+  maxPoints?: number;
+}
+
 /** Index of the first distinct risk ≥ t (risks.length when none): binary search, O(log n). */
 export function firstAtOrAbove(risks: Float64Array, t: number): number {
-  let lo = 0;
-  let hi = risks.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (risks[mid] < t) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
+  return searchSorted(risks, t, 'left');
 }
 
 /** Counts flagged at threshold t (flag rule risk ≥ t). */
@@ -153,31 +157,27 @@ export function confusionAt(prep: PreparedThresholds, t: number): { tp: number; 
 }
 
 /** Costs per case: of a missed event, of a false alarm, and optionally the benefit of a caught event. */
-export interface DecisionCosts {
-  falseNegative: number;
-  falsePositive: number;
+export interface DecisionCosts extends Costs {
   truePositiveBenefit?: number;
 }
 
 function checkCosts(c: DecisionCosts): void {
   const b = c.truePositiveBenefit ?? 0;
   for (const [name, v] of [
-    ['falseNegative', c.falseNegative],
-    ['falsePositive', c.falsePositive],
+    ['missedCase', c.missedCase],
+    ['falseAlarm', c.falseAlarm],
     ['truePositiveBenefit', b],
   ] as const) {
     if (!(v >= 0 && Number.isFinite(v)))
       throw new FulcraError('bad-cost', `The cost ${name} must be a finite number ≥ 0, got ${v}.`);
   }
-  if (c.falsePositive === 0 && c.falseNegative + b === 0)
+  if (c.falseAlarm === 0 && c.missedCase + b === 0)
     throw new FulcraError('bad-cost', 'At least one cost must be greater than 0.');
 }
 
 /** Expected cost per 100 cases: 100·(C_FN·FN + C_FP·FP − B·TP)/n. */
 export function costPer100(conf: { tp: number; fp: number; fn: number }, total: number, c: DecisionCosts): number {
-  return (
-    (100 * (c.falseNegative * conf.fn + c.falsePositive * conf.fp - (c.truePositiveBenefit ?? 0) * conf.tp)) / total
-  );
+  return (100 * (c.missedCase * conf.fn + c.falseAlarm * conf.fp - (c.truePositiveBenefit ?? 0) * conf.tp)) / total;
 }
 
 export interface ThresholdMetrics {
@@ -276,7 +276,7 @@ export interface CostThresholds {
 /** Decision-theory threshold p* = C_FP/(C_FP + C_FN + B) (e.g. Pauker & Kassirer 1980, NEJM 302:1109). */
 export function decisionTheoryThreshold(costs: DecisionCosts): number {
   checkCosts(costs);
-  return costs.falsePositive / (costs.falsePositive + costs.falseNegative + (costs.truePositiveBenefit ?? 0));
+  return costs.falseAlarm / (costs.falseAlarm + costs.missedCase + (costs.truePositiveBenefit ?? 0));
 }
 
 /** Both cost-based thresholds with the assumptions each rests on. The empirical scan is O(number of distinct risks). */
@@ -300,7 +300,9 @@ export function costThresholds(prep: PreparedThresholds, costs: DecisionCosts): 
       threshold: pStar,
       assumptions: [
         'The predicted risks are calibrated (a risk of 20% means 20 in 100 such cases have the event).',
-        `Each missed event costs ${costs.falseNegative}, each false alarm costs ${costs.falsePositive}${B > 0 ? `, and each caught event brings a benefit of ${B}` : ''}, the same for every case.`,
+        `Each missed event costs ${costs.missedCase}, each false alarm costs ` +
+          `${costs.falseAlarm}${B > 0 ? `, and each caught event brings a benefit of ${B}` : ''}, the same for ` +
+          `every case.`,
         'Costs are on one scale and add up across cases; nothing else depends on the decision.',
         FLAG_RULE,
       ],
@@ -311,9 +313,11 @@ export function costThresholds(prep: PreparedThresholds, costs: DecisionCosts): 
       expectedCostPer100: best,
       flagged: bestK < K ? prep.eventsAtOrAbove[bestK] + prep.nonEventsAtOrAbove[bestK] : 0,
       assumptions: [
-        'The cases here are representative of the cases the threshold will be applied to (same outcome rate, same case mix).',
+        'The cases here are representative of the cases the threshold will be applied to (same outcome rate, ' +
+          'same case mix).',
         'It is chosen on the same data it is judged on, so its expected cost is optimistic; check it on new data.',
-        'It does not rely on calibration, but it is noisy in small samples; prefer the decision-theory threshold when the risks are calibrated.',
+        'It does not rely on calibration, but it is noisy in small samples; prefer the decision-theory ' +
+          'threshold when the risks are calibrated.',
         'Ties in cost are resolved towards flagging fewer cases.',
         FLAG_RULE,
       ],

@@ -3,8 +3,10 @@ import { newtonLogistic, type LogisticProblem, type NewtonOptions, type NewtonRe
 /**
  * Firth's bias-reduced logistic regression (Firth 1993, Biometrika 80:27; Heinze & Schemper 2002, Stat Med
  * 21:2409): maximises the penalised log-likelihood ℓ*(β) = ℓ(β) + ½·log det I(β), I = X'WX, with the modified
- * score U* = X'(y − μ + h∘(½ − μ)), h the hat values. Estimates are finite under separation. Same design
- * conventions as newtonLogistic (column-major, intercept included by the caller).
+ * score U* = X'(y − μ + h∘(½ − μ)), h the hat values, as its gradient, by Newton steps on ℓ* with step-halving
+ * (Hessian in firthHessian.ts; Fisher-type steps (X'WX)⁻¹U* for very large n·p³, see newtonLogistic). Estimates
+ * are finite under separation. Same design conventions as newtonLogistic (column-major, intercept included by the
+ * caller); SEs come from the returned information X'WX, the Fisher information at β̂ (as brglm2 reports them).
  */
 export function firthLogistic(problem: LogisticProblem, options: Partial<NewtonOptions> = {}): NewtonResult {
   return newtonLogistic({ ...problem, firth: true }, options);

@@ -1,3 +1,5 @@
+import { interceptDeviance } from '../numerics/loss';
+import { cholesky, choleskyInverse } from '../numerics/linalg';
 import { qnorm, twoSidedP } from '../numerics/distributions';
 
 export interface WaldRow {
@@ -28,9 +30,7 @@ export function waldTable(beta: ArrayLike<number>, cov: ArrayLike<number>, level
 export function nullDeviance(y: ArrayLike<number>): number {
   let s = 0;
   for (let i = 0; i < y.length; i++) s += y[i];
-  const m = s / y.length;
-  const t = (k: number, q: number) => (k > 0 ? k * Math.log(q) : 0);
-  return -2 * (t(s, m) + t(y.length - s, 1 - m));
+  return interceptDeviance(s, y.length);
 }
 
 /** AIC = deviance + 2k, BIC = deviance + k·log n, k = number of estimated coefficients (intercept included). */
@@ -55,4 +55,22 @@ export function sandwich(A: Float64Array, B: ArrayLike<number>, p: number): Floa
       out[i * p + j] = s;
     }
   return out;
+}
+
+/**
+ * Covariance of the original-scale coefficients (row-major p×p, aliased columns 0) from the information of the
+ * kept standardised columns: V = A·I⁻¹·A' (A = destandardiseMap); null when it is not finite.
+ */
+export function originalCovariance(
+  information: Float64Array,
+  keep: number[],
+  p: number,
+  A: Float64Array,
+): Float64Array | null {
+  const pk = keep.length;
+  const inv = choleskyInverse(cholesky(information, pk));
+  const full = new Float64Array(p * p);
+  keep.forEach((i, a) => keep.forEach((j, b) => (full[i * p + j] = inv[a * pk + b])));
+  const covariance = sandwich(A, full, p);
+  return covariance.every(Number.isFinite) ? covariance : null;
 }

@@ -143,7 +143,7 @@ export function lossSurface(
     for (let t = 0; t < 3; t++) shift[t] = full[t] - part[t];
   }
   const shifted = (bi: number, bj: number): number => shift[0] + shift[1] * (bi - beta[i]) + shift[2] * (bj - beta[j]);
-  /** Σ case losses over the m rows with coefficients i, j at (bi, bj), the others at their estimates; fills w for Firth. */
+  /** Σ case losses over the m rows, coefficients i, j at (bi, bj), the others at their estimates; fills w for Firth. */
   const lossSum = (bi: number, bj: number): number => {
     const di = bi - beta[i],
       dj = bj - beta[j];

@@ -222,7 +222,8 @@ export function checkBudget(est: MemoryEstimate, available: number = availableBy
   if (needed <= available) return { ok: true, needed, available };
   const what = est.job === 'import' ? 'This file needs' : 'This model needs';
   const doing = est.job === 'import' ? 'to open' : 'to fit and check';
-  const message = `${what} about ${formatBytes(needed)} of memory ${doing}; the tab can use about ${formatBytes(available)}.`;
+  const message =
+    `${what} about ${formatBytes(needed)} of memory ${doing}; the tab can use about ` + `${formatBytes(available)}.`;
   const fixed = est.parts
     .filter((p) => p.label === 'working overhead' || p.label === 'the file itself')
     .reduce((s, p) => s + p.bytes, 0);
@@ -235,6 +236,7 @@ export function checkBudget(est: MemoryEstimate, available: number = availableBy
   const suggestion =
     est.job === 'import'
       ? `Save a copy of the file with only the columns you need, or with ${sample}, and open that.`
-      : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), turn off profile intervals, or fit on ${sample}.`;
+      : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), turn ` +
+        `off profile intervals, or fit on ${sample}.`;
   return { ok: false, code: 'too-big', message, suggestion, needed, available };
 }

@@ -1,8 +1,10 @@
 import { FulcraError } from '../core/data';
+import { valueNumber } from '../core/vectors';
 import { blockedXtr } from '../numerics/kernels';
 import { createRowPasses, giveBackBuffers, takeBuffer } from '../numerics/rowPool';
 import { cholesky, choleskyFactorInverse, choleskyLogDet, choleskySolve } from '../numerics/linalg';
 import { sigmoid } from '../numerics/loss';
+import { FIRTH_NEWTON_FROM_START, firthHessianWork, firthNewtonHessian, firthNewtonPays } from './firthHessian';
 
 export interface LogisticProblem {
   /** Column-major n×p design; the caller includes an intercept column if wanted. */
@@ -20,14 +22,15 @@ export interface LogisticProblem {
   /** Firth/Jeffreys-prior penalty: adds ½·log det(X'WX) to the log-likelihood. */
   firth?: boolean;
   start?: Float64Array;
-  /** 1 = hold this coefficient at its start value (profile likelihood, term tests); Firth keeps the full information. */
+  /** 1 = hold the coefficient at its start value (profile likelihood, term tests); Firth keeps the full information. */
   fixed?: Uint8Array;
 }
 
 export interface NewtonOptions {
   /**
    * Converged when |ΔD|/(|D| + 0.1) < tol, D = 2·N·objective (R glm's rule on the penalised deviance),
-   * and max |Δβ_j|/(1 + |β_j|) < √tol (< 100·tol for Firth). Diverging coefficients (separation) never converge.
+   * and max |Δβ_j|/(1 + |β_j|) < √tol (< 100·tol after a Firth Fisher-type step, see exactNewton). Diverging
+   * coefficients (separation) never converge.
    */
   tol: number;
   maxIter: number;
@@ -58,7 +61,7 @@ export interface NewtonResult {
   path?: Float64Array[];
   /** Fitted probabilities. */
   fitted: Float64Array;
-  /** 1 for columns the solver held at their start because they were linear combinations of earlier ones at the start. */
+  /** 1 for columns the solver held at their start, being linear combinations of earlier ones at the start. */
   dropped: Uint8Array;
   /** Gradient of the penalised log-likelihood at beta (= −N·∂objective/∂β), including fixed coordinates. */
   score: Float64Array;
@@ -103,7 +106,7 @@ function validate(pr: LogisticProblem): void {
 
 /**
  * A non-finite value anywhere in X makes the loss or the gradient of the first evaluation non-finite (NaN·0 and
- * ∞·0 are NaN); only then is X searched, to name the row and column.
+ * ∞·0 are NaN); only then is X searched, to name the position (X's rows are not dataset rows).
  */
 function checkFirstPass(pr: LogisticProblem, loss: number, g: Float64Array): void {
   let probe = loss * 0;
@@ -114,7 +117,7 @@ function checkFirstPass(pr: LogisticProblem, loss: number, g: Float64Array): voi
     if (!Number.isFinite(X[k]))
       throw new FulcraError(
         'bad-argument',
-        `X has a non-finite value (${X[k]}) in row ${k % n}, column ${Math.floor(k / n)}.`,
+        `X has a non-finite value (${X[k]}): ${valueNumber(k % n)} of design column ${Math.floor(k / n) + 1}.`,
       );
   }
 }
@@ -239,66 +242,96 @@ function createWorkspace(pr: LogisticProblem, N: number) {
   return { newSlot, evaluate, computeInfo, passes };
 }
 
+/** Adds N·diag(penalty) to H and takes the fixed coordinates out of the step system (their row, column and U). */
+function constrainSystem(
+  H: Float64Array,
+  U: Float64Array,
+  p: number,
+  N: number,
+  penalty: Float64Array | undefined,
+  fixed: Uint8Array | undefined,
+): void {
+  if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
+  if (!fixed) return;
+  for (let j = 0; j < p; j++) {
+    if (!fixed[j]) continue;
+    U[j] = 0;
+    for (let k = 0; k < p; k++) {
+      H[j * p + k] = 0;
+      H[k * p + j] = 0;
+    }
+  }
+}
+
+/**
+ * Step halving from run.beta along `step`: the first t = 1, ½, ¼, … (at most `halvings` tries) whose objective is
+ * not above `obj` (to rounding) is evaluated into run.other (the point in `trial`); returns t, or 0 when none is.
+ */
+function halvingSearch(
+  ws: Workspace,
+  run: Run,
+  step: Float64Array,
+  trial: Float64Array,
+  obj: number,
+  halvings: number,
+): number {
+  let t = 1;
+  for (let half = 0; half < halvings; half++) {
+    for (let j = 0; j < step.length; j++) trial[j] = run.beta[j] + t * step[j];
+    ws.evaluate(trial, run.other, false);
+    if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) return t;
+    t *= 0.5;
+  }
+  return 0;
+}
+
 /**
  * Exact Newton iterations from run.beta (run.cur evaluated there) until converged, stuck or maxIter in total.
  * Returns whether the convergence test passed.
  */
 function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt: NewtonOptions): boolean {
-  const { p, penalty, fixed, firth = false } = pr;
+  const { n, p, penalty, fixed, firth = false } = pr;
   const U = new Float64Array(p),
     step = new Float64Array(p),
     trial = new Float64Array(p);
   const H = new Float64Array(p * p),
     Hfac = new Float64Array(p * p),
     Hdrop = new Uint8Array(p);
-  // Firth's step uses the expected information, not the penalised Hessian: linear convergence, tighter step rule.
-  const stepTol = firth ? opt.tol * 100 : Math.sqrt(opt.tol);
+  // Firth: Newton steps on ℓ* (firthHessian.ts) from the start while n·p³ ≤ FIRTH_NEWTON_FROM_START, else from when
+  // the Fisher-type steps (X'WX)⁻¹U* contract slowly (firthNewtonPays). The Fisher-type step also wherever that
+  // Hessian is not positive definite; its linear convergence needs a tighter step rule.
+  let fWork = firth && n * p ** 3 <= FIRTH_NEWTON_FROM_START ? firthHessianWork(p) : null;
+  let lastFisher = Infinity;
   let first = true;
   while (run.iterations < opt.maxIter) {
     const cur = run.cur;
     if (!cur.infoValid) ws.computeInfo(cur);
     run.lastInfo = cur;
     U.set(cur.g);
-    H.set(cur.info);
-    if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
-    if (fixed) {
-      for (let j = 0; j < p; j++) {
-        if (!fixed[j]) continue;
-        U[j] = 0;
-        for (let k = 0; k < p; k++) {
-          H[j * p + k] = 0;
-          H[k * p + j] = 0;
-        }
-      }
-    }
+    const newtonStep =
+      fWork !== null && firthNewtonHessian(pr.X, n, p, cur.eta, cur.w, cur.hat!, cur.info, H, fWork, fixed);
+    if (!newtonStep) H.set(cur.info);
+    const stepTol = firth && !newtonStep ? opt.tol * 100 : Math.sqrt(opt.tol);
+    constrainSystem(H, U, p, N, penalty, fixed);
     const hChol = cholesky(H, p, 1e-12, Hfac, Hdrop);
     if (first) for (let j = 0; j < p; j++) run.initialDrop[j] = fixed?.[j] ? 0 : Hdrop[j];
     first = false;
     choleskySolve(hChol, U, step);
+    if (firth) capStep(step, FIRTH_MAX_STEP);
     let degenerate = false;
     for (let j = 0; j < p; j++) if (Hdrop[j] && !run.initialDrop[j] && !fixed?.[j]) degenerate = true;
     if (degenerate) return false; // a column lost all information during the iterations: diverging coefficients
 
     const obj = cur.obj,
       D = 2 * N * obj;
-    let accepted = false;
-    let t = 1;
-    for (let half = 0; half < 40; half++) {
-      for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
-      ws.evaluate(trial, run.other, false);
-      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) {
-        accepted = true;
-        break;
-      }
-      t *= 0.5;
-    }
+    const t = halvingSearch(ws, run, step, trial, obj, 40);
     let maxFull = 0,
       dec = 0;
     for (let j = 0; j < p; j++) {
       maxFull = Math.max(maxFull, Math.abs(step[j]) / (1 + Math.abs(run.beta[j])));
       dec += U[j] * step[j];
     }
-    if (!accepted || t < 1e-6) {
+    if (t < 1e-6) {
       // No real decrease possible: at the optimum up to rounding, or stuck with a large Newton step (separation).
       // run.cur is still the state at run.beta.
       return dec / (Math.abs(D) + 0.1) < Math.sqrt(opt.tol) && maxFull < Math.sqrt(stepTol);
@@ -308,10 +341,27 @@ function exactNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, op
     run.other = cur;
     run.iterations++;
     if (run.path) run.path.push(Float64Array.from(run.beta));
+    if (firth && !fWork) {
+      if (t === 1 && firthNewtonPays(maxFull / lastFisher, p)) fWork = firthHessianWork(p);
+      lastFisher = t === 1 ? maxFull : Infinity;
+    }
     const Dnew = 2 * N * run.cur.obj;
     if (Math.abs(Dnew - D) / (Math.abs(Dnew) + 0.1) < opt.tol && maxFull < stepTol) return true;
   }
   return false;
+}
+
+/**
+ * Largest change of any coefficient in one Firth step (the step is scaled down to it, direction kept), as in
+ * Heinze & Schemper's implementation (maxstep = 5): near quasi-separation ℓ* is almost flat along the separating
+ * direction, and an uncapped step can land where X'WX has underflowed and no later step is accepted.
+ */
+const FIRTH_MAX_STEP = 5;
+
+function capStep(step: Float64Array, cap: number): void {
+  let m = 0;
+  for (const s of step) m = Math.max(m, Math.abs(s));
+  if (m > cap) for (let j = 0; j < step.length; j++) step[j] *= cap / m;
 }
 
 /** Rows per block of a subsample: contiguous runs are read at memory speed, where single rows at a stride are not. */
@@ -376,31 +426,11 @@ function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt
     }
     H.set(Hs);
     U.set(run.cur.g);
-    if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
-    if (fixed) {
-      for (let j = 0; j < p; j++) {
-        if (!fixed[j]) continue;
-        U[j] = 0;
-        for (let k = 0; k < p; k++) {
-          H[j * p + k] = 0;
-          H[k * p + j] = 0;
-        }
-      }
-    }
+    constrainSystem(H, U, p, N, penalty, fixed);
     choleskySolve(cholesky(H, p, 1e-12, Hfac, Hdrop), U, step);
     const obj = run.cur.obj;
-    let accepted = false,
-      t = 1;
-    for (let half = 0; half < 30; half++) {
-      for (let j = 0; j < p; j++) trial[j] = run.beta[j] + t * step[j];
-      ws.evaluate(trial, run.other, false);
-      if (run.other.obj <= obj + 1e-13 * Math.abs(obj) + 1e-300) {
-        accepted = true;
-        break;
-      }
-      t *= 0.5;
-    }
-    if (!accepted) break; // the estimated Hessian gives no descent: exact Newton from here
+    const t = halvingSearch(ws, run, step, trial, obj, 30);
+    if (t === 0) break; // the estimated Hessian gives no descent: exact Newton from here
     let maxRel = 0;
     for (let j = 0; j < p; j++) maxRel = Math.max(maxRel, Math.abs(t * step[j]) / (1 + Math.abs(run.beta[j])));
     run.beta.set(trial);
@@ -421,6 +451,10 @@ function fastNewton(pr: LogisticProblem, N: number, ws: Workspace, run: Run, opt
  * Firth's modified score (Heinze & Schemper 2002, Stat Med 21:2409): step (X'WX + N·P)⁻¹U with
  * U = X'(c∘(y − μ) + h∘(½ − μ)) − N·Pβ (h only for Firth), halving the step while the objective
  * gets worse. Columns found to be linear combinations of earlier ones are held at their start value.
+ * Firth fits take true Newton steps on ℓ* = ℓ + ½·log det X'WX instead (its Hessian from firthHessian.ts; quadratic
+ * convergence) where that Hessian is positive definite: from the start while n·p³ ≤ FIRTH_NEWTON_FROM_START, else
+ * once the step above converges slowly (firthNewtonPays; at large n with many events it rarely does).
+ * The returned information is X'WX (+ N·P) in every case, so Firth SEs come from the Fisher information at β̂.
  * Without Firth's penalty and for n > max(20 000, 16·p²) it begins with cheap subsampled-Hessian steps (see
  * fastNewton) and always ends with exact Newton steps, the exact convergence test and the exact X'WX.
  */

@@ -1,5 +1,5 @@
-import { FulcraError, type Column, type Dataset } from '../core/data';
-import { designFromRecipe, parseDecimal } from '../design/design';
+import { FulcraError, sheetRow, type Column, type Dataset } from '../core/data';
+import { designFromRecipe, droppedRowsWarning, parseDecimal } from '../design/design';
 import { qnorm } from '../numerics/distributions';
 import { sigmoid } from '../numerics/loss';
 import type { FitResult } from '../core/model';
@@ -20,7 +20,7 @@ export interface Prediction {
 /**
  * Risks for the rows of `data` from a fitted model: the design is rebuilt from result.recipe (same coding, knots and
  * reference levels), rows with a missing predictor are skipped (see rowsUsed), an unseen category throws a
- * FulcraError naming row and column. The outcome column, if present, is ignored.
+ * FulcraError naming the spreadsheet row and column. The outcome column, if present, is ignored.
  */
 export function predict(result: FitResult, data: Dataset): Prediction {
   const d = designFromRecipe(result.recipe, data, { outcome: 'ignore' });
@@ -46,7 +46,8 @@ export function predict(result: FitResult, data: Dataset): Prediction {
       if (Math.abs(beta[j] * X[j * n + i]) > Math.abs(beta[worst] * X[worst * n + i])) worst = j;
     throw new FulcraError(
       'value-out-of-range',
-      `Row ${d.rowsUsed[i] + 1}: the value of "${d.columnNames[worst]}" is so extreme that the risk score cannot be computed.`,
+      `Row ${sheetRow(data, d.rowsUsed[i])}: the value of "${d.columnNames[worst]}" is so extreme that the risk ` +
+        'score cannot be computed.',
       'Check the value and its units.',
     );
   }
@@ -75,22 +76,15 @@ export function predict(result: FitResult, data: Dataset): Prediction {
     warnings.push(
       warning(
         'no-prediction-interval',
-        'This model has no valid covariance matrix (penalised fit or separation), so the risks have no confidence interval.',
+        'This model has no valid covariance matrix (penalised fit or separation), so the risks have no ' +
+          'confidence interval.',
         'Use bootstrap validation to judge the uncertainty.',
       ),
     );
   if (d.nDropped > 0) {
-    const parts = Object.entries(d.droppedByColumn)
-      .map(([c, k]) => `"${c}" ${k}`)
-      .join(', ');
-    warnings.push(
-      warning(
-        'rows-not-scored',
-        `${d.nDropped} rows were not scored because of missing values (${parts}).`,
-        'Fill in the missing values to score those rows.',
-        Object.keys(d.droppedByColumn),
-      ),
-    );
+    const lead = `${d.nDropped} rows were not scored because of missing values`;
+    const hint = 'Fill in the missing values to score those rows.';
+    warnings.push(droppedRowsWarning('rows-not-scored', lead, hint, d.droppedByColumn, true));
   }
   return { eta, risk, lower, upper, rowsUsed: d.rowsUsed, warnings };
 }

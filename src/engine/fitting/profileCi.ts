@@ -14,6 +14,8 @@ export interface ProfileTarget {
   /** θ̂ and its Wald SE, for bracketing. */
   estimate: number;
   se: number;
+  /** Iteration limit of each constrained refit (default 100). */
+  maxIter?: number;
 }
 
 /**
@@ -43,7 +45,10 @@ export function profileInterval(
   let start: Float64Array = Float64Array.from(t.beta);
   const evalAt = (theta: number): { f: number; df: number } => {
     start[index] = theta * scale;
-    const r = newtonLogistic({ ...problem, fixed, start }, { tol: 1e-13, maxIter: 100, information: false });
+    const r = newtonLogistic(
+      { ...problem, fixed, start },
+      { tol: 1e-13, maxIter: t.maxIter ?? 100, information: false },
+    );
     start = r.beta;
     return { f: 2 * N * (r.objective - t.objective) - crit, df: -2 * r.score[index] * scale };
   };

@@ -1,4 +1,5 @@
 import type { NewtonResult } from './newton';
+import { warning, type EngineWarning } from '../core/warnings';
 
 export interface SeparationCheck {
   kind: 'none' | 'complete' | 'quasi';
@@ -34,4 +35,40 @@ export function detectSeparation(fit: NewtonResult, y: ArrayLike<number>): Separ
   const columns: number[] = [];
   for (let j = 1; j < p; j++) if (Math.abs(b[j] - a[j]) >= 0.05 * max) columns.push(j);
   return { kind: determined === n ? 'complete' : 'quasi', columns, determinedRows: determined };
+}
+
+/**
+ * The warning for separation (naming the terms of the diverging columns `columns`, original design indices), or
+ * for a fit that stopped without converging after `maxIter` iterations; null when neither applies.
+ */
+export function separationWarning(
+  sep: SeparationCheck,
+  columns: Set<number>,
+  columnTerms: string[],
+  n: number,
+  converged: boolean,
+  maxIter: number,
+): EngineWarning | null {
+  if (sep.kind === 'none') {
+    if (converged) return null;
+    return warning(
+      'not-converged',
+      `The fit did not converge in ${maxIter} iterations.`,
+      'Raise the iteration limit (fit option maxIter: Iteration limit on the page, --max-iter in npm run fit), ' +
+        'or check for extreme or nearly duplicated predictors.',
+    );
+  }
+  const terms = [...new Set([...columns].map((j) => columnTerms[j]))];
+  const what =
+    sep.kind === 'complete'
+      ? 'complete separation: the predictors split events from non-events perfectly'
+      : `quasi-complete separation: ${sep.determinedRows} of ${n} rows are predicted perfectly`;
+  return warning(
+    sep.kind === 'complete' ? 'complete-separation' : 'quasi-separation',
+    `The data show ${what}, so the maximum-likelihood estimates for ${terms.map((t) => `"${t}"`).join(', ')} ` +
+      'do not exist (they grow without bound); the values shown for them are where the iterations stopped and ' +
+      'have no standard errors.',
+    'Refit with the Firth method (bias-reduced, finite estimates) or a ridge penalty, or merge sparse categories.',
+    terms,
+  );
 }

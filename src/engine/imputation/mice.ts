@@ -1,4 +1,5 @@
 import { FulcraError, getColumn, isMissing, type Column, type Dataset } from '../core/data';
+import { sigmoid } from '../numerics/loss';
 import { imputeCategorical, drawLogistic, rowDot, type ImputationDesign } from './imputeModels';
 import { modelColumns } from './missingReport';
 import type { ModelSpec } from '../core/model';
@@ -123,8 +124,10 @@ export async function mice(
     warnings.push(
       warning(
         'mi-outcome-imputed',
-        `The outcome "${spec.outcome}" is missing in ${outcome.mis.length} rows; these are imputed and used in the fits.`,
-        'Consider also fitting without the rows whose outcome was imputed (the option to exclude them from the fits; von Hippel 2007, Sociol Methodol 37:83).',
+        `The outcome "${spec.outcome}" is missing in ${outcome.mis.length} rows; these are imputed and used in ` +
+          `the fits.`,
+        'Consider also fitting without the rows whose outcome was imputed (the option to exclude them from the ' +
+          'fits; von Hippel 2007, Sociol Methodol 37:83).',
         [spec.outcome],
       ),
     );
@@ -142,8 +145,11 @@ export async function mice(
     warnings.push(
       warning(
         'mi-nonlinear-terms',
-        `The imputation models are linear in ${cols.join(', ')}, but the model has spline or interaction terms in them; imputed values do not carry these curves or interactions, which biases their estimates towards none.`,
-        'Treat these estimates with caution; for an interaction with a grouping column, impute and fit each group separately.',
+        `The imputation models are linear in ${cols.join(', ')}, but the model has spline or interaction terms ` +
+          `in them; imputed values do not carry these curves or interactions, which biases their estimates ` +
+          `towards none.`,
+        'Treat these estimates with caution; for an interaction with a grouping column, impute and fit each ' +
+          'group separately.',
         cols,
       ),
     );
@@ -167,7 +173,7 @@ export async function mice(
     for (let it = 0; it < opt.maxit; it++) {
       targets.forEach((t, j) => {
         const ti = vars.indexOf(t);
-        const design = buildDesign(vars, state, ti);
+        const design = imputationDesign(vars, state, ti);
         const s = state[ti];
         if (t.method === 'pmm') {
           const r = pmmImpute(design, s, t.obs, t.mis, rng, opt.donors);
@@ -176,7 +182,7 @@ export async function mice(
         } else if (t.col.kind === 'numeric') {
           const d = drawLogistic(design, s, t.obs, rng);
           if (!d.converged) notConverged[j]++;
-          for (const i of t.mis) s[i] = rng.next() < 1 / (1 + Math.exp(-rowDot(design, i, d.beta))) ? 1 : 0;
+          for (const i of t.mis) s[i] = rng.next() < sigmoid(rowDot(design, i, d.beta)) ? 1 : 0;
         } else {
           const r = imputeCategorical(design, Int32Array.from(s), t.levels, t.obs, t.mis, rng);
           notConverged[j] += r.notConverged;
@@ -199,7 +205,8 @@ export async function mice(
         warning(
           'mi-imputation-not-converged',
           `The logistic imputation model for "${t.col.name}" did not converge in ${notConverged[j]} fits.`,
-          'Check for a predictor that almost perfectly predicts this column; the imputations still use a stabilised fit.',
+          'Check for a predictor that almost perfectly predicts this column; the imputations still use a ' +
+            'stabilised fit.',
           [t.col.name],
         ),
       );
@@ -207,7 +214,8 @@ export async function mice(
       warnings.push(
         warning(
           'mi-collinear-predictors',
-          `In the imputation model for "${t.col.name}", ${aliased[j]} predictor column(s) were linear combinations of others and were left out.`,
+          `In the imputation model for "${t.col.name}", ${aliased[j]} predictor column(s) were linear ` +
+            `combinations of others and were left out.`,
           'Look for duplicated or derived columns among the model and auxiliary columns.',
           [t.col.name],
         ),
@@ -254,8 +262,11 @@ function prepare(col: Column, n: number): Var {
   return { col, values, obs: Int32Array.from(obs), mis: Int32Array.from(mis), method, levels, mean, sd };
 }
 
-/** Intercept, standardised numeric columns and level indicators (first level as reference) of all but `target`. */
-function buildDesign(vars: Var[], state: Float64Array[], target: number): ImputationDesign {
+/**
+ * The predictors of one imputation model, from the current state of the chain: intercept, standardised numeric
+ * columns and level indicators (first level as reference) of every variable but `target`.
+ */
+function imputationDesign(vars: Var[], state: Float64Array[], target: number): ImputationDesign {
   const n = state[0].length;
   let q = 1;
   vars.forEach((v, j) => {
@@ -286,6 +297,7 @@ export function completeDataset(data: Dataset, imp: MiceResult, k: number): Data
   const byName = new Map(imp.imputed.map((c) => [c.column, c]));
   return {
     nRows: data.nRows,
+    firstRow: data.firstRow,
     columns: data.columns.map((col) => {
       const ic = byName.get(col.name);
       if (!ic) return col;

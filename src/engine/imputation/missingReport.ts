@@ -87,7 +87,8 @@ export function missingReport(data: Dataset, spec: ModelSpec): MissingReport {
     warnings.push(
       warning(
         'no-complete-rows',
-        `Every one of the ${n} rows has a missing value in ${withMissing.join(', ')}, so complete-case analysis has no rows to fit.`,
+        `Every one of the ${n} rows has a missing value in ${withMissing.join(', ')}, so complete-case analysis ` +
+          `has no rows to fit.`,
         'Use multiple imputation, or leave out the predictor with the most missing values.',
         withMissing,
       ),
@@ -98,11 +99,17 @@ export function missingReport(data: Dataset, spec: ModelSpec): MissingReport {
     warnings.push(
       warning(
         'complete-case-mcar',
-        `Complete-case analysis drops ${dropped} of ${n} rows (${pct}%) with a missing value in ${withMissing.join(', ')}. ` +
-          'Its estimates are unbiased if values are missing completely at random (MCAR: whether a value is missing is unrelated to any data). ' +
-          'For logistic regression the estimates also stay unbiased when whether a row is complete depends only on the predictors (even on the missing values themselves) and not on the outcome given them; ' +
-          'the odds ratios, but not the intercept or predicted risks, also stay unbiased when it depends only on the outcome. When it depends on both, the odds ratios can be biased, and the dropped rows always cost precision.',
-        'If missingness may depend on observed values, compare with multiple imputation (which assumes missing at random given the variables in the imputation model).',
+        `Complete-case analysis drops ${dropped} of ${n} rows (${pct}%) with a missing value in ` +
+          `${withMissing.join(', ')}. ` +
+          'Its estimates are unbiased if values are missing completely at random (MCAR: whether a value is ' +
+          'missing is unrelated to any data). ' +
+          'For logistic regression the estimates also stay unbiased when whether a row is complete depends only ' +
+          'on the predictors (even on the missing values themselves) and not on the outcome given them; ' +
+          'the odds ratios, but not the intercept or predicted risks, also stay unbiased when it depends only ' +
+          'on the outcome. When it depends on both, the odds ratios can be biased, and the dropped rows ' +
+          'always cost precision.',
+        'If missingness may depend on observed values, compare with multiple imputation (which assumes missing ' +
+          'at random given the variables in the imputation model).',
         withMissing,
       ),
     );

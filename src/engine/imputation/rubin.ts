@@ -134,7 +134,8 @@ export function poolRubin(input: RubinInput): RubinResult {
     warnings.push(
       warning(
         'mi-nonfinite',
-        `Some imputations gave no finite estimate or variance for ${bad.join(', ')}, so the pooled values are not usable.`,
+        `Some imputations gave no finite estimate or variance for ${bad.join(', ')}, so the pooled values are ` +
+          `not usable.`,
         'Look at the fits on the completed datasets: a term may be separated or aliased in some imputations.',
         bad,
       ),
@@ -272,7 +273,8 @@ export function poolCoefficients(fits: FitResult[], level = 0.95): PooledCoeffic
     warnings.push(
       warning(
         'mi-aliased',
-        `${aliasedSome.join(', ')} could not be estimated (aliased) in at least one imputed dataset, so no pooled inference is given for them.`,
+        `${aliasedSome.join(', ')} could not be estimated (aliased) in at least one imputed dataset, so no ` +
+          `pooled inference is given for them.`,
         'Merge sparse categories or drop the redundant term.',
         aliasedSome,
       ),
@@ -284,7 +286,9 @@ export function poolCoefficients(fits: FitResult[], level = 0.95): PooledCoeffic
     warnings.push(
       warning(
         'mi-no-inference',
-        `The fits give no standard error for ${noSe.join(', ')} in at least one imputed dataset (a penalised fit, or a term that separates the outcome), so only the mean of the estimates is reported, without intervals or p-values.`,
+        `The fits give no standard error for ${noSe.join(', ')} in at least one imputed dataset (a penalised ` +
+          `fit, or a term that separates the outcome), so only the mean of the estimates is reported, without ` +
+          `intervals or p-values.`,
         'Use maximum likelihood or Firth fitting for pooled inference, and check the terms for separation.',
         noSe,
       ),

@@ -3,6 +3,8 @@ export * from './distributions';
 export * from './kernels';
 export * from './linalg';
 export * from './loss';
+export * from './quantile';
 export * from './rng';
 export * from './rowPool';
+export * from './searchSorted';
 export * from './standardise';

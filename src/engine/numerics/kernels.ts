@@ -138,7 +138,7 @@ function addEtaBlock(
 }
 
 /** g += X[r0..r1, ·]'r[r0..r1), four columns per pass over the block of r (row i at r[i − rOff]). */
-function addXtrBlock(
+export function addXtrBlock(
   X: Float64Array,
   n: number,
   p: number,
@@ -150,14 +150,11 @@ function addXtrBlock(
 ): void {
   let j = 0;
   for (; j + 3 < p; j += 4) {
-    const o0 = j * n,
-      o1 = o0 + n,
-      o2 = o1 + n,
-      o3 = o2 + n;
-    let s0 = 0,
-      s1 = 0,
-      s2 = 0,
-      s3 = 0;
+    const [o0, o1, o2, o3] = [j * n, (j + 1) * n, (j + 2) * n, (j + 3) * n];
+    let s0 = 0;
+    let s1 = 0;
+    let s2 = 0;
+    let s3 = 0;
     for (let i = r0; i < r1; i++) {
       const v = r[i - rOff];
       s0 += X[o0 + i] * v;
@@ -176,25 +173,6 @@ function addXtrBlock(
     for (let i = r0; i < r1; i++) s += X[o + i] * r[i - rOff];
     g[j] += s;
   }
-}
-
-/** η = offset + Xβ into `out` (length n), row-blocked, four columns per pass. */
-export function blockedLinearPredictor(
-  X: Float64Array,
-  n: number,
-  p: number,
-  beta: ArrayLike<number>,
-  offset: Float64Array | undefined,
-  out: Float64Array,
-): Float64Array {
-  const R = 2048;
-  for (let r0 = 0; r0 < n; r0 += R) {
-    const r1 = Math.min(n, r0 + R);
-    if (offset) for (let i = r0; i < r1; i++) out[i] = offset[i];
-    else for (let i = r0; i < r1; i++) out[i] = 0;
-    addEtaBlock(X, n, p, beta, r0, r1, out);
-  }
-  return out;
 }
 
 /** g = X'r (length p) into `out`, row-blocked, four columns per pass over the block of r. */

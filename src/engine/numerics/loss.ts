@@ -1,9 +1,15 @@
+import { addXtrBlock } from './kernels';
+
 /**
  * Logistic (binary cross-entropy) loss in numerically stable forms, apart from any solver.
  * Per case with linear predictor η and outcome y ∈ [0, 1]:
  *   loss = log(1 + e^η) − y·η   (= −[y·log μ + (1−y)·log(1−μ)],  μ = 1/(1 + e^−η))
  * computed as (1−y)·softplus(η) + y·softplus(−η), softplus(t) = max(t, 0) + log1p(e^−|t|): finite for every
  * finite η and without cancellation when the prediction is right.
+ *
+ * Every loss, deviance and log-likelihood in the engine is computed here from η. Where only a risk p is known it
+ * enters through `logit`, under the one clipping rule `clampRisk`: p is held within [floor, 1 − floor]
+ * (RISK_CLIP = 1e-12 unless a caller states another floor, as cross-validation does for cv.glmnet's 1e-5).
  */
 
 /** log(1 + e^η) without overflow or cancellation. */
@@ -16,6 +22,20 @@ export function sigmoid(eta: number): number {
   if (eta >= 0) return 1 / (1 + Math.exp(-eta));
   const e = Math.exp(eta);
   return e / (1 + e);
+}
+
+/** Smallest risk used on the logit scale: risks of exactly 0 or 1 are moved to RISK_CLIP or 1 − RISK_CLIP. */
+export const RISK_CLIP = 1e-12;
+
+/** The one clipping rule for risks: p held within [floor, 1 − floor]. */
+export function clampRisk(p: number, floor = RISK_CLIP): number {
+  return Math.min(1 - floor, Math.max(floor, p));
+}
+
+/** log(p / (1 − p)) of the risk held within [floor, 1 − floor]. */
+export function logit(p: number, floor = RISK_CLIP): number {
+  const q = clampRisk(p, floor);
+  return Math.log(q / (1 - q));
 }
 
 /** η = offset + Xβ for a column-major n×p X, written into `out` (length n). */
@@ -43,14 +63,35 @@ export function caseLoss(eta: number, y: number): number {
   return y === 1 ? softplus(-eta) : y === 0 ? softplus(eta) : (1 - y) * softplus(eta) + y * softplus(-eta);
 }
 
-/** Weighted sum of case losses Σ wᵢ·(softplus(ηᵢ) − yᵢηᵢ), i.e. −loglik. */
-export function sumCrossEntropy(eta: Float64Array, y: Float64Array, weights?: Float64Array): number {
+/**
+ * One case's deviance −2·loglik = 2·caseLoss(η, y). With `riskFloor` the risk is first held within
+ * [riskFloor, 1 − riskFloor] (clampRisk), i.e. η within ±logit(1 − riskFloor).
+ */
+export function caseDeviance(eta: number, y: number, riskFloor?: number): number {
+  if (riskFloor === undefined) return 2 * caseLoss(eta, y);
+  const cap = Math.log((1 - riskFloor) / riskFloor);
+  return 2 * caseLoss(Math.min(cap, Math.max(-cap, eta)), y);
+}
+
+/** Weighted sum of case losses Σ wᵢ·(softplus(ηᵢ) − yᵢηᵢ), i.e. −loglik; rows of weight 0 are skipped. */
+export function sumCrossEntropy(eta: Float64Array, y: ArrayLike<number>, weights?: ArrayLike<number>): number {
   let s = 0;
   for (let i = 0; i < eta.length; i++) {
+    if (weights && weights[i] === 0) continue;
     const l = caseLoss(eta[i], y[i]);
     s += weights ? weights[i] * l : l;
   }
   return s;
+}
+
+/**
+ * −2·loglik of the intercept-only model with `events` of `total` (weighted) cases:
+ * −2·[e·log(e/t) + (t − e)·log(1 − e/t)], a term with no cases counting 0.
+ */
+export function interceptDeviance(events: number, total: number): number {
+  const m = events / total;
+  const t = (k: number, q: number) => (k > 0 ? k * Math.log(q) : 0);
+  return -2 * (t(events, m) + t(total - events, 1 - m));
 }
 
 /** Mean cross-entropy (1/Σw)·Σ wᵢ·lossᵢ; NaN for no cases. */
@@ -65,7 +106,8 @@ export function meanCrossEntropy(eta: Float64Array, y: Float64Array, weights?: F
 
 /**
  * X'WX for column-major X into the row-major p×p `out`: only the upper triangle is accumulated (then mirrored),
- * in blocks of rows so the columns stay in cache, four columns per pass. `wx` is a work buffer (length ≥ 1024).
+ * in blocks of rows so the columns stay in cache: per block and column j, wx = w∘x_j and row j of the triangle
+ * gains X[·, j…p)'wx (kernels.ts addXtrBlock, four columns per pass). `wx` is a work buffer (length ≥ 1024).
  * Cost n·p(p+1)/2 multiply-adds.
  */
 export function crossProductWeighted(
@@ -83,35 +125,7 @@ export function crossProductWeighted(
     for (let j = 0; j < p; j++) {
       const oj = j * n;
       for (let i = i0; i < i1; i++) wx[i - i0] = w[i] * X[oj + i];
-      let k = j;
-      for (; k + 3 < p; k += 4) {
-        const o0 = k * n,
-          o1 = o0 + n,
-          o2 = o1 + n,
-          o3 = o2 + n;
-        let s0 = 0,
-          s1 = 0,
-          s2 = 0,
-          s3 = 0;
-        for (let i = i0; i < i1; i++) {
-          const a = wx[i - i0];
-          s0 += a * X[o0 + i];
-          s1 += a * X[o1 + i];
-          s2 += a * X[o2 + i];
-          s3 += a * X[o3 + i];
-        }
-        const r = j * p + k;
-        out[r] += s0;
-        out[r + 1] += s1;
-        out[r + 2] += s2;
-        out[r + 3] += s3;
-      }
-      for (; k < p; k++) {
-        const o0 = k * n;
-        let s0 = 0;
-        for (let i = i0; i < i1; i++) s0 += wx[i - i0] * X[o0 + i];
-        out[j * p + k] += s0;
-      }
+      addXtrBlock(X.subarray(oj), n, p - j, wx, i0, i1, out.subarray(j * p + j), i0);
     }
   }
   for (let j = 0; j < p; j++) for (let k = j + 1; k < p; k++) out[k * p + j] = out[j * p + k];

@@ -42,7 +42,10 @@ export interface RowJob {
   blockRows?: number;
   /** logistic: written (case weight × μ(1 − μ)); information: read. */
   w: Float64Array;
-  /** Per-chunk partials: loss (length K) and X'r (K·p) for 'logistic'; X'WX (K·p·p, row-major, both triangles) for 'information'. */
+  /**
+   * Per-chunk partials: loss (length K) and X'r (K·p) for 'logistic'; X'WX (K·p·p, row-major, both triangles) for
+   * 'information'.
+   */
   partLoss: Float64Array;
   partG: Float64Array;
   partH?: Float64Array;
@@ -96,7 +99,10 @@ export function runChunks(
   }
 }
 
-/** Chunks [k0, k1) of thread t out of `threads` (contiguous; when uneven the later threads take one more, so the caller, thread 0, also has time to hand out the work). */
+/**
+ * Chunks [k0, k1) of thread t out of `threads` (contiguous; when uneven the later threads take one more, so the
+ * caller, thread 0, also has time to hand out the work).
+ */
 export function chunkRange(chunks: number, threads: number, t: number): [number, number] {
   return [Math.floor((t * chunks) / threads), Math.floor(((t + 1) * chunks) / threads)];
 }

@@ -12,6 +12,45 @@ export interface Standardised {
   centerOverScale: Float64Array;
 }
 
+/** Moments of one column x = X[o … o+n) in units of M = max |x| (mean = sd = 0 unless M > 0). */
+export interface ColumnMoments {
+  M: number;
+  /** Mean and population SD of x/M: (weighted) mean, variance with divisor Σw (n unweighted). */
+  mean: number;
+  sd: number;
+  /** False when sd ≤ 1e-12·|mean| (or M = 0): the column does not vary. */
+  varying: boolean;
+  /** x[o + i]/M, computed without overflow or underflow. */
+  scaled: (i: number) => number;
+}
+
+/**
+ * Mean and population SD of a column, computed on x/M (M = max |x|) so that sums and squares neither overflow nor
+ * underflow at any scale (columns in units of 1e300 or 1e-300). `w`: case weights summing to 1 (default 1/n each).
+ */
+export function columnMoments(X: Float64Array, o: number, n: number, w?: Float64Array): ColumnMoments {
+  let M = 0;
+  for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
+  const invM = 1 / M;
+  const safeM = Number.isFinite(invM) && invM !== 0;
+  const scaled = (i: number) => (safeM ? X[o + i] * invM : X[o + i] / M);
+  if (!(M > 0)) return { M, mean: 0, sd: 0, varying: false, scaled };
+  let m = 0;
+  if (w) for (let i = 0; i < n; i++) m += w[i] * scaled(i);
+  else {
+    for (let i = 0; i < n; i++) m += scaled(i);
+    m /= n;
+  }
+  let v = 0;
+  if (w) for (let i = 0; i < n; i++) v += w[i] * (scaled(i) - m) ** 2;
+  else {
+    for (let i = 0; i < n; i++) v += (scaled(i) - m) ** 2;
+    v /= n;
+  }
+  const sd = Math.sqrt(v);
+  return { M, mean: m, sd, varying: sd > 1e-12 * Math.abs(m), scaled };
+}
+
 /** Centres and scales columns 1…p−1 of the column-major X into a new array, or into X itself when `inPlace`. */
 export function standardise(X: Float64Array, n: number, p: number, inPlace = false): Standardised {
   const Z = inPlace ? X : new Float64Array(n * p);
@@ -21,23 +60,11 @@ export function standardise(X: Float64Array, n: number, p: number, inPlace = fal
   if (!inPlace) Z.set(X.subarray(0, n));
   for (let j = 1; j < p; j++) {
     const o = j * n;
-    // Work on x/M (M = max |x|) so that sums and squares neither overflow nor underflow at any scale.
-    let M = 0;
-    for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
+    const { M, mean: m, sd: s, varying, scaled: u } = columnMoments(X, o, n);
     if (M === 0) {
       for (let i = 0; i < n; i++) Z[o + i] = 0;
       continue;
     }
-    const invM = 1 / M;
-    const safeM = Number.isFinite(invM) && invM !== 0;
-    const u = (i: number) => (safeM ? X[o + i] * invM : X[o + i] / M);
-    let m = 0;
-    for (let i = 0; i < n; i++) m += u(i);
-    m /= n;
-    let v = 0;
-    for (let i = 0; i < n; i++) v += (u(i) - m) ** 2;
-    const s = Math.sqrt(v / n);
-    const varying = s > 1e-12 * Math.abs(m);
     center[j] = m * M;
     scale[j] = varying ? s * M : M;
     centerOverScale[j] = varying ? m / s : m;

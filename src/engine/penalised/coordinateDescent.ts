@@ -1,4 +1,7 @@
 import { FulcraError } from '../core/data';
+import { valueNumber } from '../core/vectors';
+import { sigmoid, sumCrossEntropy } from '../numerics/loss';
+import { columnMoments } from '../numerics/standardise';
 
 /**
  * Penalised logistic regression by proximal Newton (IRLS outer loop) with cyclic coordinate descent on the
@@ -44,6 +47,7 @@ export interface Standardised {
   ybar: number;
 }
 
+/** The case-weighted standardisation of numerics/standardise.ts's columnMoments, with checked weights and outcome. */
 export function standardise(problem: PenalisedProblem): Standardised {
   const { X, n, p, y } = problem;
   if (X.length !== n * p) throw new FulcraError('bad-dimensions', `X has ${X.length} cells, expected n·p = ${n * p}.`);
@@ -53,9 +57,9 @@ export function standardise(problem: PenalisedProblem): Standardised {
   for (let i = 0; i < n; i++) {
     const wi = problem.weights ? problem.weights[i] : 1;
     if (!(wi >= 0) || !Number.isFinite(wi))
-      throw new FulcraError('bad-weight', `Weight ${wi} in row ${i + 1} is not a finite number ≥ 0.`);
+      throw new FulcraError('bad-weight', `Weight ${wi} (${valueNumber(i)}) is not a finite number ≥ 0.`);
     if (y[i] !== 0 && y[i] !== 1 && wi > 0)
-      throw new FulcraError('bad-outcome', `Outcome ${y[i]} in row ${i + 1} is not 0 or 1.`);
+      throw new FulcraError('bad-outcome', `Outcome ${y[i]} (${valueNumber(i)}) is not 0 or 1.`);
     w[i] = wi;
     W += wi;
   }
@@ -69,24 +73,10 @@ export function standardise(problem: PenalisedProblem): Standardised {
     sd = new Float64Array(p),
     constant: boolean[] = [];
   for (let j = 0; j < p; j++) {
-    const o = j * n;
-    // Moments of x/M (M = max |x|) so that columns in units of 1e300 or 1e-300 neither overflow nor underflow.
-    let M = 0;
-    for (let i = 0; i < n; i++) M = Math.max(M, Math.abs(X[o + i]));
-    if (!(M > 0)) {
-      mean[j] = 0;
-      sd[j] = 0;
-      constant.push(true);
-      continue;
-    }
-    let m = 0;
-    for (let i = 0; i < n; i++) m += w[i] * (X[o + i] / M);
-    let v = 0;
-    for (let i = 0; i < n; i++) v += w[i] * (X[o + i] / M - m) ** 2;
-    const s = Math.sqrt(v);
-    mean[j] = m * M;
-    sd[j] = s * M;
-    constant.push(!(s > 1e-12 * Math.abs(m)));
+    const c = columnMoments(X, j * n, n, w);
+    mean[j] = c.mean * c.M;
+    sd[j] = c.sd * c.M;
+    constant.push(!c.varying);
   }
   return { X, n, p, y, w, mean, sd, constant, ybar };
 }
@@ -102,11 +92,6 @@ export interface CdSolution {
   meanDeviance: number;
 }
 
-/** log(1 + e^η) without overflow. */
-function log1pexp(eta: number): number {
-  return eta > 0 ? eta + Math.log1p(Math.exp(-eta)) : Math.log1p(Math.exp(eta));
-}
-
 function linearPredictor(s: Standardised, b0: number, b: Float64Array, eta: Float64Array): void {
   const { X, n, p, mean, sd } = s;
   eta.fill(b0);
@@ -120,9 +105,7 @@ function linearPredictor(s: Standardised, b0: number, b: Float64Array, eta: Floa
 }
 
 function meanDeviance(s: Standardised, eta: Float64Array): number {
-  let d = 0;
-  for (let i = 0; i < s.n; i++) if (s.w[i] > 0) d += s.w[i] * (log1pexp(eta[i]) - s.y[i] * eta[i]);
-  return 2 * d;
+  return 2 * sumCrossEntropy(eta, s.y, s.w);
 }
 
 function penalty(b: Float64Array, lambda: number, alpha: number): number {
@@ -195,7 +178,7 @@ export function solveAtLambda(
     g.fill(0);
     G.fill(0);
     for (let i = 0; i < n; i++) {
-      const pr = 1 / (1 + Math.exp(-eta[i]));
+      const pr = sigmoid(eta[i]);
       v[i] = Math.max(w[i] * pr * (1 - pr), w[i] * 1e-12);
       col[i] = w[i] * (y[i] - pr);
       g[0] += col[i];

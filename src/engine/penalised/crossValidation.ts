@@ -1,3 +1,4 @@
+import { caseDeviance, sigmoid } from '../numerics/loss';
 import { FulcraError } from '../core/data';
 import type { PenalisedProblem } from './coordinateDescent';
 import { countFolds, stratifiedFolds } from './folds';
@@ -56,13 +57,11 @@ export interface CvResult {
   warnings: EngineWarning[];
 }
 
-/** Guard used for the deviance so one confident miss cannot dominate (as glmnet's cv: p clamped to [1e-5, 1 − 1e-5]). */
+/** Risk floor of the CV deviance, so one confident miss cannot dominate (cv.glmnet: p held in [1e-5, 1 − 1e-5]). */
 const P_MIN = 1e-5;
 
-function caseError(criterion: CvCriterion, y: number, p: number): number {
-  if (criterion === 'brier') return (y - p) ** 2;
-  const q = Math.min(Math.max(p, P_MIN), 1 - P_MIN);
-  return -2 * (y * Math.log(q) + (1 - y) * Math.log(1 - q));
+function caseError(criterion: CvCriterion, y: number, eta: number): number {
+  return criterion === 'brier' ? (y - sigmoid(eta)) ** 2 : caseDeviance(eta, y, P_MIN);
 }
 
 /**
@@ -120,7 +119,8 @@ export async function crossValidateLambda(
     if (evTrain === 0 || neTrain === 0) {
       throw new FulcraError(
         'fold-one-class',
-        `Without fold ${f + 1}, the remaining rows hold only ${evTrain === 0 ? 'non-events' : 'events'}, so no model can be fitted for cross-validation.`,
+        `Without fold ${f + 1}, the remaining rows hold only ${evTrain === 0 ? 'non-events' : 'events'}, so no ` +
+          `model can be fitted for cross-validation.`,
         'Use fewer folds, or collect more events.',
       );
     }
@@ -133,7 +133,7 @@ export async function crossValidateLambda(
         if (fold[i] !== f || !(w[i] > 0)) continue;
         let eta = b[0];
         for (let j = 0; j < p; j++) eta += b[j + 1] * problem.X[j * n + i];
-        e += w[i] * caseError(o.criterion, y[i], 1 / (1 + Math.exp(-eta)));
+        e += w[i] * caseError(o.criterion, y[i], eta);
       }
       foldError[f][k] = e / foldWeight[f];
     }

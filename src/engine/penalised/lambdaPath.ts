@@ -1,3 +1,4 @@
+import { interceptDeviance } from '../numerics/loss';
 import { FulcraError } from '../core/data';
 import {
   assemble,
@@ -87,12 +88,13 @@ export function lambdaPath(problem: PenalisedProblem, alpha: number, options: Pa
     warnings.push(
       warning(
         'constant-column',
-        `Predictor column(s) ${constantCols.join(', ')} do not vary among the rows used; their coefficient is kept at 0.`,
+        `Predictor column(s) ${constantCols.join(', ')} do not vary among the rows used; their coefficient is ` +
+          `kept at 0.`,
         'Remove predictors that take a single value.',
       ),
     );
   }
-  const nullDev = -2 * (s.ybar * Math.log(s.ybar) + (1 - s.ybar) * Math.log(1 - s.ybar));
+  const nullDev = interceptDeviance(s.ybar, 1);
   let start: { b0: number; b: Float64Array } = { b0: Math.log(s.ybar / (1 - s.ybar)), b: new Float64Array(s.p) };
   const out: LambdaPath = {
     alpha,

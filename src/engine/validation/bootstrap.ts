@@ -1,10 +1,12 @@
 import { brierScore } from '../evaluation/brier';
+import { linearPredictor as designLinearPredictor, sigmoid } from '../numerics/loss';
 import { calibrationRegression } from '../evaluation/calibration';
 import { checkpoint, type LongRunHooks } from '../penalised/crossValidation';
 import { FulcraError } from '../core/data';
 import { stratifiedFolds } from '../penalised/folds';
 import { fitProcedure, pipelineDesign, type Pipeline, type PipelineDesign, type ProcedureFit } from './pipeline';
 import { createRng } from '../numerics/rng';
+import { quantileSorted } from '../numerics/quantile';
 import { rocCurve } from '../evaluation/roc';
 import { warning, type EngineWarning } from '../core/warnings';
 
@@ -40,19 +42,12 @@ export interface InternalValidation {
 }
 
 function linearPredictor(d: PipelineDesign, beta: Float64Array): Float64Array {
-  const { X, n, p } = d;
-  const eta = new Float64Array(n);
-  for (let j = 0; j < p; j++) {
-    const b = beta[j];
-    if (b === 0) continue;
-    for (let i = 0; i < n; i++) eta[i] += b * X[j * n + i];
-  }
-  return eta;
+  return designLinearPredictor(d.X, d.n, d.p, beta, undefined, new Float64Array(d.n));
 }
 
 /** AUC, calibration slope, calibration-in-the-large and Brier score of linear predictor eta for y (weighted). */
 export function performanceMetrics(y: Float64Array, eta: Float64Array, weights?: Float64Array): Metrics {
-  const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
+  const risk = eta.map((e) => sigmoid(e));
   const cal = calibrationRegression(y, eta, { weights });
   return {
     auc: rocCurve(y, risk, { weights, maxPoints: 2 }).auc,
@@ -82,15 +77,9 @@ function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Arr
   }
   const order = radixOrder(risk);
   // Mann–Whitney sums over groups of tied risks, resample-weighted (W) and unit-weighted (1).
-  let uW = 0,
-    belowW = 0,
-    eW = 0,
-    u1 = 0,
-    below1 = 0,
-    e1 = 0,
-    seW = 0,
-    se1 = 0,
-    sw = 0;
+  let [uW, belowW, eW, seW] = [0, 0, 0, 0]; // resample-weighted
+  let [u1, below1, e1, se1] = [0, 0, 0, 0]; // unit-weighted
+  let sw = 0;
   for (let r = 0; r < n;) {
     const v = risk[order[r]];
     let ge = 0,
@@ -244,23 +233,72 @@ function calibrationByNewton(
   return converged ? { citl: a, slope: b1 } : null;
 }
 
-function quantile(sorted: number[], q: number): number {
-  const h = (sorted.length - 1) * q,
-    lo = Math.floor(h);
-  return lo + 1 < sorted.length ? sorted[lo] + (h - lo) * (sorted[lo + 1] - sorted[lo]) : sorted[lo];
-}
-
 function spread(values: number[]): { mean: number; sd: number | null; lower: number; upper: number } {
   const s = values.slice().sort((a, b) => a - b);
   const mean = s.reduce((a, b) => a + b, 0) / s.length;
   const sd = s.length > 1 ? Math.sqrt(s.reduce((a, b) => a + (b - mean) ** 2, 0) / (s.length - 1)) : null;
-  return { mean, sd, lower: quantile(s, 0.025), upper: quantile(s, 0.975) };
+  return { mean, sd, lower: quantileSorted(s, 0.025), upper: quantileSorted(s, 0.975) };
+}
+
+/**
+ * One row per measure from the apparent values and the replicate values: `split(apparent, mean of replicates)`
+ * gives [optimism, corrected]; sd and the 2.5/97.5 percentiles describe the replicates.
+ */
+function validationRows(
+  apparent: Metrics,
+  replicates: Record<MetricName, number[]>,
+  split: (apparent: number, mean: number) => [number, number],
+): ValidationRow[] {
+  return METRICS.map((metric): ValidationRow => {
+    const a = apparent[metric],
+      v = replicates[metric];
+    if (a === null || v.length === 0) {
+      const none = { optimism: null, corrected: null, sd: null, lower: null, upper: null };
+      return { metric, apparent: a, ...none, replicates: v.length };
+    }
+    const s = spread(v);
+    const [optimism, corrected] = split(a, s.mean);
+    return { metric, apparent: a, optimism, corrected, sd: s.sd, lower: s.lower, upper: s.upper, replicates: v.length };
+  });
+}
+
+/** Internal validation of a pipeline (builds its design once). */
+type Validation<O> = (pipeline: Pipeline, options?: Partial<O>, hooks?: LongRunHooks) => Promise<InternalValidation>;
+
+/** What a validation needs of the pipeline besides its design. */
+type ValidatedProcedure = Pick<Pipeline, 'fitOptions' | 'penalty' | 'seed'>;
+
+type ValidationOnDesign<O> = (
+  d: PipelineDesign,
+  pipeline: ValidatedProcedure,
+  options?: Partial<O>,
+  hooks?: LongRunHooks,
+) => Promise<InternalValidation>;
+
+/**
+ * The development fit on all rows with its apparent performance, the warm start of every replicate, the
+ * replicate generator (seeded) and an empty list of replicate values per measure.
+ */
+async function development(d: PipelineDesign, pipeline: ValidatedProcedure, seed: number) {
+  const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
+  const values: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
+  return {
+    dev,
+    apparent: performanceMetrics(d.y, linearPredictor(d, dev.beta)),
+    start: dev.converged ? dev.beta : undefined,
+    rng: createRng(seed),
+    values,
+  };
 }
 
 function bothClasses(y: Float64Array, w: Float64Array): boolean {
   let ev = 0,
     ne = 0;
-  for (let i = 0; i < y.length; i++) if (w[i] > 0) y[i] === 1 ? ev++ : ne++;
+  for (let i = 0; i < y.length; i++) {
+    if (!(w[i] > 0)) continue;
+    if (y[i] === 1) ev++;
+    else ne++;
+  }
   return ev > 0 && ne > 0;
 }
 
@@ -283,20 +321,11 @@ export const defaultBootstrapOptions: BootstrapOptions = { B: 200, seed: 1 };
  * spline knots) is fixed from the full data. Replicates whose resample lacks one outcome class are
  * skipped and counted in `failed`. Calls onProgress after every replicate and honours the cancel signal.
  */
-export async function bootstrapValidation(
-  pipeline: Pipeline,
-  options: Partial<BootstrapOptions> = {},
-  hooks?: LongRunHooks,
-): Promise<InternalValidation> {
-  return bootstrapOnDesign(pipelineDesign(pipeline), pipeline, options, hooks);
-}
+export const bootstrapValidation: Validation<BootstrapOptions> = (pipeline, options = {}, hooks) =>
+  bootstrapOnDesign(pipelineDesign(pipeline), pipeline, options, hooks);
 
-export async function bootstrapOnDesign(
-  d: PipelineDesign,
-  pipeline: Pick<Pipeline, 'fitOptions' | 'penalty' | 'seed'>,
-  options: Partial<BootstrapOptions> = {},
-  hooks?: LongRunHooks,
-): Promise<InternalValidation> {
+/** bootstrapValidation on a design already built (the same design for every replicate). */
+export const bootstrapOnDesign: ValidationOnDesign<BootstrapOptions> = async (d, pipeline, options = {}, hooks) => {
   const o = { ...defaultBootstrapOptions, ...options };
   if (o.counts) {
     o.B = o.counts.length;
@@ -311,16 +340,7 @@ export async function bootstrapOnDesign(
       `The number of bootstrap replicates must be a whole number ≥ 1; got ${o.B}.`,
     );
   const { n, y } = d;
-  const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
-  const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
-  const start = dev.converged ? dev.beta : undefined;
-  const rng = createRng(o.seed);
-  const optimism: Record<MetricName, number[]> = {
-    auc: [],
-    calibrationSlope: [],
-    calibrationInTheLarge: [],
-    brier: [],
-  };
+  const { dev, apparent, start, rng, values: optimism } = await development(d, pipeline, o.seed);
   const counts = new Float64Array(n);
   let failed = 0,
     notConverged = 0;
@@ -347,35 +367,10 @@ export async function bootstrapOnDesign(
     }
     await checkpoint(hooks, b + 1, o.B);
   }
-  const rows = METRICS.map((metric): ValidationRow => {
-    const a = apparent[metric],
-      v = optimism[metric];
-    if (a === null || v.length === 0)
-      return {
-        metric,
-        apparent: a,
-        optimism: null,
-        corrected: null,
-        sd: null,
-        lower: null,
-        upper: null,
-        replicates: v.length,
-      };
-    const s = spread(v);
-    return {
-      metric,
-      apparent: a,
-      optimism: s.mean,
-      corrected: a - s.mean,
-      sd: s.sd,
-      lower: s.lower,
-      upper: s.upper,
-      replicates: v.length,
-    };
-  });
+  const rows = validationRows(apparent, optimism, (a, mean) => [mean, a - mean]);
   const warnings = [...d.warnings, ...runWarnings(failed, notConverged, o.B, 'bootstrap replicates')];
   return { method: 'bootstrap', planned: o.B, failed, seed: o.seed, rows, lambda: dev.lambda, warnings };
-}
+};
 
 /** A replicate whose data cannot support the procedure (e.g. a CV fold left with one class) counts as failed. */
 async function tryFit(
@@ -399,7 +394,8 @@ function runWarnings(failed: number, notConverged: number, total: number, what: 
     w.push(
       warning(
         'replicates-skipped',
-        `${failed} of ${total} ${what} held only one outcome class (or left a cross-validation fold without one) and were skipped.`,
+        `${failed} of ${total} ${what} held only one outcome class (or left a cross-validation fold without ` +
+          `one) and were skipped.`,
         'With so few events the validation is unstable; collect more events or use a simpler model.',
       ),
     );
@@ -430,34 +426,16 @@ export const defaultRepeatedCvOptions: RepeatedCvOptions = { folds: 10, repeats:
  * the measures are computed on those pooled predictions, then averaged over repeats (sd and 2.5/97.5
  * percentiles across repeats). Steyerberg 2019, Clinical Prediction Models 2nd ed., §17.
  */
-export async function repeatedCrossValidation(
-  pipeline: Pipeline,
-  options: Partial<RepeatedCvOptions> = {},
-  hooks?: LongRunHooks,
-): Promise<InternalValidation> {
-  return repeatedCvOnDesign(pipelineDesign(pipeline), pipeline, options, hooks);
-}
+export const repeatedCrossValidation: Validation<RepeatedCvOptions> = (pipeline, options = {}, hooks) =>
+  repeatedCvOnDesign(pipelineDesign(pipeline), pipeline, options, hooks);
 
-export async function repeatedCvOnDesign(
-  d: PipelineDesign,
-  pipeline: Pick<Pipeline, 'fitOptions' | 'penalty' | 'seed'>,
-  options: Partial<RepeatedCvOptions> = {},
-  hooks?: LongRunHooks,
-): Promise<InternalValidation> {
+/** repeatedCrossValidation on a design already built. */
+export const repeatedCvOnDesign: ValidationOnDesign<RepeatedCvOptions> = async (d, pipeline, options = {}, hooks) => {
   const o = { ...defaultRepeatedCvOptions, ...options };
   if (!Number.isInteger(o.repeats) || o.repeats < 1)
     throw new FulcraError('bad-repeats', `The number of repeats must be a whole number ≥ 1; got ${o.repeats}.`);
   const { n, p, X, y } = d;
-  const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
-  const apparent = performanceMetrics(y, linearPredictor(d, dev.beta));
-  const start = dev.converged ? dev.beta : undefined;
-  const rng = createRng(o.seed);
-  const perRepeat: Record<MetricName, number[]> = {
-    auc: [],
-    calibrationSlope: [],
-    calibrationInTheLarge: [],
-    brier: [],
-  };
+  const { dev, apparent, start, rng, values: perRepeat } = await development(d, pipeline, o.seed);
   const total = o.folds * o.repeats;
   const w = new Float64Array(n),
     eta = new Float64Array(n);
@@ -494,32 +472,7 @@ export async function repeatedCvOnDesign(
     const m = performanceMetrics(y, eta);
     for (const k of METRICS) if (m[k] !== null) perRepeat[k].push(m[k] as number);
   }
-  const rows = METRICS.map((metric): ValidationRow => {
-    const a = apparent[metric],
-      v = perRepeat[metric];
-    if (a === null || v.length === 0)
-      return {
-        metric,
-        apparent: a,
-        optimism: null,
-        corrected: null,
-        sd: null,
-        lower: null,
-        upper: null,
-        replicates: v.length,
-      };
-    const s = spread(v);
-    return {
-      metric,
-      apparent: a,
-      optimism: a - s.mean,
-      corrected: s.mean,
-      sd: s.sd,
-      lower: s.lower,
-      upper: s.upper,
-      replicates: v.length,
-    };
-  });
+  const rows = validationRows(apparent, perRepeat, (a, mean) => [a - mean, mean]);
   const warnings = [...d.warnings, ...runWarnings(failed, notConverged, total, 'cross-validation folds')];
   return { method: 'repeated-cv', planned: total, failed, seed: o.seed, rows, lambda: dev.lambda, warnings };
-}
+};

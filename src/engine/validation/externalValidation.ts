@@ -1,5 +1,6 @@
 import { FulcraError, type Dataset } from '../core/data';
-import { linearPredictorFromRecipe } from '../design/design';
+import { sigmoid } from '../numerics/loss';
+import { droppedRowsWarning, linearPredictorFromRecipe } from '../design/design';
 import { evaluate, type EvaluateOptions, type EvaluationRecord } from '../evaluation/evaluate';
 import {
   recalibrate,
@@ -8,7 +9,7 @@ import {
   type RecalibrationResult,
   type ScoringModel,
 } from './recalibration';
-import { warning, type EngineWarning } from '../core/warnings';
+import { type EngineWarning } from '../core/warnings';
 
 export interface ExternalValidation {
   nRows: number;
@@ -72,21 +73,14 @@ export function externalValidation(
   if (enc.n === 0)
     throw new FulcraError('no-complete-rows', 'No row of the new data has a value in every column the model uses.');
   const eta = enc.eta;
-  const risk = eta.map((e) => 1 / (1 + Math.exp(-e)));
+  const risk = eta.map((e) => sigmoid(e));
   const evaluation = evaluate(enc.y, risk, { ...options, eta });
   const recalibration = recalibrate(enc.y, eta, { level: options.level });
   const warnings: EngineWarning[] = [...evaluation.warnings, ...recalibration.warnings];
   if (enc.nDropped > 0) {
-    const by = Object.entries(enc.droppedByColumn)
-      .map(([c, k]) => `"${c}" ${k}`)
-      .join(', ');
-    warnings.push(
-      warning(
-        'rows-dropped',
-        `${enc.nDropped} of ${data.nRows} rows of the new data were left out for missing values (${by}).`,
-        'If the missing values are not random, the validation may not represent all cases.',
-      ),
-    );
+    const lead = `${enc.nDropped} of ${data.nRows} rows of the new data were left out for missing values`;
+    const hint = 'If the missing values are not random, the validation may not represent all cases.';
+    warnings.push(droppedRowsWarning('rows-dropped', lead, hint, enc.droppedByColumn, false));
   }
   return {
     nRows: data.nRows,

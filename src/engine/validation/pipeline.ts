@@ -10,7 +10,7 @@ import {
 import { crossValidateLambda, type CvCriterion, type CvResult, type LongRunHooks } from '../penalised/crossValidation';
 import { FulcraError, type Dataset } from '../core/data';
 import { buildDesign } from '../design/design';
-import { validateFitOptions } from '../fitting/fit';
+import { validateFitOptions } from '../fitting/fitOptions';
 import { defaultFitOptions, type DesignRecipe, type FitMethod, type FitOptions, type ModelSpec } from '../core/model';
 import { newtonLogistic } from '../fitting/newton';
 import { standardise } from '../numerics/standardise';
@@ -186,7 +186,7 @@ export async function fitProcedure(
   return { beta, lambda: 0, converged: f.converged, cv: null };
 }
 
-/** Original-scale coefficients to the Z scale of the Newton fits (inverse of the map in fitProcedure); null if not finite. */
+/** Original-scale coefficients to the Z scale of the Newton fits (fitProcedure's map inverted); null if not finite. */
 function toStandardised(d: PipelineDesign, beta: Float64Array): Float64Array | null {
   if (beta.length !== d.p)
     throw new FulcraError('bad-start', `The start has ${beta.length} coefficients for ${d.p} design columns.`);
@@ -199,7 +199,7 @@ function toStandardised(d: PipelineDesign, beta: Float64Array): Float64Array | n
   return z.every(Number.isFinite) ? z : null;
 }
 
-/** Ridge at fixed λ from original-scale coefficients, on this weighting's standardised scale (see coordinateDescent). */
+/** Ridge at fixed λ from original-scale coefficients, on this weighting's standardised scale (coordinateDescent). */
 function warmRidge(
   problem: PenalisedProblem,
   lambda: number,

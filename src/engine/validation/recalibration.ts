@@ -1,6 +1,7 @@
 import { oddsRatio } from '../fitting/oddsRatio';
 import { fitSmallLogistic, type IntervalEstimate } from '../evaluation/calibration';
 import { FulcraError } from '../core/data';
+import { checkLevel, checkOutcomeAndPredictor, type WeightsAndLevel } from '../core/vectors';
 import { qnorm } from '../numerics/distributions';
 import type { DesignRecipe } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
@@ -46,35 +47,15 @@ export interface RecalibratedModel extends ScoringModel {
   b: number;
 }
 
-function deviance(y: Float64Array, fitted: Float64Array, w?: Float64Array): number {
-  let d = 0;
-  for (let i = 0; i < y.length; i++) {
-    const q = y[i] === 1 ? fitted[i] : 1 - fitted[i];
-    d -= 2 * (w ? w[i] : 1) * Math.log(Math.max(q, 1e-300));
-  }
-  return d;
-}
-
 /** Fits both recalibration models of `lp` on the 0/1 outcome y (optional case weights). */
-export function recalibrate(
-  y: Float64Array,
-  lp: Float64Array,
-  options: { weights?: Float64Array; level?: number } = {},
-): RecalibrationResult {
-  const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1))
-    throw new FulcraError('bad-level', `The confidence level must be between 0 and 1; got ${level}.`);
+export function recalibrate(y: Float64Array, lp: Float64Array, options: WeightsAndLevel = {}): RecalibrationResult {
+  const level = checkLevel(options.level);
   const n = y.length,
     w = options.weights;
-  if (lp.length !== n)
-    throw new FulcraError('length-mismatch', `The outcome has ${n} rows but the linear predictor has ${lp.length}.`);
+  checkOutcomeAndPredictor(y, lp);
   let ev = 0,
     sw = 0;
   for (let i = 0; i < n; i++) {
-    if (y[i] !== 0 && y[i] !== 1)
-      throw new FulcraError('bad-outcome', `The outcome must be 0 or 1; row ${i + 1} is ${y[i]}.`);
-    if (!Number.isFinite(lp[i]))
-      throw new FulcraError('bad-score', `The linear predictor must be finite; row ${i + 1} is ${lp[i]}.`);
     const wi = w ? w[i] : 1;
     ev += wi * y[i];
     sw += wi;
@@ -107,7 +88,7 @@ export function recalibrate(
         kind: 'intercept',
         intercept: est(a.beta[0], a.cov[0]),
         slope: null,
-        deviance: deviance(y, a.fitted, w),
+        deviance: -2 * a.logLik,
         converged: a.converged,
         level,
       }
@@ -122,7 +103,7 @@ export function recalibrate(
       kind: 'intercept-slope',
       intercept: est(s.beta[0], s.cov[0]),
       slope: est(s.beta[1], s.cov[3]),
-      deviance: deviance(y, s.fitted, w),
+      deviance: -2 * s.logLik,
       converged: s.converged,
       level,
     };

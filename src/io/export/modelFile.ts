@@ -57,7 +57,8 @@ export interface ModelFile {
     rows: number | null;
     performance: { auc?: number; calibrationSlope?: number; calibrationIntercept?: number; brier?: number } | null;
   };
-  threshold: { value: number; costFalseNegative: number; costFalsePositive: number } | null;
+  /** The cut-off and the two costs it was chosen with (files before this version said costFalseNegative/Positive). */
+  threshold: { value: number; costMissedCase: number; costFalseAlarm: number } | null;
   notes: { purpose?: string; setting?: string; population?: string };
   warnings: EngineWarning[];
 }
@@ -94,7 +95,8 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
   if (bad)
     throw new FulcraError(
       'model-not-finite',
-      `The coefficient of "${bad.name}" is ${bad.estimate}; a model with non-finite coefficients cannot be saved for scoring.`,
+      `The coefficient of "${bad.name}" is ${bad.estimate}; ` +
+        'a model with non-finite coefficients cannot be saved for scoring.',
       'Refit with Firth or ridge penalisation.',
     );
   return {

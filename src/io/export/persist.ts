@@ -60,7 +60,8 @@ export function classifyStorageError(e: unknown): PersistError {
   if (name === 'SecurityError' || name === 'InvalidStateError' || name === 'NotAllowedError') {
     return new PersistError(
       'storage-denied',
-      'The browser does not allow this page to store data (private browsing or blocked site data), so the workspace could not be kept for next time.',
+      'The browser does not allow this page to store data (private browsing or blocked site data), ' +
+        'so the workspace could not be kept for next time.',
       e,
     );
   }
@@ -120,7 +121,8 @@ export async function loadWorkspaceFromBrowser(
   if (o.fulcraWorkspace !== WORKSPACE_FILE_VERSION) {
     throw new FulcraError(
       'workspace-file-version',
-      `The workspace stored in this browser has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
+      `The workspace stored in this browser has schema version ${JSON.stringify(o.fulcraWorkspace)}; ` +
+        `this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
       'Start a new workspace; open a saved workspace file if you have one.',
     );
   }

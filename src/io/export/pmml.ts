@@ -56,7 +56,11 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
     if (!derivedNames.has(name)) {
       derivedNames.add(name);
       derived.push(
-        `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n      <NormDiscrete field="${x(column)}" value="${x(level)}"/>\n    </DerivedField>`,
+        [
+          `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">`,
+          `      <NormDiscrete field="${x(column)}" value="${x(level)}"/>`,
+          '    </DerivedField>',
+        ].join('\n'),
       );
     }
     return name;
@@ -90,7 +94,11 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
         if (!derivedNames.has(name)) {
           derivedNames.add(name);
           derived.push(
-            `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">\n${splineExpression(t.column, t.knots, j, 6)}\n    </DerivedField>`,
+            [
+              `    <DerivedField name="${x(name)}" optype="continuous" dataType="double">`,
+              splineExpression(t.column, t.knots, j, 6),
+              '    </DerivedField>',
+            ].join('\n'),
           );
         }
         exprs.push({ name, kind: 'numeric', field: name });
@@ -123,11 +131,20 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
   const [event, nonEvent] = targetCategories(recipe.event, options.outcomeLevels);
   const fields = [...dataFields.entries()];
   const dd = [
-    `    <DataField name="${x(recipe.outcome)}" optype="categorical" dataType="string">\n      <Value value="${x(event)}"/>\n      <Value value="${x(nonEvent)}"/>\n    </DataField>`,
+    [
+      `    <DataField name="${x(recipe.outcome)}" optype="categorical" dataType="string">`,
+      `      <Value value="${x(event)}"/>`,
+      `      <Value value="${x(nonEvent)}"/>`,
+      '    </DataField>',
+    ].join('\n'),
     ...fields.map(([name, f]) =>
       f.optype === 'continuous'
         ? `    <DataField name="${x(name)}" optype="continuous" dataType="double"/>`
-        : `    <DataField name="${x(name)}" optype="categorical" dataType="string">\n${f.values!.map((v) => `      <Value value="${x(v)}"/>`).join('\n')}\n    </DataField>`,
+        : [
+            `    <DataField name="${x(name)}" optype="categorical" dataType="string">`,
+            ...f.values!.map((v) => `      <Value value="${x(v)}"/>`),
+            '    </DataField>',
+          ].join('\n'),
     ),
   ];
   const num = predictors.filter((p) => p.expr.kind === 'numeric');
@@ -139,18 +156,24 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
     ),
     ...cat.map(
       (p) =>
-        `      <CategoricalPredictor name="${x(p.expr.field!)}" value="${x(p.expr.value!)}" coefficient="${n(p.coefficient)}"/>`,
+        `      <CategoricalPredictor name="${x(p.expr.field!)}" value="${x(p.expr.value!)}" ` +
+        `coefficient="${n(p.coefficient)}"/>`,
     ),
-    ...prod.map(
-      (p) =>
-        `      <PredictorTerm name="${x(p.expr.name)}" coefficient="${n(p.coefficient)}">\n${p.expr.factors!.map((f) => `        <FieldRef field="${x(f)}"/>`).join('\n')}\n      </PredictorTerm>`,
+    ...prod.map((p) =>
+      [
+        `      <PredictorTerm name="${x(p.expr.name)}" coefficient="${n(p.coefficient)}">`,
+        ...p.expr.factors!.map((f) => `        <FieldRef field="${x(f)}"/>`),
+        '      </PredictorTerm>',
+      ].join('\n'),
     ),
   ];
   const modelName = options.modelName ?? `Risk of ${recipe.outcome} = ${recipe.event}`;
+  const description =
+    `Logistic regression (${fit.method}); ` + `P(${recipe.outcome} = ${event}) = 1 / (1 + exp(-linear predictor))`;
   return [
     '<?xml version="1.0" encoding="UTF-8"?>',
     '<PMML xmlns="http://www.dmg.org/PMML-4_4" version="4.4">',
-    `  <Header description="${x(`Logistic regression (${fit.method}); P(${recipe.outcome} = ${event}) = 1 / (1 + exp(-linear predictor))`)}">`,
+    `  <Header description="${x(description)}">`,
     `    <Application name="Fulcra" version="${x(options.fulcraVersion)}"/>`,
     `    <Timestamp>${x(options.created)}</Timestamp>`,
     '  </Header>',
@@ -158,7 +181,8 @@ export function modelToPmml(fit: FitResult, options: PmmlOptions): string {
     ...dd,
     '  </DataDictionary>',
     ...(derived.length > 0 ? ['  <TransformationDictionary>', ...derived, '  </TransformationDictionary>'] : []),
-    `  <RegressionModel modelName="${x(modelName)}" functionName="classification" algorithmName="logisticRegression" normalizationMethod="logit">`,
+    `  <RegressionModel modelName="${x(modelName)}" functionName="classification" ` +
+      'algorithmName="logisticRegression" normalizationMethod="logit">',
     '    <MiningSchema>',
     `      <MiningField name="${x(recipe.outcome)}" usageType="target"/>`,
     ...fields.map(([name]) => `      <MiningField name="${x(name)}" usageType="active"/>`),
@@ -220,7 +244,11 @@ function render(node: Node, indent: number): string {
     .join('');
   if (node.text !== undefined) return `${pad}<${node.tag}${attrs}>${x(node.text)}</${node.tag}>`;
   if (node.children.length === 0) return `${pad}<${node.tag}${attrs}/>`;
-  return `${pad}<${node.tag}${attrs}>\n${node.children.map((ch) => render(ch, indent + 2)).join('\n')}\n${pad}</${node.tag}>`;
+  return [
+    `${pad}<${node.tag}${attrs}>`,
+    ...node.children.map((ch) => render(ch, indent + 2)),
+    `${pad}</${node.tag}>`,
+  ].join('\n');
 }
 
 /** Shortest round-trip decimal of a double (ECMAScript Number→String). */

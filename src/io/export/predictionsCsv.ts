@@ -54,7 +54,8 @@ export function predictionsCsv(data: Dataset, pred: PredictionsForCsv, options: 
 
 /**
  * The same CSV text as predictionsCsv, in chunks of `rowsPerChunk` lines (header in the first chunk), so a large
- * file can be assembled as `new Blob([...chunks])` without one huge string. Arguments are checked before the first chunk.
+ * file can be assembled as `new Blob([...chunks])` without one huge string. Arguments are checked before the first
+ * chunk.
  */
 export function predictionsCsvChunks(
   data: Dataset,

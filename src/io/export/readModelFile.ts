@@ -23,7 +23,8 @@ export function readModelFile(text: string): ModelFile {
   if (o.fulcraModel !== MODEL_FILE_VERSION) {
     throw new FulcraError(
       'model-file-version',
-      `This model file has schema version ${JSON.stringify(o.fulcraModel)}; this Fulcra reads version ${MODEL_FILE_VERSION}.`,
+      `This model file has schema version ${JSON.stringify(o.fulcraModel)}; ` +
+        `this Fulcra reads version ${MODEL_FILE_VERSION}.`,
       'Open it with the Fulcra version that saved it, or save the model again.',
     );
   }
@@ -123,8 +124,15 @@ export function readModelFile(text: string): ModelFile {
     threshold: th
       ? {
           value: c.finite(th.value, 'threshold.value'),
-          costFalseNegative: c.finite(th.costFalseNegative, 'threshold.costFalseNegative'),
-          costFalsePositive: c.finite(th.costFalsePositive, 'threshold.costFalsePositive'),
+          // Files written before the one cost vocabulary name the costs costFalseNegative / costFalsePositive.
+          costMissedCase:
+            'costMissedCase' in th
+              ? c.finite(th.costMissedCase, 'threshold.costMissedCase')
+              : c.finite(th.costFalseNegative, 'threshold.costFalseNegative'),
+          costFalseAlarm:
+            'costFalseAlarm' in th
+              ? c.finite(th.costFalseAlarm, 'threshold.costFalseAlarm')
+              : c.finite(th.costFalsePositive, 'threshold.costFalsePositive'),
         }
       : null,
     notes: Object.fromEntries(Object.entries(notes).map(([k, v]) => [k, c.string(v, `notes.${k}`)])),

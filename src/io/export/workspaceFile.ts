@@ -1,4 +1,4 @@
-import { FulcraError, type Column, type Dataset } from '../../engine/core';
+import { FulcraError, type Column, type Costs, type Dataset } from '../../engine/core';
 import type { FitOptions, ModelSpec, TermSpec } from '../../engine/core';
 import { base64ToBytes, bytesToBase64 } from './base64';
 import { datasetChecksum } from './checksum';
@@ -17,7 +17,7 @@ export interface Workspace {
   fitOptions: Partial<FitOptions>;
   seed: number | null;
   threshold: number | null;
-  costs: { falseNegative: number; falsePositive: number } | null;
+  costs: Costs | null;
   freeText: { purpose?: string; setting?: string; population?: string; notes?: string };
   /** Further workbench state (JSON-safe: column type overrides, chosen tabs…), kept as is. */
   extra?: Record<string, unknown>;
@@ -68,7 +68,8 @@ export function readWorkspaceFile(text: string): { workspace: Workspace; info: W
   if (o.fulcraWorkspace !== WORKSPACE_FILE_VERSION) {
     throw new FulcraError(
       'workspace-file-version',
-      `This workspace file has schema version ${JSON.stringify(o.fulcraWorkspace)}; this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
+      `This workspace file has schema version ${JSON.stringify(o.fulcraWorkspace)}; ` +
+        `this Fulcra reads version ${WORKSPACE_FILE_VERSION}.`,
       'Open it with the Fulcra version that saved it.',
     );
   }
@@ -96,16 +97,25 @@ export function checkWorkspaceFields(c: FieldChecker, w: Record<string, unknown>
     fitOptions: w.fitOptions === undefined ? {} : checkFitOptions(c, w.fitOptions),
     seed: w.seed === null || w.seed === undefined ? null : c.finite(w.seed, 'workspace.seed'),
     threshold: w.threshold === null || w.threshold === undefined ? null : c.finite(w.threshold, 'workspace.threshold'),
-    costs: costs
-      ? {
-          falseNegative: c.finite(costs.falseNegative, 'workspace.costs.falseNegative'),
-          falsePositive: c.finite(costs.falsePositive, 'workspace.costs.falsePositive'),
-        }
-      : null,
+    costs: costs ? checkCosts(c, costs) : null,
     freeText: Object.fromEntries(Object.entries(ft).map(([k, v]) => [k, c.string(v, `workspace.freeText.${k}`)])),
   };
   if (w.extra !== undefined) ws.extra = c.object(w.extra, 'workspace.extra');
   return ws;
+}
+
+/** The two costs; workspaces saved before the one cost vocabulary name them falseNegative / falsePositive. */
+function checkCosts(c: FieldChecker, costs: Record<string, unknown>): Costs {
+  if (!('missedCase' in costs) && !('falseAlarm' in costs) && ('falseNegative' in costs || 'falsePositive' in costs)) {
+    return {
+      missedCase: c.finite(costs.falseNegative, 'workspace.costs.falseNegative'),
+      falseAlarm: c.finite(costs.falsePositive, 'workspace.costs.falsePositive'),
+    };
+  }
+  return {
+    missedCase: c.finite(costs.missedCase, 'workspace.costs.missedCase'),
+    falseAlarm: c.finite(costs.falseAlarm, 'workspace.costs.falseAlarm'),
+  };
 }
 
 function checkSpec(c: FieldChecker, v: unknown): ModelSpec {
@@ -149,9 +159,10 @@ type EncodedColumn =
   | { kind: 'categorical'; name: string; levels: string[]; codes: string };
 
 /** Encodes a Dataset's columns as base64 of their little-endian bytes (float64 values, int32 codes). */
-export function encodeDataset(data: Dataset): { nRows: number; columns: EncodedColumn[] } {
+export function encodeDataset(data: Dataset): { nRows: number; firstRow?: number; columns: EncodedColumn[] } {
   return {
     nRows: data.nRows,
+    ...(data.firstRow !== undefined ? { firstRow: data.firstRow } : {}),
     columns: data.columns.map((col): EncodedColumn => {
       if (col.kind === 'numeric') {
         const buf = new Uint8Array(col.values.length * 8);
@@ -171,6 +182,11 @@ function decodeDataset(c: FieldChecker, v: unknown): Dataset {
   const d = c.object(v, 'workspace.data');
   const nRows = c.number(d.nRows, 'workspace.data.nRows');
   if (!Number.isInteger(nRows) || nRows < 0) c.fail('workspace.data.nRows', 'must be a whole number ≥ 0');
+  let firstRow: number | undefined;
+  if (d.firstRow !== undefined) {
+    firstRow = c.number(d.firstRow, 'workspace.data.firstRow');
+    if (!Number.isInteger(firstRow) || firstRow < 1) c.fail('workspace.data.firstRow', 'must be a whole number ≥ 1');
+  }
   const columns = c.array(d.columns, 'workspace.data.columns').map((x, i): Column => {
     const p = `workspace.data.columns[${i}]`;
     const col = c.object(x, p);
@@ -189,10 +205,12 @@ function decodeDataset(c: FieldChecker, v: unknown): Dataset {
     const levels = c.stringArray(col.levels, `${p}.levels`);
     const codes = Int32Array.from({ length: nRows }, (_, r) => view.getInt32(4 * r, true));
     const bad = codes.findIndex((k) => k < -1 || k >= levels.length);
-    if (bad >= 0) c.fail(`${p}.codes`, `has code ${codes[bad]} at row ${bad + 1}, outside the ${levels.length} levels`);
+    if (bad >= 0) {
+      c.fail(`${p}.codes`, `has code ${codes[bad]} at position ${bad + 1}, outside the ${levels.length} levels`);
+    }
     return { kind, name, levels, codes };
   });
-  return { nRows, columns };
+  return firstRow === undefined ? { nRows, columns } : { nRows, firstRow, columns };
 }
 
 /** gzip (RFC 1952) of the workspace file text, for large data: suggested extension `.fulcra-workspace.json.gz`. */

@@ -9,20 +9,14 @@ import { NumbersTable } from '../plots/NumbersTable';
 import { ConfusionTable } from './ConfusionTable';
 
 export function CutoffPanel() {
-  const { store, ctl } = useEnv();
+  const { ctl } = useEnv();
   const id = useId();
   const costs = useApp((s) => s.costs);
   const t = useApp((s) => s.threshold);
   const cv = useApp((s) => s.costView);
   const tv = useApp((s) => s.thresholdView);
-  const move = (v: number) => {
-    store.apply(A.setThreshold, v);
-    void ctl.queryThreshold();
-  };
-  const setCost = (k: 'missedCase' | 'falseAlarm', v: number) => {
-    store.apply(A.setCosts, { [k]: v });
-    void ctl.refreshCosts();
-  };
+  const move = (v: number) => void ctl.act(A.moveCutoff, v);
+  const setCost = (k: 'missedCase' | 'falseAlarm', v: number) => void ctl.act(A.changeCosts, { [k]: v });
   const emp = cv?.optimal.empirical.threshold ?? null;
   const theory = cv?.optimal.decisionTheory.threshold ?? null;
   return (

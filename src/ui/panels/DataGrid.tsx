@@ -1,5 +1,6 @@
 import { useVirtualizer } from '@tanstack/react-virtual';
 import { useEffect, useRef, useState } from 'react';
+import { sheetRow } from '../../engine/core';
 import type { DataSummary } from '../../worker/protocol';
 import { useEnv } from '../context';
 import { count, pct } from '../format';
@@ -10,11 +11,21 @@ const COL_W = 132;
 /** Height of the sticky header row; the virtual rows start below it. */
 const HEAD_H = 64;
 
-/** Virtualised grid: only the visible window of rows is fetched from the worker and rendered. */
+/**
+ * Virtualised grid: only the visible window of rows is fetched from the worker and rendered. The row column shows
+ * spreadsheet row numbers (the header is row 1, so the first data row is row 2; 1 for a file without a header).
+ */
 export function DataGrid({ data }: { data: DataSummary }) {
   const { ctl } = useEnv();
   const scroller = useRef<HTMLDivElement>(null);
   const [win, setWin] = useState<{ start: number; rows: string[][] }>({ start: 0, rows: [] });
+  // New data start with an empty window (the rows are fetched again).
+  const [shown, setShown] = useState(data);
+  if (shown !== data) {
+    setShown(data);
+    setWin({ start: 0, rows: [] });
+  }
+  // eslint-disable-next-line react-hooks/incompatible-library -- the page does not use React Compiler
   const v = useVirtualizer({
     count: data.nRows,
     getScrollElement: () => scroller.current,
@@ -36,7 +47,6 @@ export function DataGrid({ data }: { data: DataSummary }) {
       live = false;
     };
   }, [first, last, win, ctl]);
-  useEffect(() => setWin({ start: 0, rows: [] }), [data]);
   const width = 64 + data.columns.length * COL_W;
   return (
     <div className="grid-wrap">
@@ -74,7 +84,7 @@ export function DataGrid({ data }: { data: DataSummary }) {
                 style={{ transform: `translateY(${it.start - HEAD_H}px)`, height: ROW_H, width }}
               >
                 <div role="rowheader" className="cell rownum">
-                  {count(it.index + 1)}
+                  {count(sheetRow(data, it.index))}
                 </div>
                 {data.columns.map((c, j) => {
                   const text = row?.[j];

@@ -1,15 +1,15 @@
 import { useId } from 'react';
 import * as A from '../../state/actions';
-import type { MethodChoice } from '../../worker/protocol';
+import type { FitMethod } from '../../worker/protocol';
 import { useApp, useEnv } from '../context';
 import { NumberField } from '../NumberField';
 
-const METHODS: { id: MethodChoice; label: string; hint: string }[] = [
+const METHODS: { id: FitMethod; label: string; hint: string }[] = [
   { id: 'ml', label: 'Standard (maximum likelihood)', hint: 'Odds ratios with Wald and profile-likelihood intervals.' },
   { id: 'firth', label: 'Firth (penalised likelihood)', hint: 'For small samples, rare events or separation.' },
   { id: 'ridge', label: 'Ridge', hint: 'Shrinks all coefficients; strength chosen by 10-fold cross-validation.' },
   { id: 'lasso', label: 'Lasso', hint: 'Shrinks and drops predictors; strength chosen by cross-validation.' },
-  { id: 'elasticnet', label: 'Elastic net', hint: 'A mix of ridge and lasso; strength chosen by cross-validation.' },
+  { id: 'elastic-net', label: 'Elastic net', hint: 'A mix of ridge and lasso; strength chosen by cross-validation.' },
 ];
 
 /** Fitting method, interval level and the Fit button. */
@@ -22,7 +22,7 @@ export function FitControls() {
   const level = useApp((s) => s.level);
   const stale = useApp((s) => s.fitStale);
   const busy = useApp((s) => s.jobs.length > 0);
-  const penalised = method === 'ridge' || method === 'lasso' || method === 'elasticnet';
+  const penalised = method === 'ridge' || method === 'lasso' || method === 'elastic-net';
   return (
     <section className="fit-controls" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Fitting</h2>
@@ -42,7 +42,7 @@ export function FitControls() {
         ))}
       </fieldset>
       <div className="row">
-        {method === 'elasticnet' && (
+        {method === 'elastic-net' && (
           <NumberField
             label="Lasso share α (0 = ridge, 1 = lasso)"
             min={0.05}

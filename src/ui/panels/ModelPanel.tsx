@@ -54,14 +54,14 @@ function FitSummary({ view }: { view: FitView }) {
     firth: 'Firth penalised likelihood',
     ridge: 'ridge',
     lasso: 'lasso',
-    elasticnet: 'elastic net',
+    'elastic-net': 'elastic net',
   }[view.request.method];
+  const how = f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge';
   return (
     <section className="summary" aria-label="Fit summary" data-testid="fit-summary">
       <p>
         Fitted by <strong>{methodName}</strong>
-        {f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge'} on <strong>{count(f.nUsed)}</strong>{' '}
-        rows ({count(f.events)} events, {count(f.nonEvents)} non-events
+        {how} on <strong>{count(f.nUsed)}</strong> rows ({count(f.events)} events, {count(f.nonEvents)} non-events
         {f.nDropped > 0 ? `; ${count(f.nDropped)} rows left out for missing values` : ''}). {f.parameters}{' '}
         {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
         {view.threads > 1 && (
@@ -71,7 +71,7 @@ function FitSummary({ view }: { view: FitView }) {
       {view.lambda && (
         <p>
           Penalty λ = {num(view.lambda.chosen, 5)} (
-          {view.lambda.rule === '1se' ? 'one-standard-error rule' : 'lowest CV deviance'}; λ at the minimum{' '}
+          {view.lambda.rule === 'cv-1se' ? 'one-standard-error rule' : 'lowest CV deviance'}; λ at the minimum{' '}
           {num(view.lambda.lambdaMin, 5)}, by the 1-SE rule {num(view.lambda.lambda1se, 5)}; α ={' '}
           {num(view.lambda.alpha, 2)}).
         </p>

@@ -91,5 +91,6 @@ function describe(f: ImportFormat): string {
         : f.delimiter === ';'
           ? 'semicolon'
           : (f.delimiter ?? '?');
-  return `${sep}-separated, decimal ${f.decimal === ',' ? 'comma' : 'point'}, ${f.encoding ?? ''}${f.header ? ', header row' : ', no header row'}`;
+  const decimal = f.decimal === ',' ? 'comma' : 'point';
+  return `${sep}-separated, decimal ${decimal}, ${f.encoding ?? ''}${f.header ? ', header row' : ', no header row'}`;
 }

@@ -1,4 +1,4 @@
-import { useEffect, useId, useState } from 'react';
+import { useId, useState } from 'react';
 import { Caution } from '../Caution';
 import { useApp, useEnv } from '../context';
 import { finiteMax, num, palette, pct } from '../format';
@@ -90,10 +90,17 @@ function LossSurface() {
   const fit = useApp((s) => s.fit);
   const surf = useApp((s) => s.lossSurface);
   const names = fit?.fit.coefficients.map((c) => c.name) ?? [];
-  const [pair, setPair] = useState<[number, number]>([1, Math.min(2, names.length - 1)]);
-  useEffect(() => {
-    if (surf) setPair([names.indexOf(surf.names[0]), names.indexOf(surf.names[1])]);
-  }, [surf]);
+  const pairOf = (v: NonNullable<typeof surf>): [number, number] => [
+    names.indexOf(v.names[0]),
+    names.indexOf(v.names[1]),
+  ];
+  const [pair, setPair] = useState<[number, number]>(() => (surf ? pairOf(surf) : [1, Math.min(2, names.length - 1)]));
+  // A new surface (from a fit or another pair) shows which coefficients it is drawn over.
+  const [shown, setShown] = useState(surf);
+  if (shown !== surf) {
+    setShown(surf);
+    if (surf) setPair(pairOf(surf));
+  }
   const choose = (k: 0 | 1, v: number) => {
     const next: [number, number] = k === 0 ? [v, pair[1]] : [pair[0], v];
     setPair(next);

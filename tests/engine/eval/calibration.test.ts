@@ -58,19 +58,27 @@ describe('calibration intercept and slope on the Pima external test set', () => 
     expect(Number.isFinite(r.eta[0]) && Number.isFinite(r.eta[2])).toBe(true);
     expect(r.warnings.map((w) => w.code)).toEqual(['risk-clipped']);
   });
-  it('reports no slope (rather than a diverging estimate) with a warning when the predictions separate the outcome perfectly', () => {
-    const res = calibrationRegression(
-      new Float64Array([0, 0, 0, 1, 1, 1]),
-      new Float64Array([-2, -1, -0.5, 0.5, 1, 2]),
-    );
-    expect(res.slope).toBeNull();
-    expect(res.warnings.map((w) => w.code)).toContain('calibration-not-converged');
-    const curve = calibrationCurve(new Float64Array([0, 0, 0, 1, 1, 1]), new Float64Array([-2, -1, -0.5, 0.5, 1, 2]), {
-      knots: 3,
-    });
-    expect(curve.ici).toBeNull();
-    expect(curve.warnings.map((w) => w.code)).toContain('calibration-curve-not-converged');
-  });
+  it(
+    'reports no slope (rather than a diverging estimate) with a warning when the predictions separate the ' +
+      'outcome perfectly',
+    () => {
+      const res = calibrationRegression(
+        new Float64Array([0, 0, 0, 1, 1, 1]),
+        new Float64Array([-2, -1, -0.5, 0.5, 1, 2]),
+      );
+      expect(res.slope).toBeNull();
+      expect(res.warnings.map((w) => w.code)).toContain('calibration-not-converged');
+      const curve = calibrationCurve(
+        new Float64Array([0, 0, 0, 1, 1, 1]),
+        new Float64Array([-2, -1, -0.5, 0.5, 1, 2]),
+        {
+          knots: 3,
+        },
+      );
+      expect(curve.ici).toBeNull();
+      expect(curve.warnings.map((w) => w.code)).toContain('calibration-curve-not-converged');
+    },
+  );
   it('gives no slope and a warning when the linear predictor is constant', () => {
     const res = calibrationRegression(new Float64Array([0, 1, 0, 1]), new Float64Array(4).fill(0.2));
     expect(res.slope).toBeNull();
@@ -81,16 +89,19 @@ describe('calibration intercept and slope on the Pima external test set', () => 
 
 describe('flexible calibration curve on the Pima external test set', () => {
   for (const k of [3, 4, 5] as const) {
-    it(`matches a hand-written rcs basis with ${k} knots fitted by glm(): curve, band, ICI, E50, E90, Emax to 1e-8`, () => {
-      const r = ref[`curve${k}`];
-      const res = calibrationCurve(d.y, d.lp, { knots: k });
-      expect(maxAbs(res.knots, r.knots)).toBeLessThan(1e-13);
-      expect(maxAbs(res.predicted, r.predicted)).toBeLessThan(1e-13);
-      expect(maxAbs(res.observed, r.observed)).toBeLessThan(1e-8);
-      expect(maxAbs(res.lower, r.lower)).toBeLessThan(1e-8);
-      expect(maxAbs(res.upper, r.upper)).toBeLessThan(1e-8);
-      expect(maxAbs([res.ici!, res.e50!, res.e90!, res.emax!], [r.ici, r.e50, r.e90, r.emax])).toBeLessThan(1e-8);
-    });
+    it(
+      `matches a hand-written rcs basis with ${k} knots fitted by glm(): curve, band, ICI, E50, E90, Emax to ` + `1e-8`,
+      () => {
+        const r = ref[`curve${k}`];
+        const res = calibrationCurve(d.y, d.lp, { knots: k });
+        expect(maxAbs(res.knots, r.knots)).toBeLessThan(1e-13);
+        expect(maxAbs(res.predicted, r.predicted)).toBeLessThan(1e-13);
+        expect(maxAbs(res.observed, r.observed)).toBeLessThan(1e-8);
+        expect(maxAbs(res.lower, r.lower)).toBeLessThan(1e-8);
+        expect(maxAbs(res.upper, r.upper)).toBeLessThan(1e-8);
+        expect(maxAbs([res.ici!, res.e50!, res.e90!, res.emax!], [r.ici, r.e50, r.e90, r.emax])).toBeLessThan(1e-8);
+      },
+    );
   }
   it('matches the weighted glm() fit with 4 knots (ICI, Emax, curve) to 1e-8', () => {
     const r = ref.curve4Weighted;
@@ -109,22 +120,26 @@ describe('flexible calibration curve on the Pima external test set', () => {
 });
 
 describe('Hosmer–Lemeshow (deciles of risk)', () => {
-  it('matches the hand-written R computation with cut(p, unique(quantile(p, 0:10/10)), include.lowest = TRUE) to 1e-10', () => {
-    const r = ref.hosmerLemeshow;
-    const res = hosmerLemeshow(d.y, d.p);
-    expect(res.secondary).toBe(true);
-    expect(res.df).toBe(r.df);
-    expect(Math.abs(res.statistic! - r.statistic)).toBeLessThan(1e-10);
-    expect(Math.abs(res.p! - r.p)).toBeLessThan(1e-10);
-    expect(res.groups.map((g) => g.n)).toEqual(r.n);
-    expect(res.groups.map((g) => g.observedEvents)).toEqual(r.observed);
-    expect(
-      maxAbs(
-        res.groups.map((g) => g.expectedEvents),
-        r.expected,
-      ),
-    ).toBeLessThan(1e-12);
-  });
+  it(
+    'matches the hand-written R computation with cut(p, unique(quantile(p, 0:10/10)), include.lowest = TRUE) ' +
+      'to 1e-10',
+    () => {
+      const r = ref.hosmerLemeshow;
+      const res = hosmerLemeshow(d.y, d.p);
+      expect(res.secondary).toBe(true);
+      expect(res.df).toBe(r.df);
+      expect(Math.abs(res.statistic! - r.statistic)).toBeLessThan(1e-10);
+      expect(Math.abs(res.p! - r.p)).toBeLessThan(1e-10);
+      expect(res.groups.map((g) => g.n)).toEqual(r.n);
+      expect(res.groups.map((g) => g.observedEvents)).toEqual(r.observed);
+      expect(
+        maxAbs(
+          res.groups.map((g) => g.expectedEvents),
+          r.expected,
+        ),
+      ).toBeLessThan(1e-12);
+    },
+  );
   it('declines with a warning when the risks take only two values', () => {
     const res = hosmerLemeshow(new Float64Array([0, 1, 0, 1]), new Float64Array([0.2, 0.2, 0.7, 0.7]));
     expect(res.statistic).toBeNull();

@@ -35,12 +35,16 @@ describe('DeLong AUC against pROC on aSAH', () => {
     });
   }
   for (const c of ref.curves) {
-    it(`gives pROC's ROC points (1 − specificity, sensitivity) at every distinct threshold for ${c.marker} to 1e-14`, () => {
-      const roc = rocCurve(d.outcome, d[c.marker]);
-      expect(roc.fpr.length).toBe(c.fpr.length);
-      expect(Math.max(...roc.fpr.map((v, i) => Math.abs(v - c.fpr[i])))).toBeLessThan(1e-14);
-      expect(Math.max(...roc.tpr.map((v, i) => Math.abs(v - c.tpr[i])))).toBeLessThan(1e-14);
-    });
+    it(
+      `gives pROC's ROC points (1 − specificity, sensitivity) at every distinct threshold for ${c.marker} to ` +
+        `1e-14`,
+      () => {
+        const roc = rocCurve(d.outcome, d[c.marker]);
+        expect(roc.fpr.length).toBe(c.fpr.length);
+        expect(Math.max(...roc.fpr.map((v, i) => Math.abs(v - c.fpr[i])))).toBeLessThan(1e-14);
+        expect(Math.max(...roc.tpr.map((v, i) => Math.abs(v - c.tpr[i])))).toBeLessThan(1e-14);
+      },
+    );
   }
   it('keeps a logit-scale interval inside (0, 1) and around the AUC', () => {
     const res = delongAuc(d.outcome, d.wfns, { scale: 'logit' });
@@ -98,7 +102,7 @@ describe('DeLong edge cases', () => {
     expect(t.warnings.map((w) => w.code)).toContain('auc-difference-zero-variance');
   });
   it('throws a FulcraError naming the row for a missing score', () => {
-    expect(() => delongAuc(y, new Float64Array([0.1, NaN, 0, 0, 0, 0, 0, 0]))).toThrow(/row 2/);
+    expect(() => delongAuc(y, new Float64Array([0.1, NaN, 0, 0, 0, 0, 0, 0]))).toThrow(/value number 2/);
   });
   it('agrees with a brute-force pairwise Mann–Whitney count on data with many ties', () => {
     const n = 300;

@@ -18,26 +18,29 @@ function numbers(x: unknown, out: number[] = []): number[] {
 }
 
 describe('evaluate', () => {
-  it('gathers the same Brier, calibration, Hosmer–Lemeshow and DeLong results as the single functions on Pima.te', () => {
-    const r = evaluate(d.y, d.p, { eta: d.lp });
-    expect(Math.abs(r.brier.brier! - ref.brier.brier)).toBeLessThan(1e-14);
-    expect(Math.abs(r.calibration.slope!.estimate - ref.calibration.slope)).toBeLessThan(1e-8);
-    expect(Math.abs(r.calibration.interceptInTheLarge!.estimate - ref.calibration.citl)).toBeLessThan(1e-8);
-    expect(Math.abs(r.calibrationCurve.ici! - ref.curve4.ici)).toBeLessThan(1e-8);
-    expect(Math.abs(r.hosmerLemeshow!.statistic! - ref.hosmerLemeshow.statistic)).toBeLessThan(1e-10);
-    expect(r.hosmerLemeshow!.secondary).toBe(true);
-    expect(r.auc).toEqual(delongAuc(d.y, d.p));
-    expect(r.n).toBe(ref.n);
-    expect(r.events).toBe(ref.events);
-    expect(r.decisionCurve.thresholds.length).toBe(99);
-    expect(r.warnings).toEqual([]);
-  });
+  it(
+    'gathers the same Brier, calibration, Hosmer–Lemeshow and DeLong results as the single functions on ' + 'Pima.te',
+    () => {
+      const r = evaluate(d.y, d.p, { eta: d.lp });
+      expect(Math.abs(r.brier.brier! - ref.brier.brier)).toBeLessThan(1e-14);
+      expect(Math.abs(r.calibration.slope!.estimate - ref.calibration.slope)).toBeLessThan(1e-8);
+      expect(Math.abs(r.calibration.interceptInTheLarge!.estimate - ref.calibration.citl)).toBeLessThan(1e-8);
+      expect(Math.abs(r.calibrationCurve.ici! - ref.curve4.ici)).toBeLessThan(1e-8);
+      expect(Math.abs(r.hosmerLemeshow!.statistic! - ref.hosmerLemeshow.statistic)).toBeLessThan(1e-10);
+      expect(r.hosmerLemeshow!.secondary).toBe(true);
+      expect(r.auc).toEqual(delongAuc(d.y, d.p));
+      expect(r.n).toBe(ref.n);
+      expect(r.events).toBe(ref.events);
+      expect(r.decisionCurve.thresholds.length).toBe(99);
+      expect(r.warnings).toEqual([]);
+    },
+  );
   it('uses logit(p) when no linear predictor is given (same slope to 1e-8, since p = plogis(lp))', () => {
     const r = evaluate(d.y, d.p);
     expect(Math.abs(r.calibration.slope!.estimate - ref.calibration.slope)).toBeLessThan(1e-8);
   });
   it('returns a structured-clone-safe record, and the prepared thresholds give the same answer after cloning', () => {
-    const r = evaluate(d.y, d.p, { costs: { falseNegative: 4, falsePositive: 1 } });
+    const r = evaluate(d.y, d.p, { costs: { missedCase: 4, falseAlarm: 1 } });
     const c = structuredClone(r);
     expect(c).toEqual(r);
     expect(r.atThreshold!.threshold).toBeCloseTo(0.2, 15);
@@ -62,7 +65,7 @@ describe('evaluate', () => {
   ];
   for (const [label, y, p, code] of cases) {
     it(`does not crash, has no NaN anywhere and warns "${code}" with ${label}`, () => {
-      const r = evaluate(Float64Array.from(y), Float64Array.from(p), { costs: { falseNegative: 3, falsePositive: 1 } });
+      const r = evaluate(Float64Array.from(y), Float64Array.from(p), { costs: { missedCase: 3, falseAlarm: 1 } });
       expect(r.warnings.map((w) => w.code)).toContain(code);
       expect(numbers(r).filter((v) => Number.isNaN(v))).toEqual([]);
     });

@@ -20,7 +20,8 @@ describe('precision–recall curve', () => {
       const [y, s, w] = inputs[c.name];
       const res = prCurve(y, s, { weights: w });
       expect(Math.abs(res.averagePrecision! - c.averagePrecision)).toBeLessThan(1e-12);
-      // scikit-learn stops its curve once recall reaches 1; compare that part (our first point is recall 0, precision 1)
+      // scikit-learn stops its curve once recall reaches 1; compare that part (our first point is recall 0,
+      // precision 1)
       const k = c.recall.length;
       expect(res.threshold.slice(1, k + 1)).toEqual(c.threshold);
       expect(Math.max(...c.recall.map((v: number, i: number) => Math.abs(v - res.recall[i + 1])))).toBeLessThan(1e-12);

@@ -16,6 +16,8 @@ export function readNumericCsv(relPath: string): Record<string, Float64Array> {
   return cols;
 }
 
+// Untyped by default: each test reads the fields of its reference fixture; pass T to check them.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- fixtures are JSON written by R/Python scripts
 export function readJson<T = any>(relPath: string): T {
   return JSON.parse(readFileSync(resolve(__dirname, '../../fixtures', relPath), 'utf8')) as T;
 }

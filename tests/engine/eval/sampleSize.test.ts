@@ -2,15 +2,19 @@ import { describe, expect, it } from 'vitest';
 import { coxSnellR2, maxCoxSnellR2, riley2020SampleSize } from '../../../src/engine/evaluation/sampleSize';
 
 describe('Riley et al. 2020 sample size', () => {
-  it("reproduces the paper's worked example: 24 parameters, proportion 0.174, R²cs 0.288 → 623, 662, 221, n = 662 (Riley et al. 2020, BMJ 368:m441)", () => {
-    const r = riley2020SampleSize({ parameters: 24, outcomeProportion: 0.174, r2cs: 0.288 });
-    expect(r.criteria.map((c) => c.n)).toEqual([623, 662, 221]);
-    expect(r.requiredN).toBe(662);
-    expect(r.binding).toBe('ii');
-    expect(r.requiredEvents).toBe(Math.ceil(662 * 0.174));
-    expect(r.summary[0]).toMatch(/at least 662 cases/);
-    expect(r.warnings).toEqual([]);
-  });
+  it(
+    "reproduces the paper's worked example: 24 parameters, proportion 0.174, R²cs 0.288 → 623, 662, 221, n = " +
+      '662 (Riley et al. 2020, BMJ 368:m441)',
+    () => {
+      const r = riley2020SampleSize({ parameters: 24, outcomeProportion: 0.174, r2cs: 0.288 });
+      expect(r.criteria.map((c) => c.n)).toEqual([623, 662, 221]);
+      expect(r.requiredN).toBe(662);
+      expect(r.binding).toBe('ii');
+      expect(r.requiredEvents).toBe(Math.ceil(662 * 0.174));
+      expect(r.summary[0]).toMatch(/at least 662 cases/);
+      expect(r.warnings).toEqual([]);
+    },
+  );
   it('says whether the data at hand are enough', () => {
     const short = riley2020SampleSize({
       parameters: 24,

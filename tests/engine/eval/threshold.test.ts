@@ -60,7 +60,7 @@ describe('prepared thresholds (flag rule: risk ≥ threshold)', () => {
       fc.property(sample, fc.integer({ min: 1, max: 10 }), fc.integer({ min: 1, max: 10 }), (rows, cfn, cfp) => {
         const y = Float64Array.from(rows, (r) => r.y);
         const p = Float64Array.from(rows, (r) => r.p);
-        const costs = { falseNegative: cfn, falsePositive: cfp };
+        const costs = { missedCase: cfn, falseAlarm: cfp };
         const res = costThresholds(prepareThresholds(y, p), costs);
         let best = Infinity;
         for (const t of [...Array.from(p), 2]) {
@@ -74,50 +74,50 @@ describe('prepared thresholds (flag rule: risk ≥ threshold)', () => {
       { numRuns: 200 },
     );
   });
-  it('reports sensitivity, specificity, PPV, NPV, likelihood ratios and cost at a threshold (hand-counted example)', () => {
-    // 10 cases: risks ≥ 0.5 flag 3 of 4 events and 2 of 6 non-events
-    const y = new Float64Array([1, 1, 1, 1, 0, 0, 0, 0, 0, 0]);
-    const p = new Float64Array([0.9, 0.7, 0.5, 0.2, 0.6, 0.5, 0.3, 0.2, 0.1, 0.1]);
-    const m = atThreshold(prepareThresholds(y, p), 0.5, { costs: { falseNegative: 10, falsePositive: 1 } });
-    expect([m.tp, m.fp, m.fn, m.tn]).toEqual([3, 2, 1, 4]);
-    expect(m.sensitivity.estimate).toBe(0.75);
-    expect(m.specificity.estimate).toBeCloseTo(4 / 6, 15);
-    expect(m.ppv.estimate).toBe(0.6);
-    expect(m.npv.estimate).toBe(0.8);
-    expect(m.lrPositive).toBeCloseTo(0.75 / (2 / 6), 14);
-    expect(m.lrNegative).toBeCloseTo(0.25 / (4 / 6), 14);
-    expect(m.fractionFlagged.estimate).toBe(0.5);
-    expect(m.expectedCostPer100).toBeCloseTo((100 * (10 * 1 + 1 * 2)) / 10, 12);
-    expect(m.sensitivity.method).toBe('wilson');
-    expect(atThreshold(prepareThresholds(y, p), 0.5, { ciMethod: 'clopper-pearson' }).sensitivity.method).toBe(
-      'clopper-pearson',
-    );
-    expect(m.flagRule).toMatch(/greater than or equal/);
-  });
+  it(
+    'reports sensitivity, specificity, PPV, NPV, likelihood ratios and cost at a threshold (hand-counted ' + 'example)',
+    () => {
+      // 10 cases: risks ≥ 0.5 flag 3 of 4 events and 2 of 6 non-events
+      const y = new Float64Array([1, 1, 1, 1, 0, 0, 0, 0, 0, 0]);
+      const p = new Float64Array([0.9, 0.7, 0.5, 0.2, 0.6, 0.5, 0.3, 0.2, 0.1, 0.1]);
+      const m = atThreshold(prepareThresholds(y, p), 0.5, { costs: { missedCase: 10, falseAlarm: 1 } });
+      expect([m.tp, m.fp, m.fn, m.tn]).toEqual([3, 2, 1, 4]);
+      expect(m.sensitivity.estimate).toBe(0.75);
+      expect(m.specificity.estimate).toBeCloseTo(4 / 6, 15);
+      expect(m.ppv.estimate).toBe(0.6);
+      expect(m.npv.estimate).toBe(0.8);
+      expect(m.lrPositive).toBeCloseTo(0.75 / (2 / 6), 14);
+      expect(m.lrNegative).toBeCloseTo(0.25 / (4 / 6), 14);
+      expect(m.fractionFlagged.estimate).toBe(0.5);
+      expect(m.expectedCostPer100).toBeCloseTo((100 * (10 * 1 + 1 * 2)) / 10, 12);
+      expect(m.sensitivity.method).toBe('wilson');
+      expect(atThreshold(prepareThresholds(y, p), 0.5, { ciMethod: 'clopper-pearson' }).sensitivity.method).toBe(
+        'clopper-pearson',
+      );
+      expect(m.flagRule).toMatch(/greater than or equal/);
+    },
+  );
   it('leaves LR+ undefined (null) when nothing is flagged among non-events and sensitivity is 0', () => {
     const m = atThreshold(prepareThresholds(new Float64Array([1, 0]), new Float64Array([0.2, 0.1])), 0.5);
     expect(m.lrPositive).toBeNull();
     expect(m.ppv.estimate).toBeNull();
   });
   it('puts the decision-theory threshold at C_FP/(C_FP + C_FN + B) (arithmetic of the formula)', () => {
-    expect(decisionTheoryThreshold({ falseNegative: 9, falsePositive: 1 })).toBeCloseTo(0.1, 15);
-    expect(decisionTheoryThreshold({ falseNegative: 3, falsePositive: 1, truePositiveBenefit: 1 })).toBeCloseTo(
-      0.2,
-      15,
-    );
+    expect(decisionTheoryThreshold({ missedCase: 9, falseAlarm: 1 })).toBeCloseTo(0.1, 15);
+    expect(decisionTheoryThreshold({ missedCase: 3, falseAlarm: 1, truePositiveBenefit: 1 })).toBeCloseTo(0.2, 15);
     const r = costThresholds(prepareThresholds(new Float64Array([0, 1]), new Float64Array([0.2, 0.8])), {
-      falseNegative: 9,
-      falsePositive: 1,
+      missedCase: 9,
+      falseAlarm: 1,
     });
     expect(r.decisionTheory.assumptions.join(' ')).toMatch(/calibrated/);
     expect(r.empirical.assumptions.join(' ')).toMatch(/optimistic/);
-    expect(() => decisionTheoryThreshold({ falseNegative: -1, falsePositive: 1 })).toThrow(/falseNegative/);
+    expect(() => decisionTheoryThreshold({ missedCase: -1, falseAlarm: 1 })).toThrow(/missedCase/);
   });
   it('gives an expected-cost curve that agrees with atThreshold at every grid point', () => {
     const y = new Float64Array([1, 0, 1, 0, 0, 1, 0, 0]);
     const p = new Float64Array([0.9, 0.4, 0.35, 0.3, 0.05, 0.6, 0.62, 0.2]);
     const prep = prepareThresholds(y, p);
-    const costs = { falseNegative: 5, falsePositive: 1 };
+    const costs = { missedCase: 5, falseAlarm: 1 };
     const c = expectedCostCurve(prep, costs);
     expect(c.thresholds.length).toBe(99);
     c.thresholds.forEach((t, i) =>

@@ -77,6 +77,6 @@ describe('designFromRecipe', () => {
         { kind: 'categorical', name: 'ward', codes: Int32Array.of(0, 1), levels: ['A', 'Z'] },
       ],
     };
-    expect(() => designFromRecipe(fitted.recipe, fresh)).toThrow(/Row 2, column "ward": the value "Z"/);
+    expect(() => designFromRecipe(fitted.recipe, fresh)).toThrow(/Row 3, column "ward": the value "Z"/);
   });
 });

@@ -4,6 +4,8 @@ import type { Dataset } from '../../../src/engine/core/data';
 
 const root = fileURLToPath(new URL('../../../', import.meta.url));
 
+// Untyped by default: each test reads the fields of its reference fixture; pass T to check them.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- fixtures are JSON written by R/Python scripts
 export function readJson<T = any>(rel: string): T {
   return JSON.parse(readFileSync(root + rel, 'utf8')) as T;
 }

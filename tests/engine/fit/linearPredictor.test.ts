@@ -49,8 +49,8 @@ describe('linearPredictorFromRecipe', () => {
     wc.codes[5] = wc.levels.length - 1;
     const beta = r.coefficients.map((c) => c.estimate);
     expect(() => linearPredictorFromRecipe(r.recipe, beta, other)).toThrow(
-      /Row 6, column "wound_class": the value "filthy"/,
+      /Row 7, column "wound_class": the value "filthy"/,
     );
-    expect(() => designFromRecipe(r.recipe, other)).toThrow(/Row 6, column "wound_class": the value "filthy"/);
+    expect(() => designFromRecipe(r.recipe, other)).toThrow(/Row 7, column "wound_class": the value "filthy"/);
   });
 });

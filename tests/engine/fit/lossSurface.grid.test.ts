@@ -75,17 +75,21 @@ describe('gridLossSums', () => {
     }
   });
 
-  it('flags a grid point whose product overflows as non-finite, and stays exact where the losses are huge but representable', () => {
-    const eta = Float64Array.of(600, -5, 0.3),
-      xi = Float64Array.of(1, 1, 1),
-      xj = Float64Array.of(0, 0, 0),
-      y = Float64Array.of(0, 1, 0);
-    const sums = gridLossSums(eta, xi, xj, y, [-300, 0, 200], [0, 1]);
-    expect(Math.abs(sums[0] - directSum(eta, xi, xj, y, -300, 0)) / directSum(eta, xi, xj, y, -300, 0)).toBeLessThan(
-      1e-13,
-    );
-    expect(Number.isFinite(sums[2])).toBe(false); // η = 800 for the first row: e^800 overflows
-  });
+  it(
+    'flags a grid point whose product overflows as non-finite, and stays exact where the losses are huge but ' +
+      'representable',
+    () => {
+      const eta = Float64Array.of(600, -5, 0.3),
+        xi = Float64Array.of(1, 1, 1),
+        xj = Float64Array.of(0, 0, 0),
+        y = Float64Array.of(0, 1, 0);
+      const sums = gridLossSums(eta, xi, xj, y, [-300, 0, 200], [0, 1]);
+      expect(Math.abs(sums[0] - directSum(eta, xi, xj, y, -300, 0)) / directSum(eta, xi, xj, y, -300, 0)).toBeLessThan(
+        1e-13,
+      );
+      expect(Number.isFinite(sums[2])).toBe(false); // η = 800 for the first row: e^800 overflows
+    },
+  );
 });
 
 describe('lossSurface on many rows', () => {
@@ -100,21 +104,25 @@ describe('lossSurface on many rows', () => {
     expect(s.minimum).toBeCloseTo(res.deviance / (2 * 25_000), 12);
   });
 
-  it('uses an evenly spaced subsample of ≥ 20 000 rows for a 150×150 grid, reports it, and keeps the minimum at the estimate', () => {
-    const s = lossSurface(res, data, { i: 1, j: 3, grid: 150 });
-    expect(s.subsampled).toBe(true);
-    expect(s.rowsUsed).toBe(Math.floor(5e8 / 150 ** 2));
-    expect(s.rowsUsed).toBeGreaterThanOrEqual(20_000);
-    // the value at the estimate is the all-row objective
-    expect(s.minimum).toBeCloseTo(res.deviance / (2 * 25_000), 12);
-    // the grid point nearest the estimate is the lowest one up to the grid's resolution
-    const G = 150;
-    let best = 0;
-    for (let k = 1; k < s.z.length; k++) if (s.z[k] < s.z[best]) best = k;
-    const bx = s.x[best % G],
-      by = s.y[Math.floor(best / G)];
-    expect(Math.abs(bx - s.estimate[0])).toBeLessThanOrEqual(2 * (s.x[1] - s.x[0]));
-    expect(Math.abs(by - s.estimate[1])).toBeLessThanOrEqual(2 * (s.y[1] - s.y[0]));
-    expect(Math.min(...s.z)).toBeGreaterThanOrEqual(s.minimum - 1e-6);
-  });
+  it(
+    'uses an evenly spaced subsample of ≥ 20 000 rows for a 150×150 grid, reports it, and keeps the minimum at ' +
+      'the estimate',
+    () => {
+      const s = lossSurface(res, data, { i: 1, j: 3, grid: 150 });
+      expect(s.subsampled).toBe(true);
+      expect(s.rowsUsed).toBe(Math.floor(5e8 / 150 ** 2));
+      expect(s.rowsUsed).toBeGreaterThanOrEqual(20_000);
+      // the value at the estimate is the all-row objective
+      expect(s.minimum).toBeCloseTo(res.deviance / (2 * 25_000), 12);
+      // the grid point nearest the estimate is the lowest one up to the grid's resolution
+      const G = 150;
+      let best = 0;
+      for (let k = 1; k < s.z.length; k++) if (s.z[k] < s.z[best]) best = k;
+      const bx = s.x[best % G],
+        by = s.y[Math.floor(best / G)];
+      expect(Math.abs(bx - s.estimate[0])).toBeLessThanOrEqual(2 * (s.x[1] - s.x[0]));
+      expect(Math.abs(by - s.estimate[1])).toBeLessThanOrEqual(2 * (s.y[1] - s.y[0]));
+      expect(Math.min(...s.z)).toBeGreaterThanOrEqual(s.minimum - 1e-6);
+    },
+  );
 });

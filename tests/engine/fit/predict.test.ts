@@ -51,7 +51,7 @@ describe('predict', () => {
 
   it('refuses a value so extreme that the risk score overflows, naming row and column', () => {
     const rec = { age: 19, lwt: 182, race: '2', smoke: 0, ptl: 0, ht: 1.7e308, ui: 1 }; // β_ht ≈ 1.83
-    expect(() => predictOne(r, rec)).toThrow(/Row 1: the value of "ht"/);
+    expect(() => predictOne(r, rec)).toThrow(/Row 2: the value of "ht"/);
   });
 
   it('names row and column of an unseen category and skips rows with a missing predictor', () => {
@@ -71,7 +71,7 @@ describe('predict', () => {
       ...bad,
       columns: bad.columns.map((c) => (c.kind === 'numeric' ? { ...c, values: Float64Array.of(20, 100) } : c)),
     };
-    expect(() => predict(r, bad2)).toThrow(/Row 2, column "race": the value "4"/);
+    expect(() => predict(r, bad2)).toThrow(/Row 3, column "race": the value "4"/);
   });
 
   it('gives NaN intervals with a warning for a ridge fit', () => {

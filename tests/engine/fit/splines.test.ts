@@ -5,7 +5,8 @@ import type { ModelSpec } from '../../../src/engine/core/model';
 import { maxRelErr, readCsvDataset, readJson } from './helpers';
 
 // Reference: tests/fixtures/reference/fit-splines.json from fit-splines.R — R 4.2.2 quantile(type = 7) knots at
-// Harrell's quantiles (RMS 2nd ed. Table 2.3), Harrell's rcspline.eval formula written out in base R, glm.fit(binomial).
+// Harrell's quantiles (RMS 2nd ed. Table 2.3), Harrell's rcspline.eval formula written out in base R,
+// glm.fit(binomial).
 const ref = readJson('tests/fixtures/reference/fit-splines.json');
 const data = readCsvDataset('tests/fixtures/data/birthwt.csv', ['race']);
 const num = (c: string) => (data.columns.find((d) => d.name === c) as { values: Float64Array }).values;

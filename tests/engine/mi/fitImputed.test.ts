@@ -57,51 +57,62 @@ describe('fitImputed', () => {
     ['mcar', 20261],
     ['mar', 20262],
   ] as const) {
-    it(`recovers the known coefficients within their pooled 95% CIs with values removed ${mechanism === 'mcar' ? 'completely at random' : 'at random given the outcome and x3'} (n = 4000, data seed ${seed}, mice seed 3)`, async () => {
-      const data = simulate(seed, 4000, mechanism);
-      const imp = await mice(data, spec, { m: 10, maxit: 10, seed: 3 });
-      const r = await fitImputed(data, spec, imp);
-      expect(r.coefficients.map((c) => c.name)).toEqual(Object.keys(truth));
-      for (const c of r.coefficients) {
-        expect(c.waldLower as number).toBeLessThan(truth[c.name]);
-        expect(c.waldUpper as number).toBeGreaterThan(truth[c.name]);
-        expect(c.fmi as number).toBeGreaterThan(0);
-        expect(c.fmi as number).toBeLessThan(0.6);
-      }
-      expect(r.m).toBe(10);
-      expect(r.dfcom).toBe(4000 - 4);
-      expect(r.nImputedRows).toBeGreaterThan(0);
-      if (mechanism === 'mar') {
-        // Complete cases are selected on the outcome and x3, so their intercept and x3 coefficient are biased outside their CIs.
-        const cc = fit(data, spec, { profile: false });
-        expect(cc.nUsed).toBeLessThan(4000);
-        expect(cc.coefficients[0].waldUpper as number).toBeLessThan(truth['(Intercept)']);
-        expect(cc.coefficients[3].waldUpper as number).toBeLessThan(truth.x3);
-      }
-    });
+    it(
+      `recovers the known coefficients within their pooled 95% CIs with values removed ` +
+        `${mechanism === 'mcar' ? 'completely at random' : 'at random given the outcome and x3'} (n = 4000, data ` +
+        `seed ${seed}, mice seed 3)`,
+      async () => {
+        const data = simulate(seed, 4000, mechanism);
+        const imp = await mice(data, spec, { m: 10, maxit: 10, seed: 3 });
+        const r = await fitImputed(data, spec, imp);
+        expect(r.coefficients.map((c) => c.name)).toEqual(Object.keys(truth));
+        for (const c of r.coefficients) {
+          expect(c.waldLower as number).toBeLessThan(truth[c.name]);
+          expect(c.waldUpper as number).toBeGreaterThan(truth[c.name]);
+          expect(c.fmi as number).toBeGreaterThan(0);
+          expect(c.fmi as number).toBeLessThan(0.6);
+        }
+        expect(r.m).toBe(10);
+        expect(r.dfcom).toBe(4000 - 4);
+        expect(r.nImputedRows).toBeGreaterThan(0);
+        if (mechanism === 'mar') {
+          // Complete cases are selected on the outcome and x3, so their intercept and x3 coefficient are biased
+          // outside their CIs.
+          const cc = fit(data, spec, { profile: false });
+          expect(cc.nUsed).toBeLessThan(4000);
+          expect(cc.coefficients[0].waldUpper as number).toBeLessThan(truth['(Intercept)']);
+          expect(cc.coefficients[3].waldUpper as number).toBeLessThan(truth.x3);
+        }
+      },
+    );
   }
 
-  it('agrees with R mice 3.15.0 + glm + pool on the incomplete birthwt data: estimates within 0.4 SE, SEs within 20% (m = 20, seed 1)', async () => {
-    // Reference: tests/fixtures/reference/mi-pool.R (poolM50: mice(d, m = 50, maxit = 10, seed = 11)); Monte Carlo on both sides.
-    const data = birthwtIncomplete();
-    const ref = loadPoolFixture();
-    const bwSpec: ModelSpec = {
-      outcome: 'low',
-      event: '1',
-      terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
-    };
-    const r = await fitImputed(data, bwSpec, await mice(data, bwSpec, { m: 20, seed: 1 }));
-    expect(r.dfcom).toBe(ref.dfcom);
-    r.coefficients.forEach((c, j) => {
-      expect(Math.abs(c.estimate - ref.poolM50.estimate[j]) / ref.poolM50.std_error[j]).toBeLessThan(0.4);
-      expect(Math.abs((c.se as number) / ref.poolM50.std_error[j] - 1)).toBeLessThan(0.2);
-    });
-    const race = r.terms.find((t) => t.name === 'race');
-    expect(race?.columns).toEqual([3, 4]);
-    expect(race?.test?.df1).toBe(2);
-    expect(race?.test?.p).toBeGreaterThan(0);
-    expect(race?.test?.p).toBeLessThan(1);
-  });
+  it(
+    'agrees with R mice 3.15.0 + glm + pool on the incomplete birthwt data: estimates within 0.4 SE, SEs ' +
+      'within 20% (m = 20, seed 1)',
+    async () => {
+      // Reference: tests/fixtures/reference/mi-pool.R (poolM50: mice(d, m = 50, maxit = 10, seed = 11)); Monte Carlo
+      // on both sides.
+      const data = birthwtIncomplete();
+      const ref = loadPoolFixture();
+      const bwSpec: ModelSpec = {
+        outcome: 'low',
+        event: '1',
+        terms: ['age', 'lwt', 'race', 'smoke'].map((column) => ({ type: 'main' as const, column })),
+      };
+      const r = await fitImputed(data, bwSpec, await mice(data, bwSpec, { m: 20, seed: 1 }));
+      expect(r.dfcom).toBe(ref.dfcom);
+      r.coefficients.forEach((c, j) => {
+        expect(Math.abs(c.estimate - ref.poolM50.estimate[j]) / ref.poolM50.std_error[j]).toBeLessThan(0.4);
+        expect(Math.abs((c.se as number) / ref.poolM50.std_error[j] - 1)).toBeLessThan(0.2);
+      });
+      const race = r.terms.find((t) => t.name === 'race');
+      expect(race?.columns).toEqual([3, 4]);
+      expect(race?.test?.df1).toBe(2);
+      expect(race?.test?.p).toBeGreaterThan(0);
+      expect(race?.test?.p).toBeLessThan(1);
+    },
+  );
 
   it('reports progress per imputed dataset, passes on imputation warnings, and honours cancellation', async () => {
     const data = simulate(5, 300, 'mcar');

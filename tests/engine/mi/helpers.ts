@@ -26,7 +26,10 @@ export function birthwtIncomplete(): Dataset {
   };
 }
 
-/** A FitResult carrying only what pooling reads: coefficient rows (name, estimate, se, aliased), nUsed, covariance, terms. */
+/**
+ * A FitResult carrying only what pooling reads: coefficient rows (name, estimate, se, aliased), nUsed, covariance,
+ * terms.
+ */
 export function fitRecord(
   names: string[],
   estimates: number[],

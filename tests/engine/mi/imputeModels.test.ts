@@ -38,7 +38,8 @@ describe('drawChiSquare', () => {
 });
 
 describe('drawLinear', () => {
-  // y = 1 + 2x + e on 30 rows; posterior of β is multivariate t: mean β̂, covariance RSS/(df−2)·(X'X)⁻¹ (Rubin 1987 p.167).
+  // y = 1 + 2x + e on 30 rows; posterior of β is multivariate t: mean β̂, covariance RSS/(df−2)·(X'X)⁻¹ (Rubin 1987
+  // p.167).
   const rng0 = createRng(3);
   const n = 30;
   const x = Float64Array.from({ length: n }, () => rng0.normal());

@@ -11,16 +11,20 @@ const spec: ModelSpec = {
 };
 
 describe('missingReport', () => {
-  it('counts missing values per column and complete rows as R is.na()/complete.cases() do on the incomplete birthwt data', () => {
-    const fx = loadPoolFixture(); // R 4.2.2 sum(is.na()), sum(complete.cases()) in mi-pool.R
-    const r = missingReport(birthwtIncomplete(), spec);
-    expect(r.columns).toEqual(['low', 'age', 'lwt', 'race', 'smoke']);
-    expect(r.byColumn.map((c) => c.missing)).toEqual([0, 0, fx.missing.lwt, fx.missing.race, fx.missing.smoke]);
-    expect(r.completeRows).toBe(fx.missing.completeRows);
-    expect(r.droppedRows).toBe(189 - fx.missing.completeRows);
-    expect(r.patterns.reduce((s, p) => s + p.rows, 0)).toBe(189);
-    expect(r.patterns[0]).toEqual({ missing: [false, false, false, false, false], rows: fx.missing.completeRows });
-  });
+  it(
+    'counts missing values per column and complete rows as R is.na()/complete.cases() do on the incomplete ' +
+      'birthwt data',
+    () => {
+      const fx = loadPoolFixture(); // R 4.2.2 sum(is.na()), sum(complete.cases()) in mi-pool.R
+      const r = missingReport(birthwtIncomplete(), spec);
+      expect(r.columns).toEqual(['low', 'age', 'lwt', 'race', 'smoke']);
+      expect(r.byColumn.map((c) => c.missing)).toEqual([0, 0, fx.missing.lwt, fx.missing.race, fx.missing.smoke]);
+      expect(r.completeRows).toBe(fx.missing.completeRows);
+      expect(r.droppedRows).toBe(189 - fx.missing.completeRows);
+      expect(r.patterns.reduce((s, p) => s + p.rows, 0)).toBe(189);
+      expect(r.patterns[0]).toEqual({ missing: [false, false, false, false, false], rows: fx.missing.completeRows });
+    },
+  );
 
   it('warns that complete-case analysis assumes MCAR, naming the incomplete columns, when rows are dropped', () => {
     const r = missingReport(birthwtIncomplete(), spec);

@@ -197,32 +197,36 @@ describe('poolRubin properties', () => {
     seed: fc.integer({ min: 0, max: 2 ** 31 - 1 }),
     dfcom: fc.oneof(fc.constant(Infinity), fc.integer({ min: 1, max: 5000 })),
   });
-  it('is unchanged by reordering the imputations, keeps lower < estimate < upper, λ in [0, 1), fmi in (0, 1] and df ≤ dfcom (fast-check)', () => {
-    fc.assert(
-      fc.property(arb, ({ m, seed, dfcom }) => {
-        const rng = createRng(seed);
-        const est = Array.from({ length: m }, () => [rng.normal(), 3 * rng.normal()]);
-        const vr = Array.from({ length: m }, () => [0.01 + rng.next(), 0.5 + rng.next()]);
-        const a = poolRubin({ estimates: est, variances: vr, dfcom }).rows;
-        const b = poolRubin({ estimates: [...est].reverse(), variances: [...vr].reverse(), dfcom }).rows;
-        a.forEach((r, j) => {
-          expect(b[j].estimate).toBeCloseTo(r.estimate, 12);
-          expect(b[j].df).toBeCloseTo(r.df, 8);
-          expect(r.lower).toBeLessThan(r.estimate);
-          expect(r.upper).toBeGreaterThan(r.estimate);
-          expect(r.lambda).toBeGreaterThanOrEqual(0);
-          expect(r.lambda).toBeLessThan(1);
-          expect(r.fmi).toBeGreaterThan(0);
-          expect(r.fmi).toBeLessThanOrEqual(1);
-          expect(r.df).toBeGreaterThan(0);
-          if (dfcom !== Infinity) expect(r.df).toBeLessThanOrEqual(dfcom);
-          expect(r.p).toBeGreaterThanOrEqual(0);
-          expect(r.p).toBeLessThanOrEqual(1);
-        });
-      }),
-      { numRuns: 200, seed: 42 },
-    );
-  });
+  it(
+    'is unchanged by reordering the imputations, keeps lower < estimate < upper, λ in [0, 1), fmi in (0, 1] ' +
+      'and df ≤ dfcom (fast-check)',
+    () => {
+      fc.assert(
+        fc.property(arb, ({ m, seed, dfcom }) => {
+          const rng = createRng(seed);
+          const est = Array.from({ length: m }, () => [rng.normal(), 3 * rng.normal()]);
+          const vr = Array.from({ length: m }, () => [0.01 + rng.next(), 0.5 + rng.next()]);
+          const a = poolRubin({ estimates: est, variances: vr, dfcom }).rows;
+          const b = poolRubin({ estimates: [...est].reverse(), variances: [...vr].reverse(), dfcom }).rows;
+          a.forEach((r, j) => {
+            expect(b[j].estimate).toBeCloseTo(r.estimate, 12);
+            expect(b[j].df).toBeCloseTo(r.df, 8);
+            expect(r.lower).toBeLessThan(r.estimate);
+            expect(r.upper).toBeGreaterThan(r.estimate);
+            expect(r.lambda).toBeGreaterThanOrEqual(0);
+            expect(r.lambda).toBeLessThan(1);
+            expect(r.fmi).toBeGreaterThan(0);
+            expect(r.fmi).toBeLessThanOrEqual(1);
+            expect(r.df).toBeGreaterThan(0);
+            if (dfcom !== Infinity) expect(r.df).toBeLessThanOrEqual(dfcom);
+            expect(r.p).toBeGreaterThanOrEqual(0);
+            expect(r.p).toBeLessThanOrEqual(1);
+          });
+        }),
+        { numRuns: 200, seed: 42 },
+      );
+    },
+  );
 });
 
 describe('poolWaldTest (D1)', () => {
@@ -237,12 +241,16 @@ describe('poolWaldTest (D1)', () => {
     ['all', [1, 2, 3, 4, 5]],
     ['age', [1]],
   ] as const) {
-    it(`reproduces D1 statistic, df2, r and p for ${name === 'all' ? 'all five slopes' : `the ${name} term`} to 1e-8`, () => {
-      const { est, cov } = sub([...idx]);
-      const r = poolWaldTest(est, cov);
-      const [stat, df1, df2, riv, p] = fx.d1[name];
-      expect(maxRelErr([r.statistic, r.df1, r.df2, r.riv, r.p], [stat, df1, df2, riv, p])).toBeLessThan(1e-8);
-    });
+    it(
+      `reproduces D1 statistic, df2, r and p for ${name === 'all' ? 'all five slopes' : `the ${name} term`} to ` +
+        `1e-8`,
+      () => {
+        const { est, cov } = sub([...idx]);
+        const r = poolWaldTest(est, cov);
+        const [stat, df1, df2, riv, p] = fx.d1[name];
+        expect(maxRelErr([r.statistic, r.df1, r.df2, r.riv, r.p], [stat, df1, df2, riv, p])).toBeLessThan(1e-8);
+      },
+    );
   }
 
   it('pools term tests inside poolCoefficients from fit covariances (race term = D1 above)', () => {
@@ -290,13 +298,18 @@ describe('pfUpper', () => {
     expect(err).toBeLessThan(1e-10);
   });
 
-  it('keeps the digits of a tiny upper tail, and is the χ² limit at df2 = ∞ (R 4.2.2 stats::pf, lower.tail = FALSE)', () => {
-    expect(Math.abs(pfUpper(50, 3, 1000) / 4.110582339166328e-30 - 1)).toBeLessThan(1e-10);
-    // Relative error grows with df2 (cancellation in the beta argument): 8e-13 at 1e5, 2.5e-10 at 1e7 (measured).
-    expect(Math.abs(pfUpper(2.5, 4, 1e7) / 0.040427749373991156 - 1)).toBeLessThan(1e-9);
-    expect(Math.abs(pfUpper(2.5, 4, Infinity) / 0.040427681994512805 - 1)).toBeLessThan(1e-12); // pchisq(10, 4, lower.tail = FALSE)
-    expect(pfUpper(0, 2, 5)).toBe(1);
-    expect(pfUpper(Infinity, 2, 5)).toBe(0);
-    expect(pfUpper(NaN, 2, 5)).toBeNaN();
-  });
+  it(
+    'keeps the digits of a tiny upper tail, and is the χ² limit at df2 = ∞ (R 4.2.2 stats::pf, lower.tail = ' +
+      'FALSE)',
+    () => {
+      expect(Math.abs(pfUpper(50, 3, 1000) / 4.110582339166328e-30 - 1)).toBeLessThan(1e-10);
+      // Relative error grows with df2 (cancellation in the beta argument): 8e-13 at 1e5, 2.5e-10 at 1e7 (measured).
+      expect(Math.abs(pfUpper(2.5, 4, 1e7) / 0.040427749373991156 - 1)).toBeLessThan(1e-9);
+      // pchisq(10, 4, lower.tail = FALSE)
+      expect(Math.abs(pfUpper(2.5, 4, Infinity) / 0.040427681994512805 - 1)).toBeLessThan(1e-12);
+      expect(pfUpper(0, 2, 5)).toBe(1);
+      expect(pfUpper(Infinity, 2, 5)).toBe(0);
+      expect(pfUpper(NaN, 2, 5)).toBeNaN();
+    },
+  );
 });

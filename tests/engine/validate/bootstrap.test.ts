@@ -24,18 +24,23 @@ describe('bootstrapValidation', () => {
     expect(row(c, 'auc').optimism).not.toBe(row(a, 'auc').optimism);
   });
 
-  it('gives apparent calibration slope 1 and intercept 0 for maximum likelihood, and corrected = apparent − optimism', async () => {
-    const r = await bootstrapValidation(pipeline(120, 2), { B: 30, seed: 3 });
-    // Score equations of ML logistic regression make the apparent slope exactly 1 and CITL exactly 0 (common practice).
-    expect(row(r, 'calibrationSlope').apparent).toBeCloseTo(1, 8);
-    expect(row(r, 'calibrationInTheLarge').apparent).toBeCloseTo(0, 8);
-    for (const x of r.rows) expect(x.corrected).toBeCloseTo(x.apparent! - x.optimism!, 14);
-    // With 120 rows and 3 predictors the model is overfitted: AUC optimism > 0, corrected slope < 1.
-    expect(row(r, 'auc').optimism!).toBeGreaterThan(0);
-    expect(row(r, 'calibrationSlope').corrected!).toBeLessThan(1);
-    expect(row(r, 'brier').optimism!).toBeLessThan(0);
-    expect(row(r, 'auc').lower!).toBeLessThanOrEqual(row(r, 'auc').upper!);
-  });
+  it(
+    'gives apparent calibration slope 1 and intercept 0 for maximum likelihood, and corrected = apparent − ' +
+      'optimism',
+    async () => {
+      const r = await bootstrapValidation(pipeline(120, 2), { B: 30, seed: 3 });
+      // Score equations of ML logistic regression make the apparent slope exactly 1 and CITL exactly 0
+      // (common practice).
+      expect(row(r, 'calibrationSlope').apparent).toBeCloseTo(1, 8);
+      expect(row(r, 'calibrationInTheLarge').apparent).toBeCloseTo(0, 8);
+      for (const x of r.rows) expect(x.corrected).toBeCloseTo(x.apparent! - x.optimism!, 14);
+      // With 120 rows and 3 predictors the model is overfitted: AUC optimism > 0, corrected slope < 1.
+      expect(row(r, 'auc').optimism!).toBeGreaterThan(0);
+      expect(row(r, 'calibrationSlope').corrected!).toBeLessThan(1);
+      expect(row(r, 'brier').optimism!).toBeLessThan(0);
+      expect(row(r, 'auc').lower!).toBeLessThanOrEqual(row(r, 'auc').upper!);
+    },
+  );
 
   it('shrinks the optimism toward 0 as n grows (simulated data with known coefficients)', async () => {
     const small = await bootstrapValidation(pipeline(100, 21, {}, 5), { B: 40, seed: 4 });
@@ -161,27 +166,31 @@ describe('repeatedCrossValidation', () => {
 });
 
 describe('bootstrapValidation against R', () => {
-  it('reproduces the optimism computed in R (glm with count weights, pROC auc) for the same 8 resamples of MASS::Pima.tr to 1e-6', async () => {
-    // Reference: validate-bootstrap.R (R 4.2.2 stats::glm, pROC 1.18.0 auc, glm calibration fits).
-    const ref = readFixture<{
-      metrics: string[];
-      counts: number[][];
-      apparent: number[];
-      optimism: number[];
-      corrected: number[];
-      optimismSd: number[];
-    }>('validate-bootstrap.json');
-    const r = await bootstrapValidation(
-      { data: pimaDataset('tr'), spec: PIMA_SPEC, fitOptions: {}, penalty: null, seed: 1 },
-      { counts: ref.counts.map((c) => Float64Array.from(c)) },
-    );
-    expect(r.planned).toBe(8);
-    ref.metrics.forEach((m, k) => {
-      const x = row(r, m);
-      expect(Math.abs(x.apparent! - ref.apparent[k])).toBeLessThan(1e-6);
-      expect(Math.abs(x.optimism! - ref.optimism[k])).toBeLessThan(1e-6);
-      expect(Math.abs(x.corrected! - ref.corrected[k])).toBeLessThan(1e-6);
-      expect(Math.abs(x.sd! - ref.optimismSd[k])).toBeLessThan(1e-6);
-    });
-  });
+  it(
+    'reproduces the optimism computed in R (glm with count weights, pROC auc) for the same 8 resamples of ' +
+      'MASS::Pima.tr to 1e-6',
+    async () => {
+      // Reference: validate-bootstrap.R (R 4.2.2 stats::glm, pROC 1.18.0 auc, glm calibration fits).
+      const ref = readFixture<{
+        metrics: string[];
+        counts: number[][];
+        apparent: number[];
+        optimism: number[];
+        corrected: number[];
+        optimismSd: number[];
+      }>('validate-bootstrap.json');
+      const r = await bootstrapValidation(
+        { data: pimaDataset('tr'), spec: PIMA_SPEC, fitOptions: {}, penalty: null, seed: 1 },
+        { counts: ref.counts.map((c) => Float64Array.from(c)) },
+      );
+      expect(r.planned).toBe(8);
+      ref.metrics.forEach((m, k) => {
+        const x = row(r, m);
+        expect(Math.abs(x.apparent! - ref.apparent[k])).toBeLessThan(1e-6);
+        expect(Math.abs(x.optimism! - ref.optimism[k])).toBeLessThan(1e-6);
+        expect(Math.abs(x.corrected! - ref.corrected[k])).toBeLessThan(1e-6);
+        expect(Math.abs(x.sd! - ref.optimismSd[k])).toBeLessThan(1e-6);
+      });
+    },
+  );
 });

@@ -29,24 +29,28 @@ const problem = { X: pima.X, n: pima.n, p: pima.p, y: pima.y };
 
 describe('crossValidateLambda', () => {
   for (const r of ref.cv) {
-    it(`matches glmnet fold refits combined by cv.glmnet's rules: error, SE, λ_min, λ_1se to 1e-6 (alpha=${r.alpha}, ${r.measure})`, async () => {
-      const folds = Int32Array.from(ref.foldid, (f) => f - 1);
-      const cv = await crossValidateLambda(problem, r.alpha, {
-        folds,
-        criterion: r.measure === 'mse' ? 'brier' : 'deviance',
-      });
-      const scale = r.measure === 'mse' ? 2 : 1;
-      expect(cv.path.length).toBe(r.lambda.length);
-      expect(cv.path.map((row) => row.nonzero)).toEqual(r.nzero);
-      for (let k = 0; k < r.lambda.length; k++) {
-        expect(Math.abs(cv.path[k].lambda - r.lambda[k])).toBeLessThan(1e-12 * r.lambda[0]);
-        expect(Math.abs(scale * cv.path[k].error - r.cvm[k])).toBeLessThan(1e-6 * r.cvm[k]);
-        expect(Math.abs(scale * cv.path[k].se - r.cvsd[k])).toBeLessThan(1e-5 * r.cvsd[k]);
-      }
-      expect(cv.lambdaMin).toBeCloseTo(r.lambdaMin, 12);
-      expect(cv.lambda1se).toBeCloseTo(r.lambda1se, 12);
-      expect(cv.lambda1se).toBeGreaterThanOrEqual(cv.lambdaMin);
-    });
+    it(
+      `matches glmnet fold refits combined by cv.glmnet's rules: error, SE, λ_min, λ_1se to 1e-6 ` +
+        `(alpha=${r.alpha}, ${r.measure})`,
+      async () => {
+        const folds = Int32Array.from(ref.foldid, (f) => f - 1);
+        const cv = await crossValidateLambda(problem, r.alpha, {
+          folds,
+          criterion: r.measure === 'mse' ? 'brier' : 'deviance',
+        });
+        const scale = r.measure === 'mse' ? 2 : 1;
+        expect(cv.path.length).toBe(r.lambda.length);
+        expect(cv.path.map((row) => row.nonzero)).toEqual(r.nzero);
+        for (let k = 0; k < r.lambda.length; k++) {
+          expect(Math.abs(cv.path[k].lambda - r.lambda[k])).toBeLessThan(1e-12 * r.lambda[0]);
+          expect(Math.abs(scale * cv.path[k].error - r.cvm[k])).toBeLessThan(1e-6 * r.cvm[k]);
+          expect(Math.abs(scale * cv.path[k].se - r.cvsd[k])).toBeLessThan(1e-5 * r.cvsd[k]);
+        }
+        expect(cv.lambdaMin).toBeCloseTo(r.lambdaMin, 12);
+        expect(cv.lambda1se).toBeCloseTo(r.lambda1se, 12);
+        expect(cv.lambda1se).toBeGreaterThanOrEqual(cv.lambdaMin);
+      },
+    );
   }
 
   for (const r of ref.cvGlmnet) {

@@ -24,21 +24,24 @@ const te = readPima('te');
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(1, Math.abs(b));
 
 describe('recalibrate', () => {
-  it('matches R glm(y ~ 1, offset = lp) and glm(y ~ lp) on MASS::Pima.te: estimates 1e-8, SEs 1e-6, deviances 1e-8', () => {
-    const r = recalibrate(te.y, Float64Array.from(ref.lp));
-    const io = r.interceptOnly!,
-      is = r.interceptSlope!;
-    expect(rel(io.intercept.estimate, ref.citlCoef[0])).toBeLessThan(1e-8);
-    expect(rel(io.intercept.se, ref.citlSe[0])).toBeLessThan(1e-6);
-    expect(rel(io.deviance, ref.citlDeviance)).toBeLessThan(1e-8);
-    expect(io.slope).toBeNull();
-    expect(rel(is.intercept.estimate, ref.slopeCoef[0])).toBeLessThan(1e-8);
-    expect(rel(is.slope!.estimate, ref.slopeCoef[1])).toBeLessThan(1e-8);
-    expect(rel(is.intercept.se, ref.slopeSe[0])).toBeLessThan(1e-6);
-    expect(rel(is.slope!.se, ref.slopeSe[1])).toBeLessThan(1e-6);
-    expect(rel(is.deviance, ref.slopeDeviance)).toBeLessThan(1e-8);
-    expect(is.slope!.lower).toBeLessThan(is.slope!.estimate);
-  });
+  it(
+    'matches R glm(y ~ 1, offset = lp) and glm(y ~ lp) on MASS::Pima.te: estimates 1e-8, SEs 1e-6, deviances ' + '1e-8',
+    () => {
+      const r = recalibrate(te.y, Float64Array.from(ref.lp));
+      const io = r.interceptOnly!,
+        is = r.interceptSlope!;
+      expect(rel(io.intercept.estimate, ref.citlCoef[0])).toBeLessThan(1e-8);
+      expect(rel(io.intercept.se, ref.citlSe[0])).toBeLessThan(1e-6);
+      expect(rel(io.deviance, ref.citlDeviance)).toBeLessThan(1e-8);
+      expect(io.slope).toBeNull();
+      expect(rel(is.intercept.estimate, ref.slopeCoef[0])).toBeLessThan(1e-8);
+      expect(rel(is.slope!.estimate, ref.slopeCoef[1])).toBeLessThan(1e-8);
+      expect(rel(is.intercept.se, ref.slopeSe[0])).toBeLessThan(1e-6);
+      expect(rel(is.slope!.se, ref.slopeSe[1])).toBeLessThan(1e-6);
+      expect(rel(is.deviance, ref.slopeDeviance)).toBeLessThan(1e-8);
+      expect(is.slope!.lower).toBeLessThan(is.slope!.estimate);
+    },
+  );
 
   it('updates the coefficients as a + b·β (intercept) and b·β (others), as computed in R', () => {
     const r = recalibrate(te.y, Float64Array.from(ref.lp));
@@ -150,21 +153,24 @@ describe('fitPipeline ridge', () => {
 });
 
 describe('records cross the worker boundary', () => {
-  it('pipeline, CV, pipeline fit, internal and external validation records survive structuredClone unchanged', async () => {
-    const { bootstrapValidation } = await import('../../../src/engine/validation/bootstrap');
-    const pipeline = {
-      data: pimaDataset('tr'),
-      spec: PIMA_SPEC,
-      fitOptions: {},
-      penalty: { alpha: 1, lambda: 'cv-1se' as const, folds: 5, criterion: 'deviance' as const, nLambda: 20 },
-      seed: 2,
-    };
-    expect(structuredClone(pipeline)).toEqual(pipeline);
-    const f = await fitPipeline(structuredClone(pipeline));
-    expect(structuredClone(f)).toEqual(f);
-    const b = await bootstrapValidation(pipeline, { B: 2 });
-    expect(structuredClone(b)).toEqual(b);
-    const ev = externalValidation(f, pimaDataset('te'));
-    expect(structuredClone(ev)).toEqual(ev);
-  });
+  it(
+    'pipeline, CV, pipeline fit, internal and external validation records survive structuredClone ' + 'unchanged',
+    async () => {
+      const { bootstrapValidation } = await import('../../../src/engine/validation/bootstrap');
+      const pipeline = {
+        data: pimaDataset('tr'),
+        spec: PIMA_SPEC,
+        fitOptions: {},
+        penalty: { alpha: 1, lambda: 'cv-1se' as const, folds: 5, criterion: 'deviance' as const, nLambda: 20 },
+        seed: 2,
+      };
+      expect(structuredClone(pipeline)).toEqual(pipeline);
+      const f = await fitPipeline(structuredClone(pipeline));
+      expect(structuredClone(f)).toEqual(f);
+      const b = await bootstrapValidation(pipeline, { B: 2 });
+      expect(structuredClone(b)).toEqual(b);
+      const ev = externalValidation(f, pimaDataset('te'));
+      expect(structuredClone(ev)).toEqual(ev);
+    },
+  );
 });

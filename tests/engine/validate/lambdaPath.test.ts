@@ -45,17 +45,21 @@ function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
 
 describe('penalisedLogistic at a fixed λ', () => {
   for (const f of ref.fixed) {
-    it(`matches glmnet 4.1.6 on MASS::Pima.tr (alpha=${f.alpha}, lambda=${f.lambda}) to 1e-6 and satisfies KKT to 1e-10`, () => {
-      const fit = penalisedLogistic(problem, f.alpha, f.lambda);
-      expect(fit.converged).toBe(true);
-      expect(kktViolation(problem, fit.coefficients, f.alpha, f.lambda)).toBeLessThan(1e-10);
-      // relative on the standardised scale is what glmnet controls; compare coefficients absolutely
-      // scaled by max(1, |glmnet value|).
-      for (let k = 0; k < f.coef.length; k++) {
-        expect(Math.abs(fit.coefficients[k] - f.coef[k]) / Math.max(1, Math.abs(f.coef[k]))).toBeLessThan(1e-6);
-        expect(fit.coefficients[k] === 0).toBe(f.coef[k] === 0);
-      }
-    });
+    it(
+      `matches glmnet 4.1.6 on MASS::Pima.tr (alpha=${f.alpha}, lambda=${f.lambda}) to 1e-6 and satisfies KKT ` +
+        `to 1e-10`,
+      () => {
+        const fit = penalisedLogistic(problem, f.alpha, f.lambda);
+        expect(fit.converged).toBe(true);
+        expect(kktViolation(problem, fit.coefficients, f.alpha, f.lambda)).toBeLessThan(1e-10);
+        // relative on the standardised scale is what glmnet controls; compare coefficients absolutely
+        // scaled by max(1, |glmnet value|).
+        for (let k = 0; k < f.coef.length; k++) {
+          expect(Math.abs(fit.coefficients[k] - f.coef[k]) / Math.max(1, Math.abs(f.coef[k]))).toBeLessThan(1e-6);
+          expect(fit.coefficients[k] === 0).toBe(f.coef[k] === 0);
+        }
+      },
+    );
   }
 });
 

@@ -43,10 +43,7 @@ async function runBench(url: string, predictors: number): Promise<PageResult> {
     event: '1',
     terms: Array.from({ length: predictors }, (_, j) => ({ type: 'main' as const, column: `x${j + 1}` })),
   };
-  const view = await api.fitModel(
-    { spec, method: 'ml', level: 0.95, alpha: 1, lambdaRule: '1se', profile: false },
-    'bench-fit',
-  );
+  const view = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, profile: false }, 'bench-fit');
   const t2 = performance.now();
   await new Promise((r) => setTimeout(r, 200));
   document.getElementById('status')!.textContent = 'done';

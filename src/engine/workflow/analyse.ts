@@ -1,0 +1,162 @@
+import { FulcraError, type Dataset } from '../core/data';
+import type { FitResult } from '../core/model';
+import type { EngineWarning } from '../core/warnings';
+import { linearPredictorFromRecipe } from '../design/design';
+import { evaluate, type EvaluationRecord } from '../evaluation/evaluate';
+import type { SampleSizeResult } from '../evaluation/sampleSize';
+import type { PreparedThresholds } from '../evaluation/threshold';
+import { sigmoid } from '../numerics/loss';
+import type { LongRunHooks } from '../penalised/crossValidation';
+import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../validation/bootstrap';
+import { externalValidation, type ExternalValidation } from '../validation/externalValidation';
+import { fitStep, pipelineOf, type LambdaRecord } from './fitStep';
+import { resolveRequest, type AnalysisRequest, type AnalysisRequestInput } from './request';
+import { sampleSizeCheck } from './sampleSizeStep';
+
+/** An evaluation record as it is kept: without the threshold structure (rebuilt from the risks when needed). */
+export type EvaluationSummary = Omit<EvaluationRecord, 'prepared'>;
+
+/** External validation as it is kept: no per-row arrays. */
+export type ExternalRecord = Omit<ExternalValidation, 'evaluation' | 'y' | 'eta' | 'risk' | 'rowsUsed'> & {
+  evaluation: EvaluationSummary;
+};
+
+/**
+ * One analysis, as a plain structured-clone-safe record: what the page shows, the PDF prints and
+ * `npm run fit --json` writes.
+ */
+export interface AnalysisRecord {
+  /** The request as run, defaults filled in. */
+  request: AnalysisRequest;
+  /** Every method in the FitResult shape (lasso / elastic net: inference fields null). */
+  fit: FitResult;
+  /** Ridge, lasso, elastic net: how λ was set, with the CV path. */
+  lambda: LambdaRecord | null;
+  /** Apparent performance on the rows used. */
+  evaluation: EvaluationSummary;
+  sampleSize: SampleSizeResult | null;
+  /** Why the sample-size check could not be computed, or null. */
+  sampleSizeNote: string | null;
+  validation: InternalValidation | null;
+  external: ExternalRecord | null;
+  /** The fit's, the method decisions' and the apparent evaluation's warnings, each once. */
+  warnings: EngineWarning[];
+}
+
+/** The apparent predictions behind the record (per row used), for callers that query cut-offs later. */
+export interface ApparentScores {
+  y: Float64Array;
+  eta: Float64Array;
+  risk: Float64Array;
+  rowsUsed: Int32Array;
+  prepared: PreparedThresholds;
+}
+
+const strip = (e: EvaluationRecord): EvaluationSummary => {
+  const { prepared: _prepared, ...rest } = e;
+  return rest;
+};
+
+function dedupe(ws: EngineWarning[]): EngineWarning[] {
+  return ws.filter((w, i) => ws.findIndex((u) => u.code === w.code && u.message === w.message) === i);
+}
+
+/** The fitted model's risks on its own rows, evaluated with the request's level, curve points, costs and cut-off. */
+export function apparentEvaluation(
+  data: Dataset,
+  f: FitResult,
+  r: AnalysisRequest,
+): { evaluation: EvaluationRecord; scores: ApparentScores } {
+  const d = linearPredictorFromRecipe(
+    f.recipe,
+    f.coefficients.map((c) => c.estimate),
+    data,
+  );
+  if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${f.recipe.outcome}" is missing.`);
+  const risk = d.eta.map(sigmoid);
+  const evaluation = evaluate(d.y, risk, {
+    eta: d.eta,
+    level: r.level,
+    rocPoints: r.rocPoints,
+    costs: r.costs ?? undefined,
+    threshold: r.threshold ?? undefined,
+  });
+  const scores = { y: d.y, eta: d.eta, risk, rowsUsed: d.rowsUsed, prepared: evaluation.prepared! };
+  return { evaluation, scores };
+}
+
+/**
+ * Internal validation of the request's whole procedure (λ selection included when penalised): bootstrap
+ * optimism (Efron 1983; Harrell, Lee & Mark 1996) or repeated stratified CV, as `request.validation` says.
+ */
+export async function internalValidation(
+  data: Dataset,
+  request: AnalysisRequestInput,
+  hooks?: LongRunHooks,
+): Promise<InternalValidation> {
+  const r = resolveRequest(request);
+  const v = r.validation;
+  if (!v) throw new FulcraError('bad-request', 'The request asks for no internal validation (validation is null).');
+  const pipeline = pipelineOf(data, r);
+  return v.method === 'bootstrap'
+    ? bootstrapValidation(pipeline, { B: v.replicates, seed: v.seed }, hooks)
+    : repeatedCrossValidation(pipeline, { folds: v.folds, repeats: v.repeats, seed: v.seed }, hooks);
+}
+
+/**
+ * The record's model applied unchanged to a second dataset with known outcomes (evaluated with the request's
+ * level, curve points, costs and cut-off), with logistic recalibration (Steyerberg 2019).
+ */
+export function externalValidationStep(record: Pick<AnalysisRecord, 'fit' | 'request'>, data: Dataset): ExternalRecord {
+  const r = record.request;
+  const ext = externalValidation(record.fit, data, {
+    level: r.level,
+    rocPoints: r.rocPoints,
+    costs: r.costs ?? undefined,
+    threshold: r.threshold ?? undefined,
+  });
+  const { evaluation, y: _y, eta: _eta, risk: _risk, rowsUsed: _rows, ...rest } = ext;
+  return { ...rest, evaluation: strip(evaluation) };
+}
+
+/** analyse() with the apparent per-row scores the page keeps for its cut-off queries. */
+export async function runAnalysis(
+  data: Dataset,
+  request: AnalysisRequestInput,
+  hooks?: LongRunHooks,
+  testData?: Dataset,
+): Promise<{ record: AnalysisRecord; scores: ApparentScores }> {
+  const r = resolveRequest(request);
+  const step = await fitStep(data, r, hooks);
+  const { evaluation, scores } = apparentEvaluation(data, step.fit, r);
+  const size = sampleSizeCheck(step.fit);
+  const record: AnalysisRecord = {
+    request: r,
+    fit: step.fit,
+    lambda: step.lambda,
+    evaluation: strip(evaluation),
+    sampleSize: size.result,
+    sampleSizeNote: size.note,
+    validation: null,
+    external: null,
+    warnings: dedupe([...step.fit.warnings, ...step.warnings, ...evaluation.warnings]),
+  };
+  if (r.validation) record.validation = await internalValidation(data, r, hooks);
+  if (testData) record.external = externalValidationStep(record, testData);
+  return { record, scores };
+}
+
+/**
+ * One analysis of `data`: decides the method and fits it (fitStep), evaluates the apparent performance,
+ * checks the sample size (Riley et al. 2020), runs the internal validation the request asks for and, when
+ * `testData` is given, the external validation. The only place that assembles an analysis: the page (through
+ * the worker) and `npm run fit` both call it, so both give the same record.
+ */
+export async function analyse(
+  data: Dataset,
+  request: AnalysisRequestInput,
+  hooks?: LongRunHooks,
+  testData?: Dataset,
+): Promise<AnalysisRecord> {
+  return (await runAnalysis(data, request, hooks, testData)).record;
+}

@@ -1,0 +1,35 @@
+/** Files out: the model summary PDF, the model file, PMML and the workspace file. */
+import type { ReportText } from '../../worker/protocol';
+import { toWorkspace } from '../workspace';
+import type { EffectContext } from './context';
+import type { DataEffects } from './data';
+
+export interface ExportEffects {
+  /** The model-summary PDF bytes of the current model (built in the worker). */
+  modelReport(text: ReportText): Promise<Uint8Array | undefined>;
+  /** The model file (JSON text) or PMML of the current model. */
+  modelFile(text: ReportText): Promise<string | undefined>;
+  pmml(): Promise<string | undefined>;
+  /** The whole workspace as a gzip file, with its suggested name; undefined when no data are loaded. */
+  workspaceFile(version: string): Promise<{ bytes: Uint8Array; name: string } | undefined>;
+}
+
+export function filesOut({ client, s, job }: EffectContext, data: Pick<DataEffects, 'held'>): ExportEffects {
+  const now = () => new Date().toISOString();
+  return {
+    modelReport: (text) =>
+      job('Writing the model summary', false, () =>
+        client.call((api) => api.modelReport(s().costs, s().threshold, now(), text)),
+      ),
+    modelFile: (text) => client.call((api) => api.modelFile(s().costs, s().threshold, now(), text)),
+    pmml: () => client.call((api) => api.pmml(now())),
+    async workspaceFile(version) {
+      const held = data.held();
+      if (!held || !s().data) return undefined;
+      const bytes = await client.call((api) => api.workspaceFile(toWorkspace(s(), held, false), version));
+      if (!bytes) return undefined;
+      const stem = (s().outcome ?? held.summary.source.name).replace(/[^\p{L}\p{N}_-]+/gu, '_').slice(0, 40) || 'data';
+      return { bytes, name: `fulcra-workspace-${stem}-${now().slice(0, 10)}.fulcra-workspace.json.gz` };
+    },
+  };
+}

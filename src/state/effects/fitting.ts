@@ -1,0 +1,86 @@
+/** Fitting: the model from the current roles and options, then the views every fit refreshes. */
+import type { FitRequest } from '../../worker/protocol';
+import * as A from '../actions';
+import type { AppState } from '../appState';
+import type { EffectContext } from './context';
+import type { CutoffEffects } from './cutoff';
+
+export interface FittingEffects {
+  fitModel(): Promise<void>;
+  /** Refits the current model with multiple imputation of its missing values. */
+  fitImputed(): Promise<void>;
+  riskCurve(predictor: string): Promise<void>;
+  lossSurface(a: number, b: number): Promise<void>;
+}
+
+export interface Fitting extends FittingEffects {
+  /**
+   * Fits `request`; `keep` (a restore or a restart) keeps the user's view and cut-off instead of moving to the
+   * model. False when the fit did not finish.
+   */
+  fitWith(request: FitRequest, keep: boolean): Promise<boolean>;
+}
+
+/** What the worker is asked to fit for `s`, or the reason it cannot be fitted yet. */
+export function requestOf(s: AppState): { request: FitRequest } | { problem: string } {
+  const built = A.buildSpec(s);
+  if ('problem' in built) return built;
+  const { method, level, alpha, lambdaRule } = s;
+  const profile = method === 'ml' || method === 'firth';
+  const lambda = lambdaRule === 'min' ? 'cv-min' : 'cv-1se';
+  return { request: { spec: built.spec, method, level, alpha, lambda, profile } };
+}
+
+export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
+  const { store, client, s, job } = ctx;
+
+  async function riskCurve(predictor: string) {
+    const view = await client.latest('risk', (api) => api.riskCurve(predictor));
+    if (view) store.apply(A.riskCurveDone, view);
+  }
+
+  async function lossSurface(a: number, b: number) {
+    if (!s().fit || a === b) return;
+    const view = await client.latest('loss', (api) => api.lossSurface(a, b));
+    if (view) store.apply(A.lossSurfaceDone, view);
+  }
+
+  /** The cost curve and cut-off, the risk curve of the first predictor, the loss surface of the first two. */
+  async function afterFit(keepThreshold: boolean) {
+    await cutoff.refreshCosts(keepThreshold);
+    const first = s().fit?.fit.recipe.terms.find((t) => t.type !== 'interaction');
+    if (first && 'column' in first) await riskCurve(first.column);
+    await lossSurface(1, Math.min(2, (s().fit?.fit.coefficients.length ?? 2) - 1));
+  }
+
+  async function fitWith(request: FitRequest, keep: boolean): Promise<boolean> {
+    const { method } = request;
+    const view = await job('Fitting the model', method !== 'ml' && method !== 'firth', (id, onProgress) =>
+      client.call((api) => api.fitModel(request, id, onProgress)),
+    );
+    if (!view) return false;
+    store.apply(A.fitDone, view);
+    if (!keep && s().view === 'data') store.apply(A.showView, 'model');
+    await afterFit(keep);
+    return true;
+  }
+
+  return {
+    fitWith,
+    async fitModel() {
+      const built = requestOf(s());
+      if ('problem' in built) store.apply(A.notify, { kind: 'error', text: built.problem });
+      else await fitWith(built.request, false);
+    },
+    async fitImputed() {
+      const f = s().fit;
+      if (!f) return;
+      const view = await job('Multiple imputation (10 datasets)', true, (id, onProgress) =>
+        client.call((api) => api.fitImputed(f.request, id, onProgress)),
+      );
+      if (view) store.apply(A.imputedDone, view);
+    },
+    riskCurve,
+    lossSurface,
+  };
+}

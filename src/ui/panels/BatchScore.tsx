@@ -1,0 +1,71 @@
+import { useEffect, useId, useMemo } from 'react';
+import { useApp, useEnv } from '../context';
+import { count, pct } from '../format';
+
+/** Scores a file of new cases; the scored rows download as CSV. */
+export function BatchScore() {
+  const { ctl } = useEnv();
+  const id = useId();
+  const batch = useApp((s) => s.batch);
+  const url = useMemo(() => (batch ? URL.createObjectURL(new Blob([batch.csv], { type: 'text/csv' })) : null), [batch]);
+  useEffect(
+    () => () => {
+      if (url) URL.revokeObjectURL(url);
+    },
+    [url],
+  );
+  return (
+    <section aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Score a file of new cases</h2>
+      <label className="button-like" htmlFor={`${id}-f`}>
+        Choose a file to score
+      </label>
+      <input
+        id={`${id}-f`}
+        type="file"
+        className="visually-hidden"
+        data-testid="batch-input"
+        accept=".csv,.tsv,.txt,.xlsx"
+        onChange={(e) => {
+          const f = e.target.files?.[0];
+          if (f) void ctl.scoreBatch(f);
+          e.target.value = '';
+        }}
+      />
+      {batch && (
+        <div data-testid="batch-result">
+          <p>
+            {count(batch.scored)} of {count(batch.n)} rows scored
+            {batch.skipped ? `; ${count(batch.skipped)} skipped for missing or unknown values` : ''}.
+          </p>
+          {url && (
+            <a href={url} download="scored-cases.csv">
+              Download the scored rows (CSV)
+            </a>
+          )}
+          <table>
+            <caption>First {Math.min(8, batch.preview.length)} scored rows</caption>
+            <thead>
+              <tr>
+                <th scope="col">Spreadsheet row</th>
+                <th scope="col">Risk</th>
+                <th scope="col">CI</th>
+              </tr>
+            </thead>
+            <tbody>
+              {batch.preview.slice(0, 8).map((r) => (
+                <tr key={r.row}>
+                  <td>{r.row}</td>
+                  <td className="num">{pct(r.risk)}</td>
+                  <td className="num">
+                    {pct(r.lower)} to {pct(r.upper)}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </section>
+  );
+}

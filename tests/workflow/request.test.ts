@@ -1,0 +1,56 @@
+import { describe, expect, it } from 'vitest';
+import { FulcraError, type Dataset } from '../../src/engine/core';
+import {
+  defaultAnalysisRequest,
+  largeDataPlan,
+  PROFILE_MAX_CELLS,
+  resolveRequest,
+  TERM_TESTS_MAX_CELLS,
+} from '../../src/engine/workflow';
+
+const spec = { outcome: 'y', terms: [{ type: 'main' as const, column: 'x' }] };
+
+describe('the analysis request', () => {
+  it('fills every default from one object', () => {
+    expect(resolveRequest({ spec })).toEqual({ spec, ...defaultAnalysisRequest });
+    expect(resolveRequest({ spec, method: 'lasso', seed: undefined }).seed).toBe(1);
+  });
+
+  it.each([
+    [{ method: 'elasticnet' }, /method = "elasticnet".*'elastic-net'/],
+    [{ lambda: 'min' }, /lambda = "min"/],
+    [{ costs: { fn: 10, fp: 1 } }, /costs = .*missedCase, falseAlarm/],
+    [{ validation: { method: 'bootstrap', replicates: 0, seed: 1 } }, /validation/],
+    [{ lambdaRule: '1se' }, /Unknown analysis option "lambdaRule"/],
+    [{ method: 'ridge', lambda: 0 }, /Ridge needs lambda > 0/],
+  ])('refuses %j, naming the value', (extra, message) => {
+    const bad = () => resolveRequest({ spec, ...(extra as object) });
+    expect(bad).toThrow(FulcraError);
+    expect(bad).toThrow(message);
+  });
+});
+
+describe('the large-data rule (the same for the page and npm run fit)', () => {
+  const data = (nRows: number): Dataset => ({
+    nRows,
+    columns: [
+      { kind: 'numeric', name: 'x', values: new Float64Array(nRows) },
+      { kind: 'numeric', name: 'y', values: new Float64Array(nRows) },
+    ],
+  });
+  const r = resolveRequest({ spec });
+
+  it('keeps profile intervals and term tests up to 10⁶ design cells', () => {
+    expect(largeDataPlan(data(PROFILE_MAX_CELLS / 2), r)).toEqual({ profile: true, termTests: true, warnings: [] });
+  });
+
+  it('drops profile intervals above 10⁶ cells and term tests above 5·10⁶, each with a notice', () => {
+    const mid = largeDataPlan(data(PROFILE_MAX_CELLS / 2 + 1), r);
+    expect([mid.profile, mid.termTests]).toEqual([false, true]);
+    expect(mid.warnings.map((w) => w.code)).toEqual(['large-data-wald-only']);
+    expect(mid.warnings[0].message).toContain('With 500,001 rows, profile-likelihood intervals were not computed');
+    const big = largeDataPlan(data(TERM_TESTS_MAX_CELLS / 2 + 1), { ...r, profile: false });
+    expect([big.profile, big.termTests]).toEqual([false, false]);
+    expect(big.warnings.map((w) => w.code)).toEqual(['large-data-no-term-tests']);
+  });
+});
