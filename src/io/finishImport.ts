@@ -1,5 +1,5 @@
 import { FulcraError, type Column } from '../engine/core';
-import type { EngineWarning } from '../engine/core';
+import type { Dataset, EngineWarning } from '../engine/core';
 import { buildColumn, planColumns, rowWarnings } from './finish';
 import type { ResolvedOptions } from './options';
 import type { TableBuilder } from './tableBuilder';
@@ -80,7 +80,10 @@ export async function finishImport(
     infos.push(info);
     all.push(...info.issues);
   }
-  // The spreadsheet row of data row 0 (header = row 1), so that engine messages name rows as the importer does.
-  const dataset = { nRows: tb.nRows, columns, firstRow: sourceRows[0] };
+  // The spreadsheet row of data row 0 (header = row 1), so that engine messages name rows as the importer does;
+  // after a skipped blank row the rows are no longer consecutive, and the dataset keeps every row's number.
+  const dataset: Dataset = { nRows: tb.nRows, columns, firstRow: sourceRows[0] };
+  const consecutive = tb.nRows === 0 || sourceRows[tb.nRows - 1] - sourceRows[0] === tb.nRows - 1;
+  if (!consecutive) dataset.rowNumbers = sourceRows.slice();
   return { dataset, columns: infos, warnings: all, format, sourceRows };
 }

@@ -72,6 +72,10 @@ export function heldCopy(s: Session): { data: Dataset; summary: DataSummary; buf
   });
   const data: Dataset = { nRows: s.data.nRows, columns };
   if (s.data.firstRow !== undefined) data.firstRow = s.data.firstRow;
+  if (s.data.rowNumbers) {
+    data.rowNumbers = s.data.rowNumbers.slice();
+    buffers.push(data.rowNumbers.buffer as ArrayBuffer);
+  }
   return { data, summary: s.summary, buffers };
 }
 

@@ -1,8 +1,8 @@
-import type { Column, Dataset } from '../engine/core';
+import { sheetRow, type Column, type Dataset } from '../engine/core';
 import { summarizeNumbers } from '../io/numericSummary';
 import { profileColumn as ioProfileColumn } from '../io/profile';
 import type { ColumnProfile } from '../io/types';
-import type { ColumnView } from './protocol';
+import type { ColumnView, RowsWindow } from './protocol';
 
 /** At most this many levels travel to the page (for reference-level and scoring choices). */
 export const MAX_LEVELS = 200;
@@ -62,12 +62,14 @@ function fmt(x: number): string {
   return Number.isInteger(x) ? String(x) : x.toPrecision(3);
 }
 
-/** Cell text of rows [start, start+count) for the grid; missing cells are "". */
-export function rowsWindow(data: Dataset, start: number, count: number): string[][] {
+/** Cell text of rows [start, start+count) for the grid (missing cells are ""), with their spreadsheet rows. */
+export function rowsWindow(data: Dataset, start: number, count: number): RowsWindow {
   const from = Math.max(0, Math.floor(start));
   const to = Math.min(data.nRows, from + Math.max(0, Math.floor(count)));
   const out: string[][] = [];
+  const rowNumbers: number[] = [];
   for (let i = from; i < to; i++) {
+    rowNumbers.push(sheetRow(data, i));
     out.push(
       data.columns.map((c) => {
         if (c.kind === 'numeric') return Number.isNaN(c.values[i]) ? '' : String(c.values[i]);
@@ -75,5 +77,5 @@ export function rowsWindow(data: Dataset, start: number, count: number): string[
       }),
     );
   }
-  return out;
+  return { cells: out, rowNumbers };
 }

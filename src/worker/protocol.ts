@@ -67,6 +67,12 @@ export interface OddsRow extends Pick<
   truth: number | null;
 }
 
+/** A window of the grid: each row's cell text ("" when missing) and its spreadsheet row number. */
+export interface RowsWindow {
+  cells: string[][];
+  rowNumbers: number[];
+}
+
 export interface CurvePoint {
   x: number;
   y: number;

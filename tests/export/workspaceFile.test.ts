@@ -65,12 +65,17 @@ describe('workspace file', () => {
     }
   });
 
-  it('keeps the spreadsheet row number of the first data row (a file read without a header starts at row 1)', () => {
+  it('keeps the spreadsheet row numbers: the first data row (1 without a header) and every row after a gap', () => {
     const ws = workspace();
     ws.data = { ...ws.data!, firstRow: 1 };
     expect(readWorkspaceFile(workspaceToJson(ws, info)).workspace.data!.firstRow).toBe(1);
     const plain = workspace();
     expect(readWorkspaceFile(workspaceToJson(plain, info)).workspace.data!.firstRow).toBeUndefined();
+    const gaps = Int32Array.from({ length: ws.data!.nRows }, (_, i) => 2 + i + (i >= 3 ? 1 : 0));
+    const withGaps = { ...ws, data: { ...ws.data!, firstRow: 2, rowNumbers: gaps } };
+    expect(readWorkspaceFile(workspaceToJson(withGaps, info)).workspace.data!.rowNumbers).toEqual(gaps);
+    const badGaps = { ...ws, data: { ...ws.data!, rowNumbers: gaps.map((r, i) => (i === 4 ? 1 : r)) } };
+    expect(() => readWorkspaceFile(workspaceToJson(badGaps, info))).toThrow(/rowNumbers.*position 5/);
     expect(() => readWorkspaceFile(workspaceToJson({ ...ws, data: { ...ws.data!, firstRow: 0 } }, info))).toThrow(
       /workspace\.data\.firstRow/,
     );

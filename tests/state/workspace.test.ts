@@ -6,7 +6,7 @@ import * as A from '../../src/state/actions';
 import { WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
 import type { WorkerClient } from '../../src/bridge/workerClient';
 import { createApi } from '../../src/worker/api';
-import { settingsFromWorkspace } from '../../src/state/workspace';
+import { settingsFromWorkspace, toWorkspace } from '../../src/state/workspace';
 import type { DataSummary } from '../../src/worker/protocol';
 
 /**
@@ -84,7 +84,7 @@ describe('engine crash containment', () => {
         `Your data (${s.data!.source.name}) were loaded into it again and the model was refitted; nothing was lost.`,
     );
     // The new engine really holds the data: it answers a row query.
-    expect(await ctl.getRows(0, 2)).toHaveLength(2);
+    expect((await ctl.getRows(0, 2))?.cells).toHaveLength(2);
   });
 
   it('a crash before any data were loaded says so and offers a way back', async () => {
@@ -98,7 +98,7 @@ describe('engine crash containment', () => {
     await ctl.pasteText('age\tinfected\n50\tno\n61\tyes\n70\tyes\n45\tno\n');
     await crash();
     expect(store.get().data?.nRows).toBe(4);
-    expect((await ctl.getRows(0, 1))?.[0]).toContain('50');
+    expect((await ctl.getRows(0, 1))?.cells[0]).toContain('50');
   });
 });
 
@@ -111,6 +111,7 @@ describe('workspace kept in the browser', () => {
     h.store.apply(A.setPredictor, { column: 'smoker', role: { include: false } });
     h.store.apply(A.chooseMethod, 'lasso');
     h.store.apply(A.setLambdaRule, 'min');
+    h.store.apply(A.setMaxIter, 200);
     await h.ctl.fitModel();
     h.store.apply(A.setCosts, { missedCase: 20, falseAlarm: 2 });
     await h.ctl.refreshCosts();
@@ -135,6 +136,7 @@ describe('workspace kept in the browser', () => {
     expect(s.roles).toEqual(then.roles);
     expect(s.roles.smoker.include).toBe(false);
     expect([s.outcome, s.event, s.method, s.lambdaRule]).toEqual([then.outcome, then.event, 'lasso', 'min']);
+    expect([s.maxIter, s.fit?.request.maxIter]).toEqual([200, 200]);
     expect(s.costs).toEqual({ missedCase: 20, falseAlarm: 2 });
     expect(s.threshold).toBe(0.15);
     expect(s.thresholdView?.metrics.threshold).toBe(0.15);
@@ -206,6 +208,31 @@ describe('workspace kept in the browser', () => {
 });
 
 describe('settings of a saved workspace', () => {
+  const empty = {
+    fileName: null,
+    data: null,
+    seed: null,
+    threshold: null,
+    spec: null,
+    costs: null,
+    freeText: {},
+  };
+  const workbench = { roles: {}, interactions: [], costs: { missedCase: 5, falseAlarm: 1 }, method: 'firth' };
+
+  it('keeps the iteration limit; a workspace saved before there was one opens with 50', () => {
+    const s = { ...createStore().get(), maxIter: 300 };
+    expect(settingsFromWorkspace(toWorkspace(s, null, false)).maxIter).toBe(300);
+    expect(toWorkspace(s, null, false).fitOptions.maxIter).toBe(300);
+    expect(settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench } }).maxIter).toBe(50);
+    expect(settingsFromWorkspace({ ...empty, fitOptions: {} }).maxIter).toBe(50);
+    // Written by another tool: FitOptions.maxIter is read when the engine would accept it.
+    expect(settingsFromWorkspace({ ...empty, fitOptions: { maxIter: 120 } }).maxIter).toBe(120);
+    expect(settingsFromWorkspace({ ...empty, fitOptions: { maxIter: 2.5 } }).maxIter).toBe(50);
+    expect(
+      settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench: { ...workbench, maxIter: 0 } } }).maxIter,
+    ).toBe(50);
+  });
+
   it('a workspace saved when elastic net was called "elasticnet" opens with the method "elastic-net"', () => {
     const workbench = { roles: {}, interactions: [], costs: { missedCase: 5, falseAlarm: 1 }, method: 'elasticnet' };
     const w = settingsFromWorkspace({

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { generateDemo } from '../../src/engine/demo';
+import { sheetRow } from '../../src/engine/core';
 import { fit } from '../../src/engine/fitting/fit';
 import { costView, thresholdAt } from '../../src/worker/cutoffOps';
 import { loadDemo, loadImported } from '../../src/worker/dataOps';
-import { readPasted } from '../../src/worker/ioOps';
+import { readBytes, readPasted } from '../../src/worker/ioOps';
 import { fitModel } from '../../src/worker/modelOps';
 import { rowsWindow } from '../../src/worker/profile';
 import type { FitRequest } from '../../src/worker/protocol';
@@ -121,13 +122,29 @@ describe('worker operations (run in Node, as in the worker)', () => {
     expect(seen).toBeLessThanOrEqual(3);
   });
 
-  it('returns grid rows as cell text with missing cells empty', () => {
+  it('returns grid rows as cell text with missing cells empty, numbered as spreadsheet rows', () => {
     const s = createSession();
     loadDemo(s, 'ssi');
     const rows = rowsWindow(s.data!, 0, 5000);
-    expect(rows).toHaveLength(2000);
-    expect(rows.some((r) => r[1] === '')).toBe(true);
-    expect(rowsWindow(s.data!, 1999, 10)).toHaveLength(1);
+    expect(rows.cells).toHaveLength(2000);
+    expect(rows.cells.some((r) => r[1] === '')).toBe(true);
+    expect(rows.rowNumbers.slice(0, 2)).toEqual([2, 3]);
+    expect(rowsWindow(s.data!, 1999, 10)).toEqual({ cells: [rows.cells[1999]], rowNumbers: [2001] });
+  });
+
+  it('numbers grid rows after a skipped blank row as the file does', async () => {
+    const s = createSession();
+    const text = 'age,infected\n50,no\n\n61,yes\n70,yes\n';
+    loadImported(s, await readBytes(new TextEncoder().encode(text).buffer, 'gap.csv', {}, {}), 'file', 'gap.csv');
+    expect(rowsWindow(s.data!, 0, 10)).toEqual({
+      cells: [
+        ['50', 'no'],
+        ['61', 'yes'],
+        ['70', 'yes'],
+      ],
+      rowNumbers: [2, 4, 5],
+    });
+    expect(sheetRow(s.data!, 1)).toBe(4);
   });
 
   it('imports pasted cells and scores them, skipping a row with a missing predictor', async () => {

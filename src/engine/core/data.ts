@@ -29,11 +29,25 @@ export interface Dataset {
    * starts at 1; a sheet whose header sits lower starts further down.
    */
   firstRow?: number;
+  /**
+   * The spreadsheet row number of every data row, present only when they are not consecutive (the importer skips
+   * blank rows but counts them, so a row after a gap keeps its number from the file).
+   */
+  rowNumbers?: Int32Array;
 }
 
 /** The spreadsheet row number of 0-based data row `index`: every engine message that names a row uses it. */
-export function sheetRow(data: Pick<Dataset, 'firstRow'>, index: number): number {
-  return (data.firstRow ?? 2) + index;
+export function sheetRow(data: Pick<Dataset, 'firstRow' | 'rowNumbers'>, index: number): number {
+  const listed = data.rowNumbers?.[index];
+  return listed !== undefined ? listed : (data.firstRow ?? 2) + index;
+}
+
+/** The row-number fields of `data` for a dataset holding the same rows (both absent stay absent). */
+export function rowNumbering(data: Pick<Dataset, 'firstRow' | 'rowNumbers'>): Pick<Dataset, 'firstRow' | 'rowNumbers'> {
+  const out: Pick<Dataset, 'firstRow' | 'rowNumbers'> = {};
+  if (data.firstRow !== undefined) out.firstRow = data.firstRow;
+  if (data.rowNumbers !== undefined) out.rowNumbers = data.rowNumbers;
+  return out;
 }
 
 /** Finds a column by name or throws a FulcraError naming the column and the columns that exist. */

@@ -1,4 +1,4 @@
-import { FulcraError, type Dataset } from '../core/data';
+import { FulcraError, sheetRow, type Dataset } from '../core/data';
 import { fit } from '../fitting/fit';
 import { completeDataset, type MiceHooks, type MiceResult } from './mice';
 import type { FitOptions, FitResult, ModelSpec } from '../core/model';
@@ -106,6 +106,8 @@ function keptRows(n: number, drop: Int32Array): Int32Array {
 function subsetRows(data: Dataset, rows: Int32Array): Dataset {
   return {
     nRows: rows.length,
+    firstRow: sheetRow(data, rows[0] ?? 0),
+    rowNumbers: Int32Array.from(rows, (i) => sheetRow(data, i)),
     columns: data.columns.map((c) =>
       c.kind === 'numeric'
         ? { ...c, values: Float64Array.from(rows, (i) => c.values[i]) }

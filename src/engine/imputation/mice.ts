@@ -1,4 +1,4 @@
-import { FulcraError, getColumn, isMissing, type Column, type Dataset } from '../core/data';
+import { FulcraError, getColumn, isMissing, rowNumbering, type Column, type Dataset } from '../core/data';
 import { sigmoid } from '../numerics/loss';
 import { imputeCategorical, drawLogistic, rowDot, type ImputationDesign } from './imputeModels';
 import { modelColumns } from './missingReport';
@@ -297,7 +297,7 @@ export function completeDataset(data: Dataset, imp: MiceResult, k: number): Data
   const byName = new Map(imp.imputed.map((c) => [c.column, c]));
   return {
     nRows: data.nRows,
-    firstRow: data.firstRow,
+    ...rowNumbering(data),
     columns: data.columns.map((col) => {
       const ic = byName.get(col.name);
       if (!ic) return col;

@@ -159,10 +159,11 @@ type EncodedColumn =
   | { kind: 'categorical'; name: string; levels: string[]; codes: string };
 
 /** Encodes a Dataset's columns as base64 of their little-endian bytes (float64 values, int32 codes). */
-export function encodeDataset(data: Dataset): { nRows: number; firstRow?: number; columns: EncodedColumn[] } {
+export function encodeDataset(data: Dataset): EncodedDataset {
   return {
     nRows: data.nRows,
     ...(data.firstRow !== undefined ? { firstRow: data.firstRow } : {}),
+    ...(data.rowNumbers ? { rowNumbers: int32ToBase64(data.rowNumbers) } : {}),
     columns: data.columns.map((col): EncodedColumn => {
       if (col.kind === 'numeric') {
         const buf = new Uint8Array(col.values.length * 8);
@@ -170,12 +171,34 @@ export function encodeDataset(data: Dataset): { nRows: number; firstRow?: number
         col.values.forEach((v, i) => view.setFloat64(8 * i, v, true));
         return { kind: 'numeric', name: col.name, values: bytesToBase64(buf) };
       }
-      const buf = new Uint8Array(col.codes.length * 4);
-      const view = new DataView(buf.buffer);
-      col.codes.forEach((v, i) => view.setInt32(4 * i, v, true));
-      return { kind: 'categorical', name: col.name, levels: [...col.levels], codes: bytesToBase64(buf) };
+      return { kind: 'categorical', name: col.name, levels: [...col.levels], codes: int32ToBase64(col.codes) };
     }),
   };
+}
+
+/** A dataset as the workspace file stores it; row numbers only when the rows are not consecutive. */
+interface EncodedDataset {
+  nRows: number;
+  firstRow?: number;
+  rowNumbers?: string;
+  columns: EncodedColumn[];
+}
+
+/** Base64 of little-endian int32 values. */
+function int32ToBase64(values: Int32Array): string {
+  const buf = new Uint8Array(values.length * 4);
+  const view = new DataView(buf.buffer);
+  values.forEach((v, i) => view.setInt32(4 * i, v, true));
+  return bytesToBase64(buf);
+}
+
+/** The int32 values of a base64 field that must hold exactly `n` of them. */
+function base64ToInt32(c: FieldChecker, text: unknown, n: number, path: string): Int32Array {
+  const bytes = base64ToBytes(c.string(text, path));
+  if (!bytes) c.fail(path, 'is not valid base64');
+  if (bytes.length !== n * 4) c.fail(path, `holds ${bytes.length / 4} values; nRows is ${n}`);
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  return Int32Array.from({ length: n }, (_, r) => view.getInt32(4 * r, true));
 }
 
 function decodeDataset(c: FieldChecker, v: unknown): Dataset {
@@ -192,25 +215,29 @@ function decodeDataset(c: FieldChecker, v: unknown): Dataset {
     const col = c.object(x, p);
     const kind = c.oneOf(col.kind, ['numeric', 'categorical'] as const, `${p}.kind`);
     const name = c.string(col.name, `${p}.name`);
-    const field = kind === 'numeric' ? 'values' : 'codes';
-    const bytes = base64ToBytes(c.string(col[field], `${p}.${field}`));
-    const width = kind === 'numeric' ? 8 : 4;
-    if (!bytes) c.fail(`${p}.${field}`, 'is not valid base64');
-    if (bytes.length !== nRows * width)
-      c.fail(`${p}.${field}`, `holds ${bytes.length / width} values; nRows is ${nRows}`);
-    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     if (kind === 'numeric') {
+      const bytes = base64ToBytes(c.string(col.values, `${p}.values`));
+      if (!bytes) c.fail(`${p}.values`, 'is not valid base64');
+      if (bytes.length !== nRows * 8) c.fail(`${p}.values`, `holds ${bytes.length / 8} values; nRows is ${nRows}`);
+      const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
       return { kind, name, values: Float64Array.from({ length: nRows }, (_, r) => view.getFloat64(8 * r, true)) };
     }
+    const codes = base64ToInt32(c, col.codes, nRows, `${p}.codes`);
     const levels = c.stringArray(col.levels, `${p}.levels`);
-    const codes = Int32Array.from({ length: nRows }, (_, r) => view.getInt32(4 * r, true));
     const bad = codes.findIndex((k) => k < -1 || k >= levels.length);
     if (bad >= 0) {
       c.fail(`${p}.codes`, `has code ${codes[bad]} at position ${bad + 1}, outside the ${levels.length} levels`);
     }
     return { kind, name, levels, codes };
   });
-  return firstRow === undefined ? { nRows, columns } : { nRows, firstRow, columns };
+  const out: Dataset = { nRows, columns };
+  if (firstRow !== undefined) out.firstRow = firstRow;
+  if (d.rowNumbers !== undefined) {
+    out.rowNumbers = base64ToInt32(c, d.rowNumbers, nRows, 'workspace.data.rowNumbers');
+    const bad = out.rowNumbers.findIndex((r, i) => r < 1 || (i > 0 && r <= out.rowNumbers![i - 1]));
+    if (bad >= 0) c.fail('workspace.data.rowNumbers', `must be increasing whole numbers ≥ 1 (position ${bad + 1})`);
+  }
+  return out;
 }
 
 /** gzip (RFC 1952) of the workspace file text, for large data: suggested extension `.fulcra-workspace.json.gz`. */

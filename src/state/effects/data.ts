@@ -1,6 +1,6 @@
 /** Data in: demos, files and pasted cells into the worker; the copy of the data this side keeps; the grid's rows. */
 import type { DemoId } from '../../engine/demo';
-import type { DataSummary } from '../../worker/protocol';
+import type { DataSummary, RowsWindow } from '../../worker/protocol';
 import * as A from '../actions';
 import { importOptionsOf } from '../appState';
 import type { HeldData } from '../workspace';
@@ -12,7 +12,7 @@ export interface DataEffects {
   /** Reads the last opened file again with the current import settings. */
   reread(): Promise<void>;
   pasteText(text: string): Promise<void>;
-  getRows(start: number, count: number): Promise<string[][] | undefined>;
+  getRows(start: number, count: number): Promise<RowsWindow | undefined>;
   /** The rows the current roles would leave out (none asked for until the model can be built). */
   refreshDropReport(): Promise<void>;
   /** The data loaded now, as fetched back from the worker after the load (null before any load). */

@@ -1,7 +1,8 @@
 import { useVirtualizer } from '@tanstack/react-virtual';
 import { useEffect, useRef, useState } from 'react';
-import { sheetRow } from '../../engine/core';
 import type { DataSummary } from '../../worker/protocol';
+
+const EMPTY = { start: 0, rows: [] as string[][], rowNumbers: [] as number[] };
 import { useEnv } from '../context';
 import { count, pct } from '../format';
 import { Sparkline } from './Sparkline';
@@ -18,12 +19,12 @@ const HEAD_H = 64;
 export function DataGrid({ data }: { data: DataSummary }) {
   const { ctl } = useEnv();
   const scroller = useRef<HTMLDivElement>(null);
-  const [win, setWin] = useState<{ start: number; rows: string[][] }>({ start: 0, rows: [] });
+  const [win, setWin] = useState<{ start: number; rows: string[][]; rowNumbers: number[] }>(EMPTY);
   // New data start with an empty window (the rows are fetched again).
   const [shown, setShown] = useState(data);
   if (shown !== data) {
     setShown(data);
-    setWin({ start: 0, rows: [] });
+    setWin(EMPTY);
   }
   // eslint-disable-next-line react-hooks/incompatible-library -- the page does not use React Compiler
   const v = useVirtualizer({
@@ -41,7 +42,7 @@ export function DataGrid({ data }: { data: DataSummary }) {
     const start = Math.max(0, first - 60);
     let live = true;
     void ctl.getRows(start, last - first + 120).then((rows) => {
-      if (live && rows) setWin({ start, rows });
+      if (live && rows) setWin({ start, rows: rows.cells, rowNumbers: rows.rowNumbers });
     });
     return () => {
       live = false;
@@ -75,6 +76,7 @@ export function DataGrid({ data }: { data: DataSummary }) {
         <div style={{ height: v.getTotalSize(), width, position: 'relative' }}>
           {items.map((it) => {
             const row = win.rows[it.index - win.start];
+            const rowNumber = win.rowNumbers[it.index - win.start];
             return (
               <div
                 key={it.key}
@@ -84,7 +86,7 @@ export function DataGrid({ data }: { data: DataSummary }) {
                 style={{ transform: `translateY(${it.start - HEAD_H}px)`, height: ROW_H, width }}
               >
                 <div role="rowheader" className="cell rownum">
-                  {count(sheetRow(data, it.index))}
+                  {rowNumber === undefined ? '…' : count(rowNumber)}
                 </div>
                 {data.columns.map((c, j) => {
                   const text = row?.[j];

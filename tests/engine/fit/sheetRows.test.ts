@@ -50,6 +50,14 @@ describe('engine messages name spreadsheet rows (header = row 1)', async () => {
     expect(() => predict(model, next.dataset)).toThrow(message);
   });
 
+  it('names the file’s row after a skipped blank row (the rows are then not consecutive)', async () => {
+    const file = 'age,ward,ssi\n41,A,0\n\n42,B,1\n43,Z,0\n44,C,1\n';
+    const next = await importFile(bytes(file), 'gap.csv', {}, {});
+    expect(Array.from(next.dataset.rowNumbers ?? [])).toEqual([2, 4, 5, 6]);
+    expect(() => designFromRecipe(model.recipe, next.dataset)).toThrow(/Row 5, column "ward": the value "Z"/);
+    expect(train.dataset.rowNumbers).toBeUndefined(); // consecutive rows need no list
+  });
+
   it('names row 5 of a CSV whose row 5 holds a value too extreme for the spline basis', async () => {
     const spline = fit(
       train.dataset,
