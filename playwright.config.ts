@@ -1,5 +1,9 @@
 import { defineConfig } from '@playwright/test';
 
+// PW_PORT lets two developers run e2e at once: each gets its own port and its own build folder.
+const port = Number(process.env.PW_PORT ?? 4173);
+const outDir = port === 4173 ? 'dist' : `dist-e2e-${port}`;
+
 // Test tools cannot download browsers here: use Debian's chromium.
 export default defineConfig({
   testDir: 'e2e',
@@ -8,7 +12,7 @@ export default defineConfig({
   workers: 1,
   reporter: [['list']],
   use: {
-    baseURL: 'http://127.0.0.1:4173',
+    baseURL: `http://127.0.0.1:${port}`,
     viewport: { width: 1280, height: 800 },
     launchOptions: {
       executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -24,8 +28,10 @@ export default defineConfig({
     },
   },
   webServer: {
-    command: 'npx vite build && npx vite preview --host 127.0.0.1 --port 4173 --strictPort',
-    url: 'http://127.0.0.1:4173',
+    command:
+      `npx vite build --outDir ${outDir} && ` +
+      `npx vite preview --outDir ${outDir} --host 127.0.0.1 --port ${port} --strictPort`,
+    url: `http://127.0.0.1:${port}`,
     reuseExistingServer: false,
     timeout: 180_000,
   },

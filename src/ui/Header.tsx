@@ -11,11 +11,11 @@ export function Header() {
       <h1>Fulcra</h1>
       <span className="tagline">risk models on your own spreadsheet</span>
       {source && (
-        <span className="source" data-testid="source">
+        <span className="source" data-testid="source" title={source.name}>
           {source.name}
-          {source.kind === 'demo' && <strong className="invented"> · invented data</strong>}
         </span>
       )}
+      {source?.kind === 'demo' && <strong className="invented">invented data</strong>}
       <WorkspaceBar />
       <span className="local" title="All calculations run in a Web Worker in this tab; nothing is uploaded.">
         Runs only on this computer

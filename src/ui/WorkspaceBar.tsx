@@ -30,7 +30,7 @@ export function WorkspaceBar() {
           data-testid="autosaved"
           title="Kept in this browser's storage on this computer; restored when you come back."
         >
-          Kept in this browser at {new Date(savedAt).toLocaleTimeString('en-GB')}
+          Kept here {new Date(savedAt).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' })}
         </span>
       )}
       <button type="button" disabled={!hasData} onClick={() => void save()}>
