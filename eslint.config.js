@@ -11,6 +11,7 @@ export default tseslint.config(
     ignores: [
       'dist/**',
       'dist-single/**',
+      'dist-e2e-*/**',
       'node_modules/**',
       'tests/fixtures/**',
       'src/report/fonts/**',

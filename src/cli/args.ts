@@ -11,11 +11,16 @@ export interface FitArgs {
   reference: Record<string, string>;
   splines: Record<string, 3 | 4 | 5>;
   interactions: Array<[string, string]>;
+  /** `--ridge L`: shorthand for `--penalty ridge --lambda L`. */
   ridge?: number;
   firth: boolean;
   penalty?: 'ridge' | 'lasso' | 'elastic-net';
   alpha?: number;
+  /** A fixed λ for --penalty (no cross-validation). */
+  lambda?: number;
   lambdaRule?: LambdaRule;
+  /** Iteration limit of the maximum-likelihood, Firth and ridge fits (default 50). */
+  maxIter?: number;
   level?: number;
   costs?: Costs;
   threshold?: number;
@@ -40,19 +45,28 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --event VALUE            outcome level counted as the event (proposed automatically for yes/no, 1/0, ...)
   --predictors a,b,c       predictor columns (default: every other usable column)
   --categorical a,b        treat these columns as categorical
-  --reference a=LEVEL      reference level of a categorical predictor (repeatable; default the most frequent)
+  --reference a=LEVEL      reference level of a categorical predictor (repeatable; default: 0 / no / FALSE of a
+                           two-level column such as 0/1, no/yes, FALSE/TRUE, else the most frequent level)
   --spline a=K             restricted cubic spline with K = 3, 4 or 5 knots (repeatable)
   --interaction a:b        pairwise interaction (repeatable)
   --firth                  Firth's penalised likelihood (for small samples and separation)
-  --ridge LAMBDA           ridge at a fixed lambda (standardised scale)
-  --penalty ridge|lasso|elastic-net   penalised fit with lambda chosen by cross-validation
+  --max-iter N             iteration limit of the standard, Firth and ridge fits (1 to 10000, default 50)
+  --penalty ridge|lasso|elastic-net   penalised fit; lambda chosen by cross-validation unless --lambda is given
+  --lambda L               a fixed lambda >= 0 for --penalty (> 0 for ridge), no cross-validation
+  --ridge L                shorthand for --penalty ridge --lambda L
   --alpha A                elastic-net mixing (0..1, default 0.5 for elastic-net)
   --lambda-rule cv-1se|cv-min   lambda by the one-standard-error rule (default) or the lowest CV deviance
+                           Penalised fits minimise (glmnet's convention)
+                             −(1/n)·loglik + λ·[(1−α)/2·‖β‖² + α·‖β‖₁]
+                           over β on standardised predictors (unit population SD, i.e. dividing by n),
+                           intercept not penalised; α = 1 lasso, 0 ridge, --alpha for elastic-net.
+                           Coefficients are reported on the original scale.
   --level L                confidence level of every interval (default 0.95)
   --costs MISSED:ALARM     cost of a missed case : cost of a false alarm, e.g. 10:1
   --threshold P            probability cut-off to report the confusion matrix at
   --bootstrap B            bootstrap optimism correction with B resamples
-  --cv K                   k-fold cross-validation (for --penalty, and repeated-CV validation)
+  --cv K                   K folds of the lambda cross-validation (--penalty without --lambda); otherwise
+                           validation by K-fold cross-validation repeated 10 times
   --seed S                 random seed (default 1)
   --test FILE              external validation on a second file with the same columns
   --delimiter D            override the detected delimiter (, ; tab |)
@@ -150,6 +164,20 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--alpha':
         a.alpha = numberArg(flag, value());
         break;
+      case '--lambda': {
+        const v = numberArg(flag, value());
+        if (!(v >= 0)) throw new FulcraError('bad-argument', `--lambda must be a number ≥ 0, got ${v}.`);
+        a.lambda = v;
+        break;
+      }
+      case '--max-iter': {
+        const v = value();
+        const t = numberArg(flag, v);
+        if (!Number.isInteger(t) || t < 1 || t > 10_000)
+          throw new FulcraError('bad-argument', `--max-iter must be a whole number from 1 to 10000, got "${v}".`);
+        a.maxIter = t;
+        break;
+      }
       case '--lambda-rule': {
         const v = value();
         if (v !== 'cv-1se' && v !== 'cv-min')
@@ -232,7 +260,29 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if ([a.firth, a.ridge !== undefined, a.penalty !== undefined].filter(Boolean).length > 1) {
     throw new FulcraError('bad-argument', 'Choose one of --firth, --ridge and --penalty.');
   }
+  checkLambda(a);
   return a;
+}
+
+/** --lambda goes with --penalty, and a fixed λ excludes a λ rule; ridge needs λ > 0. */
+function checkLambda(a: FitArgs): void {
+  if (a.lambda === undefined) return;
+  if (a.penalty === undefined) {
+    throw new FulcraError(
+      'bad-argument',
+      '--lambda needs --penalty ridge, lasso or elastic-net' +
+        (a.ridge !== undefined ? ' (--ridge L already sets λ).' : '.'),
+    );
+  }
+  if (a.lambdaRule !== undefined) {
+    throw new FulcraError('bad-argument', 'Give either --lambda (a fixed λ) or --lambda-rule (λ by cross-validation).');
+  }
+  if (a.penalty === 'ridge' && a.lambda === 0) {
+    throw new FulcraError(
+      'bad-argument',
+      '--penalty ridge needs --lambda > 0; leave out --penalty for an unpenalised fit.',
+    );
+  }
 }
 
 function splitOnce(v: string, sep: string, flag: string): [string, string] {

@@ -109,12 +109,13 @@ export async function runFit(args: FitArgs, argv: string[], version: string): Pr
 /** The analysis request of the arguments; the engine fills every default (the same ones the page gets). */
 export function requestFromArgs(args: FitArgs, spec: ModelSpec): AnalysisRequestInput {
   const method = args.firth ? 'firth' : args.ridge !== undefined ? 'ridge' : (args.penalty ?? 'ml');
-  const lambda = args.ridge ?? args.lambdaRule;
-  // --cv K: the folds of λ selection for --penalty, otherwise repeated K-fold CV (10 repeats) as validation.
+  const lambda = args.ridge ?? args.lambda ?? args.lambdaRule;
+  // --cv K: the folds of λ selection when λ is cross-validated, otherwise repeated K-fold CV (10 repeats).
+  const selectsLambda = args.penalty !== undefined && typeof lambda !== 'number';
   const validation =
     args.bootstrap !== undefined
       ? { method: 'bootstrap' as const, replicates: args.bootstrap, seed: args.seed }
-      : args.cv !== undefined && !args.penalty
+      : args.cv !== undefined && !selectsLambda
         ? { method: 'repeated-cv' as const, folds: args.cv, repeats: 10, seed: args.seed }
         : undefined;
   return {
@@ -123,11 +124,12 @@ export function requestFromArgs(args: FitArgs, spec: ModelSpec): AnalysisRequest
     level: args.level,
     alpha: args.penalty === 'elastic-net' ? args.alpha : undefined,
     lambda,
-    folds: args.penalty ? args.cv : undefined,
+    folds: selectsLambda ? args.cv : undefined,
     costs: args.costs,
     threshold: args.threshold,
     validation,
     seed: args.seed,
+    maxIter: args.maxIter,
   };
 }
 

@@ -72,7 +72,7 @@ export function summarise(r: FitRun): string {
   if (f.terms.some((t) => t.lrChi2 !== null)) {
     out.push(
       table(
-        ['Term', 'df', 'LR χ²', 'p'],
+        ['Term', 'df', penalisedTests(f) ? 'penalised LR χ²' : 'LR χ²', 'p'],
         f.terms.map((t) => [t.name, String(t.df), fmt(t.lrChi2, 3), fmtP(t.lrP)]),
       ),
     );
@@ -82,7 +82,12 @@ export function summarise(r: FitRun): string {
     f.modelLrChi2 === null
       ? `Deviance ${fmt(f.deviance)} at the shrunken estimates (null ${fmt(f.nullDeviance)}); ` +
           'no LR test, AIC or BIC for a penalised fit'
-      : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} ` +
+      : penalisedTests(f)
+        ? `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}), both unpenalised; Firth's penalised ` +
+          `log-likelihood ${fmt(f.penalisedLogLik ?? null, 3)}; model penalised-likelihood-ratio χ² ` +
+          `${fmt(f.modelLrChi2, 3)} on ${f.modelDf} df, p ${fmtP(f.modelLrP)} (not a deviance difference); ` +
+          `AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`
+        : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} ` +
           `on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`,
   );
   const e = r.evaluation;
@@ -137,6 +142,10 @@ export function summarise(r: FitRun): string {
   return out.join('\n');
 }
 
+/** Firth's LR tests are penalised-likelihood ratios (the record's testLikelihood; older records: by method). */
+const penalisedTests = (f: FitRun['fit']) =>
+  (f.testLikelihood ?? (f.method === 'firth' ? 'penalised' : 'ordinary')) === 'penalised';
+
 /** The inference table of an ML, Firth or ridge fit. */
 function coefficientTable(f: FitRun['fit']): string {
   const level = Math.round(f.level * 100);
@@ -147,11 +156,7 @@ function coefficientTable(f: FitRun['fit']): string {
       fmt(c.estimate),
       fmt(c.se),
       c.name === '(Intercept)' ? '' : fmt(c.oddsRatio, 3),
-      c.profileLower === null
-        ? '—'
-        : c.name === '(Intercept)'
-          ? `${fmt(c.profileLower, 3)} to ${fmt(c.profileUpper, 3)}`
-          : `${fmt(Math.exp(c.profileLower), 3)} to ${fmt(Math.exp(c.profileUpper!), 3)}`,
+      profileText(c),
       c.waldLower === null
         ? '—'
         : c.name === '(Intercept)'
@@ -160,6 +165,19 @@ function coefficientTable(f: FitRun['fit']): string {
       fmtP(c.p),
     ]),
   );
+}
+
+/**
+ * The profile interval: log-odds for the intercept, odds ratios otherwise; a side unbounded under separation reads
+ * −∞ / ∞ (log-odds) or 0 / ∞ (odds ratio), a side not computed —.
+ */
+function profileText(c: FitRun['fit']['coefficients'][number]): string {
+  const log = c.name === '(Intercept)';
+  const end = (v: number | null, unbounded: boolean | undefined, inf: string, zero: string) =>
+    unbounded ? (log ? inf : zero) : v === null ? '—' : fmt(log ? v : Math.exp(v), 3);
+  const lo = end(c.profileLower, c.profileLowerUnbounded, '−∞', '0');
+  const hi = end(c.profileUpper, c.profileUpperUnbounded, '∞', '∞');
+  return lo === '—' && hi === '—' ? '—' : `${lo} to ${hi}`;
 }
 
 const METRIC: Record<string, string> = {

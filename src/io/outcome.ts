@@ -107,3 +107,49 @@ function proposed(event: string, nonEvent: string, q: string): OutcomeProposal {
     reason: `${q}: "${event}" is taken as the event and "${nonEvent}" as no event.`,
   };
 }
+
+/** A column as the page lists it: its name, the event proposed for it (null: not a recognised yes/no pair). */
+export interface OutcomeCandidate {
+  name: string;
+  proposedEvent: string | null;
+  /** False for identifier-like and free-text columns. */
+  modelling: boolean;
+}
+
+export type OutcomeColumnProposal =
+  | { status: 'proposed'; column: string; event: string; hint: string }
+  | { status: 'choose'; candidates: string[]; hint: string };
+
+/**
+ * Proposes the outcome column after a load: only when exactly ONE column is a plausible yes/no outcome (a
+ * modelling column whose two values form a recognised event / no-event pair, see proposeOutcomeEvent). With
+ * none or several the choice is left to the user, with a hint naming the candidates.
+ */
+export function proposeOutcomeColumn(columns: readonly OutcomeCandidate[]): OutcomeColumnProposal {
+  const plausible = columns.filter((c) => c.modelling && c.proposedEvent !== null);
+  if (plausible.length === 1) {
+    const { name, proposedEvent } = plausible[0];
+    return {
+      status: 'proposed',
+      column: name,
+      event: proposedEvent!,
+      hint:
+        `"${name}" is proposed as the outcome, with "${proposedEvent}" as the event: it is the only yes/no ` +
+        'column. Check it under Roles.',
+    };
+  }
+  if (plausible.length === 0) {
+    return {
+      status: 'choose',
+      candidates: [],
+      hint: 'No column reads as a yes/no outcome (such as yes/no or 1/0); choose the outcome under Roles.',
+    };
+  }
+  const names = plausible.map((c) => `"${c.name}"`);
+  const list = names.length > 8 ? `${names.slice(0, 8).join(', ')} and ${names.length - 8} more` : names.join(', ');
+  return {
+    status: 'choose',
+    candidates: plausible.map((c) => c.name),
+    hint: `${plausible.length} columns could be the yes/no outcome (${list}); choose the outcome under Roles.`,
+  };
+}

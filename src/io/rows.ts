@@ -15,9 +15,7 @@ export function rowListWithText(s: RowSample): string {
   return s.count > s.rows.length ? `${head} and ${s.count - s.rows.length} more` : head;
 }
 
-export function plural(n: number, one: string, many = one + 's'): string {
-  return `${n.toLocaleString('en-US')} ${n === 1 ? one : many}`;
-}
+export { plural } from '../engine/core';
 
 /** Percentage rounded down, so "100%" means all and "0%" means none. */
 export function pct(part: number, whole: number): string {

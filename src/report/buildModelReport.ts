@@ -10,7 +10,9 @@ import {
   purpose,
   sampleSize,
 } from './reportSectionsModel';
-import { cautions, performance, plots, threshold, warningsSection } from './reportSectionsResults';
+import { cautions, cautionsHeight, performance, plots, threshold, warningsSection } from './reportSectionsResults';
+import { externalSection } from './reportSectionExternal';
+import { glossarySection } from './reportSectionGlossary';
 
 export { REPORT_CAUTIONS } from './reportSectionsResults';
 
@@ -39,13 +41,15 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   sampleSize(L, input);
   method(L, input);
   equation(L, m);
-  oddsRatios(L, m);
+  oddsRatios(L, m, input.oddsUnits);
   imputation(L, input);
   performance(L, input);
   plots(L, input);
+  externalSection(L, input.external);
   threshold(L, input);
-  warningsSection(L, [...m.warnings, ...(input.warnings ?? [])]);
-  cautions(L);
+  warningsSection(L, [...m.warnings, ...(input.warnings ?? [])], cautionsHeight(L, input.cautionSetting));
+  cautions(L, input.cautionSetting);
+  glossarySection(L);
 
   L.footer(
     `Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 ` +

@@ -3,7 +3,10 @@ import type { EvaluationRecord } from '../engine/evaluation';
 import type { InternalValidation, MetricName } from '../engine/validation';
 import type { SampleSizeResult } from '../engine/evaluation';
 import type { EngineWarning } from '../engine/core';
+import type { ExternalRecord } from '../engine/workflow';
 import type { Estimate, ImputationSummary, PerformanceSummary, ReportInput } from './reportInput';
+import { SAME_CASES_CODE } from '../engine/validation';
+import type { ExternalSummary } from './reportSectionExternal';
 
 export interface ReportRecords {
   meta: ReportInput['meta'];
@@ -16,13 +19,20 @@ export interface ReportRecords {
   validation?: InternalValidation;
   sampleSize?: SampleSizeResult;
   costs?: Costs;
+  /** False when the costs are the page's default that nobody set. */
+  costsSetByUser?: boolean;
   thresholdRule?: string;
   lambdaChoice?: string;
   missingData?: string;
   /** The model pooled over multiple imputations (its warnings go in `warnings`). */
   imputation?: ImputationSummary;
+  /** External validation on a second file (with how many of its cases are development cases, when known). */
+  external?: ExternalRecord;
   /** Other warnings to list (imputation, import…). */
   warnings?: EngineWarning[];
+  cautionSetting?: ReportInput['cautionSetting'];
+  /** Odds ratios per these units, by numeric predictor (the page's choice). */
+  oddsUnits?: ReportInput['oddsUnits'];
 }
 
 const riley: Record<'i' | 'ii' | 'iii', string> = {
@@ -42,6 +52,8 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     lambdaChoice: r.lambdaChoice,
     missingData: r.missingData,
     imputation: r.imputation,
+    cautionSetting: r.cautionSetting,
+    oddsUnits: r.oddsUnits,
     warnings: [
       ...(ev?.warnings ?? []),
       ...(r.validation?.warnings ?? []),
@@ -93,6 +105,7 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
         lrPositive: { estimate: at.lrPositive, ci: at.lrPositiveCi },
         lrNegative: { estimate: at.lrNegative, ci: at.lrNegativeCi },
         rule: r.thresholdRule,
+        costsSetByUser: r.costsSetByUser,
       };
     }
   }
@@ -124,16 +137,37 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
       replicates: v.planned - v.failed,
     };
   }
+  if (r.external) input.external = externalSummary(r.external, r.fit.level);
   const s = r.sampleSize;
   if (s) {
     input.sampleSize = {
       requiredN: s.requiredN,
       bindingCriterion: riley[s.binding],
-      criteria: s.criteria.map((c) => ({ label: riley[c.id], n: c.n })),
+      criteria: s.criteria.map((c) => ({ label: riley[c.id], n: c.n, met: c.met, consequence: c.consequence })),
       assumedR2: s.r2cs,
       shrinkageTarget: null,
       met: s.actual ? s.actual.enough : null,
     };
   }
   return input;
+}
+
+/** The external-validation record as the PDF prints it. */
+function externalSummary(x: NonNullable<ReportRecords['external']>, level: number): ExternalSummary {
+  const ev = x.evaluation;
+  const e = (v: { estimate: number; lower: number; upper: number } | null | undefined): Estimate | null =>
+    v ? { estimate: v.estimate, lower: v.lower, upper: v.upper } : null;
+  const rs = x.recalibration.interceptSlope;
+  return {
+    nRows: x.nRows,
+    n: x.nUsed,
+    level,
+    auc: ev.auc.auc === null ? null : { estimate: ev.auc.auc, lower: ev.auc.lower, upper: ev.auc.upper },
+    calibrationIntercept: e(ev.calibration.interceptInTheLarge),
+    calibrationSlope: e(ev.calibration.slope),
+    brier: ev.brier.brier,
+    recalibrated: rs ? { intercept: e(rs.intercept)!, slope: e(rs.slope) } : null,
+    sameCases: x.warnings.some((w) => w.code === SAME_CASES_CODE),
+    warnings: x.warnings,
+  };
 }

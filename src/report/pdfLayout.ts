@@ -77,8 +77,9 @@ export class PdfLayout {
     this.heading(`${this.sections}. ${title}`, keepWith);
   }
 
+  /** A bold sub-heading, kept with about three lines (a table header and its first rows) of what follows. */
   subheading(text: string): void {
-    this.ensure(14);
+    this.ensure(24);
     this.y += 1;
     this.setFont(10.5, true);
     this.doc.text(text, this.left, this.y + 3.8);
@@ -119,6 +120,16 @@ export class PdfLayout {
       this.y += lh;
     }
     this.y += 0.8;
+  }
+
+  /** The height in mm a heading takes on the page (its own space, not the lines it keeps with it). */
+  readonly headingHeight = 12.5;
+
+  /** The height in mm that `bullet` would take for each of these texts, without drawing them. */
+  bulletsHeight(texts: readonly string[], size = 9.5): number {
+    this.setFont(size);
+    const lh = this.lineHeight(size);
+    return texts.reduce((h, t) => h + (this.doc.splitTextToSize(t, this.width - 5) as string[]).length * lh + 0.8, 0);
   }
 
   /** Label/value rows in two columns; values wrap. */

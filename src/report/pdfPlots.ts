@@ -140,13 +140,110 @@ export function drawRoc(doc: jsPDF, left: number, top: number, size: number, dat
   }
 }
 
-export function drawCalibration(doc: jsPDF, left: number, top: number, size: number, data: CalibrationPlotData): void {
+/** A corner of a plot's area, where a legend can sit. */
+export type Corner = 'top-left' | 'bottom-right' | 'top-right' | 'bottom-left';
+const CORNERS: Corner[] = ['top-left', 'bottom-right', 'top-right', 'bottom-left'];
+
+/**
+ * The corner where a legend box of `w` × `h` (fractions of the plot's width and height) covers the least of the
+ * data: each corner's box is sampled on a 9 × 5 grid of points in data units and `covered(x, y)` counts the ones
+ * that would hide something (a curve, a band, a point). Ties go to the earlier corner in top-left, bottom-right,
+ * top-right, bottom-left order.
+ */
+export function freeCorner(
+  xDomain: [number, number],
+  yDomain: [number, number],
+  w: number,
+  h: number,
+  covered: (x: number, y: number) => boolean,
+): Corner {
+  const [x0, x1] = xDomain;
+  const [y0, y1] = yDomain;
+  let best: Corner = CORNERS[0];
+  let bestScore = Infinity;
+  for (const c of CORNERS) {
+    const left = c.endsWith('left') ? x0 : x1 - w * (x1 - x0);
+    const bottom = c.startsWith('bottom') ? y0 : y1 - h * (y1 - y0);
+    let score = 0;
+    for (let i = 0; i <= 8; i++)
+      for (let j = 0; j <= 4; j++)
+        if (covered(left + (i / 8) * w * (x1 - x0), bottom + (j / 4) * h * (y1 - y0))) score++;
+    if (score < bestScore) [best, bestScore] = [c, score];
+  }
+  return best;
+}
+
+/** Linear interpolation of the polyline (xs, ys) at x; NaN outside its x-range. xs need not be sorted. */
+function interpolate(xs: number[], ys: number[], x: number): number {
+  let lo = -Infinity;
+  let hi = Infinity;
+  let yLo = NaN;
+  let yHi = NaN;
+  for (let i = 0; i < xs.length; i++) {
+    if (!Number.isFinite(xs[i]) || !Number.isFinite(ys[i])) continue;
+    if (xs[i] <= x && xs[i] > lo) [lo, yLo] = [xs[i], ys[i]];
+    if (xs[i] >= x && xs[i] < hi) [hi, yHi] = [xs[i], ys[i]];
+  }
+  if (!Number.isFinite(lo) || !Number.isFinite(hi)) return NaN;
+  return hi === lo ? yLo : yLo + ((yHi - yLo) * (x - lo)) / (hi - lo);
+}
+
+/** Legend box of `items` lines in mm (width, height), as drawn by `legend`. */
+const legendBox = (items: number, width: number): [number, number] => [width, items * 3.6 + 1.5];
+
+/**
+ * The calibration plot's common axis range [0, hi] and legend corner. `hi` covers the predicted risks, the
+ * observed curve, its band and the grouped points (rounded up to a tenth, at most 1), so nothing is clipped flat;
+ * the legend goes to the corner that hides least of the curve, band, diagonal and points.
+ */
+export function calibrationFrame(
+  data: CalibrationPlotData,
+  size = 70,
+): { hi: number; corner: Corner; legendItems: number } {
+  const finite = (xs: number[] | undefined): number[] => (xs ?? []).filter(Number.isFinite);
   const maxVal = Math.max(
     0.05,
-    ...data.predicted.filter(Number.isFinite),
-    ...(data.groups ?? []).map((g) => g.predicted),
+    ...finite(data.predicted),
+    ...finite(data.observed),
+    ...finite(data.upper),
+    ...(data.groups ?? []).flatMap((g) => finite([g.predicted, g.observed])),
   );
-  const hi = Math.min(1, Math.ceil(maxVal * 10 + 1e-9) / 10);
+  const hi = Math.min(1, Math.ceil(maxVal * 10 - 1e-9) / 10);
+  const legendItems = data.groups && data.groups.length > 0 ? 3 : 2;
+  const [bw, bh] = legendBox(legendItems, 40);
+  const near = 0.04 * hi;
+  const band = data.lower && data.upper && data.lower.length === data.predicted.length;
+  const covered = (x: number, y: number): boolean => {
+    if (Math.abs(y - x) < near) return true;
+    if (Math.abs(interpolate(data.predicted, data.observed, x) - y) < near) return true;
+    if (
+      band &&
+      interpolate(data.predicted, data.lower!, x) - near <= y &&
+      y <= interpolate(data.predicted, data.upper!, x) + near
+    )
+      return true;
+    return (data.groups ?? []).some((g) => Math.abs(g.predicted - x) < near && Math.abs(g.observed - y) < near);
+  };
+  return { hi, corner: freeCorner([0, hi], [0, hi], (bw + 4) / size, (bh + 4) / size, covered), legendItems };
+}
+
+/** The top-left point (mm) of a legend box of `bw` × `bh` mm placed in `corner` of the plot area. */
+function legendAt(
+  corner: Corner,
+  left: number,
+  top: number,
+  w: number,
+  h: number,
+  bw: number,
+  bh: number,
+): [number, number] {
+  const x = corner.endsWith('left') ? left + 2 : left + w - bw - 2;
+  const y = corner.startsWith('top') ? top + 3 : top + h - bh + 0.5;
+  return [x, y];
+}
+
+export function drawCalibration(doc: jsPDF, left: number, top: number, size: number, data: CalibrationPlotData): void {
+  const { hi, corner, legendItems } = calibrationFrame(data, size);
   const f = frame(doc, left, top, size, size, [0, hi], [0, hi], 'Predicted risk', 'Observed risk', 'Calibration');
   if (data.lower && data.upper && data.lower.length === data.predicted.length) {
     const [px, lo] = thin(data.predicted, data.lower, 300);
@@ -173,9 +270,10 @@ export function drawCalibration(doc: jsPDF, left: number, top: number, size: num
     { label: 'flexible calibration curve', color: BLUE },
     { label: 'ideal', color: GREY, dash: [1.2, 1.2] },
   ];
-  if (data.groups && data.groups.length > 0)
-    items.push({ label: 'groups by tenths of risk', color: ORANGE, dot: true });
-  legend(doc, left + 2, top + 3, items);
+  if (legendItems === 3) items.push({ label: 'groups by tenths of risk', color: ORANGE, dot: true });
+  const [bw, bh] = legendBox(items.length, 40);
+  const [lx, ly] = legendAt(corner, left, top, size, size, bw, bh);
+  legend(doc, lx, ly, items);
 }
 
 export function drawDecisionCurve(
@@ -205,7 +303,15 @@ export function drawDecisionCurve(
   polyline(doc, f, [0, xMax], [0, 0], GREY, 0.4);
   polyline(doc, f, data.thresholds, data.treatAll, ORANGE, 0.45, [1.5, 1]);
   polyline(doc, f, data.thresholds, data.model, BLUE, 0.6);
-  legend(doc, left + w - 34, top + 3, [
+  const [bw, bh] = legendBox(3, 24);
+  const near = 0.04 * (yMax - yMin);
+  const covered = (x: number, y: number): boolean =>
+    Math.abs(y) < near ||
+    Math.abs(interpolate(data.thresholds, data.model, x) - y) < near ||
+    Math.abs(interpolate(data.thresholds, data.treatAll, x) - y) < near;
+  const corner = freeCorner([0, xMax], [yMin, yMax], (bw + 4) / w, (bh + 4) / h, covered);
+  const [lx, ly] = legendAt(corner, left, top, w, h, bw, bh);
+  legend(doc, lx, ly, [
     { label: 'model', color: BLUE },
     { label: 'treat all', color: ORANGE, dash: [1.5, 1] },
     { label: 'treat none', color: GREY },

@@ -1,5 +1,7 @@
 import type { EngineWarning } from '../engine/core';
 import type { FitResult } from '../engine/core';
+import type { CautionSetting } from './cautions';
+import type { ExternalSummary } from './reportSectionExternal';
 
 /** An estimate with an optional interval (null where none can be given). */
 export interface Estimate {
@@ -60,14 +62,19 @@ export interface ThresholdSummary {
   lrNegative?: { estimate: number | null; ci: { lower: number; upper: number } | null };
   /** How the threshold was chosen, in words (e.g. "minimises expected cost"). */
   rule?: string;
+  /** False when the costs are the default and nobody set them (the PDF says so); undefined means set. */
+  costsSetByUser?: boolean;
 }
 
 export interface SampleSizeSummary {
   /** Minimum n from Riley et al. (2020) criteria, and which criterion binds. */
   requiredN: number | null;
   bindingCriterion?: string;
-  /** Criteria as label → required n, in the order to print. */
-  criteria?: { label: string; n: number | null }[];
+  /**
+   * Criteria as label → required n, in the order to print, each with its own verdict on the data (null: not
+   * assessed) and what falling short of it means ((i)/(ii) over-fitting, (iii) an imprecise overall risk).
+   */
+  criteria?: { label: string; n: number | null; met?: boolean | null; consequence?: string }[];
   assumedR2?: number | null;
   shrinkageTarget?: number | null;
   met: boolean | null;
@@ -126,6 +133,12 @@ export interface ReportInput {
   decisionCurve?: DecisionCurvePlotData;
   threshold?: ThresholdSummary;
   imputation?: ImputationSummary;
+  /** The model checked on one file that was not used to fit it. */
+  external?: ExternalSummary;
   /** Warnings from evaluation, validation, imputation… (the fit's own warnings are read from `model`). */
   warnings?: EngineWarning[];
+  /** Which cautions apply (default clinical); see src/report/cautions.ts. */
+  cautionSetting?: CautionSetting;
+  /** Odds ratios per these units, by numeric predictor (display only; absent = per 1). See oddsUnits.ts. */
+  oddsUnits?: Record<string, number>;
 }

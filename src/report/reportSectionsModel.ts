@@ -1,5 +1,7 @@
 import { isPenalised } from '../engine/core';
+import { KNOT_RULE } from '../engine/design';
 import type { FitResult } from '../engine/core';
+import { oddsDisplayRows, type OddsUnits } from './oddsUnits';
 import { modelEquation, riskFormula } from './equation';
 import {
   DASH,
@@ -13,7 +15,7 @@ import {
   levelText,
 } from './format';
 import type { PdfLayout } from './pdfLayout';
-import type { ReportInput } from './reportInput';
+import type { ReportInput, SampleSizeSummary } from './reportInput';
 
 // Report sections about the data and the model (TRIPOD items: source, participants, outcome, predictors,
 // sample size, missing data, model development and specification).
@@ -48,7 +50,7 @@ export function dataSection(L: PdfLayout, input: ReportInput): void {
     ['Outcome', `"${m.recipe.outcome}"; the event is "${m.recipe.event}"`],
     [
       'Rows used',
-      `${formatCount(m.nUsed)}: ${formatCount(m.events)} events ` +
+      `${formatCount(m.nUsed)}: ${formatCount(m.events)} ${m.events === 1 ? 'event' : 'events'} ` +
         `(${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
     ],
     [
@@ -105,6 +107,14 @@ export function predictors(L: PdfLayout, m: FitResult): void {
     ],
     rows,
   );
+  const notes: string[] = [];
+  if (m.recipe.terms.some((t) => t.type === 'categorical'))
+    notes.push(
+      'Reference level, unless one was chosen: the absence level of a two-level column such as 0/1, no/yes or ' +
+        'FALSE/TRUE (0, no, FALSE), otherwise the most frequent level.',
+    );
+  if (m.recipe.terms.some((t) => t.type === 'spline')) notes.push(KNOT_RULE);
+  if (notes.length > 0) L.paragraph(notes.join(' '), { size: 8.5 });
 }
 
 export function sampleSize(L: PdfLayout, input: ReportInput): void {
@@ -123,23 +133,36 @@ export function sampleSize(L: PdfLayout, input: ReportInput): void {
         : `${formatCount(s.requiredN)} (Riley et al. 2020, BMJ 368:m441)` +
           (s.bindingCriterion ? `; binding criterion: ${s.bindingCriterion}` : ''),
     ]);
-    for (const c of s.criteria ?? []) rows.push([`  ${c.label}`, c.n === null ? DASH : formatCount(c.n)]);
+    for (const c of s.criteria ?? []) rows.push([`  ${c.label}`, criterionText(c)]);
     if (s.assumedR2 !== undefined && s.assumedR2 !== null)
       rows.push(['Assumed Cox\u2013Snell R\u00b2', formatFixed(s.assumedR2, 3)]);
     if (s.shrinkageTarget !== undefined && s.shrinkageTarget !== null)
       rows.push(['Target shrinkage', `\u2265 ${formatFixed(s.shrinkageTarget, 2)}`]);
-    rows.push([
-      'Check',
-      s.met === null
-        ? 'could not be assessed'
-        : s.met
-          ? `met: ${formatCount(m.nUsed)} rows used \u2265 ${formatCount(s.requiredN)} required`
-          : `NOT met: ${formatCount(m.nUsed)} rows used < ${formatCount(s.requiredN)} required; expect overfitting`,
-    ]);
+    rows.push(['Check', sampleSizeCheck(s, m.nUsed)]);
   } else {
     rows.push(['Minimum sample size', 'Riley criteria not computed for this report.']);
   }
   L.keyValues(rows, 62);
+}
+
+type Criterion = NonNullable<SampleSizeSummary['criteria']>[number];
+
+/** A criterion's required n with its own verdict and, when not met, its own consequence. */
+function criterionText(c: Criterion): string {
+  const n = c.n === null ? DASH : formatCount(c.n);
+  if (c.met === undefined || c.met === null) return n;
+  return c.met ? `${n}: met` : `${n}: NOT met. ${c.consequence ?? ''}`.trim();
+}
+
+/** The overall line: met, or which criteria are not (their consequences are on their own rows). */
+function sampleSizeCheck(s: SampleSizeSummary, nUsed: number): string {
+  if (s.met === null) return 'could not be assessed';
+  if (s.met) return `met: ${formatCount(nUsed)} rows used \u2265 ${formatCount(s.requiredN)} required`;
+  const failing = (s.criteria ?? []).filter((c) => c.met === false).map((c) => c.label);
+  return (
+    `NOT met: ${formatCount(nUsed)} rows used < ${formatCount(s.requiredN)} required` +
+    (failing.length ? `; short of ${failing.join(', ')} (see each criterion above)` : '')
+  );
 }
 
 export function method(L: PdfLayout, input: ReportInput): void {
@@ -186,11 +209,33 @@ export function method(L: PdfLayout, input: ReportInput): void {
       'Fit',
       penalised
         ? `${deviance}, unpenalised, at the shrunken estimates`
-        : `${deviance}; likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, ` +
-          `p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`,
+        : penalisedTests(m)
+          ? `${deviance}, both unpenalised; penalised-likelihood-ratio \u03c7\u00b2 = ` +
+            `${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, p ${pText(m.modelLrP)} (Firth's penalised ` +
+            `log-likelihood ${formatFixed(m.penalisedLogLik ?? null, 2)}; not a deviance difference); ` +
+            `AIC ${formatFixed(m.aic, 1)}`
+          : `${deviance}; likelihood-ratio \u03c7\u00b2 = ${formatFixed(m.modelLrChi2, 2)} on ${m.modelDf} df, ` +
+            `p ${pText(m.modelLrP)}; AIC ${formatFixed(m.aic, 1)}`,
     ],
   ];
   L.keyValues(rows, 30);
+}
+
+/** Firth's LR tests are penalised-likelihood ratios (the record's testLikelihood; older records: by method). */
+function penalisedTests(m: FitResult): boolean {
+  return (m.testLikelihood ?? (m.method === 'firth' ? 'penalised' : 'ordinary')) === 'penalised';
+}
+
+/** One end of a coefficient's odds-ratio interval: 0 / ∞ when its profile is unbounded there, null when none. */
+/** Whether any coefficient row is shown per a unit other than 1. */
+const anyUnit = (m: FitResult, units: OddsUnits) =>
+  oddsDisplayRows(m.recipe, m.coefficients, units).some((d) => d.kind === 'coefficient' && d.unit !== 1);
+
+function orLimit(c: FitResult['coefficients'][number], side: 'lower' | 'upper', unit = 1): string | null {
+  if (side === 'lower' && c.profileLowerUnbounded) return '0';
+  if (side === 'upper' && c.profileUpperUnbounded) return '\u221e';
+  const v = side === 'lower' ? (c.profileLower ?? c.waldLower) : (c.profileUpper ?? c.waldUpper);
+  return v === null ? null : unit === 1 ? formatOr(Math.exp(v), c.estimate) : formatOr(Math.exp(unit * v));
 }
 
 function pText(p: number | null): string {
@@ -226,22 +271,26 @@ export function equation(L: PdfLayout, m: FitResult): void {
   for (const line of eq.coding) L.bullet(line, 8.5);
 }
 
-export function oddsRatios(L: PdfLayout, m: FitResult): void {
+export function oddsRatios(L: PdfLayout, m: FitResult, units: OddsUnits = {}): void {
   L.section('Coefficients and odds ratios');
   const lvl = levelText(m.level);
-  const anyProfile = m.coefficients.some((c) => c.profileLower !== null && c.profileUpper !== null);
-  const rows = m.coefficients.map((c, j) => {
-    const lo = c.profileLower ?? c.waldLower;
-    const hi = c.profileUpper ?? c.waldUpper;
-    const isIntercept = j === 0;
+  const anyProfile = m.coefficients.some(
+    (c) => (c.profileLower !== null || c.profileLowerUnbounded) && (c.profileUpper !== null || c.profileUpperUnbounded),
+  );
+  const anyUnbounded = m.coefficients.some((c) => c.profileLowerUnbounded || c.profileUpperUnbounded);
+  // Per the page's unit for numeric predictors (OR^unit, limits exp(unit·limit)); a row per reference level.
+  const rows = oddsDisplayRows(m.recipe, m.coefficients, units).map((d) => {
+    if (d.kind === 'reference') return [`${d.label} (reference)`, DASH, DASH, '1', DASH, DASH];
+    const { row: c, unit } = d;
+    const lo = orLimit(c, 'lower', unit);
+    const hi = orLimit(c, 'upper', unit);
+    const isIntercept = c.term === '(Intercept)';
     return [
-      c.name + (c.aliased ? ' (aliased)' : ''),
+      d.label + (c.aliased ? ' (aliased)' : ''),
       formatFixed(c.estimate, 4),
       c.se === null ? DASH : formatFixed(c.se, 4),
-      isIntercept ? DASH : formatOr(c.oddsRatio, c.estimate),
-      isIntercept || lo === null || hi === null
-        ? DASH
-        : `${formatOr(Math.exp(lo), c.estimate)} to ${formatOr(Math.exp(hi), c.estimate)}`,
+      isIntercept ? DASH : unit === 1 ? formatOr(c.oddsRatio, c.estimate) : formatOr(Math.exp(unit * c.estimate)),
+      isIntercept || lo === null || hi === null ? DASH : `${lo} to ${hi}`,
       formatP(c.p),
     ];
   });
@@ -258,10 +307,28 @@ export function oddsRatios(L: PdfLayout, m: FitResult): void {
   );
   const anyWald = m.coefficients.some((c) => c.waldLower !== null && c.waldUpper !== null);
   const intervals = anyProfile ? 'profile likelihood' : anyWald ? 'Wald' : 'none (not valid for this method)';
-  L.paragraph(`Odds ratio = exp(\u03b2), per one unit of the design variable. Intervals: ${intervals}.`, { size: 8.5 });
+  L.paragraph(
+    `Odds ratio = exp(\u03b2), per one unit of the design variable` +
+      (anyUnit(m, units)
+        ? ' unless a row says "per u": then per u units, exp(u\u00b7\u03b2), with its limits likewise' +
+          ' (the coefficients themselves stay per one unit)'
+        : '') +
+      `. Intervals: ${intervals}.` +
+      (m.recipe.terms.some((t) => t.type === 'categorical') ? ' A reference level has odds ratio 1.' : '') +
+      (anyUnbounded
+        ? ' An interval ending at 0 or \u221e is unbounded on that side: the estimate diverges under separation.'
+        : ''),
+    { size: 8.5 },
+  );
   const multi = m.terms.filter((t) => t.df > 1 && t.lrP !== null);
   if (multi.length > 0) {
-    L.subheading('Terms with more than one design variable (likelihood-ratio test of the whole term)');
+    L.subheading(
+      'Terms with more than one design variable (' +
+        (penalisedTests(m)
+          ? "penalised-likelihood-ratio test, Firth's penalised likelihood"
+          : 'likelihood-ratio test') +
+        ' of the whole term)',
+    );
     L.table(
       [
         { header: 'Term', width: 70 },
@@ -280,7 +347,9 @@ export function imputation(L: PdfLayout, input: ReportInput): void {
   if (!imp) return;
   const m = input.model;
   L.section('Multiple imputation (sensitivity analysis)');
-  const filled = imp.columns.map((c) => `${c.column}: ${formatCount(c.cells)} cells by ${c.method}`).join('; ');
+  const filled = imp.columns
+    .map((c) => `${c.column}: ${formatCount(c.cells)} ${c.cells === 1 ? 'cell' : 'cells'} by ${c.method}`)
+    .join('; ');
   L.paragraph(
     `The same model fitted on each of ${imp.m} datasets completed by chained-equation imputation ` +
       '(van Buuren & Groothuis-Oudshoorn 2011), pooled by Rubin\u2019s rules ' +

@@ -1,14 +1,7 @@
 import type { EngineWarning } from '../engine/core';
-import {
-  DASH,
-  formatCount,
-  formatFixed,
-  formatInterval,
-  formatPercent,
-  formatPlain,
-  formatSig,
-  levelText,
-} from './format';
+import { DASH, formatCount, formatFixed, formatInterval, formatPercent, formatSig, levelText } from './format';
+import { costsText } from './cutoffRule';
+import { CAUTIONS_BY_SETTING, cautionSettingOf, type CautionSetting } from './cautions';
 import type { PdfLayout } from './pdfLayout';
 import { drawCalibration, drawDecisionCurve, drawRoc } from './pdfPlots';
 import type { Estimate, PerformanceSummary, ReportInput, ThresholdSummary } from './reportInput';
@@ -16,18 +9,8 @@ import type { Estimate, PerformanceSummary, ReportInput, ThresholdSummary } from
 // Report sections about performance and use (TRIPOD items: model performance, decision threshold, warnings,
 // limitations).
 
-/** The cautions printed in every report. */
-export const REPORT_CAUTIONS: readonly string[] = [
-  'Fulcra is a statistics workbench, not a medical device. This model has not been assessed by any regulator ' +
-    'and must not be used on its own to make decisions about individual patients or products.',
-  'Internal validation (apparent and bootstrap optimism-corrected performance on the development data) ' +
-    'is not external validation. ' +
-    'Performance in another hospital, period or population is unknown until it is measured there.',
-  'Before use in another setting, check calibration on local data and recalibrate (at least the intercept) ' +
-    'if the outcome rate differs.',
-  'Use follows local governance and approval processes, ' +
-    'and does not replace the judgement of licensed clinical or quality professionals.',
-];
+/** The cautions printed in a clinical report (the default setting); see CAUTIONS_BY_SETTING. */
+export const REPORT_CAUTIONS: readonly string[] = CAUTIONS_BY_SETTING.clinical;
 
 function est(e: Estimate | null | undefined, digits: number): string {
   if (!e) return DASH;
@@ -96,8 +79,8 @@ export function performance(L: PdfLayout, input: ReportInput): void {
 
 export function plots(L: PdfLayout, input: ReportInput): void {
   if (!input.roc && !input.calibration && !input.decisionCurve) return;
-  L.section('Calibration, discrimination and net benefit');
   const size = 70;
+  L.section('Calibration, discrimination and net benefit', input.calibration || input.roc ? size + 18 : 70);
   if (input.calibration || input.roc) {
     L.ensure(size + 18);
     const top = L.y + 6;
@@ -133,18 +116,13 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
       (e.lower !== null && e.upper !== null ? ` (${formatPercent(e.lower)} to ${formatPercent(e.upper)})` : '')
     );
   };
-  const ratio = t.costMissedCase / t.costFalseAlarm;
   L.keyValues(
     [
       [
         'Threshold',
         `flag a case when predicted risk \u2265 ${formatPercent(t.threshold, 1)} (${formatFixed(t.threshold, 4)})`,
       ],
-      [
-        'Costs',
-        `missed event (false negative) ${formatPlain(t.costMissedCase, 4)}; ` +
-          `false alarm (false positive) ${formatPlain(t.costFalseAlarm, 4)}; ratio ${formatPlain(ratio, 3)} : 1`,
-      ],
+      ['Costs', costsText({ missedCase: t.costMissedCase, falseAlarm: t.costFalseAlarm }, t.costsSetByUser !== false)],
       ['How chosen', t.rule ?? 'set by the user'],
       ['Flag rule', 'a case is flagged when its predicted risk is greater than or equal to the threshold'],
     ],
@@ -186,7 +164,11 @@ export function threshold(L: PdfLayout, input: ReportInput): void {
   L.keyValues(rows, 50);
 }
 
-export function warningsSection(L: PdfLayout, warnings: EngineWarning[]): void {
+/**
+ * The warnings, message and suggestion only (internal codes stay out of the PDF). The last item is kept on one
+ * page with the `keepWithNext` mm that follow (the cautions), so the cautions never stand alone on a page.
+ */
+export function warningsSection(L: PdfLayout, warnings: EngineWarning[], keepWithNext = 0): void {
   L.section('Warnings');
   const seen = new Set<string>();
   const unique = warnings.filter((w) => {
@@ -196,14 +178,27 @@ export function warningsSection(L: PdfLayout, warnings: EngineWarning[]): void {
     return true;
   });
   if (unique.length === 0) {
+    L.ensure(L.lineHeight(9.5) + keepWithNext);
     L.paragraph('No warnings were raised by the fit or the checks.');
     return;
   }
-  for (const w of unique) L.bullet(`${w.message} ${w.suggestion} [${w.code}]`, 9);
+  unique.forEach((w, i) => {
+    const text = `${w.message} ${w.suggestion}`;
+    if (i === unique.length - 1) L.ensure(L.bulletsHeight([text], 9) + keepWithNext);
+    L.bullet(text, 9);
+  });
 }
 
-export function cautions(L: PdfLayout): void {
-  L.ensure(55);
+/** The height in mm the cautions section takes (heading and bullets), for keeping it with what comes before. */
+export function cautionsHeight(L: PdfLayout, setting: CautionSetting = 'clinical'): number {
+  return Math.min(
+    L.bottom - L.top - 20,
+    L.headingHeight + Math.max(24, L.bulletsHeight(CAUTIONS_BY_SETTING[cautionSettingOf(setting)], 9)),
+  );
+}
+
+export function cautions(L: PdfLayout, setting: CautionSetting = 'clinical'): void {
+  L.ensure(Math.min(55, cautionsHeight(L, setting)));
   L.section('Cautions');
-  for (const c of REPORT_CAUTIONS) L.bullet(c, 9);
+  for (const c of CAUTIONS_BY_SETTING[cautionSettingOf(setting)]) L.bullet(c, 9);
 }

@@ -9,6 +9,7 @@ import type {
   BatchScoreView,
   Costs,
   CostView,
+  CutoffHow,
   ImputedView,
   DataSummary,
   ExternalView,
@@ -21,7 +22,9 @@ import type {
   ThresholdView,
   ValidationView,
 } from '../worker/protocol';
+import { isOddsUnit } from '../report/oddsUnits';
 import type { WorkbenchSettings } from './workspace';
+import { proposeOutcomeColumn } from '../io/outcome';
 import {
   initialState,
   type AppState,
@@ -48,6 +51,16 @@ export interface Intent<I> {
 
 const invalidateFit = (s: AppState): AppState => (s.fit ? { ...s, fitStale: true } : s);
 
+/** The code of the notice that refuses to export an out-of-date model. */
+export const STALE_EXPORT_CODE = 'stale-export';
+
+/**
+ * Notices that outlive a new data set: problems of the page itself (storage and the like, which carry a code).
+ * Everything else (warnings about the data or the model, remedies, refused exports, notes on a restored or
+ * recovered workspace, failed calls on the old data) belongs to the data it came with.
+ */
+const keptAcrossData = (n: Notice): boolean => n.kind === 'error' && !!n.code && n.code !== STALE_EXPORT_CODE;
+
 export const showView: Perform<ViewId> = (s, view) => ({ ...s, view });
 
 /** Changes how files are read; a new file starts with no per-column type choices. */
@@ -56,8 +69,23 @@ export const setImportSettings: Perform<Partial<ImportSettings>> = (s, settings)
   importSettings: { ...s.importSettings, ...settings },
 });
 
-/** A new data set replaces everything that was computed from the previous one; roles come from the demo spec. */
-export const dataLoaded: Perform<DataSummary> = (s, data) => {
+/** A demo sets the cautions of its setting; data after a demo go back to the default (the user may set it again). */
+function cautionsFor(s: AppState, data: DataSummary): ReportText {
+  if (data.cautions) return { ...s.reportText, cautions: data.cautions };
+  if (s.data?.source.kind !== 'demo') return s.reportText;
+  const rest = { ...s.reportText };
+  delete rest.cautions;
+  return rest;
+}
+
+/**
+ * A new data set replaces everything that was computed from the previous one; roles come from the demo spec.
+ * Otherwise the outcome is proposed only when exactly one column is a plausible yes/no outcome; with none or
+ * several it is left to the user, with a hint naming the candidates.
+ */
+export const dataLoaded: Perform<DataSummary> = (s, data) => loadSummary(s, data, true);
+
+function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState {
   const roles: Record<string, PredictorRole> = {};
   for (const c of data.columns) roles[c.name] = { include: false, reference: null, knots: 0 };
   let outcome: string | null = null;
@@ -72,8 +100,8 @@ export const dataLoaded: Perform<DataSummary> = (s, data) => {
   }
   const reread =
     s.data !== null &&
-    data.source.kind === 'file' &&
-    s.data.source.kind === 'file' &&
+    data.source.kind !== 'demo' &&
+    s.data.source.kind === data.source.kind &&
     s.data.source.name === data.source.name;
   if (reread) {
     const names = new Set(data.columns.map((c) => c.name));
@@ -83,12 +111,19 @@ export const dataLoaded: Perform<DataSummary> = (s, data) => {
       event = s.event;
     }
   }
+  const fresh = propose && data.source.kind !== 'demo' && !data.suggestedSpec && !reread;
+  const proposal = fresh ? proposeOutcomeColumn(data.columns) : null;
+  if (proposal?.status === 'proposed') {
+    outcome = proposal.column;
+    event = proposal.event;
+  }
   const base: AppState = {
     ...initialState,
     costs: s.costs,
-    notices: s.notices,
+    costsSetByUser: s.costsSetByUser,
+    notices: s.notices.filter(keptAcrossData),
     importSettings: s.importSettings,
-    reportText: s.reportText,
+    reportText: cautionsFor(s, data),
     nextNoticeId: s.nextNoticeId,
     jobs: s.jobs,
     data,
@@ -97,8 +132,9 @@ export const dataLoaded: Perform<DataSummary> = (s, data) => {
     event,
     interactions: reread ? s.interactions.filter(([a, b]) => roles[a]?.include && roles[b]?.include) : [],
   };
-  return withWarnings(base, data.warnings);
-};
+  const hinted = proposal ? notify(base, { kind: 'info', text: proposal.hint, code: 'outcome-proposal' }) : base;
+  return withWarnings(hinted, data.warnings);
+}
 
 export const chooseOutcome: Perform<{ column: string | null; event?: string | null }> = (s, { column, event }) => {
   if (!s.data || column === null) return invalidateFit({ ...s, outcome: null, event: null });
@@ -131,6 +167,9 @@ export const setAlpha: Perform<number> = (s, alpha) =>
   Number.isFinite(alpha) ? invalidateFit({ ...s, alpha: Math.min(1, Math.max(0, alpha)) }) : s;
 export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => invalidateFit({ ...s, lambdaRule });
 export const setLevel: Perform<number> = (s, level) => (level > 0.5 && level < 1 ? invalidateFit({ ...s, level }) : s);
+/** The iteration limit: a whole number from 1 to 10000 (anything else leaves the state as it was). */
+export const setMaxIter: Perform<number> = (s, maxIter) =>
+  Number.isInteger(maxIter) && maxIter >= 1 && maxIter <= 10_000 ? invalidateFit({ ...s, maxIter }) : s;
 
 /** A fit replaces every result derived from the previous fit. */
 export const fitDone: Perform<FitView> = (s, fit) => {
@@ -148,21 +187,42 @@ export const fitDone: Perform<FitView> = (s, fit) => {
     score: null,
     batch: null,
     external: null,
-    notices: s.notices.filter((n) => n.kind === 'error' || !n.code),
+    notices: s.notices.filter((n) => n.code !== STALE_EXPORT_CODE && (n.kind === 'error' || !n.code)),
   };
   return withWarnings(cleared, fit.warnings);
 };
 
+/** The user's costs: both must be finite and above 0, else the state stays as it was. */
 export const setCosts: Perform<Partial<Costs>> = (s, costs) => {
   const next = { ...s.costs, ...costs };
-  if (!(next.missedCase > 0) || !(next.falseAlarm > 0)) return s;
-  return { ...s, costs: next };
+  const ok = (v: number) => Number.isFinite(v) && v > 0;
+  if (!ok(next.missedCase) || !ok(next.falseAlarm)) return s;
+  if (next.missedCase === s.costs.missedCase && next.falseAlarm === s.costs.falseAlarm) return s;
+  return { ...s, costs: next, costsSetByUser: true };
 };
 
+/** A cut-off set directly (counts as set by hand); kept within 0.001–0.999. */
 export const setThreshold: Perform<number> = (s, t) =>
-  Number.isFinite(t) ? { ...s, threshold: Math.min(0.999, Math.max(0.001, t)) } : s;
+  Number.isFinite(t) ? { ...s, threshold: Math.min(0.999, Math.max(0.001, t)), cutoffHow: 'hand' } : s;
 
-export const costsDone: Perform<CostView> = (s, costView) => ({ ...s, costView });
+/** The cut-off and how it was set (kept for the PDF's "how chosen"). */
+export const chooseCutoff: Perform<{ threshold: number; how: CutoffHow }> = (s, { threshold, how }) => {
+  const next = setThreshold(s, threshold);
+  return next === s ? s : { ...next, cutoffHow: how };
+};
+
+/** The cut-off a cost view proposes for `how` (null: none, e.g. flagging nobody is cheapest). */
+function proposed(view: CostView, how: CutoffHow): number | null {
+  if (how === 'cost-based') return view.optimal.decisionTheory.threshold;
+  if (how === 'cheapest') return view.optimal.empirical.threshold;
+  return null;
+}
+
+/** A new cost view; a cut-off set as cost-based or cheapest follows the new costs. */
+export const costsDone: Perform<CostView> = (s, costView) => {
+  const t = proposed(costView, s.cutoffHow);
+  return t === null ? { ...s, costView } : chooseCutoff({ ...s, costView }, { threshold: t, how: s.cutoffHow });
+};
 export const dropReportDone: Perform<MissingReport | null> = (s, dropReport) => ({ ...s, dropReport });
 export const thresholdDone: Perform<ThresholdView> = (s, thresholdView) => ({ ...s, thresholdView });
 export const imputedDone: Perform<ImputedView> = (s, imputed) => withWarnings({ ...s, imputed }, imputed.warnings);
@@ -196,7 +256,14 @@ export const dismiss: Perform<number> = (s, id) => ({ ...s, notices: s.notices.f
 /** The worker stopped: everything held in it is gone. */
 export const workerLost: Perform<string> = (s, text) =>
   notify(
-    { ...initialState, notices: s.notices, nextNoticeId: s.nextNoticeId, costs: s.costs, reportText: s.reportText },
+    {
+      ...initialState,
+      notices: s.notices,
+      nextNoticeId: s.nextNoticeId,
+      costs: s.costs,
+      costsSetByUser: s.costsSetByUser,
+      reportText: s.reportText,
+    },
     { kind: 'error', text, suggestion: 'Open your file or a demo again.', action: 'reload' },
   );
 
@@ -206,6 +273,14 @@ export const setReportText: Perform<Partial<ReportText>> = (s, text) => ({
   reportText: { ...s.reportText, ...text },
 });
 
+/** Odds ratios of a numeric predictor per `unit` (display only); a unit of 1 or an invalid one clears it. */
+export const setOddsUnit: Perform<{ term: string; unit: number }> = (s, { term, unit }) => {
+  const oddsUnits = { ...s.oddsUnits };
+  if (isOddsUnit(unit) && unit !== 1) oddsUnits[term] = unit;
+  else delete oddsUnits[term];
+  return { ...s, oddsUnits };
+};
+
 /**
  * A saved workspace came back (from this browser or a file): its data summary, then the roles, model options,
  * cut-off, costs and words it was saved with. Columns the data no longer have are ignored.
@@ -214,7 +289,7 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
   s,
   { summary, settings: w },
 ) => {
-  const loaded = dataLoaded({ ...s, data: null }, { ...summary, warnings: [] });
+  const loaded = loadSummary({ ...s, data: null }, { ...summary, warnings: [] }, false);
   const names = new Set(summary.columns.map((c) => c.name));
   const roles = { ...loaded.roles };
   for (const [name, r] of Object.entries(w.roles)) if (names.has(name)) roles[name] = r;
@@ -230,9 +305,14 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
     alpha: w.alpha,
     lambdaRule: w.lambdaRule,
     level: w.level,
+    maxIter: w.maxIter,
     costs: w.costs,
+    costsSetByUser:
+      w.costs.missedCase !== initialState.costs.missedCase || w.costs.falseAlarm !== initialState.costs.falseAlarm,
     threshold: w.threshold,
+    cutoffHow: 'restored',
     reportText: w.reportText,
+    oddsUnits: w.oddsUnits,
     importSettings: w.importSettings,
     view: w.view,
   };
@@ -261,10 +341,31 @@ export const changeRole: Intent<Parameters<typeof setPredictor>[1]> = { perform:
 /** An interaction added or removed: the drop report follows. */
 export const changeInteraction: Intent<[string, string]> = { perform: toggleInteraction, follows: modelChanged };
 
-/** The cut-off moved: with a model, the confusion matrix at the new cut-off follows. */
+const thresholdMoved = (b: AppState, a: AppState): Effect[] =>
+  a.fit && a.threshold !== b.threshold ? ['query-threshold'] : [];
+
+/** The cut-off moved by hand (the slider): with a model, the confusion matrix at the new cut-off follows. */
 export const moveCutoff: Intent<number> = {
-  perform: setThreshold,
-  follows: (b, a) => (a.fit && a.threshold !== b.threshold ? ['query-threshold'] : []),
+  perform: (s, t) => chooseCutoff(s, { threshold: t, how: 'hand' }),
+  follows: thresholdMoved,
+};
+
+/** The cost-based cut-off chosen (it then follows the costs); the confusion matrix follows. */
+export const useCostBasedCutoff: Intent<void> = {
+  perform: (s) => {
+    const t = s.costView && proposed(s.costView, 'cost-based');
+    return t === null || t === undefined ? s : chooseCutoff(s, { threshold: t, how: 'cost-based' });
+  },
+  follows: thresholdMoved,
+};
+
+/** The cheapest cut-off on these data chosen (it then follows the costs); the confusion matrix follows. */
+export const useCheapestCutoff: Intent<void> = {
+  perform: (s) => {
+    const t = s.costView && proposed(s.costView, 'cheapest');
+    return t === null || t === undefined ? s : chooseCutoff(s, { threshold: t, how: 'cheapest' });
+  },
+  follows: thresholdMoved,
 };
 
 /** A cost changed: with a model, the cost curve and the confusion matrix follow (a rejected cost changes nothing). */
@@ -278,7 +379,9 @@ export const readColumnAs: Intent<{ column: string; type: ColumnType }> = {
   perform: (s, { column, type }) =>
     setImportSettings(s, { columnTypes: { ...s.importSettings.columnTypes, [column]: type } }),
   follows: (b, a) =>
-    a.data?.source.kind === 'file' && a.importSettings.columnTypes !== b.importSettings.columnTypes ? ['reread'] : [],
+    a.data && a.data.source.kind !== 'demo' && a.importSettings.columnTypes !== b.importSettings.columnTypes
+      ? ['reread']
+      : [],
 };
 
 const REMEDY: Record<string, Notice['action']> = {

@@ -5,6 +5,7 @@ import type {
   BatchScoreView,
   Costs,
   CostView,
+  CutoffHow,
   ImputedView,
   DataSummary,
   ExternalView,
@@ -17,6 +18,7 @@ import type {
   ThresholdView,
   ValidationView,
 } from '../worker/protocol';
+import type { OddsUnits } from '../report/oddsUnits';
 
 export type ViewId = 'data' | 'model' | 'shape' | 'performance' | 'cutoff' | 'score';
 
@@ -33,7 +35,7 @@ export interface Notice {
   text: string;
   suggestion?: string;
   /** A one-click remedy the notice offers. */
-  action?: 'use-firth' | 'use-ridge' | 'reload' | 'start-afresh';
+  action?: 'use-firth' | 'use-ridge' | 'reload' | 'start-afresh' | 'refit';
   code?: string;
 }
 
@@ -77,11 +79,17 @@ export interface AppState {
   alpha: number;
   lambdaRule: 'min' | '1se';
   level: number;
+  /** Iteration limit of the standard, Firth and ridge fits (1–10000). */
+  maxIter: number;
   fit: FitView | null;
   /** The model settings changed after the last fit. */
   fitStale: boolean;
   costs: Costs;
+  /** False while the costs are still the default (nobody typed a cost). */
+  costsSetByUser: boolean;
   threshold: number;
+  /** How the current cut-off was set: cost-based, cheapest on the data, by hand, or restored from a workspace. */
+  cutoffHow: CutoffHow;
   thresholdView: ThresholdView | null;
   /** Rows the current roles would drop (complete-case analysis). */
   dropReport: MissingReport | null;
@@ -97,6 +105,8 @@ export interface AppState {
   external: ExternalView | null;
   /** The user's own words for the model summary (purpose, setting, population, notes). */
   reportText: ReportText;
+  /** Odds ratios per a chosen unit, by numeric predictor (display only; absent = per 1). */
+  oddsUnits: OddsUnits;
   /** When the workspace was last kept in this browser (ISO 8601), or null. */
   savedAt: string | null;
   jobs: Job[];
@@ -116,10 +126,13 @@ export const initialState: AppState = {
   alpha: 0.5,
   lambdaRule: '1se',
   level: 0.95,
+  maxIter: 50,
   fit: null,
   fitStale: false,
   costs: { missedCase: 10, falseAlarm: 1 },
+  costsSetByUser: false,
   threshold: 0.5,
+  cutoffHow: 'cost-based',
   thresholdView: null,
   dropReport: null,
   costView: null,
@@ -132,6 +145,7 @@ export const initialState: AppState = {
   batch: null,
   external: null,
   reportText: {},
+  oddsUnits: {},
   savedAt: null,
   jobs: [],
   notices: [],

@@ -57,6 +57,7 @@ export function createController(store: Store, client: WorkerClient): Controller
       if (fromNotice !== undefined) store.apply(A.dismiss, fromNotice);
       if (action === 'reload') store.apply(A.showView, 'data');
       else if (action === 'start-afresh') data.startAfresh();
+      else if (action === 'refit') await fit.fitModel();
       else {
         store.apply(A.chooseMethod, action === 'use-firth' ? 'firth' : 'ridge');
         await fit.fitModel();

@@ -4,6 +4,7 @@
  * rest of the set-up exactly (every column's role, method incl. lasso/elastic net, α, λ rule, reading options).
  */
 import type { Dataset } from '../engine/core';
+import { cleanOddsUnits } from '../report/oddsUnits';
 import type { Workspace } from '../io/export/workspaceFile';
 import type { DataSummary } from '../worker/protocol';
 import { buildSpec } from './actions';
@@ -20,9 +21,11 @@ export interface WorkbenchSettings extends Pick<
   | 'alpha'
   | 'lambdaRule'
   | 'level'
+  | 'maxIter'
   | 'threshold'
   | 'costs'
   | 'reportText'
+  | 'oddsUnits'
   | 'importSettings'
   | 'view'
 > {
@@ -47,9 +50,11 @@ export function settingsOf(s: AppState): WorkbenchSettings {
     alpha: s.alpha,
     lambdaRule: s.lambdaRule,
     level: s.level,
+    maxIter: s.maxIter,
     threshold: s.threshold,
     costs: s.costs,
     reportText: s.reportText,
+    oddsUnits: s.oddsUnits,
     importSettings: s.importSettings,
     view: s.view,
     fitted: s.fit !== null,
@@ -64,7 +69,11 @@ export function toWorkspace(s: AppState, held: HeldData | null, withData: boolea
     fileName: held?.summary.source.name ?? null,
     data: withData && held ? held.data : null,
     spec: 'spec' in built ? built.spec : null,
-    fitOptions: { ...(m === 'ml' || m === 'ridge' || m === 'firth' ? { method: m } : {}), level: s.level },
+    fitOptions: {
+      ...(m === 'ml' || m === 'ridge' || m === 'firth' ? { method: m } : {}),
+      level: s.level,
+      maxIter: s.maxIter,
+    },
     seed: null,
     threshold: s.threshold,
     costs: { ...s.costs },
@@ -78,6 +87,9 @@ export function toWorkspace(s: AppState, held: HeldData | null, withData: boolea
 }
 
 const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
+/** A saved iteration limit if it is one the engine accepts; otherwise (older workspaces: none) the default 50. */
+const maxIterOr = (v: unknown, fallback: number): number =>
+  Number.isInteger(v) && (v as number) >= 1 && (v as number) <= 10_000 ? (v as number) : fallback;
 
 /**
  * The settings of a saved workspace: taken from `extra.workbench` when Fulcra wrote it, otherwise rebuilt from
@@ -90,7 +102,8 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
     const saved = w as unknown as WorkbenchSettings;
     // Workspaces saved before the one method enum call elastic net 'elasticnet'.
     const method = (saved.method as string) === 'elasticnet' ? 'elastic-net' : saved.method;
-    return { ...base, ...saved, method };
+    const oddsUnits = cleanOddsUnits(saved.oddsUnits);
+    return { ...base, ...saved, method, maxIter: maxIterOr(saved.maxIter, base.maxIter), oddsUnits };
   }
   const roles: Record<string, PredictorRole> = {};
   const interactions: [string, string][] = [];
@@ -107,6 +120,7 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
     interactions,
     method: ws.fitOptions.method ?? 'ml',
     level: ws.fitOptions.level ?? base.level,
+    maxIter: maxIterOr(ws.fitOptions.maxIter, base.maxIter),
     threshold: ws.threshold ?? base.threshold,
     costs: ws.costs && ws.costs.missedCase > 0 && ws.costs.falseAlarm > 0 ? { ...ws.costs } : base.costs,
     reportText: { ...ws.freeText },

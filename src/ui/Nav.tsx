@@ -13,6 +13,7 @@ const VIEWS: { id: ViewId; label: string; needsFit: boolean }[] = [
 export function Nav() {
   const { ctl } = useEnv();
   const view = useApp((s) => s.view);
+  const quality = useApp((s) => s.reportText.cautions === 'quality');
   const fitted = useApp((s) => s.fit !== null);
   return (
     <nav aria-label="Workbench views" className="side">
@@ -30,7 +31,11 @@ export function Nav() {
           </li>
         ))}
       </ul>
-      <p className="caution-mini">Not a medical device. Follow local governance and licensed clinical judgement.</p>
+      <p className="caution-mini">
+        {quality
+          ? 'Not a validated measuring or control system. Follow your quality system and local procedures.'
+          : 'Not a medical device. Follow local governance and licensed clinical judgement.'}
+      </p>
     </nav>
   );
 }

@@ -7,6 +7,7 @@ const REMEDY_LABEL: Record<NonNullable<Notice['action']>, string> = {
   'use-ridge': 'Refit with a ridge penalty',
   reload: 'Go to the data view',
   'start-afresh': 'Start afresh',
+  refit: 'Refit the model',
 };
 
 /** The one place where errors and warnings are shown, each with its suggested action. */

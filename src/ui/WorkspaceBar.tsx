@@ -11,6 +11,12 @@ export function WorkspaceBar() {
   const hasData = useApp((s) => s.data !== null);
   const savedAt = useApp((s) => s.savedAt);
   const [confirming, setConfirming] = useState(false);
+  /** Set when the confirmation is cancelled: focus goes back to "Start afresh…". */
+  const refocus = useRef(false);
+  const keepWork = () => {
+    refocus.current = true;
+    setConfirming(false);
+  };
   const save = async () => {
     try {
       const file = await ctl.workspaceFile(FULCRA_VERSION);
@@ -40,16 +46,34 @@ export function WorkspaceBar() {
         Open a workspace file
       </button>
       {hasData && !confirming && (
-        <button type="button" onClick={() => setConfirming(true)}>
+        <button
+          type="button"
+          ref={(el) => {
+            if (el && refocus.current) {
+              refocus.current = false;
+              el.focus();
+            }
+          }}
+          onClick={() => setConfirming(true)}
+        >
           Start afresh…
         </button>
       )}
       {hasData && confirming && (
-        <span role="group" aria-label="Start afresh?">
+        <span
+          role="group"
+          aria-label="Start afresh?"
+          onKeyDown={(e) => {
+            if (e.key === 'Escape') {
+              e.preventDefault();
+              keepWork();
+            }
+          }}
+        >
           <span className="hint">Forget the data and all settings? </span>
+          {/* The safe choice has the focus: Enter or Escape keeps the work. */}
           <button
             type="button"
-            autoFocus
             onClick={() => {
               setConfirming(false);
               ctl.startAfresh();
@@ -57,7 +81,7 @@ export function WorkspaceBar() {
           >
             Yes, start afresh
           </button>{' '}
-          <button type="button" onClick={() => setConfirming(false)}>
+          <button type="button" autoFocus onClick={keepWork}>
             Keep my work
           </button>
         </span>

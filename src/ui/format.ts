@@ -45,3 +45,4 @@ export function finiteMax(values: readonly number[], fallback: number): number {
   for (const v of values) if (Number.isFinite(v) && v > m) m = v;
   return m === -Infinity ? fallback : m;
 }
+export { ordinal, plural } from '../engine/core';

@@ -17,7 +17,16 @@ import { checkImportBudget } from './budget';
 import { fitWithImputation } from './imputeOps';
 import { fitModel } from './modelOps';
 import { rowsWindow } from './profile';
-import type { Costs, DataSummary, FitRequest, Progress, ReportText } from './protocol';
+import type {
+  Costs,
+  CutoffOrigin,
+  DataSummary,
+  FitRequest,
+  LossSurfaceChoice,
+  Progress,
+  ReportRequestText,
+  ReportText,
+} from './protocol';
 import { createSession, openJob, requireData, requireRecord, tick, type Session } from './session';
 import { modelFileText, modelReport, pmmlText } from './reportOps';
 import { scoreImported, scoreOne } from './scoreOps';
@@ -136,7 +145,8 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     threshold: (t: number, costs: Costs) => guard(null, () => thresholdAt(session, t, costs)),
     costs: (costs: Costs) => guard(null, () => costView(session, costs)),
     riskCurve: (predictor: string) => guard(null, () => riskCurve(session, predictor, typical)),
-    lossSurface: (a: number, b: number) => guard(null, () => lossSurface(session, a, b)),
+    lossSurface: (a: number, b: number, choice?: LossSurfaceChoice) =>
+      guard(null, () => lossSurface(session, a, b, choice)),
     validate: (replicates: number, jobId: string, onProgress?: Progress) =>
       guard(jobId, () => validate(session, replicates, hooksFor(jobId, onProgress))),
     scoreOne: (values: Record<string, string | number | null>, threshold: number) =>
@@ -153,9 +163,9 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
         externalValidate(session, await readBytes(bytes, name, {}, { signal: h.signal, tick })),
       );
     },
-    modelReport: (costs: Costs, threshold: number, created: string, text: ReportText) =>
+    modelReport: (costs: Costs, threshold: number, created: string, text: ReportRequestText, origin?: CutoffOrigin) =>
       guard(null, () => {
-        const bytes = modelReport(session, costs, threshold, created, text);
+        const bytes = modelReport(session, costs, threshold, created, text, origin);
         return Comlink.transfer(bytes, [bytes.buffer]);
       }),
     modelFile: (costs: Costs, threshold: number, created: string, text: ReportText) =>

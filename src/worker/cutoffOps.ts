@@ -1,6 +1,7 @@
 import { FulcraError } from '../engine/core';
 import { atThreshold, costThresholds, expectedCostCurve } from '../engine/evaluation';
 import type { Costs, CostView, ThresholdView } from './protocol';
+import { CUTOFF_WINDOW_RULE, cutoffWindow, riskBins } from './riskBins';
 import type { Session } from './session';
 
 function prepared(s: Session) {
@@ -17,13 +18,28 @@ export function thresholdAt(s: Session, t: number, costs: Costs): ThresholdView 
   return { metrics, netBenefit, costs };
 }
 
-/** Cost-optimal cut-offs and the expected-cost curve for one setting of the costs. */
+/**
+ * Cost-optimal cut-offs and the expected-cost curve for one setting of the costs, with the binned risks of cases
+ * with and without the event (0–1 and, finer, in the window where the cost changes; never the risks themselves).
+ */
 export function costView(s: Session, costs: Costs): CostView {
   const prep = prepared(s);
-  const curve = expectedCostCurve(prep, costs);
+  const points = (c: { thresholds: number[]; costPer100: number[] }) =>
+    c.thresholds.map((x, i) => ({ x, y: c.costPer100[i] }));
+  const optimal = costThresholds(prep, costs);
+  const { from, to } = cutoffWindow(prep, [optimal.decisionTheory.threshold, optimal.empirical.threshold]);
+  const grid = Float64Array.from({ length: 121 }, (_, i) => from + ((to - from) * i) / 120);
   return {
     costs,
-    optimal: costThresholds(prep, costs),
-    curve: curve.thresholds.map((x, i) => ({ x, y: curve.costPer100[i] })),
+    optimal,
+    curve: points(expectedCostCurve(prep, costs)),
+    distribution: riskBins(prep, 0, 1, 50),
+    zoom: {
+      from,
+      to,
+      rule: CUTOFF_WINDOW_RULE,
+      curve: points(expectedCostCurve(prep, costs, grid)),
+      distribution: riskBins(prep, from, to, 40),
+    },
   };
 }

@@ -3,8 +3,12 @@ import { generateDemo, type DemoId } from '../engine/demo';
 import { proposeOutcomeEvent } from '../io';
 import type { ColumnInfo, ImportResult } from '../io/types';
 import { MAX_LEVELS, profileColumn, viewBins } from './profile';
+import type { CautionSetting } from '../report';
 import type { ColumnView, DataSummary } from './protocol';
 import type { Session } from './session';
+
+/** The setting each invented demo stands for: a surgical registry, a packaging plant. */
+const DEMO_CAUTIONS: Record<DemoId, CautionSetting> = { ssi: 'clinical', seals: 'quality' };
 
 /** Loads an invented demo into the session. */
 export function loadDemo(s: Session, id: DemoId): DataSummary {
@@ -15,6 +19,7 @@ export function loadDemo(s: Session, id: DemoId): DataSummary {
     columns: demo.dataset.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
     warnings: [],
     suggestedSpec: demo.spec,
+    cautions: DEMO_CAUTIONS[id],
     truth: demo.truth,
     format: null,
   });

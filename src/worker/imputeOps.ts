@@ -14,7 +14,9 @@ export async function fitWithImputation(s: Session, req: FitRequest, hooks: Hook
   const data = requireData(s);
   const method = req.method === 'firth' ? 'firth' : 'ml';
   const imp = await mice(data, req.spec, { m: 10, maxit: 10, seed: 1 }, { ...hooks, tick });
-  const pooled = await fitImputed(data, req.spec, imp, { method, level: req.level }, { signal: hooks.signal, tick });
+  const { level, maxIter } = resolveRequest(req);
+  const options = { method, level, maxIter } as const;
+  const pooled = await fitImputed(data, req.spec, imp, options, { signal: hooks.signal, tick });
   const view: ImputedView = {
     m: pooled.m,
     level: pooled.level,

@@ -6,6 +6,7 @@ import type { CoefficientRow, Costs, EngineWarning, FitResult, ModelSpec } from 
 import type { CostThresholds, ThresholdMetrics } from '../engine/evaluation';
 import type { AnalysisRequest, AnalysisRequestInput, LambdaRecord } from '../engine/workflow';
 import type { ImportFormat } from '../io/types';
+import type { CautionSetting } from '../report';
 
 export type InferredType = 'numeric' | 'binary' | 'categorical' | 'date' | 'identifier' | 'text';
 
@@ -36,6 +37,8 @@ export interface DataSummary {
   warnings: EngineWarning[];
   /** The model the demo was generated from (demos only). */
   suggestedSpec: ModelSpec | null;
+  /** The setting a demo is invented for, whose cautions apply (demos only). */
+  cautions?: CautionSetting;
   truth: { column: string | null; level?: string; value: number }[] | null;
   /** How the file was read (null for demos). */
   format: ImportFormat | null;
@@ -130,11 +133,36 @@ export interface ThresholdView {
   costs: Costs;
 }
 
+/** Counts of cases with and without the event per bin of predicted risk, bins [edges[i], edges[i + 1]). */
+export interface RiskBins {
+  edges: number[];
+  events: number[];
+  nonEvents: number[];
+  /** Cases whose risk lies below the first edge or at/above the last (outside the bins). */
+  below: { events: number; nonEvents: number };
+  above: { events: number; nonEvents: number };
+}
+
 /** Computed once per fit and per cost setting (not per slider move). */
 export interface CostView {
   costs: Costs;
   optimal: CostThresholds;
+  /** The expected-cost curve over cut-offs 0.01–0.99. */
   curve: CurvePoint[];
+  /** The predicted risks of cases with and without the event over 0–1. */
+  distribution: RiskBins;
+  /** The window where the cost changes (see `rule`), with the curve and the risks drawn finer inside it. */
+  zoom: { from: number; to: number; rule: string; curve: CurvePoint[]; distribution: RiskBins };
+}
+
+/** How the current cut-off was set on the page; the PDF says so. */
+export type CutoffHow = 'cost-based' | 'cheapest' | 'hand' | 'restored';
+
+/** What the PDF needs to say how the cut-off and the costs came about. */
+export interface CutoffOrigin {
+  how: CutoffHow;
+  /** False while the costs are still the default 10 : 1. */
+  costsSetByUser: boolean;
 }
 
 export interface RiskCurveView {
@@ -154,12 +182,35 @@ export interface LossSurfaceView {
   path: [number, number][];
   optimum: [number, number];
   penalised: boolean;
+  /** Axes per unit of each column or per SD of it, and the window (see LossSurfaceChoice). */
+  scale: LossSurfaceChoice['scale'];
+  window: LossSurfaceChoice['window'];
+  /** Half-width of the window in SEs, and whether the SEs exist (penalised fits: the engine's fallback). */
+  span: number;
+  seBased: boolean;
+}
+
+/**
+ * How the loss surface is drawn: per unit ('original') or per SD ('standardised') of each column; 'estimate': ±4 SE
+ * around the estimate; 'path': from the optimiser's start to the estimate.
+ */
+export interface LossSurfaceChoice {
+  scale: 'original' | 'standardised';
+  window: 'estimate' | 'path';
 }
 
 export interface ValidationView {
   replicates: number;
   metrics: { name: string; apparent: number; optimism: number; corrected: number; spread: number }[];
   warnings: EngineWarning[];
+}
+
+/** A numeric value outside the [min, max] of its predictor over the rows the model was fitted on. */
+export interface OutsideValue {
+  column: string;
+  value: number;
+  min: number;
+  max: number;
 }
 
 export interface ScoreView {
@@ -169,13 +220,22 @@ export interface ScoreView {
   eta: number;
   flagged: boolean;
   threshold: number;
+  /** The entered values that lie outside the fitted data (the risk is an extrapolation); empty when none. */
+  outside: OutsideValue[];
 }
 
 export interface BatchScoreView {
   n: number;
+  /** Rows scored, and rows skipped (missing values, or an unknown category: see `unknown`). */
   scored: number;
   skipped: number;
   preview: { row: number; risk: number; lower: number; upper: number }[];
+  /** Scored rows with a value outside the fitted data, and the first of them by spreadsheet row. */
+  outsideRows: number;
+  outsideFirst: { row: number; columns: string[] }[];
+  /** Rows skipped because a category was not seen when the model was fitted, and the first of them. */
+  unknownRows: number;
+  unknownFirst: { row: number; column: string; value: string }[];
   csv: string;
   warnings: EngineWarning[];
 }
@@ -184,6 +244,9 @@ export interface ExternalView {
   n: number;
   performance: PerformanceView;
   recalibration: { intercept: number; slope: number } | null;
+  /** Cases of the file that are also development cases (same outcome and design row); `sameCases`: all, both ways. */
+  sharedCases: number;
+  sameCases: boolean;
   warnings: EngineWarning[];
 }
 
@@ -195,6 +258,14 @@ export interface ReportText {
   setting?: string;
   population?: string;
   notes?: string;
+  /** Which cautions apply: clinical (the default) or industrial / quality (src/report/cautions.ts). */
+  cautions?: CautionSetting;
+}
+
+/** What the model-summary PDF is asked with: the user's words, and the page's display settings it follows. */
+export interface ReportRequestText extends ReportText {
+  /** The page's odds-ratio units by numeric predictor (the PDF's coefficient table follows them). */
+  oddsUnits?: Record<string, number>;
 }
 
 /** The model refitted on m multiply-imputed datasets and pooled by Rubin's rules. */

@@ -1,23 +1,27 @@
-import { atThreshold } from '../engine/evaluation';
+import { atThreshold, costThresholds, decisionTheoryThreshold } from '../engine/evaluation';
 import { datasetChecksum } from '../io/export/checksum';
 import { createModelFile, modelFileToJson } from '../io/export/modelFile';
 import { modelToPmml } from '../io/export/pmml';
 import { buildModelReport } from '../report/buildModelReport';
+import { cutoffRuleText } from '../report/cutoffRule';
+import { cautionSettingOf } from '../report/cautions';
 import { reportInputFromRecords } from '../report/fromEngine';
 import { FULCRA_VERSION } from '../report/version';
-import type { Costs, ReportText } from './protocol';
+import type { Costs, CutoffOrigin, ReportRequestText, ReportText } from './protocol';
 import { requireData, requireFit, requireRecord, type Session } from './session';
 
 /**
  * The model-summary PDF of the current model, built in the worker from the engine's own records (fit,
- * evaluation, bootstrap validation when run, sample-size check) with the cut-off and costs chosen on the page.
+ * evaluation, bootstrap validation when run, sample-size check) with the cut-off and costs chosen on the page,
+ * saying how the cut-off was set and whether the costs are the default (`origin`; without it: set by hand).
  */
 export function modelReport(
   s: Session,
   costs: Costs,
   threshold: number,
   created: string,
-  text: ReportText = {},
+  text: ReportRequestText = {},
+  origin: CutoffOrigin = { how: 'hand', costsSetByUser: true },
 ): Uint8Array {
   const record = requireRecord(s);
   const data = requireData(s);
@@ -38,15 +42,30 @@ export function modelReport(
       dataChecksum: datasetChecksum(data),
     },
     source: { fileName: s.summary?.source.name ?? 'data', rows: data.nRows, columns: data.columns.length },
-    freeText: { ...text, notes: [s.summary?.source.notice, text.notes].filter(Boolean).join(' ') || undefined },
+    freeText: {
+      purpose: text.purpose,
+      setting: text.setting,
+      population: text.population,
+      notes: [s.summary?.source.notice, text.notes].filter(Boolean).join(' ') || undefined,
+    },
+    cautionSetting: cautionSettingOf(text.cautions),
+    oddsUnits: text.oddsUnits,
     fit: record.fit,
     evaluation,
     validation: record.validation ?? undefined,
     sampleSize: record.sampleSize ?? undefined,
     costs,
-    thresholdRule: `chosen on the page; flag when the predicted risk is at least ${(100 * threshold).toFixed(1)}%`,
+    costsSetByUser: origin.costsSetByUser,
+    thresholdRule: cutoffRuleText({
+      how: origin.how,
+      threshold,
+      costs,
+      costBased: decisionTheoryThreshold(costs),
+      cheapest: s.prepared ? costThresholds(s.prepared, costs).empirical.threshold : null,
+    }),
     lambdaChoice,
     imputation: s.imputed ? { ...s.imputed, columns: s.imputed.imputedColumns } : undefined,
+    external: record.external ?? undefined,
     warnings: s.imputed?.warnings,
   });
   return buildModelReport(input);
@@ -70,7 +89,7 @@ export function modelFileText(
       fileName: s.summary?.source.name ?? null,
       rows: data.nRows,
       threshold: { value: threshold, costMissedCase: costs.missedCase, costFalseAlarm: costs.falseAlarm },
-      notes: { purpose: text.purpose, setting: text.setting, population: text.population },
+      notes: { purpose: text.purpose, setting: text.setting, population: text.population, notes: text.notes },
     }),
   );
 }

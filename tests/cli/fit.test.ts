@@ -159,9 +159,108 @@ describe('parseFitArgs', () => {
     [['d.csv', '--outcome', 'y', '--penalty', 'enet'], 'elastic-net'],
     [['d.csv', '--outcome', 'y', '--ridge', '1', '--penalty', 'lasso'], 'one of'],
     [['d.csv', '--outcome', 'y', '--lambda-rule', 'min'], 'cv-1se or cv-min'],
+    [['d.csv', '--outcome', 'y', '--max-iter', '0'], '--max-iter must be a whole number from 1 to 10000, got "0"'],
+    [['d.csv', '--outcome', 'y', '--max-iter', '12.5'], '--max-iter must be a whole number from 1 to 10000'],
+    [['d.csv', '--outcome', 'y', '--max-iter', '20000'], '--max-iter must be a whole number from 1 to 10000'],
+    [['d.csv', '--outcome', 'y', '--max-iter', 'many'], '--max-iter needs a number, got "many"'],
+    [['d.csv', '--outcome', 'y', '--lambda', '0.1'], '--lambda needs --penalty ridge, lasso or elastic-net'],
+    [['d.csv', '--outcome', 'y', '--ridge', '1', '--lambda', '0.1'], '--ridge L already sets λ'],
+    [['d.csv', '--outcome', 'y', '--penalty', 'lasso', '--lambda', '-1'], '--lambda must be a number ≥ 0'],
+    [['d.csv', '--outcome', 'y', '--penalty', 'ridge', '--lambda', '0'], '--penalty ridge needs --lambda > 0'],
+    [['d.csv', '--outcome', 'y', '--penalty', 'lasso', '--lambda', '0.1', '--lambda-rule', 'cv-min'], 'either'],
   ])('rejects %j with a message', (argv, text) => {
     expect(() => parseFitArgs(argv)).toThrow(FulcraError);
     expect(() => parseFitArgs(argv)).toThrow(text);
+  });
+});
+
+describe('the iteration limit and a fixed λ in npm run fit', () => {
+  const biopsy = ['tests/fixtures/data/biopsy.csv', '--outcome', 'class', '--event', 'malignant', '--firth'];
+
+  it('passes --max-iter to the Firth fit: 4 stops short on MASS::biopsy, the default converges', async () => {
+    const { runFit } = await import('../../src/cli/runFit');
+    const short = await runFit(parseFitArgs([...biopsy, '--max-iter', '4']), biopsy, 'test');
+    expect(short.request.maxIter).toBe(4);
+    expect([short.fit.converged, short.fit.iterations]).toEqual([false, 4]);
+    expect(short.warnings.map((w) => w.code)).toContain('not-converged');
+    const full = await runFit(parseFitArgs(biopsy), biopsy, 'test');
+    expect(full.request.maxIter).toBe(50);
+    expect(full.fit.converged).toBe(true);
+    expect(full.fit.iterations).toBeGreaterThan(4);
+    expect(full.warnings.map((w) => w.code)).not.toContain('not-converged');
+  }, 60_000);
+
+  it('states the penalised objective and the new options in --help', () => {
+    const help = execFileSync('npx', ['tsx', 'src/cli/fit.ts', '--help'], { encoding: 'utf8' });
+    expect(help).toContain('−(1/n)·loglik + λ·[(1−α)/2·‖β‖² + α·‖β‖₁]');
+    expect(help).toContain('unit population SD');
+    expect(help).toContain('intercept not penalised');
+    expect(help).toMatch(/--max-iter N\s+iteration limit/);
+    expect(help).toMatch(/--lambda L\s+a fixed lambda/);
+    expect(help).toMatch(/--ridge L\s+shorthand for --penalty ridge --lambda L/);
+  });
+
+  // R 4.2.2, glmnet 4.1.6: glmnet(family = 'binomial', thresh = 1e-16) on MASS::Pima.tr at fixed λ
+  // (glmnet-pima.R); the same tolerance as tests/engine/validate/lambdaPath.test.ts.
+  const glmnet = JSON.parse(readFileSync('tests/fixtures/reference/glmnet-pima.json', 'utf8')) as {
+    predictors: string[];
+    fixed: { alpha: number; lambda: number; coef: number[] }[];
+  };
+  const pima = ['tests/fixtures/data/validate-pima-tr.csv', '--outcome', 'type', '--event', 'Yes'];
+  it.each([
+    ['lasso', 1, 0.03],
+    ['lasso', 1, 0.1],
+    ['elastic-net', 0.5, 0.01],
+  ] as const)(
+    '--penalty %s (α = %s) --lambda %s matches glmnet at that λ, with no cross-validation',
+    (penalty, alpha, lambda) => {
+      const ref = glmnet.fixed.find((f) => f.alpha === alpha && f.lambda === lambda)!;
+      const argv = [
+        ...pima,
+        '--predictors',
+        glmnet.predictors.join(','),
+        '--penalty',
+        penalty,
+        '--lambda',
+        String(lambda),
+      ];
+      if (penalty === 'elastic-net') argv.push('--alpha', String(alpha));
+      const run = JSON.parse(
+        execFileSync('npx', ['tsx', 'src/cli/fit.ts', ...argv, '--json'], { encoding: 'utf8', maxBuffer: 64 << 20 }),
+      );
+      expect(run.fit.method).toBe(penalty);
+      expect(run.lambda).toMatchObject({ rule: 'fixed', alpha, chosen: lambda, folds: null, path: [] });
+      const est = (run.fit.coefficients as { estimate: number }[]).map((c) => c.estimate);
+      expect(est).toHaveLength(ref.coef.length);
+      est.forEach((b, k) => {
+        expect(Math.abs(b - ref.coef[k]) / Math.max(1, Math.abs(ref.coef[k]))).toBeLessThan(1e-6);
+        expect(b === 0).toBe(ref.coef[k] === 0);
+      });
+    },
+    60_000,
+  );
+
+  it('keeps --ridge L as a shorthand: the same record as --penalty ridge --lambda L', async () => {
+    const { runFit } = await import('../../src/cli/runFit');
+    const a = ['tests/fixtures/data/birthwt.csv', '--outcome', 'low', '--predictors', 'age,lwt,smoke,ht'];
+    const short = await runFit(parseFitArgs([...a, '--ridge', '0.05']), a, 'test');
+    const long = await runFit(parseFitArgs([...a, '--penalty', 'ridge', '--lambda', '0.05']), a, 'test');
+    expect(long.request).toEqual(short.request);
+    expect(long.fit.coefficients).toEqual(short.fit.coefficients);
+    expect(long.lambda).toMatchObject({ rule: 'fixed', chosen: 0.05 });
+  }, 60_000);
+
+  it('with a fixed λ, --cv K is repeated cross-validation of the procedure, not λ selection', async () => {
+    const { requestFromArgs } = await import('../../src/cli/runFit');
+    const spec = { outcome: 'y', terms: [] };
+    const fixed = requestFromArgs(
+      parseFitArgs(['d.csv', '--outcome', 'y', '--penalty', 'lasso', '--lambda', '0.1', '--cv', '5']),
+      spec,
+    );
+    expect(fixed).toMatchObject({ method: 'lasso', lambda: 0.1, folds: undefined });
+    expect(fixed.validation).toMatchObject({ method: 'repeated-cv', folds: 5 });
+    const cv = requestFromArgs(parseFitArgs(['d.csv', '--outcome', 'y', '--penalty', 'lasso', '--cv', '5']), spec);
+    expect(cv).toMatchObject({ method: 'lasso', lambda: undefined, folds: 5, validation: undefined });
   });
 });
 

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import * as A from '../../src/state/actions';
 import { initialState, type AppState } from '../../src/state/appState';
+import { requestOf } from '../../src/state/effects/fitting';
 import { createStore } from '../../src/state/store';
 import type { DataSummary, FitView } from '../../src/worker/protocol';
 
@@ -108,6 +109,19 @@ describe('state actions', () => {
     expect(s.notices.find((n) => n.code === 'few-events')?.action).toBe('use-ridge');
     s = A.chooseMethod(s, 'firth');
     expect(s.fitStale).toBe(true);
+  });
+
+  it('takes an iteration limit from 1 to 10000, marks the fit stale, and the fit request carries it', () => {
+    const ready = A.setPredictor(A.chooseOutcome(loaded(), { column: 'infected' }), {
+      column: 'age',
+      role: { include: true },
+    });
+    expect(ready.maxIter).toBe(50);
+    const s = A.setMaxIter({ ...ready, fit: {} as FitView, fitStale: false }, 300);
+    expect([s.maxIter, s.fitStale]).toEqual([300, true]);
+    for (const bad of [0, 10_001, 2.5, NaN]) expect(A.setMaxIter(s, bad)).toBe(s);
+    const r = requestOf(s);
+    expect('request' in r && r.request.maxIter).toBe(300);
   });
 
   it('offers Firth as the one-click remedy for separation', () => {

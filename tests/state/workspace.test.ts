@@ -140,7 +140,7 @@ describe('workspace kept in the browser', () => {
     expect(s.costs).toEqual({ missedCase: 20, falseAlarm: 2 });
     expect(s.threshold).toBe(0.15);
     expect(s.thresholdView?.metrics.threshold).toBe(0.15);
-    expect(s.reportText).toEqual({ purpose: 'Flag patients for wound review' });
+    expect(s.reportText).toEqual({ purpose: 'Flag patients for wound review', cautions: 'clinical' });
     expect(s.fit?.request).toEqual(then.fit?.request);
     expect(estimates(page.store)).toEqual(estimates(first.store));
     const notice = s.notices.find((n) => n.text.startsWith('Restored your work from'));

@@ -70,6 +70,14 @@ const CASES: Case[] = [
     request: { spec: { outcome: 'HG', event: '1', terms: main('NV', 'PI', 'EH') }, method: 'firth' },
   },
   {
+    // Endometrial needs 7 Firth iterations: a limit of 4 stops it short on both paths alike.
+    name: 'Firth with an iteration limit of 4',
+    file: 'endometrial.csv',
+    argv: ['--outcome', 'HG', '--firth', '--max-iter', '4'],
+    importOptions: {},
+    request: { spec: { outcome: 'HG', event: '1', terms: main('NV', 'PI', 'EH') }, method: 'firth', maxIter: 4 },
+  },
+  {
     name: 'lasso with λ by cross-validation',
     file: 'birthwt.csv',
     argv: ['--outcome', 'low', '--predictors', PREDICTORS.join(','), '--penalty', 'lasso'],
@@ -167,8 +175,18 @@ describe('the page and npm run fit give one record', () => {
     180_000,
   );
 
+  it('carries the iteration limit to the Firth fit on both paths (4: stopped short, not converged)', async () => {
+    const c = CASES.find((x) => x.name === 'Firth with an iteration limit of 4')!;
+    const [page, cli] = await Promise.all([throughWorker(c), throughCli(c)]);
+    for (const r of [page, cli.record] as AnalysisRecord[]) {
+      expect(r.request.maxIter).toBe(4);
+      expect([r.fit.converged, r.fit.iterations]).toEqual([false, 4]);
+      expect(r.warnings.find((w) => w.code === 'not-converged')?.message).toMatch(/did not converge in 4 iterations/);
+    }
+  }, 180_000);
+
   it('counts events per parameter by the smaller class on both paths (59 non-events, 8 coefficients)', async () => {
-    const c = CASES[1];
+    const c = CASES.find((x) => x.name.startsWith('a categorical with a reference level'))!;
     const [page, cli] = await Promise.all([throughWorker(c), throughCli(c)]);
     for (const r of [page, cli.record] as AnalysisRecord[]) {
       expect([r.fit.events, r.fit.nonEvents, r.fit.parameters]).toEqual([130, 59, 8]);

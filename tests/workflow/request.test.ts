@@ -3,6 +3,7 @@ import { FulcraError, type Dataset } from '../../src/engine/core';
 import {
   defaultAnalysisRequest,
   largeDataPlan,
+  pipelineOf,
   PROFILE_MAX_CELLS,
   resolveRequest,
   TERM_TESTS_MAX_CELLS,
@@ -23,10 +24,28 @@ describe('the analysis request', () => {
     [{ validation: { method: 'bootstrap', replicates: 0, seed: 1 } }, /validation/],
     [{ lambdaRule: '1se' }, /Unknown analysis option "lambdaRule"/],
     [{ method: 'ridge', lambda: 0 }, /Ridge needs lambda > 0/],
+    [{ maxIter: 0 }, /maxIter = 0 is not valid; expected a whole number from 1 to 10000/],
+    [{ maxIter: 2.5 }, /maxIter = 2\.5/],
+    [{ maxIter: 10_001 }, /maxIter = 10001/],
   ])('refuses %j, naming the value', (extra, message) => {
     const bad = () => resolveRequest({ spec, ...(extra as object) });
     expect(bad).toThrow(FulcraError);
     expect(bad).toThrow(message);
+  });
+});
+
+describe('the iteration limit', () => {
+  it('defaults to 50 and reaches the fit options of the procedure that bootstrap and CV re-run', () => {
+    const data: Dataset = { nRows: 1, columns: [] };
+    expect(resolveRequest({ spec }).maxIter).toBe(50);
+    for (const method of ['ml', 'firth'] as const) {
+      expect(pipelineOf(data, resolveRequest({ spec, method, maxIter: 7 })).fitOptions).toMatchObject({
+        method,
+        maxIter: 7,
+      });
+    }
+    const ridge = pipelineOf(data, resolveRequest({ spec, method: 'ridge', lambda: 0.1, maxIter: 300 }));
+    expect(ridge.fitOptions).toMatchObject({ method: 'ridge', lambda: 0.1, maxIter: 300 });
   });
 });
 

@@ -4,3 +4,4 @@ export * from './data';
 export * from './model';
 export * from './vectors';
 export * from './warnings';
+export * from './wording';

@@ -59,8 +59,15 @@ export interface CoefficientRow {
   p: number | null;
   waldLower: number | null;
   waldUpper: number | null;
+  /** Profile-likelihood limits (log-odds); null where not computed or unbounded (see the two flags below). */
   profileLower: number | null;
   profileUpper: number | null;
+  /**
+   * The profile limit runs to −∞ (lower) or +∞ (upper): the side a coefficient diverges to under separation.
+   * The number is then null (JSON has no infinity). Absent in records that predate the flags: read as false.
+   */
+  profileLowerUnbounded?: boolean;
+  profileUpperUnbounded?: boolean;
   oddsRatio: number;
   /** Dropped because it is a linear combination of earlier columns (aliased). estimate is 0 then. */
   aliased: boolean;
@@ -71,7 +78,10 @@ export interface TermRow {
   /** Indices into `coefficients`. */
   columns: number[];
   df: number;
-  /** Likelihood-ratio test of dropping the whole term (multi-df for categorical and spline terms). */
+  /**
+   * Likelihood-ratio test of dropping the whole term (multi-df for categorical and spline terms), on the likelihood
+   * named by FitResult.testLikelihood: a deviance difference for ML, a penalised-likelihood ratio for Firth.
+   */
   lrChi2: number | null;
   lrP: number | null;
 }
@@ -88,6 +98,11 @@ export interface DesignRecipe {
   >;
   /** Design column names, intercept first; same order as coefficients. */
   columnNames: string[];
+  /**
+   * [min, max] of each numeric predictor over the rows the model was fitted on (scoring warns outside it).
+   * Absent in recipes that predate it.
+   */
+  ranges?: Record<string, [number, number]>;
 }
 
 export interface FitResult {
@@ -100,14 +115,28 @@ export interface FitResult {
   iterations: number;
   coefficients: CoefficientRow[];
   terms: TermRow[];
-  /** Unpenalised −2·loglik at the estimate and for the intercept-only model. */
+  /**
+   * Unpenalised −2·loglik at the estimate and for the intercept-only model (for Firth too). Under separation the
+   * deviance is its limit (the determined rows' risks at 0/1 to machine precision).
+   */
   deviance: number;
   nullDeviance: number;
   logLik: number;
+  /**
+   * Firth: the penalised log-likelihood ℓ + ½·log det X'WX at the estimate (original design); null otherwise.
+   * Absent in records that predate it.
+   */
+  penalisedLogLik?: number | null;
+  /**
+   * The likelihood whose ratios modelLrChi2 and terms[].lrChi2 are: 'ordinary' (ML: differences of the unpenalised
+   * deviance) or 'penalised' (Firth: 2·(ℓ* of the fit − ℓ* with the columns fixed at 0), not a deviance
+   * difference). Absent in records that predate it: read 'penalised' when method is 'firth'.
+   */
+  testLikelihood?: 'ordinary' | 'penalised';
   /** null for penalised fits (the penalised estimate is not a likelihood maximum). */
   aic: number | null;
   bic: number | null;
-  /** Model likelihood-ratio test against the intercept-only model; null for penalised fits. */
+  /** Model likelihood-ratio test against the intercept-only model (see testLikelihood); null for penalised fits. */
   modelLrChi2: number | null;
   modelDf: number;
   modelLrP: number | null;

@@ -1,5 +1,7 @@
+import { plural } from '../core/wording';
 import { FulcraError, getColumn, sheetRow, type Column, type Dataset } from '../core/data';
 import type { DesignRecipe, ModelSpec } from '../core/model';
+import { absenceLevel, parseDecimal } from './levels';
 import { rcsBasis, rcsKnots } from './splines';
 import { warning, type EngineWarning } from '../core/warnings';
 import { allocF64 } from '../numerics/rowPool';
@@ -37,15 +39,7 @@ function columnsOfTerm(t: RecipeTerm): string[] {
   return t.type === 'interaction' ? [...t.parts] : [t.column];
 }
 
-const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-
-/** A plain decimal number written as text ("1.5", "-2e3"); NaN for anything else (blank, hex, "Infinity"). */
-export function parseDecimal(text: string): number {
-  const t = text.trim();
-  if (!DECIMAL.test(t)) return NaN;
-  const v = Number(t);
-  return Number.isFinite(v) ? v : NaN;
-}
+export { parseDecimal };
 
 /** Reads a column as numbers (categorical levels are parsed as decimals) or throws naming the column. */
 function numericGetter(col: Column): Getter {
@@ -449,10 +443,33 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
   return ordered[0] ?? '1';
 }
 
+/** [min, max] over `rows` of every column the terms read as numbers (numeric, spline, numeric interaction part). */
+function numericRanges(data: Dataset, terms: RecipeTerm[], rows: number[]): Record<string, [number, number]> {
+  const names = new Set<string>();
+  for (const t of terms) {
+    if (t.type === 'numeric' || t.type === 'spline') names.add(t.column);
+    if (t.type === 'interaction') for (const c of t.parts) if (getColumn(data, c).kind === 'numeric') names.add(c);
+  }
+  const out: Record<string, [number, number]> = {};
+  for (const name of names) {
+    const get = numericGetter(getColumn(data, name));
+    let lo = Infinity,
+      hi = -Infinity;
+    for (const r of rows) {
+      const v = get(r);
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+    out[name] = [lo, hi];
+  }
+  return out;
+}
+
 /**
  * Builds the fitting design (intercept first) and its recipe from a dataset and a model specification.
- * Numeric terms enter as is; categorical terms as k−1 indicators against the reference level (default: the most
- * frequent level among the rows used); spline terms as restricted cubic splines (splines.ts); interactions as
+ * Numeric terms enter as is; categorical terms as k−1 indicators against the reference level (default: the
+ * absence level of a two-level column such as 0/1, FALSE/TRUE or no/yes (levels.ts), else the most frequent
+ * level among the rows used); spline terms as restricted cubic splines (splines.ts); interactions as
  * products of the parts' main-effect columns. Complete-case analysis: rows with any used value missing are dropped.
  */
 export function buildDesign(data: Dataset, spec: ModelSpec): Design {
@@ -511,16 +528,23 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     const col = getColumn(data, t.column);
     if (t.type === 'spline') {
       const get = numericGetter(col);
-      recipeTerms.push({
-        type: 'spline',
-        name,
-        column: t.column,
-        knots: rcsKnots(
-          rows.map((r) => get(r)),
-          t.knots,
-          t.column,
-        ),
-      });
+      const knots = rcsKnots(
+        rows.map((r) => get(r)),
+        t.knots,
+        t.column,
+      );
+      if (knots.length < t.knots) {
+        warnings.push(
+          warning(
+            'spline-knots-reduced',
+            `"${t.column}" has too many tied or too few distinct values for ${t.knots} distinct knots; the spline ` +
+              `has ${knots.length} knots instead of ${t.knots}.`,
+            'Ask for fewer knots, or enter the column as a plain numeric term.',
+            [name],
+          ),
+        );
+      }
+      recipeTerms.push({ type: 'spline', name, column: t.column, knots });
       continue;
     }
     if (col.kind === 'numeric') {
@@ -532,13 +556,15 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     const levels = col.levels.filter((_, k) => counts[k] > 0);
     let reference = t.reference;
     if (reference === undefined) {
+      reference = absenceLevel(levels) ?? undefined;
       let best = -1;
-      col.levels.forEach((l, k) => {
-        if (counts[k] > best) {
-          best = counts[k];
-          reference = l;
-        }
-      });
+      if (reference === undefined)
+        col.levels.forEach((l, k) => {
+          if (counts[k] > best) {
+            best = counts[k];
+            reference = l;
+          }
+        });
     } else if (!levels.includes(reference)) {
       throw new FulcraError(
         'unknown-reference',
@@ -557,11 +583,13 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     }
     recipeTerms.push({ type: 'categorical', name, column: t.column, levels, reference: reference! });
   }
-  const recipe: DesignRecipe = { outcome: spec.outcome, event, terms: recipeTerms, columnNames: [] };
+  const ranges = numericRanges(data, recipeTerms, rows);
+  const recipe: DesignRecipe = { outcome: spec.outcome, event, terms: recipeTerms, columnNames: [], ranges };
   const enc = designFromRecipe(recipe, data);
   recipe.columnNames = enc.columnNames;
   if (enc.nDropped > 0) {
-    const lead = `${enc.nDropped} of ${data.nRows} rows were left out because of missing values`;
+    const verb = enc.nDropped === 1 ? 'was' : 'were';
+    const lead = `${enc.nDropped} of ${plural(data.nRows, 'row')} ${verb} left out because of missing values`;
     const hint = 'Check whether the missing values are related to the outcome; if so, consider imputation.';
     warnings.push(droppedRowsWarning('rows-dropped', lead, hint, enc.droppedByColumn, true));
   }

@@ -37,9 +37,9 @@ export interface CalibrationCurveOptions {
 }
 
 /**
- * Flexible calibration curve: logistic regression of y on a restricted cubic spline of the linear
- * predictor eta (knots at Harrell's quantiles of eta, type 7), maximum likelihood. The band is a pointwise
- * Wald interval on the logit scale, transformed back. ICI/E50/E90/Emax compare each case's risk with its
+ * Flexible calibration curve: logistic regression of y on a restricted cubic spline of the linear predictor eta
+ * (knots at Harrell's default placement, harrellKnots, as Hmisc rcspline.eval), maximum likelihood. The band is a
+ * pointwise Wald interval on the logit scale, transformed back. ICI/E50/E90/Emax compare each case's risk with its
  * recalibrated risk (Austin & Steyerberg 2019, with the spline instead of loess).
  */
 export function calibrationCurve(

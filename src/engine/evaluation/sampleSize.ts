@@ -1,3 +1,4 @@
+import { plural } from '../core/wording';
 import { FulcraError } from '../core/data';
 import { qnorm } from '../numerics/distributions';
 import { warning, type EngineWarning } from '../core/warnings';
@@ -42,9 +43,16 @@ export interface SampleSizeInput {
 
 export interface SampleSizeCriterion {
   id: 'i' | 'ii' | 'iii';
+  /** What falling short of it risks: (i) and (ii) over-fitting, (iii) an imprecise overall risk. */
+  concerns: 'overfitting' | 'overall-risk';
+  /** The cases it requires (and the events and events per parameter they hold). */
   n: number;
   events: number;
   eventsPerParameter: number;
+  /** Whether the data at hand have that many cases and events; null when no data were given. */
+  met: boolean | null;
+  /** What it means for this model when the criterion is not met, in plain words. */
+  consequence: string;
   text: string;
 }
 
@@ -63,12 +71,39 @@ export interface SampleSizeResult {
   warnings: EngineWarning[];
 }
 
+const list = (ids: string[], word: 'and' | 'or') =>
+  ids.length === 1 ? ids[0] : `${ids.slice(0, -1).join(', ')} ${word} ${ids[ids.length - 1]}`;
+
+const SHRINK_OR_FEWER = 'shrink the coefficients (a penalised fit) or use fewer parameters';
+
+/**
+ * The data's verdict over the criteria: which are met and which not, then the consequence of each kind of
+ * shortfall (over-fitting for (i)/(ii), an imprecise overall risk for (iii)), so that failing (iii) alone is not
+ * read as over-fitting.
+ */
+function verdict(criteria: SampleSizeCriterion[]): string {
+  const ids = (met: boolean) => criteria.filter((c) => c.met === met).map((c) => `(${c.id})`);
+  const [yes, no] = [ids(true), ids(false)];
+  if (no.length === 0) return 'meet all three criteria.';
+  const over = criteria.some((c) => c.concerns === 'overfitting' && c.met === false);
+  const risk = criteria.find((c) => c.concerns === 'overall-risk' && c.met === false);
+  const guard = over ? '' : ', which guard against over-fitting,';
+  const met = yes.length
+    ? `meet criteri${yes.length > 1 ? 'a' : 'on'} ${list(yes, 'and')}${guard} but not ${list(no, 'or')}`
+    : `meet none of ${list(no, 'or')}`;
+  const overText = `expect over-fitting; ${SHRINK_OR_FEWER}.`;
+  const riskText = risk ? risk.consequence.charAt(0).toLowerCase() + risk.consequence.slice(1) : '';
+  return `${met}: ${over && risk ? `${overText} Also, ${riskText}` : over ? overText : riskText}`;
+}
+
 /**
  * Minimum sample size for a binary-outcome prediction model, Riley et al. (2020, BMJ 368:m441), criteria
  * (i) expected shrinkage ≥ S: n = P / ((S − 1)·ln(1 − R²cs/S));
  * (ii) optimism in Nagelkerke R² ≤ δ: the same with S = R²cs / (R²cs + δ·max R²cs);
  * (iii) overall risk within ± margin: n = (z/margin)²·φ(1 − φ).
- * Each n is rounded up; the required n is the largest.
+ * Each n is rounded up; the required n is the largest. With the data at hand, each criterion gets its own
+ * verdict (`met`) and consequence: (i) and (ii) guard against over-fitting, (iii) the precision of the overall
+ * risk, so falling short of (iii) alone does not mean an over-fitted model.
  */
 export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   const { parameters: P, outcomeProportion: phi } = input;
@@ -123,27 +158,55 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
   const sVh = r2 / (r2 + delta * maxR2);
   const z = qnorm(0.975);
   const n3 = Math.ceil((z / margin) ** 2 * phi * (1 - phi) - 1e-9);
-  const mk = (id: 'i' | 'ii' | 'iii', n: number, text: string): SampleSizeCriterion => ({
-    id,
-    n,
-    events: Math.ceil(n * phi - 1e-9),
-    eventsPerParameter: (n * phi) / P,
-    text,
-  });
+  const { actual: at } = input;
+  if (at && !(at.n >= 0 && at.events >= 0 && at.events <= at.n))
+    throw new FulcraError(
+      'bad-count',
+      `The data at hand must have 0 ≤ events ≤ n, got ${at.events} events in ${at.n}.`,
+    );
+  const mk = (id: 'i' | 'ii' | 'iii', n: number, text: string, consequence: string): SampleSizeCriterion => {
+    const events = Math.ceil(n * phi - 1e-9);
+    return {
+      id,
+      concerns: id === 'iii' ? 'overall-risk' : 'overfitting',
+      n,
+      events,
+      eventsPerParameter: (n * phi) / P,
+      met: at ? at.n >= n && at.events >= events : null,
+      consequence,
+      text:
+        `${text} you need at least ${n} cases (${events} events, ${((n * phi) / P).toFixed(1)} events ` +
+        `per parameter).`,
+    };
+  };
   const criteria = [
     mk(
       'i',
       nFor(S),
       `(i) For the model's predictions to need shrinking by no more than ${Math.round((1 - S) * 100)}% ` +
         `(expected shrinkage factor ≥ ${S})`,
+      `Expect over-fitting: predictions too extreme (expected shrinkage below ${S}); ${SHRINK_OR_FEWER}.`,
     ),
-    mk('ii', nFor(sVh), `(ii) For the apparent Nagelkerke R² to exceed the true one by no more than ${delta}`),
-    mk('iii', n3, `(iii) To estimate the overall outcome risk within ±${margin} (95% confidence)`),
+    mk(
+      'ii',
+      nFor(sVh),
+      `(ii) For the apparent Nagelkerke R² to exceed the true one by no more than ${delta}`,
+      `Expect over-fitting: the apparent Nagelkerke R² overstates the true one by more than ${delta}; ` +
+        `${SHRINK_OR_FEWER}.`,
+    ),
+    mk(
+      'iii',
+      n3,
+      `(iii) To estimate the overall outcome risk within ±${margin} (95% confidence)`,
+      `The overall risk (intercept) is imprecise: the model's average risk may be off by more than ±${margin}.`,
+    ),
   ];
-  for (const c of criteria)
-    c.text +=
-      ` you need at least ${c.n} cases (${c.events} events, ${c.eventsPerParameter.toFixed(1)} events ` +
-      `per parameter).`;
+  if (at) {
+    for (const c of criteria)
+      c.text += c.met
+        ? ` Met by your ${plural(at.n, 'case')} (${plural(at.events, 'event')}).`
+        : ` Not met by your ${plural(at.n, 'case')} (${plural(at.events, 'event')}). ${c.consequence}`;
+  }
   const bindingC = criteria.reduce((a, b) => (b.n > a.n ? b : a));
   const r2Source = source === 'given' ? '' : source === 'fitted-model' ? ' (from the fitted model)' : ' (assumed)';
   const summary = [
@@ -155,17 +218,13 @@ export function riley2020SampleSize(input: SampleSizeInput): SampleSizeResult {
     ...criteria.map((c) => c.text),
   ];
   let actual: SampleSizeResult['actual'] = null;
-  if (input.actual) {
-    const { n, events } = input.actual;
-    if (!(n >= 0 && events >= 0 && events <= n))
-      throw new FulcraError('bad-count', `The data at hand must have 0 ≤ events ≤ n, got ${events} events in ${n}.`);
-    const enough = n >= bindingC.n && events >= bindingC.events;
+  if (at) {
+    const { n, events } = at;
+    const enough = criteria.every((c) => c.met);
     actual = { n, events, eventsPerParameter: events / P, enough };
     summary.push(
-      enough
-        ? `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) meet this.`
-        : `Your data (${n} cases, ${events} events, ${(events / P).toFixed(1)} per parameter) fall short: ` +
-            `expect an over-fitted model; use fewer parameters or a penalised fit.`,
+      `Your data (${plural(n, 'case')}, ${plural(events, 'event')}, ${(events / P).toFixed(1)} per parameter) ` +
+        verdict(criteria),
     );
   }
   return {

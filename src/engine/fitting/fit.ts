@@ -4,10 +4,10 @@ import { warning, type EngineWarning } from '../core/warnings';
 import { destandardiseMap } from '../numerics/standardise';
 import { validateFitOptions, type EngineFitOptions } from './fitOptions';
 import { informationCriteria, nullDeviance, originalCovariance, waldTable, type WaldRow } from './inference';
-import { newtonLogistic } from './newton';
-import { eventCounts, originalScaleBeta, prepareFit } from './prepareFit';
-import { profileLimits } from './profileLimits';
-import { detectSeparation, separationWarning } from './separation';
+import { newtonLogistic, type NewtonResult } from './newton';
+import { eventCounts, originalScaleBeta, prepareFit, type PreparedFit } from './prepareFit';
+import { profileLimits, separatedProfileLimits, type Limits } from './profileLimits';
+import { detectSeparation, fitToLimit, noSeparation, separationWarning } from './separation';
 import { modelTest, termTests } from './termTests';
 
 /**
@@ -25,21 +25,34 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const { n, p, y } = design;
   const ridge = o.method === 'ridge';
 
-  const nr = newtonLogistic(prep.problem, { tol: o.tol, maxIter: o.maxIter, recordPath: o.method === 'ml' });
-  const sep = o.method === 'ml' ? detectSeparation(nr, y) : { kind: 'none' as const, columns: [], determinedRows: 0 };
+  const nrPath = newtonLogistic(prep.problem, { tol: o.tol, maxIter: o.maxIter, recordPath: o.method === 'ml' });
+  const sep =
+    o.method === 'ml'
+      ? detectSeparation(
+          nrPath,
+          y,
+          Float64Array.from(keep, (j) => prep.std.centerOverScale[j]),
+          prep.problem.X,
+        )
+      : noSeparation(keep.length);
+  const separated = sep.kind !== 'none';
+  // Under separation every statistic is the limiting one: the deviance at the iterate where the determined rows'
+  // risks are 0/1 to machine precision, and refits without a term taken to their limits likewise.
+  const nr = separated ? fitToLimit({ ...prep.problem, start: nrPath.beta }, Math.min(o.tol, 1e-12)) : nrPath;
   const sepCols = new Set(sep.columns.map((k) => keep[k]));
-  const sepWarning = separationWarning(sep, sepCols, design.columnTerms, n, nr.converged, o.maxIter);
+  const sepWarning = separationWarning(sep, sepCols, design, n, nrPath.converged, o.maxIter);
   if (sepWarning) warnings.push(sepWarning);
 
-  const beta = originalScaleBeta(prep, nr.beta);
-  let covariance = ridge ? null : originalCovariance(nr.information, keep, p, destandardiseMap(prep.std));
-  // Under separation only the columns that do not diverge keep their (limiting) Wald inference.
-  const wald = covariance ? waldTable(beta, covariance, o.level) : [];
-  if (sep.kind !== 'none') covariance = null;
-  const profiles =
-    o.profile && covariance
-      ? profileLimits(prep, nr, beta, (j) => wald[j]?.se ?? NaN, o.level, Math.max(o.maxIter, 100))
-      : [];
+  const beta = originalScaleBeta(prep, nrPath.beta);
+  let covariance = ridge ? null : originalCovariance(nrPath.information, keep, p, destandardiseMap(prep.std));
+  // Under quasi-separation only the coefficients that stay finite keep their (limiting) Wald inference; under
+  // complete separation none do (every row is determined, the information vanishes).
+  const wald = covariance && sep.kind !== 'complete' ? waldTable(beta, covariance, o.level) : [];
+  if (separated) covariance = null;
+  let profiles: Limits[] = [];
+  if (o.profile && separated) profiles = separatedProfileLimits(prep, nr, sep, o.level, Math.min(o.tol, 1e-12));
+  else if (o.profile && covariance)
+    profiles = profileLimits(prep, nr, beta, (j) => wald[j]?.se ?? NaN, o.level, Math.max(o.maxIter, 100));
 
   const deviance = -2 * nr.logLik;
   const nullDev = nullDeviance(y);
@@ -52,13 +65,15 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
     method: o.method,
     lambda: ridge ? o.lambda : 0,
     level: o.level,
-    converged: nr.converged,
-    iterations: nr.iterations,
+    converged: nrPath.converged,
+    iterations: nrPath.iterations,
     coefficients: coefficientRows(prep.design, beta, prep.aliased, (j) => (sepCols.has(j) ? null : wald[j]), profiles),
-    terms: termTests(prep, nr, o, !ridge && o.termTests),
+    terms: termTests(prep, nr, o, !ridge && o.termTests, separated),
     deviance,
     nullDeviance: nullDev,
     logLik: nr.logLik,
+    penalisedLogLik: o.method === 'firth' ? penalisedLogLik(prep, nr) : null,
+    testLikelihood: o.method === 'firth' ? 'penalised' : 'ordinary',
     aic: ridge ? null : aic,
     bic: ridge ? null : bic,
     modelLrChi2: ridge ? null : modelLrChi2,
@@ -80,7 +95,7 @@ function coefficientRows(
   beta: Float64Array,
   aliased: boolean[],
   waldOf: (j: number) => WaldRow | null | undefined,
-  profiles: ({ lower: number | null; upper: number | null } | null)[],
+  profiles: Limits[],
 ): CoefficientRow[] {
   return design.columnNames.map((name, j) => {
     const w = waldOf(j) ?? null;
@@ -96,10 +111,22 @@ function coefficientRows(
       waldUpper: w?.upper ?? null,
       profileLower: profiles[j]?.lower ?? null,
       profileUpper: profiles[j]?.upper ?? null,
+      profileLowerUnbounded: profiles[j]?.lowerUnbounded === true,
+      profileUpperUnbounded: profiles[j]?.upperUnbounded === true,
       oddsRatio: Number.isFinite(or) ? or : Number.MAX_VALUE,
       aliased: aliased[j],
     };
   });
+}
+
+/**
+ * ℓ*(β̂) = ℓ + ½·log det X'WX on the original design: the solver's objective is on the standardised kept columns,
+ * X_std = X·A with det A = Π 1/s_j (slopes), so log det X'WX = log det X_std'WX_std + 2·Σ log s_j.
+ */
+function penalisedLogLik(prep: PreparedFit, nr: NewtonResult): number {
+  let logScale = 0;
+  for (const j of prep.keep) if (j > 0) logScale += Math.log(prep.std.scale[j]);
+  return -prep.problem.n * nr.objective + logScale;
 }
 
 function ridgeWarning(lambda: number): EngineWarning {

@@ -12,8 +12,19 @@ export interface LossSurfaceOptions {
   j: number;
   /** Grid points per axis (default 41). */
   grid: number;
-  /** Half-width of the window in standard errors (default 3); the window also covers the optimiser's path. */
+  /** Half-width of the window in standard errors (default 3). */
   span: number;
+  /**
+   * Axes per unit of each design column ('original', the default) or per standard deviation of it ('standardised':
+   * β·s with s the column's population SD; the intercept then is the log-odds at the columns' means).
+   */
+  scale: 'original' | 'standardised';
+  /**
+   * 'path' (default): ±span SE around the estimate, widened (and padded by 5 %) to hold the optimiser's whole path;
+   * 'estimate': exactly ±span SE around the estimate, so the path may leave it. Without SEs (penalised fits) one
+   * "SE" is max(½·|β̂|, ½ per SD of the column; ½ for the intercept).
+   */
+  window: 'path' | 'estimate';
 }
 
 export interface LossSurface {
@@ -23,10 +34,17 @@ export interface LossSurface {
   y: number[];
   /** Row-major G×G: z[a·G + b] = objective at (x[b], y[a]), other coefficients at their estimates. */
   z: number[];
+  /** The estimate on the axes' scale. */
   estimate: [number, number];
+  scale: 'original' | 'standardised';
+  window: 'path' | 'estimate';
+  /** Half-width span·SE of each axis around the estimate (before any widening for the path), on the axes' scale. */
+  halfWidth: [number, number];
+  /** Both half-widths come from standard errors (false: the fallback of a fit without SEs). */
+  seBased: boolean;
   /** Objective at the estimate. */
   minimum: number;
-  /** Newton iterates (start first) projected on the two coefficients. */
+  /** Newton iterates (start first) projected on the two coefficients, on the axes' scale. */
   path: { x: number[]; y: number[] };
   /**
    * What z is: mean cross-entropy, plus the ridge penalty (λ/2)·Σβ_std² for ridge fits, or Firth's −½·log det(X'WX)/n
@@ -49,14 +67,14 @@ export const SURFACE_WORK_LIMIT = 5e8;
 /**
  * Objective surface for the loss plot: mean cross-entropy (plus the ridge or Firth penalty) over a grid of two
  * coefficients around the estimate, the others held at their estimates, with the Newton path from the zero start
- * re-run on the same data and projected on the pair. Coefficients on the original scale.
+ * re-run on the same data and projected on the pair. Coefficients on the original scale, or per SD of each column.
  */
 export function lossSurface(
   result: FitResult,
   data: Dataset,
   options: Partial<LossSurfaceOptions> & { i: number; j: number },
 ): LossSurface {
-  const { i, j, grid = 41, span = 3 } = options;
+  const { i, j, grid = 41, span = 3, scale: axisScale = 'original', window = 'path' } = options;
   const coefs = result.coefficients;
   for (const k of [i, j]) {
     if (!Number.isInteger(k) || k < 0 || k >= coefs.length)
@@ -68,12 +86,22 @@ export function lossSurface(
   if (!Number.isInteger(grid) || grid < 3 || grid > 201)
     throw new FulcraError('bad-argument', `grid must be an integer from 3 to 201, got ${grid}.`);
   if (!(span > 0)) throw new FulcraError('bad-argument', `span must be > 0, got ${span}.`);
+  if (axisScale !== 'original' && axisScale !== 'standardised')
+    throw new FulcraError('bad-argument', `scale must be "original" or "standardised", got ${String(axisScale)}.`);
+  if (window !== 'path' && window !== 'estimate')
+    throw new FulcraError('bad-argument', `window must be "path" or "estimate", got ${String(window)}.`);
 
   const d = designFromRecipe(result.recipe, data);
   const { X, n, p } = d;
   const y = d.y!;
   const beta = coefs.map((c) => c.estimate);
-  const { Z, scale, centerOverScale } = standardise(X, n, p);
+  const { Z, scale, center, centerOverScale } = standardise(X, n, p);
+  const std = axisScale === 'standardised';
+  // The estimate on the axes' scale: β·s per SD; the intercept at the columns' means, β₀ + Σ β·centre.
+  const interceptStd = beta.reduce((t, b, m) => (m === 0 || b === 0 ? t : t + b * center[m]), beta[0]);
+  const centreOf = (k: number): number => (!std ? beta[k] : k === 0 ? interceptStd : beta[k] * scale[k]);
+  const ci = centreOf(i),
+    cj = centreOf(j);
   const keep = coefs.flatMap((c, k) => (c.aliased ? [] : [k]));
   const Zk = new Float64Array(n * keep.length);
   keep.forEach((c, k) => Zk.set(Z.subarray(c * n, (c + 1) * n), k * n));
@@ -92,6 +120,7 @@ export function lossSurface(
   const toOriginal = (bk: Float64Array): [number, number] => {
     const full = new Float64Array(p);
     keep.forEach((c, k) => (full[c] = bk[k]));
+    if (std) return [full[i], full[j]]; // Newton ran on the standardised design: its iterates are per SD already
     const orig = (c: number) =>
       c === 0
         ? full[0] - full.reduce((s, b, m) => (m === 0 || b === 0 ? s : s + b * centerOverScale[m]), 0)
@@ -116,9 +145,11 @@ export function lossSurface(
     n * grid * grid > SURFACE_WORK_LIMIT
       ? Math.min(n, Math.max(20_000, Math.floor(SURFACE_WORK_LIMIT / (grid * grid))))
       : n;
+  // η moves by Δ·(column) along an axis: the design column per unit, the standardised column per SD.
+  const axisColumns = std ? Z : X;
   let ev = etaBase,
-    Xi = X.subarray(i * n, (i + 1) * n),
-    Xj = X.subarray(j * n, (j + 1) * n),
+    Xi = axisColumns.subarray(i * n, (i + 1) * n),
+    Xj = axisColumns.subarray(j * n, (j + 1) * n),
     yv = y;
   // Subsample z = value and slope at the estimate from every row + the subsample's change beyond the linear term:
   // shift[0] + shift[1]·(bᵢ − β̂ᵢ) + shift[2]·(bⱼ − β̂ⱼ) is added, so the grid's minimum stays at the estimate.
@@ -142,11 +173,11 @@ export function lossSurface(
     const part = moments(ev, Xi, Xj, yv);
     for (let t = 0; t < 3; t++) shift[t] = full[t] - part[t];
   }
-  const shifted = (bi: number, bj: number): number => shift[0] + shift[1] * (bi - beta[i]) + shift[2] * (bj - beta[j]);
+  const shifted = (bi: number, bj: number): number => shift[0] + shift[1] * (bi - ci) + shift[2] * (bj - cj);
   /** Σ case losses over the m rows, coefficients i, j at (bi, bj), the others at their estimates; fills w for Firth. */
   const lossSum = (bi: number, bj: number): number => {
-    const di = bi - beta[i],
-      dj = bj - beta[j];
+    const di = bi - ci,
+      dj = bj - cj;
     let s = 0;
     for (let r = 0; r < m; r++) {
       const e = ev[r] + di * Xi[r] + dj * Xj[r];
@@ -155,10 +186,9 @@ export function lossSurface(
     }
     return s;
   };
+  const perSd = (k: number, b: number): number => (k === 0 ? 0 : std ? b : b * scale[k]);
   const penalty = (bi: number, bj: number): number =>
-    ridge
-      ? 0.5 * result.lambda * (penBase + (i > 0 ? (bi * scale[i]) ** 2 : 0) + (j > 0 ? (bj * scale[j]) ** 2 : 0))
-      : 0;
+    ridge ? 0.5 * result.lambda * (penBase + perSd(i, bi) ** 2 + perSd(j, bj) ** 2) : 0;
   const objective = (bi: number, bj: number): number => {
     const s = lossSum(bi, bj);
     let pen = penalty(bi, bj);
@@ -167,21 +197,38 @@ export function lossSurface(
   };
   let binary = true;
   for (let r = 0; r < m && binary; r++) binary = yv[r] === 0 || yv[r] === 1;
-  const axis = (k: number, c: 0 | 1): number[] => {
-    const se = coefs[k].se ?? Math.max(0.5 * Math.abs(beta[k]), k === 0 ? 0.5 : 0.5 / scale[k]);
-    let lo = beta[k] - span * se,
-      hi = beta[k] + span * se;
-    for (const pt of pts) {
-      lo = Math.min(lo, pt[c]);
-      hi = Math.max(hi, pt[c]);
+  const V = result.covariance;
+  /** The SE on the axes' scale (the standardised intercept's from the covariance), or null. */
+  const seOf = (k: number): number | null => {
+    const se = coefs[k].se;
+    if (se === null || !std) return se;
+    if (k > 0) return se * scale[k];
+    if (!V || V.length !== p * p) return null;
+    const a = Float64Array.from({ length: p }, (_, m) => (m === 0 ? 1 : center[m]));
+    let v = 0;
+    for (let r = 0; r < p; r++) for (let c = 0; c < p; c++) if (a[r] && a[c]) v += a[r] * V[r * p + c] * a[c];
+    return Number.isFinite(v) && v >= 0 ? Math.sqrt(v) : null;
+  };
+  const fallbackSe = (k: number, centre: number) =>
+    Math.max(0.5 * Math.abs(centre), k === 0 || std ? 0.5 : 0.5 / scale[k]);
+  const halfWidth = [i, j].map((k, c) => span * (seOf(k) ?? fallbackSe(k, c === 0 ? ci : cj))) as [number, number];
+  const axis = (c: 0 | 1): number[] => {
+    const centre = c === 0 ? ci : cj;
+    let lo = centre - halfWidth[c],
+      hi = centre + halfWidth[c];
+    if (window === 'path') {
+      for (const pt of pts) {
+        lo = Math.min(lo, pt[c]);
+        hi = Math.max(hi, pt[c]);
+      }
+      const pad = 0.05 * (hi - lo);
+      lo -= pad;
+      hi += pad;
     }
-    const pad = 0.05 * (hi - lo);
-    lo -= pad;
-    hi += pad;
     return Array.from({ length: grid }, (_, g) => lo + ((hi - lo) * g) / (grid - 1));
   };
-  const x = axis(i, 0),
-    yy = axis(j, 1);
+  const x = axis(0),
+    yy = axis(1);
   const z: number[] = [];
   if (firth || !binary) {
     for (const bj of yy) for (const bi of x) z.push(objective(bi, bj));
@@ -191,8 +238,8 @@ export function lossSurface(
       Xi,
       Xj,
       yv,
-      x.map((v) => v - beta[i]),
-      yy.map((v) => v - beta[j]),
+      x.map((v) => v - ci),
+      yy.map((v) => v - cj),
     );
     for (let a = 0; a < grid; a++) {
       for (let b = 0; b < grid; b++) {
@@ -208,8 +255,12 @@ export function lossSurface(
     x,
     y: yy,
     z,
-    estimate: [beta[i], beta[j]],
-    minimum: objective(beta[i], beta[j]),
+    estimate: [ci, cj],
+    scale: axisScale,
+    window,
+    halfWidth,
+    seBased: seOf(i) !== null && seOf(j) !== null,
+    minimum: objective(ci, cj),
     path: { x: pts.map((q) => q[0]), y: pts.map((q) => q[1]) },
     objective: ridge ? 'cross-entropy+ridge' : firth ? 'cross-entropy+firth' : 'cross-entropy',
     rowsUsed: m,

@@ -1,3 +1,4 @@
+import { plural } from '../core/wording';
 import { FulcraError, sheetRow, type Column, type Dataset } from '../core/data';
 import { designFromRecipe, droppedRowsWarning, parseDecimal } from '../design/design';
 import { qnorm } from '../numerics/distributions';
@@ -82,7 +83,7 @@ export function predict(result: FitResult, data: Dataset): Prediction {
       ),
     );
   if (d.nDropped > 0) {
-    const lead = `${d.nDropped} rows were not scored because of missing values`;
+    const lead = `${plural(d.nDropped, 'row was', 'rows were')} not scored because of missing values`;
     const hint = 'Fill in the missing values to score those rows.';
     warnings.push(droppedRowsWarning('rows-not-scored', lead, hint, d.droppedByColumn, true));
   }

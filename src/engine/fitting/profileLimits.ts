@@ -1,34 +1,26 @@
+import { qchisq } from '../numerics/distributions';
 import type { NewtonResult } from './newton';
 import type { PreparedFit } from './prepareFit';
 import { profileInterval } from './profileCi';
+import { limitFromStarts, neutralStart, type SeparationCheck } from './separation';
 
-type Limits = { lower: number | null; upper: number | null } | null;
+/** Profile limits of one coefficient; `lowerUnbounded` / `upperUnbounded` mark a side that runs to ∓∞ / +∞. */
+export type Limits = {
+  lower: number | null;
+  upper: number | null;
+  lowerUnbounded?: boolean;
+  upperUnbounded?: boolean;
+} | null;
 
 /**
- * Profile-likelihood limits of every kept coefficient on the original scale (profileCi.ts), null for aliased
- * columns. Slopes are profiled on the standardised columns (θ = coordinate / scale); the original intercept is a
- * coordinate only of the uncentred design, so the columns are shifted back in place (x/s = z + m/s), coordinate 0
- * is profiled, and they are centred again. Each constrained refit stops after at most `maxIter` iterations.
+ * Runs `each(k, j)` for every kept coefficient: slopes on the standardised columns (θ = coordinate / scale), then
+ * the intercept, which is a coordinate only of the uncentred design, so the columns are shifted back in place
+ * (x/s = z + m/s), coordinate 0 is profiled, and they are centred again.
  */
-export function profileLimits(
-  prep: PreparedFit,
-  nr: NewtonResult,
-  beta: Float64Array,
-  se: (j: number) => number,
-  level: number,
-  maxIter = 100,
-): Limits[] {
+function forEachCoordinate(prep: PreparedFit, each: (k: number, j: number, shifted: boolean) => void): void {
   const { std, keep, problem } = prep;
-  const { n, p } = prep.design;
-  const profiles: Limits[] = new Array(p).fill(null);
-  const target = { problem, objective: nr.objective, maxIter };
-  keep.forEach((j, k) => {
-    if (j > 0)
-      profiles[j] = profileInterval(
-        { ...target, beta: nr.beta, index: k, scale: std.scale[j], estimate: beta[j], se: se(j) },
-        level,
-      );
-  });
+  const n = prep.design.n;
+  keep.forEach((j, k) => j > 0 && each(k, j, false));
   const Zk = problem.X;
   const shift = (sign: 1 | -1) =>
     keep.forEach((j, k) => {
@@ -38,11 +30,149 @@ export function profileLimits(
     });
   shift(1);
   try {
-    const b0 = Float64Array.from(nr.beta);
-    b0[0] = beta[0];
-    profiles[0] = profileInterval({ ...target, beta: b0, index: 0, scale: 1, estimate: beta[0], se: se(0) }, level);
+    each(0, 0, true);
   } finally {
     shift(-1);
   }
+}
+
+/**
+ * Profile-likelihood limits of every kept coefficient on the original scale (profileCi.ts), null for aliased
+ * columns. Each constrained refit stops after at most `maxIter` iterations.
+ */
+export function profileLimits(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  beta: Float64Array,
+  se: (j: number) => number,
+  level: number,
+  maxIter = 100,
+): Limits[] {
+  const { std, problem } = prep;
+  const profiles: Limits[] = new Array(prep.design.p).fill(null);
+  const target = { problem, objective: nr.objective, maxIter };
+  forEachCoordinate(prep, (k, j, shifted) => {
+    const b = shifted ? Float64Array.from(nr.beta) : nr.beta;
+    if (shifted) b[0] = beta[0];
+    const scale = shifted ? 1 : std.scale[j];
+    profiles[j] = profileInterval({ ...target, beta: b, index: k, scale, estimate: beta[j], se: se(j) }, level);
+  });
   return profiles;
+}
+
+/** Doublings of the 0.25-unit step before a side whose profile never reaches the critical value is unbounded. */
+const MAX_DOUBLINGS = 30;
+
+/**
+ * Profile-likelihood limits under separation (ML). `nr` is the limiting fit (fitToLimit). The profile deviance
+ * g(c) = 2N·(limiting objective with the coordinate fixed at c − limiting objective) − χ²₁(level) is convex in c;
+ * for a diverging coefficient it falls to −χ²₁(level) on the side the coefficient runs off to, so that limit is
+ * unbounded and the other side has at most one root. Each constrained refit is taken to its limit from the previous
+ * refit; for a diverging coefficient also afresh (neutralStart), keeping the lower (limitFromStarts), with the
+ * previous refit scaled by c / c_previous (a separated fit scaled up stays separated, with wider margins). Holding a
+ * finite coefficient does not change which rows are determined, so its warm start cannot stick on the wrong side.
+ * A root is bracketed by doubling steps of 0.25 (standardised units) from a point inside the interval (the estimate;
+ * for a diverging coefficient 0 or a point towards its divergent side) and found by the Illinois variant of regula
+ * falsi to 1e-10 relative. A side whose
+ * profile stays below the critical value out to 0.25·2³⁰ units is unbounded too (another column separates the data
+ * whatever this coefficient is).
+ */
+export function separatedProfileLimits(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  sep: SeparationCheck,
+  level: number,
+  tol: number,
+): Limits[] {
+  const { std, problem } = prep;
+  const crit = qchisq(level, 1);
+  const profiles: Limits[] = new Array(prep.design.p).fill(null);
+  const N = problem.n;
+  forEachCoordinate(prep, (k, j, shifted) => {
+    const fixed = new Uint8Array(problem.p);
+    fixed[k] = 1;
+    const values = new Float64Array(problem.p);
+    const estimate = shifted ? nr.beta[0] - sumShift(prep, nr.beta) : nr.beta[k];
+    let last: Float64Array = Float64Array.from(nr.beta);
+    last[k] = estimate;
+    const s = sep.direction[k];
+    const g = (c: number): number => {
+      values[k] = c;
+      const ratio = s !== 0 && last[k] !== 0 && c / last[k] > 0 ? c / last[k] : 1;
+      const warm = last.map((b) => b * ratio);
+      warm[k] = c;
+      const starts = s === 0 ? [warm] : [neutralStart(problem, fixed, values), warm];
+      const r = limitFromStarts({ ...problem, fixed }, starts, tol);
+      last = r.beta;
+      return 2 * N * (r.objective - nr.objective) - crit;
+    };
+    const scale = shifted ? 1 : std.scale[j];
+    /** The limit on side `dir` (original scale), or Infinity when the profile never reaches the critical value. */
+    const side = (dir: 1 | -1): number => {
+      let inside = estimate,
+        gIn = -crit;
+      if (s !== 0) {
+        // diverging (dir = −s): 0 is inside, or else the root lies between 0 and the divergent side
+        const g0 = g(0);
+        if (g0 < 0) [inside, gIn] = [0, g0];
+        else {
+          let outside = 0,
+            gOut = g0;
+          for (let m = 0; m <= MAX_DOUBLINGS; m++) {
+            const c = s * 0.25 * 2 ** m,
+              gc = g(c);
+            if (gc < 0) return illinois(g, c, gc, outside, gOut) / scale;
+            [outside, gOut] = [c, gc];
+          }
+          return NaN; // the profile never falls below the critical value: the fit is not at its limit
+        }
+      }
+      for (let m = 0; m <= MAX_DOUBLINGS; m++) {
+        const c = inside + dir * 0.25 * 2 ** m,
+          gc = g(c);
+        if (gc >= 0) return illinois(g, inside, gIn, c, gc) / scale;
+        [inside, gIn] = [c, gc];
+      }
+      return Infinity;
+    };
+    const lower = s < 0 ? Infinity : side(-1),
+      upper = s > 0 ? Infinity : side(1);
+    profiles[j] = {
+      lower: Number.isFinite(lower) ? lower : null,
+      upper: Number.isFinite(upper) ? upper : null,
+      lowerUnbounded: lower === Infinity,
+      upperUnbounded: upper === Infinity,
+    };
+  });
+  return profiles;
+}
+
+/** The original-scale intercept of standardised coefficients b: b₀ − Σ b_j·m_j/s_j is b₀ minus this sum. */
+function sumShift(prep: PreparedFit, b: ArrayLike<number>): number {
+  let t = 0;
+  prep.keep.forEach((j, k) => {
+    if (j > 0) t += b[k] * prep.std.centerOverScale[j];
+  });
+  return t;
+}
+
+/** Root of g between a (g < 0) and b (g ≥ 0) by the Illinois method, to |g| < 1e-9 or 1e-10·(1 + |c|). */
+function illinois(g: (c: number) => number, a: number, ga: number, b: number, gb: number): number {
+  let side = 0;
+  for (let it = 0; it < 200; it++) {
+    const c = (a * gb - b * ga) / (gb - ga);
+    if (Math.abs(b - a) < 1e-10 * (1 + Math.abs(c))) return c;
+    const gc = g(c);
+    if (Math.abs(gc) < 1e-9) return c;
+    if (gc < 0) {
+      [a, ga] = [c, gc];
+      if (side === -1) gb /= 2;
+      side = -1;
+    } else {
+      [b, gb] = [c, gc];
+      if (side === 1) ga /= 2;
+      side = 1;
+    }
+  }
+  return 0.5 * (a + b);
 }

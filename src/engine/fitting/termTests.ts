@@ -2,47 +2,67 @@ import type { FitOptions, TermRow } from '../core/model';
 import { pchisqUpper } from '../numerics/distributions';
 import { newtonLogistic, type NewtonResult } from './newton';
 import type { PreparedFit } from './prepareFit';
+import { limitFromStarts, neutralStart } from './separation';
 
-/** 2N·(objective with the given kept columns fixed at 0 − objective at the fit). */
-function constrainedStat(prep: PreparedFit, nr: NewtonResult, zero: number[], o: FitOptions): number {
+/**
+ * 2N·(objective with the given kept columns fixed at 0 − objective at the fit). When the fit is `separated`, `nr`
+ * is its limit (fitToLimit) and the refit is taken to its limit too, from the intercept-only fit (neutralStart) and
+ * from the fit, keeping the lower (limitFromStarts): from the diverged fit alone the refit can stay stuck where
+ * fitted risks are 0 or 1 on the wrong side. The statistic is then the limiting one, between 0 and the null
+ * deviance (the neutral start begins at the null deviance and Newton with step-halving only goes down).
+ */
+function constrainedStat(prep: PreparedFit, nr: NewtonResult, zero: number[], o: FitOptions, separated: boolean) {
   const fixed = new Uint8Array(prep.problem.p);
+  for (const k of zero) fixed[k] = 1;
+  const tol = Math.min(o.tol, 1e-12);
   const start = Float64Array.from(nr.beta);
-  for (const k of zero) {
-    fixed[k] = 1;
-    start[k] = 0;
+  for (const k of zero) start[k] = 0;
+  let r: NewtonResult;
+  if (separated) {
+    const neutral = neutralStart(prep.problem, fixed, new Float64Array(prep.problem.p));
+    r = limitFromStarts({ ...prep.problem, fixed }, [neutral, start], tol);
+  } else {
+    r = newtonLogistic(
+      { ...prep.problem, fixed, start },
+      { tol, maxIter: Math.max(o.maxIter, 100), information: false },
+    );
   }
-  const r = newtonLogistic(
-    { ...prep.problem, fixed, start },
-    { tol: Math.min(o.tol, 1e-12), maxIter: Math.max(o.maxIter, 100), information: false },
-  );
   return Math.max(0, 2 * prep.problem.n * (r.objective - nr.objective));
 }
 
 /**
  * Likelihood-ratio test of every term (its kept columns fixed at 0, one constrained refit each); with
- * `run` false (ridge, or term tests off) the rows carry only the degrees of freedom.
+ * `run` false (ridge, or term tests off) the rows carry only the degrees of freedom. For Firth fits the statistic
+ * is the penalised-likelihood ratio (the penalty keeps the full model's information, Heinze & Schemper 2002);
+ * under separation (`separated`, ML) it is the limiting deviance difference.
  */
-export function termTests(prep: PreparedFit, nr: NewtonResult, o: FitOptions, run: boolean): TermRow[] {
+export function termTests(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  o: FitOptions,
+  run: boolean,
+  separated = false,
+): TermRow[] {
   const kIndex = new Map(prep.keep.map((j, k) => [j, k]));
   return prep.design.termColumns.map((t) => {
     const kept = t.columns.filter((j) => kIndex.has(j)).map((j) => kIndex.get(j)!);
     if (!run || kept.length === 0)
       return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
-    const chi2 = constrainedStat(prep, nr, kept, o);
+    const chi2 = constrainedStat(prep, nr, kept, o, separated);
     return { name: t.name, columns: t.columns, df: kept.length, lrChi2: chi2, lrP: pchisqUpper(chi2, kept.length) };
   });
 }
 
 /**
- * The whole-model likelihood-ratio test on pk − 1 df: null deviance − deviance for ML and ridge; for Firth the
- * penalised likelihood with every non-intercept column fixed at 0.
+ * The whole-model likelihood-ratio test on pk − 1 df: null deviance − deviance for ML (the limiting deviance under
+ * separation) and ridge; for Firth the penalised-likelihood ratio, every non-intercept column fixed at 0.
  */
 export function modelTest(prep: PreparedFit, nr: NewtonResult, o: FitOptions, nullDev: number, deviance: number) {
   const modelDf = prep.keep.length - 1;
   let modelLrChi2 = Math.max(0, nullDev - deviance);
   if (o.method === 'firth' && modelDf > 0) {
     const all = Array.from({ length: modelDf }, (_, k) => k + 1);
-    modelLrChi2 = constrainedStat(prep, nr, all, o);
+    modelLrChi2 = constrainedStat(prep, nr, all, o, false);
   }
   return { modelDf, modelLrChi2, modelLrP: modelDf > 0 ? pchisqUpper(modelLrChi2, modelDf) : 1 };
 }

@@ -1,3 +1,4 @@
+import { plural } from '../core/wording';
 import { FulcraError, getColumn, isMissing, rowNumbering, type Column, type Dataset } from '../core/data';
 import { sigmoid } from '../numerics/loss';
 import { imputeCategorical, drawLogistic, rowDot, type ImputationDesign } from './imputeModels';
@@ -124,8 +125,8 @@ export async function mice(
     warnings.push(
       warning(
         'mi-outcome-imputed',
-        `The outcome "${spec.outcome}" is missing in ${outcome.mis.length} rows; these are imputed and used in ` +
-          `the fits.`,
+        `The outcome "${spec.outcome}" is missing in ${plural(outcome.mis.length, 'row')}; ` +
+          `${outcome.mis.length === 1 ? 'it is' : 'these are'} imputed and used in the fits.`,
         'Consider also fitting without the rows whose outcome was imputed (the option to exclude them from the ' +
           'fits; von Hippel 2007, Sociol Methodol 37:83).',
         [spec.outcome],

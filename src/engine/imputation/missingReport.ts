@@ -1,3 +1,4 @@
+import { plural } from '../core/wording';
 import { getColumn, isMissing, type Dataset } from '../core/data';
 import type { ModelSpec } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
@@ -99,7 +100,7 @@ export function missingReport(data: Dataset, spec: ModelSpec): MissingReport {
     warnings.push(
       warning(
         'complete-case-mcar',
-        `Complete-case analysis drops ${dropped} of ${n} rows (${pct}%) with a missing value in ` +
+        `Complete-case analysis drops ${dropped} of ${plural(n, 'row')} (${pct}%) with a missing value in ` +
           `${withMissing.join(', ')}. ` +
           'Its estimates are unbiased if values are missing completely at random (MCAR: whether a value is ' +
           'missing is unrelated to any data). ' +

@@ -1,3 +1,4 @@
+import { plural } from '../core/wording';
 import { FulcraError, type Dataset } from '../core/data';
 import { sigmoid } from '../numerics/loss';
 import { droppedRowsWarning, linearPredictorFromRecipe } from '../design/design';
@@ -78,7 +79,8 @@ export function externalValidation(
   const recalibration = recalibrate(enc.y, eta, { level: options.level });
   const warnings: EngineWarning[] = [...evaluation.warnings, ...recalibration.warnings];
   if (enc.nDropped > 0) {
-    const lead = `${enc.nDropped} of ${data.nRows} rows of the new data were left out for missing values`;
+    const verb = enc.nDropped === 1 ? 'was' : 'were';
+    const lead = `${enc.nDropped} of ${plural(data.nRows, 'row')} of the new data ${verb} left out for missing values`;
     const hint = 'If the missing values are not random, the validation may not represent all cases.';
     warnings.push(droppedRowsWarning('rows-dropped', lead, hint, enc.droppedByColumn, false));
   }

@@ -3,3 +3,4 @@ export * from './bootstrap';
 export * from './externalValidation';
 export * from './pipeline';
 export * from './recalibration';
+export * from './sharedCases';

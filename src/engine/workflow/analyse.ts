@@ -9,6 +9,7 @@ import { sigmoid } from '../numerics/loss';
 import type { LongRunHooks } from '../penalised/crossValidation';
 import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../validation/bootstrap';
 import { externalValidation, type ExternalValidation } from '../validation/externalValidation';
+import { sharedCases, sharedCasesWarning } from '../validation/sharedCases';
 import { fitStep, pipelineOf, type LambdaRecord } from './fitStep';
 import { resolveRequest, type AnalysisRequest, type AnalysisRequestInput } from './request';
 import { sampleSizeCheck } from './sampleSizeStep';
@@ -19,6 +20,8 @@ export type EvaluationSummary = Omit<EvaluationRecord, 'prepared'>;
 /** External validation as it is kept: no per-row arrays. */
 export type ExternalRecord = Omit<ExternalValidation, 'evaluation' | 'y' | 'eta' | 'risk' | 'rowsUsed'> & {
   evaluation: EvaluationSummary;
+  /** Cases of the file that are also development cases (same outcome and linear predictor); null if not checked. */
+  developmentCasesShared: number | null;
 };
 
 /**
@@ -105,9 +108,14 @@ export async function internalValidation(
 
 /**
  * The record's model applied unchanged to a second dataset with known outcomes (evaluated with the request's
- * level, curve points, costs and cut-off), with logistic recalibration (Steyerberg 2019).
+ * level, curve points, costs and cut-off), with logistic recalibration (Steyerberg 2019). Given the development
+ * data, a file that holds all or some of its cases says so in a warning: that is not an external validation.
  */
-export function externalValidationStep(record: Pick<AnalysisRecord, 'fit' | 'request'>, data: Dataset): ExternalRecord {
+export function externalValidationStep(
+  record: Pick<AnalysisRecord, 'fit' | 'request'>,
+  data: Dataset,
+  development?: Dataset,
+): ExternalRecord {
   const r = record.request;
   const ext = externalValidation(record.fit, data, {
     level: r.level,
@@ -116,7 +124,14 @@ export function externalValidationStep(record: Pick<AnalysisRecord, 'fit' | 'req
     threshold: r.threshold ?? undefined,
   });
   const { evaluation, y: _y, eta: _eta, risk: _risk, rowsUsed: _rows, ...rest } = ext;
-  return { ...rest, evaluation: strip(evaluation) };
+  const out: ExternalRecord = { ...rest, evaluation: strip(evaluation), developmentCasesShared: null };
+  if (development) {
+    const overlap = sharedCases(record.fit, development, data);
+    out.developmentCasesShared = overlap.shared;
+    const shared = sharedCasesWarning(overlap, ext.nUsed);
+    if (shared) out.warnings = [shared, ...out.warnings];
+  }
+  return out;
 }
 
 /** analyse() with the apparent per-row scores the page keeps for its cut-off queries. */
@@ -142,7 +157,7 @@ export async function runAnalysis(
     warnings: dedupe([...step.fit.warnings, ...step.warnings, ...evaluation.warnings]),
   };
   if (r.validation) record.validation = await internalValidation(data, r, hooks);
-  if (testData) record.external = externalValidationStep(record, testData);
+  if (testData) record.external = externalValidationStep(record, testData, data);
   return { record, scores };
 }
 

@@ -43,12 +43,13 @@ export interface FitStep {
 export function pipelineOf(data: Dataset, r: AnalysisRequest): Pipeline {
   const alpha = alphaOf(r);
   const fixedRidge = r.method === 'ridge' && typeof r.lambda === 'number';
+  const { level, maxIter } = r;
   return {
     data,
     spec: r.spec,
     fitOptions: fixedRidge
-      ? { method: 'ridge', lambda: r.lambda as number, level: r.level, profile: false }
-      : { method: r.method === 'firth' ? 'firth' : 'ml', level: r.level, profile: r.profile },
+      ? { method: 'ridge', lambda: r.lambda as number, level, profile: false, maxIter }
+      : { method: r.method === 'firth' ? 'firth' : 'ml', level, profile: r.profile, maxIter },
     penalty:
       alpha !== null && !fixedRidge
         ? { alpha, lambda: r.lambda, folds: r.folds, criterion: 'deviance', nLambda: 100 }
@@ -98,13 +99,20 @@ export function largeDataPlan(
 export async function fitStep(data: Dataset, r: AnalysisRequest, hooks?: LongRunHooks): Promise<FitStep> {
   const plan = largeDataPlan(data, r);
   const warnings = [...plan.warnings];
-  const { level } = r;
+  const { level, maxIter } = r;
   if (r.method === 'ml' || r.method === 'firth') {
-    const f = fit(data, r.spec, { method: r.method, level, profile: plan.profile, termTests: plan.termTests });
+    const f = fit(data, r.spec, {
+      method: r.method,
+      level,
+      maxIter,
+      profile: plan.profile,
+      termTests: plan.termTests,
+    });
     return { fit: f, lambda: null, warnings };
   }
+  const noInference = { level, maxIter, profile: false, termTests: false };
   if (r.method === 'ridge' && typeof r.lambda === 'number') {
-    const f = fit(data, r.spec, { method: 'ridge', lambda: r.lambda, level, profile: false, termTests: false });
+    const f = fit(data, r.spec, { method: 'ridge', lambda: r.lambda, ...noInference });
     return { fit: f, lambda: { ...FIXED, alpha: 0, chosen: r.lambda }, warnings };
   }
   const pf = await fitPipeline(pipelineOf(data, r), hooks);
@@ -122,9 +130,10 @@ export async function fitStep(data: Dataset, r: AnalysisRequest, hooks?: LongRun
     : { ...FIXED, alpha: alphaOf(r)!, chosen: pf.lambda };
   warnings.push(...pf.warnings);
   if (r.method === 'ridge') {
-    const f = fit(data, r.spec, { method: 'ridge', lambda: pf.lambda, level, profile: false, termTests: false });
+    const f = fit(data, r.spec, { method: 'ridge', lambda: pf.lambda, ...noInference });
     return { fit: f, lambda, warnings };
   }
+  // Only the record's shape (design, counts, recipe): the default iteration limit, not the request's.
   const base = fit(data, r.spec, { method: 'ml', level, profile: false, termTests: false });
   const estimates = pf.coefficients.map((c) => c.estimate);
   warnings.push(

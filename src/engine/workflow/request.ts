@@ -1,6 +1,6 @@
 import type { Costs } from '../core/costs';
 import { FulcraError } from '../core/data';
-import type { FitMethod, ModelSpec } from '../core/model';
+import { defaultFitOptions, type FitMethod, type ModelSpec } from '../core/model';
 
 /** Internal validation of the whole procedure: bootstrap optimism, or repeated stratified k-fold CV. */
 export type InternalValidationRequest =
@@ -38,6 +38,8 @@ export interface AnalysisRequest {
   validation: InternalValidationRequest | null;
   /** Seeds the cross-validation folds of λ selection. */
   seed: number;
+  /** Iteration limit of every maximum-likelihood, Firth and ridge fit (penalised fits take at least 100). */
+  maxIter: number;
 }
 
 /** What callers pass: the specification and any fields that differ from the defaults. */
@@ -55,6 +57,7 @@ export const defaultAnalysisRequest: Omit<AnalysisRequest, 'spec'> = {
   rocPoints: 400,
   validation: null,
   seed: 1,
+  maxIter: defaultFitOptions.maxIter,
 };
 
 const METHODS: readonly FitMethod[] = ['ml', 'firth', 'ridge', 'lasso', 'elastic-net'];
@@ -101,6 +104,7 @@ export const analysisRequestTable: {
       "null, {method: 'bootstrap', replicates, seed} or {method: 'repeated-cv', folds (≥ 2), repeats (≥ 1), seed}",
   },
   seed: { valid: (v) => typeof v === 'number' && Number.isFinite(v), expected: 'a finite number' },
+  maxIter: { valid: (v) => isInt(v, 1, 10_000), expected: 'a whole number from 1 to 10000' },
 };
 
 /**

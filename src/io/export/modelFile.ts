@@ -12,14 +12,15 @@ export const MODEL_FILE_VERSION = 1;
  * - `fulcraVersion`, `created` (ISO 8601), `dataChecksum` (SHA-256 hex of the training Dataset, see
  *   datasetChecksum(), or null).
  * - `recipe`: the DesignRecipe (outcome, event level, terms with levels/reference/knots, design column names
- *   intercept first) — everything needed to rebuild the design for new data.
+ *   intercept first) — everything needed to rebuild the design for new data; optional `ranges`, the
+ *   [min, max] of each numeric predictor over the rows fitted (scoring warns outside them).
  * - `coefficients`: one row per design column in `recipe.columnNames` order: estimate (on the logit scale),
  *   se / p / Wald and profile limits (null where not available or not finite), aliased flag.
  * - `covariance`: row-major p×p covariance of the estimates, or null (ridge).
  * - `fit`: method, λ, CI level, convergence and the training fit statistics.
  * - `training`: file name, row count and optional performance summary.
  * - `threshold`: chosen risk threshold with its two costs, or null.
- * - `notes`: the user's purpose / setting / population text.
+ * - `notes`: the user's purpose / setting / population text and free notes (each optional).
  * - `warnings`: the fit's warnings at the time of saving.
  * Risk for a row is 1 / (1 + exp(−Σ_j coefficients[j].estimate · x_j)) with x the recipe's design row.
  */
@@ -59,7 +60,8 @@ export interface ModelFile {
   };
   /** The cut-off and the two costs it was chosen with (files before this version said costFalseNegative/Positive). */
   threshold: { value: number; costMissedCase: number; costFalseAlarm: number } | null;
-  notes: { purpose?: string; setting?: string; population?: string };
+  /** The committee's words for the summary; `notes` (free text) was added later, so older files lack it. */
+  notes: { purpose?: string; setting?: string; population?: string; notes?: string };
   warnings: EngineWarning[];
 }
 

@@ -7,6 +7,11 @@ export interface PredictionsForCsv {
   upper?: Float64Array | null;
   /** Dataset row index of each scored row; rows not listed could not be scored (missing value) and get empty cells. */
   rowsUsed: Int32Array;
+  /**
+   * Per scored row (same order as rowsUsed): the predictors whose value lies outside the range of the data the
+   * model was fitted on. When given, an `outside_data` column lists them ("; " between names, empty otherwise).
+   */
+  outside?: readonly (readonly string[])[] | null;
 }
 
 export interface PredictionsCsvOptions {
@@ -82,6 +87,12 @@ export function predictionsCsvChunks(
       `There are ${pred.risk.length} risks for ${pred.rowsUsed.length} scored rows.`,
     );
   const hasCi = !!pred.lower && !!pred.upper;
+  const outside = pred.outside ?? null;
+  if (outside && outside.length !== pred.rowsUsed.length)
+    throw new FulcraError(
+      'prediction-length',
+      `There are ${outside.length} range checks for ${pred.rowsUsed.length} scored rows.`,
+    );
 
   const byRow = new Int32Array(data.nRows).fill(-1);
   pred.rowsUsed.forEach((r, i) => {
@@ -101,6 +112,7 @@ export function predictionsCsvChunks(
   const extra = [unique('predicted risk')];
   if (hasCi) extra.push(unique(`risk lower ${pct} CI`), unique(`risk upper ${pct} CI`));
   if (t !== undefined && t !== null) extra.push(unique(`flagged at risk >= ${num(t, decimal)}`));
+  if (outside) extra.push(unique('outside_data'));
 
   const cell = (s: string) => quoteField(neutraliseCell(s, decimal), delimiter);
   const header = [...data.columns.map((c) => c.name), ...extra].map(cell).join(delimiter);
@@ -115,6 +127,7 @@ export function predictionsCsvChunks(
     if (hasCi) out.push(i < 0 ? '' : num(pred.lower![i], decimal), i < 0 ? '' : num(pred.upper![i], decimal));
     if (t !== undefined && t !== null)
       out.push(i < 0 || Number.isNaN(pred.risk[i]) ? '' : pred.risk[i] >= t ? '1' : '0');
+    if (outside) out.push(i < 0 ? '' : cell(outside[i].join('; ')));
     return out.join(delimiter);
   };
   return (function* () {

@@ -173,5 +173,18 @@ function checkRecipe(c: FieldChecker, v: unknown): DesignRecipe {
     event: c.string(r.event, 'recipe.event'),
     terms,
     columnNames: c.stringArray(r.columnNames, 'recipe.columnNames'),
+    ...(r.ranges === undefined ? {} : { ranges: checkRanges(c, r.ranges) }),
   };
+}
+
+/** recipe.ranges (optional; files saved before it have none): {column: [min, max]}. */
+function checkRanges(c: FieldChecker, v: unknown): Record<string, [number, number]> {
+  const o = c.object(v, 'recipe.ranges');
+  const out: Record<string, [number, number]> = {};
+  for (const [name, x] of Object.entries(o)) {
+    const pair = c.numberArray(x, `recipe.ranges.${name}`);
+    if (pair.length !== 2 || !(pair[0] <= pair[1])) c.fail(`recipe.ranges.${name}`, 'must be [min, max]');
+    out[name] = [pair[0], pair[1]];
+  }
+  return out;
 }

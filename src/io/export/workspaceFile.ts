@@ -267,5 +267,38 @@ export async function readWorkspaceBytes(
     }
     return readWorkspaceFile(text);
   }
-  return readWorkspaceFile(new TextDecoder('utf-8').decode(bytes));
+  const text = new TextDecoder('utf-8').decode(bytes);
+  const kind = spreadsheetKind(bytes, text);
+  if (kind) {
+    throw new FulcraError(
+      'workspace-file-spreadsheet',
+      `This looks like a spreadsheet (${kind}), not a workspace file — use "Open a spreadsheet".`,
+      'Open it with "Open a spreadsheet"; a workspace file is one saved with "Save workspace".',
+    );
+  }
+  return readWorkspaceFile(text);
+}
+
+/**
+ * Names the spreadsheet kind when bytes given as a workspace file are one: an xlsx (zip signature PK\x03\x04),
+ * an old .xls (OLE signature D0 CF 11 E0), or delimited text (not JSON, and its first lines split on commas,
+ * semicolons or tabs into the same number of at least two fields). Null otherwise.
+ */
+function spreadsheetKind(bytes: Uint8Array, text: string): string | null {
+  const starts = (sig: number[]): boolean => bytes.length >= sig.length && sig.every((b, i) => bytes[i] === b);
+  if (starts([0x50, 0x4b, 0x03, 0x04])) return 'an .xlsx file';
+  if (starts([0xd0, 0xcf, 0x11, 0xe0])) return 'an old .xls file';
+  const body = text.replace(/^\uFEFF/, '').trimStart();
+  if (body === '' || body.startsWith('{') || body.startsWith('[')) return null;
+  const lines = body.split(/\r?\n/, 6).filter((l) => l.trim() !== '');
+  if (lines.length < 2) return null;
+  for (const [sep, name] of [
+    ['\t', 'tab-separated text'],
+    [';', 'semicolon-separated text'],
+    [',', 'comma-separated text'],
+  ] as const) {
+    const n = lines[0].split(sep).length;
+    if (n >= 2 && lines.slice(0, 5).every((l) => l.split(sep).length === n)) return name;
+  }
+  return null;
 }

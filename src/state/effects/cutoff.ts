@@ -23,7 +23,8 @@ export function cutoffEffects({ store, client, s }: EffectContext): CutoffEffect
     const view = await client.latest('costs', (api) => api.costs(costs));
     if (!view) return;
     store.apply(A.costsDone, view);
-    if (!s().thresholdView && !keepThreshold) store.apply(A.setThreshold, view.optimal.decisionTheory.threshold);
+    if (!s().thresholdView && !keepThreshold)
+      store.apply(A.chooseCutoff, { threshold: view.optimal.decisionTheory.threshold, how: 'cost-based' });
     await queryThreshold();
   }
 

@@ -9,7 +9,7 @@ import { nextSerial, type EffectContext } from './context';
 export interface DataEffects {
   startDemo(id: DemoId): Promise<void>;
   openFile(file: File): Promise<void>;
-  /** Reads the last opened file again with the current import settings. */
+  /** Reads the last opened file or pasted cells again with the current import settings (column types too). */
   reread(): Promise<void>;
   pasteText(text: string): Promise<void>;
   getRows(start: number, count: number): Promise<RowsWindow | undefined>;
@@ -34,6 +34,8 @@ export const newDataId = (): string => `${Date.now().toString(36)}-${nextSerial(
 export function dataLoading(ctx: EffectContext, fitModel: () => Promise<void>): DataLoading {
   const { store, client, s, job } = ctx;
   let lastFile: File | null = null;
+  /** The last pasted text, kept so a column of pasted cells can be read as another type, as a file's can. */
+  let lastPaste: string | null = null;
   let held: HeldData | null = null;
   const listeners = new Set<(h: HeldData | null) => void>();
   const setHeld = (h: HeldData | null) => {
@@ -64,11 +66,23 @@ export function dataLoading(ctx: EffectContext, fitModel: () => Promise<void>): 
   async function openFile(file: File) {
     if (lastFile !== file) store.apply(A.setImportSettings, { columnTypes: {}, sheet: null });
     lastFile = file;
+    lastPaste = null;
     const bytes = await file.arrayBuffer();
     const options = importOptionsOf(s().importSettings);
     await loaded(
       await job(`Reading ${file.name}`, true, (id, onProgress) =>
         client.call((api) => api.importFile(client.transfer(bytes, [bytes]), file.name, options, id, onProgress)),
+      ),
+    );
+  }
+
+  async function pasteText(text: string) {
+    if (lastPaste !== text) store.apply(A.setImportSettings, { columnTypes: {}, sheet: null });
+    lastPaste = text;
+    lastFile = null;
+    await loaded(
+      await job('Reading pasted cells', true, (id, onProgress) =>
+        client.call((api) => api.importText(text, importOptionsOf(s().importSettings), id, onProgress)),
       ),
     );
   }
@@ -82,14 +96,9 @@ export function dataLoading(ctx: EffectContext, fitModel: () => Promise<void>): 
     openFile,
     async reread() {
       if (lastFile) await openFile(lastFile);
+      else if (lastPaste !== null) await pasteText(lastPaste);
     },
-    async pasteText(text) {
-      await loaded(
-        await job('Reading pasted cells', true, (id, onProgress) =>
-          client.call((api) => api.importText(text, importOptionsOf(s().importSettings), id, onProgress)),
-        ),
-      );
-    },
+    pasteText,
     getRows: (start, count) => client.latest('rows', (api) => api.getRows(start, count)),
     refreshDropReport,
     held: () => held,

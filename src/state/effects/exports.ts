@@ -1,5 +1,7 @@
 /** Files out: the model summary PDF, the model file, PMML and the workspace file. */
 import type { ReportText } from '../../worker/protocol';
+import * as A from '../actions';
+import { isStale } from '../stale';
 import { toWorkspace } from '../workspace';
 import type { EffectContext } from './context';
 import type { DataEffects } from './data';
@@ -14,15 +16,45 @@ export interface ExportEffects {
   workspaceFile(version: string): Promise<{ bytes: Uint8Array; name: string } | undefined>;
 }
 
-export function filesOut({ client, s, job }: EffectContext, data: Pick<DataEffects, 'held'>): ExportEffects {
+/** What an export of a model fitted for other settings is refused with (the notice offers to refit). */
+export const STALE_EXPORT =
+  'The model settings changed after this fit, so this file would describe the previous model: nothing was saved.';
+
+export function filesOut({ store, client, s, job }: EffectContext, data: Pick<DataEffects, 'held'>): ExportEffects {
   const now = () => new Date().toISOString();
+  /** Refuses (with a notice offering to refit) when the model shown is out of date. */
+  const current = (what: string): boolean => {
+    if (!isStale(s())) return true;
+    store.apply(A.notify, {
+      kind: 'error',
+      text: STALE_EXPORT,
+      suggestion: `Refit the model, then save the ${what} again.`,
+      action: 'refit',
+      code: A.STALE_EXPORT_CODE,
+    });
+    return false;
+  };
   return {
-    modelReport: (text) =>
-      job('Writing the model summary', false, () =>
-        client.call((api) => api.modelReport(s().costs, s().threshold, now(), text)),
-      ),
-    modelFile: (text) => client.call((api) => api.modelFile(s().costs, s().threshold, now(), text)),
-    pmml: () => client.call((api) => api.pmml(now())),
+    modelReport: async (text) =>
+      current('model summary')
+        ? job('Writing the model summary', false, () =>
+            client.call((api) =>
+              api.modelReport(
+                s().costs,
+                s().threshold,
+                now(),
+                { ...text, oddsUnits: s().oddsUnits },
+                {
+                  how: s().cutoffHow,
+                  costsSetByUser: s().costsSetByUser,
+                },
+              ),
+            ),
+          )
+        : undefined,
+    modelFile: async (text) =>
+      current('model file') ? client.call((api) => api.modelFile(s().costs, s().threshold, now(), text)) : undefined,
+    pmml: async () => (current('PMML file') ? client.call((api) => api.pmml(now())) : undefined),
     async workspaceFile(version) {
       const held = data.held();
       if (!held || !s().data) return undefined;

@@ -1,5 +1,5 @@
 /** Fitting: the model from the current roles and options, then the views every fit refreshes. */
-import type { FitRequest } from '../../worker/protocol';
+import type { FitRequest, LossSurfaceChoice } from '../../worker/protocol';
 import * as A from '../actions';
 import type { AppState } from '../appState';
 import type { EffectContext } from './context';
@@ -10,7 +10,7 @@ export interface FittingEffects {
   /** Refits the current model with multiple imputation of its missing values. */
   fitImputed(): Promise<void>;
   riskCurve(predictor: string): Promise<void>;
-  lossSurface(a: number, b: number): Promise<void>;
+  lossSurface(a: number, b: number, choice?: LossSurfaceChoice): Promise<void>;
 }
 
 export interface Fitting extends FittingEffects {
@@ -25,10 +25,10 @@ export interface Fitting extends FittingEffects {
 export function requestOf(s: AppState): { request: FitRequest } | { problem: string } {
   const built = A.buildSpec(s);
   if ('problem' in built) return built;
-  const { method, level, alpha, lambdaRule } = s;
+  const { method, level, alpha, lambdaRule, maxIter } = s;
   const profile = method === 'ml' || method === 'firth';
   const lambda = lambdaRule === 'min' ? 'cv-min' : 'cv-1se';
-  return { request: { spec: built.spec, method, level, alpha, lambda, profile } };
+  return { request: { spec: built.spec, method, level, alpha, lambda, profile, maxIter } };
 }
 
 export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
@@ -39,9 +39,9 @@ export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
     if (view) store.apply(A.riskCurveDone, view);
   }
 
-  async function lossSurface(a: number, b: number) {
+  async function lossSurface(a: number, b: number, choice?: LossSurfaceChoice) {
     if (!s().fit || a === b) return;
-    const view = await client.latest('loss', (api) => api.lossSurface(a, b));
+    const view = await client.latest('loss', (api) => api.lossSurface(a, b, choice));
     if (view) store.apply(A.lossSurfaceDone, view);
   }
 

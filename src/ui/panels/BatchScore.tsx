@@ -1,6 +1,6 @@
 import { useEffect, useId, useMemo } from 'react';
 import { useApp, useEnv } from '../context';
-import { count, pct } from '../format';
+import { count, pct, plural } from '../format';
 
 /** Scores a file of new cases; the scored rows download as CSV. */
 export function BatchScore() {
@@ -35,9 +35,29 @@ export function BatchScore() {
       {batch && (
         <div data-testid="batch-result">
           <p>
-            {count(batch.scored)} of {count(batch.n)} rows scored
+            {count(batch.scored)} of {plural(batch.n, 'row')} scored
             {batch.skipped ? `; ${count(batch.skipped)} skipped for missing or unknown values` : ''}.
           </p>
+          {batch.unknownRows > 0 && (
+            <p className="outside-data" data-testid="batch-unknown">
+              <strong>Not scored, unknown category: </strong>
+              {batch.unknownFirst.map((u) => `row ${u.row}, ${u.column} = “${u.value}”`).join('; ')}
+              {batch.unknownRows > batch.unknownFirst.length
+                ? `; and ${count(batch.unknownRows - batch.unknownFirst.length)} more rows`
+                : ''}
+              . The model was not fitted with these categories.
+            </p>
+          )}
+          {batch.outsideRows > 0 && (
+            <p className="outside-data" data-testid="batch-outside">
+              <strong>Extrapolation: </strong>
+              {count(batch.outsideRows)} scored {batch.outsideRows === 1 ? 'row has' : 'rows have'} a value outside the
+              data the model was fitted on (
+              {batch.outsideFirst.map((o) => `row ${o.row}: ${o.columns.join(', ')}`).join('; ')}
+              {batch.outsideRows > batch.outsideFirst.length ? '; …' : ''}). Their risks may be far off; the column
+              outside_data of the scored file names the columns for every row.
+            </p>
+          )}
           {url && (
             <a href={url} download="scored-cases.csv">
               Download the scored rows (CSV)

@@ -1,12 +1,17 @@
 import type { ThresholdView } from '../../worker/protocol';
+import type { GlossaryTerm } from '../../report/glossary';
+import { Explain } from '../Explain';
 import { count, num, pct } from '../format';
 
 /** Confusion matrix and the rates at the cut-off, with 95% intervals (Wilson; log method for LR±). */
 export function ConfusionTable({ view }: { view: ThresholdView }) {
   const m = view.metrics;
-  const prop = (label: string, e: typeof m.sensitivity, testid: string) => (
+  const prop = (label: string, e: typeof m.sensitivity, testid: string, term: GlossaryTerm) => (
     <tr>
-      <th scope="row">{label}</th>
+      <th scope="row">
+        {label}
+        <Explain term={term} />
+      </th>
       <td className="num" data-testid={testid}>
         {pct(e.estimate)}
       </td>
@@ -56,13 +61,16 @@ export function ConfusionTable({ view }: { view: ThresholdView }) {
           </tr>
         </thead>
         <tbody>
-          {prop('Sensitivity', m.sensitivity, 'sens')}
-          {prop('Specificity', m.specificity, 'spec')}
-          {prop('PPV (flagged who had the event)', m.ppv, 'ppv')}
-          {prop('NPV (clear who stayed clear)', m.npv, 'npv')}
-          {prop('Fraction flagged', m.fractionFlagged, 'flagged')}
+          {prop('Sensitivity', m.sensitivity, 'sens', 'sensitivity')}
+          {prop('Specificity', m.specificity, 'spec', 'specificity')}
+          {prop('PPV (flagged who had the event)', m.ppv, 'ppv', 'ppv')}
+          {prop('NPV (clear who stayed clear)', m.npv, 'npv', 'npv')}
+          {prop('Fraction flagged', m.fractionFlagged, 'flagged', 'cutoff')}
           <tr>
-            <th scope="row">Likelihood ratio, flagged (LR+)</th>
+            <th scope="row">
+              Likelihood ratio, flagged (LR+)
+              <Explain term="likelihoodRatios" />
+            </th>
             <td className="num" data-testid="lr-pos">
               {num(m.lrPositive, 2)}
             </td>
@@ -80,14 +88,20 @@ export function ConfusionTable({ view }: { view: ThresholdView }) {
             </td>
           </tr>
           <tr>
-            <th scope="row">Expected cost per 100 cases</th>
+            <th scope="row">
+              Expected cost per 100 cases
+              <Explain term="expectedCost" />
+            </th>
             <td className="num" data-testid="cost100">
               {num(m.expectedCostPer100, 2)}
             </td>
             <td />
           </tr>
           <tr>
-            <th scope="row">Net benefit at this cut-off</th>
+            <th scope="row">
+              Net benefit at this cut-off
+              <Explain term="netBenefit" />
+            </th>
             <td className="num">{num(view.netBenefit, 4)}</td>
             <td />
           </tr>

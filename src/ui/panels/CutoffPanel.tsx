@@ -1,12 +1,14 @@
-import { useId } from 'react';
+import { useId, useState } from 'react';
 import * as A from '../../state/actions';
 import { Caution } from '../Caution';
 import { useApp, useEnv } from '../context';
-import { count, finiteMax, num, palette, pct } from '../format';
-import { NumberField } from '../NumberField';
-import { LinePlot } from '../plots/LinePlot';
-import { NumbersTable } from '../plots/NumbersTable';
+import { count, num, pct } from '../format';
+import { CostCurvePlot } from '../plots/CostCurvePlot';
+import { cutoffMarks } from '../plots/CutoffMarks';
+import { RiskHistogram } from '../plots/RiskHistogram';
 import { ConfusionTable } from './ConfusionTable';
+import { CostInput } from './CostInput';
+import { StaleBanner } from '../StaleBanner';
 
 export function CutoffPanel() {
   const { ctl } = useEnv();
@@ -15,37 +17,52 @@ export function CutoffPanel() {
   const t = useApp((s) => s.threshold);
   const cv = useApp((s) => s.costView);
   const tv = useApp((s) => s.thresholdView);
+  const how = useApp((s) => s.cutoffHow);
+  const [wide, setWide] = useState(false);
+  const [badCost, setBadCost] = useState({ missedCase: false, falseAlarm: false });
   const move = (v: number) => void ctl.act(A.moveCutoff, v);
   const setCost = (k: 'missedCase' | 'falseAlarm', v: number) => void ctl.act(A.changeCosts, { [k]: v });
+  const validity = (k: 'missedCase' | 'falseAlarm') => (ok: boolean) => setBadCost((b) => ({ ...b, [k]: !ok }));
   const emp = cv?.optimal.empirical.threshold ?? null;
   const theory = cv?.optimal.decisionTheory.threshold ?? null;
+  const marks = cutoffMarks(t, theory, emp);
+  const domain: [number, number] = cv && !wide ? [cv.zoom.from, cv.zoom.to] : [0, 1];
+  const howText = {
+    'cost-based': 'the cost-based cut-off (it follows the costs)',
+    cheapest: 'the cheapest cut-off on these data (it follows the costs)',
+    hand: 'set by hand',
+    restored: 'as saved in the workspace',
+  }[how];
   return (
     <div className="panel cutoff-panel">
+      <StaleBanner />
       <section className="costs" aria-labelledby={`${id}-h`}>
         <h2 id={`${id}-h`}>Where to draw the line</h2>
         <div className="row">
-          <NumberField
+          <CostInput
             label="Cost of a missed case"
-            min={0}
             value={costs.missedCase}
-            valid={(v) => v > 0 && Number.isFinite(v)}
             onChange={(v) => setCost('missedCase', v)}
+            onValidity={validity('missedCase')}
           />
-          <NumberField
+          <CostInput
             label="Cost of a false alarm"
-            min={0}
             value={costs.falseAlarm}
-            valid={(v) => v > 0 && Number.isFinite(v)}
             onChange={(v) => setCost('falseAlarm', v)}
+            onValidity={validity('falseAlarm')}
           />
-          <span className="hint">
-            Only the ratio matters: a missed case costs {num(costs.missedCase / costs.falseAlarm, 1)} false alarms.
+          <span className="hint" data-testid="cost-ratio">
+            Only the ratio matters: a missed case costs {num(costs.missedCase / costs.falseAlarm, 1)} false alarms
+            {badCost.missedCase || badCost.falseAlarm ? ' (the last valid costs)' : ''}.
           </span>
         </div>
         <div className="slider">
           <label htmlFor={`${id}-t`}>
             Probability cut-off: flag a case when its predicted risk is at least{' '}
-            <output data-testid="cutoff-value">{pct(t, 1)}</output>
+            <output data-testid="cutoff-value">{pct(t, 1)}</output>{' '}
+            <span className="hint" data-testid="cutoff-how">
+              ({howText})
+            </span>
           </label>
           <input
             id={`${id}-t`}
@@ -63,49 +80,51 @@ export function CutoffPanel() {
           </datalist>
           <div className="row">
             {theory !== null && (
-              <button type="button" onClick={() => move(theory)}>
+              <button type="button" onClick={() => void ctl.act(A.useCostBasedCutoff, undefined)}>
                 Use the cost-based cut-off for calibrated risks ({pct(theory)})
               </button>
             )}
             {emp !== null && (
-              <button type="button" onClick={() => move(emp)}>
+              <button type="button" onClick={() => void ctl.act(A.useCheapestCutoff, undefined)}>
                 Use the cheapest cut-off on these data ({pct(emp)})
               </button>
             )}
           </div>
         </div>
       </section>
+      {cv && (
+        <section className="cutoff-pictures" aria-label="Pictures of the cut-off">
+          <div className="row">
+            <label className="zoom-toggle">
+              <input type="checkbox" checked={wide} onChange={(e) => setWide(e.target.checked)} /> Show cut-offs 0–1
+            </label>
+            <span className="hint" data-testid="zoom-rule">
+              {wide
+                ? 'Showing every cut-off from 0 to 1.'
+                : `Showing ${pct(cv.zoom.from)} to ${pct(cv.zoom.to)}: ${cv.zoom.rule}.`}
+            </span>
+          </div>
+          <div className="cols">
+            <RiskHistogram
+              title="Predicted risk of cases with and without the event"
+              bins={wide ? cv.distribution : cv.zoom.distribution}
+              domain={domain}
+              marks={marks}
+            />
+            <CostCurvePlot
+              title="Expected cost per 100 cases against the cut-off"
+              curve={wide ? cv.curve : cv.zoom.curve}
+              domain={domain}
+              marks={marks}
+            />
+          </div>
+        </section>
+      )}
       <div className="cols">
         <div>{tv && <ConfusionTable view={tv} />}</div>
         <div>
           {cv && (
             <>
-              <LinePlot
-                title="Expected cost per 100 cases against the cut-off"
-                xLabel="Probability cut-off"
-                yLabel="Expected cost per 100 cases"
-                xDomain={[0, 1]}
-                yDomain={[
-                  0,
-                  finiteMax(
-                    cv.curve.map((p) => p.y),
-                    1,
-                  ) * 1.05 || 1,
-                ]}
-                series={[{ label: 'expected cost per 100', color: palette.blue, points: cv.curve }]}
-                markers={[
-                  { x: t, label: `current cut-off ${pct(t)}`, color: palette.vermillion },
-                  ...(theory !== null ? [{ x: theory, label: `cost-based ${pct(theory)}`, color: palette.green }] : []),
-                  ...(emp !== null ? [{ x: emp, label: `cheapest on data ${pct(emp)}`, color: palette.purple }] : []),
-                ]}
-                width={420}
-                height={260}
-              />
-              <NumbersTable
-                summary="Expected cost as numbers"
-                headers={['Cut-off', 'Cost per 100']}
-                rows={cv.curve.map((p) => [pct(p.x, 0), num(p.y, 2)])}
-              />
               <details className="assumptions">
                 <summary>What these cut-offs assume</summary>
                 <p>Cost-based ({pct(theory)}):</p>

@@ -1,30 +1,34 @@
 import { useApp, useEnv } from '../context';
-import { count, pct } from '../format';
+import { count, pct, plural } from '../format';
 import { DataGrid } from './DataGrid';
 import { FitControls } from './FitControls';
 import { OpenData } from './OpenData';
 import { RolesPanel } from './RolesPanel';
+import { useResultFocus } from '../resultFocus';
 
 export function DataPanel() {
   const data = useApp((s) => s.data)!;
+  const heading = useResultFocus<HTMLHeadingElement>('data');
   return (
     <div className="panel data-panel">
-      <div className="data-top">
+      <div className="data-head">
         <div>
           {data.source.notice && (
             <p className="invented-note" data-testid="invented-note">
               {data.source.notice}
             </p>
           )}
-          <p>
-            {count(data.nRows)} rows × {data.columns.length} columns from <strong>{data.source.name}</strong>.
-          </p>
+          <h2 className="data-summary" ref={heading} tabIndex={-1}>
+            {plural(data.nRows, 'row')} × {plural(data.columns.length, 'column')} from{' '}
+            <strong>{data.source.name}</strong>.
+          </h2>
           <OpenData compact />
         </div>
-        <FitControls />
       </div>
+      {/* Page order = tab order: the roles first, then the fitting that uses them. */}
       <RolesPanel />
       <DropReport />
+      <FitControls />
       <DataGrid data={data} />
     </div>
   );
@@ -38,7 +42,7 @@ function DropReport() {
     <section className="drop" aria-label="Rows the model will drop">
       <p>
         <strong>{count(r.completeRows)}</strong> of {count(r.nRows)} rows are complete for this model;{' '}
-        <strong data-testid="dropped-rows">{count(r.droppedRows)}</strong> rows (
+        <strong data-testid="dropped-rows">{count(r.droppedRows)}</strong> {r.droppedRows === 1 ? 'row' : 'rows'} (
         {pct(r.droppedRows / Math.max(1, r.nRows))}) will be left out because a value is missing
         {r.droppedRows > 0 ? ':' : '.'}
       </p>
@@ -48,7 +52,7 @@ function DropReport() {
             .filter((c) => c.missing > 0)
             .map((c) => (
               <li key={c.column}>
-                {c.column}: missing in {count(c.missing)} rows ({count(c.onlyThisMissing)} left out for this column
+                {c.column}: missing in {plural(c.missing, 'row')} ({count(c.onlyThisMissing)} left out for this column
                 alone)
               </li>
             ))}

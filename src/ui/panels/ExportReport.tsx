@@ -18,6 +18,7 @@ export function ExportReport() {
   const id = useId();
   const outcome = useApp((s) => s.fit?.fit.recipe.outcome ?? 'model');
   const t = useApp((s) => s.threshold);
+  const costsSet = useApp((s) => s.costsSetByUser);
   const validated = useApp((s) => s.validationStatus === 'done');
   const text = useApp((s) => s.reportText);
   const run = async () => {
@@ -71,7 +72,8 @@ export function ExportReport() {
         {validated
           ? ' with the bootstrap correction'
           : ' (run bootstrap validation first to include optimism-corrected values)'}
-        , plots, the cut-off of {pct(t)} with its costs, warnings and cautions.
+        , plots, the cut-off of {pct(t)} with {costsSet ? 'its costs' : 'the default costs (10 : 1, not set by you)'},
+        warnings and cautions.
       </span>
     </section>
   );

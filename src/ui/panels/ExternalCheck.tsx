@@ -1,6 +1,7 @@
 import { useId } from 'react';
 import { useApp, useEnv } from '../context';
-import { count, num } from '../format';
+import { ExplainList } from '../Explain';
+import { count, num, plural } from '../format';
 import { PerformancePlots } from './PerformancePlots';
 
 /** The model checked on a second file with known outcomes, with the recalibrated models. */
@@ -27,8 +28,22 @@ export function ExternalCheck() {
       />
       {ext && (
         <div data-testid="external-result">
+          {ext.sameCases && (
+            <p className="outside-data" role="alert" data-testid="external-same">
+              <strong>Not an external validation: </strong>this file holds the same cases the model was fitted on. The
+              numbers below only repeat the fit (a recalibration of intercept 0 and slope 1 is what refitting on the
+              same cases always gives). Check the model on cases from another time, place or population.
+            </p>
+          )}
+          {!ext.sameCases && ext.sharedCases > 0 && (
+            <p className="outside-data" role="alert" data-testid="external-same">
+              <strong>Partly the development data: </strong>
+              {count(ext.sharedCases)} of the {count(ext.n)} cases in this file are also cases the model was fitted on,
+              so this check is optimistic.
+            </p>
+          )}
           <p>
-            {count(ext.n)} cases. AUC {num(ext.performance.auc, 3)} ({num(ext.performance.aucLower, 3)} to{' '}
+            {plural(ext.n, 'case')}. AUC {num(ext.performance.auc, 3)} ({num(ext.performance.aucLower, 3)} to{' '}
             {num(ext.performance.aucUpper, 3)}), calibration slope {num(ext.performance.calSlope, 3)},
             calibration-in-the-large {num(ext.performance.calInLarge, 3)}, Brier {num(ext.performance.brier, 4)}.
           </p>
@@ -38,6 +53,7 @@ export function ExternalCheck() {
               {num(ext.recalibration.slope, 3)} on the linear predictor.
             </p>
           )}
+          <ExplainList terms={['externalValidation', 'recalibration']} />
           <PerformancePlots perf={ext.performance} />
         </div>
       )}

@@ -1,8 +1,10 @@
 import { useId } from 'react';
 import * as A from '../../state/actions';
+import { isStale } from '../../state/stale';
 import type { FitMethod } from '../../worker/protocol';
 import { useApp, useEnv } from '../context';
 import { NumberField } from '../NumberField';
+import { thenFocusResult } from '../resultFocus';
 
 const METHODS: { id: FitMethod; label: string; hint: string }[] = [
   { id: 'ml', label: 'Standard (maximum likelihood)', hint: 'Odds ratios with Wald and profile-likelihood intervals.' },
@@ -12,7 +14,9 @@ const METHODS: { id: FitMethod; label: string; hint: string }[] = [
   { id: 'elastic-net', label: 'Elastic net', hint: 'A mix of ridge and lasso; strength chosen by cross-validation.' },
 ];
 
-/** Fitting method, interval level and the Fit button. */
+const wholeIterations = (v: number) => Number.isInteger(v) && v >= 1 && v <= 10_000;
+
+/** Fitting method, interval level, iteration limit and the Fit button. */
 export function FitControls() {
   const { store, ctl } = useEnv();
   const id = useId();
@@ -20,9 +24,18 @@ export function FitControls() {
   const alpha = useApp((s) => s.alpha);
   const rule = useApp((s) => s.lambdaRule);
   const level = useApp((s) => s.level);
-  const stale = useApp((s) => s.fitStale);
+  const maxIter = useApp((s) => s.maxIter);
+  const stale = useApp(isStale);
   const busy = useApp((s) => s.jobs.length > 0);
   const penalised = method === 'ridge' || method === 'lasso' || method === 'elastic-net';
+  /** Fits; the fitted model's heading then takes focus (a failed fit leaves focus on the button). */
+  const fitThenFocus = () => {
+    const before = store.get().fit;
+    return thenFocusResult(ctl.fitModel(), 'model', () => {
+      const now = store.get();
+      return now.fit !== null && now.fit !== before && now.view === 'model';
+    });
+  };
   return (
     <section className="fit-controls" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Fitting</h2>
@@ -72,8 +85,19 @@ export function FitControls() {
             </select>
           </label>
         )}
+        {(method === 'ml' || method === 'firth' || method === 'ridge') && (
+          <NumberField
+            label="Iteration limit"
+            min={1}
+            max={10000}
+            step={1}
+            value={maxIter}
+            valid={wholeIterations}
+            onChange={(v) => store.apply(A.setMaxIter, v)}
+          />
+        )}
       </div>
-      <button type="button" className="primary" disabled={busy} onClick={() => void ctl.fitModel()}>
+      <button type="button" className="primary" disabled={busy} onClick={() => void fitThenFocus()}>
         Fit the model
       </button>
       {stale && (

@@ -1,13 +1,40 @@
 import { scaleLog } from 'd3';
+import type { DesignRecipe } from '../../engine/core';
+import { oddsDisplayRows } from '../../report/oddsUnits';
 import type { OddsRow } from '../../worker/protocol';
+import { useApp } from '../context';
 import { num, palette } from '../format';
 import { PlotExport } from '../plots/PlotExport';
 
-/** Odds ratios on a log axis with their intervals (profile likelihood when available, else Wald). */
-export function ForestPlot({ rows, level }: { rows: OddsRow[]; level: number }) {
-  const shown = rows.filter((r) => r.term !== '(Intercept)' && !r.aliased);
-  const lo = (r: OddsRow) => r.profileLower ?? r.waldLower;
-  const hi = (r: OddsRow) => r.profileUpper ?? r.waldUpper;
+/**
+ * Odds ratios on a log axis with their intervals (profile likelihood when available, else Wald), per the unit
+ * chosen for each numeric predictor, with each categorical predictor's reference level drawn at 1.
+ */
+export function ForestPlot({ rows, level, recipe }: { rows: OddsRow[]; level: number; recipe?: DesignRecipe }) {
+  const units = useApp((s) => s.oddsUnits);
+  const kept = rows.filter((r) => r.term !== '(Intercept)' && !r.aliased);
+  // On the log-odds scale: a row scaled by its unit (limits likewise), a reference row at 0 (OR 1) without interval.
+  const shown: Shown[] = recipe
+    ? oddsDisplayRows(recipe, kept, units).map((d) =>
+        d.kind === 'reference'
+          ? { name: `${d.label} (reference)`, estimate: 0, lower: null, upper: null, reference: true }
+          : {
+              name: d.label,
+              estimate: d.unit * d.row.estimate,
+              lower: scaled(d.row.profileLower ?? d.row.waldLower, d.unit),
+              upper: scaled(d.row.profileUpper ?? d.row.waldUpper, d.unit),
+              reference: false,
+            },
+      )
+    : kept.map((r) => ({
+        name: r.name,
+        estimate: r.estimate,
+        lower: r.profileLower ?? r.waldLower,
+        upper: r.profileUpper ?? r.waldUpper,
+        reference: false,
+      }));
+  const lo = (r: Shown) => r.lower;
+  const hi = (r: Shown) => r.upper;
   const vals = shown.flatMap((r) =>
     [r.estimate, lo(r), hi(r)].filter((v): v is number => v !== null && Number.isFinite(v)),
   );
@@ -51,7 +78,14 @@ export function ForestPlot({ rows, level }: { rows: OddsRow[]; level: number }) 
               {l !== null && h !== null && (
                 <line x1={x(Math.exp(l))} x2={x(Math.exp(h))} y1={y} y2={y} stroke={palette.blue} strokeWidth={2} />
               )}
-              <rect x={x(r.oddsRatio) - 4} y={y - 4} width={8} height={8} fill={palette.vermillion} />
+              <rect
+                x={x(Math.exp(r.estimate)) - 4}
+                y={y - 4}
+                width={8}
+                height={8}
+                fill={r.reference ? 'none' : palette.vermillion}
+                stroke={r.reference ? palette.grey : 'none'}
+              />
             </g>
           );
         })}
@@ -69,3 +103,14 @@ export function ForestPlot({ rows, level }: { rows: OddsRow[]; level: number }) 
     </figure>
   );
 }
+
+interface Shown {
+  name: string;
+  /** Log-odds, per the chosen unit. */
+  estimate: number;
+  lower: number | null;
+  upper: number | null;
+  reference: boolean;
+}
+
+const scaled = (x: number | null, unit: number) => (x === null ? null : unit * x);

@@ -1,6 +1,6 @@
 import type { FitView } from '../../worker/protocol';
 import { useApp, useEnv } from '../context';
-import { ci, count, num, pValue } from '../format';
+import { ci, count, num, plural, pValue } from '../format';
 
 /** Complete-case fit beside the same model pooled over multiple imputations (Rubin's rules). */
 export function ImputedPanel({ view }: { view: FitView }) {
@@ -14,7 +14,7 @@ export function ImputedPanel({ view }: { view: FitView }) {
     <section className="imputed" aria-label="Missing values">
       <h3>Missing values</h3>
       <p>
-        This fit left out {count(view.fit.nDropped)} rows with a missing value (complete-case analysis). That is
+        This fit left out {plural(view.fit.nDropped, 'row')} with a missing value (complete-case analysis). That is
         unbiased only under conditions on why values are missing; multiple imputation uses the other columns to fill
         them in ten times and pools the ten fits.
       </p>

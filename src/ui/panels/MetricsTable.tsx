@@ -1,4 +1,6 @@
 import type { PerformanceView, ValidationView } from '../../worker/protocol';
+import type { GlossaryTerm } from '../../report/glossary';
+import { Explain, ExplainList } from '../Explain';
 import { ci, num } from '../format';
 
 /** Apparent performance with intervals and, after a bootstrap, the optimism and the corrected values. */
@@ -21,6 +23,12 @@ export function MetricsTable({ perf, validation }: { perf: PerformanceView; vali
     'Calibration-in-the-large': 'intercept',
     'Brier score': 'brier',
   };
+  const term: Record<string, GlossaryTerm> = {
+    'AUC (c-statistic)': 'auc',
+    'Calibration slope': 'calibrationSlope',
+    'Calibration-in-the-large': 'calibrationInTheLarge',
+    'Brier score': 'brier',
+  };
   return (
     <table className="metrics" data-testid="metrics">
       <caption>
@@ -29,11 +37,20 @@ export function MetricsTable({ perf, validation }: { perf: PerformanceView; vali
       <thead>
         <tr>
           <th scope="col">Measure</th>
-          <th scope="col">Apparent</th>
-          <th scope="col">95% CI</th>
+          <th scope="col">
+            Apparent
+            <Explain term="apparent" tip />
+          </th>
+          <th scope="col">
+            95% CI
+            <Explain term="confidenceInterval" tip />
+          </th>
           {validation && (
             <>
-              <th scope="col">Optimism</th>
+              <th scope="col">
+                Optimism
+                <Explain term="optimism" tip />
+              </th>
               <th scope="col">Optimism-corrected</th>
             </>
           )}
@@ -44,7 +61,11 @@ export function MetricsTable({ perf, validation }: { perf: PerformanceView; vali
           const c = corr(key[name]);
           return (
             <tr key={name}>
-              <th scope="row">{name}</th>
+              <th scope="row">
+                {name}
+                <br />
+                <Explain term={term[name]} />
+              </th>
               <td className="num">{value}</td>
               <td className="num">{interval}</td>
               {validation && (
@@ -67,6 +88,15 @@ export function MetricsTable({ perf, validation }: { perf: PerformanceView; vali
             {perf.hosmerLemeshow &&
               ` · Hosmer–Lemeshow χ² ${num(perf.hosmerLemeshow.chi2, 2)} on ${perf.hosmerLemeshow.df} df` +
                 ' (secondary: depends on grouping)'}
+            <ExplainList
+              terms={[
+                'scaledBrier',
+                'averagePrecision',
+                'ici',
+                ...(perf.hosmerLemeshow ? (['hosmerLemeshow'] as const) : []),
+                ...(validation ? (['optimism'] as const) : []),
+              ]}
+            />
           </td>
         </tr>
       </tfoot>

@@ -1,18 +1,22 @@
 import type { FitView } from '../../worker/protocol';
+import { Explain } from '../Explain';
 import { Caution } from '../Caution';
 import { useApp } from '../context';
-import { count, num, pValue } from '../format';
+import { count, num, plural, pValue } from '../format';
 import { NumbersTable } from '../plots/NumbersTable';
 import { ExportReport } from './ExportReport';
 import { FitControls } from './FitControls';
 import { ForestPlot } from './ForestPlot';
 import { ImputedPanel } from './ImputedPanel';
 import { OddsTable } from './OddsTable';
+import { StaleBanner } from '../StaleBanner';
+import { useResultFocus } from '../resultFocus';
 
 export function ModelPanel() {
   const view = useApp((s) => s.fit);
   return (
     <div className="panel model-panel">
+      <StaleBanner />
       {!view && <FitControls />}
       {view && <FitSummary view={view} />}
       {view && <OddsTable view={view} />}
@@ -20,7 +24,7 @@ export function ModelPanel() {
         <div className="cols">
           <div>
             <h3>Odds ratios</h3>
-            <ForestPlot rows={view.rows} level={view.fit.level} />
+            <ForestPlot rows={view.rows} level={view.fit.level} recipe={view.fit.recipe} />
             <NumbersTable
               summary="Odds ratios as numbers"
               headers={['Term', 'Odds ratio', 'Lower', 'Upper']}
@@ -29,8 +33,8 @@ export function ModelPanel() {
                 .map((r) => [
                   r.name,
                   num(r.oddsRatio),
-                  num(Math.exp(r.profileLower ?? r.waldLower ?? NaN)),
-                  num(Math.exp(r.profileUpper ?? r.waldUpper ?? NaN)),
+                  unboundedSide(view, r.name, 'lower') ?? num(Math.exp(r.profileLower ?? r.waldLower ?? NaN)),
+                  unboundedSide(view, r.name, 'upper') ?? num(Math.exp(r.profileUpper ?? r.waldUpper ?? NaN)),
                 ])}
             />
           </div>
@@ -57,16 +61,22 @@ function FitSummary({ view }: { view: FitView }) {
     'elastic-net': 'elastic net',
   }[view.request.method];
   const how = f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge';
+  const heading = useResultFocus<HTMLHeadingElement>('model');
   return (
     <section className="summary" aria-label="Fit summary" data-testid="fit-summary">
+      <h2 className="result-heading" ref={heading} tabIndex={-1}>
+        The fitted model
+      </h2>
       <p>
         Fitted by <strong>{methodName}</strong>
-        {how} on <strong>{count(f.nUsed)}</strong> rows ({count(f.events)} events, {count(f.nonEvents)} non-events
-        {f.nDropped > 0 ? `; ${count(f.nDropped)} rows left out for missing values` : ''}). {f.parameters}{' '}
+        {how} on <strong>{count(f.nUsed)}</strong> {f.nUsed === 1 ? 'row' : 'rows'} ({plural(f.events, 'event')},{' '}
+        {plural(f.nonEvents, 'non-event')}
+        {f.nDropped > 0 ? `; ${plural(f.nDropped, 'row')} left out for missing values` : ''}). {f.parameters}{' '}
         {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
         {view.threads > 1 && (
           <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>
         )}
+        <Explain term="eventsPerParameter" label />
       </p>
       {view.lambda && (
         <p>
@@ -83,7 +93,11 @@ function FitSummary({ view }: { view: FitView }) {
         </p>
       ) : (
         <p>
-          Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors: likelihood-ratio χ² ={' '}
+          Deviance {num(f.deviance, 2)} vs {num(f.nullDeviance, 2)} without predictors
+          {penalisedTests(f)
+            ? ` (both unpenalised); penalised-likelihood-ratio χ² (Firth's penalised log-likelihood ` +
+              `${num(f.penalisedLogLik ?? NaN, 2)}, not a deviance difference) = `
+            : ': likelihood-ratio χ² = '}
           {num(f.modelLrChi2, 2)} on {f.modelDf} df, p{' '}
           {pValue(f.modelLrP).startsWith('<') ? pValue(f.modelLrP) : `= ${pValue(f.modelLrP)}`}. AIC {num(f.aic, 1)},
           BIC {num(f.bic, 1)}.
@@ -93,12 +107,27 @@ function FitSummary({ view }: { view: FitView }) {
   );
 }
 
+/** Firth's tests are penalised-likelihood ratios (the record's testLikelihood; older records: by method). */
+const penalisedTests = (f: FitView['fit']) =>
+  (f.testLikelihood ?? (f.method === 'firth' ? 'penalised' : 'ordinary')) === 'penalised';
+
+/** "0" / "∞" for a profile limit that is unbounded on the odds-ratio scale (separation), else null. */
+function unboundedSide(view: FitView, name: string, side: 'lower' | 'upper'): string | null {
+  const c = view.fit.coefficients.find((k) => k.name === name);
+  if (side === 'lower') return c?.profileLowerUnbounded ? '0' : null;
+  return c?.profileUpperUnbounded ? '∞' : null;
+}
+
 function TermTests({ view }: { view: FitView }) {
   const terms = view.fit.terms.filter((t) => t.name !== '(Intercept)');
   if (terms.every((t) => t.lrChi2 === null)) return null;
   return (
     <table className="terms" aria-label="Likelihood-ratio test per term">
-      <caption>Does each term matter? Likelihood-ratio test of leaving it out</caption>
+      <caption>
+        Does each term matter? {penalisedTests(view.fit) ? 'Penalised-likelihood-ratio' : 'Likelihood-ratio'} test of
+        leaving it out{penalisedTests(view.fit) ? " (Firth's penalised likelihood)" : ''}
+        <Explain term="likelihoodRatioTest" />
+      </caption>
       <thead>
         <tr>
           <th scope="col">Term</th>

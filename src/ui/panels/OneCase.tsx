@@ -1,6 +1,9 @@
 import { useId, useMemo, useState } from 'react';
 import { useApp, useEnv } from '../context';
-import { pct } from '../format';
+import { num, pct } from '../format';
+
+/** A range end as typed data show it: whole numbers plain, others to 2 decimals. */
+const plain = (x: number) => (Number.isInteger(x) ? String(x).replace('-', '−') : num(x, 2));
 
 /** A form with the model's predictors, filled with the typical case, and the predicted risk with its interval. */
 export function OneCase() {
@@ -18,6 +21,7 @@ export function OneCase() {
     }
     return [...cols.entries()];
   }, [fit]);
+  const ranges = fit?.fit.recipe.ranges ?? {};
   const typical = () => Object.fromEntries(inputs.map(([c]) => [c, String(fit?.typical[c] ?? '')]));
   const [values, setValues] = useState<Record<string, string>>(typical);
   // A new model starts the form again from its typical case.
@@ -62,6 +66,12 @@ export function OneCase() {
                   placeholder={col?.median !== null && col?.median !== undefined ? `typical ${col.median}` : undefined}
                 />
               )}
+              {!levels && ranges[c] && outside(values[c], ranges[c]) && (
+                <span className="outside-data" role="status" data-testid={`outside-${c}`}>
+                  Outside the data the model was fitted on ({plain(ranges[c][0])} to {plain(ranges[c][1])}): the risk is
+                  an extrapolation.
+                </span>
+              )}
             </label>
           );
         })}
@@ -77,6 +87,23 @@ export function OneCase() {
           {score.threshold !== t ? ` (the cut-off is now ${pct(t)}; predict again to update)` : ''}.
         </p>
       )}
+      {score && score.outside.length > 0 && (
+        <p className="outside-data" role="alert" data-testid="score-outside">
+          <strong>Extrapolation: </strong>
+          {score.outside
+            .map((o) => `${o.column} = ${plain(o.value)} (data ${plain(o.min)} to ${plain(o.max)})`)
+            .join('; ')}{' '}
+          {score.outside.length === 1 ? 'lies' : 'lie'} outside the data the model was fitted on. The model has not seen
+          such cases; this risk may be far off. Check the value and its units.
+        </p>
+      )}
     </section>
   );
+}
+
+/** True when `text` is a number outside [min, max] (blank or unreadable text is not flagged here). */
+function outside(text: string | undefined, [min, max]: [number, number]): boolean {
+  if (text === undefined || text.trim() === '') return false;
+  const x = Number(text);
+  return Number.isFinite(x) && (x < min || x > max);
 }

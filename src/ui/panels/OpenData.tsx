@@ -1,13 +1,22 @@
 import { useId, useState, type DragEvent } from 'react';
 import { useEnv } from '../context';
+import { thenFocusResult } from '../resultFocus';
 import { ReadingOptions } from './ReadingOptions';
 
 /** File picker, drag-and-drop target and paste box. Files are read in the worker, never uploaded. */
 export function OpenData({ compact = false }: { compact?: boolean }) {
-  const { ctl } = useEnv();
+  const { ctl, store } = useEnv();
   const id = useId();
   const [over, setOver] = useState(false);
   const [pasted, setPasted] = useState('');
+  /** Reads the pasted cells; the data view's heading then takes focus. */
+  const readPasted = () => {
+    const before = store.get().data;
+    return thenFocusResult(ctl.pasteText(pasted), 'data', () => {
+      const now = store.get().data;
+      return now !== before && now?.source.kind === 'paste';
+    });
+  };
   const onDrop = (e: DragEvent) => {
     e.preventDefault();
     setOver(false);
@@ -48,7 +57,7 @@ export function OpenData({ compact = false }: { compact?: boolean }) {
         <div className="paste">
           <label htmlFor={`${id}-paste`}>Or paste cells copied from a spreadsheet (first row = column names)</label>
           <textarea id={`${id}-paste`} rows={3} value={pasted} onChange={(e) => setPasted(e.target.value)} />
-          <button type="button" disabled={!pasted.trim()} onClick={() => void ctl.pasteText(pasted)}>
+          <button type="button" disabled={!pasted.trim()} onClick={() => void readPasted()}>
             Use pasted cells
           </button>
         </div>

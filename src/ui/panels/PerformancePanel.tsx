@@ -3,6 +3,8 @@ import { Caution } from '../Caution';
 import { useApp, useEnv } from '../context';
 import { MetricsTable } from './MetricsTable';
 import { PerformancePlots } from './PerformancePlots';
+import { StaleBanner } from '../StaleBanner';
+import { JobsHere } from '../JobBar';
 
 export function PerformancePanel() {
   const perf = useApp((s) => s.fit?.performance ?? null);
@@ -10,6 +12,7 @@ export function PerformancePanel() {
   if (!perf) return <p>Fit a model to see how well it separates and how far its risks can be trusted.</p>;
   return (
     <div className="panel perf-panel">
+      <StaleBanner />
       <MetricsTable perf={perf} validation={validation} />
       <Validation />
       <PerformancePlots perf={perf} />
@@ -34,6 +37,7 @@ function Validation() {
       <button type="button" disabled={status === 'running'} onClick={() => void ctl.validate(b)}>
         Run bootstrap validation
       </button>
+      <JobsHere view="performance" />
       <span role="status" data-testid="validation-status">
         {status === 'running' && ' Running: the whole fitting procedure is repeated on each resample.'}
         {status === 'cancelled' && ' Validation cancelled; apparent values only.'}

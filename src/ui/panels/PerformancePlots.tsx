@@ -1,4 +1,5 @@
 import type { PerformanceView } from '../../worker/protocol';
+import { Explain } from '../Explain';
 import { finiteMax, num, palette, pct } from '../format';
 import { LinePlot } from '../plots/LinePlot';
 import { NumbersTable } from '../plots/NumbersTable';
@@ -19,6 +20,7 @@ export function PerformancePlots({ perf }: { perf: PerformanceView }) {
           width={300}
           height={250}
         />
+        <Explain term="rocCurve" />
         <NumbersTable
           summary="ROC points"
           headers={['1 − specificity', 'Sensitivity']}
@@ -42,6 +44,7 @@ export function PerformancePlots({ perf }: { perf: PerformanceView }) {
           width={300}
           height={250}
         />
+        <Explain term="averagePrecision" />
         <NumbersTable
           summary="Precision–recall points"
           headers={['Recall', 'Precision']}
@@ -67,6 +70,7 @@ export function PerformancePlots({ perf }: { perf: PerformanceView }) {
           width={300}
           height={250}
         />
+        <Explain term="calibrationCurve" />
         <NumbersTable
           summary="Calibration curve points"
           headers={['Predicted', 'Observed', 'Lower', 'Upper']}
@@ -108,6 +112,7 @@ export function PerformancePlots({ perf }: { perf: PerformanceView }) {
           width={300}
           height={250}
         />
+        <Explain term="netBenefit" />
         <NumbersTable
           summary="Net benefit as numbers"
           headers={['Threshold', 'Model', 'Treat all']}

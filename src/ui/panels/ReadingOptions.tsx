@@ -8,7 +8,7 @@ export function ReadingOptions() {
   const { store, ctl } = useEnv();
   const settings = useApp((s) => s.importSettings);
   const data = useApp((s) => s.data);
-  const fromFile = data?.source.kind === 'file';
+  const rereadable = data?.source.kind === 'file' || data?.source.kind === 'paste';
   const set = (patch: Partial<ImportSettings>) => store.apply(A.setImportSettings, patch);
   const sheets = data?.format?.sheets ?? [];
   return (
@@ -71,9 +71,11 @@ export function ReadingOptions() {
             </select>
           </label>
         )}
-        {fromFile && (
+        {rereadable && (
           <button type="button" onClick={() => void ctl.reread()}>
-            Read the file again with these settings
+            {data?.source.kind === 'paste'
+              ? 'Read the pasted cells again with these settings'
+              : 'Read the file again with these settings'}
           </button>
         )}
       </div>

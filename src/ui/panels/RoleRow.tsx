@@ -9,7 +9,8 @@ const TYPES: ColumnType[] = ['numeric', 'binary', 'categorical', 'date', 'identi
 /** One predictor: include it, how to read its column, its reference level and its shape. */
 export function RoleRow({ col, nRows }: { col: ColumnView; nRows: number }) {
   const { ctl } = useEnv();
-  const fromFile = useApp((s) => s.data?.source.kind === 'file');
+  // A file's or pasted cells' columns can be read as another type (demos are generated, not read).
+  const fromFile = useApp((s) => s.data?.source.kind === 'file' || s.data?.source.kind === 'paste');
   const role = useApp((s) => s.roles[col.name]);
   const set = (r: Parameters<typeof A.setPredictor>[1]['role']) =>
     void ctl.act(A.changeRole, { column: col.name, role: r });
@@ -55,7 +56,7 @@ export function RoleRow({ col, nRows }: { col: ColumnView; nRows: number }) {
             disabled={!role?.include}
             onChange={(e) => set({ reference: e.target.value || null })}
           >
-            <option value="">most frequent</option>
+            <option value="">default</option>
             {col.levels.map((l) => (
               <option key={l} value={l}>
                 {l}

@@ -1,3 +1,5 @@
+import { ordinal } from '../format';
+
 /** The text equivalent of a plot: a collapsible table of the plotted numbers. */
 export function NumbersTable(props: {
   summary: string;
@@ -33,7 +35,7 @@ export function NumbersTable(props: {
       </table>
       {step > 1 && (
         <p className="hint">
-          Every {step}th of {props.rows.length} points shown.
+          Every {ordinal(step)} of {props.rows.length} points shown.
         </p>
       )}
     </details>

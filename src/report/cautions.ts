@@ -1,0 +1,54 @@
+/**
+ * The cautions that go with every result, worded for the setting the model is meant for: clinical (patients,
+ * governance, licensed clinical judgement) or industrial / quality (products, a quality system, local procedures).
+ * The page (src/ui/Caution.tsx) and the PDF read the same setting and the same words.
+ */
+export type CautionSetting = 'clinical' | 'quality';
+
+export const CAUTION_SETTINGS: readonly { value: CautionSetting; label: string }[] = [
+  { value: 'clinical', label: 'clinical (patients)' },
+  { value: 'quality', label: 'industrial / quality (products, processes)' },
+];
+
+/** The setting of a saved or typed value: 'quality' only when it says so, otherwise clinical (the default). */
+export function cautionSettingOf(v: unknown): CautionSetting {
+  return v === 'quality' ? 'quality' : 'clinical';
+}
+
+const INTERNAL =
+  'Internal validation (apparent and bootstrap optimism-corrected performance on the development data) ' +
+  'is not external validation. ';
+
+/** The cautions printed in the PDF, per setting. */
+export const CAUTIONS_BY_SETTING: Readonly<Record<CautionSetting, readonly string[]>> = {
+  clinical: [
+    'Fulcra is a statistics workbench, not a medical device. This model has not been assessed by any regulator ' +
+      'and must not be used on its own to make decisions about individual patients.',
+    INTERNAL + 'Performance in another hospital, period or population is unknown until it is measured there.',
+    'Before use in another setting, check calibration on local data and recalibrate (at least the intercept) ' +
+      'if the outcome rate differs.',
+    'Use follows local governance and approval processes, and does not replace licensed clinical judgement.',
+  ],
+  quality: [
+    'Fulcra is a statistics workbench, not a validated measuring or control system. This model has not been ' +
+      'validated under any quality system and must not be used on its own to accept, reject or release ' +
+      'individual products or batches.',
+    INTERNAL + 'Performance on another line, plant, period or material is unknown until it is measured there.',
+    'Before use in another setting, check calibration on local data and recalibrate (at least the intercept) ' +
+      'if the outcome rate differs.',
+    'Use follows your quality system and local procedures (change control, validation of computerised systems), ' +
+      'and does not replace the judgement of qualified quality staff.',
+  ],
+};
+
+/** The one-paragraph caution shown beside results on the page; `external`: the results are from another file. */
+export function pageCaution(setting: CautionSetting, external: boolean): string {
+  const validation = external
+    ? 'Performance on one external file is still one setting; '
+    : "A model's internal validation is not external validation; ";
+  return setting === 'quality'
+    ? `Not a validated measuring or control system. ${validation}recalibrate before using the model elsewhere, ` +
+        'and follow your quality system and local procedures.'
+    : `Not a medical device. ${validation}recalibrate before using the model elsewhere, ` +
+        'and follow local governance and licensed clinical judgement.';
+}
