@@ -308,9 +308,10 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
     maxIter: w.maxIter,
     costs: w.costs,
     costsSetByUser:
-      w.costs.missedCase !== initialState.costs.missedCase || w.costs.falseAlarm !== initialState.costs.falseAlarm,
+      w.costsSetByUser ??
+      (w.costs.missedCase !== initialState.costs.missedCase || w.costs.falseAlarm !== initialState.costs.falseAlarm),
     threshold: w.threshold,
-    cutoffHow: 'restored',
+    cutoffHow: w.cutoffHow ?? 'restored',
     reportText: w.reportText,
     oddsUnits: w.oddsUnits,
     importSettings: w.importSettings,

@@ -6,7 +6,7 @@
 import type { Dataset } from '../engine/core';
 import { cleanOddsUnits } from '../report/oddsUnits';
 import type { Workspace } from '../io/export/workspaceFile';
-import type { DataSummary } from '../worker/protocol';
+import type { CutoffHow, DataSummary } from '../worker/protocol';
 import { buildSpec } from './actions';
 import { defaultImportSettings, initialState, type AppState, type PredictorRole } from './appState';
 
@@ -29,6 +29,10 @@ export interface WorkbenchSettings extends Pick<
   | 'importSettings'
   | 'view'
 > {
+  /** How the cut-off was set; absent in workspaces saved before it was kept (restoring then says "restored"). */
+  cutoffHow?: AppState['cutoffHow'];
+  /** The costs were set by the user; absent in workspaces saved before it was kept (then judged from the costs). */
+  costsSetByUser?: boolean;
   /** A model had been fitted: fit it again on restore so the results reappear. */
   fitted: boolean;
 }
@@ -53,6 +57,8 @@ export function settingsOf(s: AppState): WorkbenchSettings {
     maxIter: s.maxIter,
     threshold: s.threshold,
     costs: s.costs,
+    costsSetByUser: s.costsSetByUser,
+    cutoffHow: s.cutoffHow,
     reportText: s.reportText,
     oddsUnits: s.oddsUnits,
     importSettings: s.importSettings,
@@ -90,6 +96,12 @@ const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'obj
 /** A saved iteration limit if it is one the engine accepts; otherwise (older workspaces: none) the default 50. */
 const maxIterOr = (v: unknown, fallback: number): number =>
   Number.isInteger(v) && (v as number) >= 1 && (v as number) <= 10_000 ? (v as number) : fallback;
+const cutoffHows: readonly unknown[] = ['cost-based', 'cheapest', 'hand', 'restored'] satisfies CutoffHow[];
+/** How the cut-off was set and whether the costs were the user's, each only when saved and valid. */
+const originOf = (w: Record<string, unknown>): Pick<WorkbenchSettings, 'cutoffHow' | 'costsSetByUser'> => ({
+  ...(cutoffHows.includes(w.cutoffHow) ? { cutoffHow: w.cutoffHow as CutoffHow } : {}),
+  ...(typeof w.costsSetByUser === 'boolean' ? { costsSetByUser: w.costsSetByUser } : {}),
+});
 
 /**
  * The settings of a saved workspace: taken from `extra.workbench` when Fulcra wrote it, otherwise rebuilt from
@@ -97,13 +109,15 @@ const maxIterOr = (v: unknown, fallback: number): number =>
  */
 export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
   const w = ws.extra?.workbench;
-  const base: WorkbenchSettings = { ...settingsOf(initialState), importSettings: defaultImportSettings };
+  // Neither default is a saved choice: without a valid saved value restoring decides (see workspaceRestored).
+  const { cutoffHow: _how, costsSetByUser: _set, ...defaults } = settingsOf(initialState);
+  const base: WorkbenchSettings = { ...defaults, importSettings: defaultImportSettings };
   if (isObject(w) && isObject(w.roles) && Array.isArray(w.interactions) && isObject(w.costs)) {
-    const saved = w as unknown as WorkbenchSettings;
+    const { cutoffHow: _savedHow, costsSetByUser: _savedSet, ...saved } = w as unknown as WorkbenchSettings;
     // Workspaces saved before the one method enum call elastic net 'elasticnet'.
     const method = (saved.method as string) === 'elasticnet' ? 'elastic-net' : saved.method;
     const oddsUnits = cleanOddsUnits(saved.oddsUnits);
-    return { ...base, ...saved, method, maxIter: maxIterOr(saved.maxIter, base.maxIter), oddsUnits };
+    return { ...base, ...saved, method, maxIter: maxIterOr(saved.maxIter, base.maxIter), oddsUnits, ...originOf(w) };
   }
   const roles: Record<string, PredictorRole> = {};
   const interactions: [string, string][] = [];

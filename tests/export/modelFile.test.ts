@@ -12,6 +12,7 @@ import {
 } from '../../src/io/export/modelFile';
 import { readModelFile } from '../../src/io/export/readModelFile';
 import { birthwtRichSpec, loadBirthwt } from '../report/birthwtRecord';
+import { readCsvDataset } from '../engine/fit/helpers';
 
 const data = loadBirthwt();
 const result = fit(data, birthwtRichSpec);
@@ -103,6 +104,76 @@ describe('model file', () => {
       expectFulcraError(() => readModelFile(JSON.stringify(f)), 'model-file-invalid', message);
     }
     expectFulcraError(() => readModelFile('{"fulcraModel": 1, '), 'model-file-invalid', /not valid JSON/);
+  });
+
+  describe('endometrial (NV separates HG)', () => {
+    const endo = readCsvDataset('tests/fixtures/data/endometrial.csv');
+    const spec = { outcome: 'HG', terms: ['NV', 'PI', 'EH'].map((c) => ({ type: 'main' as const, column: c })) };
+    const reopen = (r: ReturnType<typeof fit>) =>
+      modelFileToFitResult(readModelFile(modelFileToJson(createModelFile(r, { fulcraVersion: '0.1.0' }))));
+    const flags = (r: ReturnType<typeof fit>) =>
+      r.coefficients.map((c) => [c.profileLowerUnbounded, c.profileUpperUnbounded]);
+
+    it("round-trips a Firth fit's penalised log-likelihood, test likelihood and profile-limit flags", () => {
+      const firth = fit(endo, spec, { method: 'firth' });
+      expect(firth.testLikelihood).toBe('penalised');
+      expect(typeof firth.penalisedLogLik).toBe('number');
+      const reopened = reopen(firth);
+      expect(reopened.penalisedLogLik).toBe(firth.penalisedLogLik);
+      expect(reopened.testLikelihood).toBe('penalised');
+      // Firth's limits for NV are finite (brglm2: 0.61 to 7.85), so every flag is false.
+      expect(flags(reopened)).toEqual(flags(firth));
+      expect(
+        flags(reopened)
+          .flat()
+          .every((x) => x === false),
+      ).toBe(true);
+    });
+
+    it("round-trips NV's unbounded upper profile limit (ML, where NV diverges)", () => {
+      const ml = fit(endo, spec, { method: 'ml' });
+      const nv = ml.coefficients.findIndex((c) => c.name === 'NV');
+      expect(ml.coefficients[nv].profileUpperUnbounded).toBe(true);
+      const reopened = reopen(ml);
+      expect(reopened.coefficients[nv].profileUpperUnbounded).toBe(true);
+      expect(reopened.coefficients[nv].profileUpper).toBeNull();
+      expect(flags(reopened)).toEqual(flags(ml));
+      expect(reopened.testLikelihood).toBe('ordinary');
+      expect(reopened.penalisedLogLik).toBeNull();
+    });
+  });
+
+  it('reads a file saved before penalisedLogLik, testLikelihood and the unbounded-limit flags', () => {
+    const f = JSON.parse(saved());
+    deleteAt(f, ['fit', 'penalisedLogLik']);
+    deleteAt(f, ['fit', 'testLikelihood']);
+    for (const k of f.coefficients) {
+      delete k.profileLowerUnbounded;
+      delete k.profileUpperUnbounded;
+    }
+    const text = JSON.stringify(f);
+    expect(text).not.toMatch(/penalisedLogLik|testLikelihood|Unbounded/);
+    const reopened = modelFileToFitResult(readModelFile(text));
+    expect(reopened.penalisedLogLik).toBeUndefined();
+    expect(reopened.testLikelihood).toBeUndefined();
+    expect(reopened.coefficients.every((c) => c.profileUpperUnbounded === undefined)).toBe(true);
+    expect(reopened.coefficients.map((c) => c.estimate)).toEqual(result.coefficients.map((c) => c.estimate));
+  });
+
+  it('names a new optional field of the wrong type', () => {
+    const cases: [(f: unknown) => void, RegExp][] = [
+      [(f) => setAt(f, ['fit', 'penalisedLogLik'], 'x'), /"fit\.penalisedLogLik" must be a number/],
+      [(f) => setAt(f, ['fit', 'testLikelihood'], 'firth'), /"fit\.testLikelihood" must be one of ordinary, penalised/],
+      [
+        (f) => setAt(f, ['coefficients', 1, 'profileUpperUnbounded'], 1),
+        /"coefficients\[1\]\.profileUpperUnbounded" must be true or false/,
+      ],
+    ];
+    for (const [edit, message] of cases) {
+      const f = JSON.parse(saved());
+      edit(f);
+      expectFulcraError(() => readModelFile(JSON.stringify(f)), 'model-file-invalid', message);
+    }
   });
 
   it('refuses to save a model with a non-finite coefficient', () => {

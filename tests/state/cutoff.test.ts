@@ -64,8 +64,10 @@ describe('how the cut-off was set', () => {
 });
 
 describe('a restored workspace', () => {
+  // As a workspace saved before it kept how the cut-off was set and whether the costs were the user's.
+  const { cutoffHow: _how, costsSetByUser: _set, ...old } = initialState;
   const settings = (missedCase: number) => ({
-    ...initialState,
+    ...old,
     costs: { missedCase, falseAlarm: 1 },
     threshold: 0.25,
     fitted: true,

@@ -3,6 +3,7 @@ import { createAutosave, DATA_KEY } from '../../src/state/autosave';
 import { createController } from '../../src/state/controller';
 import { createStore } from '../../src/state/store';
 import * as A from '../../src/state/actions';
+import { initialState } from '../../src/state/appState';
 import { WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
 import type { WorkerClient } from '../../src/bridge/workerClient';
 import { createApi } from '../../src/worker/api';
@@ -278,6 +279,52 @@ describe('settings of a saved workspace', () => {
     expect(w.costs).toEqual({ missedCase: 12, falseAlarm: 3 });
     expect(w.reportText).toEqual({ purpose: 'audit' });
     expect(w.fitted).toBe(true);
+  });
+
+  it('keeps how the cut-off was set and whether the costs were the user’s; invalid or missing ones are dropped', () => {
+    const costs5 = A.setCosts(createStore().get(), { missedCase: 5 });
+    const s = A.chooseCutoff(costs5, { threshold: 1 / 6, how: 'cost-based' });
+    // As the file and IndexedDB keep it: plain JSON.
+    const ws = JSON.parse(JSON.stringify(toWorkspace(s, null, false)));
+    expect(settingsFromWorkspace(ws)).toMatchObject({
+      costs: { missedCase: 5, falseAlarm: 1 },
+      threshold: 1 / 6,
+      cutoffHow: 'cost-based',
+      costsSetByUser: true,
+    });
+    const summary = { source: { kind: 'file', name: 'a.csv', notice: null }, nRows: 1, columns: [], warnings: [] };
+    const back = A.workspaceRestored(initialState, { summary: summary as never, settings: settingsFromWorkspace(ws) });
+    expect(back).toMatchObject({ threshold: 1 / 6, cutoffHow: 'cost-based', costsSetByUser: true });
+    const hand = settingsFromWorkspace(toWorkspace(A.setThreshold(initialState, 0.3), null, false));
+    expect([hand.cutoffHow, hand.costsSetByUser]).toEqual(['hand', false]);
+    for (const extra of [
+      {},
+      { cutoffHow: 'by magic', costsSetByUser: 'yes' },
+      { cutoffHow: null, costsSetByUser: 1 },
+    ]) {
+      const w = settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench: { ...workbench, ...extra } } });
+      expect('cutoffHow' in w || 'costsSetByUser' in w).toBe(false);
+    }
+    // Written by another tool (no extra record): neither is known.
+    const other = settingsFromWorkspace({ ...empty, fitOptions: {}, costs: { missedCase: 5, falseAlarm: 1 } });
+    expect('cutoffHow' in other || 'costsSetByUser' in other).toBe(false);
+  });
+
+  it('an old workspace without them restores as before: cut-off "restored", costs set when not the default', () => {
+    const summary = { source: { kind: 'file', name: 'a.csv', notice: null }, nRows: 1, columns: [], warnings: [] };
+    const settings = settingsFromWorkspace({
+      ...empty,
+      fitOptions: {},
+      extra: { workbench: { ...workbench, threshold: 1 / 6 } },
+    });
+    const s = A.workspaceRestored(initialState, { summary: summary as never, settings });
+    expect(s).toMatchObject({ threshold: 1 / 6, cutoffHow: 'restored', costsSetByUser: true });
+    const d = settingsFromWorkspace({
+      ...empty,
+      fitOptions: {},
+      extra: { workbench: { ...workbench, costs: { missedCase: 10, falseAlarm: 1 } } },
+    });
+    expect(A.workspaceRestored(initialState, { summary: summary as never, settings: d }).costsSetByUser).toBe(false);
   });
 
   it('restoring ignores roles and an outcome of columns the data no longer have', () => {

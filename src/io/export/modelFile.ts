@@ -15,9 +15,12 @@ export const MODEL_FILE_VERSION = 1;
  *   intercept first) — everything needed to rebuild the design for new data; optional `ranges`, the
  *   [min, max] of each numeric predictor over the rows fitted (scoring warns outside them).
  * - `coefficients`: one row per design column in `recipe.columnNames` order: estimate (on the logit scale),
- *   se / p / Wald and profile limits (null where not available or not finite), aliased flag.
+ *   se / p / Wald and profile limits (null where not available or not finite), aliased flag; optional
+ *   `profileLowerUnbounded` / `profileUpperUnbounded` (the limit runs to −∞ / +∞; its number is then null).
  * - `covariance`: row-major p×p covariance of the estimates, or null (ridge).
- * - `fit`: method, λ, CI level, convergence and the training fit statistics.
+ * - `fit`: method, λ, CI level, convergence and the training fit statistics; optional `penalisedLogLik` (Firth;
+ *   null otherwise) and `testLikelihood` ('ordinary' | 'penalised': the likelihood of the model and term tests).
+ *   Files saved before these optional fields lack them.
  * - `training`: file name, row count and optional performance summary.
  * - `threshold`: chosen risk threshold with its two costs, or null.
  * - `notes`: the user's purpose / setting / population text and free notes (each optional).
@@ -47,6 +50,8 @@ export interface ModelFile {
     deviance: number;
     nullDeviance: number;
     logLik: number;
+    penalisedLogLik?: number | null;
+    testLikelihood?: 'ordinary' | 'penalised';
     aic: number | null;
     bic: number | null;
     modelLrChi2: number | null;
@@ -75,6 +80,8 @@ export interface ModelFileCoefficient {
   waldUpper: number | null;
   profileLower: number | null;
   profileUpper: number | null;
+  profileLowerUnbounded?: boolean;
+  profileUpperUnbounded?: boolean;
   aliased: boolean;
 }
 
@@ -117,6 +124,8 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
       waldUpper: finiteOrNull(c.waldUpper),
       profileLower: finiteOrNull(c.profileLower),
       profileUpper: finiteOrNull(c.profileUpper),
+      ...(c.profileLowerUnbounded === undefined ? {} : { profileLowerUnbounded: c.profileLowerUnbounded }),
+      ...(c.profileUpperUnbounded === undefined ? {} : { profileUpperUnbounded: c.profileUpperUnbounded }),
       aliased: c.aliased,
     })),
     terms: fit.terms.map((t) => ({
@@ -141,6 +150,8 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
       deviance: fit.deviance,
       nullDeviance: fit.nullDeviance,
       logLik: fit.logLik,
+      ...(fit.penalisedLogLik === undefined ? {} : { penalisedLogLik: finiteOrNull(fit.penalisedLogLik) }),
+      ...(fit.testLikelihood === undefined ? {} : { testLikelihood: fit.testLikelihood }),
       aic: fit.aic,
       bic: fit.bic,
       modelLrChi2: fit.modelLrChi2,

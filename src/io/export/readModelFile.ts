@@ -42,6 +42,13 @@ export function readModelFile(text: string): ModelFile {
       waldUpper: c.numberOrNull(r.waldUpper, `${p}.waldUpper`),
       profileLower: c.numberOrNull(r.profileLower, `${p}.profileLower`),
       profileUpper: c.numberOrNull(r.profileUpper, `${p}.profileUpper`),
+      // Optional: files saved before the unbounded-limit flags lack them.
+      ...(r.profileLowerUnbounded === undefined
+        ? {}
+        : { profileLowerUnbounded: c.boolean(r.profileLowerUnbounded, `${p}.profileLowerUnbounded`) }),
+      ...(r.profileUpperUnbounded === undefined
+        ? {}
+        : { profileUpperUnbounded: c.boolean(r.profileUpperUnbounded, `${p}.profileUpperUnbounded`) }),
       aliased: c.boolean(r.aliased, `${p}.aliased`),
     };
   });
@@ -108,6 +115,11 @@ export function readModelFile(text: string): ModelFile {
       deviance: num('deviance'),
       nullDeviance: num('nullDeviance'),
       logLik: num('logLik'),
+      // Optional: files saved before Firth's penalised tests were labelled lack them.
+      ...(f.penalisedLogLik === undefined ? {} : { penalisedLogLik: numOrNull('penalisedLogLik') }),
+      ...(f.testLikelihood === undefined
+        ? {}
+        : { testLikelihood: c.oneOf(f.testLikelihood, ['ordinary', 'penalised'] as const, 'fit.testLikelihood') }),
       aic: numOrNull('aic'),
       bic: numOrNull('bic'),
       modelLrChi2: numOrNull('modelLrChi2'),
