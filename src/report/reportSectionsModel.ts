@@ -1,5 +1,5 @@
+import { KNOT_RULE, REFERENCE_RULE } from './rules';
 import { isPenalised } from '../engine/core';
-import { KNOT_RULE } from '../engine/design';
 import type { FitResult } from '../engine/core';
 import { oddsDisplayRows, type OddsUnits } from './oddsUnits';
 import { modelEquation, riskFormula } from './equation';
@@ -108,11 +108,7 @@ export function predictors(L: PdfLayout, m: FitResult): void {
     rows,
   );
   const notes: string[] = [];
-  if (m.recipe.terms.some((t) => t.type === 'categorical'))
-    notes.push(
-      'Reference level, unless one was chosen: the absence level of a two-level column such as 0/1, no/yes or ' +
-        'FALSE/TRUE (0, no, FALSE), otherwise the most frequent level.',
-    );
+  if (m.recipe.terms.some((t) => t.type === 'categorical')) notes.push(REFERENCE_RULE);
   if (m.recipe.terms.some((t) => t.type === 'spline')) notes.push(KNOT_RULE);
   if (notes.length > 0) L.paragraph(notes.join(' '), { size: 8.5 });
 }

@@ -3,7 +3,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { KNOT_RULE } from '../../src/engine/design';
+import { KNOT_RULE } from '../../src/report/rules';
 import { buildModelReport } from '../../src/report/buildModelReport';
 import { birthwtReportInput, birthwtRichSpec, birthwtSpec } from './birthwtRecord';
 

@@ -1,12 +1,6 @@
 import { FulcraError } from '../core/data';
 import { quantileSorted } from '../numerics/quantile';
 
-/** One sentence stating the default knot placement, for the page, the PDF and the CLI help. */
-export const KNOT_RULE =
-  "Knots at Harrell's default quantiles (Hmisc rcspline.eval): .10/.50/.90 of the values for 3 knots, " +
-  '.05/.35/.65/.95 for 4, .05/.275/.5/.725/.95 for 5; with fewer than 100 values the outer knots are the 5th ' +
-  'smallest and 5th largest value, and a column with at most k + 2 distinct values gets its inner distinct values.';
-
 /** Hmisc's `fractied`: an end value held by at least this share of the values (and no inner one) is a knot itself. */
 const FRACTIED = 0.05;
 

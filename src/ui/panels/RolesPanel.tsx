@@ -1,3 +1,4 @@
+import { KNOT_RULE, REFERENCE_RULE } from '../../report/rules';
 import { useId } from 'react';
 import * as A from '../../state/actions';
 import { useApp, useEnv } from '../context';
@@ -73,16 +74,8 @@ export function RolesPanel() {
         </tbody>
       </table>
       <p className="hint">
-        Default reference level: the absence level of a two-level column such as 0/1, no/yes or FALSE/TRUE (0, no,
-        FALSE), otherwise the most frequent level.
-        {candidates.some((c) => roles[c.name]?.include && roles[c.name].knots > 0) && (
-          <>
-            {' '}
-            Spline knots at Harrell&apos;s default quantiles (Hmisc rcspline.eval): .10/.50/.90 of the values for 3
-            knots, .05/.35/.65/.95 for 4, .05/.275/.5/.725/.95 for 5; with fewer than 100 values the outer knots are the
-            5th smallest and 5th largest value.
-          </>
-        )}
+        {REFERENCE_RULE}
+        {candidates.some((c) => roles[c.name]?.include && roles[c.name].knots > 0) && ' ' + KNOT_RULE}
       </p>
       <Interactions
         columns={candidates.filter((c) => roles[c.name]?.include).map((c) => c.name)}
