@@ -59,15 +59,15 @@ describe('the large-data rule (the same for the page and npm run fit)', () => {
   });
   const r = resolveRequest({ spec });
 
-  it('keeps profile intervals and term tests up to 10⁶ design cells', () => {
+  it('keeps profile intervals up to 3·10⁶ design cells and term tests up to 5·10⁶', () => {
     expect(largeDataPlan(data(PROFILE_MAX_CELLS / 2), r)).toEqual({ profile: true, termTests: true, warnings: [] });
   });
 
-  it('drops profile intervals above 10⁶ cells and term tests above 5·10⁶, each with a notice', () => {
+  it('drops profile intervals above 3·10⁶ cells and term tests above 5·10⁶, each with a notice', () => {
     const mid = largeDataPlan(data(PROFILE_MAX_CELLS / 2 + 1), r);
     expect([mid.profile, mid.termTests]).toEqual([false, true]);
     expect(mid.warnings.map((w) => w.code)).toEqual(['large-data-wald-only']);
-    expect(mid.warnings[0].message).toContain('With 500,001 rows, profile-likelihood intervals were not computed');
+    expect(mid.warnings[0].message).toContain('With 1,500,001 rows, profile-likelihood intervals were not computed');
     const big = largeDataPlan(data(TERM_TESTS_MAX_CELLS / 2 + 1), { ...r, profile: false });
     expect([big.profile, big.termTests]).toEqual([false, false]);
     expect(big.warnings.map((w) => w.code)).toEqual(['large-data-no-term-tests']);

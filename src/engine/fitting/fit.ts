@@ -6,6 +6,7 @@ import { validateFitOptions, type EngineFitOptions } from './fitOptions';
 import { informationCriteria, nullDeviance, originalCovariance, waldTable, type WaldRow } from './inference';
 import { newtonLogistic, type NewtonResult } from './newton';
 import { eventCounts, originalScaleBeta, prepareFit, type PreparedFit } from './prepareFit';
+import type { ProfileTraces } from './chordSolve';
 import { profileLimits, separatedProfileLimits, type Limits } from './profileLimits';
 import { detectSeparation, fitToLimit, noSeparation, separationWarning } from './separation';
 import { modelTest, termTests } from './termTests';
@@ -16,14 +17,26 @@ import { modelTest, termTests } from './termTests';
  * Coefficients are on the original scale, intercept first. Wald and profile-likelihood CIs (ML: profile deviance;
  * Firth: profile penalised likelihood), per-term and whole-model likelihood-ratio tests; ridge fits carry no
  * inference table. Data problems (separation, aliasing, few events, dropped rows) are coded warnings.
- * Cost: one Newton fit, plus one constrained refit per term (termTests) and about 2×4 per coefficient (profile).
+ * Cost: one Newton fit, plus a few passes over the rows per term test and per profile limit (chordSolve.ts; the
+ * constrained refits of termTests / profileCi only where those do not converge, or for all with refitInference).
+ * `progress(done, total)` is told after the Newton fit, each coefficient's profile limits and each term test
+ * (synchronously: a worker passes it on to the page while it keeps computing).
  */
-export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOptions> = {}): FitResult {
+export function fit(
+  data: Dataset,
+  spec: ModelSpec,
+  options: Partial<EngineFitOptions> = {},
+  progress?: (done: number, total: number) => void,
+): FitResult {
   const o = validateFitOptions(options);
   const prep = prepareFit(data, spec, o);
   const { design, keep, warnings } = prep;
   const { n, p, y } = design;
   const ridge = o.method === 'ridge';
+  const total = 1 + (o.profile ? keep.length : 0) + (!ridge && o.termTests ? design.termColumns.length : 0);
+  let done = 0;
+  const step = () => progress?.(++done, total);
+  progress?.(0, total);
 
   const nrPath = newtonLogistic(prep.problem, { tol: o.tol, maxIter: o.maxIter, recordPath: o.method === 'ml' });
   const sep =
@@ -42,6 +55,7 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const sepCols = new Set(sep.columns.map((k) => keep[k]));
   const sepWarning = separationWarning(sep, sepCols, design, n, nrPath.converged, o.maxIter);
   if (sepWarning) warnings.push(sepWarning);
+  step();
 
   const beta = originalScaleBeta(prep, nrPath.beta);
   let covariance = ridge ? null : originalCovariance(nrPath.information, keep, p, destandardiseMap(prep.std));
@@ -50,13 +64,24 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
   const wald = covariance && sep.kind !== 'complete' ? waldTable(beta, covariance, o.level) : [];
   if (separated) covariance = null;
   let profiles: Limits[] = [];
+  const traces: ProfileTraces = new Map();
   if (o.profile && separated) profiles = separatedProfileLimits(prep, nr, sep, o.level, Math.min(o.tol, 1e-12));
   else if (o.profile && covariance)
-    profiles = profileLimits(prep, nr, beta, (j) => wald[j]?.se ?? NaN, o.level, Math.max(o.maxIter, 100));
+    profiles = profileLimits(
+      prep,
+      nr,
+      beta,
+      (j) => wald[j]?.se ?? NaN,
+      o.level,
+      Math.max(o.maxIter, 100),
+      step,
+      o.refitInference,
+      traces,
+    );
 
   const deviance = -2 * nr.logLik;
   const nullDev = nullDeviance(y);
-  const { modelDf, modelLrChi2, modelLrP } = modelTest(prep, nr, o, nullDev, deviance);
+  const { modelDf, modelLrChi2, modelLrP } = modelTest(prep, nr, o, nullDev, deviance, o.refitInference);
   const { aic, bic } = informationCriteria(deviance, keep.length, n);
   const counts = eventCounts(y, keep.length - 1, warnings);
   if (ridge) warnings.push(ridgeWarning(o.lambda));
@@ -68,7 +93,7 @@ export function fit(data: Dataset, spec: ModelSpec, options: Partial<EngineFitOp
     converged: nrPath.converged,
     iterations: nrPath.iterations,
     coefficients: coefficientRows(prep.design, beta, prep.aliased, (j) => (sepCols.has(j) ? null : wald[j]), profiles),
-    terms: termTests(prep, nr, o, !ridge && o.termTests, separated),
+    terms: termTests(prep, nr, o, !ridge && o.termTests, separated, step, o.refitInference, traces),
     deviance,
     nullDeviance: nullDev,
     logLik: nr.logLik,

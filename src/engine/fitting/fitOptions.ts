@@ -5,9 +5,18 @@ import { defaultFitOptions, type FitOptions } from '../core/model';
 export interface FitExtraOptions {
   /** Likelihood-ratio test per term (one constrained refit per term; default true). */
   termTests: boolean;
+  /**
+   * Every profile limit and term test by constrained refits instead of the chord-Newton solves (chordSolve.ts):
+   * the slower reference path, which tests and the bench compare against (default false).
+   */
+  refitInference: boolean;
 }
 export type EngineFitOptions = FitOptions & FitExtraOptions;
-export const defaultEngineFitOptions: EngineFitOptions = { ...defaultFitOptions, termTests: true };
+export const defaultEngineFitOptions: EngineFitOptions = {
+  ...defaultFitOptions,
+  termTests: true,
+  refitInference: false,
+};
 
 /** Declared constraints of every fit option: one table, checked before any work is done. */
 export const fitOptionTable: { [K in keyof EngineFitOptions]: { valid: (v: unknown) => boolean; expected: string } } = {
@@ -21,6 +30,7 @@ export const fitOptionTable: { [K in keyof EngineFitOptions]: { valid: (v: unkno
   level: { valid: (v) => typeof v === 'number' && v > 0 && v < 1, expected: 'a number between 0 and 1 (e.g. 0.95)' },
   profile: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
   termTests: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
+  refitInference: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
 };
 
 /** Fills defaults and checks every option against fitOptionTable; throws a FulcraError naming the bad value. */

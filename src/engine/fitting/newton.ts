@@ -533,3 +533,36 @@ export function newtonLogistic(problem: LogisticProblem, options: Partial<Newton
  * weight wᵢ then agrees to 1e-12 relative, so every entry of X'WX does.
  */
 const INFO_REUSE_ETA = 1e-12;
+
+/**
+ * The solver's own objective of `problem` at any β (one fused pass; Firth also its X'WX pass), for the profile and
+ * constrained-fit solvers of chordSolve.ts: `at(b)` returns the objective and the score (gradient of the penalised
+ * log-likelihood, N-scaled) at b; `information()` X'WX + N·diag(penalty) at the last b; `release()` gives the row
+ * buffers back. Fixed coordinates play no part here.
+ */
+export function objectiveEvaluator(problem: LogisticProblem) {
+  const { n, p, weights: c, penalty } = problem;
+  let N = n;
+  if (c) {
+    N = 0;
+    for (let i = 0; i < n; i++) N += c[i];
+  }
+  const ws = createWorkspace(problem, N);
+  const slot = ws.newSlot();
+  return {
+    N,
+    at(b: Float64Array): { obj: number; g: Float64Array } {
+      ws.evaluate(b, slot, false);
+      return { obj: slot.obj, g: slot.g };
+    },
+    information(): Float64Array {
+      if (!slot.infoValid) ws.computeInfo(slot);
+      const H = Float64Array.from(slot.info);
+      if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
+      return H;
+    },
+    release(): void {
+      giveBackBuffers(slot.eta, slot.w);
+    },
+  };
+}

@@ -16,6 +16,8 @@ export interface ProfileTarget {
   se: number;
   /** Iteration limit of each constrained refit (default 100). */
   maxIter?: number;
+  /** Limits already found (chordSolve.ts), θ scale: only the other sides are searched by refits. */
+  known?: { lower?: number; upper?: number };
 }
 
 /**
@@ -25,7 +27,7 @@ export interface ProfileTarget {
  * (Venzon & Moolgavkar 1988). Each root is found from the Wald limit by Newton's method on f, whose derivative is
  * exact by the envelope theorem (f' = −2·score_j·scale at the constrained optimum), safeguarded by bisection inside
  * a bracket; it stops when |f| < 1e-9 or the bracket is below `tol`·(1 + |θ|). A bound is null when the profile
- * never reaches the critical value (separation).
+ * never reaches the critical value (separation). Sides given in `known` are taken as they are.
  */
 export function profileInterval(
   t: ProfileTarget,
@@ -79,5 +81,5 @@ export function profileInterval(
     }
     return Number.isNaN(outer) ? null : 0.5 * (inner + outer);
   };
-  return { lower: bound(-1), upper: bound(1) };
+  return { lower: t.known?.lower ?? bound(-1), upper: t.known?.upper ?? bound(1) };
 }

@@ -1,4 +1,5 @@
 import { qchisq } from '../numerics/distributions';
+import { chordProfileBound, type ChordBase, type ProfileTraces } from './chordSolve';
 import type { NewtonResult } from './newton';
 import type { PreparedFit } from './prepareFit';
 import { profileInterval } from './profileCi';
@@ -37,8 +38,12 @@ function forEachCoordinate(prep: PreparedFit, each: (k: number, j: number, shift
 }
 
 /**
- * Profile-likelihood limits of every kept coefficient on the original scale (profileCi.ts), null for aliased
- * columns. Each constrained refit stops after at most `maxIter` iterations.
+ * Profile-likelihood limits of every kept coefficient on the original scale, null for aliased columns. Each limit
+ * is first solved directly by chord-Newton steps on the fit's information (chordSolve.ts, one pass over the rows
+ * per step); a side that does not converge that way is found by constrained refits (profileCi.ts), each stopping
+ * after at most `maxIter` iterations. `step` is called after each coefficient (progress). `exact` uses the refits
+ * for every side (tests and the bench compare the two). The points of both limits of each slope go into `traces`
+ * (termTests starts from them).
  */
 export function profileLimits(
   prep: PreparedFit,
@@ -47,17 +52,46 @@ export function profileLimits(
   se: (j: number) => number,
   level: number,
   maxIter = 100,
+  step?: () => void,
+  exact = false,
+  traces?: ProfileTraces,
 ): Limits[] {
   const { std, problem } = prep;
   const profiles: Limits[] = new Array(prep.design.p).fill(null);
   const target = { problem, objective: nr.objective, maxIter };
+  const crit = qchisq(level, 1);
+  const H = nr.information;
+  const Hshift = exact ? H : shiftedInformation(prep, H);
   forEachCoordinate(prep, (k, j, shifted) => {
     const b = shifted ? Float64Array.from(nr.beta) : nr.beta;
     if (shifted) b[0] = beta[0];
     const scale = shifted ? 1 : std.scale[j];
-    profiles[j] = profileInterval({ ...target, beta: b, index: k, scale, estimate: beta[j], se: se(j) }, level);
+    const known: { lower?: number; upper?: number } = {};
+    if (!exact) {
+      const base: ChordBase = { problem, beta: b, objective: nr.objective, H: shifted ? Hshift : H };
+      const lo = chordProfileBound(base, k, crit, -1),
+        up = chordProfileBound(base, k, crit, 1);
+      if (lo !== null) known.lower = lo[k] / scale;
+      if (up !== null) known.upper = up[k] / scale;
+      if (lo && up && !shifted) traces?.set(k, { lower: lo, upper: up });
+    }
+    profiles[j] = profileInterval({ ...target, beta: b, index: k, scale, estimate: beta[j], se: se(j), known }, level);
+    step?.();
   });
   return profiles;
+}
+
+/**
+ * The information in the coordinates of the intercept's profile (forEachCoordinate): the design there is X·T with
+ * T = I + e₀c' (c_k = m_k/s_k of the kept slopes), so it is T'HT: H_ij + c_i·H_0j + H_i0·c_j + c_i·c_j·H_00.
+ */
+function shiftedInformation(prep: PreparedFit, H: Float64Array): Float64Array {
+  const p = prep.keep.length;
+  const c = Float64Array.from(prep.keep, (j) => (j > 0 ? prep.std.centerOverScale[j] : 0));
+  const out = new Float64Array(p * p);
+  for (let i = 0; i < p; i++)
+    for (let j = 0; j < p; j++) out[i * p + j] = H[i * p + j] + c[i] * H[j] + H[i * p] * c[j] + c[i] * c[j] * H[0];
+  return out;
 }
 
 /** Doublings of the 0.25-unit step before a side whose profile never reaches the critical value is unbounded. */

@@ -1,5 +1,6 @@
 import type { FitOptions, TermRow } from '../core/model';
 import { pchisqUpper } from '../numerics/distributions';
+import { chordConstrainedObjective, traceStart, type ProfileTraces } from './chordSolve';
 import { newtonLogistic, type NewtonResult } from './newton';
 import type { PreparedFit } from './prepareFit';
 import { limitFromStarts, neutralStart } from './separation';
@@ -10,8 +11,29 @@ import { limitFromStarts, neutralStart } from './separation';
  * from the fit, keeping the lower (limitFromStarts): from the diverged fit alone the refit can stay stuck where
  * fitted risks are 0 or 1 on the wrong side. The statistic is then the limiting one, between 0 and the null
  * deviance (the neutral start begins at the null deviance and Newton with step-halving only goes down).
+ * Otherwise the constrained optimum is first solved by chord-Newton steps from the one-step estimate on the fit's
+ * information (chordSolve.ts; a single held coefficient starts on its profile trace when `traces` has it), and
+ * refitted only when that does not converge (or always when `exact`).
  */
-function constrainedStat(prep: PreparedFit, nr: NewtonResult, zero: number[], o: FitOptions, separated: boolean) {
+function constrainedStat(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  zero: number[],
+  o: FitOptions,
+  separated: boolean,
+  exact = false,
+  traces?: ProfileTraces,
+) {
+  if (!separated && !exact) {
+    const trace = zero.length === 1 ? traces?.get(zero[0]) : undefined;
+    const start = trace ? traceStart(nr.beta, zero[0], trace.lower, trace.upper) : null;
+    const obj = chordConstrainedObjective(
+      { problem: prep.problem, beta: nr.beta, objective: nr.objective, H: nr.information },
+      zero,
+      start ?? undefined,
+    );
+    if (obj !== null) return Math.max(0, 2 * prep.problem.n * (obj - nr.objective));
+  }
   const fixed = new Uint8Array(prep.problem.p);
   for (const k of zero) fixed[k] = 1;
   const tol = Math.min(o.tol, 1e-12);
@@ -42,13 +64,18 @@ export function termTests(
   o: FitOptions,
   run: boolean,
   separated = false,
+  /** Called after each term's refit (progress). */
+  step?: () => void,
+  exact = false,
+  traces?: ProfileTraces,
 ): TermRow[] {
   const kIndex = new Map(prep.keep.map((j, k) => [j, k]));
   return prep.design.termColumns.map((t) => {
     const kept = t.columns.filter((j) => kIndex.has(j)).map((j) => kIndex.get(j)!);
     if (!run || kept.length === 0)
       return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
-    const chi2 = constrainedStat(prep, nr, kept, o, separated);
+    const chi2 = constrainedStat(prep, nr, kept, o, separated, exact, traces);
+    step?.();
     return { name: t.name, columns: t.columns, df: kept.length, lrChi2: chi2, lrP: pchisqUpper(chi2, kept.length) };
   });
 }
@@ -57,12 +84,19 @@ export function termTests(
  * The whole-model likelihood-ratio test on pk − 1 df: null deviance − deviance for ML (the limiting deviance under
  * separation) and ridge; for Firth the penalised-likelihood ratio, every non-intercept column fixed at 0.
  */
-export function modelTest(prep: PreparedFit, nr: NewtonResult, o: FitOptions, nullDev: number, deviance: number) {
+export function modelTest(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  o: FitOptions,
+  nullDev: number,
+  deviance: number,
+  exact = false,
+) {
   const modelDf = prep.keep.length - 1;
   let modelLrChi2 = Math.max(0, nullDev - deviance);
   if (o.method === 'firth' && modelDf > 0) {
     const all = Array.from({ length: modelDf }, (_, k) => k + 1);
-    modelLrChi2 = constrainedStat(prep, nr, all, o, false);
+    modelLrChi2 = constrainedStat(prep, nr, all, o, false, exact);
   }
   return { modelDf, modelLrChi2, modelLrP: modelDf > 0 ? pchisqUpper(modelLrChi2, modelDf) : 1 };
 }

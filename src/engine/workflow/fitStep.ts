@@ -11,12 +11,14 @@ import { fitPipeline, type Pipeline } from '../validation/pipeline';
 import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
 
 /**
- * Above these design sizes (rows × design columns) profile-likelihood intervals (~2×4 constrained refits per
- * coefficient) and term tests (one refit per term) are skipped with a notice: at 10⁵ × 21 they cost about
- * +14 s and +3 s CPU, at 10⁶ × 21 the term tests alone +17 s (measured). Wald intervals agree closely with
+ * Above these design sizes (rows × design columns) profile-likelihood intervals and term tests (one constrained
+ * solve per limit and per term, by chord-Newton steps from the fit's information, fitting/chordSolve.ts) are
+ * skipped with a notice. Measured CPU on this 2-core machine (single thread, 2026-12-04, seeded 10⁵-row file):
+ * at 10⁵ × 25 (2.6·10⁶ cells) the profile limits add 1.1 s and the term tests 0.3 s; at 10⁵ × 50 (5.1·10⁶ cells)
+ * 6.0 s and 1.8 s. So the limits stop near where their cost passes 2–3 s. Wald intervals agree closely with
  * profile ones at such sample sizes.
  */
-export const PROFILE_MAX_CELLS = 1e6;
+export const PROFILE_MAX_CELLS = 3e6;
 export const TERM_TESTS_MAX_CELLS = 5e6;
 
 /** How λ of a penalised fit was set, with the cross-validation path when it was chosen by CV. */
@@ -65,7 +67,7 @@ export function largeDataPlan(
 ): { profile: boolean; termTests: boolean; warnings: EngineWarning[] } {
   const size = data.nRows * designColumnCount(data, r.spec);
   const profile = r.profile && size <= PROFILE_MAX_CELLS;
-  const termTests = size <= TERM_TESTS_MAX_CELLS;
+  const termTests = r.termTests && size <= TERM_TESTS_MAX_CELLS;
   const rows = data.nRows.toLocaleString('en');
   const warnings: EngineWarning[] = [];
   if (!profile && r.profile) {
@@ -78,7 +80,7 @@ export function largeDataPlan(
       ),
     );
   }
-  if (!termTests) {
+  if (!termTests && r.termTests) {
     warnings.push(
       warning(
         'large-data-no-term-tests',
@@ -101,13 +103,12 @@ export async function fitStep(data: Dataset, r: AnalysisRequest, hooks?: LongRun
   const warnings = [...plan.warnings];
   const { level, maxIter } = r;
   if (r.method === 'ml' || r.method === 'firth') {
-    const f = fit(data, r.spec, {
-      method: r.method,
-      level,
-      maxIter,
-      profile: plan.profile,
-      termTests: plan.termTests,
-    });
+    const f = fit(
+      data,
+      r.spec,
+      { method: r.method, level, maxIter, profile: plan.profile, termTests: plan.termTests },
+      hooks?.onProgress,
+    );
     return { fit: f, lambda: null, warnings };
   }
   const noInference = { level, maxIter, profile: false, termTests: false };

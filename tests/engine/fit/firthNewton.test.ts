@@ -249,7 +249,8 @@ describe('Firth Newton safeguards and the iteration limit on brglm2::endometrial
   });
 
   it('fit() gives its iteration limit to every Newton run: main fit, profile limits and term tests', () => {
-    const r = fit(data, spec, { method: 'firth', maxIter: 321 });
+    // refitInference: the constrained refits themselves (by default they run only where chordSolve.ts fails)
+    const r = fit(data, spec, { method: 'firth', maxIter: 321, refitInference: true });
     expect(r.converged).toBe(true);
     expect(newtonCalls.length).toBeGreaterThan(20);
     expect(newtonCalls.filter((o) => o.maxIter !== 321)).toEqual([]);
