@@ -18,6 +18,7 @@ export default tseslint.config(
       'test-results/**',
       'playwright-report/**',
       'bench-out/**',
+      '.cli-build/**',
     ],
   },
   js.configs.recommended,

@@ -190,6 +190,19 @@ describe('the iteration limit and a fixed λ in npm run fit', () => {
     expect(full.warnings.map((w) => w.code)).not.toContain('not-converged');
   }, 60_000);
 
+  it('as built by .ci/cli.mjs (what `npm run fit` runs) prints the record the TypeScript source prints', () => {
+    const argv = ['tests/fixtures/data/birthwt.csv', '--outcome', 'low', '--categorical', 'race', '--json'];
+    const strip = (out: string) => {
+      const r = JSON.parse(out);
+      delete r.created; // the time of the run
+      return r;
+    };
+    const built = execFileSync('node', ['.ci/cli.mjs', 'fit', ...argv], { encoding: 'utf8', maxBuffer: 64 << 20 });
+    const source = execFileSync('npx', ['tsx', 'src/cli/fit.ts', ...argv], { encoding: 'utf8', maxBuffer: 64 << 20 });
+    expect(strip(built)).toEqual(strip(source));
+    expect(execFileSync('node', ['.ci/cli.mjs', 'fit', '--help'], { encoding: 'utf8' })).toMatch(/^Usage: npm run fit/);
+  }, 120_000);
+
   it('states the penalised objective and the new options in --help', () => {
     const help = execFileSync('npx', ['tsx', 'src/cli/fit.ts', '--help'], { encoding: 'utf8' });
     expect(help).toContain('−(1/n)·loglik + λ·[(1−α)/2·‖β‖² + α·‖β‖₁]');
