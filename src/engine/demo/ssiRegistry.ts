@@ -42,9 +42,16 @@ const SSI: DemoMeta = {
 };
 
 /**
+ * The one seeded data-entry error of the demo (for the diagnostics view to find): data row 1054 (spreadsheet row
+ * 1056), an operation of 48 minutes entered in seconds, 2880 — an impossible 48-hour operation without infection.
+ */
+export const ssiSeededError = { dataRow: 1054, sheetRow: 1056, column: 'duration_min', value: 2880, was: 48 } as const;
+
+/**
  * INVENTED surgical-site-infection registry of "Northfield General Hospital (fictional)": n operations
  * drawn from a logistic model with the known coefficients `ssiTruth` (outcome `ssi_30d`, event "yes");
- * about 2% of BMI, 1% of duration and 1% of smoker cells are then removed completely at random.
+ * about 2% of BMI, 1% of duration and 1% of smoker cells are then removed completely at random; finally one
+ * duration is overwritten with a data-entry error (ssiSeededError) when n is large enough to hold that row.
  */
 export function generateSsiRegistry(n = 2000, seed = 20240611): DemoScenario {
   const rng = demoRng(n, seed);
@@ -77,6 +84,7 @@ export function generateSsiRegistry(n = 2000, seed = 20240611): DemoScenario {
   punchMissing(rng, bmiCol, 0.02);
   punchMissing(rng, durCol, 0.01);
   punchMissing(rng, smokerCol, 0.01);
+  if (n > ssiSeededError.dataRow) durCol.values[ssiSeededError.dataRow] = ssiSeededError.value;
   return demoScenario(SSI, seed, ssiTruth, [
     numeric('age', age),
     bmiCol,
