@@ -5,3 +5,4 @@ export * from './model';
 export * from './vectors';
 export * from './warnings';
 export * from './wording';
+export * from './monitoringSignals';

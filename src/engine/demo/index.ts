@@ -5,8 +5,9 @@ import { generateSsiRegistry } from './ssiRegistry';
 
 export type DemoId = 'ssi' | 'seals';
 export type { DemoScenario, TrueCoefficient } from './shared';
-export { generateSsiRegistry, ssiTruth } from './ssiRegistry';
+export { generateSsiRegistry, ssiSeededError, ssiTruth } from './ssiRegistry';
 export { generateSealLog, sealTruth } from './sealFailures';
+export { generateSsiMonitoring, ssiMonitoringChange, type MonitoringDemo } from './ssiMonitoring';
 
 /** The two invented demos by id, at their default size and seed. */
 export function generateDemo(id: DemoId): DemoScenario {

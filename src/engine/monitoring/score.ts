@@ -1,0 +1,163 @@
+import { FulcraError, getColumn, sheetRow, type Column, type Dataset } from '../core/data';
+import { linearPredictorFromRecipe } from '../design/design';
+import { sigmoid } from '../numerics/loss';
+import type { ScoringModel } from '../validation/recalibration';
+import type { MonitoringCases, MonitoringScoringSummary } from './monitor';
+import type { UnscoredReason, UnscoredRow } from './types';
+
+/** A unit per data row: codes into `levels`, −1 where missing. */
+export interface UnitCodes {
+  codes: Int32Array;
+  levels: string[];
+}
+
+/** Most unscored rows listed one by one (all are counted). */
+export const UNSCORED_LISTED = 1000;
+
+/** The unit of every row of `data` from column `name` (numbers become their text). */
+export function unitsFromColumn(data: Dataset, name: string): UnitCodes {
+  const col = getColumn(data, name);
+  if (col.kind === 'categorical') return { codes: col.codes, levels: col.levels };
+  const levels: string[] = [];
+  const index = new Map<number, number>();
+  const codes = new Int32Array(data.nRows);
+  for (let i = 0; i < data.nRows; i++) {
+    const v = col.values[i];
+    if (Number.isNaN(v)) {
+      codes[i] = -1;
+      continue;
+    }
+    let c = index.get(v);
+    if (c === undefined) {
+      c = levels.length;
+      index.set(v, c);
+      levels.push(String(v));
+    }
+    codes[i] = c;
+  }
+  return { codes, levels };
+}
+
+function missing(col: Column, r: number): boolean {
+  return col.kind === 'numeric' ? Number.isNaN(col.values[r]) : col.codes[r] < 0;
+}
+
+function textOf(col: Column, r: number): string | null {
+  if (col.kind === 'categorical') return col.codes[r] < 0 ? null : col.levels[col.codes[r]];
+  return Number.isNaN(col.values[r]) ? null : String(col.values[r]);
+}
+
+/**
+ * Scores the rows of a monitoring file with `model` (its recipe and coefficients, unchanged) and sorts the scored
+ * cases by date (ties keep file order). A row is not scored, and is listed with its spreadsheet row and reason,
+ * when its date, outcome, unit (if units are given) or a predictor is missing, or a categorical predictor has a
+ * category the model was not fitted with. `dates` are epoch days per data row (NaN: missing or unreadable);
+ * `names` are the date and unit columns, for the list.
+ */
+export function scoreMonitoring(
+  model: ScoringModel,
+  data: Dataset,
+  dates: Float64Array,
+  units: UnitCodes | null,
+  names: { date: string; unit: string | null } = { date: '(date)', unit: '(unit)' },
+): { cases: MonitoringCases; summary: MonitoringScoringSummary } {
+  const { recipe } = model;
+  if (
+    model.coefficients.length !== recipe.columnNames.length ||
+    model.coefficients.some((c, j) => c.name !== recipe.columnNames[j])
+  )
+    throw new FulcraError('model-mismatch', 'The coefficients do not line up with the model recipe’s design columns.');
+  if (dates.length !== data.nRows)
+    throw new FulcraError('internal', `${dates.length} dates were given for ${data.nRows} rows.`);
+  if (!data.columns.some((c) => c.name === recipe.outcome))
+    throw new FulcraError(
+      'no-outcome',
+      `The monitoring file has no column "${recipe.outcome}", the model's outcome.`,
+      'Add the outcome column: monitoring compares observed outcomes with the model’s risks.',
+    );
+  const outcome = getColumn(data, recipe.outcome);
+  const used = new Set<string>();
+  for (const t of recipe.terms) for (const c of t.type === 'interaction' ? t.parts : [t.column]) used.add(c);
+  const predictors = [...used].map((name) => getColumn(data, name));
+  const known = new Map<string, Set<string>>();
+  for (const t of recipe.terms) if (t.type === 'categorical') known.set(t.column, new Set(t.levels));
+  const categorical = predictors.filter((c) => known.has(c.name));
+
+  const byReason: Record<UnscoredReason, number> = {
+    'missing-date': 0,
+    'missing-outcome': 0,
+    'missing-unit': 0,
+    'missing-value': 0,
+    'unknown-category': 0,
+  };
+  const unscored: UnscoredRow[] = [];
+  const keep = new Int32Array(data.nRows);
+  let k = 0;
+  const skip = (r: number, reason: UnscoredReason, column: string, value: string | null = null) => {
+    byReason[reason]++;
+    if (unscored.length < UNSCORED_LISTED) unscored.push({ row: sheetRow(data, r), reason, column, value });
+  };
+  rows: for (let r = 0; r < data.nRows; r++) {
+    if (!Number.isFinite(dates[r])) {
+      skip(r, 'missing-date', names.date);
+      continue;
+    }
+    if (missing(outcome, r)) {
+      skip(r, 'missing-outcome', outcome.name);
+      continue;
+    }
+    if (units && units.codes[r] < 0) {
+      skip(r, 'missing-unit', names.unit ?? '(unit)');
+      continue;
+    }
+    for (const c of predictors)
+      if (missing(c, r)) {
+        skip(r, 'missing-value', c.name);
+        continue rows;
+      }
+    for (const c of categorical) {
+      const v = textOf(c, r)!;
+      if (!known.get(c.name)!.has(v)) {
+        skip(r, 'unknown-category', c.name, v);
+        continue rows;
+      }
+    }
+    keep[k++] = r;
+  }
+  const enc = linearPredictorFromRecipe(
+    recipe,
+    model.coefficients.map((c) => c.estimate),
+    data,
+    { rows: keep.subarray(0, k) },
+  );
+  const n = enc.n;
+  const src = enc.rowsUsed;
+  const order = new Int32Array(n);
+  let sorted = true;
+  for (let i = 0; i < n; i++) {
+    order[i] = i;
+    if (i > 0 && dates[src[i]] < dates[src[i - 1]]) sorted = false;
+  }
+  if (!sorted) order.sort((a, b) => dates[src[a]] - dates[src[b]] || a - b);
+  const y = new Float64Array(n),
+    eta = new Float64Array(n),
+    risk = new Float64Array(n),
+    date = new Float64Array(n),
+    row = new Int32Array(n);
+  const unit = units ? new Int32Array(n) : null;
+  const ey = enc.y!;
+  for (let i = 0; i < n; i++) {
+    const j = order[i],
+      r = src[j];
+    y[i] = ey[j];
+    eta[i] = enc.eta[j];
+    risk[i] = sigmoid(enc.eta[j]);
+    date[i] = dates[r];
+    row[i] = sheetRow(data, r);
+    if (unit) unit[i] = units!.codes[r];
+  }
+  return {
+    cases: { y, eta, risk, date, unit, unitLevels: units ? units.levels : [], row },
+    summary: { nRows: data.nRows, unscored, unscoredByReason: byReason },
+  };
+}
