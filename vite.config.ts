@@ -196,6 +196,9 @@ function singleFilePlugin(): Plugin {
   };
 }
 
+/** Modules of the @stdlib distribution packages. */
+const STDLIB = /[\\/]node_modules[\\/]@stdlib[\\/]/;
+
 export default defineConfig(({ mode }) => {
   const single = mode === 'single';
   return {
@@ -214,15 +217,21 @@ export default defineConfig(({ mode }) => {
       format: single ? 'iife' : 'es',
       plugins: () => [jspdfOptionalStubs(), ...(single ? [noRowPoolInSingleFile()] : [])],
     },
-    build: single
-      ? {
-          outDir: 'dist-single',
-          emptyOutDir: true,
-          cssCodeSplit: false,
-          assetsInlineLimit: () => true,
-          modulePreload: false,
-        }
-      : {},
+    build: {
+      ...(single
+        ? {
+            outDir: 'dist-single',
+            emptyOutDir: true,
+            cssCodeSplit: false,
+            assetsInlineLimit: () => true,
+            modulePreload: false,
+          }
+        : {}),
+      // The distribution functions (@stdlib, CommonJS) are pure, but CommonJS cannot say so: without this, a page
+      // module that merely reaches src/engine/numerics through an index keeps them, start-up code and all — one
+      // of which probes generator support with eval, refused by the page's policy.
+      rolldownOptions: { treeshake: { moduleSideEffects: (id: string) => !STDLIB.test(id) } },
+    },
     // Dev: the same policy as an HTTP header, loosened only for the dev server's inline React-refresh preamble
     // and its HMR websocket (connect-src 'self' covers ws: to the same host and port).
     server: { host: '127.0.0.1', headers: { 'Content-Security-Policy': policy('dev'), ...isolation } },

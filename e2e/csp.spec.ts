@@ -19,9 +19,9 @@ const recordViolations = (page: Page) =>
 const violations = (page: Page) => page.evaluate(() => (window as unknown as { __violations: string[] }).__violations);
 
 /**
- * A deflated workbook whose sheet part is over 512 KB unpacked: read-excel-file's unzipper (fflate) inflates such
- * a part in a worker of its own started from a blob: URL, so importing it needs worker-src blob: in the policy
- * that the engine worker runs under.
+ * A deflated workbook whose sheet part is over 512 KB unpacked, imported under the policy the engine worker runs
+ * under (the workbook reader in src/io inflates it with DecompressionStream in the engine worker itself; the
+ * unzipper of the read-excel-file library it replaced started a blob: worker for parts this size).
  */
 function bigWorkbook(rows = 20_000): Buffer {
   const sheet: XCell[][] = [['case_id', 'ward', 'age', 'infected']];

@@ -219,7 +219,7 @@ test('after the engine crashes, the data grid and the odds ratios come back on t
     (window as unknown as { fulcraTestHooks: { crashEngine(): Promise<void> } }).fulcraTestHooks.crashEngine(),
   );
   const notice = page.getByRole('status').filter({ hasText: /calculation engine stopped unexpectedly/ });
-  await expect(notice).toContainText('were loaded into it again and the model was refitted', { timeout: 30_000 });
+  await expect(notice).toContainText('were loaded into it again and the model was restored', { timeout: 30_000 });
   await expect(page.getByTestId('odds-table')).toBeVisible();
   expect(await oddsRatios(page)).toEqual(before);
   await shot(page, '07-after-crash');

@@ -23,6 +23,11 @@ export interface WorkerClient {
   progress(fn: (done: number, total: number) => void): (done: number, total: number) => void;
   transfer<T>(value: T, buffers: Transferable[]): T;
   cancel(jobId: string): void;
+  /**
+   * Stops the engine now, whatever it is doing (a fit that does not yield cannot see a cancel message), and starts
+   * a fresh, empty one; calls still waiting resolve to undefined, silently. The caller puts the data back.
+   */
+  restart(): void;
   terminate(): void;
 }
 
@@ -38,13 +43,17 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
     });
     lostPromise.catch(() => {});
   };
+  /** Ends the engine worker (its helper threads end with it) and settles every call waiting on it. */
+  const stop = (code: string) => {
+    worker.terminate();
+    lost({ code });
+  };
   const start = () => {
     armLost();
     worker = createEngineWorker();
     worker.addEventListener('error', (e) => {
       e.preventDefault();
-      worker.terminate();
-      lost({ code: 'worker-lost' });
+      stop('worker-lost');
       start();
       hooks.onCrash(
         `The calculation engine stopped unexpectedly${e.message ? ` (${e.message})` : ''} and was restarted.`,
@@ -91,6 +100,10 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
     transfer: (value, buffers) => Comlink.transfer(value, buffers),
     cancel: (jobId) => {
       void api.cancel(jobId);
+    },
+    restart: () => {
+      stop('cancelled');
+      start();
     },
     terminate: () => worker.terminate(),
   };

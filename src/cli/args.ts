@@ -34,6 +34,24 @@ export interface FitArgs {
   /** Threads for the row passes of large fits (default: the machine's cores, at most 8; the numbers do not change). */
   threads?: number;
   json: boolean;
+  /** `--no-profile`: Wald intervals only (no profile-likelihood refits). */
+  noProfile: boolean;
+  /** `--no-term-tests`: no likelihood-ratio test of each term (one refit per term). */
+  noTermTests: boolean;
+  /** `--diagnostics`: add the per-row leverage, residuals and influence to the output. */
+  diagnostics: boolean;
+  /** `--monitor FILE`: risk-adjusted monitoring of a later file of cases with the fitted model. */
+  monitor?: string;
+  /** `--date COL` (with --monitor): the date column of the monitoring file. */
+  date?: string;
+  /** `--unit COL` (with --monitor): the unit (ward, team…) column of the monitoring file. */
+  unit?: string;
+  /** `--period month|quarter` (with --monitor): the calibration-drift period (default month). */
+  period?: 'month' | 'quarter';
+  /** `--arl0 N` (with --monitor): target in-control average run length of the CUSUMs, in cases (default 5000). */
+  arl0?: number;
+  /** `--leave-out 12,45`: spreadsheet rows left out of the analysis (recorded in the request). */
+  leaveOut?: number[];
   help: boolean;
 }
 
@@ -74,6 +92,17 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --sheet NAME             sheet of an .xlsx file
   --threads T              threads for fits above 32 768 rows (default: all cores, at most 8); same numbers on any T
   --json                   print the full result record as JSON
+  --no-profile             skip the profile-likelihood intervals (about 8 refits per coefficient); Wald intervals stay
+  --no-term-tests          skip the likelihood-ratio test of each term (one refit per term); Wald p-values stay
+  --diagnostics            add per-row leverage, standardised residuals, Cook's distance and DFBETAS (with
+                           spreadsheet row numbers) and the most influential rows to the output
+  --leave-out 12,45        leave these spreadsheet rows out of the fit (recorded in the output); the file is unchanged
+  --monitor FILE           risk-adjusted monitoring of later cases in FILE with the fitted model: O/E, funnel plot by
+                           unit, CUSUMs for doubled / halved odds, cumulative O − E, calibration by period
+  --date COL               the date column of the --monitor file (dates, date text or spreadsheet serial dates)
+  --unit COL               the unit column of the --monitor file (ward, team, ...) for the funnel plot
+  --period month|quarter   calibration-drift period of --monitor (default month)
+  --arl0 N                 target in-control average run length of the CUSUMs, in cases (default 5000)
   --help                   this text
 `;
 
@@ -97,6 +126,9 @@ export function parseFitArgs(argv: string[]): FitArgs {
     firth: false,
     seed: 1,
     json: false,
+    noProfile: false,
+    noTermTests: false,
+    diagnostics: false,
     help: false,
   };
   const list = (v: string | undefined) =>
@@ -241,6 +273,46 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--json':
         a.json = true;
         break;
+      case '--no-profile':
+        a.noProfile = true;
+        break;
+      case '--no-term-tests':
+        a.noTermTests = true;
+        break;
+      case '--diagnostics':
+        a.diagnostics = true;
+        break;
+      case '--leave-out': {
+        const rows = list(value()).map(Number);
+        if (rows.length === 0 || rows.some((r) => !Number.isInteger(r) || r < 1)) {
+          throw new FulcraError('bad-argument', '--leave-out needs spreadsheet row numbers, e.g. --leave-out 12,45.');
+        }
+        a.leaveOut = rows;
+        break;
+      }
+      case '--monitor':
+        a.monitor = value();
+        break;
+      case '--date':
+        a.date = value();
+        break;
+      case '--unit':
+        a.unit = value();
+        break;
+      case '--period': {
+        const v = value();
+        if (v !== 'month' && v !== 'quarter')
+          throw new FulcraError('bad-argument', `--period must be month or quarter, got "${v}".`);
+        a.period = v;
+        break;
+      }
+      case '--arl0': {
+        const v = numberArg(flag, value());
+        if (!(v >= 10 && v <= 1e6))
+          throw new FulcraError('bad-argument', `--arl0 must be a number of cases from 10 to 1000000, got ${v}.`);
+        a.arl0 = v;
+        break;
+      }
       case '--help':
       case '-h':
         a.help = true;
@@ -261,7 +333,20 @@ export function parseFitArgs(argv: string[]): FitArgs {
     throw new FulcraError('bad-argument', 'Choose one of --firth, --ridge and --penalty.');
   }
   checkLambda(a);
+  checkMonitor(a);
   return a;
+}
+
+/** --date, --unit, --period and --arl0 go with --monitor, which needs --date. */
+function checkMonitor(a: FitArgs): void {
+  const extra = (['date', 'unit', 'period', 'arl0'] as const).filter((k) => a[k] !== undefined);
+  if (a.monitor === undefined) {
+    if (extra.length)
+      throw new FulcraError('bad-argument', `--${extra[0]} goes with --monitor FILE (monitoring of later cases).`);
+    return;
+  }
+  if (a.date === undefined)
+    throw new FulcraError('bad-argument', '--monitor needs --date COLUMN, the column holding each case’s date.');
 }
 
 /** --lambda goes with --penalty, and a fixed λ excludes a λ rule; ridge needs λ > 0. */

@@ -9,6 +9,8 @@ import { join } from 'node:path';
 import { FulcraError } from '../engine/core';
 import { bootstrap, csvImport, surface, thresholdQueries, type Measurement } from './bench/extras';
 import { benchUsage, parseBenchArgs } from './bench/options';
+import { diagnosticsCost } from './bench/diagnostics';
+import { monitoringCost } from './bench/monitoring';
 import { fulcraFit, glmFit, maxRelGap, referenceThreads, sklearnFit, type FitTiming } from './bench/run';
 import { ensureSynth } from './bench/synth';
 import { judgeTargets, ONE_THREAD, renderReport, type BenchRecord, type SizeResult } from './bench/report';
@@ -107,6 +109,11 @@ async function main(): Promise<void> {
     m.push(await bootstrap(o.out, 1e4, 20, q ? 20 : 200, o.seed));
     log('· loss surface');
     m.push(surface(o.out, q ? 1e4 : 1e5, 10, 64, o.seed));
+    log('· monitoring');
+    m.push(monitoringCost(q ? 1e5 : 1e6, o.seed));
+    log('· per-row diagnostics');
+    m.push(diagnosticsCost(o.out, 1e5, 50, o.seed));
+    if (!q) m.push(diagnosticsCost(o.out, 1e6, 50, o.seed));
     installRowPool(null);
     await np.close();
   }

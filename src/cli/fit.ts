@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs';
 import { FulcraError } from '../engine/core';
 import { parseFitArgs, usage } from './args';
 import { toJson } from './json';
+import { createProgress } from './progress';
 import { runFit } from './runFit';
 import { summarise } from './summary';
 
@@ -15,7 +16,12 @@ async function main(argv: string[]): Promise<number> {
       process.stdout.write(usage);
       return 0;
     }
-    const run = await runFit(args, argv, version);
+    const run = await runFit(
+      args,
+      argv,
+      version,
+      createProgress((line) => process.stderr.write(`${line}\n`)),
+    );
     process.stdout.write((args.json ? toJson(run) : summarise(run)) + '\n');
     return 0;
   } catch (e) {

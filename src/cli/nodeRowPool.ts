@@ -17,17 +17,21 @@ export const defaultThreads = (): number => Math.max(1, Math.min(8, availablePar
 
 /** Starts threads − 1 helpers; resolves when each is ready. The helpers do not keep the process alive. */
 export async function startNodeRowPool(threads = defaultThreads()): Promise<NodeRowPool> {
-  const entry = fileURLToPath(new URL('./rowHelperNode.ts', import.meta.url));
+  // From the build (.ci/cli.mjs) the helper is plain JavaScript beside this module; from the sources, TypeScript.
+  const built = !import.meta.url.endsWith('.ts');
+  const entry = fileURLToPath(new URL(built ? './rowHelperNode.js' : './rowHelperNode.ts', import.meta.url));
   const workers = await Promise.all(
     Array.from(
       { length: Math.max(0, threads - 1) },
       () =>
         new Promise<Worker>((resolve, reject) => {
           // The .ts entry goes through tsx's CommonJS hook: tsx's --import hooks do not reach workers in Node 20.
-          const w = new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, {
-            eval: true,
-            execArgv: [],
-          });
+          const w = built
+            ? new Worker(entry, { execArgv: [] })
+            : new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, {
+                eval: true,
+                execArgv: [],
+              });
           w.once('message', () => {
             w.unref();
             resolve(w);

@@ -3,12 +3,16 @@ import { basename } from 'node:path';
 import { FulcraError, getColumn } from '../engine/core';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
 import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
-import { analyse, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
+import type { RowDiagnostics } from '../engine/diagnostics';
+import { runAnalysis, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
 import { importFile } from '../io/importFile';
+import { monitorImported } from '../io';
+import type { MonitoringRecord } from '../engine/monitoring';
 import { proposeOutcomeEvent } from '../io/outcome';
 import type { ColumnType, ImportOptions, ImportResult } from '../io/types';
 import type { FitArgs } from './args';
 import { defaultThreads, startNodeRowPool } from './nodeRowPool';
+import { estimateFit, minutesWarning, type Progress } from './progress';
 
 /** How a file was read: detected format, each column's type with the reason, missing counts, import warnings. */
 export interface DataBlock {
@@ -26,9 +30,13 @@ export interface DataBlock {
 export type FitRun = {
   fulcra: { version: string; command: string[] };
   data: DataBlock & { test: DataBlock | null };
+  /** `--diagnostics`: the per-row arrays (rows used, in data order, named by spreadsheet row) beside the record. */
+  rowDiagnostics?: RowDiagnostics;
+  /** `--monitor FILE`: how the monitoring file was read and the engine's MonitoringRecord (as the page's). */
+  monitoring?: MonitoringRecord & { file: DataBlock };
 } & AnalysisRecord;
 
-export async function loadTable(file: string, args: FitArgs): Promise<ImportResult> {
+export async function loadTable(file: string, args: FitArgs, progress?: Progress): Promise<ImportResult> {
   let bytes: Uint8Array;
   try {
     bytes = readFileSync(file);
@@ -41,12 +49,31 @@ export async function loadTable(file: string, args: FitArgs): Promise<ImportResu
   if (args.delimiter) options.delimiter = args.delimiter as ImportOptions['delimiter'];
   if (args.decimal) options.decimal = args.decimal;
   if (args.sheet) options.sheet = args.sheet;
-  return importFile(bytes, basename(file), options);
+  progress?.stage(`Reading ${basename(file)}`);
+  return importFile(bytes, basename(file), options, { onProgress: (f) => progress?.update(f, 1) });
+}
+
+/** getColumn, whose message for a workbook of several sheets also names the sheet read and the others. */
+function columnOf(table: ImportResult, name: string) {
+  try {
+    return getColumn(table.dataset, name);
+  } catch (e) {
+    const { sheet, sheets } = table.format;
+    if (!(e instanceof FulcraError) || !sheet || !sheets || sheets.length < 2) throw e;
+    const known = table.dataset.columns.map((c) => c.name).join(', ');
+    throw new FulcraError(
+      e.code,
+      `There is no column named "${name}" in sheet "${sheet}" (its columns are: ${known}). ` +
+        `The workbook has ${sheets.length} sheets: ${sheets.map((n) => `"${n}"`).join(', ')}.`,
+      'Choose the sheet that holds the data with --sheet NAME (the first sheet is read unless told).',
+    );
+  }
 }
 
 /** Builds the model specification from the arguments and the imported columns. */
 export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
   const { dataset, columns } = table;
+  const getColumn = (_: unknown, name: string) => columnOf(table, name);
   const outcomeCol = getColumn(dataset, args.outcome);
   let event = args.event;
   if (event === undefined) {
@@ -89,15 +116,18 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
   return { outcome: args.outcome, event, terms };
 }
 
-/** Runs the whole headless procedure and returns the record (printing is the caller's job). */
-export async function runFit(args: FitArgs, argv: string[], version: string): Promise<FitRun> {
-  const table = await loadTable(args.file, args);
+/**
+ * Runs the whole headless procedure and returns the record (printing is the caller's job); `progress` (stderr in
+ * `npm run fit`) hears each stage, its progress, and up front whether the fit will take minutes.
+ */
+export async function runFit(args: FitArgs, argv: string[], version: string, progress?: Progress): Promise<FitRun> {
+  const table = await loadTable(args.file, args, progress);
   // Large data: a pool of threads for the row passes, as the page starts one (the same numbers on any count).
   const threads = args.threads ?? defaultThreads();
   const pool = threads > 1 && table.dataset.nRows > CHUNK_ROWS ? await startNodeRowPool(threads) : null;
   if (pool) installRowPool(pool.pool);
   try {
-    return await runFitOn(table, args, argv, version);
+    return await runFitOn(table, args, argv, version, progress);
   } finally {
     if (pool) {
       installRowPool(null);
@@ -130,6 +160,9 @@ export function requestFromArgs(args: FitArgs, spec: ModelSpec): AnalysisRequest
     validation,
     seed: args.seed,
     maxIter: args.maxIter,
+    leaveOut: args.leaveOut,
+    profile: args.noProfile ? false : undefined,
+    termTests: args.noTermTests ? false : undefined,
   };
 }
 
@@ -143,13 +176,47 @@ function dataBlock(file: string, table: ImportResult): DataBlock {
   };
 }
 
-async function runFitOn(table: ImportResult, args: FitArgs, argv: string[], version: string): Promise<FitRun> {
+async function runFitOn(
+  table: ImportResult,
+  args: FitArgs,
+  argv: string[],
+  version: string,
+  progress?: Progress,
+): Promise<FitRun> {
   const spec = buildSpec(args, table);
-  const test = args.test ? await loadTable(args.test, args) : null;
-  const record = await analyse(table.dataset, requestFromArgs(args, spec), {}, test?.dataset);
+  const test = args.test ? await loadTable(args.test, args, progress) : null;
+  const request = requestFromArgs(args, spec);
+  const estimate = estimateFit(table.dataset, request);
+  const warn = estimate && minutesWarning(estimate);
+  if (warn) progress?.say(warn);
+  progress?.stage('Fitting and checking the model');
+  const hooks = { onProgress: (done: number, total: number) => progress?.update(done, total) };
+  const { record, diagnostics } = await runAnalysis(table.dataset, request, hooks, test?.dataset);
+  const monitoring = args.monitor ? await monitorRun(args, record, progress) : undefined;
   return {
     fulcra: { version, command: argv },
     data: { ...dataBlock(args.file, table), test: test ? dataBlock(args.test!, test) : null },
     ...record,
+    ...(args.diagnostics ? { rowDiagnostics: diagnostics } : {}),
+    ...(monitoring ? { monitoring } : {}),
   };
+}
+
+/** `--monitor FILE --date COL [--unit COL]`: the fitted model applied to later cases, by the page's io path. */
+async function monitorRun(
+  args: FitArgs,
+  record: AnalysisRecord,
+  progress?: Progress,
+): Promise<MonitoringRecord & { file: DataBlock }> {
+  const table = await loadTable(args.monitor!, args, progress);
+  progress?.stage('Monitoring the later cases');
+  const { record: m } = monitorImported({ ...record.fit, source: 'current-fit', name: 'current fit' }, table, {
+    dateColumn: args.date!,
+    unitColumn: args.unit ?? null,
+    ...(args.period ? { period: args.period } : {}),
+    ...(args.arl0 !== undefined ? { targetArl0: args.arl0 } : {}),
+    ...(args.level !== undefined ? { level: args.level } : {}),
+    seed: args.seed,
+  });
+  return { file: dataBlock(args.monitor!, table), ...m };
 }

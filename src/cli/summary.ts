@@ -2,6 +2,7 @@ import type { InternalValidation } from '../engine/validation';
 import type { FitMethod } from '../engine/core';
 import type { FitRun } from './runFit';
 import { fmt, fmtP, pct, table } from './format';
+import { monitoringLines } from './monitorSummary';
 
 const METHOD: Record<FitMethod, string> = {
   ml: 'maximum likelihood',
@@ -129,7 +130,15 @@ export function summarise(r: FitRun): string {
   }
   if (r.sampleSize) out.push('', 'Sample size (Riley et al. 2020)', ...r.sampleSize.summary.map((s) => `  ${s}`));
   else if (r.sampleSizeNote) out.push('', r.sampleSizeNote);
-  const warnings = [...r.data.warnings, ...r.warnings, ...(r.validation?.warnings ?? [])];
+  if (r.rowDiagnostics && r.diagnostics) out.push('', ...diagnosticsLines(r));
+  if (r.monitoring) out.push('', ...monitoringLines(r.monitoring));
+  const warnings = [
+    ...r.data.warnings,
+    ...r.warnings,
+    ...(r.validation?.warnings ?? []),
+    ...(r.diagnostics?.warnings ?? []),
+    ...(r.monitoring?.warnings ?? []),
+  ];
   if (warnings.length) {
     out.push('', 'Warnings');
     for (const w of warnings) out.push(`  [${w.code}] ${w.message} → ${w.suggestion}`);
@@ -205,4 +214,31 @@ function validationText(v: InternalValidation): string {
       ]),
     )
   );
+}
+
+/** `--diagnostics`: the most influential rows by spreadsheet row number, and the rules of the reference lines. */
+function diagnosticsLines(r: FitRun): string[] {
+  const d = r.diagnostics!;
+  const out = [`Most influential rows (by ${d.rankedBy === 'cooks' ? "Cook's distance" : '|deviance residual|'})`];
+  out.push(
+    ...table(
+      ['row', 'outcome', 'risk', 'leverage', 'std. dev. resid.', "Cook's D", 'max |DFBETAS|'],
+      d.top.map((t) => [
+        String(t.sheetRow),
+        String(t.outcome),
+        fmt(t.risk, 3),
+        fmt(t.leverage, 4),
+        fmt(t.stdDeviance, 2),
+        fmt(t.cooks, 4),
+        t.maxAbsDfbetas === null ? '—' : `${fmt(t.maxAbsDfbetas, 2)} (${t.dfbetasCoefficient})`,
+      ]),
+    )
+      .split('\n')
+      .map((l) => `  ${l}`),
+  );
+  for (const a of d.applicability.filter((x) => x.status !== 'exact')) {
+    out.push(`  ${a.measure}: ${a.status} — ${a.why}`);
+  }
+  out.push(`  Reference lines: ${d.thresholds.map((t) => t.rule).join('; ')}.`);
+  return out;
 }

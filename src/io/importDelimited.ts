@@ -23,17 +23,37 @@ interface Settings {
   header: boolean;
 }
 
+/** The name importText gives pasted text (its messages speak of pasted cells, not of a file). */
+export const PASTED_TEXT = 'pasted text';
+
+/** A control character in pasted cells, by spreadsheet row and column (tab-separated, the header is row 1). */
+function pastedControl(text: string, at: number): FulcraError {
+  const before = text.slice(0, at);
+  const row = (before.match(/\r\n|\r|\n/g)?.length ?? 0) + 1;
+  const line = before.slice(Math.max(before.lastIndexOf('\n'), before.lastIndexOf('\r')) + 1);
+  const column = (line.match(/\t/g)?.length ?? 0) + 1;
+  const code = text.charCodeAt(at).toString(16).toUpperCase().padStart(4, '0');
+  return new FulcraError(
+    'not-text',
+    `The pasted cells contain a control character (U+${code}) in row ${row}, column ${column}, which a spreadsheet ` +
+      'cell does not hold: the text was probably copied from another program than a spreadsheet.',
+    'Copy the cells again from the spreadsheet, or delete that character from the text, and paste again.',
+  );
+}
+
 function settle(
   bytes: Uint8Array,
   o: ResolvedOptions,
   encoding: Encoding,
   bom: number,
   warnings: EngineWarning[],
+  pasted = false,
 ): Settings {
   const end = Math.min(bytes.length, bom + SAMPLE_BYTES);
   const complete = end >= bytes.length;
   const sample = new TextDecoder(encoding, { ignoreBOM: true }).decode(bytes.subarray(bom, end), { stream: !complete });
   if (sample.indexOf('\u0000') >= 0 && !encoding.startsWith('utf-16')) {
+    if (pasted) throw pastedControl(sample, sample.indexOf('\u0000'));
     throw new FulcraError(
       'not-text',
       'This file does not look like text: it contains binary bytes.',
@@ -169,7 +189,7 @@ export async function importDelimited(
   const bom = detectBom(bytes);
   const wanted = o.encoding === 'auto' ? (bom?.encoding ?? 'utf-8') : o.encoding;
   const bomLength = bom && bom.encoding === wanted ? bom.length : 0;
-  let s = settle(bytes, o, wanted, bomLength, warnings);
+  let s = settle(bytes, o, wanted, bomLength, warnings, fileName === PASTED_TEXT);
   const run = async (fatal: boolean) => {
     const tb = new TableBuilder(new CellReader(s.decimal === ',', o.missingTokens), s.header, new Set(o.stripUnits));
     const tok = await readPass(bytes, s, fatal, tb, hooks, 0, PASS1);

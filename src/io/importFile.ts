@@ -1,12 +1,12 @@
 import { warning } from '../engine/core';
-import { importDelimited } from './importDelimited';
+import { importDelimited, PASTED_TEXT } from './importDelimited';
 import { importXlsx } from './importXlsx';
 import { resolveImportOptions } from './options';
 import type { ImportHooks, ImportOptions, ImportResult } from './types';
 import { looksLikeOle, looksLikeZip } from './zip';
 
 /**
- * Imports a spreadsheet file in the worker or in Node: .xlsx through read-excel-file, anything else as
+ * Imports a spreadsheet file in the worker or in Node: .xlsx through Fulcra's own flat sheet reader, anything else as
  * delimited text (delimiter, decimal mark, encoding and header row detected unless given in `options`).
  * Reads in chunks; after each chunk calls `onProgress(fraction, rowsSoFar)`, awaits `tick()`, then throws
  * FulcraError('cancelled') if `signal.aborted`. The 4th argument may be the hooks object or `onProgress`.
@@ -60,5 +60,5 @@ export function importTransferables(r: ImportResult): ArrayBuffer[] {
  */
 export function importText(text: string, options: ImportOptions = {}, hooks: ImportHooks = {}): Promise<ImportResult> {
   const o = resolveImportOptions({ ...options, format: 'delimited', encoding: 'utf-8' });
-  return importDelimited(new TextEncoder().encode(text), 'pasted text', o, hooks);
+  return importDelimited(new TextEncoder().encode(text), PASTED_TEXT, o, hooks);
 }

@@ -1,5 +1,5 @@
-import { readSheet } from 'read-excel-file/universal';
 import { FulcraError } from '../engine/core';
+import { availableBytes, estimateImportBytes, formatBytes } from '../engine/fitting';
 import { warning, type EngineWarning } from '../engine/core';
 import { CellReader } from './cellReader';
 import { afterChunk, checkCancelled, finishImport } from './finishImport';
@@ -7,8 +7,9 @@ import type { ResolvedOptions } from './options';
 import { plural } from './rows';
 import { TableBuilder, type Cell } from './tableBuilder';
 import type { ImportFormat, ImportHooks, ImportResult } from './types';
-import { scanSheet, workbookSheets } from './xlsxScan';
-import { listZip, looksLikeOle, looksLikeZip, readZipText } from './zip';
+import { cellAddress, workbookSheets } from './xlsxScan';
+import { dateStyles, readSheetXml, sharedStrings, type SheetRead } from './xlsxSheet';
+import { listZip, looksLikeOle, looksLikeZip, readZipEntry, readZipText, type ZipEntry } from './zip';
 
 const ROWS_PER_CHUNK = 20_000;
 
@@ -48,6 +49,7 @@ async function workbookParts(bytes: Uint8Array, fileName: string) {
   }
   if (!looksLikeZip(bytes)) throw notAWorkbook(bytes, fileName);
   const entries = listZip(bytes);
+  checkUnpackedSize(bytes.length, entries, fileName);
   const wb = await readZipText(bytes, entries, 'xl/workbook.xml');
   if (wb === null)
     throw new FulcraError(
@@ -56,7 +58,46 @@ async function workbookParts(bytes: Uint8Array, fileName: string) {
       'Open it in the program that made it and save it as .xlsx.',
     );
   const rels = (await readZipText(bytes, entries, 'xl/_rels/workbook.xml.rels')) ?? '';
-  return { entries, sheets: workbookSheets(wb, rels) };
+  return { entries, sheets: workbookSheets(wb, rels), workbookXml: wb, rels };
+}
+
+/**
+ * Refuses, before anything is inflated, a workbook whose parts declare more unpacked bytes than the tab can hold
+ * while reading them (a zip bomb, or simply too big). The estimate is the import guard's (estimateImportBytes).
+ */
+export function checkUnpackedSize(
+  fileBytes: number,
+  entries: ZipEntry[],
+  fileName: string,
+  available = availableBytes(),
+) {
+  const unpacked = entries.reduce((s, e) => s + e.uncompressedSize, 0);
+  const est = estimateImportBytes({
+    fileBytes,
+    sampleBytes: fileBytes,
+    sampleRows: 1,
+    columns: 1,
+    format: 'xlsx',
+    unpackedBytes: unpacked,
+  });
+  if (est.bytes <= available) return;
+  throw new FulcraError(
+    'xlsx-too-big',
+    `"${fileName}" would unpack to about ${formatBytes(unpacked)} (the sizes its parts declare), and reading it ` +
+      `needs about ${formatBytes(est.bytes)} of memory; the tab can use about ${formatBytes(available)}. ` +
+      'It was not unpacked.',
+    'If the workbook is genuine, save the sheet you need as CSV (or a copy with fewer rows or columns) and open that.',
+  );
+}
+
+/** The path of the workbook part of the given relationship type (e.g. "styles"), or its usual place. */
+function partPath(rels: string, type: string, usual: string): string {
+  for (const m of rels.matchAll(/<Relationship\b([^>]*)\/?>/g)) {
+    const t = /\sType="([^"]*)"/.exec(m[1])?.[1] ?? '';
+    const target = /\sTarget="([^"]*)"/.exec(m[1])?.[1];
+    if (target && t.endsWith(`/${type}`)) return target.startsWith('/') ? target.slice(1) : `xl/${target}`;
+  }
+  return usual;
 }
 
 /** Imports one sheet of an .xlsx workbook (values as last saved; formulas are not recalculated). */
@@ -67,7 +108,7 @@ export async function importXlsx(
   hooks: ImportHooks,
 ): Promise<ImportResult> {
   checkCancelled(hooks);
-  const { entries, sheets } = await workbookParts(bytes, fileName);
+  const { entries, sheets, workbookXml, rels } = await workbookParts(bytes, fileName);
   if (sheets.length === 0) throw new FulcraError('no-sheets', `The workbook "${fileName}" has no sheets.`);
   const names = sheets.map((s) => s.name);
   const chosen =
@@ -84,46 +125,47 @@ export async function importXlsx(
       'Choose one of the listed sheets.',
     );
   }
-  let rows: Cell[][];
-  try {
-    rows = (await readSheet(Uint8Array.prototype.slice.call(bytes).buffer, chosen.name)) as Cell[][];
-  } catch (e) {
+  const sheetEntry = entries.find((e) => e.name === chosen.path);
+  if (!sheetEntry)
     throw new FulcraError(
       'bad-xlsx',
-      `The sheet "${chosen.name}" of "${fileName}" could not be read: ${(e as Error).message}.`,
+      `The sheet "${chosen.name}" of "${fileName}" could not be read: the workbook lists it, but its part is missing.`,
       'Open the workbook in the spreadsheet, save it again as .xlsx, and retry.',
     );
+  let read: SheetRead;
+  {
+    const ctx = {
+      shared: sharedStrings(await readZipText(bytes, entries, partPath(rels, 'sharedStrings', 'xl/sharedStrings.xml'))),
+      dateStyles: dateStyles(await readZipText(bytes, entries, partPath(rels, 'styles', 'xl/styles.xml'))),
+      date1904: /<(?:\w+:)?workbookPr\b[^>]*\sdate1904="(?:1|true)"/.test(workbookXml),
+    };
+    const xml = await readZipEntry(bytes, sheetEntry);
+    read = await readSheetXml(xml, ctx, (done) => afterChunk(hooks, (0.3 * done) / Math.max(1, xml.length), 0));
   }
+  const rows = read.rows;
   await afterChunk(hooks, 0.3, 0);
   const warnings: EngineWarning[] = [];
-  const xml = chosen.path ? await readZipText(bytes, entries, chosen.path) : null;
-  if (xml) {
-    const scan = scanSheet(xml);
-    for (const err of scan.errors) {
-      const r = rows[err.row - 1];
-      if (r && (r[err.col] === null || r[err.col] === undefined)) r[err.col] = err.value;
-    }
-    if (scan.formulas > 0) {
-      warnings.push(
-        warning(
-          'formulas',
-          `${plural(scan.formulas, 'cell holds a formula', 'cells hold formulas')}; ` +
-            'the results last saved by the spreadsheet are used, not recalculated.',
-          'If the results may be out of date, open the workbook in the spreadsheet, let it recalculate, and save it.',
-        ),
-      );
-    }
-    if (scan.formulasWithoutValue.length > 0) {
-      warnings.push(
-        warning(
-          'formula-no-value',
-          `${plural(scan.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result ` +
-            `(${scan.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
-          'Open the workbook in the spreadsheet, let it recalculate, and save it.',
-        ),
-      );
-    }
+  if (read.formulas > 0) {
+    warnings.push(
+      warning(
+        'formulas',
+        `${plural(read.formulas, 'cell holds a formula', 'cells hold formulas')}; ` +
+          'the results last saved by the spreadsheet are used, not recalculated.',
+        'If the results may be out of date, open the workbook in the spreadsheet, let it recalculate, and save it.',
+      ),
+    );
   }
+  if (read.formulasWithoutValue.length > 0) {
+    warnings.push(
+      warning(
+        'formula-no-value',
+        `${plural(read.formulasWithoutValue.length, 'formula cell has', 'formula cells have')} no saved result ` +
+          `(${read.formulasWithoutValue.slice(0, 5).join(', ')}); read as missing.`,
+        'Open the workbook in the spreadsheet, let it recalculate, and save it.',
+      ),
+    );
+  }
+  if (read.merged.length > 0) warnings.push(mergedWarning(read.merged));
   const header = o.header === 'auto' ? xlsxHeader(rows[0]) : o.header;
   const tb = new TableBuilder(new CellReader(o.decimal === ',', o.missingTokens), header, new Set(o.stripUnits));
   const feed = async (from: number, span: number) => {
@@ -156,6 +198,29 @@ export async function importXlsx(
   const result = await finishImport(tb, o, format, warnings, () => feed(0.9, 0.1), fileName);
   hooks.onProgress?.(1, rows.length);
   return result;
+}
+
+/** "A2:A4" → "A2:A4 (rows 3–4 of column A)": the cells of a merged range other than its top-left one. */
+function mergedCells(range: string): string {
+  const [a, b] = range.split(':').map((r) => cellAddress(r));
+  if (!a || !b) return range;
+  const col = (c: number) => /^([A-Z]+)/.exec(range.split(':')[c === a.col ? 0 : 1])?.[1] ?? '';
+  const span = (x: number, y: number) => (x === y ? `${x}` : `${x}–${y}`);
+  if (a.col === b.col)
+    return `${range} (${b.row === a.row + 1 ? 'row' : 'rows'} ${span(a.row + 1, b.row)} of column ${col(a.col)})`;
+  if (a.row === b.row) return `${range} (row ${a.row}, columns after ${col(a.col)} to ${col(b.col)})`;
+  return `${range} (rows ${span(a.row, b.row)}, columns ${col(a.col)} to ${col(b.col)}, except the top-left cell)`;
+}
+
+function mergedWarning(ranges: string[]): EngineWarning {
+  const shown = ranges.slice(0, 5).map(mergedCells).join('; ') + (ranges.length > 5 ? '; …' : '');
+  return warning(
+    'merged-cells',
+    `The sheet has ${plural(ranges.length, 'merged range', 'merged ranges')}: ${shown}. A merged range keeps ` +
+      'its value only in its top-left cell, so its other cells are read as missing.',
+    'In the spreadsheet, unmerge the cells and fill the value into every row it applies to, then open the ' +
+      'workbook again.',
+  );
 }
 
 function xlsxHeader(first: Cell[] | undefined): boolean {

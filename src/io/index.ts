@@ -3,4 +3,6 @@ export { listSheets } from './importXlsx';
 export { proposeOutcomeEvent, type OutcomeProposal } from './outcome';
 export { defaultImportOptions, resolveImportOptions } from './options';
 export { DEFAULT_MISSING_TOKENS } from './cellText';
+export { monitoringDates, type MonitoringDates } from './monitoringDates';
+export { monitorImported } from './monitorImported';
 export type * from './types';

@@ -1,17 +1,11 @@
-/** What the sheet XML says that the cell values alone do not: error cells and formulas. */
-export interface SheetScan {
-  /** Error cells: 1-based sheet row, 0-based column, error text such as "#DIV/0!". */
-  errors: { row: number; col: number; value: string }[];
-  formulas: number;
-  /** Formula cells saved without a result (cell reference such as "B3"). */
-  formulasWithoutValue: string[];
-}
-
 const ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', apos: "'" };
+
+/** A character reference's character; an impossible one (beyond U+10FFFF) becomes U+FFFD. */
+const codePoint = (n: number) => (n <= 0x10ffff ? String.fromCodePoint(n) : '\ufffd');
 
 export function unescapeXml(s: string): string {
   return s.replace(/&(amp|lt|gt|quot|apos);|&#(\d+);|&#x([0-9a-f]+);/gi, (_, name: string, dec: string, hex: string) =>
-    name ? ENTITIES[name.toLowerCase()] : String.fromCodePoint(dec ? Number(dec) : parseInt(hex, 16)),
+    name ? ENTITIES[name.toLowerCase()] : codePoint(dec ? Number(dec) : parseInt(hex, 16)),
   );
 }
 
@@ -44,26 +38,4 @@ export function workbookSheets(workbookXml: string, relsXml: string): { name: st
     if (name !== undefined) out.push({ name, path: (id && targets.get(id)) ?? '' });
   }
   return out;
-}
-
-/** Finds error cells (t="e") and formula cells (<f>) in a worksheet's XML. */
-export function scanSheet(xml: string): SheetScan {
-  const scan: SheetScan = { errors: [], formulas: 0, formulasWithoutValue: [] };
-  if (xml.indexOf('t="e"') < 0 && xml.indexOf('<f') < 0) return scan;
-  for (const m of xml.matchAll(/<c\b([^>]*?)(?:\/>|>([\s\S]*?)<\/c>)/g)) {
-    const attrs = m[1],
-      body = m[2] ?? '';
-    const hasFormula = /<f\b/.test(body);
-    const ref = attr(attrs, 'r') ?? '';
-    if (hasFormula) {
-      scan.formulas++;
-      if (!/<v>/.test(body) && scan.formulasWithoutValue.length < 1000) scan.formulasWithoutValue.push(ref);
-    }
-    if (attr(attrs, 't') === 'e') {
-      const a = cellAddress(ref);
-      const v = /<v>([^<]*)<\/v>/.exec(body)?.[1];
-      if (a && v) scan.errors.push({ row: a.row, col: a.col, value: unescapeXml(v) });
-    }
-  }
-  return scan;
 }

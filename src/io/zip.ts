@@ -4,6 +4,8 @@ export interface ZipEntry {
   name: string;
   method: number;
   compressedSize: number;
+  /** The unpacked size the archive declares for this entry (checked while inflating: never more is produced). */
+  uncompressedSize: number;
   offset: number;
 }
 
@@ -50,6 +52,7 @@ export function listZip(b: Uint8Array): ZipEntry[] {
       name: dec.decode(b.subarray(p + 46, p + 46 + nameLen)),
       method: view.getUint16(p + 10, true),
       compressedSize: view.getUint32(p + 20, true),
+      uncompressedSize: view.getUint32(p + 24, true),
       offset: view.getUint32(p + 42, true),
     });
     p += 46 + nameLen + extra + comment;
@@ -68,16 +71,35 @@ export async function readZipEntry(b: Uint8Array, e: ZipEntry): Promise<Uint8Arr
   if (e.method === 0) return data;
   if (e.method !== 8)
     throw new FulcraError('bad-zip', `The workbook part "${e.name}" uses a compression this program cannot read.`);
+  const stream = new Blob([data]).stream().pipeThrough(new DecompressionStream('deflate-raw'));
+  const reader = stream.getReader();
+  const out = new Uint8Array(e.uncompressedSize);
+  let got = 0;
   try {
-    const stream = new Blob([data]).stream().pipeThrough(new DecompressionStream('deflate-raw'));
-    return new Uint8Array(await new Response(stream).arrayBuffer());
-  } catch {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      if (got + value.length > out.length) {
+        void reader.cancel().catch(() => undefined);
+        throw new FulcraError(
+          'bad-zip',
+          `The workbook is damaged or hostile: part "${e.name}" unpacks to more than the ` +
+            `${e.uncompressedSize.toLocaleString('en-US')} bytes it declares, so it was not read further.`,
+          'Open it in the spreadsheet and save it again, or save the sheet as CSV.',
+        );
+      }
+      out.set(value, got);
+      got += value.length;
+    }
+  } catch (err) {
+    if (err instanceof FulcraError) throw err;
     throw new FulcraError(
       'bad-zip',
       `The workbook is damaged: part "${e.name}" cannot be unpacked.`,
       'Open it in the spreadsheet and save it again.',
     );
   }
+  return got === out.length ? out : out.subarray(0, got);
 }
 
 /** The text of a named entry, or null if the archive has no such entry. */

@@ -12,7 +12,9 @@ import {
 } from './reportSectionsModel';
 import { cautions, cautionsHeight, performance, plots, threshold, warningsSection } from './reportSectionsResults';
 import { externalSection } from './reportSectionExternal';
+import { diagnosticsSection } from './reportSectionDiagnostics';
 import { glossarySection } from './reportSectionGlossary';
+import { monitoringSection } from './reportSectionMonitoring';
 
 export { REPORT_CAUTIONS } from './reportSectionsResults';
 
@@ -46,6 +48,8 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   performance(L, input);
   plots(L, input);
   externalSection(L, input.external);
+  diagnosticsSection(L, input.diagnostics);
+  monitoringSection(L, input.monitoring, input.cautionSetting ?? 'clinical');
   threshold(L, input);
   warningsSection(L, [...m.warnings, ...(input.warnings ?? [])], cautionsHeight(L, input.cautionSetting));
   cautions(L, input.cautionSetting);

@@ -52,3 +52,24 @@ export function pageCaution(setting: CautionSetting, external: boolean): string 
     : `Not a medical device. ${validation}recalibrate before using the model elsewhere, ` +
         'and follow local governance and licensed clinical judgement.';
 }
+
+/**
+ * The cautions that go with every monitoring result (issue 15), on the page and in the PDF, per setting: a signal
+ * is a prompt to look, case mix outside the development data makes expected counts unreliable, local governance.
+ */
+export const MONITORING_CAUTIONS: Readonly<Record<CautionSetting, readonly string[]>> = {
+  clinical: [
+    'A signal, a unit outside the funnel or a rising O − E curve is a prompt to look at the cases, not proof of ' +
+      'worse care: chance, coding, case mix the model does not capture and changes in recording all move them.',
+    'Expected counts come from the model: for patients unlike the development data (other case mix, procedures ' +
+      'or period) they are unreliable, and so is every O/E, limit and signal built on them.',
+    'Follow local governance for reviewing and reporting signals; do not name units or staff outside it.',
+  ],
+  quality: [
+    'A signal, a unit outside the funnel or a rising O − E curve is a prompt to investigate, not proof of a ' +
+      'process fault: chance, recording changes and conditions the model does not capture all move them.',
+    'Expected counts come from the model: for products or conditions unlike the development data they are ' +
+      'unreliable, and so is every O/E, limit and signal built on them.',
+    'Follow your quality system and local procedures for investigating and reporting signals.',
+  ],
+};

@@ -31,6 +31,10 @@ export interface ReportRecords {
   /** Other warnings to list (imputation, import…). */
   warnings?: EngineWarning[];
   cautionSetting?: ReportInput['cautionSetting'];
+  /** Monitoring of later cases (the engine's MonitoringRecord, with the recalibration when asked for). */
+  monitoring?: ReportInput['monitoring'];
+  /** Influential rows (the record's diagnostics summary, the rows left out, Cook's distance by row for the plot). */
+  diagnostics?: ReportInput['diagnostics'];
   /** Odds ratios per these units, by numeric predictor (the page's choice). */
   oddsUnits?: ReportInput['oddsUnits'];
 }
@@ -138,6 +142,8 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     };
   }
   if (r.external) input.external = externalSummary(r.external, r.fit.level);
+  if (r.monitoring) input.monitoring = r.monitoring;
+  if (r.diagnostics) input.diagnostics = r.diagnostics;
   const s = r.sampleSize;
   if (s) {
     input.sampleSize = {

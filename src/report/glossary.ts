@@ -229,6 +229,36 @@ export const GLOSSARY = {
       'The intercept and slope that would make the risks fit the new data; intercept 0 and slope 1 mean no ' +
       'adjustment is needed.',
   },
+  observedExpected: {
+    label: 'O/E (observed to expected)',
+    text:
+      'Events that happened divided by the events the model expected for those cases (the sum of their risks); ' +
+      '1 is as expected, 1.5 is half as many again, allowing for case mix.',
+  },
+  funnelPlot: {
+    label: 'Funnel plot',
+    text:
+      "Each unit's O/E against its expected count, with limits that narrow as the count grows: a unit outside " +
+      'the outer (99.8 %) limits is unlikely to differ by chance alone.',
+  },
+  cusum: {
+    label: 'Risk-adjusted CUSUM',
+    text:
+      'A running score, case by case, that rises when events exceed what the risks predict and signals when it ' +
+      'crosses its limit h; it then starts again from zero.',
+  },
+  arl: {
+    label: 'ARL (average run length)',
+    text:
+      'How many cases a chart runs on average before it signals; the in-control ARL, when nothing has changed, ' +
+      'sets the limit h, so a larger one means fewer false alarms and slower detection.',
+  },
+  cumulativeOMinusE: {
+    label: 'Cumulative O − E (VLAD)',
+    text:
+      'Observed minus expected events added up case by case (a variable life-adjusted display): a rising curve ' +
+      'means more events than the case mix predicts.',
+  },
 } satisfies Record<string, GlossaryEntry>;
 
 export type GlossaryTerm = keyof typeof GLOSSARY;

@@ -2,6 +2,7 @@ import type { EngineWarning } from '../engine/core';
 import type { FitResult } from '../engine/core';
 import type { CautionSetting } from './cautions';
 import type { ExternalSummary } from './reportSectionExternal';
+import type { MonitoringReport } from './reportSectionMonitoring';
 
 /** An estimate with an optional interval (null where none can be given). */
 export interface Estimate {
@@ -135,6 +136,10 @@ export interface ReportInput {
   imputation?: ImputationSummary;
   /** The model checked on one file that was not used to fit it. */
   external?: ExternalSummary;
+  /** Monitoring of later cases with a model (reportSectionMonitoring.ts). */
+  monitoring?: MonitoringReport;
+  /** Influential rows and the rows left out on request (reportSectionDiagnostics.ts). */
+  diagnostics?: import('./reportSectionDiagnostics').DiagnosticsReport;
   /** Warnings from evaluation, validation, imputation… (the fit's own warnings are read from `model`). */
   warnings?: EngineWarning[];
   /** Which cautions apply (default clinical); see src/report/cautions.ts. */

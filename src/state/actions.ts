@@ -38,7 +38,7 @@ import {
 type Perform<I> = (state: AppState, input: I) => AppState;
 
 /** A worker query that brings a derived view up to date after a change; the controller runs it. */
-export type Effect = 'query-threshold' | 'refresh-costs' | 'refresh-drop-report' | 'reread';
+export type Effect = 'query-threshold' | 'refresh-costs' | 'refresh-drop-report' | 'reread' | 'refit-without-rows';
 
 /**
  * A user's change that says what follows it: `perform` is the pure state change, `follows` compares the state
@@ -48,8 +48,6 @@ export interface Intent<I> {
   perform: Perform<I>;
   follows(before: AppState, after: AppState): Effect[];
 }
-
-const invalidateFit = (s: AppState): AppState => (s.fit ? { ...s, fitStale: true } : s);
 
 /** The code of the notice that refuses to export an out-of-date model. */
 export const STALE_EXPORT_CODE = 'stale-export';
@@ -126,6 +124,9 @@ function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState
     reportText: cautionsFor(s, data),
     nextNoticeId: s.nextNoticeId,
     jobs: s.jobs,
+    // The opened model file and the monitoring file live apart from the data (the worker keeps them too).
+    openedModel: s.openedModel,
+    monitor: s.monitor,
     data,
     roles,
     outcome,
@@ -137,46 +138,45 @@ function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState
 }
 
 export const chooseOutcome: Perform<{ column: string | null; event?: string | null }> = (s, { column, event }) => {
-  if (!s.data || column === null) return invalidateFit({ ...s, outcome: null, event: null });
+  if (!s.data || column === null) return { ...s, outcome: null, event: null };
   const col = s.data.columns.find((c) => c.name === column);
   if (!col) return s;
   const ev = event ?? col.proposedEvent ?? (col.levels.length === 2 ? col.levels[1] : null);
   const roles = { ...s.roles, [column]: { ...s.roles[column], include: false } };
-  return invalidateFit({ ...s, outcome: column, event: ev, roles });
+  return { ...s, outcome: column, event: ev, roles };
 };
 
-export const chooseEvent: Perform<string | null> = (s, event) => invalidateFit({ ...s, event });
+export const chooseEvent: Perform<string | null> = (s, event) => ({ ...s, event });
 
 export const setPredictor: Perform<{ column: string; role: Partial<PredictorRole> }> = (s, { column, role }) => {
   if (column === s.outcome && role.include) return s;
   const prev = s.roles[column] ?? { include: false, reference: null, knots: 0 };
   const roles = { ...s.roles, [column]: { ...prev, ...role } };
   const interactions = roles[column].include ? s.interactions : s.interactions.filter((p) => !p.includes(column));
-  return invalidateFit({ ...s, roles, interactions });
+  return { ...s, roles, interactions };
 };
 
 export const toggleInteraction: Perform<[string, string]> = (s, pair) => {
   const key = (p: [string, string]) => [...p].sort().join('\u0000');
   const exists = s.interactions.some((p) => key(p) === key(pair));
   const interactions = exists ? s.interactions.filter((p) => key(p) !== key(pair)) : [...s.interactions, pair];
-  return invalidateFit({ ...s, interactions });
+  return { ...s, interactions };
 };
 
-export const chooseMethod: Perform<FitMethod> = (s, method) => invalidateFit({ ...s, method });
+export const chooseMethod: Perform<FitMethod> = (s, method) => ({ ...s, method });
 export const setAlpha: Perform<number> = (s, alpha) =>
-  Number.isFinite(alpha) ? invalidateFit({ ...s, alpha: Math.min(1, Math.max(0, alpha)) }) : s;
-export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => invalidateFit({ ...s, lambdaRule });
-export const setLevel: Perform<number> = (s, level) => (level > 0.5 && level < 1 ? invalidateFit({ ...s, level }) : s);
+  Number.isFinite(alpha) ? { ...s, alpha: Math.min(1, Math.max(0, alpha)) } : s;
+export const setLambdaRule: Perform<'min' | '1se'> = (s, lambdaRule) => ({ ...s, lambdaRule });
+export const setLevel: Perform<number> = (s, level) => (level > 0.5 && level < 1 ? { ...s, level } : s);
 /** The iteration limit: a whole number from 1 to 10000 (anything else leaves the state as it was). */
 export const setMaxIter: Perform<number> = (s, maxIter) =>
-  Number.isInteger(maxIter) && maxIter >= 1 && maxIter <= 10_000 ? invalidateFit({ ...s, maxIter }) : s;
+  Number.isInteger(maxIter) && maxIter >= 1 && maxIter <= 10_000 ? { ...s, maxIter } : s;
 
 /** A fit replaces every result derived from the previous fit. */
 export const fitDone: Perform<FitView> = (s, fit) => {
   const cleared: AppState = {
     ...s,
     fit,
-    fitStale: false,
     thresholdView: null,
     costView: null,
     imputed: null,
@@ -253,6 +253,22 @@ export const notify: Perform<Omit<Notice, 'id'>> = (s, n) => {
 
 export const dismiss: Perform<number> = (s, id) => ({ ...s, notices: s.notices.filter((n) => n.id !== id) });
 
+/** The engine no longer holds the model (restarted, refit stopped): no view may show its results. */
+export const fitLost: Perform<void> = (s) => ({
+  ...s,
+  fit: null,
+  thresholdView: null,
+  costView: null,
+  imputed: null,
+  riskCurve: null,
+  lossSurface: null,
+  validation: null,
+  validationStatus: 'idle',
+  score: null,
+  batch: null,
+  external: null,
+});
+
 /** The worker stopped: everything held in it is gone. */
 export const workerLost: Perform<string> = (s, text) =>
   notify(
@@ -319,7 +335,8 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
   };
 };
 
-export const autosaved: Perform<string> = (s, savedAt) => ({ ...s, savedAt });
+/** When the work was last kept in this browser; null when the data of this load could not be kept. */
+export const autosaved: Perform<string | null> = (s, savedAt) => ({ ...s, savedAt });
 
 /** Forgets the data and every setting; only the notice counter survives. */
 export const startAfresh: Perform<void> = (s) => ({ ...initialState, nextNoticeId: s.nextNoticeId });
@@ -406,10 +423,25 @@ export function withWarnings(s: AppState, warnings: readonly EngineWarning[]): A
   );
 }
 
+/** The message for an outcome column with fewer than two values (no event can be chosen), else null. */
+export function outcomeHasOneValue(col: DataSummary['columns'][number]): string | null {
+  if (col.distinct >= 2) return null;
+  const need =
+    'A risk model needs rows with and without the event; choose another outcome column, or check that the file ' +
+    'holds both kinds of row.';
+  if (col.distinct === 0) return `The outcome "${col.name}" has no values: every cell is missing. ${need}`;
+  const value = col.levels[0] ?? (col.min !== null ? String(col.min) : null);
+  const which = value !== null ? `: every row with a value is "${value}"` : '';
+  return `The outcome "${col.name}" has one value${which}. ${need}`;
+}
+
 /** The model as the engine reads it, or the reason it cannot be fitted yet. */
 export function buildSpec(s: AppState): { spec: ModelSpec } | { problem: string } {
   if (!s.data) return { problem: 'Open a file or a demo first.' };
   if (!s.outcome) return { problem: 'Choose the outcome column.' };
+  const outcomeCol = s.data.columns.find((c) => c.name === s.outcome);
+  const one = outcomeCol ? outcomeHasOneValue(outcomeCol) : null;
+  if (one) return { problem: one };
   if (!s.event) return { problem: `Choose which value of ${s.outcome} counts as the event.` };
   const terms: ModelSpec['terms'] = [];
   for (const c of s.data.columns) {

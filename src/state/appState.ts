@@ -12,6 +12,7 @@ import type {
   FitView,
   LossSurfaceView,
   FitMethod,
+  OpenedModelView,
   ReportText,
   RiskCurveView,
   ScoreView,
@@ -19,8 +20,10 @@ import type {
   ValidationView,
 } from '../worker/protocol';
 import type { OddsUnits } from '../report/oddsUnits';
+import { initialMonitor, type MonitorState } from './monitorState';
+import { initialInfluence, type InfluenceState } from './influenceState';
 
-export type ViewId = 'data' | 'model' | 'shape' | 'performance' | 'cutoff' | 'score';
+export type ViewId = 'data' | 'model' | 'influence' | 'shape' | 'performance' | 'cutoff' | 'score' | 'monitor';
 
 export interface PredictorRole {
   include: boolean;
@@ -35,7 +38,7 @@ export interface Notice {
   text: string;
   suggestion?: string;
   /** A one-click remedy the notice offers. */
-  action?: 'use-firth' | 'use-ridge' | 'reload' | 'start-afresh' | 'refit';
+  action?: 'use-firth' | 'use-ridge' | 'reload' | 'start-afresh' | 'refit' | 'save-workspace';
   code?: string;
 }
 
@@ -82,8 +85,6 @@ export interface AppState {
   /** Iteration limit of the standard, Firth and ridge fits (1–10000). */
   maxIter: number;
   fit: FitView | null;
-  /** The model settings changed after the last fit. */
-  fitStale: boolean;
   costs: Costs;
   /** False while the costs are still the default (nobody typed a cost). */
   costsSetByUser: boolean;
@@ -107,6 +108,12 @@ export interface AppState {
   reportText: ReportText;
   /** Odds ratios per a chosen unit, by numeric predictor (display only; absent = per 1). */
   oddsUnits: OddsUnits;
+  /** A model file opened on the page ("Open model"), kept beside the current fit for monitoring. */
+  openedModel: OpenedModelView | null;
+  /** Monitoring later cases with a model: the file, the choices, the result (src/state/monitorActions.ts). */
+  monitor: MonitorState;
+  /** Which rows drive the model: the diagnostics view, ticked rows, the all-rows odds ratios (influenceState.ts). */
+  influence: InfluenceState;
   /** When the workspace was last kept in this browser (ISO 8601), or null. */
   savedAt: string | null;
   jobs: Job[];
@@ -128,7 +135,6 @@ export const initialState: AppState = {
   level: 0.95,
   maxIter: 50,
   fit: null,
-  fitStale: false,
   costs: { missedCase: 10, falseAlarm: 1 },
   costsSetByUser: false,
   threshold: 0.5,
@@ -146,6 +152,9 @@ export const initialState: AppState = {
   external: null,
   reportText: {},
   oddsUnits: {},
+  openedModel: null,
+  monitor: initialMonitor,
+  influence: initialInfluence,
   savedAt: null,
   jobs: [],
   notices: [],

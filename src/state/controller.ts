@@ -13,12 +13,23 @@ import { cutoffEffects, type CutoffEffects } from './effects/cutoff';
 import { dataLoading, type DataEffects } from './effects/data';
 import { filesOut, type ExportEffects } from './effects/exports';
 import { fitting, type FittingEffects } from './effects/fitting';
+import { influenceEffects, type InfluenceEffects } from './effects/influence';
+import { monitoring, type MonitoringEffects } from './effects/monitoring';
+import { engineEmptied } from './monitorActions';
 import { restoring, type RestoreEffects } from './effects/restore';
 
 export { savedTime } from './effects/restore';
 
 export interface Controller
-  extends DataEffects, FittingEffects, CutoffEffects, CheckEffects, ExportEffects, RestoreEffects {
+  extends
+    DataEffects,
+    FittingEffects,
+    CutoffEffects,
+    CheckEffects,
+    ExportEffects,
+    RestoreEffects,
+    MonitoringEffects,
+    InfluenceEffects {
   /** Applies a user's change, then runs the effects it says follow (see `Intent` in actions.ts). */
   act<I>(intent: A.Intent<I>, input: I): Promise<void>;
   /** Runs a notice's one-click remedy; `fromNotice` is the notice it came from, which goes away. */
@@ -33,12 +44,14 @@ export function createController(store: Store, client: WorkerClient): Controller
   const { fitWith, ...fit } = fitting(ctx, cutoff);
   const { setHeld, ...data } = dataLoading(ctx, fit.fitModel);
   const restore = restoring(ctx, { ...data, setHeld }, { fitWith });
+  const { refitWithoutRows, ...influence } = influenceEffects(ctx, { fitWith });
 
   const run: Record<A.Effect, () => Promise<void>> = {
     'query-threshold': cutoff.queryThreshold,
     'refresh-costs': () => cutoff.refreshCosts(),
     'refresh-drop-report': data.refreshDropReport,
     reread: data.reread,
+    'refit-without-rows': refitWithoutRows,
   };
 
   return {
@@ -47,7 +60,11 @@ export function createController(store: Store, client: WorkerClient): Controller
     ...cutoff,
     ...checks(ctx),
     ...filesOut(ctx, data),
+    ...monitoring(ctx),
     ...restore,
+    // A restarted engine has lost the opened model file and the monitoring file: the page forgets them too.
+    recover: (text) => (store.apply(engineEmptied, undefined), restore.recover(text)),
+    ...influence,
     async act(intent, input) {
       const before = store.get();
       store.apply(intent.perform, input);
@@ -58,12 +75,17 @@ export function createController(store: Store, client: WorkerClient): Controller
       if (action === 'reload') store.apply(A.showView, 'data');
       else if (action === 'start-afresh') data.startAfresh();
       else if (action === 'refit') await fit.fitModel();
+      else if (action === 'save-workspace')
+        return; // the page downloads the file (src/ui/NoticeArea.tsx)
       else {
         store.apply(A.chooseMethod, action === 'use-firth' ? 'firth' : 'ridge');
         await fit.fitModel();
       }
     },
     show: (view) => store.apply(A.showView, view),
-    cancel: (jobId) => client.cancel(jobId),
+    cancel: (jobId) =>
+      ctx.stopsEngine.has(jobId)
+        ? void (store.apply(engineEmptied, undefined), restore.cancelByRestart())
+        : client.cancel(jobId),
   };
 }

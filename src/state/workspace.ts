@@ -6,9 +6,10 @@
 import type { Dataset } from '../engine/core';
 import { cleanOddsUnits } from '../report/oddsUnits';
 import type { Workspace } from '../io/export/workspaceFile';
-import type { CutoffHow, DataSummary } from '../worker/protocol';
+import type { DataSummary, FitRequest } from '../worker/protocol';
 import { buildSpec } from './actions';
 import { defaultImportSettings, initialState, type AppState, type PredictorRole } from './appState';
+import { checkWorkspace, type CheckedWorkspace } from './workspaceCheck';
 
 /** The part of the state a workspace keeps (the same fields as AppState), plus whether a model had been fitted. */
 export interface WorkbenchSettings extends Pick<
@@ -35,6 +36,12 @@ export interface WorkbenchSettings extends Pick<
   costsSetByUser?: boolean;
   /** A model had been fitted: fit it again on restore so the results reappear. */
   fitted: boolean;
+  /**
+   * The request the shown result was fitted for (it may differ from the settings when they changed after the fit):
+   * restoring refits exactly this, so the page shows the same model and says it is out of date. Absent in
+   * workspaces saved before it was kept (then the settings are fitted).
+   */
+  fittedRequest?: FitRequest | null;
 }
 
 /** The data the page keeps (fetched back from the worker after each load), with an id per load. */
@@ -64,6 +71,7 @@ export function settingsOf(s: AppState): WorkbenchSettings {
     importSettings: s.importSettings,
     view: s.view,
     fitted: s.fit !== null,
+    fittedRequest: s.fit?.request ?? null,
   };
 }
 
@@ -92,33 +100,20 @@ export function toWorkspace(s: AppState, held: HeldData | null, withData: boolea
   };
 }
 
-const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
-/** A saved iteration limit if it is one the engine accepts; otherwise (older workspaces: none) the default 50. */
-const maxIterOr = (v: unknown, fallback: number): number =>
-  Number.isInteger(v) && (v as number) >= 1 && (v as number) <= 10_000 ? (v as number) : fallback;
-const cutoffHows: readonly unknown[] = ['cost-based', 'cheapest', 'hand', 'restored'] satisfies CutoffHow[];
-/** How the cut-off was set and whether the costs were the user's, each only when saved and valid. */
-const originOf = (w: Record<string, unknown>): Pick<WorkbenchSettings, 'cutoffHow' | 'costsSetByUser'> => ({
-  ...(cutoffHows.includes(w.cutoffHow) ? { cutoffHow: w.cutoffHow as CutoffHow } : {}),
-  ...(typeof w.costsSetByUser === 'boolean' ? { costsSetByUser: w.costsSetByUser } : {}),
-});
-
 /**
  * The settings of a saved workspace: taken from `extra.workbench` when Fulcra wrote it, otherwise rebuilt from
- * the spec, fit options, cut-off, costs and words (a workspace written by another tool or version).
+ * the spec, fit options, cut-off, costs and words (a workspace written by another tool or version). Refuses a bad
+ * workspace (FulcraError naming the field, see workspaceCheck.ts); `checked` is its result when already at hand.
  */
-export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
-  const w = ws.extra?.workbench;
-  // Neither default is a saved choice: without a valid saved value restoring decides (see workspaceRestored).
+export function settingsFromWorkspace(
+  ws: Workspace,
+  checked: CheckedWorkspace = checkWorkspace(ws),
+): WorkbenchSettings {
+  // Neither default is a saved choice: without a saved value restoring decides (see workspaceRestored).
   const { cutoffHow: _how, costsSetByUser: _set, ...defaults } = settingsOf(initialState);
   const base: WorkbenchSettings = { ...defaults, importSettings: defaultImportSettings };
-  if (isObject(w) && isObject(w.roles) && Array.isArray(w.interactions) && isObject(w.costs)) {
-    const { cutoffHow: _savedHow, costsSetByUser: _savedSet, ...saved } = w as unknown as WorkbenchSettings;
-    // Workspaces saved before the one method enum call elastic net 'elasticnet'.
-    const method = (saved.method as string) === 'elasticnet' ? 'elastic-net' : saved.method;
-    const oddsUnits = cleanOddsUnits(saved.oddsUnits);
-    return { ...base, ...saved, method, maxIter: maxIterOr(saved.maxIter, base.maxIter), oddsUnits, ...originOf(w) };
-  }
+  if (checked.workbench)
+    return { ...base, ...checked.workbench, oddsUnits: cleanOddsUnits(checked.workbench.oddsUnits) };
   const roles: Record<string, PredictorRole> = {};
   const interactions: [string, string][] = [];
   for (const t of ws.spec?.terms ?? []) {
@@ -134,7 +129,7 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
     interactions,
     method: ws.fitOptions.method ?? 'ml',
     level: ws.fitOptions.level ?? base.level,
-    maxIter: maxIterOr(ws.fitOptions.maxIter, base.maxIter),
+    maxIter: ws.fitOptions.maxIter ?? base.maxIter,
     threshold: ws.threshold ?? base.threshold,
     costs: ws.costs && ws.costs.missedCase > 0 && ws.costs.falseAlarm > 0 ? { ...ws.costs } : base.costs,
     reportText: { ...ws.freeText },
@@ -143,12 +138,7 @@ export function settingsFromWorkspace(ws: Workspace): WorkbenchSettings {
   };
 }
 
-/** The data summary saved with a workspace (so the importer's types and reasons come back), if any. */
-export function summaryFromWorkspace(ws: Workspace): DataSummary | null {
-  const s = ws.extra?.summary;
-  return isObject(s) && Array.isArray(s.columns) && isObject(s.source) ? (s as unknown as DataSummary) : null;
-}
-
+/** The id of the data a stored workspace record was saved with (settings and data are kept apart). */
 export function dataIdOf(ws: Workspace): string | null {
   const id = ws.extra?.dataId;
   return typeof id === 'string' ? id : null;

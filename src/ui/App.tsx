@@ -10,7 +10,9 @@ import { NoticeArea } from './NoticeArea';
 import { CutoffPanel } from './panels/CutoffPanel';
 import { DataPanel } from './panels/DataPanel';
 import { ModelPanel } from './panels/ModelPanel';
+import { InfluencePanel } from './panels/InfluencePanel';
 import { PerformancePanel } from './panels/PerformancePanel';
+import { MonitorPanel } from './panels/MonitorPanel';
 import { ScorePanel } from './panels/ScorePanel';
 import { ShapePanel } from './panels/ShapePanel';
 import { StartPanel } from './panels/StartPanel';
@@ -60,21 +62,26 @@ export function App() {
 function Shell() {
   const hasData = useApp((s) => s.data !== null);
   const view = useApp((s) => s.view);
+  // A model file opened without data can still monitor later cases.
+  const opened = useApp((s) => s.openedModel !== null);
+  const monitorOnly = !hasData && opened && view === 'monitor';
   return (
     <div className="app">
       <Header />
       <div className="body">
-        {hasData && <Nav />}
+        {(hasData || opened) && <Nav />}
         <main id="main" tabIndex={-1}>
           <NoticeArea />
           <JobBar />
-          {!hasData && <StartPanel />}
+          {!hasData && !monitorOnly && <StartPanel />}
           {hasData && view === 'data' && <DataPanel />}
           {hasData && view === 'model' && <ModelPanel />}
+          {hasData && view === 'influence' && <InfluencePanel />}
           {hasData && view === 'shape' && <ShapePanel />}
           {hasData && view === 'performance' && <PerformancePanel />}
           {hasData && view === 'cutoff' && <CutoffPanel />}
           {hasData && view === 'score' && <ScorePanel />}
+          {(hasData || monitorOnly) && view === 'monitor' && <MonitorPanel />}
         </main>
       </div>
     </div>

@@ -4,10 +4,12 @@ import { useApp, useEnv } from './context';
 const VIEWS: { id: ViewId; label: string; needsFit: boolean }[] = [
   { id: 'data', label: 'Data & roles', needsFit: false },
   { id: 'model', label: 'Odds ratios', needsFit: false },
+  { id: 'influence', label: 'Influential rows', needsFit: true },
   { id: 'shape', label: 'Risk curve & loss', needsFit: true },
   { id: 'performance', label: 'Discrimination & calibration', needsFit: true },
   { id: 'cutoff', label: 'Cut-off & costs', needsFit: true },
   { id: 'score', label: 'Score & validate', needsFit: true },
+  { id: 'monitor', label: 'Monitor later cases', needsFit: false },
 ];
 
 export function Nav() {
@@ -15,6 +17,9 @@ export function Nav() {
   const view = useApp((s) => s.view);
   const quality = useApp((s) => s.reportText.cautions === 'quality');
   const fitted = useApp((s) => s.fit !== null);
+  const hasData = useApp((s) => s.data !== null);
+  // Monitoring needs a model: the current fit or a model file opened on the page (which needs no data).
+  const modelAtHand = useApp((s) => s.fit !== null || s.openedModel !== null);
   return (
     <nav aria-label="Workbench views" className="side">
       <ul>
@@ -23,7 +28,7 @@ export function Nav() {
             <button
               type="button"
               aria-current={view === v.id ? 'page' : undefined}
-              disabled={v.needsFit && !fitted}
+              disabled={v.id === 'monitor' ? !modelAtHand : (v.needsFit && !fitted) || !hasData}
               onClick={() => ctl.show(v.id)}
             >
               {v.label}

@@ -1,6 +1,7 @@
 import { dismiss } from '../state/actions';
 import type { Notice } from '../state/appState';
 import { useApp, useEnv } from './context';
+import { saveWorkspaceFile } from './saveWorkspace';
 
 const REMEDY_LABEL: Record<NonNullable<Notice['action']>, string> = {
   'use-firth': 'Refit with Firth’s penalised likelihood',
@@ -8,6 +9,7 @@ const REMEDY_LABEL: Record<NonNullable<Notice['action']>, string> = {
   reload: 'Go to the data view',
   'start-afresh': 'Start afresh',
   refit: 'Refit the model',
+  'save-workspace': 'Save workspace as a file',
 };
 
 /** The one place where errors and warnings are shown, each with its suggested action. */
@@ -31,7 +33,13 @@ export function NoticeArea() {
           </div>
           <div className="notice-actions">
             {n.action && (
-              <button type="button" onClick={() => void ctl.useRemedy(n.action!, n.id)}>
+              <button
+                type="button"
+                onClick={() =>
+                  // Saving the file keeps the notice: it still says what this browser could not keep.
+                  void (n.action === 'save-workspace' ? saveWorkspaceFile(store, ctl) : ctl.useRemedy(n.action!, n.id))
+                }
+              >
                 {REMEDY_LABEL[n.action]}
               </button>
             )}

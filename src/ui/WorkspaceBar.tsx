@@ -1,8 +1,6 @@
 import { useRef, useState } from 'react';
-import { notify } from '../state/actions';
 import { useApp, useEnv } from './context';
-import { downloadFile } from './download';
-import { FULCRA_VERSION } from '../report/version';
+import { saveWorkspaceFile } from './saveWorkspace';
 
 /** Save the whole workspace as one file, open one, and see when the work was last kept in this browser. */
 export function WorkspaceBar() {
@@ -17,17 +15,7 @@ export function WorkspaceBar() {
     refocus.current = true;
     setConfirming(false);
   };
-  const save = async () => {
-    try {
-      const file = await ctl.workspaceFile(FULCRA_VERSION);
-      if (file) downloadFile(file.bytes, file.name, 'application/gzip');
-    } catch (err) {
-      store.apply(notify, {
-        kind: 'error',
-        text: `The workspace file could not be written (${(err as Error).message}).`,
-      });
-    }
-  };
+  const save = () => saveWorkspaceFile(store, ctl);
   return (
     <div className="workspace-bar" role="group" aria-label="Workspace">
       {savedAt && (

@@ -13,9 +13,12 @@ import { costView, thresholdAt } from './cutoffOps';
 import { heldCopy, loadDemo, loadHeld, loadImported } from './dataOps';
 import type { Dataset } from '../engine/core';
 import { readBytes, readPasted } from './ioOps';
-import { checkImportBudget } from './budget';
+import { guardIncoming } from './budget';
+import { forgetKept, keepData, restoreKept, type KeepResult, type RestoreKeptResult } from './keepOps';
+import { idbBackend, type KeyValueBackend } from '../io/export/persist';
 import { fitWithImputation } from './imputeOps';
 import { fitModel } from './modelOps';
+import { diagnosticsView } from './diagnosticsOps';
 import { rowsWindow } from './profile';
 import type {
   Costs,
@@ -28,6 +31,14 @@ import type {
   ReportText,
 } from './protocol';
 import { createSession, openJob, requireData, requireRecord, tick, type Session } from './session';
+import { closeModelFile, openModelFile } from './modelFileOps';
+import { loadDemoMonitoring, monitor, openMonitoringFile, recalibrateMonitored } from './monitorOps';
+import type { MonitoringOptionsInput } from '../engine/monitoring';
+import type { FitStep, MonitoringModel } from '../engine/workflow';
+import type { MonitoringReport } from '../report/reportSectionMonitoring';
+import { buildMonitoringReport } from '../report/buildMonitoringReport';
+import type { CautionSetting } from '../report/cautions';
+import { FULCRA_VERSION } from '../report/version';
 import { modelFileText, modelReport, pmmlText } from './reportOps';
 import { scoreImported, scoreOne } from './scoreOps';
 import { riskCurve } from './shapeOps';
@@ -50,16 +61,18 @@ async function guarded<T>(
   }
 }
 
+/** The bytes, once the one memory guard (guardIncoming) has let them in. */
 function checkedBytes(bytes: ArrayBuffer, name: string, held: Session['data']): ArrayBuffer {
-  checkImportBudget(bytes, name, held);
+  guardIncoming(bytes, name, held);
   return bytes;
 }
 
 /**
  * The calls the page can make; one session (data set + current model) per api. `pool` resolves when the row pool
- * of the engine worker is started (to its number of threads).
+ * of the engine worker is started (to its number of threads); `storage` keeps the data in this browser (IndexedDB;
+ * tests pass an in-memory one).
  */
-export function createApi(pool: Promise<number> = Promise.resolve(1)) {
+export function createApi(pool: Promise<number> = Promise.resolve(1), storage: KeyValueBackend = idbBackend) {
   const session = createSession();
   let typical: Record<string, string | number> = {};
   const ready = pool.catch(() => 1);
@@ -89,7 +102,15 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     importText: (text: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
       return guard(jobId, async () =>
-        loadImported(session, await readPasted(text, options, { signal: h.signal, tick }), 'paste', 'pasted cells'),
+        loadImported(
+          session,
+          await readPasted((guardIncoming(text, 'pasted cells', session.data), text), options, {
+            signal: h.signal,
+            tick,
+          }),
+          'paste',
+          'pasted cells',
+        ),
       );
     },
     /** The loaded data and its summary (copies, transferred), for the page to keep and save; null when none. */
@@ -101,6 +122,14 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     /** Loads data the page kept (engine restart, saved workspace) without reading a file again. */
     loadDataset: (data: Dataset, summary: DataSummary | null, name: string) =>
       guard(null, () => loadHeld(session, data, summary, name)),
+    /** Keeps the loaded data in this browser, in pieces, for the page's `dataId` (see keepOps.ts); never throws. */
+    keepData: (dataId: string, shape: { nRows: number; names: string[] }) =>
+      guard<KeepResult>(null, () => keepData(session, storage, dataId, shape)),
+    /** Loads the data kept in this browser under `dataId` into the session; answers 'none' when none are kept. */
+    restoreKeptData: (dataId: string, summary: DataSummary | null, name: string) =>
+      guard<RestoreKeptResult>(null, () => restoreKept(session, storage, dataId, summary, name)),
+    /** Deletes the data kept in this browser ("Start afresh"). */
+    forgetKeptData: () => guard(null, () => forgetKept(storage)),
     /** The workspace file (gzip JSON), encoded here, not on the page: `ws` comes without data, the worker adds it. */
     workspaceFile: (ws: Workspace, version: string) =>
       guard(null, async () => {
@@ -110,6 +139,7 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     /** Decodes a workspace file (plain or gzip) here rather than on the page; its data buffers are transferred. */
     readWorkspaceFile: (bytes: Uint8Array) =>
       guard(null, async () => {
+        guardIncoming(bytes, 'workspace file', session.data, 'workspace');
         const { workspace } = await readWorkspaceBytes(bytes);
         return Comlink.transfer(
           workspace,
@@ -132,14 +162,33 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     },
     getRows: (start: number, count: number) => guard(null, () => rowsWindow(requireData(session), start, count)),
     dropReport: (spec: ModelSpec) => guard(null, () => missingReport(requireData(session), spec)),
-    fitModel: (req: FitRequest, jobId: string, onProgress?: Progress) =>
+    /** Fits `req`; with `fitted` (the fit it gave before an engine restart) only what follows the fit is run. */
+    fitModel: (req: FitRequest, jobId: string, onProgress?: Progress, fitted?: FitStep) =>
       guard(jobId, async () => {
-        const view = await fitModel(session, req, hooksFor(jobId, onProgress));
+        const view = await fitModel(session, req, hooksFor(jobId, onProgress), fitted);
         typical = view.typical;
         return view;
       }),
     /** The current analysis record (request, fit, evaluation, sample size, validations), as `npm run fit --json`. */
     analysisRecord: () => guard(null, () => requireRecord(session)),
+    /** Leverage, residuals and influence of the current fit: the record's summary and the plots' per-row points. */
+    diagnostics: () =>
+      guard(null, () => {
+        const v = diagnosticsView(session);
+        const p = v.points;
+        const arrays = [
+          p.sheetRow,
+          p.dataRow,
+          p.y,
+          p.residual,
+          ...(p.leverage ? [p.leverage] : []),
+          ...(p.cooks ? [p.cooks] : []),
+        ];
+        return Comlink.transfer(
+          v,
+          arrays.map((a) => a.buffer as ArrayBuffer),
+        );
+      }),
     fitImputed: (req: FitRequest, jobId: string, onProgress?: Progress) =>
       guard(jobId, () => fitWithImputation(session, req, hooksFor(jobId, onProgress))),
     threshold: (t: number, costs: Costs) => guard(null, () => thresholdAt(session, t, costs)),
@@ -154,23 +203,68 @@ export function createApi(pool: Promise<number> = Promise.resolve(1)) {
     scoreBatch: (bytes: ArrayBuffer, name: string, threshold: number, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
       return guard(jobId, async () =>
-        scoreImported(session, await readBytes(bytes, name, {}, { signal: h.signal, tick }), threshold),
+        scoreImported(
+          session,
+          await readBytes(checkedBytes(bytes, name, session.data), name, {}, { signal: h.signal, tick }),
+          threshold,
+        ),
       );
     },
     externalValidate: (bytes: ArrayBuffer, name: string, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);
       return guard(jobId, async () =>
-        externalValidate(session, await readBytes(bytes, name, {}, { signal: h.signal, tick })),
+        externalValidate(
+          session,
+          await readBytes(checkedBytes(bytes, name, session.data), name, {}, { signal: h.signal, tick }),
+        ),
       );
     },
-    modelReport: (costs: Costs, threshold: number, created: string, text: ReportRequestText, origin?: CutoffOrigin) =>
+    modelReport: (
+      costs: Costs,
+      threshold: number,
+      created: string,
+      text: ReportRequestText,
+      origin?: CutoffOrigin,
+      monitoring?: MonitoringReport,
+    ) =>
       guard(null, () => {
-        const bytes = modelReport(session, costs, threshold, created, text, origin);
+        const bytes = modelReport(session, costs, threshold, created, text, origin, monitoring);
         return Comlink.transfer(bytes, [bytes.buffer]);
       }),
     modelFile: (costs: Costs, threshold: number, created: string, text: ReportText) =>
       guard(null, () => modelFileText(session, costs, threshold, created, text)),
     pmml: (created: string) => guard(null, () => pmmlText(session, created)),
+    /** "Open model": reads and keeps a Fulcra model file beside the current fit (for monitoring with it). */
+    openModelFile: (bytes: ArrayBuffer, name: string) => guard(null, () => openModelFile(session, bytes, name)),
+    closeModelFile: () => guard(null, () => closeModelFile(session)),
+    /** Reads and keeps a monitoring file (later cases with outcome and date); returns its columns for the choice. */
+    openMonitoringFile: (bytes: ArrayBuffer, name: string, jobId: string, onProgress?: Progress) => {
+      const h = hooksFor(jobId, onProgress);
+      return guard(jobId, async () =>
+        openMonitoringFile(
+          session,
+          await readBytes(checkedBytes(bytes, name, session.data), name, {}, { signal: h.signal, tick }),
+          name,
+        ),
+      );
+    },
+    /** Keeps the invented second year of operations by ward as the monitoring file. */
+    loadDemoMonitoring: () => guard(null, () => loadDemoMonitoring(session)),
+    /** Monitors the kept file with the current fit or the opened model file: the one MonitoringRecord. */
+    monitor: (options: MonitoringOptionsInput, source: MonitoringModel['source']) =>
+      guard(null, () => monitor(session, options, source)),
+    /** Intercept and slope recalibration on the latest `periods` periods of the last monitoring run. */
+    recalibrateOnPeriods: (periods: number) => guard(null, () => recalibrateMonitored(session, periods)),
+    /** The monitoring report on its own (PDF bytes, transferred), for the result the page shows. */
+    monitoringReport: (monitoring: MonitoringReport, created: string, setting: CautionSetting) =>
+      guard(null, () => {
+        const bytes = buildMonitoringReport({
+          monitoring,
+          meta: { fulcraVersion: FULCRA_VERSION, created },
+          cautionSetting: setting,
+        });
+        return Comlink.transfer(bytes, [bytes.buffer]);
+      }),
     cancel: (jobId: string) => {
       const s = session.signals.get(jobId);
       if (s) s.aborted = true;

@@ -1,6 +1,6 @@
 import type { Dataset, FitResult } from '../engine/core';
 import { CHUNK_ROWS, rowPoolThreads } from '../engine/numerics';
-import { runAnalysis } from '../engine/workflow';
+import { runAnalysis, type FitStep } from '../engine/workflow';
 import { select } from '../io/numericSummary';
 import { checkFitBudget } from './budget';
 import { toView } from './performance';
@@ -12,12 +12,14 @@ type Hooks = { onProgress?: (d: number, t: number) => void; signal?: { aborted: 
 /**
  * Runs the engine's one analysis (src/engine/workflow) on the loaded data, keeps its record and apparent
  * risks in the session (for the cut-off queries, the PDF and analysisRecord()), and shapes the page's view.
+ * `fitted`: the model this request gave before (a restarted engine gets it back instead of fitting again).
  */
-export async function fitModel(s: Session, req: FitRequest, hooks: Hooks): Promise<FitView> {
+export async function fitModel(s: Session, req: FitRequest, hooks: Hooks, fitted?: FitStep): Promise<FitView> {
   const data = requireData(s);
   checkFitBudget(data, req.spec);
-  const { record, scores } = await runAnalysis(data, req, { ...hooks, tick });
+  const { record, scores, diagnostics } = await runAnalysis(data, req, { ...hooks, tick }, undefined, fitted);
   s.record = record;
+  s.diagnostics = { fit: record.fit, rows: diagnostics };
   s.y = scores.y;
   s.risk = scores.risk;
   s.prepared = scores.prepared;

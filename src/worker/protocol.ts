@@ -236,7 +236,8 @@ export interface BatchScoreView {
   /** Rows skipped because a category was not seen when the model was fitted, and the first of them. */
   unknownRows: number;
   unknownFirst: { row: number; column: string; value: string }[];
-  csv: string;
+  /** The scored CSV in parts of 20 000 rows (header in the first), for `new Blob(csvParts)`: never one huge string. */
+  csvParts: string[];
   warnings: EngineWarning[];
 }
 
@@ -287,3 +288,25 @@ export interface ImputedView {
   }[];
   warnings: EngineWarning[];
 }
+
+/** A model file opened on the page ("Open model"): what the page shows of it; the worker keeps the model itself. */
+export interface OpenedModelView {
+  /** Unique on this page: a result computed with this model carries it. */
+  id: number;
+  fileName: string;
+  outcome: string;
+  event: string;
+  /** The model's terms, as fitted. */
+  terms: string[];
+  method: FitResult['method'];
+  /** When the model file was saved (ISO 8601) and by which Fulcra. */
+  created: string;
+  fulcraVersion: string;
+  /** The development data's file name and rows, as the model file records them. */
+  trainedOn: string | null;
+  trainingRows: number | null;
+  purpose: string | null;
+}
+
+/** The monitoring file the worker holds (src/worker/monitorOps.ts), as the page shows it before monitoring. */
+export type { MonitoringFileView } from './monitorOps';

@@ -6,6 +6,8 @@ import { buildModelReport } from '../report/buildModelReport';
 import { cutoffRuleText } from '../report/cutoffRule';
 import { cautionSettingOf } from '../report/cautions';
 import { reportInputFromRecords } from '../report/fromEngine';
+import type { MonitoringReport } from '../report/reportSectionMonitoring';
+import { cooksForReport } from '../report/reportSectionDiagnostics';
 import { FULCRA_VERSION } from '../report/version';
 import type { Costs, CutoffOrigin, ReportRequestText, ReportText } from './protocol';
 import { requireData, requireFit, requireRecord, type Session } from './session';
@@ -13,7 +15,8 @@ import { requireData, requireFit, requireRecord, type Session } from './session'
 /**
  * The model-summary PDF of the current model, built in the worker from the engine's own records (fit,
  * evaluation, bootstrap validation when run, sample-size check) with the cut-off and costs chosen on the page,
- * saying how the cut-off was set and whether the costs are the default (`origin`; without it: set by hand).
+ * saying how the cut-off was set and whether the costs are the default (`origin`; without it: set by hand), and
+ * the monitoring of later cases when the page has a current result (`monitoring`).
  */
 export function modelReport(
   s: Session,
@@ -22,6 +25,7 @@ export function modelReport(
   created: string,
   text: ReportRequestText = {},
   origin: CutoffOrigin = { how: 'hand', costsSetByUser: true },
+  monitoring?: MonitoringReport,
 ): Uint8Array {
   const record = requireRecord(s);
   const data = requireData(s);
@@ -65,7 +69,18 @@ export function modelReport(
     }),
     lambdaChoice,
     imputation: s.imputed ? { ...s.imputed, columns: s.imputed.imputedColumns } : undefined,
+    diagnostics: record.diagnostics
+      ? {
+          summary: record.diagnostics,
+          leftOut: record.request.leaveOut ?? [],
+          cooks:
+            s.diagnostics?.fit === record.fit && s.diagnostics.rows.cooks
+              ? cooksForReport(s.diagnostics.rows.sheetRows, s.diagnostics.rows.cooks)
+              : null,
+        }
+      : undefined,
     external: record.external ?? undefined,
+    monitoring,
     warnings: s.imputed?.warnings,
   });
   return buildModelReport(input);
@@ -90,6 +105,7 @@ export function modelFileText(
       rows: data.nRows,
       threshold: { value: threshold, costMissedCase: costs.missedCase, costFalseAlarm: costs.falseAlarm },
       notes: { purpose: text.purpose, setting: text.setting, population: text.population, notes: text.notes },
+      rowsLeftOut: requireRecord(s).request.leaveOut ?? [],
     }),
   );
 }

@@ -1,6 +1,6 @@
 import { sheetRow, warning, type Column, type Dataset, type EngineWarning, type FitResult } from '../engine/core';
 import { predict, predictOne } from '../engine/fitting';
-import { predictionsCsv } from '../io/export/predictionsCsv';
+import { predictionsCsvChunks } from '../io/export/predictionsCsv';
 import type { ImportResult } from '../io/types';
 import type { BatchScoreView, OutsideValue, ScoreView } from './protocol';
 import { requireFit, type Session } from './session';
@@ -82,11 +82,13 @@ export function scoreImported(s: Session, imported: ImportResult, threshold: num
     ranges.filter((c) => c.values[row] < c.min || c.values[row] > c.max).map((c) => c.name),
   );
   const hasCi = r.lower.some((x) => !Number.isNaN(x));
-  const csv = predictionsCsv(
-    data,
-    { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed, outside },
-    { threshold, level: f.level },
-  );
+  const csvParts = [
+    ...predictionsCsvChunks(
+      data,
+      { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed, outside },
+      { threshold, level: f.level },
+    ),
+  ];
   const outsideFirst: BatchScoreView['outsideFirst'] = [];
   let outsideRows = 0;
   outside.forEach((columns, i) => {
@@ -139,7 +141,7 @@ export function scoreImported(s: Session, imported: ImportResult, threshold: num
     outsideFirst,
     unknownRows: unknown.size,
     unknownFirst,
-    csv,
+    csvParts,
     warnings,
   };
 }

@@ -2,7 +2,10 @@ import { FulcraError, type Dataset } from '../engine/core';
 import type { FitResult } from '../engine/core';
 import type { PreparedThresholds } from '../engine/evaluation';
 import type { AnalysisRecord } from '../engine/workflow';
-import type { DataSummary, ImputedView } from './protocol';
+import type { RowDiagnostics } from '../engine/diagnostics';
+import type { ModelFile } from '../io/export';
+import type { DataSummary, ImputedView, OpenedModelView } from './protocol';
+import type { MonitoringState } from './monitorOps';
 
 /** What the worker holds between calls: the data set and the current model. */
 export interface Session {
@@ -16,7 +19,13 @@ export interface Session {
   prepared: PreparedThresholds | null;
   /** The current model pooled over multiple imputations, when the page asked for it (for the PDF). */
   imputed: ImputedView | null;
+  /** A model opened from a model file ("Open model"), kept beside the current fit; null when none. */
+  opened: { view: OpenedModelView; file: ModelFile; fit: FitResult } | null;
   signals: Map<string, { aborted: boolean }>;
+  /** The monitoring file and the last monitoring run (src/worker/monitorOps.ts); absent or null when none. */
+  monitoring?: MonitoringState | null;
+  /** Per-row leverage, residuals and influence of the fit they belong to (valid while that fit is the record's). */
+  diagnostics?: { fit: FitResult; rows: RowDiagnostics } | null;
 }
 
 export function createSession(): Session {
@@ -28,6 +37,7 @@ export function createSession(): Session {
     risk: null,
     prepared: null,
     imputed: null,
+    opened: null,
     signals: new Map(),
   };
 }

@@ -50,7 +50,8 @@ export function riskCurve(s: Session, predictor: string, typical: Record<string,
     const v = col.values.filter((x) => !Number.isNaN(x)).sort();
     const lo = v[Math.floor(0.01 * (v.length - 1))],
       hi = v[Math.ceil(0.99 * (v.length - 1))];
-    values = Array.from({ length: 61 }, (_, i) => lo + ((hi - lo) * i) / 60);
+    // lo·(1 − t) + hi·t stays finite for any finite lo and hi (hi − lo may not: 1.2e308 − (−1e308) overflows).
+    values = Array.from({ length: 61 }, (_, i) => lo * (1 - i / 60) + hi * (i / 60));
     const step = Math.max(1, Math.floor(col.values.length / 300));
     for (let i = 0; i < col.values.length; i += step) if (!Number.isNaN(col.values[i])) rug.push(col.values[i]);
     rug = rug.filter((x) => x >= lo && x <= hi);
@@ -63,7 +64,7 @@ export function riskCurve(s: Session, predictor: string, typical: Record<string,
     numeric: term.type !== 'categorical',
     points: values.map((v, i) => ({
       x: typeof v === 'number' ? v : i,
-      label: typeof v === 'number' ? String(Math.round(v * 1000) / 1000) : v,
+      label: typeof v === 'number' ? (Math.abs(v) < 1e15 ? String(Math.round(v * 1000) / 1000) : v.toPrecision(4)) : v,
       risk: r.risk[i],
       lower: r.lower[i],
       upper: r.upper[i],

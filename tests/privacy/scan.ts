@@ -115,3 +115,51 @@ export function scanNetworkCalls(code: string, file: string): Finding[] {
 }
 
 export const describeFindings = (fs: Finding[]) => fs.map((f) => `${f.file}:${f.line} ${f.what}: ${f.text}`).join('\n');
+
+const WINDOW_OPEN = /(?:\b(?:window|self|globalThis|top|parent)\s*\.\s*|(?<![\w$.]))open\s*\(/g;
+const NAVIGATE = /\blocation\s*(?:\.\s*href\s*)?=(?!=)|\blocation\s*\.\s*(?:assign|replace)\s*\(/g;
+const FORM_ACTION =
+  /(?:<form\b[^>]*?\saction|\bformaction|\.\s*(?:action|formAction)|\b(?:action|formAction)\s*:)\s*=?\s*\{?\s*/gi;
+const LITERAL_AT = new RegExp('^' + LITERAL);
+
+/** The string literal starting at `code[at]` (after spaces), or null when the text there is not a literal. */
+function literalAt(code: string, at: number): string | null {
+  const m = LITERAL_AT.exec(code.slice(at).trimStart());
+  return m ? m[2] : null;
+}
+
+/**
+ * Ways code can send the user (and data in an address) away, which no Content-Security-Policy stops: windows opened
+ * (window.open), navigation (assignments to location or location.href, location.assign/replace) and forms posted to
+ * an outside address (form action, formAction). A literal outside address is always reported; a target that is not
+ * a literal is reported as "address not a literal" (the source scan allows none; the bundle scan lists the library
+ * sites it knows). Look-ups (location.search), fragment moves (location.hash) and other `open` methods
+ * (indexedDB.open, XMLHttpRequest.open) are not reported.
+ */
+export function scanNavigation(code: string, file: string): Finding[] {
+  const out: Finding[] = [];
+  const add = (index: number, what: string, target: string | null) => {
+    if (target !== null && !outside(target)) return;
+    out.push({
+      file,
+      line: lineOf(code, index),
+      what: `${what} ${target === null ? '(address not a literal)' : 'to an outside address'}`,
+      text: code.slice(index, index + 120),
+    });
+  };
+  for (const m of code.matchAll(WINDOW_OPEN)) {
+    const at = m.index! + m[0].length;
+    const close = code.indexOf(')', at);
+    const after = code.slice(close + 1, close + 40).trimStart();
+    if (/function\s+$/.test(code.slice(Math.max(0, m.index! - 12), m.index!)) || after.startsWith('{')) continue;
+    const args = code.slice(at, close).trim();
+    if (args === '') continue; // open() with no address: a blank window of this page
+    add(m.index!, 'window.open', literalAt(code, at));
+  }
+  for (const m of code.matchAll(NAVIGATE)) add(m.index!, 'navigation', literalAt(code, m.index! + m[0].length));
+  for (const m of code.matchAll(FORM_ACTION)) {
+    const target = literalAt(code, m.index! + m[0].length);
+    if (target !== null) add(m.index!, 'form action', target);
+  }
+  return out;
+}

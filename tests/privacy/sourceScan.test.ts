@@ -2,7 +2,14 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { codeWithoutComments, describeFindings, scanCode, scanNetworkCalls, type Finding } from './scan';
+import {
+  codeWithoutComments,
+  describeFindings,
+  scanCode,
+  scanNavigation,
+  scanNetworkCalls,
+  type Finding,
+} from './scan';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 const CODE = /\.(ts|tsx|js|jsx|mjs|cjs|css|html)$/i;
@@ -53,6 +60,43 @@ describe('scanner self-check', () => {
     ];
     for (const g of good) expect(scanNetworkCalls(g, 'probe.js'), g).toEqual([]);
   });
+  it('reports windows opened, navigation away and form actions, but not look-ups or local moves', () => {
+    const outside = [
+      "window.open('https://x.example/?leak=1')",
+      "open(`https://x.example/`, '_blank')",
+      "self.open('//x.example/')",
+      "location.href = 'https://x.example/'",
+      "window.location = 'https://x.example/'",
+      "location.assign('https://x.example/')",
+      'document.location.replace("//x.example")',
+      '<form action="https://x.example/post">',
+      "form.action = 'https://x.example/post'",
+      "button.formAction = 'https://x.example/post'",
+      'const f = <form action="https://x.example/post" />;',
+    ];
+    for (const b of outside) {
+      const found = scanNavigation(codeWithoutComments(b, /^</.test(b) ? 'p.html' : 'p.tsx'), 'p');
+      expect(found, b).toHaveLength(1);
+      expect(found[0].what, b).toMatch(/outside address/);
+    }
+    const unknown = ['window.open(url)', 'location.href = next', 'w.location.assign(u)', 'open(e, "_blank")'];
+    for (const b of unknown)
+      expect(
+        scanNavigation(b, 'p').map((f) => f.what),
+        b,
+      ).toEqual([expect.stringMatching(/address not a literal/)]);
+    const fine = [
+      "indexedDB.open('fulcra')",
+      "xhr.open('GET', '/local')",
+      'const q = new URLSearchParams(location.search);',
+      'if (location.href === x) y();',
+      "location.hash = '#model'",
+      "const db = await idb.open('x')",
+      'class A { open() { return 1; } }',
+      'function open(a) { return a; }',
+    ];
+    for (const g of fine) expect(scanNavigation(g, 'p'), g).toEqual([]);
+  });
 });
 
 describe('source privacy scan', () => {
@@ -60,7 +104,7 @@ describe('source privacy scan', () => {
 
   // jsPDF can load pdfobject from a CDN (output 'pdfobjectnewwindow') and pulls html2canvas/canvg/DOMPurify for
   // .html() and addSvgAsImage(); Fulcra must only ask it for the document in memory.
-  it('asks jsPDF only for an in-memory document (no window outputs, no .html(), no addSvgAsImage)', () => {
+  it('asks jsPDF only for an in-memory document (no window outputs, no .save(), no .html(), no addSvgAsImage)', () => {
     const findings: Finding[] = [];
     for (const f of files.filter((x) => /\.(ts|tsx)$/.test(x))) {
       const code = codeWithoutComments(readFileSync(f, 'utf8'), f);
@@ -68,13 +112,20 @@ describe('source privacy scan', () => {
         if (!['arraybuffer', 'blob'].includes(m[2]))
           findings.push({ file: relative(ROOT, f), line: 0, what: `jsPDF output "${m[2]}"`, text: m[0] });
       }
-      for (const m of code.matchAll(/\b(addSvgAsImage|doc\.html|pdf\.html)\s*\(/g))
+      for (const m of code.matchAll(/\b(addSvgAsImage|doc\.html|pdf\.html|doc\.save|pdf\.save)\s*\(/g))
         findings.push({ file: relative(ROOT, f), line: 0, what: m[1], text: m[0] });
     }
     expect(findings, describeFindings(findings)).toEqual([]);
   });
 
   it('finds the source files', () => expect(files.length).toBeGreaterThan(20));
+
+  it('never opens a window, navigates away or posts a form (window.open, location, form actions)', () => {
+    const findings: Finding[] = [];
+    for (const f of files)
+      findings.push(...scanNavigation(codeWithoutComments(readFileSync(f, 'utf8'), f), relative(ROOT, f)));
+    expect(findings, describeFindings(findings)).toEqual([]);
+  });
 
   it('has no innerHTML/eval/new Function/dangerouslySetInnerHTML and no outside URL in src/ or index.html', () => {
     const findings: Finding[] = [];

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import * as A from '../../src/state/actions';
 import { initialState, type AppState } from '../../src/state/appState';
 import { requestOf } from '../../src/state/effects/fitting';
+import { isStale } from '../../src/state/stale';
 import { createStore } from '../../src/state/store';
 import type { DataSummary, FitView } from '../../src/worker/protocol';
 
@@ -99,16 +100,22 @@ describe('state actions', () => {
   });
 
   it('marks the fit stale when a setting changes, and a new fit clears the results of the old one', () => {
+    const ready = A.setPredictor(A.chooseOutcome(loaded(), { column: 'infected' }), {
+      column: 'age',
+      role: { include: true },
+    });
+    const built = requestOf(ready);
     const fit = {
+      request: 'request' in built ? built.request : null,
       warnings: [{ code: 'few-events', message: 'Few events.', suggestion: 'Use a penalty.' }],
     } as unknown as FitView;
-    let s = A.fitDone({ ...loaded(), riskCurve: {} as AppState['riskCurve'], validationStatus: 'done' }, fit);
-    expect(s.fitStale).toBe(false);
+    let s = A.fitDone({ ...ready, riskCurve: {} as AppState['riskCurve'], validationStatus: 'done' }, fit);
+    expect(isStale(s)).toBe(false);
     expect(s.riskCurve).toBeNull();
     expect(s.validationStatus).toBe('idle');
     expect(s.notices.find((n) => n.code === 'few-events')?.action).toBe('use-ridge');
     s = A.chooseMethod(s, 'firth');
-    expect(s.fitStale).toBe(true);
+    expect(isStale(s)).toBe(true);
   });
 
   it('takes an iteration limit from 1 to 10000, marks the fit stale, and the fit request carries it', () => {
@@ -117,8 +124,11 @@ describe('state actions', () => {
       role: { include: true },
     });
     expect(ready.maxIter).toBe(50);
-    const s = A.setMaxIter({ ...ready, fit: {} as FitView, fitStale: false }, 300);
-    expect([s.maxIter, s.fitStale]).toEqual([300, true]);
+    const built = requestOf(ready);
+    const fitted = { ...ready, fit: { request: 'request' in built ? built.request : null } as unknown as FitView };
+    expect(isStale(fitted)).toBe(false);
+    const s = A.setMaxIter(fitted, 300);
+    expect([s.maxIter, isStale(s)]).toEqual([300, true]);
     for (const bad of [0, 10_001, 2.5, NaN]) expect(A.setMaxIter(s, bad)).toBe(s);
     const r = requestOf(s);
     expect('request' in r && r.request.maxIter).toBe(300);

@@ -22,6 +22,7 @@ function harness() {
     cancel: (id) => {
       void api.cancel(id);
     },
+    restart: () => {},
     terminate: () => {},
   };
   const store = createStore();

@@ -16,11 +16,18 @@ describe('odds ratios per a chosen unit (a page setting)', () => {
     }
   });
 
-  it('is saved in the workspace and comes back; invalid saved entries are dropped', () => {
+  it('is saved in the workspace and comes back; an invalid saved entry is refused by name, not dropped', () => {
     const s = A.setOddsUnit(A.setOddsUnit(createStore().get(), { term: 'age', unit: 10 }), { term: 'bmi', unit: 2.5 });
     const ws = JSON.parse(JSON.stringify(toWorkspace(s, null, false)));
     expect(settingsFromWorkspace(ws).oddsUnits).toEqual({ age: 10, bmi: 2.5 });
-    ws.extra.workbench.oddsUnits = { age: 10, bad: -1, text: '5', zero: 0 };
+    // one validator for workspace files (src/state/workspaceCheck.ts): a damaged entry is named, nothing is dropped
+    ws.extra.workbench.oddsUnits = { age: 10, bad: -1 };
+    expect(() => settingsFromWorkspace(ws)).toThrow(
+      /"workspace\.extra\.workbench\.oddsUnits\.bad" must be a number above 0/,
+    );
+    ws.extra.workbench.oddsUnits = { age: 10, text: '5' };
+    expect(() => settingsFromWorkspace(ws)).toThrow(/oddsUnits\.text/);
+    ws.extra.workbench.oddsUnits = { age: 10 };
     expect(settingsFromWorkspace(ws).oddsUnits).toEqual({ age: 10 });
     delete ws.extra.workbench.oddsUnits;
     expect(settingsFromWorkspace(ws).oddsUnits).toEqual({});

@@ -20,6 +20,7 @@ function harness() {
     progress: (fn) => fn,
     transfer: (v) => v,
     cancel: () => {},
+    restart: () => {},
     terminate: () => {},
   };
   const store = createStore();

@@ -4,7 +4,8 @@ import { createController } from '../../src/state/controller';
 import { createStore } from '../../src/state/store';
 import * as A from '../../src/state/actions';
 import { initialState } from '../../src/state/appState';
-import { WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
+import { saveWorkspaceToBrowser, WORKSPACE_KEY, type KeyValueBackend } from '../../src/io/export/persist';
+import { KEPT_PREFIX, MANIFEST_KEY, type KeptManifest } from '../../src/io/export/keptData';
 import type { WorkerClient } from '../../src/bridge/workerClient';
 import { createApi } from '../../src/worker/api';
 import { settingsFromWorkspace, toWorkspace } from '../../src/state/workspace';
@@ -14,8 +15,8 @@ import type { DataSummary } from '../../src/worker/protocol';
  * The page's controller on the real worker api in-process. `crash()` does what the page's WorkerClient does
  * when the worker dies: the old api is gone, a new EMPTY one takes its place, and the controller is told.
  */
-function harness() {
-  let api = createApi();
+function harness(storage: KeyValueBackend = memoryBackend()) {
+  let api = createApi(undefined, storage);
   const errors: string[] = [];
   const store = createStore();
   // As the page wires createWorkerClient: a failure other than a cancellation goes to the one notice list.
@@ -35,11 +36,12 @@ function harness() {
     cancel: (id) => {
       void api.cancel(id);
     },
+    restart: () => {},
     terminate: () => {},
   };
   const ctl = createController(store, client);
   const crash = async () => {
-    api = createApi();
+    api = createApi(undefined, storage);
     await ctl.recover('The calculation engine stopped unexpectedly and was restarted.');
   };
   return { store, ctl, errors, crash, api: () => api };
@@ -82,7 +84,7 @@ describe('engine crash containment', () => {
     expect(s.thresholdView?.metrics.threshold).toBe(0.2);
     expect(s.notices.map((n) => n.text)).toContain(
       'The calculation engine stopped unexpectedly and was restarted. ' +
-        `Your data (${s.data!.source.name}) were loaded into it again and the model was refitted; nothing was lost.`,
+        `Your data (${s.data!.source.name}) were loaded into it again and the model was restored; nothing was lost.`,
     );
     // The new engine really holds the data: it answers a row query.
     expect((await ctl.getRows(0, 2))?.cells).toHaveLength(2);
@@ -105,7 +107,7 @@ describe('engine crash containment', () => {
 
 describe('workspace kept in the browser', () => {
   async function setUp(backend: KeyValueBackend) {
-    const h = harness();
+    const h = harness(backend);
     const autosave = createAutosave(h.store, h.ctl, { version: 'test', backend, delayMs: 5 });
     const stop = autosave.start();
     await h.ctl.startDemo('ssi');
@@ -128,7 +130,7 @@ describe('workspace kept in the browser', () => {
     first.stop();
     const then = first.store.get();
 
-    const page = harness();
+    const page = harness(backend);
     const restored = await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore();
     const s = page.store.get();
     expect(restored).toBe(true);
@@ -149,21 +151,119 @@ describe('workspace kept in the browser', () => {
     expect(s.savedAt).toBe(then.savedAt);
   });
 
-  it('writes the data once per load, the settings on every change', async () => {
+  it('writes the data once per load (in pieces, by the worker), the settings on every change', async () => {
     const backend = memoryBackend();
     const h = await setUp(backend);
     h.store.apply(A.setReportText, { setting: 'Two wards, 2025' });
     await h.autosave.flush();
     h.store.apply(A.setReportText, { population: 'Adults' });
     await h.autosave.flush();
-    expect(backend.writes.get(DATA_KEY)).toBe(1);
+    expect(backend.writes.get(MANIFEST_KEY)).toBe(1);
+    expect(backend.writes.has(DATA_KEY)).toBe(false);
     expect(backend.writes.get(WORKSPACE_KEY)).toBeGreaterThanOrEqual(3);
-    const settings = backend.map.get(WORKSPACE_KEY) as { workspace: { data: unknown } };
+    const settings = backend.map.get(WORKSPACE_KEY) as { workspace: { data: unknown; extra: { dataId: string } } };
     expect(settings.workspace.data).toBeNull();
+    const manifest = backend.map.get(MANIFEST_KEY) as KeptManifest;
+    expect(manifest.dataId).toBe(settings.workspace.extra.dataId);
+    const firstPieces = manifest.columns.flatMap((c) => c.pieces);
+    expect(firstPieces.every((k) => backend.map.has(k))).toBe(true);
     await h.ctl.startDemo('seals');
     await h.autosave.flush();
-    expect(backend.writes.get(DATA_KEY)).toBe(2);
+    expect(backend.writes.get(MANIFEST_KEY)).toBe(2);
+    // The pieces of the first load are deleted when the data change.
+    expect(firstPieces.some((k) => backend.map.has(k))).toBe(false);
     h.stop();
+  });
+
+  it('data kept by an older Fulcra as one record are restored once and then kept in pieces', async () => {
+    const backend = memoryBackend();
+    const first = await setUp(backend);
+    first.stop();
+    const held = first.ctl.held()!;
+    // What the older autosave wrote: the whole workspace with its data under DATA_KEY, no manifest.
+    const settings = backend.map.get(WORKSPACE_KEY) as { saved: string };
+    await saveWorkspaceToBrowser(toWorkspace(first.store.get(), held, true), 'old', {
+      backend,
+      key: DATA_KEY,
+      saved: settings.saved,
+    });
+    for (const k of [...backend.map.keys()]) if (k.startsWith(KEPT_PREFIX)) backend.map.delete(k);
+
+    const page = harness(backend);
+    const autosave = createAutosave(page.store, page.ctl, { version: 'test', backend, delayMs: 5 });
+    expect(await autosave.restore()).toBe(true);
+    expect(page.store.get().data?.nRows).toBe(2000);
+    expect(estimates(page.store)).toEqual(estimates(first.store));
+    const stop = autosave.start();
+    await autosave.flush();
+    expect(backend.map.has(DATA_KEY)).toBe(false);
+    expect((backend.map.get(MANIFEST_KEY) as KeptManifest).dataId).toBe(held.id);
+    stop();
+  });
+
+  it('says so on a reload when the kept data are gone, instead of starting empty in silence', async () => {
+    const backend = memoryBackend();
+    const first = await setUp(backend);
+    first.stop();
+    const manifest = backend.map.get(MANIFEST_KEY) as KeptManifest;
+    backend.map.delete(manifest.columns[2].pieces[0]);
+    const page = harness(backend);
+    expect(await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore()).toBe(false);
+    const n = page.store.get().notices.find((x) => x.code === 'kept-data-missing');
+    expect(n?.text).toMatch(/^Your work from .* could not be restored: the data kept in this browser are incomplete/);
+    expect(n?.suggestion).toBe('Start the invented example again, or open a workspace file if you saved one.');
+    expect(n?.text).toContain(`part 1 of 1 of column "${manifest.columns[2].name}" is missing`);
+    expect(page.store.get().data).toBeNull();
+
+    backend.map.delete(MANIFEST_KEY);
+    const again = harness(backend);
+    expect(await createAutosave(again.store, again.ctl, { version: 'test', backend }).restore()).toBe(false);
+    expect(again.store.get().notices.find((x) => x.code === 'kept-data-missing')?.text).toMatch(
+      /its data \(.*\) were not found in this browser’s storage/,
+    );
+  });
+
+  it('data the browser refuses: a plain notice, the settings kept, the file offered, the reload says so', async () => {
+    const backend = memoryBackend();
+    // Storage takes the settings but refuses every piece of data, as Chromium refused the 404 MB record.
+    const refusing: KeyValueBackend = {
+      ...backend,
+      set: (k, v) =>
+        k.startsWith(KEPT_PREFIX)
+          ? Promise.reject(Object.assign(new Error('quota'), { name: 'QuotaExceededError' }))
+          : backend.set(k, v),
+    };
+    const h = harness(refusing);
+    const autosave = createAutosave(h.store, h.ctl, { version: 'test', backend: refusing, delayMs: 5 });
+    const stop = autosave.start();
+    h.store.apply(A.autosaved, '2026-12-04T10:00:00Z'); // "Kept here" from an earlier load must not stay
+    await h.ctl.startDemo('ssi');
+    await autosave.flush();
+    h.store.apply(A.setReportText, { notes: 'more' });
+    await autosave.flush();
+    stop();
+    const notices = h.store.get().notices.filter((n) => n.code === 'storage-full');
+    expect(notices).toHaveLength(1);
+    expect(notices[0].text).toMatch(
+      /^Your data \(.*: 2,000 rows × \d+ columns, \d+ MB\) could not be kept in this browser: /,
+    );
+    expect(notices[0].text).toContain(
+      'the browser’s storage for this page is full. Only the settings were kept, and without the data your work ' +
+        'will not come back after a reload.',
+    );
+    expect(notices[0].action).toBe('save-workspace');
+    expect(h.store.get().savedAt).toBeNull();
+    expect([...backend.map.keys()].filter((k) => k.startsWith(KEPT_PREFIX))).toEqual([]);
+
+    const page = harness(backend);
+    expect(await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore()).toBe(false);
+    const missing = page.store.get().notices.find((n) => n.code === 'kept-data-missing')?.text;
+    expect(missing).toMatch(
+      /could not be restored: its data \(.*: 2,000 rows × \d+ columns, \d+ MB\) could not be kept/,
+    );
+    expect(missing).toContain(
+      'in this browser: the browser’s storage for this page is full. Only its settings were kept.',
+    );
   });
 
   it('"Start afresh" forgets the stored work, so a reload starts empty', async () => {
@@ -173,7 +273,7 @@ describe('workspace kept in the browser', () => {
     await h.autosave.flush();
     expect(h.store.get().data).toBeNull();
     expect(backend.map.size).toBe(0);
-    const page = harness();
+    const page = harness(backend);
     expect(await createAutosave(page.store, page.ctl, { version: 'test', backend }).restore()).toBe(false);
     h.stop();
   });
@@ -228,10 +328,13 @@ describe('settings of a saved workspace', () => {
     expect(settingsFromWorkspace({ ...empty, fitOptions: {} }).maxIter).toBe(50);
     // Written by another tool: FitOptions.maxIter is read when the engine would accept it.
     expect(settingsFromWorkspace({ ...empty, fitOptions: { maxIter: 120 } }).maxIter).toBe(120);
-    expect(settingsFromWorkspace({ ...empty, fitOptions: { maxIter: 2.5 } }).maxIter).toBe(50);
-    expect(
-      settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench: { ...workbench, maxIter: 0 } } }).maxIter,
-    ).toBe(50);
+    // An invalid limit is refused, naming the field (workspaceCheck.ts), not silently replaced.
+    expect(() => settingsFromWorkspace({ ...empty, fitOptions: { maxIter: 2.5 } })).toThrow(
+      /"workspace\.fitOptions\.maxIter" must be a whole number from 1 to 10000/,
+    );
+    expect(() =>
+      settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench: { ...workbench, maxIter: 0 } } }),
+    ).toThrow(/"workspace\.extra\.workbench\.maxIter"/);
   });
 
   it('a workspace saved when elastic net was called "elasticnet" opens with the method "elastic-net"', () => {
@@ -281,7 +384,7 @@ describe('settings of a saved workspace', () => {
     expect(w.fitted).toBe(true);
   });
 
-  it('keeps how the cut-off was set and whether the costs were the user’s; invalid or missing ones are dropped', () => {
+  it('keeps how the cut-off was set and whether the costs were the user’s; missing: unknown, invalid: refused', () => {
     const costs5 = A.setCosts(createStore().get(), { missedCase: 5 });
     const s = A.chooseCutoff(costs5, { threshold: 1 / 6, how: 'cost-based' });
     // As the file and IndexedDB keep it: plain JSON.
@@ -297,13 +400,16 @@ describe('settings of a saved workspace', () => {
     expect(back).toMatchObject({ threshold: 1 / 6, cutoffHow: 'cost-based', costsSetByUser: true });
     const hand = settingsFromWorkspace(toWorkspace(A.setThreshold(initialState, 0.3), null, false));
     expect([hand.cutoffHow, hand.costsSetByUser]).toEqual(['hand', false]);
-    for (const extra of [
-      {},
-      { cutoffHow: 'by magic', costsSetByUser: 'yes' },
-      { cutoffHow: null, costsSetByUser: 1 },
-    ]) {
-      const w = settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench: { ...workbench, ...extra } } });
-      expect('cutoffHow' in w || 'costsSetByUser' in w).toBe(false);
+    const w = settingsFromWorkspace({ ...empty, fitOptions: {}, extra: { workbench } });
+    expect('cutoffHow' in w || 'costsSetByUser' in w).toBe(false);
+    for (const [extra, field] of [
+      [{ cutoffHow: 'by magic' }, 'cutoffHow'],
+      [{ costsSetByUser: 'yes' }, 'costsSetByUser'],
+      [{ cutoffHow: null }, 'cutoffHow'],
+      [{ costsSetByUser: 1 }, 'costsSetByUser'],
+    ] as const) {
+      const bad = { ...empty, fitOptions: {}, extra: { workbench: { ...workbench, ...extra } } };
+      expect(() => settingsFromWorkspace(bad)).toThrow(`"workspace.extra.workbench.${field}"`);
     }
     // Written by another tool (no extra record): neither is known.
     const other = settingsFromWorkspace({ ...empty, fitOptions: {}, costs: { missedCase: 5, falseAlarm: 1 } });

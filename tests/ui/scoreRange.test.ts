@@ -78,7 +78,7 @@ describe('scoring outside the data the model was fitted on', () => {
     const unknown = batch.warnings.find((w) => w.code === 'rows-unknown-category')!;
     expect(unknown.message).toContain('row 4, wound_class = "filthy"');
     expect(batch.warnings.find((w) => w.code === 'values-outside-data')?.message).toContain('rows 3, 5');
-    const lines = batch.csv.trim().split('\r\n');
+    const lines = batch.csvParts.join('').trim().split('\r\n');
     const head = lines[0].split(',');
     const at = head.indexOf('outside_data');
     expect(at).toBe(head.length - 1);

@@ -16,3 +16,13 @@ export function ordinal(n: number): string {
     lastTwo >= 11 && lastTwo <= 13 ? 'th' : a % 10 === 1 ? 'st' : a % 10 === 2 ? 'nd' : a % 10 === 3 ? 'rd' : 'th';
   return `${Math.trunc(n)}${suffix}`;
 }
+
+/** "3.1 GB", "2 GB", "740 MB": binary units, as operating systems show memory; at most one decimal below 10 GB. */
+export function formatBytes(b: number): string {
+  if (b >= 1024 ** 3) {
+    const g = b / 1024 ** 3;
+    return `${g < 10 ? +g.toFixed(1) : Math.round(g)} GB`;
+  }
+  if (b >= 1024 ** 2) return `${Math.max(1, Math.round(b / 1024 ** 2))} MB`;
+  return `${Math.max(1, Math.round(b / 1024))} KB`;
+}

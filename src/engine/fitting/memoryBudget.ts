@@ -1,3 +1,4 @@
+import { formatBytes } from '../core/wording';
 import { FulcraError, type Dataset } from '../core/data';
 import type { ModelSpec } from '../core/model';
 
@@ -63,6 +64,8 @@ export interface ImportShape {
   /** Widest record in the sample, in fields. */
   columns: number;
   format: 'delimited' | 'xlsx';
+  /** For a workbook: the unpacked bytes its zip entries declare (read before inflating); else 8× the file. */
+  unpackedBytes?: number;
 }
 
 const DELIMITERS = [',', ';', '\t', '|'];
@@ -108,6 +111,8 @@ export function sampleShape(
 
 /** Typical expansion of a workbook: its sheet XML is about 8× the zipped size (common practice; an estimate). */
 const XLSX_EXPANSION = 8;
+/** Fewest bytes of sheet XML a non-empty cell takes (`<c><v>1</v></c>` is 15), so unpacked ÷ 16 bounds the cells. */
+const XLSX_BYTES_PER_CELL = 16;
 
 /**
  * Peak extra bytes to import a file of the given shape: the file's bytes, the decoded text held at once (UTF-16,
@@ -120,6 +125,17 @@ export function estimateImportBytes(shape: ImportShape): MemoryEstimate {
   checkCount('fileBytes', fileBytes);
   checkCount('sampleRows', sampleRows);
   checkCount('columns', columns, 1);
+  if (format === 'xlsx' && shape.unpackedBytes !== undefined) {
+    // The unpacked sheet is held as bytes and decoded in 4 MiB chunks; cells bounded by the sheet's size.
+    const unpacked = shape.unpackedBytes;
+    checkCount('unpackedBytes', unpacked);
+    const cells = Math.ceil(unpacked / XLSX_BYTES_PER_CELL);
+    return estimate('import', Math.ceil(cells / columns), columns, [
+      { label: 'the file itself', bytes: fileBytes },
+      { label: 'the unpacked workbook parts', bytes: unpacked + 2 * 2 * 4 * MiB },
+      { label: 'columns being read (8 bytes a cell, room to grow, final copy)', bytes: 28 * cells },
+    ]);
+  }
   const rows = sampleBytes > 0 && sampleRows > 0 ? Math.ceil((sampleRows * fileBytes) / sampleBytes) : 0;
   const text = format === 'xlsx' ? 2 * XLSX_EXPANSION * fileBytes : 2 * 2 * Math.min(fileBytes, 4 * MiB);
   return estimate('import', rows, columns, [
@@ -201,15 +217,11 @@ export function availableBytes(): number {
   return DEFAULT_TAB_BYTES;
 }
 
-/** "3.1 GB", "2 GB", "740 MB": binary units, as operating systems show memory; at most one decimal below 10 GB. */
-export function formatBytes(b: number): string {
-  if (b >= GiB) {
-    const g = b / GiB;
-    return `${g < 10 ? +g.toFixed(1) : Math.round(g)} GB`;
-  }
-  if (b >= MiB) return `${Math.max(1, Math.round(b / MiB))} MB`;
-  return `${Math.max(1, Math.round(b / 1024))} KB`;
-}
+// formatBytes lives in core (the page uses it; this folder's index would bring the distribution functions along)
+export { formatBytes };
+
+/** Parts of an estimate that do not grow with the rows (the rest scale with them, the file itself included). */
+const FIXED_PARTS = new Set(['working overhead', 'decoded text chunks']);
 
 /**
  * Compares an estimate with the memory available (default availableBytes(); pass less when data is already held,
@@ -224,11 +236,10 @@ export function checkBudget(est: MemoryEstimate, available: number = availableBy
   const doing = est.job === 'import' ? 'to open' : 'to fit and check';
   const message =
     `${what} about ${formatBytes(needed)} of memory ${doing}; the tab can use about ` + `${formatBytes(available)}.`;
-  const fixed = est.parts
-    .filter((p) => p.label === 'working overhead' || p.label === 'the file itself')
-    .reduce((s, p) => s + p.bytes, 0);
+  // Every part grows with the rows (a sample file is smaller too) except the overhead and the fixed-size text chunks.
+  const fixed = est.parts.filter((p) => FIXED_PARTS.has(p.label)).reduce((s, p) => s + p.bytes, 0);
   const share = Math.max(0, Math.min(1, (available - fixed) / Math.max(1, needed - fixed)));
-  const rowsFit = Math.floor(share * est.rows * 0.9);
+  const rowsFit = Math.floor(share * est.rows * 0.95);
   const sample =
     rowsFit > 0 && est.rows > 0
       ? `a random sample of about ${rowsFit.toLocaleString('en-US')} of the ${est.rows.toLocaleString('en-US')} rows`
@@ -236,7 +247,7 @@ export function checkBudget(est: MemoryEstimate, available: number = availableBy
   const suggestion =
     est.job === 'import'
       ? `Save a copy of the file with only the columns you need, or with ${sample}, and open that.`
-      : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), turn ` +
-        `off profile intervals, or fit on ${sample}.`;
+      : `Use fewer predictors (each level of a categorical predictor and each spline knot adds a column), or fit ` +
+        `on ${sample}.`;
   return { ok: false, code: 'too-big', message, suggestion, needed, available };
 }

@@ -1,9 +1,10 @@
-import { FulcraError, type Dataset } from '../core/data';
+import { FulcraError, sheetRow, type Dataset } from '../core/data';
 import type { FitOptions, ModelSpec } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { findAliased } from '../design/aliasing';
 import { buildDesign, type Design } from '../design/design';
 import { allocF64 } from '../numerics/rowPool';
+import { checkExtremeValues } from './extremeValues';
 import { standardise, type Standardised } from '../numerics/standardise';
 import type { LogisticProblem } from './newton';
 
@@ -22,13 +23,39 @@ export interface PreparedFit {
   warnings: EngineWarning[];
 }
 
+/**
+ * The rows left with a value in every used column all have one outcome, and rows were left out for missing values
+ * (typically the short rows of a ragged file): names the rows left out and the column missing most often.
+ */
+function fewRowsLeft(data: Dataset, spec: ModelSpec, design: Design, events: number): FulcraError {
+  const { n, nDropped, rowsUsed, droppedByColumn } = design;
+  const used = new Set(rowsUsed);
+  const left: number[] = [];
+  for (let r = 0; r < data.nRows && left.length < 10; r++) if (!used.has(r)) left.push(sheetRow(data, r));
+  const [worst, count] = Object.entries(droppedByColumn).sort((a, b) => b[1] - a[1])[0] ?? ['', 0];
+  const total = n + nDropped;
+  return new FulcraError(
+    'one-outcome-class',
+    `Only ${n} of the ${total} rows have a value in every column the model uses, and ` +
+      `${n === 1 ? 'that row has' : 'they all have'} the same outcome (${events === 0 ? 'no' : 'all'} ` +
+      `"${design.recipe.event}" events in "${spec.outcome}"). ` +
+      `${nDropped} ${nDropped === 1 ? 'row was' : 'rows were'} left out for missing values: ` +
+      `${nDropped === 1 ? 'row' : 'rows'} ${left.join(', ')}${nDropped > left.length ? ', …' : ''}` +
+      (worst ? `; "${worst}" is missing in ${count} of them.` : '.'),
+    'If those rows have fewer cells than the header (a ragged file), correct the file so that every row has all ' +
+      'its cells; otherwise leave out the predictors with the most missing values, or impute them.',
+  );
+}
+
 /** Builds the design, checks the outcome classes, standardises, drops aliased columns and sets up the problem. */
 export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): PreparedFit {
   const design = buildDesign(data, spec);
   const warnings = [...design.warnings];
   const { X, n, p, y } = design;
+  checkExtremeValues(data, spec, design.rowsUsed);
   let events = 0;
   for (let i = 0; i < n; i++) events += y[i];
+  if ((events === 0 || events === n) && design.nDropped > 0) throw fewRowsLeft(data, spec, design, events);
   if (events === 0 || events === n) {
     throw new FulcraError(
       'one-outcome-class',

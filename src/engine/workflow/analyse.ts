@@ -1,7 +1,8 @@
-import { FulcraError, type Dataset } from '../core/data';
+import { FulcraError, sheetRow, type Dataset } from '../core/data';
 import type { FitResult } from '../core/model';
-import type { EngineWarning } from '../core/warnings';
+import { warning, type EngineWarning } from '../core/warnings';
 import { linearPredictorFromRecipe } from '../design/design';
+import { diagnose, leaveRowsOut, type DiagnosticsSummary, type RowDiagnostics } from '../diagnostics';
 import { evaluate, type EvaluationRecord } from '../evaluation/evaluate';
 import type { SampleSizeResult } from '../evaluation/sampleSize';
 import type { PreparedThresholds } from '../evaluation/threshold';
@@ -10,7 +11,7 @@ import type { LongRunHooks } from '../penalised/crossValidation';
 import { bootstrapValidation, repeatedCrossValidation, type InternalValidation } from '../validation/bootstrap';
 import { externalValidation, type ExternalValidation } from '../validation/externalValidation';
 import { sharedCases, sharedCasesWarning } from '../validation/sharedCases';
-import { fitStep, pipelineOf, type LambdaRecord } from './fitStep';
+import { fitStep, pipelineOf, type FitStep, type LambdaRecord } from './fitStep';
 import { resolveRequest, type AnalysisRequest, type AnalysisRequestInput } from './request';
 import { sampleSizeCheck } from './sampleSizeStep';
 
@@ -44,6 +45,13 @@ export interface AnalysisRecord {
   external: ExternalRecord | null;
   /** The fit's, the method decisions' and the apparent evaluation's warnings, each once. */
   warnings: EngineWarning[];
+  /**
+   * Leverage, residuals and influence summarised: the top rows by spreadsheet row number, the reference lines and
+   * their rules, which measures apply to the method, warnings naming rows. The per-row arrays are not kept here
+   * (runAnalysis returns them; the worker's diagnostics query and `npm run fit --diagnostics` give them). Absent in
+   * records made before diagnostics existed.
+   */
+  diagnostics?: DiagnosticsSummary | null;
 }
 
 /** The apparent predictions behind the record (per row used), for callers that query cut-offs later. */
@@ -100,7 +108,7 @@ export async function internalValidation(
   const r = resolveRequest(request);
   const v = r.validation;
   if (!v) throw new FulcraError('bad-request', 'The request asks for no internal validation (validation is null).');
-  const pipeline = pipelineOf(data, r);
+  const pipeline = pipelineOf(analysedRows(data, r).data, r);
   return v.method === 'bootstrap'
     ? bootstrapValidation(pipeline, { B: v.replicates, seed: v.seed }, hooks)
     : repeatedCrossValidation(pipeline, { folds: v.folds, repeats: v.repeats, seed: v.seed }, hooks);
@@ -134,16 +142,60 @@ export function externalValidationStep(
   return out;
 }
 
-/** analyse() with the apparent per-row scores the page keeps for its cut-off queries. */
+/**
+ * The rows an analysis runs on: `data` without the request's left-out rows (a copy; `data` is not changed), and
+ * the index in `data` of each of its rows (null when nothing is left out).
+ */
+export function analysedRows(
+  data: Dataset,
+  r: Pick<AnalysisRequest, 'leaveOut'>,
+): { data: Dataset; index: Int32Array | null } {
+  if (r.leaveOut.length === 0) return { data, index: null };
+  const wanted = new Set(r.leaveOut);
+  const kept = leaveRowsOut(data, r.leaveOut);
+  const index = new Int32Array(kept.nRows);
+  let k = 0;
+  for (let i = 0; i < data.nRows; i++) if (!wanted.has(sheetRow(data, i))) index[k++] = i;
+  return { data: kept, index };
+}
+
+function leftOutWarning(r: AnalysisRequest): EngineWarning {
+  const rows = r.leaveOut;
+  return warning(
+    'rows-left-out',
+    `${rows.length === 1 ? 'One row was' : `${rows.length} rows were`} left out of this analysis on request ` +
+      `(spreadsheet row${rows.length === 1 ? '' : 's'} ${rows.join(', ')}); the data themselves are unchanged.`,
+    'Compare the odds ratios with the fit on all rows; clear the list to fit all rows again.',
+  );
+}
+
+/**
+ * analyse() with the apparent per-row scores the page keeps for its cut-off queries, and the per-row diagnostics
+ * (leverage, residuals, influence) behind the record's summary. Row indices refer to `data` as given, also when
+ * the request leaves rows out.
+ * `fitted`: the fit step of an earlier run of the same request on the same data (an engine restarted after a crash
+ * gets back the model it held without fitting again; everything after the fit is computed afresh).
+ */
 export async function runAnalysis(
   data: Dataset,
   request: AnalysisRequestInput,
   hooks?: LongRunHooks,
   testData?: Dataset,
-): Promise<{ record: AnalysisRecord; scores: ApparentScores }> {
+  fitted?: FitStep,
+): Promise<{ record: AnalysisRecord; scores: ApparentScores; diagnostics: RowDiagnostics }> {
   const r = resolveRequest(request);
-  const step = await fitStep(data, r, hooks);
+  const all = data;
+  const rows = analysedRows(all, r);
+  data = rows.data;
+  const step = fitted ?? (await fitStep(data, r, hooks));
   const { evaluation, scores } = apparentEvaluation(data, step.fit, r);
+  const diag = diagnose(step.fit, data);
+  if (rows.index) {
+    const index = rows.index;
+    scores.rowsUsed = scores.rowsUsed.map((i) => index[i]);
+    diag.rows.dataRows = diag.rows.dataRows.map((i) => index[i]);
+    for (const t of diag.summary.top) t.dataRow = index[t.dataRow];
+  }
   const size = sampleSizeCheck(step.fit);
   const record: AnalysisRecord = {
     request: r,
@@ -154,11 +206,17 @@ export async function runAnalysis(
     sampleSizeNote: size.note,
     validation: null,
     external: null,
-    warnings: dedupe([...step.fit.warnings, ...step.warnings, ...evaluation.warnings]),
+    warnings: dedupe([
+      ...(r.leaveOut.length > 0 ? [leftOutWarning(r)] : []),
+      ...step.fit.warnings,
+      ...step.warnings,
+      ...evaluation.warnings,
+    ]),
+    diagnostics: diag.summary,
   };
-  if (r.validation) record.validation = await internalValidation(data, r, hooks);
+  if (r.validation) record.validation = await internalValidation(all, r, hooks);
   if (testData) record.external = externalValidationStep(record, testData, data);
-  return { record, scores };
+  return { record, scores, diagnostics: diag.rows };
 }
 
 /**

@@ -22,6 +22,8 @@ export interface AnalysisRequest {
   level: number;
   /** Profile-likelihood intervals (ML and Firth; skipped above PROFILE_MAX_CELLS design cells). */
   profile: boolean;
+  /** Likelihood-ratio test of each term, one refit per term (ML and Firth; skipped above TERM_TESTS_MAX_CELLS). */
+  termTests: boolean;
   /** Elastic-net mixing for 'elastic-net' (lasso is always 1, ridge 0). */
   alpha: number;
   /** λ of ridge, lasso and elastic net: chosen by cross-validation, or a fixed value on the standardised scale. */
@@ -40,6 +42,11 @@ export interface AnalysisRequest {
   seed: number;
   /** Iteration limit of every maximum-likelihood, Firth and ridge fit (penalised fits take at least 100). */
   maxIter: number;
+  /**
+   * Spreadsheet row numbers left out of this analysis ("what if these rows were left out?"); the data themselves
+   * are not changed. Recorded with the request, so the model file and the PDF say which rows were left out.
+   */
+  leaveOut: number[];
 }
 
 /** What callers pass: the specification and any fields that differ from the defaults. */
@@ -49,6 +56,7 @@ export const defaultAnalysisRequest: Omit<AnalysisRequest, 'spec'> = {
   method: 'ml',
   level: 0.95,
   profile: true,
+  termTests: true,
   alpha: 0.5,
   lambda: 'cv-1se',
   folds: 10,
@@ -58,6 +66,7 @@ export const defaultAnalysisRequest: Omit<AnalysisRequest, 'spec'> = {
   validation: null,
   seed: 1,
   maxIter: defaultFitOptions.maxIter,
+  leaveOut: [],
 };
 
 const METHODS: readonly FitMethod[] = ['ml', 'firth', 'ridge', 'lasso', 'elastic-net'];
@@ -83,6 +92,7 @@ export const analysisRequestTable: {
   method: { valid: (v) => METHODS.includes(v as FitMethod), expected: METHODS.map((m) => `'${m}'`).join(', ') },
   level: { valid: (v) => typeof v === 'number' && v > 0 && v < 1, expected: 'a number between 0 and 1 (e.g. 0.95)' },
   profile: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
+  termTests: { valid: (v) => typeof v === 'boolean', expected: 'true or false' },
   alpha: { valid: (v) => typeof v === 'number' && v >= 0 && v <= 1, expected: 'a number from 0 (ridge) to 1 (lasso)' },
   lambda: {
     valid: (v) => v === 'cv-min' || v === 'cv-1se' || (typeof v === 'number' && Number.isFinite(v) && v >= 0),
@@ -105,6 +115,14 @@ export const analysisRequestTable: {
   },
   seed: { valid: (v) => typeof v === 'number' && Number.isFinite(v), expected: 'a finite number' },
   maxIter: { valid: (v) => isInt(v, 1, 10_000), expected: 'a whole number from 1 to 10000' },
+  leaveOut: {
+    valid: (v) =>
+      Array.isArray(v) &&
+      v.every((r) => isInt(r, 1, 2 ** 31 - 1)) &&
+      new Set(v).size === v.length &&
+      v.length <= 10_000,
+    expected: 'a list of distinct spreadsheet row numbers (whole numbers ≥ 1), at most 10000',
+  },
 };
 
 /**

@@ -10,6 +10,7 @@ export {
 } from './modelFile';
 export { readModelFile } from './readModelFile';
 export { modelToPmml, type PmmlOptions } from './pmml';
+export { monitoringSignalsCsv, monitoringUnitsCsv } from './monitoringCsv';
 export {
   neutraliseCell,
   predictionsCsv,

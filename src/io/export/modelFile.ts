@@ -21,7 +21,8 @@ export const MODEL_FILE_VERSION = 1;
  * - `fit`: method, λ, CI level, convergence and the training fit statistics; optional `penalisedLogLik` (Firth;
  *   null otherwise) and `testLikelihood` ('ordinary' | 'penalised': the likelihood of the model and term tests).
  *   Files saved before these optional fields lack them.
- * - `training`: file name, row count and optional performance summary.
+ * - `training`: file name, row count and optional performance summary; optional `rowsLeftOut`, the spreadsheet rows
+ *   left out of the fit on request ("what if these rows were left out?"; absent when none were).
  * - `threshold`: chosen risk threshold with its two costs, or null.
  * - `notes`: the user's purpose / setting / population text and free notes (each optional).
  * - `warnings`: the fit's warnings at the time of saving.
@@ -62,6 +63,8 @@ export interface ModelFile {
     fileName: string | null;
     rows: number | null;
     performance: { auc?: number; calibrationSlope?: number; calibrationIntercept?: number; brier?: number } | null;
+    /** Spreadsheet rows left out of the fit on request; absent when none were (and in older files). */
+    rowsLeftOut?: number[];
   };
   /** The cut-off and the two costs it was chosen with (files before this version said costFalseNegative/Positive). */
   threshold: { value: number; costMissedCase: number; costFalseAlarm: number } | null;
@@ -94,6 +97,7 @@ export interface ModelFileInfo {
   performance?: ModelFile['training']['performance'];
   threshold?: ModelFile['threshold'];
   notes?: ModelFile['notes'];
+  rowsLeftOut?: number[];
 }
 
 const finiteOrNull = (x: number | null): number | null => (x === null || !Number.isFinite(x) ? null : x);
@@ -158,7 +162,12 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
       modelDf: fit.modelDf,
       modelLrP: fit.modelLrP,
     },
-    training: { fileName: info.fileName ?? null, rows: info.rows ?? null, performance: info.performance ?? null },
+    training: {
+      fileName: info.fileName ?? null,
+      rows: info.rows ?? null,
+      performance: info.performance ?? null,
+      ...(info.rowsLeftOut && info.rowsLeftOut.length > 0 ? { rowsLeftOut: [...info.rowsLeftOut] } : {}),
+    },
     threshold: info.threshold ?? null,
     notes: { ...(info.notes ?? {}) },
     warnings: fit.warnings.map((w) => ({ ...w })),

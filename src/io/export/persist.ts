@@ -1,4 +1,4 @@
-import { del, get, set } from 'idb-keyval';
+import { del, get, keys, set } from 'idb-keyval';
 import { FulcraError, type Dataset } from '../../engine/core';
 import { FieldChecker } from './validate';
 import { checkWorkspaceFields, WORKSPACE_FILE_VERSION, type Workspace } from './workspaceFile';
@@ -26,12 +26,15 @@ export interface KeyValueBackend {
   get(key: string): Promise<unknown>;
   set(key: string, value: unknown): Promise<void>;
   del(key: string): Promise<void>;
+  /** Every stored key (used to sweep pieces of kept data a closed tab left half written); optional. */
+  keys?(): Promise<string[]>;
 }
 
 export const idbBackend: KeyValueBackend = {
   get: (k) => get(k),
   set: (k, v) => set(k, v),
   del: (k) => del(k),
+  keys: async () => (await keys()).filter((k): k is string => typeof k === 'string'),
 };
 
 export const WORKSPACE_KEY = 'fulcra:workspace';

@@ -132,6 +132,7 @@ export function readModelFile(text: string): ModelFile {
       performance: perf
         ? Object.fromEntries(Object.entries(perf).map(([k, v]) => [k, c.number(v, `training.performance.${k}`)]))
         : null,
+      ...(t.rowsLeftOut === undefined ? {} : { rowsLeftOut: c.numberArray(t.rowsLeftOut, 'training.rowsLeftOut') }),
     },
     threshold: th
       ? {

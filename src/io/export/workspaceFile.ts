@@ -118,10 +118,11 @@ function checkCosts(c: FieldChecker, costs: Record<string, unknown>): Costs {
   };
 }
 
-function checkSpec(c: FieldChecker, v: unknown): ModelSpec {
-  const s = c.object(v, 'workspace.spec');
-  const terms = c.array(s.terms, 'workspace.spec.terms').map((x, i): TermSpec => {
-    const p = `workspace.spec.terms[${i}]`;
+/** A model specification at `at` (the field path named in a refusal). */
+export function checkSpec(c: FieldChecker, v: unknown, at = 'workspace.spec'): ModelSpec {
+  const s = c.object(v, at);
+  const terms = c.array(s.terms, `${at}.terms`).map((x, i): TermSpec => {
+    const p = `${at}.terms[${i}]`;
     const t = c.object(x, p);
     const type = c.oneOf(t.type, ['main', 'spline', 'interaction'] as const, `${p}.type`);
     if (type === 'main') {
@@ -138,8 +139,8 @@ function checkSpec(c: FieldChecker, v: unknown): ModelSpec {
     if (cols.length !== 2) c.fail(`${p}.columns`, 'must name exactly two columns');
     return { type, columns: [cols[0], cols[1]] };
   });
-  const spec: ModelSpec = { outcome: c.string(s.outcome, 'workspace.spec.outcome'), terms };
-  if (s.event !== undefined) spec.event = c.string(s.event, 'workspace.spec.event');
+  const spec: ModelSpec = { outcome: c.string(s.outcome, `${at}.outcome`), terms };
+  if (s.event !== undefined) spec.event = c.string(s.event, `${at}.event`);
   return spec;
 }
 

@@ -12,6 +12,8 @@ export interface EffectContext {
   client: WorkerClient;
   /** The store's state now. */
   s(): AppState;
+  /** Jobs that only stopping the engine can cancel (a fit that runs without yielding); see cancelByRestart. */
+  stopsEngine: Set<string>;
   /** Runs `run` as a job named `label` in the job bar (with its progress, and a Cancel button if `cancellable`). */
   job<T>(
     label: string,
@@ -29,6 +31,7 @@ export function effectContext(store: Store, client: WorkerClient): EffectContext
     store,
     client,
     s: () => store.get(),
+    stopsEngine: new Set(),
     async job(label, cancellable, run) {
       const id = `${label.split(' ')[0].toLowerCase()}-${nextSerial()}`;
       store.apply(A.jobStarted, { id, label, done: 0, total: 0, cancellable });

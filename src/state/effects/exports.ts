@@ -1,6 +1,8 @@
 /** Files out: the model summary PDF, the model file, PMML and the workspace file. */
 import type { ReportText } from '../../worker/protocol';
 import * as A from '../actions';
+import type { AppState } from '../appState';
+import { isMonitorStale } from '../monitorActions';
 import { isStale } from '../stale';
 import { toWorkspace } from '../workspace';
 import type { EffectContext } from './context';
@@ -14,6 +16,12 @@ export interface ExportEffects {
   pmml(): Promise<string | undefined>;
   /** The whole workspace as a gzip file, with its suggested name; undefined when no data are loaded. */
   workspaceFile(version: string): Promise<{ bytes: Uint8Array; name: string } | undefined>;
+}
+
+/** The monitoring result shown, when it is up to date (the PDF prints it), with its recalibration. */
+function currentMonitoring(s: AppState) {
+  const r = s.monitor.result;
+  return r && !isMonitorStale(s) ? { record: r.record, recalibration: s.monitor.recalibration } : undefined;
 }
 
 /** What an export of a model fitted for other settings is refused with (the notice offers to refit). */
@@ -48,6 +56,7 @@ export function filesOut({ store, client, s, job }: EffectContext, data: Pick<Da
                   how: s().cutoffHow,
                   costsSetByUser: s().costsSetByUser,
                 },
+                currentMonitoring(s()),
               ),
             ),
           )

@@ -1,5 +1,5 @@
 /** Fitting: the model from the current roles and options, then the views every fit refreshes. */
-import type { FitRequest, LossSurfaceChoice } from '../../worker/protocol';
+import type { FitRequest, FitView, LossSurfaceChoice } from '../../worker/protocol';
 import * as A from '../actions';
 import type { AppState } from '../appState';
 import type { EffectContext } from './context';
@@ -16,9 +16,10 @@ export interface FittingEffects {
 export interface Fitting extends FittingEffects {
   /**
    * Fits `request`; `keep` (a restore or a restart) keeps the user's view and cut-off instead of moving to the
-   * model. False when the fit did not finish.
+   * model. `held` (a restarted engine): the fit the page shows for this request, given back instead of refitted.
+   * False when the fit did not finish.
    */
-  fitWith(request: FitRequest, keep: boolean): Promise<boolean>;
+  fitWith(request: FitRequest, keep: boolean, held?: FitView): Promise<boolean>;
 }
 
 /** What the worker is asked to fit for `s`, or the reason it cannot be fitted yet. */
@@ -28,7 +29,21 @@ export function requestOf(s: AppState): { request: FitRequest } | { problem: str
   const { method, level, alpha, lambdaRule, maxIter } = s;
   const profile = method === 'ml' || method === 'firth';
   const lambda = lambdaRule === 'min' ? 'cv-min' : 'cv-1se';
-  return { request: { spec: built.spec, method, level, alpha, lambda, profile, maxIter } };
+  // Rows left out of the shown fit stay out of the next one (the warning and the diagnostics view say so).
+  const leaveOut = s.fit?.request.leaveOut ?? [];
+  return {
+    request: {
+      spec: built.spec,
+      ...{ method, level, alpha, lambda, profile, maxIter },
+      ...(leaveOut.length ? { leaveOut } : {}),
+    },
+  };
+}
+
+/** The first two coefficients after the intercept that are not aliased (an aliased one has no estimate to vary). */
+export function surfacePair(coefficients: readonly { aliased: boolean }[]): [number, number] | null {
+  const free = coefficients.flatMap((c, k) => (k > 0 && !c.aliased ? [k] : []));
+  return free.length >= 2 ? [free[0], free[1]] : null;
 }
 
 export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
@@ -50,14 +65,21 @@ export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
     await cutoff.refreshCosts(keepThreshold);
     const first = s().fit?.fit.recipe.terms.find((t) => t.type !== 'interaction');
     if (first && 'column' in first) await riskCurve(first.column);
-    await lossSurface(1, Math.min(2, (s().fit?.fit.coefficients.length ?? 2) - 1));
+    const pair = surfacePair(s().fit?.fit.coefficients ?? []);
+    if (pair) await lossSurface(pair[0], pair[1]);
   }
 
-  async function fitWith(request: FitRequest, keep: boolean): Promise<boolean> {
-    const { method } = request;
-    const view = await job('Fitting the model', method !== 'ml' && method !== 'firth', (id, onProgress) =>
-      client.call((api) => api.fitModel(request, id, onProgress)),
-    );
+  async function fitWith(request: FitRequest, keep: boolean, held?: FitView): Promise<boolean> {
+    const fitted = held ? { fit: held.fit, lambda: held.lambda, warnings: held.warnings } : undefined;
+    // Every fit can be cancelled: penalised fits with λ by cross-validation see the cancel between folds; the
+    // others run in one go in the engine, which is then stopped and started afresh (cancelByRestart).
+    const yields = request.method !== 'ml' && request.method !== 'firth' && typeof request.lambda !== 'number';
+    const view = await job(held ? 'Restoring the model' : 'Fitting the model', true, (id, onProgress) => {
+      if (!yields) ctx.stopsEngine.add(id);
+      return client
+        .call((api) => api.fitModel(request, id, onProgress, fitted))
+        .finally(() => ctx.stopsEngine.delete(id));
+    });
     if (!view) return false;
     store.apply(A.fitDone, view);
     if (!keep && s().view === 'data') store.apply(A.showView, 'model');

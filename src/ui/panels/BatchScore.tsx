@@ -7,7 +7,10 @@ export function BatchScore() {
   const { ctl } = useEnv();
   const id = useId();
   const batch = useApp((s) => s.batch);
-  const url = useMemo(() => (batch ? URL.createObjectURL(new Blob([batch.csv], { type: 'text/csv' })) : null), [batch]);
+  const url = useMemo(
+    () => (batch ? URL.createObjectURL(new Blob(batch.csvParts, { type: 'text/csv' })) : null),
+    [batch],
+  );
   useEffect(
     () => () => {
       if (url) URL.revokeObjectURL(url);

@@ -3,7 +3,7 @@ import { useEffect, useRef, useState } from 'react';
 import type { DataSummary } from '../../worker/protocol';
 
 const EMPTY = { start: 0, rows: [] as string[][], rowNumbers: [] as number[] };
-import { useEnv } from '../context';
+import { useApp, useEnv } from '../context';
 import { count, pct } from '../format';
 import { Sparkline } from './Sparkline';
 
@@ -34,6 +34,13 @@ export function DataGrid({ data }: { data: DataSummary }) {
     overscan: 12,
     scrollMargin: HEAD_H,
   });
+  // A row named elsewhere (the influential-rows view): scrolled into view and marked.
+  const marked = useApp((s) => s.influence.showRow);
+  useEffect(() => {
+    if (!marked || marked.dataRow >= data.nRows) return;
+    scroller.current?.scrollIntoView({ block: 'center' });
+    v.scrollToIndex(marked.dataRow, { align: 'center' });
+  }, [marked, data.nRows, v]);
   const items = v.getVirtualItems();
   const first = items[0]?.index ?? 0;
   const last = items[items.length - 1]?.index ?? 0;
@@ -82,7 +89,9 @@ export function DataGrid({ data }: { data: DataSummary }) {
                 key={it.key}
                 role="row"
                 aria-rowindex={it.index + 2}
-                className="grid-row"
+                aria-selected={marked?.dataRow === it.index ? true : undefined}
+                data-marked={marked?.dataRow === it.index ? 'true' : undefined}
+                className={`grid-row${marked?.dataRow === it.index ? ' marked' : ''}`}
                 style={{ transform: `translateY(${it.start - HEAD_H}px)`, height: ROW_H, width }}
               >
                 <div role="rowheader" className="cell rownum">

@@ -1,22 +1,13 @@
 import { useId, useState, type DragEvent } from 'react';
 import { useEnv } from '../context';
-import { thenFocusResult } from '../resultFocus';
+import { PasteBox } from './PasteBox';
 import { ReadingOptions } from './ReadingOptions';
 
-/** File picker, drag-and-drop target and paste box. Files are read in the worker, never uploaded. */
+/** File picker, drag-and-drop target and paste box. Files and pasted cells are read in the worker, never uploaded. */
 export function OpenData({ compact = false }: { compact?: boolean }) {
-  const { ctl, store } = useEnv();
+  const { ctl } = useEnv();
   const id = useId();
   const [over, setOver] = useState(false);
-  const [pasted, setPasted] = useState('');
-  /** Reads the pasted cells; the data view's heading then takes focus. */
-  const readPasted = () => {
-    const before = store.get().data;
-    return thenFocusResult(ctl.pasteText(pasted), 'data', () => {
-      const now = store.get().data;
-      return now !== before && now?.source.kind === 'paste';
-    });
-  };
   const onDrop = (e: DragEvent) => {
     e.preventDefault();
     setOver(false);
@@ -53,15 +44,7 @@ export function OpenData({ compact = false }: { compact?: boolean }) {
         <span className="hint"> or drop a file here. It is read on this computer only.</span>
       </div>
       <ReadingOptions />
-      {!compact && (
-        <div className="paste">
-          <label htmlFor={`${id}-paste`}>Or paste cells copied from a spreadsheet (first row = column names)</label>
-          <textarea id={`${id}-paste`} rows={3} value={pasted} onChange={(e) => setPasted(e.target.value)} />
-          <button type="button" disabled={!pasted.trim()} onClick={() => void readPasted()}>
-            Use pasted cells
-          </button>
-        </div>
-      )}
+      {!compact && <PasteBox />}
     </section>
   );
 }

@@ -51,6 +51,11 @@ export function RolesPanel() {
             ))}
           </select>
         </label>
+        {outcomeCol && A.outcomeHasOneValue(outcomeCol) && (
+          <span className="hint" role="status" data-testid="outcome-one-value">
+            {A.outcomeHasOneValue(outcomeCol)}
+          </span>
+        )}
         {outcomeCol && outcomeCol.levels.length > 2 && (
           <span className="hint">
             {outcomeCol.levels.length} values: rows not equal to the event count as non-events.

@@ -1,5 +1,6 @@
 import { useId, useState } from 'react';
 import { Caution } from '../Caution';
+import { surfacePair } from '../../state/effects/fitting';
 import { useApp, useEnv } from '../context';
 import { ExplainList } from '../Explain';
 import { finiteMax, num, palette, pct } from '../format';
@@ -106,7 +107,9 @@ function LossSurface() {
     names.indexOf(v.names[0]),
     names.indexOf(v.names[1]),
   ];
-  const [pair, setPair] = useState<[number, number]>(() => (surf ? pairOf(surf) : [1, Math.min(2, names.length - 1)]));
+  const [pair, setPair] = useState<[number, number]>(() =>
+    surf ? pairOf(surf) : (surfacePair(fit?.fit.coefficients ?? []) ?? [1, Math.min(2, names.length - 1)]),
+  );
   // A new surface (from a fit or another pair) shows which coefficients it is drawn over.
   const [shown, setShown] = useState(surf);
   if (shown !== surf) {
@@ -133,8 +136,8 @@ function LossSurface() {
             {k === 0 ? 'Across' : 'Up'}
             <select value={pair[k]} onChange={(e) => choose(k as 0 | 1, Number(e.target.value))}>
               {names.map((n, i) => (
-                <option key={n} value={i}>
-                  {n}
+                <option key={n} value={i} disabled={fit?.fit.coefficients[i].aliased}>
+                  {fit?.fit.coefficients[i].aliased ? `${n} (aliased: no estimate)` : n}
                 </option>
               ))}
             </select>

@@ -1,5 +1,6 @@
 import { useEnv } from '../context';
 import { OpenData } from './OpenData';
+import { OpenModel } from './OpenModel';
 
 export function StartPanel() {
   const { ctl } = useEnv();
@@ -27,6 +28,8 @@ export function StartPanel() {
         </button>
       </div>
       <OpenData />
+      <h3>Or monitor later cases with a saved model</h3>
+      <OpenModel />
       <aside className="caution">
         Fulcra is not a medical device. Internal validation is not external validation; recalibrate before using a model
         elsewhere, and follow local governance and licensed clinical judgement.
