@@ -11,6 +11,7 @@ import { bootstrap, csvImport, surface, thresholdQueries, type Measurement } fro
 import { benchUsage, parseBenchArgs } from './bench/options';
 import { diagnosticsCost } from './bench/diagnostics';
 import { monitoringCost } from './bench/monitoring';
+import { wholeJob } from './bench/wholeJob';
 import { fulcraFit, glmFit, maxRelGap, referenceThreads, sklearnFit, type FitTiming } from './bench/run';
 import { ensureSynth } from './bench/synth';
 import { judgeTargets, ONE_THREAD, renderReport, type BenchRecord, type SizeResult } from './bench/report';
@@ -111,6 +112,10 @@ async function main(): Promise<void> {
     m.push(surface(o.out, q ? 1e4 : 1e5, 10, 64, o.seed));
     log('· monitoring');
     m.push(monitoringCost(q ? 1e5 : 1e6, o.seed));
+    log('· the whole job: npm run fit and R, each a fresh process');
+    const small = ensureSynth(o.out, 1e4, 20, o.seed);
+    m.push(...wholeJob(small.csv, 1e4, 20, o.references));
+    if (!q) m.push(...wholeJob(ensureSynth(o.out, 1e5, 50, o.seed).csv, 1e5, 50, false));
     log('· per-row diagnostics');
     m.push(diagnosticsCost(o.out, 1e5, 50, o.seed));
     if (!q) m.push(diagnosticsCost(o.out, 1e6, 50, o.seed));

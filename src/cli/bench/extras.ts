@@ -1,4 +1,4 @@
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import { bootstrapValidation } from '../../engine/validation';
 import type { Dataset } from '../../engine/core';
 import { fit } from '../../engine/fitting';
@@ -51,7 +51,8 @@ export async function csvImport(dir: string, n: number, p: number, seed: number)
     const r = runJson<ImportRun>(process.execPath, [
       '--import',
       'tsx',
-      fileURLToPath(new URL('./importChild.ts', import.meta.url)),
+      // from the sources (as run.ts starts fitChild.ts): `npm run bench` itself runs from the esbuild build
+      join(process.cwd(), 'src', 'cli', 'bench', 'importChild.ts'),
       f.csv,
     ]);
     if (!r.ok) return { name, value: NaN, unit: 'MB/s', detail: `ERROR ${r.error}` };

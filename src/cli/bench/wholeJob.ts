@@ -1,0 +1,68 @@
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Measurement } from './extras';
+
+/**
+ * The whole job as a user runs it, each a fresh process timed from outside, start to finish: `npm run fit` (the
+ * built command line, `node .ci/cli.mjs fit`) on the synthetic CSV — reading it, the fit, profile-likelihood
+ * limits and term tests where the size rule keeps them, the apparent evaluation and the printed JSON record —
+ * and, when Rscript is installed, R reading the same CSV and running glm + confint (profile) + drop1 (LR tests)
+ * (reference/glm_whole.R). Wall seconds; the child's CPU seconds come from the operating system's accounting.
+ */
+export function wholeJob(csv: string, n: number, p: number, withR: boolean): Measurement[] {
+  const out: Measurement[] = [];
+  // An up-to-date build first, so the timed run measures the command, not its one-off build.
+  spawnSync('node', ['.ci/cli.mjs', 'fit', '--help'], { stdio: 'ignore' });
+  const fulcra = timed('node', ['.ci/cli.mjs', 'fit', csv, '--outcome', 'y', '--json']);
+  if ('error' in fulcra) out.push(failed(`npm run fit, whole process, at ${n} × ${p}`, fulcra.error));
+  else {
+    const r = JSON.parse(fulcra.stdout) as { warnings: { code: string }[] };
+    const skipped = r.warnings.map((w) => w.code).filter((c) => c.startsWith('large-data-'));
+    out.push({
+      name: `npm run fit, whole process, at ${n} × ${p}`,
+      value: fulcra.wall,
+      unit: 's',
+      cpuSeconds: fulcra.cpu,
+      detail:
+        `read ${csv.split('/').pop()}, fit, ` +
+        (skipped.length ? `skipped by the size rule: ${skipped.join(', ')}; ` : 'profile limits and term tests, ') +
+        'apparent evaluation, the JSON record printed',
+    });
+  }
+  if (withR) {
+    const r = timed('Rscript', [join(process.cwd(), 'src', 'cli', 'bench', 'reference', 'glm_whole.R'), csv]);
+    if ('error' in r) out.push(failed(`R glm + confint + drop1, whole process, at ${n} × ${p}`, r.error));
+    else
+      out.push({
+        name: `R glm + confint + drop1, whole process, at ${n} × ${p}`,
+        value: r.wall,
+        unit: 's',
+        cpuSeconds: r.cpu,
+        detail: `read.csv, glm, profile intervals (MASS), LR test per term: ${r.stdout.trim()}`,
+      });
+  }
+  return out;
+}
+
+function failed(name: string, error: string): Measurement {
+  return { name, value: NaN, unit: 's', detail: `failed: ${error}` };
+}
+
+/**
+ * Runs a command, under /usr/bin/time when installed (Debian's `time`: user and system seconds of the child; CPU
+ * is NaN without it), stdout kept.
+ */
+function timed(cmd: string, args: string[]): { wall: number; cpu: number; stdout: string } | { error: string } {
+  const time = existsSync('/usr/bin/time');
+  const t0 = process.hrtime.bigint();
+  const r = spawnSync(time ? '/usr/bin/time' : cmd, time ? ['-f', 'FULCRA-TIME %U %S', cmd, ...args] : args, {
+    encoding: 'utf8',
+    maxBuffer: 256 << 20,
+  });
+  const wall = Number(process.hrtime.bigint() - t0) / 1e9;
+  if (r.error) return { error: r.error.message };
+  if (r.status !== 0) return { error: `exit ${r.status}: ${(r.stderr ?? '').trim().split('\n').slice(-3).join(' ')}` };
+  const m = /FULCRA-TIME ([\d.]+) ([\d.]+)/.exec(r.stderr ?? '');
+  return { wall, cpu: m ? Number(m[1]) + Number(m[2]) : NaN, stdout: r.stdout };
+}
