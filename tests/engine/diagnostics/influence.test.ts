@@ -135,3 +135,34 @@ describe('leave rows out and the one-step change', () => {
     expect(topIndices([1, NaN, 5, 3, 5.5], 3)).toEqual([4, 2, 3]);
   });
 });
+
+// Second reference: tests/fixtures/reference/diagnostics-statsmodels.json from diagnostics-statsmodels.py —
+// statsmodels 0.13.5 (Debian python3-statsmodels) GLM(Binomial).fit(tol=1e-15).get_influence(): hat_matrix_diag,
+// resid_studentized, cooks_distance, d_params and dfbetas, on the same two datasets.
+const sm = readJson('tests/fixtures/reference/diagnostics-statsmodels.json');
+describe.each([
+  ['MASS::birthwt', birthwt, bwSpec, sm.birthwt],
+  ['datasets::mtcars am ~ wt + hp', mtcars, mtSpec, sm.mtcars],
+])('diagnostics against statsmodels 0.13.5 GLMInfluence on %s', (_name, data, spec, s) => {
+  const f = fit(data as Dataset, spec as ModelSpec, { profile: false });
+  const d = rowDiagnostics(f, data as Dataset);
+  const p = f.coefficients.length;
+  it("leverage, standardised Pearson residual and Cook's distance", () => {
+    expect(maxRelErr(d.leverage!, s.hat)).toBeLessThan(1e-6);
+    expect(maxRelErr(d.stdPearson!, s.resid_studentized)).toBeLessThan(1e-7);
+    expect(maxRelErr(d.cooks!, s.cooks)).toBeLessThan(1e-6);
+  });
+  it('the one-step change of every coefficient (d_params); DFBETAS differ from it only by the scaling', () => {
+    for (let i = 0; i < (data as Dataset).nRows; i++) {
+      const inf = rowInfluence(f, data as Dataset, i)!;
+      for (let j = 0; j < p; j++) {
+        // statsmodels' d_params is β̂ − β̂₍₋ᵢ₎ by the same one-step formula (Pregibon 1981)
+        expect(inf.delta[j]).toBeCloseTo(s.d_params[i][j], 9);
+        // its dfbetas divide by the full-data standard error; R's (and Fulcra's) also by the leave-one-out σᵢ,
+        // so their ratio is one number per row: the same for every coefficient
+        const ratio = s.dfbetas[i][j] / inf.dfbetas[j];
+        if (j > 0 && Number.isFinite(ratio)) expect(ratio).toBeCloseTo(s.dfbetas[i][0] / inf.dfbetas[0], 6);
+      }
+    }
+  });
+});
