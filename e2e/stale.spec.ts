@@ -7,6 +7,9 @@ const VIEWS = [
   'Risk curve & loss',
   'Discrimination & calibration',
   'Cut-off & costs',
+  'Influential rows',
+  'Monitor later cases',
+  // last: the loop ends here, where the PDF button is
   'Score & validate',
 ];
 
@@ -32,6 +35,7 @@ test('after a predictor is unticked every result view says it is out of date and
     await expect(page.getByTestId('stale-banner')).toBeVisible();
     if (v === 'Odds ratios') await shot(page, 'stale-odds');
     if (v === 'Cut-off & costs') await shot(page, 'stale-cutoff');
+    if (v === 'Influential rows') await shot(page, 'stale-influence');
   }
   await page.getByRole('button', { name: 'Download the model summary (PDF)' }).click();
   await expect(page.getByText(/this file would describe the previous model: nothing was saved/)).toBeVisible();

@@ -7,6 +7,7 @@ import { useApp, useEnv } from '../context';
 import { count, num, palette, plural } from '../format';
 import { ScatterRefPlot } from '../plots/ScatterRefPlot';
 import { Caution } from '../Caution';
+import { StaleBanner } from '../StaleBanner';
 
 /** The change of a coefficient as a percentage of its all-rows value (per-unit odds ratios near 1 hide it). */
 const coefChange = (before: number, after: number) =>
@@ -33,6 +34,7 @@ export function InfluencePanel() {
   return (
     <div className="panel influence-panel" data-testid="influence-panel">
       <h2>Influential rows</h2>
+      <StaleBanner />
       <p className="hint">
         Which rows move this model most: a data-entry error (an impossible value, an outcome coded the wrong way) can
         steer a whole model. Each measure is computed for every row the model used, in one pass over the data.

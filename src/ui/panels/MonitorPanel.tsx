@@ -1,5 +1,6 @@
 import { isMonitorStale } from '../../state/monitorActions';
 import { useApp, useEnv } from '../context';
+import { StaleBanner } from '../StaleBanner';
 import { MonitorInputs } from './MonitorInputs';
 import { MonitorResults } from './MonitorResults';
 
@@ -9,8 +10,10 @@ export function MonitorPanel() {
   const result = useApp((s) => s.monitor.result);
   const stale = useApp(isMonitorStale);
   const busy = useApp((s) => s.jobs.length > 0);
+  const withFit = useApp((s) => s.monitor.settings.model === 'current-fit');
   return (
     <div className="panel monitor-panel">
+      {withFit && <StaleBanner />}
       <MonitorInputs />
       {result && stale && (
         <div className="notice warning stale-banner" role="status" data-testid="monitor-stale">
