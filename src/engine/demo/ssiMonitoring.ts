@@ -1,12 +1,7 @@
 import type { Dataset } from '../core/data';
-import { categorical, clamp, demoRng, drawLevel, newColumns, numeric, punchMissing, round, trueEta } from './shared';
+import { categorical, demoRng, drawLevel, newColumns, numeric, punchMissing, trueEta } from './shared';
 import { bernoulliLogit } from './shared';
-import { ssiTruth } from './ssiRegistry';
-
-const ASA = ['I', 'II', 'III', 'IV'];
-const WOUND = ['clean', 'clean-contaminated', 'contaminated', 'dirty'];
-const TIMING = ['on time', 'late', 'none'];
-const YESNO = ['no', 'yes'];
+import { ASA, drawSsiCase, newSsiColumns, ssiTruth, TIMING, WOUND, YESNO } from './ssiRegistry';
 
 /** The invented wards, each with its own case mix (shift of ASA class and wound class towards the sicker end). */
 const WARDS: { name: string; asa: number[]; wound: number[]; share: number }[] = [
@@ -53,8 +48,9 @@ export function generateSsiMonitoring(n = 3000, seed = 20250101): MonitoringDemo
   const rng = demoRng(n, seed);
   const start = Date.UTC(2025, 0, 1) / 86_400_000;
   const days = Array.from({ length: n }, () => start + rng.int(365)).sort((a, b) => a - b);
-  const [age, bmi, dur] = newColumns(3, () => new Float64Array(n));
-  const [ward, diab, asa, wound, timing, smoker, ssi, date] = newColumns(8, () => new Int32Array(n));
+  const cols = newSsiColumns(n);
+  const { age, bmi, dur, diab, asa, wound, timing, smoker } = cols;
+  const [ward, ssi, date] = newColumns(3, () => new Int32Array(n));
   const dateLevels = Array.from({ length: 365 }, (_, d) =>
     new Date((start + d) * 86_400_000).toISOString().slice(0, 10),
   );
@@ -64,24 +60,7 @@ export function generateSsiMonitoring(n = 3000, seed = 20250101): MonitoringDemo
     const W = WARDS[w];
     ward[i] = w;
     date[i] = days[i] - start;
-    age[i] = Math.round(clamp(60 + 14 * rng.normal(), 18, 95));
-    bmi[i] = round(clamp(28 + 5 * rng.normal(), 16, 55), 1);
-    asa[i] = drawLevel(rng, W.asa);
-    diab[i] = rng.next() < 0.1 + 0.05 * asa[i] ? 1 : 0;
-    wound[i] = drawLevel(rng, W.wound);
-    dur[i] = Math.round(clamp(120 * Math.exp(0.45 * rng.normal()), 20, 600));
-    timing[i] = drawLevel(rng, [0.8, 0.12, 0.08]);
-    smoker[i] = rng.next() < 0.2 ? 1 : 0;
-    const row = {
-      age: age[i],
-      bmi: bmi[i],
-      diabetes: YESNO[diab[i]],
-      asa_class: ASA[asa[i]],
-      wound_class: WOUND[wound[i]],
-      duration_min: dur[i],
-      prophylaxis: TIMING[timing[i]],
-      smoker: YESNO[smoker[i]],
-    };
+    const row = drawSsiCase(rng, cols, i, W.asa, W.wound);
     const shift =
       W.name === ssiMonitoringChange.ward && days[i] >= ssiMonitoringChange.from
         ? Math.log(ssiMonitoringChange.oddsRatio)
