@@ -4,7 +4,7 @@
  * (min/max per bucket, for drawing only); nothing here computes a statistic.
  */
 import type { jsPDF } from 'jspdf';
-import { scaleLinear, scaleLog, scaleUtc } from 'd3';
+import { scaleLinear, scaleLog, scaleUtc, type ScaleLinear } from 'd3';
 import type { CusumChart, MonitoringFunnel, MonitoringPeriodRow, MonitoringVlad } from '../engine/monitoring';
 import { FONT } from './pdfLayout';
 import { formatFixed, formatPlain } from './format';
@@ -88,6 +88,26 @@ function path(doc: jsPDF, pts: [number, number][], color: Rgb, width: number, da
   if (dash) doc.setLineDashPattern([], 0);
 }
 
+/** Labelled ticks of a linear y scale, with as many decimals as their spacing needs. */
+function yLabels(y: ScaleLinear<number, number>, count: number): [number, string][] {
+  const yt = y.ticks(count);
+  return yt.map((t) => [y(t), formatFixed(t, decimals(yt))]);
+}
+
+/** A horizontal line across the plot box at height `at` (a reference value or a control limit). */
+function across(doc: jsPDF, b: Box, at: number, color: Rgb, width: number, dash?: number[]): void {
+  path(
+    doc,
+    [
+      [b.left, at],
+      [b.left + b.w, at],
+    ],
+    color,
+    width,
+    dash,
+  );
+}
+
 function legend(
   doc: jsPDF,
   x: number,
@@ -132,26 +152,17 @@ export function drawFunnel(doc: jsPDF, b: Box, f: MonitoringFunnel, useAdjusted:
     .range([b.top + b.h, b.top])
     .clamp(true);
   const xt = x.ticks(5).filter((t) => [1, 2, 5].includes(Number(t.toExponential(0).split('e')[0])));
-  const yt = y.ticks(5);
   axes(
     doc,
     b,
     xt.map((t) => [x(t), formatPlain(t, 3)]),
-    yt.map((t) => [y(t), formatFixed(t, decimals(yt))]),
+    yLabels(y, 5),
     'Expected events (log scale)',
     'O/E',
   );
   const line = (ys: number[]) =>
     curves.expected.map((e, i): [number, number] => [x(e), Number.isFinite(ys[i]) ? y(clamp(ys[i], 0, yMax)) : NaN]);
-  path(
-    doc,
-    [
-      [b.left, y(1)],
-      [b.left + b.w, y(1)],
-    ],
-    GREY,
-    0.3,
-  );
+  across(doc, b, y(1), GREY, 0.3);
   path(doc, line(curves.innerLower), BLUE, 0.4, [1.2, 0.8]);
   path(doc, line(curves.innerUpper), BLUE, 0.4, [1.2, 0.8]);
   path(doc, line(curves.outerLower), VERMILLION, 0.5);
@@ -210,26 +221,9 @@ export function drawCusum(doc: jsPDF, b: Box, c: CusumChart, range: [number, num
     .domain(dom)
     .range([b.top + b.h, b.top]);
   const { x, ticks } = dateTicks(range[0], range[1], b.left, b.left + b.w);
-  const yt = y.ticks(4);
-  axes(
-    doc,
-    b,
-    ticks,
-    yt.map((t) => [y(t), formatFixed(t, decimals(yt))]),
-    'Date',
-    'CUSUM',
-  );
+  axes(doc, b, ticks, yLabels(y, 4), 'Date', 'CUSUM');
   const limit = worse ? c.h : -c.h;
-  path(
-    doc,
-    [
-      [b.left, y(limit)],
-      [b.left + b.w, y(limit)],
-    ],
-    VERMILLION,
-    0.4,
-    [1.5, 1],
-  );
+  across(doc, b, y(limit), VERMILLION, 0.4, [1.5, 1]);
   path(
     doc,
     c.path.date.map((d, i): [number, number] => [x(d), y(c.path.value[i])]),
@@ -255,24 +249,8 @@ export function drawVlad(doc: jsPDF, b: Box, v: MonitoringVlad, range: [number, 
     .domain([lo - pad, hi + pad])
     .range([b.top + b.h, b.top]);
   const { x, ticks } = dateTicks(range[0], range[1], b.left, b.left + b.w);
-  const yt = y.ticks(4);
-  axes(
-    doc,
-    b,
-    ticks,
-    yt.map((t) => [y(t), formatFixed(t, decimals(yt))]),
-    'Date',
-    'O \u2212 E',
-  );
-  path(
-    doc,
-    [
-      [b.left, y(0)],
-      [b.left + b.w, y(0)],
-    ],
-    GREY,
-    0.3,
-  );
+  axes(doc, b, ticks, yLabels(y, 4), 'Date', 'O \u2212 E');
+  across(doc, b, y(0), GREY, 0.3);
   path(
     doc,
     v.path.date.map((d, i): [number, number] => [x(d), y(v.path.value[i])]),
@@ -294,25 +272,15 @@ export function drawDrift(doc: jsPDF, b: Box, periods: MonitoringPeriodRow[]): v
   const step = b.w / Math.max(1, n);
   const xAt = (i: number) => b.left + step * (i + 0.5);
   const every = Math.max(1, Math.ceil(n / 8));
-  const yt = y.ticks(5);
   axes(
     doc,
     b,
     periods.flatMap((p, i): [number, string][] => (i % every === 0 ? [[xAt(i), p.label]] : [])),
-    yt.map((t) => [y(t), formatFixed(t, decimals(yt))]),
+    yLabels(y, 5),
     'Period',
     'O/E',
   );
-  path(
-    doc,
-    [
-      [b.left, y(1)],
-      [b.left + b.w, y(1)],
-    ],
-    GREY,
-    0.3,
-    [1.2, 1.2],
-  );
+  across(doc, b, y(1), GREY, 0.3, [1.2, 1.2]);
   periods.forEach((p, i) => {
     const cx = xAt(i);
     if (p.oe.lower !== null && p.oe.upper !== null)
