@@ -5,6 +5,7 @@ import { finiteMax, num, palette, pct } from '../format';
 import { MARK_ROW, MarkLegend, MarkLines, type CutoffMark } from './CutoffMarks';
 import { NumbersTable } from './NumbersTable';
 import { PlotExport } from './PlotExport';
+import { YGrid } from './YGrid';
 
 const M = { right: 18, bottom: 40, left: 52 };
 
@@ -46,14 +47,7 @@ export function CostCurvePlot(p: {
     <figure className="plot cost-curve" data-testid="cost-curve">
       <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby={`${id}-t`}>
         <title id={`${id}-t`}>{p.title}</title>
-        {yt.map((t) => (
-          <g key={`y${t}`}>
-            <line x1={M.left} x2={width - M.right} y1={y(t)} y2={y(t)} className="grid" />
-            <text x={M.left - 6} y={y(t) + 4} textAnchor="end" className="tick">
-              {num(t, t % 1 === 0 ? 0 : 1)}
-            </text>
-          </g>
-        ))}
+        <YGrid ticks={yt} y={y} left={M.left} right={width - M.right} label={(t) => num(t, t % 1 === 0 ? 0 : 1)} />
         {xt.map((t) => (
           <g key={`x${t}`}>
             <line x1={x(t)} x2={x(t)} y1={height - M.bottom} y2={height - M.bottom + 4} stroke="#333" />

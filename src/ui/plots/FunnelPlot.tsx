@@ -3,6 +3,7 @@ import { useId } from 'react';
 import type { FunnelCurves, FunnelFlag } from '../../engine/monitoring';
 import { finiteMax, palette } from '../format';
 import { PlotExport } from './PlotExport';
+import { YGrid } from './YGrid';
 
 export interface FunnelPlotProps {
   title: string;
@@ -65,14 +66,7 @@ export function FunnelPlot(p: FunnelPlotProps) {
     <figure className="plot">
       <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby={`${id}-t`}>
         <title id={`${id}-t`}>{p.title}</title>
-        {yt.map((t) => (
-          <g key={`y${t}`}>
-            <line x1={M.left} x2={width - M.right} y1={y(t)} y2={y(t)} className="grid" />
-            <text x={M.left - 6} y={y(t) + 4} textAnchor="end" className="tick">
-              {y.tickFormat(5)(t)}
-            </text>
-          </g>
-        ))}
+        <YGrid ticks={yt} y={y} left={M.left} right={width - M.right} label={y.tickFormat(5)} />
         {xt.map((t) => (
           <g key={`x${t}`}>
             <line x1={x(t)} x2={x(t)} y1={height - M.bottom} y2={height - M.bottom + 4} stroke="#333" />

@@ -2,6 +2,7 @@ import { scaleBand, scaleLinear } from 'd3';
 import { useId } from 'react';
 import { palette } from '../format';
 import { PlotExport } from './PlotExport';
+import { YGrid } from './YGrid';
 
 export interface PeriodIntervalPlotProps {
   title: string;
@@ -42,14 +43,7 @@ export function PeriodIntervalPlot(p: PeriodIntervalPlotProps) {
     <figure className="plot">
       <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby={`${id}-t`}>
         <title id={`${id}-t`}>{p.title}</title>
-        {yt.map((t) => (
-          <g key={`y${t}`}>
-            <line x1={M.left} x2={width - M.right} y1={y(t)} y2={y(t)} className="grid" />
-            <text x={M.left - 6} y={y(t) + 4} textAnchor="end" className="tick">
-              {y.tickFormat(5)(t)}
-            </text>
-          </g>
-        ))}
+        <YGrid ticks={yt} y={y} left={M.left} right={width - M.right} label={y.tickFormat(5)} />
         {p.points.map((d, i) =>
           i % every === 0 ? (
             <text key={d.label} x={mid(d.label)} y={height - M.bottom + 16} textAnchor="middle" className="tick">

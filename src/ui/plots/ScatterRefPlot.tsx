@@ -2,6 +2,7 @@ import { scaleLinear } from 'd3';
 import { useId, type ReactElement } from 'react';
 import { palette } from '../format';
 import { PlotExport } from './PlotExport';
+import { YGrid } from './YGrid';
 
 /** A reference line of a scatter plot, labelled by its rule. */
 export interface RefLine {
@@ -63,14 +64,7 @@ export function ScatterRefPlot(p: ScatterRefPlotProps) {
             <rect x={M.left} y={M.top} width={width - M.left - M.right} height={height - M.top - M.bottom} />
           </clipPath>
         </defs>
-        {yt.map((t) => (
-          <g key={`y${t}`}>
-            <line x1={M.left} x2={width - M.right} y1={y(t)} y2={y(t)} className="grid" />
-            <text x={M.left - 6} y={y(t) + 4} textAnchor="end" className="tick">
-              {fy(t)}
-            </text>
-          </g>
-        ))}
+        <YGrid ticks={yt} y={y} left={M.left} right={width - M.right} label={fy} />
         {xt.map((t) => (
           <text key={`x${t}`} x={x(t)} y={height - M.bottom + 16} textAnchor="middle" className="tick">
             {fx(t)}
