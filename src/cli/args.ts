@@ -52,6 +52,12 @@ export interface FitArgs {
   arl0?: number;
   /** `--leave-out 12,45`: spreadsheet rows left out of the analysis (recorded in the request). */
   leaveOut?: number[];
+  /** `--events COL` with `--trials COL` or `--nonevents COL`: a table of counts (the events column is the outcome). */
+  events?: string;
+  trials?: string;
+  nonEvents?: string;
+  /** `--weights COL`: frequency weights (whole numbers ≥ 1), any layout. */
+  weights?: string;
   help: boolean;
 }
 
@@ -59,7 +65,12 @@ export const usage = `Usage: npm run fit -- FILE --outcome COLUMN [options]
 
 Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the same engine as the page.
 
-  --outcome COL            outcome column (required)
+  --outcome COL            outcome column, one yes/no value per row (required unless --events is given)
+  --events COL             a table of counts: the column of events per row, with one of
+  --trials COL               the column of trials (cases) per row, or
+  --nonevents COL            the column of non-events per row
+                           (every per-case result equals that of the table written out one row per case)
+  --weights COL            frequency weights: how many identical cases each row stands for (whole numbers >= 1)
   --event VALUE            outcome level counted as the event (proposed automatically for yes/no, 1/0, ...)
   --predictors a,b,c       predictor columns (default: every other usable column)
   --categorical a,b        treat these columns as categorical
@@ -293,6 +304,19 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--monitor':
         a.monitor = value();
         break;
+      case '--events':
+        a.events = value();
+        break;
+      case '--trials':
+        a.trials = value();
+        break;
+      case '--nonevents':
+      case '--non-events':
+        a.nonEvents = value();
+        break;
+      case '--weights':
+        a.weights = value();
+        break;
       case '--date':
         a.date = value();
         break;
@@ -325,6 +349,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
   }
   if (a.help) return a;
   if (!a.file) throw new FulcraError('bad-argument', 'Name the data file, e.g. npm run fit -- data.csv --outcome y.');
+  checkLayoutArgs(a);
   if (!a.outcome) throw new FulcraError('bad-argument', 'Name the outcome column with --outcome COLUMN.');
   if (a.threshold !== undefined && !(a.threshold > 0 && a.threshold < 1)) {
     throw new FulcraError('bad-argument', `--threshold must be between 0 and 1, got ${a.threshold}.`);
@@ -376,4 +401,30 @@ function splitOnce(v: string, sep: string, flag: string): [string, string] {
     throw new FulcraError('bad-argument', `${flag} expects NAME${sep}VALUE, got "${v}".`);
   }
   return [v.slice(0, k), v.slice(k + 1)];
+}
+
+/** --events needs exactly one of --trials and --nonevents (and replaces --outcome); they need --events. */
+function checkLayoutArgs(a: FitArgs): void {
+  if (a.events === undefined) {
+    if (a.trials !== undefined || a.nonEvents !== undefined)
+      throw new FulcraError(
+        'bad-argument',
+        `${a.trials !== undefined ? '--trials' : '--nonevents'} needs --events COL (the column of event counts).`,
+      );
+    return;
+  }
+  if (a.outcome && a.outcome !== a.events)
+    throw new FulcraError(
+      'bad-argument',
+      `--outcome ${a.outcome} and --events ${a.events}: a table of counts has its events column as the outcome; ` +
+        'give only --events.',
+    );
+  if ((a.trials === undefined) === (a.nonEvents === undefined))
+    throw new FulcraError(
+      'bad-argument',
+      '--events COL needs one of --trials COL (cases per row) or --nonevents COL (non-events per row).',
+    );
+  if (a.event !== undefined)
+    throw new FulcraError('bad-argument', '--event does not apply to a table of counts (--events): drop it.');
+  a.outcome = a.events;
 }

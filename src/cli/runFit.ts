@@ -75,8 +75,17 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
   const { dataset, columns } = table;
   const getColumn = (_: unknown, name: string) => columnOf(table, name);
   const outcomeCol = getColumn(dataset, args.outcome);
+  const layout: ModelSpec['layout'] =
+    args.trials !== undefined
+      ? { kind: 'events-trials', trials: args.trials }
+      : args.nonEvents !== undefined
+        ? { kind: 'events-nonevents', nonEvents: args.nonEvents }
+        : undefined;
+  const roleColumns = [args.outcome, args.trials, args.nonEvents, args.weights].filter((c) => c !== undefined);
+  for (const c of roleColumns) getColumn(dataset, c);
   let event = args.event;
-  if (event === undefined) {
+  if (layout) event = undefined;
+  else if (event === undefined) {
     const proposal = proposeOutcomeEvent(outcomeCol);
     if (proposal.status !== 'proposed') {
       throw new FulcraError(
@@ -88,7 +97,7 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
     event = proposal.event;
   }
   const predictors =
-    args.predictors ?? columns.filter((c) => c.modelling && c.name !== args.outcome).map((c) => c.name);
+    args.predictors ?? columns.filter((c) => c.modelling && !roleColumns.includes(c.name)).map((c) => c.name);
   if (predictors.length === 0)
     throw new FulcraError('no-predictors', 'No predictor columns were found; name them with --predictors a,b,c.');
   for (const p of [...predictors, ...Object.keys(args.splines), ...args.interactions.flat()]) getColumn(dataset, p);
@@ -113,7 +122,11 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
     if (!predictors.includes(column)) terms.push({ type: 'spline', column, knots });
   }
   for (const pair of args.interactions) terms.push({ type: 'interaction', columns: pair });
-  return { outcome: args.outcome, event, terms };
+  const spec: ModelSpec = { outcome: args.outcome, terms };
+  if (event !== undefined) spec.event = event;
+  if (layout) spec.layout = layout;
+  if (args.weights !== undefined) spec.weights = args.weights;
+  return spec;
 }
 
 /**

@@ -37,10 +37,24 @@ export function summarise(r: FitRun): string {
   const out: string[] = [];
   const f = r.fit;
   const spec = r.request.spec;
-  out.push(`Fulcra ${r.fulcra.version} — logistic regression of "${spec.outcome}" (event: ${f.recipe.event})`);
-  out.push(`Data: ${r.data.file}, ${r.data.rows} rows`);
-  out.push(methodLine(r));
+  const lay = r.layout;
+  const grouped = lay && lay.kind !== 'binary';
   out.push(
+    grouped
+      ? `Fulcra ${r.fulcra.version} — logistic regression of the events "${spec.outcome}" ` +
+          `${lay.kind === 'events-trials' ? 'out of the trials' : 'against the non-events'} "${lay.counts}"`
+      : `Fulcra ${r.fulcra.version} — logistic regression of "${spec.outcome}" (event: ${f.recipe.event})`,
+  );
+  out.push(`Data: ${r.data.file}, ${r.data.rows} rows`);
+  if (lay && (grouped || lay.weights)) out.push(lay.convention);
+  out.push(methodLine(r));
+  if (lay && (grouped || lay.weights))
+    out.push(
+      `Cases used: ${f.nUsed.toLocaleString('en')} from ${lay.tableRowsUsed.toLocaleString('en')} of ` +
+        `${lay.tableRows.toLocaleString('en')} rows`,
+    );
+  else
+    out.push(
     `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
       f.nDropped
         ? ': ' +
@@ -91,6 +105,20 @@ export function summarise(r: FitRun): string {
         : `Deviance ${fmt(f.deviance)} (null ${fmt(f.nullDeviance)}); model LR χ² ${fmt(f.modelLrChi2, 3)} ` +
           `on ${f.modelDf} df, p ${fmtP(f.modelLrP)}; AIC ${fmt(f.aic, 3)}, BIC ${fmt(f.bic, 3)}`,
   );
+  if (lay?.deviance)
+    out.push(
+      `Deviance conventions: per case ${fmt(lay.deviance.perCase)} (as the table written out one row per case; ` +
+        `AIC and BIC use it, with n = cases); grouped ${fmt(lay.deviance.grouped)} on ${lay.deviance.groupedDf} ` +
+        `df, relative to the saturated model of the table rows (as R glm(cbind(events, non-events) ~ …)). ` +
+        'They differ by a constant and give the same likelihood-ratio tests.',
+    );
+  const gof = lay?.goodnessOfFit;
+  if (gof)
+    out.push(
+      `Goodness of fit by covariate pattern (${gof.patterns} patterns, ${gof.df} df): Pearson χ² ` +
+        `${fmt(gof.pearson, 3)}, p ${fmtP(gof.pearsonP)}; deviance χ² ${fmt(gof.deviance, 3)}, p ` +
+        `${fmtP(gof.devianceP)}${gof.reliable ? '' : ' (not trustworthy: too many expected counts below 5)'}.`,
+    );
   const e = r.evaluation;
   out.push('');
   out.push('Performance on the development data (apparent)');

@@ -6,11 +6,23 @@ export type TermSpec =
   | { type: 'spline'; column: string; knots: 3 | 4 | 5 }
   | { type: 'interaction'; columns: [string, string] };
 
+/**
+ * How the outcome is laid out: one yes/no column per case (`binary`, the default), or a table of counts with the
+ * events in `outcome` and the number of cases (`trials`) or of non-events (`nonEvents`) in a second column.
+ */
+export type OutcomeLayout =
+  { kind: 'binary' } | { kind: 'events-trials'; trials: string } | { kind: 'events-nonevents'; nonEvents: string };
+
 export interface ModelSpec {
+  /** The yes/no outcome column; in a grouped layout, the column of event counts. */
   outcome: string;
-  /** The outcome level counted as the event. For a numeric 0/1 outcome, "1". */
+  /** The outcome level counted as the event. For a numeric 0/1 outcome, "1". Not used by grouped layouts. */
   event?: string;
   terms: TermSpec[];
+  /** Absent: one yes/no column per case. */
+  layout?: OutcomeLayout;
+  /** A column of frequency weights (whole numbers ≥ 1: how many identical cases the row stands for), any layout. */
+  weights?: string;
 }
 
 /**
@@ -103,6 +115,11 @@ export interface DesignRecipe {
    * Absent in recipes that predate it.
    */
   ranges?: Record<string, [number, number]>;
+  /**
+   * The column of case counts each row stands for (frequency weights), when the model was fitted on weighted rows
+   * (grouped tables are fitted as two weighted rows per table row: events and non-events). Absent: one case per row.
+   */
+  weights?: string;
 }
 
 export interface FitResult {
@@ -140,7 +157,10 @@ export interface FitResult {
   modelLrChi2: number | null;
   modelDf: number;
   modelLrP: number | null;
+  /** Cases used: complete rows, or with frequency weights the cases they stand for (Σ weights). */
   nUsed: number;
+  /** With frequency weights (and grouped tables, fitted as weighted rows): the weighted rows fitted; else absent. */
+  rowsFitted?: number;
   nDropped: number;
   /** Rows dropped because of a missing value, per column name. */
   droppedByColumn: Record<string, number>;

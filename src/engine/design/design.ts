@@ -20,6 +20,11 @@ export interface EncodedDesign {
   rowsUsed: Int32Array;
   /** 0/1 outcome per used row; null when the data has no outcome column. */
   y: Float64Array | null;
+  /**
+   * Frequency weight per used row (cases the row stands for) when the recipe has a weights column and the outcome is
+   * read; null otherwise (one case per row).
+   */
+  weights: Float64Array | null;
   nDropped: number;
   droppedByColumn: Record<string, number>;
 }
@@ -88,6 +93,7 @@ type RecipeOptions = { rows?: Int32Array; outcome?: 'if-present' | 'ignore' };
 interface RecipeRows {
   cols: Map<string, Column>;
   outcomeCol: Column | null;
+  weightsCol: Column | null;
   rowsUsed: Int32Array;
   n: number;
   nDropped: number;
@@ -102,13 +108,18 @@ function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): R
   const cols = new Map<string, Column>();
   for (const name of used) cols.set(name, getColumn(data, name));
   const outcomeCol = hasOutcome ? getColumn(data, recipe.outcome) : null;
+  // Weights are read with the outcome, when the data have the column (a validation file may hold one case per row).
+  const weightsCol =
+    outcomeCol && recipe.weights && data.columns.some((c) => c.name === recipe.weights)
+      ? getColumn(data, recipe.weights)
+      : null;
   const droppedByColumn: Record<string, number> = {};
   let candidate = rows;
   if (!candidate) {
     candidate = new Int32Array(data.nRows);
     for (let i = 0; i < data.nRows; i++) candidate[i] = i;
   }
-  const checked = outcomeCol ? [outcomeCol, ...cols.values()] : [...cols.values()];
+  const checked = [...(outcomeCol ? [outcomeCol] : []), ...(weightsCol ? [weightsCol] : []), ...cols.values()];
   const anyMissing = new Uint8Array(data.nRows);
   for (const c of checked) {
     const m = missingMask(c);
@@ -126,7 +137,7 @@ function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): R
   for (let i = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) n++;
   const rowsUsed = new Int32Array(n);
   for (let i = 0, k = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) rowsUsed[k++] = candidate[i];
-  return { cols, outcomeCol, rowsUsed, n, nDropped: candidate.length - n, droppedByColumn };
+  return { cols, outcomeCol, weightsCol, rowsUsed, n, nDropped: candidate.length - n, droppedByColumn };
 }
 
 /** Number of design columns of a recipe, intercept included. */
@@ -288,6 +299,30 @@ function outcomeVector(recipe: DesignRecipe, data: Dataset, sel: RecipeRows): Fl
 }
 
 /**
+ * The frequency weights of the used rows, or null without a weights column; throws naming the spreadsheet row of a
+ * weight that is not a whole number ≥ 1 (a frequency weight counts identical cases).
+ */
+function weightsVector(recipe: DesignRecipe, data: Dataset, sel: RecipeRows): Float64Array | null {
+  const { weightsCol, rowsUsed, n } = sel;
+  if (!weightsCol) return null;
+  const get = numericGetter(weightsCol);
+  const w = allocF64(n);
+  for (let i = 0; i < n; i++) {
+    const v = get(rowsUsed[i]);
+    if (!(Number.isInteger(v) && v >= 1)) {
+      throw new FulcraError(
+        'bad-weight',
+        `Row ${sheetRow(data, rowsUsed[i])}: the weight "${recipe.weights}" is ${v}; a frequency weight counts ` +
+          'identical cases, so it must be a whole number of at least 1.',
+        'Correct the weight in that row, or leave the row out of the file (a weight of 0 means no cases).',
+      );
+    }
+    w[i] = v;
+  }
+  return w;
+}
+
+/**
  * Builds the design matrix for `data` from a recipe (fit data, new data for scoring or external validation).
  * Rows with a missing value in a used column are dropped and counted per column. An unseen categorical level
  * throws a FulcraError naming the spreadsheet row (sheetRow) and column. The outcome is encoded (and rows missing
@@ -310,8 +345,9 @@ export function designFromRecipe(recipe: DesignRecipe, data: Dataset, opts: Reci
   );
   if (next !== p) throw new FulcraError('internal', `The design has ${next} columns where the recipe gives ${p}.`);
   const y = outcomeVector(recipe, data, sel);
+  const weights = weightsVector(recipe, data, sel);
   const { rowsUsed, nDropped, droppedByColumn } = sel;
-  return { X, n, p, y, rowsUsed, nDropped, droppedByColumn, ...names };
+  return { X, n, p, y, weights, rowsUsed, nDropped, droppedByColumn, ...names };
 }
 
 /** designFromRecipe's rows, outcome and column bookkeeping, with the linear predictor instead of the design. */
@@ -352,8 +388,9 @@ export function linearPredictorFromRecipe(
     (used) => spare.push(...used),
   );
   const y = outcomeVector(recipe, data, sel);
+  const weights = weightsVector(recipe, data, sel);
   const { rowsUsed, nDropped, droppedByColumn } = sel;
-  return { eta, n, y, rowsUsed, nDropped, droppedByColumn, ...names };
+  return { eta, n, y, weights, rowsUsed, nDropped, droppedByColumn, ...names };
 }
 
 /**
@@ -443,6 +480,15 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
   return ordered[0] ?? '1';
 }
 
+/** The weights of `rows` (complete rows), each a whole number ≥ 1 (weightsVector checks them with its message). */
+function rowWeights(data: Dataset, name: string, rows: number[]): number[] {
+  const get = numericGetter(getColumn(data, name));
+  return rows.map((r) => {
+    const v = get(r);
+    return Number.isInteger(v) && v >= 1 ? v : 1;
+  });
+}
+
 /** [min, max] over `rows` of every column the terms read as numbers (numeric, spline, numeric interaction part). */
 function numericRanges(data: Dataset, terms: RecipeTerm[], rows: number[]): Record<string, [number, number]> {
   const names = new Set<string>();
@@ -477,6 +523,12 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
   const outcomeCol = getColumn(data, spec.outcome);
   const names = new Set<string>();
   const usedCols = new Set<string>([spec.outcome]);
+  if (spec.weights !== undefined) {
+    if (spec.weights === spec.outcome)
+      throw new FulcraError('weights-as-outcome', `The column "${spec.weights}" cannot be both outcome and weights.`);
+    getColumn(data, spec.weights);
+    usedCols.add(spec.weights);
+  }
   for (const t of spec.terms) {
     const nm = termName(t);
     if (names.has(nm)) throw new FulcraError('duplicate-term', `The term "${nm}" appears twice in the model.`);
@@ -485,6 +537,12 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     for (const c of cs) {
       if (c === spec.outcome)
         throw new FulcraError('outcome-as-predictor', `The outcome "${c}" cannot also be a predictor.`);
+      if (c === spec.weights)
+        throw new FulcraError(
+          'weights-as-predictor',
+          `The weights column "${c}" cannot also be a predictor.`,
+          'A frequency weight says how many cases a row stands for; remove it from the predictors.',
+        );
       getColumn(data, c);
       usedCols.add(c);
     }
@@ -506,6 +564,16 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     );
   }
   const event = outcomeEvent(outcomeCol, spec.event, rows, warnings);
+  // Cases per complete row: reference levels and spline knots follow the cases, as on one-row-per-case data.
+  const caseCount = spec.weights ? rowWeights(data, spec.weights, rows) : null;
+  const totalCases = caseCount?.reduce((a, b) => a + b, 0) ?? rows.length;
+  if (caseCount && totalCases > 5e7 && spec.terms.some((t) => t.type === 'spline'))
+    throw new FulcraError(
+      'too-many-cases-for-splines',
+      `The weights "${spec.weights}" add up to ${totalCases.toLocaleString('en')} cases; spline knots are placed ` +
+        'at quantiles of the cases, which Fulcra computes for at most 50 000 000.',
+      'Enter the predictor as a plain numeric term, or fit a sample of the table.',
+    );
 
   const recipeTerms: RecipeTerm[] = [];
   for (const t of spec.terms) {
@@ -529,7 +597,7 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     if (t.type === 'spline') {
       const get = numericGetter(col);
       const knots = rcsKnots(
-        rows.map((r) => get(r)),
+        caseCount ? rows.flatMap((r, k) => new Array<number>(caseCount[k]).fill(get(r))) : rows.map((r) => get(r)),
         t.knots,
         t.column,
       );
@@ -552,7 +620,7 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
       continue;
     }
     const counts = new Array<number>(col.levels.length).fill(0);
-    for (const r of rows) counts[col.codes[r]]++;
+    rows.forEach((r, k) => (counts[col.codes[r]] += caseCount ? caseCount[k] : 1));
     const levels = col.levels.filter((_, k) => counts[k] > 0);
     let reference = t.reference;
     if (reference === undefined) {
@@ -585,6 +653,7 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
   }
   const ranges = numericRanges(data, recipeTerms, rows);
   const recipe: DesignRecipe = { outcome: spec.outcome, event, terms: recipeTerms, columnNames: [], ranges };
+  if (spec.weights !== undefined) recipe.weights = spec.weights;
   const enc = designFromRecipe(recipe, data);
   recipe.columnNames = enc.columnNames;
   if (enc.nDropped > 0) {

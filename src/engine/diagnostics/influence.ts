@@ -80,7 +80,9 @@ export function rowDiagnostics(f: FitResult, data: Dataset): RowDiagnostics {
   const beta = f.coefficients.map((c) => c.estimate);
   const p = beta.length;
   const C = unscaledCovariance(f);
-  const nUsed = f.nUsed;
+  // With frequency weights a row stands for identical cases: every measure is one case's (leverage, residuals and
+  // the change from leaving out one case), one value per weighted row.
+  const nUsed = f.rowsFitted ?? f.nUsed;
   const rank = f.coefficients.filter((c) => !c.aliased).length;
   const dataRows = new Int32Array(nUsed);
   const y = new Float64Array(nUsed);
@@ -97,7 +99,7 @@ export function rowDiagnostics(f: FitResult, data: Dataset): RowDiagnostics {
   const maxShiftColumn = C ? new Int32Array(nUsed) : null;
   const sdBeta = C ? Float64Array.from({ length: p }, (_, j) => Math.sqrt(C[j * p + j])) : null;
   const sumDev2 = f.deviance;
-  const dfResid = nUsed - rank - 1;
+  const dfResid = f.nUsed - rank - 1;
 
   // Per sub-block of SUB rows: V = X_sub·(X'WX)⁻¹ and the per-row scalars, reused for every block.
   const SUB = 512;

@@ -37,6 +37,24 @@ export interface CalibrationCurveOptions {
 }
 
 /**
+ * The linear predictor sorted, with each row repeated by its weight when the weights are whole numbers (frequency
+ * weights) and add up to at most 5·10⁶ cases: knots and plotting range are then those of the cases.
+ */
+function casesSorted(eta: Float64Array, w: Float64Array | undefined): Float64Array {
+  if (!w || !w.every((v) => Number.isInteger(v))) return eta.slice().sort();
+  let total = 0;
+  for (const v of w) total += v;
+  if (total > 5e6) return eta.slice().sort();
+  const out = new Float64Array(total);
+  let k = 0;
+  for (let i = 0; i < eta.length; i++) {
+    out.fill(eta[i], k, k + w[i]);
+    k += w[i];
+  }
+  return out.sort();
+}
+
+/**
  * Flexible calibration curve: logistic regression of y on a restricted cubic spline of the linear predictor eta
  * (knots at Harrell's default placement, harrellKnots, as Hmisc rcspline.eval), maximum likelihood. The band is a
  * pointwise Wald interval on the logit scale, transformed back. ICI/E50/E90/Emax compare each case's risk with its
@@ -83,8 +101,8 @@ export function calibrationCurve(
     );
     return empty;
   }
-  const sorted = eta.slice().sort();
-  if (sorted[0] === sorted[n - 1]) {
+  const sorted = casesSorted(eta, options.weights);
+  if (sorted[0] === sorted[sorted.length - 1]) {
     warnings.push(
       warning(
         'calibration-curve-undefined',

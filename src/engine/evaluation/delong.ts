@@ -96,14 +96,17 @@ export function delongAuc(y: Float64Array, score: Float64Array, options: DelongO
  * DeLong AUC from the one-sort threshold structure in O(distinct scores): every event at a distinct score
  * shares one placement value V10 = (non-events below + ½·tied)/n, every non-event one V01 = (events
  * above + ½·tied)/m — the midrank formulation of Sun & Xu (2014, IEEE Signal Process Lett 21:1389).
+ * With frequency weights (whole numbers) the counts are case counts, so the result is that of the cases written
+ * out one row each.
  */
 export function delongFromPrepared(prep: PreparedThresholds, options: DelongOptions = {}): AucInterval {
   const level = options.level ?? 0.95;
   checkLevel(level);
-  if (prep.weighted)
+  if (prep.weighted && !prep.frequencyWeights)
     throw new FulcraError(
       'weights-not-supported',
-      'The DeLong interval is defined for unweighted cases; prepare the thresholds without weights.',
+      'The DeLong interval is defined for cases; with weights that are not whole numbers (counts of cases) it is ' +
+        'not defined. Prepare the thresholds without weights.',
     );
   const { risks, eventsAtOrAbove: ea, nonEventsAtOrAbove: na, events: m, nonEvents: n } = prep;
   const K = risks.length;

@@ -63,6 +63,22 @@ export interface EvaluationRecord {
   warnings: EngineWarning[];
 }
 
+/** Frequency-weighted data are written out one row per case for the Hosmer–Lemeshow groups up to this many cases. */
+const HL_MAX_CASES = 5_000_000;
+
+/** Outcome and risk with each row repeated by its (whole-number) weight: the data one row per case. */
+function casesWrittenOut(y: Float64Array, p: Float64Array, w: Float64Array, cases: number) {
+  const oy = new Float64Array(cases);
+  const op = new Float64Array(cases);
+  let k = 0;
+  for (let i = 0; i < y.length; i++) {
+    oy.fill(y[i], k, k + w[i]);
+    op.fill(p[i], k, k + w[i]);
+    k += w[i];
+  }
+  return { y: oy, p: op };
+}
+
 /**
  * All evaluation measures of predicted risks p for a 0/1 outcome y in one plain record: ROC (thinned) and
  * AUC with DeLong CI, PR curve and average precision, Brier, calibration intercept/slope, flexible calibration
@@ -89,7 +105,7 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
   }
   let auc: AucInterval;
   const roc = rocFromPrepared(prep, options.rocPoints ?? 500);
-  if (w) {
+  if (w && !prep.frequencyWeights) {
     auc = {
       auc: roc.auc,
       se: null,
@@ -104,8 +120,8 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
     warnings.push(
       warning(
         'weights-no-delong',
-        'With case weights the AUC is the weighted one, and no DeLong interval is given (the DeLong variance ' +
-          'assumes unweighted cases).',
+        'With case weights that are not whole numbers the AUC is the weighted one, and no DeLong interval is given ' +
+          '(the DeLong variance counts cases).',
         'Use a bootstrap interval for weighted data.',
       ),
     );
@@ -113,15 +129,21 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
     auc = delongFromPrepared(prep, { level, scale: options.aucScale });
   }
   let hl: HosmerLemeshowResult | null = null;
-  if (w)
+  const cases = w ? prep.total : y.length;
+  if (!w) hl = hosmerLemeshow(y, p, options.hlGroups ?? 10);
+  else if (prep.frequencyWeights && cases <= HL_MAX_CASES) {
+    const one = casesWrittenOut(y, p, w, cases);
+    hl = hosmerLemeshow(one.y, one.p, options.hlGroups ?? 10);
+  } else
     warnings.push(
       warning(
         'weights-no-hl',
-        'The Hosmer–Lemeshow test is not computed with case weights.',
+        prep.frequencyWeights
+          ? `The Hosmer–Lemeshow test is computed for at most ${HL_MAX_CASES.toLocaleString('en')} cases.`
+          : 'The Hosmer–Lemeshow test is not computed with case weights that are not whole numbers.',
         'Read the calibration curve, slope and intercept.',
       ),
     );
-  else hl = hosmerLemeshow(y, p, options.hlGroups ?? 10);
   const pr = prFromPrepared(prep, options.rocPoints ?? 500);
   const brier = brierScore(y, p, w);
   const calibration = calibrationRegression(y, eta, { weights: w, level });
@@ -148,7 +170,7 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
   for (const list of parts)
     for (const x of list) if (!warnings.some((v) => v.code === x.code && v.message === x.message)) warnings.push(x);
   return {
-    n: y.length,
+    n: w ? prep.total : y.length,
     events: prep.events,
     nonEvents: prep.nonEvents,
     outcomeRate: prep.total > 0 ? prep.events / prep.total : null,

@@ -19,6 +19,11 @@ export interface PreparedThresholds {
   nonEvents: number;
   total: number;
   weighted: boolean;
+  /**
+   * Weighted with whole-number weights (frequency weights: a row of weight w stands for w identical cases), so the
+   * counts are case counts and every case-based statistic (DeLong's variance included) is that of the cases.
+   */
+  frequencyWeights?: boolean;
 }
 
 export const FLAG_RULE = 'A case is flagged when its risk is greater than or equal to the threshold.';
@@ -133,7 +138,17 @@ export function prepareThresholds(
     eventsAtOrAbove[j] = se;
     nonEventsAtOrAbove[j] = sn;
   }
-  return { risks, eventsAtOrAbove, nonEventsAtOrAbove, events: se, nonEvents: sn, total: se + sn, weighted: !!weights };
+  const out: PreparedThresholds = {
+    risks,
+    eventsAtOrAbove,
+    nonEventsAtOrAbove,
+    events: se,
+    nonEvents: sn,
+    total: se + sn,
+    weighted: !!weights,
+  };
+  if (weights) out.frequencyWeights = weights.every((w) => Number.isInteger(w));
+  return out;
 }
 
 /** Options of the curves drawn from one threshold structure (ROC, precision–recall). */

@@ -5,7 +5,7 @@ import { destandardiseMap } from '../numerics/standardise';
 import { validateFitOptions, type EngineFitOptions } from './fitOptions';
 import { informationCriteria, nullDeviance, originalCovariance, waldTable, type WaldRow } from './inference';
 import { newtonLogistic, type NewtonResult } from './newton';
-import { eventCounts, originalScaleBeta, prepareFit, type PreparedFit } from './prepareFit';
+import { caseTotal, eventCounts, originalScaleBeta, prepareFit, type PreparedFit } from './prepareFit';
 import type { ProfileTraces } from './chordSolve';
 import { profileLimits, separatedProfileLimits, type Limits } from './profileLimits';
 import { detectSeparation, fitToLimit, noSeparation, separationWarning } from './separation';
@@ -80,10 +80,12 @@ export function fit(
     );
 
   const deviance = -2 * nr.logLik;
-  const nullDev = nullDeviance(y);
+  const w = prep.problem.weights;
+  const cases = caseTotal(prep.problem);
+  const nullDev = nullDeviance(y, w);
   const { modelDf, modelLrChi2, modelLrP } = modelTest(prep, nr, o, nullDev, deviance, o.refitInference);
-  const { aic, bic } = informationCriteria(deviance, keep.length, n);
-  const counts = eventCounts(y, keep.length - 1, warnings);
+  const { aic, bic } = informationCriteria(deviance, keep.length, cases);
+  const counts = eventCounts(y, keep.length - 1, warnings, w);
   if (ridge) warnings.push(ridgeWarning(o.lambda));
 
   return {
@@ -104,7 +106,8 @@ export function fit(
     modelLrChi2: ridge ? null : modelLrChi2,
     modelDf,
     modelLrP: ridge ? null : modelLrP,
-    nUsed: n,
+    nUsed: w ? cases : n,
+    ...(w ? { rowsFitted: n } : {}),
     nDropped: design.nDropped,
     droppedByColumn: design.droppedByColumn,
     ...counts,
@@ -151,7 +154,7 @@ function coefficientRows(
 function penalisedLogLik(prep: PreparedFit, nr: NewtonResult): number {
   let logScale = 0;
   for (const j of prep.keep) if (j > 0) logScale += Math.log(prep.std.scale[j]);
-  return -prep.problem.n * nr.objective + logScale;
+  return -caseTotal(prep.problem) * nr.objective + logScale;
 }
 
 function ridgeWarning(lambda: number): EngineWarning {

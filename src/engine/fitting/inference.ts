@@ -26,11 +26,19 @@ export function waldTable(beta: ArrayLike<number>, cov: ArrayLike<number>, level
   });
 }
 
-/** −2·loglik of the intercept-only model: −2·Σ[y·log ȳ + (1−y)·log(1−ȳ)]; 0 when all outcomes are equal. */
-export function nullDeviance(y: ArrayLike<number>): number {
+/**
+ * −2·loglik of the intercept-only model: −2·Σ wᵢ[y·log ȳ + (1−y)·log(1−ȳ)] (ȳ weighted; w = 1 without frequency
+ * weights); 0 when all outcomes are equal.
+ */
+export function nullDeviance(y: ArrayLike<number>, weights?: ArrayLike<number>): number {
   let s = 0;
-  for (let i = 0; i < y.length; i++) s += y[i];
-  return interceptDeviance(s, y.length);
+  let n = 0;
+  for (let i = 0; i < y.length; i++) {
+    const w = weights ? weights[i] : 1;
+    s += w * y[i];
+    n += w;
+  }
+  return interceptDeviance(s, n);
 }
 
 /** AIC = deviance + 2k, BIC = deviance + k·log n, k = number of estimated coefficients (intercept included). */

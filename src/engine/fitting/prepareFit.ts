@@ -51,16 +51,22 @@ function fewRowsLeft(data: Dataset, spec: ModelSpec, design: Design, events: num
 export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): PreparedFit {
   const design = buildDesign(data, spec);
   const warnings = [...design.warnings];
-  const { X, n, p, y } = design;
+  const { X, n, p, y, weights } = design;
   checkExtremeValues(data, spec, design.rowsUsed);
   let events = 0;
-  for (let i = 0; i < n; i++) events += y[i];
-  if ((events === 0 || events === n) && design.nDropped > 0) throw fewRowsLeft(data, spec, design, events);
-  if (events === 0 || events === n) {
+  let cases = 0;
+  for (let i = 0; i < n; i++) {
+    const w = weights ? weights[i] : 1;
+    events += w * y[i];
+    cases += w;
+  }
+  if ((events === 0 || events === cases) && design.nDropped > 0) throw fewRowsLeft(data, spec, design, events);
+  if (events === 0 || events === cases) {
     throw new FulcraError(
       'one-outcome-class',
-      `Every one of the ${n} rows used has the same outcome (${events === 0 ? 'no' : 'all'} ` +
-        `"${design.recipe.event}" events in "${spec.outcome}"); a risk model needs both events and non-events.`,
+      `Every one of the ${cases} ${weights ? 'cases' : 'rows'} used has the same outcome ` +
+        `(${events === 0 ? 'no' : 'all'} "${design.recipe.event}" events in "${spec.outcome}"); ` +
+        'a risk model needs both events and non-events.',
       'Check the outcome column and the event level.',
     );
   }
@@ -74,6 +80,7 @@ export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): Prepa
     keep.forEach((j, k) => Zk.set(std.Z.subarray(j * n, (j + 1) * n), k * n));
   }
   const problem: LogisticProblem = { X: Zk, n, p: keep.length, y };
+  if (weights) problem.weights = weights;
   if (o.method === 'ridge') problem.penalty = Float64Array.from(keep, (j) => (j === 0 ? 0 : o.lambda));
   if (o.method === 'firth') problem.firth = true;
   return { design, std, keep, aliased: ali.aliased, problem, warnings };
@@ -94,12 +101,27 @@ export function originalScaleBeta(prep: PreparedFit, betaKept: ArrayLike<number>
   return out;
 }
 
-/** The events, non-events and coefficients behind a fit, with the warning when there are few events per coefficient. */
-export function eventCounts(y: Float64Array, parameters: number, warnings: EngineWarning[]) {
-  const n = y.length;
+/** Σ weights of a problem: the number of cases (n without weights). */
+export function caseTotal(problem: Pick<LogisticProblem, 'n' | 'weights'>): number {
+  if (!problem.weights) return problem.n;
+  let s = 0;
+  for (let i = 0; i < problem.n; i++) s += problem.weights[i];
+  return s;
+}
+
+/**
+ * The events, non-events and coefficients behind a fit (cases, counted with the frequency weights), with the warning
+ * when there are few events per coefficient.
+ */
+export function eventCounts(y: Float64Array, parameters: number, warnings: EngineWarning[], weights?: Float64Array) {
   let events = 0;
-  for (let i = 0; i < n; i++) events += y[i];
-  const nonEvents = n - events;
+  let cases = 0;
+  for (let i = 0; i < y.length; i++) {
+    const w = weights ? weights[i] : 1;
+    events += w * y[i];
+    cases += w;
+  }
+  const nonEvents = cases - events;
   const minority = Math.min(events, nonEvents);
   const eventsPerParameter = minority / Math.max(parameters, 1);
   const which = events <= nonEvents ? 'events' : 'non-events';

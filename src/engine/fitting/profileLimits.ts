@@ -1,7 +1,7 @@
 import { qchisq } from '../numerics/distributions';
 import { chordProfileBound, type ChordBase, type ProfileTraces } from './chordSolve';
 import type { NewtonResult } from './newton';
-import type { PreparedFit } from './prepareFit';
+import { caseTotal, type PreparedFit } from './prepareFit';
 import { profileInterval } from './profileCi';
 import { limitFromStarts, neutralStart, type SeparationCheck } from './separation';
 
@@ -121,7 +121,7 @@ export function separatedProfileLimits(
   const { std, problem } = prep;
   const crit = qchisq(level, 1);
   const profiles: Limits[] = new Array(prep.design.p).fill(null);
-  const N = problem.n;
+  const N = caseTotal(problem);
   forEachCoordinate(prep, (k, j, shifted) => {
     const fixed = new Uint8Array(problem.p);
     fixed[k] = 1;

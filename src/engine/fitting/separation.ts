@@ -120,11 +120,15 @@ export function neutralStart(
   fixed: Uint8Array,
   fixedValues: ArrayLike<number>,
 ): Float64Array {
-  const { y, n, p } = problem;
+  const { y, n, p, weights: w } = problem;
   let s = 0;
-  for (let i = 0; i < n; i++) s += y[i];
+  let N = 0;
+  for (let i = 0; i < n; i++) {
+    s += (w ? w[i] : 1) * y[i];
+    N += w ? w[i] : 1;
+  }
   const start = new Float64Array(p);
-  start[0] = Math.log(s / (n - s));
+  start[0] = Math.log(s / (N - s));
   for (let j = 0; j < p; j++) if (fixed[j]) start[j] = fixedValues[j];
   return start;
 }

@@ -2,7 +2,7 @@ import type { FitOptions, TermRow } from '../core/model';
 import { pchisqUpper } from '../numerics/distributions';
 import { chordConstrainedObjective, traceStart, type ProfileTraces } from './chordSolve';
 import { newtonLogistic, type NewtonResult } from './newton';
-import type { PreparedFit } from './prepareFit';
+import { caseTotal, type PreparedFit } from './prepareFit';
 import { limitFromStarts, neutralStart } from './separation';
 
 /**
@@ -32,7 +32,7 @@ function constrainedStat(
       zero,
       start ?? undefined,
     );
-    if (obj !== null) return Math.max(0, 2 * prep.problem.n * (obj - nr.objective));
+    if (obj !== null) return Math.max(0, 2 * caseTotal(prep.problem) * (obj - nr.objective));
   }
   const fixed = new Uint8Array(prep.problem.p);
   for (const k of zero) fixed[k] = 1;
@@ -49,7 +49,7 @@ function constrainedStat(
       { tol, maxIter: Math.max(o.maxIter, 100), information: false },
     );
   }
-  return Math.max(0, 2 * prep.problem.n * (r.objective - nr.objective));
+  return Math.max(0, 2 * caseTotal(prep.problem) * (r.objective - nr.objective));
 }
 
 /**

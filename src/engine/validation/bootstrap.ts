@@ -64,22 +64,29 @@ export function performanceMetrics(y: Float64Array, eta: Float64Array, weights?:
  * calibration fit is not clean (one class, separation, no spread) that weighting goes through performanceMetrics,
  * so the results equal performanceMetrics' to the solver tolerance, warnings and nulls included.
  */
-function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Array): { train: Metrics; test: Metrics } {
+function replicateMetrics(
+  y: Float64Array,
+  eta: Float64Array,
+  counts: Float64Array,
+  base: Float64Array | null,
+): { train: Metrics; test: Metrics } {
   const n = y.length,
     risk = new Float64Array(n),
     expNeg = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     if (!Number.isFinite(eta[i]) || (y[i] !== 0 && y[i] !== 1) || !(counts[i] >= 0)) {
-      return { train: performanceMetrics(y, eta, counts), test: performanceMetrics(y, eta) };
+      return { train: performanceMetrics(y, eta, counts), test: performanceMetrics(y, eta, base ?? undefined) };
     }
     expNeg[i] = Math.exp(-eta[i]);
     risk[i] = 1 / (1 + expNeg[i]);
   }
   const order = radixOrder(risk);
-  // Mann–Whitney sums over groups of tied risks, resample-weighted (W) and unit-weighted (1).
+  // Mann–Whitney sums over groups of tied risks, resample-weighted (W) and weighted as the original rows (1: one
+  // case per row, or the rows' frequency weights).
   let [uW, belowW, eW, seW] = [0, 0, 0, 0]; // resample-weighted
-  let [u1, below1, e1, se1] = [0, 0, 0, 0]; // unit-weighted
+  let [u1, below1, e1, se1] = [0, 0, 0, 0]; // original weights
   let sw = 0;
+  let s1 = 0;
   for (let r = 0; r < n;) {
     const v = risk[order[r]];
     let ge = 0,
@@ -89,17 +96,19 @@ function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Arr
     for (; r < n && risk[order[r]] === v; r++) {
       const i = order[r],
         c = counts[i],
+        b = base ? base[i] : 1,
         d = y[i] - v;
       if (y[i] === 1) {
         ge += c;
-        ce++;
+        ce += b;
       } else {
         gn += c;
-        cn++;
+        cn += b;
       }
       seW += c * d * d;
-      se1 += d * d;
+      se1 += b * d * d;
       sw += c;
+      s1 += b;
     }
     uW += ge * (belowW + 0.5 * gn);
     belowW += gn;
@@ -124,7 +133,10 @@ function replicateMetrics(y: Float64Array, eta: Float64Array, counts: Float64Arr
       brier,
     };
   };
-  return { train: metrics(counts, uW, eW, belowW, seW / sw), test: metrics(undefined, u1, e1, below1, se1 / n) };
+  return {
+    train: metrics(counts, uW, eW, belowW, seW / sw),
+    test: metrics(base ?? undefined, u1, e1, below1, se1 / s1),
+  };
 }
 
 const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
@@ -280,11 +292,11 @@ type ValidationOnDesign<O> = (
  * replicate generator (seeded) and an empty list of replicate values per measure.
  */
 async function development(d: PipelineDesign, pipeline: ValidatedProcedure, seed: number) {
-  const dev = await fitProcedure(d, pipeline, undefined, pipeline.seed);
+  const dev = await fitProcedure(d, pipeline, d.weights ?? undefined, pipeline.seed);
   const values: Record<MetricName, number[]> = { auc: [], calibrationSlope: [], calibrationInTheLarge: [], brier: [] };
   return {
     dev,
-    apparent: performanceMetrics(d.y, linearPredictor(d, dev.beta)),
+    apparent: performanceMetrics(d.y, linearPredictor(d, dev.beta), d.weights ?? undefined),
     start: dev.converged ? dev.beta : undefined,
     rng: createRng(seed),
     values,
@@ -342,12 +354,13 @@ export const bootstrapOnDesign: ValidationOnDesign<BootstrapOptions> = async (d,
   const { n, y } = d;
   const { dev, apparent, start, rng, values: optimism } = await development(d, pipeline, o.seed);
   const counts = new Float64Array(n);
+  const draw = caseDraw(d.weights);
   let failed = 0,
     notConverged = 0;
   for (let b = 0; b < o.B; b++) {
     counts.fill(0);
     if (o.counts) counts.set(o.counts[b]);
-    else for (let i = 0; i < n; i++) counts[rng.int(n)]++;
+    else draw(counts, rng);
     const innerSeed = rng.int(2 ** 31);
     if (!bothClasses(y, counts)) {
       failed++;
@@ -357,7 +370,7 @@ export const bootstrapOnDesign: ValidationOnDesign<BootstrapOptions> = async (d,
         failed++;
       } else {
         if (!fit.converged) notConverged++;
-        const { train, test } = replicateMetrics(y, linearPredictor(d, fit.beta), counts);
+        const { train, test } = replicateMetrics(y, linearPredictor(d, fit.beta), counts, d.weights);
         for (const m of METRICS) {
           const a = train[m],
             t = test[m];
@@ -371,6 +384,39 @@ export const bootstrapOnDesign: ValidationOnDesign<BootstrapOptions> = async (d,
   const warnings = [...d.warnings, ...runWarnings(failed, notConverged, o.B, 'bootstrap replicates')];
   return { method: 'bootstrap', planned: o.B, failed, seed: o.seed, rows, lambda: dev.lambda, warnings };
 };
+
+/**
+ * One bootstrap resample as counts per row: n draws of a row with replacement, or with frequency weights (a row that
+ * stands for w identical cases) N = Σw draws of a case, each row drawn with probability w/N — the resample of the
+ * data written out one row per case, counted back onto its rows.
+ */
+export function caseDraw(
+  weights: Float64Array | null,
+): (counts: Float64Array, rng: { int(k: number): number }) => void {
+  if (!weights) {
+    return (counts, rng) => {
+      const n = counts.length;
+      for (let i = 0; i < n; i++) counts[rng.int(n)]++;
+    };
+  }
+  const n = weights.length;
+  const cumulative = new Float64Array(n);
+  let total = 0;
+  for (let i = 0; i < n; i++) cumulative[i] = total += weights[i];
+  return (counts, rng) => {
+    for (let k = 0; k < total; k++) {
+      const u = rng.int(total); // a case, 0 … N−1; its row is the first whose cumulative count exceeds it
+      let lo = 0,
+        hi = n - 1;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (cumulative[mid] > u) hi = mid;
+        else lo = mid + 1;
+      }
+      counts[lo]++;
+    }
+  };
+}
 
 /** A replicate whose data cannot support the procedure (e.g. a CV fold left with one class) counts as failed. */
 async function tryFit(
@@ -412,6 +458,19 @@ function runWarnings(failed: number, notConverged: number, total: number, what: 
   return w;
 }
 
+/**
+ * Folds are made of rows; with frequency weights (or a grouped table) a row stands for many cases, and folds of rows
+ * are not folds of cases, so cross-validation on such data is refused rather than run on the wrong unit.
+ */
+export function weightedCvError(what: string, fix: string): FulcraError {
+  return new FulcraError(
+    'cross-validation-on-weighted-rows',
+    `${what} is not offered for grouped counts or frequency-weighted rows: its folds would split rows of the table, ` +
+      'not cases.',
+    fix,
+  );
+}
+
 export interface RepeatedCvOptions {
   folds: number;
   repeats: number;
@@ -434,6 +493,7 @@ export const repeatedCvOnDesign: ValidationOnDesign<RepeatedCvOptions> = async (
   const o = { ...defaultRepeatedCvOptions, ...options };
   if (!Number.isInteger(o.repeats) || o.repeats < 1)
     throw new FulcraError('bad-repeats', `The number of repeats must be a whole number ≥ 1; got ${o.repeats}.`);
+  if (d.weights) throw weightedCvError('Repeated cross-validation', 'Use the bootstrap, which resamples cases.');
   const { n, p, X, y } = d;
   const { dev, apparent, start, rng, values: perRepeat } = await development(d, pipeline, o.seed);
   const total = o.folds * o.repeats;

@@ -57,6 +57,8 @@ export interface PipelineDesign {
   n: number;
   p: number;
   y: Float64Array;
+  /** Frequency weights of the rows (cases each stands for); null: one case per row. */
+  weights: Float64Array | null;
   columnNames: string[];
   recipe: DesignRecipe;
   warnings: EngineWarning[];
@@ -98,6 +100,7 @@ export function pipelineDesign(pipeline: Pipeline): PipelineDesign {
     n: d.n,
     p: d.p,
     y: d.y,
+    weights: d.weights,
     columnNames: d.columnNames,
     recipe: d.recipe,
     warnings: d.warnings,
@@ -150,6 +153,13 @@ export async function fitProcedure(
       const f = penalisedLogistic(problem, pen.alpha, pen.lambda, { tol: o.tol, maxIter: Math.max(o.maxIter, 100) });
       return { beta: f.coefficients, lambda: pen.lambda, converged: f.converged, cv: null };
     }
+    if (weights && d.weights)
+      throw new FulcraError(
+        'cross-validation-on-weighted-rows',
+        'Choosing λ by cross-validation is not offered for grouped counts or frequency-weighted rows: its folds ' +
+          'would split rows of the table, not cases.',
+        'Give λ a fixed value, or use maximum likelihood or Firth.',
+      );
     const cv = await crossValidateLambda(
       problem,
       pen.alpha,
@@ -237,7 +247,7 @@ function interceptOnly(y: Float64Array, weights?: Float64Array): Float64Array {
 /** Fits a pipeline on its full data and returns it as a scoring model (coefficients with the recipe). */
 export async function fitPipeline(pipeline: Pipeline, hooks?: LongRunHooks): Promise<PipelineFit> {
   const d = pipelineDesign(pipeline);
-  const f = await fitProcedure(d, pipeline, undefined, pipeline.seed, hooks);
+  const f = await fitProcedure(d, pipeline, d.weights ?? undefined, pipeline.seed, hooks);
   const a = pipeline.penalty?.alpha;
   const method: FitMethod = pipeline.penalty
     ? a === 1

@@ -2,6 +2,8 @@ import { FulcraError, sheetRow, type Dataset } from '../core/data';
 import type { FitResult } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { linearPredictorFromRecipe } from '../design/design';
+import { caseRows, saturatedDeviance, type CaseRows, type LayoutRecord } from '../design/grouped';
+import { patternFit, type PatternFit } from '../evaluation/patternFit';
 import { diagnose, leaveRowsOut, type DiagnosticsSummary, type RowDiagnostics } from '../diagnostics';
 import { evaluate, type EvaluationRecord } from '../evaluation/evaluate';
 import type { SampleSizeResult } from '../evaluation/sampleSize';
@@ -52,11 +54,18 @@ export interface AnalysisRecord {
    * records made before diagnostics existed.
    */
   diagnostics?: DiagnosticsSummary | null;
+  /**
+   * The outcome layout (yes/no per row, events and trials, events and non-events; frequency weights), the cases it
+   * stands for, both deviance conventions and goodness of fit by covariate pattern. Absent in older records.
+   */
+  layout?: LayoutRecord & { goodnessOfFit: PatternFit | null };
 }
 
 /** The apparent predictions behind the record (per row used), for callers that query cut-offs later. */
 export interface ApparentScores {
   y: Float64Array;
+  /** Frequency weights of the rows (cases each stands for), or null: one case per row. */
+  weights: Float64Array | null;
   eta: Float64Array;
   risk: Float64Array;
   rowsUsed: Int32Array;
@@ -86,13 +95,14 @@ export function apparentEvaluation(
   if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${f.recipe.outcome}" is missing.`);
   const risk = d.eta.map(sigmoid);
   const evaluation = evaluate(d.y, risk, {
+    weights: d.weights ?? undefined,
     eta: d.eta,
     level: r.level,
     rocPoints: r.rocPoints,
     costs: r.costs ?? undefined,
     threshold: r.threshold ?? undefined,
   });
-  const scores = { y: d.y, eta: d.eta, risk, rowsUsed: d.rowsUsed, prepared: evaluation.prepared! };
+  const scores = { y: d.y, weights: d.weights, eta: d.eta, risk, rowsUsed: d.rowsUsed, prepared: evaluation.prepared! };
   return { evaluation, scores };
 }
 
@@ -108,7 +118,8 @@ export async function internalValidation(
   const r = resolveRequest(request);
   const v = r.validation;
   if (!v) throw new FulcraError('bad-request', 'The request asks for no internal validation (validation is null).');
-  const pipeline = pipelineOf(analysedRows(data, r).data, r);
+  const rows = analysedRows(data, r);
+  const pipeline = pipelineOf(rows.data, rows.request);
   return v.method === 'bootstrap'
     ? bootstrapValidation(pipeline, { B: v.replicates, seed: v.seed }, hooks)
     : repeatedCrossValidation(pipeline, { folds: v.folds, repeats: v.repeats, seed: v.seed }, hooks);
@@ -125,6 +136,8 @@ export function externalValidationStep(
   development?: Dataset,
 ): ExternalRecord {
   const r = record.request;
+  data = caseRows(data, r.spec).data;
+  if (development) development = caseRows(development, r.spec).data;
   const ext = externalValidation(record.fit, data, {
     level: r.level,
     rocPoints: r.rocPoints,
@@ -142,21 +155,68 @@ export function externalValidationStep(
   return out;
 }
 
+/** The rows an analysis runs on, as the engine fits them. */
+export interface AnalysedRows {
+  /**
+   * `data` without the request's left-out rows (a copy; `data` is not changed) and, for a grouped table, written as
+   * weighted case rows (events and non-events of each table row; design/grouped.ts).
+   */
+  data: Dataset;
+  /** The index in `data` (as given) of each row fitted; null when they are the same rows. */
+  index: Int32Array | null;
+  /** The request with the specification the engine fits (0/1 outcome, frequency weights). */
+  request: AnalysisRequest;
+  cases: CaseRows;
+}
+
+/** The rows an analysis runs on: left-out rows removed, then the outcome layout turned into weighted case rows. */
+export function analysedRows(data: Dataset, r: AnalysisRequest): AnalysedRows {
+  let kept = data;
+  let index: Int32Array | null = null;
+  if (r.leaveOut.length > 0) {
+    const wanted = new Set(r.leaveOut);
+    kept = leaveRowsOut(data, r.leaveOut);
+    index = new Int32Array(kept.nRows);
+    let k = 0;
+    for (let i = 0; i < data.nRows; i++) if (!wanted.has(sheetRow(data, i))) index[k++] = i;
+  }
+  const cases = caseRows(kept, r.spec);
+  if (cases.source) {
+    const inner = cases.source;
+    const outer = index;
+    index = outer ? Int32Array.from(inner, (i) => outer[i]) : Int32Array.from(inner);
+  }
+  return { data: cases.data, index, request: { ...r, spec: cases.spec }, cases };
+}
+
 /**
- * The rows an analysis runs on: `data` without the request's left-out rows (a copy; `data` is not changed), and
- * the index in `data` of each of its rows (null when nothing is left out).
+ * The layout part of the record: cases, events, both deviance conventions and fit by covariate pattern (`scores`
+ * with rowsUsed indexing `all`, the data as given).
  */
-export function analysedRows(
-  data: Dataset,
-  r: Pick<AnalysisRequest, 'leaveOut'>,
-): { data: Dataset; index: Int32Array | null } {
-  if (r.leaveOut.length === 0) return { data, index: null };
-  const wanted = new Set(r.leaveOut);
-  const kept = leaveRowsOut(data, r.leaveOut);
-  const index = new Int32Array(kept.nRows);
-  let k = 0;
-  for (let i = 0; i < data.nRows; i++) if (!wanted.has(sheetRow(data, i))) index[k++] = i;
-  return { data: kept, index };
+function layoutRecord(rows: AnalysedRows, f: FitResult, scores: ApparentScores, all: Dataset) {
+  const { cases } = rows;
+  const k = f.coefficients.filter((c) => !c.aliased).length;
+  let deviance: LayoutRecord['deviance'] = null;
+  if (cases.table && f.method !== 'lasso' && f.method !== 'elastic-net') {
+    const saturated = saturatedDeviance(cases.table.events, cases.table.trials);
+    deviance = {
+      perCase: f.deviance,
+      grouped: f.deviance - saturated,
+      groupedDf: cases.table.rows.length - k,
+      saturated,
+    };
+  }
+  const weighted = scores.weights !== null;
+  const goodnessOfFit = weighted ? patternFit(all, f, scores) : null;
+  return {
+    ...cases.layout,
+    tableRowsUsed: cases.layout.tableRowsUsed ?? f.rowsFitted ?? f.nUsed,
+    cases: f.nUsed,
+    events: f.events,
+    nonEvents: f.nonEvents,
+    deviance,
+    goodnessOfFit,
+  };
 }
 
 function leftOutWarning(r: AnalysisRequest): EngineWarning {
@@ -187,7 +247,7 @@ export async function runAnalysis(
   const all = data;
   const rows = analysedRows(all, r);
   data = rows.data;
-  const step = fitted ?? (await fitStep(data, r, hooks));
+  const step = fitted ?? (await fitStep(data, rows.request, hooks));
   const { evaluation, scores } = apparentEvaluation(data, step.fit, r);
   const diag = diagnose(step.fit, data);
   if (rows.index) {
@@ -208,11 +268,13 @@ export async function runAnalysis(
     external: null,
     warnings: dedupe([
       ...(r.leaveOut.length > 0 ? [leftOutWarning(r)] : []),
+      ...rows.cases.warnings,
       ...step.fit.warnings,
       ...step.warnings,
       ...evaluation.warnings,
     ]),
     diagnostics: diag.summary,
+    layout: layoutRecord(rows, step.fit, scores, all),
   };
   if (r.validation) record.validation = await internalValidation(all, r, hooks);
   if (testData) record.external = externalValidationStep(record, testData, data);

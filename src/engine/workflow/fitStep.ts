@@ -164,7 +164,7 @@ export function penalisedRecord(
 ): FitResult {
   const d = linearPredictorFromRecipe(base.recipe, beta, data);
   if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${base.recipe.outcome}" is missing.`);
-  const logLik = -sumCrossEntropy(d.eta, d.y);
+  const logLik = -sumCrossEntropy(d.eta, d.y, d.weights ?? undefined);
   const nonzero = beta.slice(1).filter((b) => b !== 0).length;
   const none = { se: null, z: null, p: null, waldLower: null, waldUpper: null, profileLower: null, profileUpper: null };
   return {

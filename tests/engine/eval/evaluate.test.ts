@@ -49,13 +49,28 @@ describe('evaluate', () => {
       Math.min(...r.costs!.curve.costPer100) + 1e-12,
     );
   });
-  it('leaves out the DeLong interval and Hosmer–Lemeshow with a warning when case weights are given', () => {
+  it('with whole-number (frequency) weights: DeLong interval and Hosmer–Lemeshow of the cases written out', () => {
+    // common practice: a row of weight w is w identical cases; the written-out data are the reference
     const r = evaluate(d.y, d.p, { weights: d.w });
+    const idx = Array.from(d.w).flatMap((w, i) => new Array<number>(w).fill(i));
+    const one = evaluate(
+      Float64Array.from(idx, (i) => d.y[i]),
+      Float64Array.from(idx, (i) => d.p[i]),
+    );
+    expect(r.n).toBe(idx.length);
+    expect(Math.abs(r.auc.auc! - one.auc.auc!)).toBeLessThan(1e-14);
+    expect(Math.abs(r.auc.lower! - one.auc.lower!)).toBeLessThan(1e-12);
+    expect(Math.abs(r.auc.upper! - one.auc.upper!)).toBeLessThan(1e-12);
+    expect(Math.abs(r.hosmerLemeshow!.statistic! - one.hosmerLemeshow!.statistic!)).toBeLessThan(1e-9);
+    expect(r.warnings.map((w) => w.code)).not.toContain('weights-no-delong');
+    expect(Math.abs(r.brier.brier! - ref.brierWeighted.brier)).toBeLessThan(1e-14);
+  });
+  it('leaves out the DeLong interval and Hosmer–Lemeshow with a warning when weights are not whole numbers', () => {
+    const r = evaluate(d.y, d.p, { weights: d.w.map((w) => w / 2) });
     expect(r.auc.lower).toBeNull();
     expect(r.auc.auc).toBeGreaterThan(0.5);
     expect(r.hosmerLemeshow).toBeNull();
     expect(r.warnings.map((w) => w.code)).toEqual(expect.arrayContaining(['weights-no-delong', 'weights-no-hl']));
-    expect(Math.abs(r.brier.brier! - ref.brierWeighted.brier)).toBeLessThan(1e-14);
   });
   const cases: [string, number[], number[], string][] = [
     ['all risks tied', [0, 1, 0, 1, 0, 0], [0.3, 0.3, 0.3, 0.3, 0.3, 0.3], 'scores-all-tied'],
