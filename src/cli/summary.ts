@@ -55,15 +55,15 @@ export function summarise(r: FitRun): string {
     );
   else
     out.push(
-    `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
-      f.nDropped
-        ? ': ' +
-          Object.entries(f.droppedByColumn)
-            .map(([c, k]) => `${c} ${k}`)
-            .join(', ')
-        : ''
-    })`,
-  );
+      `Rows used: ${f.nUsed} (${f.nDropped} dropped for missing values${
+        f.nDropped
+          ? ': ' +
+            Object.entries(f.droppedByColumn)
+              .map(([c, k]) => `${c} ${k}`)
+              .join(', ')
+          : ''
+      })`,
+    );
   out.push(
     `Events: ${f.events}, non-events: ${f.nonEvents}; ${f.parameters} parameters; ` +
       `events per parameter ${fmt(f.eventsPerParameter, 1)} (the smaller class)`,
