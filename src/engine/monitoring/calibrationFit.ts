@@ -7,6 +7,7 @@ import { qnorm } from '../numerics/distributions';
  * milliseconds; the same maximum-likelihood estimates and Wald intervals as evaluation/calibration.ts
  * calibrationRegression (checked in tests/engine/monitoring/monitor.test.ts). Cases [from, to); null when the
  * cases are all events or all non-events, or Newton does not converge in 50 steps. `start`: α to start from.
+ * `expNeg`: e^−η per case when the caller has it (then a step needs no exponential: e^−(η+α) = e^−η·e^−α).
  */
 export function citlFit(
   y: Float64Array,
@@ -15,6 +16,7 @@ export function citlFit(
   from = 0,
   to = y.length,
   start = 0,
+  expNeg?: Float64Array,
 ): IntervalEstimate | null {
   let ev = 0;
   for (let i = from; i < to; i++) ev += y[i];
@@ -23,11 +25,19 @@ export function citlFit(
   for (let it = 0; it < 50; it++) {
     let g = 0,
       h = 0;
-    for (let i = from; i < to; i++) {
-      const p = 1 / (1 + Math.exp(-(eta[i] + a)));
-      g += y[i] - p;
-      h += p * (1 - p);
-    }
+    if (expNeg) {
+      const ea = Math.exp(-a);
+      for (let i = from; i < to; i++) {
+        const p = 1 / (1 + expNeg[i] * ea);
+        g += y[i] - p;
+        h += p * (1 - p);
+      }
+    } else
+      for (let i = from; i < to; i++) {
+        const p = 1 / (1 + Math.exp(-(eta[i] + a)));
+        g += y[i] - p;
+        h += p * (1 - p);
+      }
     const step = Math.max(-5, Math.min(5, g / h));
     a += step;
     // At a step below 1e-10 the information at the previous iterate equals that at the estimate to ~1e-10.

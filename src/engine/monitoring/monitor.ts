@@ -54,21 +54,65 @@ function unitGroups(unit: Int32Array, k: number): Int32Array[] {
 const SIMULATION_POOL = 65_536;
 
 /**
- * The risks the simulation draws cases from: all of them, or beyond SIMULATION_POOL a seeded sample with
- * replacement (itself a draw from the empirical distribution), small enough to stay in the processor's cache.
+ * The risks the simulation draws cases from, with each one's log-likelihood-ratio term y·log R − W (from the chart's
+ * weights `w` and the outcomes): all of them, or beyond SIMULATION_POOL a seeded sample with replacement (itself a
+ * draw from the empirical distribution), small enough to stay in the processor's cache. The terms are computed for
+ * the drawn cases only.
  */
-function simulationPool(p: Float64Array, logTerm: Float64Array, seed: number) {
+function simulationPool(p: Float64Array, y: Float64Array, w: Float64Array, logR: number, seed: number) {
   const n = p.length;
-  if (n <= SIMULATION_POOL) return { p, logTerm };
-  const rng = createRng(seed ^ 0x5bd1e995);
-  const sp = new Float64Array(SIMULATION_POOL),
-    sl = new Float64Array(SIMULATION_POOL);
-  for (let i = 0; i < SIMULATION_POOL; i++) {
-    const k = rng.int(n);
-    sp[i] = p[k];
-    sl[i] = logTerm[k];
+  const m = Math.min(n, SIMULATION_POOL);
+  const rng = n > SIMULATION_POOL ? createRng(seed ^ 0x5bd1e995) : null;
+  const sp = rng ? new Float64Array(m) : p,
+    sl = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    const k = rng ? rng.int(n) : i;
+    if (rng) sp[i] = p[k];
+    sl[i] = y[k] * logR - w[k];
   }
   return { p: sp, logTerm: sl };
+}
+
+/** Each unit's cases in case order: their dates (one gather, shared by both charts). */
+interface UnitCases {
+  groups: Int32Array[];
+  dates: Float64Array[];
+}
+
+function unitCases(cases: MonitoringCases): UnitCases | null {
+  if (!cases.unit) return null;
+  const groups = unitGroups(cases.unit, cases.unitLevels.length);
+  const dates = groups.map((idx) => {
+    const d = new Float64Array(idx.length);
+    for (let k = 0; k < idx.length; k++) d[k] = cases.date[idx[k]];
+    return d;
+  });
+  return { groups, dates };
+}
+
+/**
+ * Every unit's own CUSUM in one pass over the cases in case order (the same sums, restarts and signals as running
+ * runCusumWeights on each unit's weights): each unit's values land in its own array, no gathers.
+ */
+function unitCharts(w: Float64Array, unit: Int32Array, units: UnitCases, h: number, sign: 1 | -1) {
+  const k = units.groups.length;
+  const values = units.groups.map((g) => new Float64Array(g.length));
+  const signals: number[][] = Array.from({ length: k }, () => []);
+  const x = new Float64Array(k);
+  const pos = new Int32Array(k);
+  for (let i = 0; i < w.length; i++) {
+    const u = unit[i];
+    let v = x[u] + w[i];
+    if (v < 0) v = 0;
+    const t = pos[u]++;
+    values[u][t] = sign * v;
+    if (v >= h) {
+      signals[u].push(t);
+      v = 0;
+    }
+    x[u] = v;
+  }
+  return { values, signals };
 }
 
 function chart(
@@ -77,7 +121,7 @@ function chart(
   o: MonitoringOptions,
   seed: number,
   warnings: EngineWarning[],
-  groups: Int32Array[] | null,
+  units: UnitCases | null,
 ): CusumChart {
   const oddsRatio = o.oddsRatio[direction];
   const sign = direction === 'deteriorate' ? 1 : -1;
@@ -85,8 +129,6 @@ function chart(
   const { h, arl0 } = cusumLimit(dist, o.targetArl0, o.markovStates);
   const w = cusumWeights(cases.y, cases.risk, oddsRatio);
   const logR = Math.log(oddsRatio);
-  const logTerm = new Float64Array(w.length);
-  for (let i = 0; i < w.length; i++) logTerm[i] = cases.y[i] * logR - w[i];
   const run = runCusumWeights(w, h, sign);
   const runs = Math.max(20, Math.min(o.simulationRuns, Math.floor(SIMULATION_BUDGET / o.targetArl0)));
   if (runs < o.simulationRuns)
@@ -98,7 +140,7 @@ function chart(
         'Read the simulated run length with its Monte-Carlo standard error.',
       ),
     );
-  const pool = simulationPool(cases.risk, logTerm, seed);
+  const pool = simulationPool(cases.risk, cases.y, w, logR, seed);
   const sim = simulateArl(pool.p, oddsRatio, h, runs, seed, Math.ceil(20 * o.targetArl0), pool.logTerm);
   const signals = run.signals.map((t) => ({
     case: t + 1,
@@ -109,31 +151,27 @@ function chart(
     value: run.values[t],
   }));
   let byUnit: CusumChart['byUnit'] = null;
-  if (groups) {
+  if (units && cases.unit) {
+    const per = unitCharts(w, cases.unit, units, h, sign);
     byUnit = cases.unitLevels.flatMap((name, u) => {
-      const idx = groups[u];
+      const idx = units.groups[u];
       if (idx.length === 0) return [];
-      const wu = new Float64Array(idx.length),
-        d = new Float64Array(idx.length);
-      for (let k = 0; k < idx.length; k++) {
-        wu[k] = w[idx[k]];
-        d[k] = cases.date[idx[k]];
-      }
-      const r = runCusumWeights(wu, h, sign);
+      const values = per.values[u],
+        d = units.dates[u];
       return [
         {
           unit: name,
           n: idx.length,
-          path: decimatePath(r.values, d, Math.max(100, Math.floor(o.drawPoints / 4))),
-          signals: r.signals.map((t) => ({
+          path: decimatePath(values, d, Math.max(100, Math.floor(o.drawPoints / 4))),
+          signals: per.signals[u].map((t) => ({
             case: t + 1,
             date: d[t],
             dateLabel: dayLabel(d[t]),
             unit: name,
             row: cases.row[idx[t]],
-            value: r.values[t],
+            value: values[t],
           })),
-          final: r.values[idx.length - 1],
+          final: values[idx.length - 1],
         },
       ];
     });
@@ -181,12 +219,15 @@ export function monitorCases(
   let o = 0,
     e = 0;
   const vlad = new Float64Array(n);
+  const expNeg = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     o += y[i];
     e += risk[i];
     vlad[i] = o - e;
+    expNeg[i] = Math.exp(-eta[i]);
   }
-  const citl = citlFit(y, eta, level);
+  // started at log(O/E), close to α when the risks are small
+  const citl = citlFit(y, eta, level, 0, n, o > 0 && e > 0 ? Math.log(o / e) : 0, expNeg);
   const slope = slopeFit(y, eta, level);
   if (!citl || !slope)
     warnings.push(
@@ -236,10 +277,10 @@ export function monitorCases(
       );
   }
 
-  const groups = cases.unit ? unitGroups(cases.unit, cases.unitLevels.length) : null;
-  const deteriorate = chart(cases, 'deteriorate', options, options.seed, warnings, groups);
-  const improve = chart(cases, 'improve', options, options.seed + 1, warnings, groups);
-  const periods = periodTable(y, eta, risk, date, options.period, level, citl?.estimate ?? 0);
+  const units = unitCases(cases);
+  const deteriorate = chart(cases, 'deteriorate', options, options.seed, warnings, units);
+  const improve = chart(cases, 'improve', options, options.seed + 1, warnings, units);
+  const periods = periodTable(y, eta, risk, date, options.period, level, citl?.estimate ?? 0, expNeg);
   if (periods.length < 2)
     warnings.push(
       warning(

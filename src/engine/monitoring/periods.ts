@@ -49,6 +49,7 @@ export function periodTable(
   period: MonitoringPeriod,
   level: number,
   start = 0,
+  expNeg?: Float64Array,
 ): MonitoringPeriodRow[] {
   return periodRanges(date, period).map((r) => {
     let o = 0,
@@ -66,7 +67,7 @@ export function periodTable(
       expected: e,
       oe: observedExpectedRatio(o, e, level),
       oMinusE: o - e,
-      citl: citlFit(y, eta, level, r.from, r.to, start),
+      citl: citlFit(y, eta, level, r.from, r.to, start, expNeg),
     };
   });
 }

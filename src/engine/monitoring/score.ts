@@ -38,8 +38,24 @@ export function unitsFromColumn(data: Dataset, name: string): UnitCodes {
   return { codes, levels };
 }
 
-function missing(col: Column, r: number): boolean {
-  return col.kind === 'numeric' ? Number.isNaN(col.values[r]) : col.codes[r] < 0;
+/** Sets `why[r] = code` (and the column index) on each still-scored row where `col` is missing. */
+function markMissing(col: Column, why: Uint8Array, code: number, whyColumn: Int32Array, j: number): void {
+  const n = why.length;
+  if (col.kind === 'numeric') {
+    const v = col.values;
+    for (let r = 0; r < n; r++)
+      if (v[r] !== v[r] && why[r] === 0) {
+        why[r] = code;
+        whyColumn[r] = j;
+      }
+  } else {
+    const c = col.codes;
+    for (let r = 0; r < n; r++)
+      if (c[r] < 0 && why[r] === 0) {
+        why[r] = code;
+        whyColumn[r] = j;
+      }
+  }
 }
 
 function textOf(col: Column, r: number): string | null {
@@ -97,32 +113,42 @@ export function scoreMonitoring(
     byReason[reason]++;
     if (unscored.length < UNSCORED_LISTED) unscored.push({ row: sheetRow(data, r), reason, column, value });
   };
-  rows: for (let r = 0; r < data.nRows; r++) {
-    if (!Number.isFinite(dates[r])) {
-      skip(r, 'missing-date', names.date);
-      continue;
+  // One tight pass per column, in the order the reasons are checked (date, outcome, unit, each predictor, each
+  // category), so that every row keeps its first reason; then one pass lists the unscored rows and keeps the rest.
+  const N = data.nRows;
+  const why = new Uint8Array(N); // 0: scored; else 1 + index in REASONS
+  const whyColumn = new Int32Array(N);
+  for (let r = 0; r < N; r++) if (!Number.isFinite(dates[r])) why[r] = 1;
+  markMissing(outcome, why, 2, whyColumn, 0);
+  if (units) for (let r = 0; r < N; r++) if (why[r] === 0 && units.codes[r] < 0) why[r] = 3;
+  predictors.forEach((c, j) => markMissing(c, why, 4, whyColumn, j));
+  categorical.forEach((c, j) => {
+    const ok = known.get(c.name)!;
+    if (c.kind === 'categorical') {
+      const knownCode = Uint8Array.from(c.levels, (l) => (ok.has(l) ? 1 : 0));
+      for (let r = 0; r < N; r++)
+        if (why[r] === 0 && knownCode[c.codes[r]] === 0) {
+          why[r] = 5;
+          whyColumn[r] = j;
+        }
+    } else
+      for (let r = 0; r < N; r++)
+        if (why[r] === 0 && !ok.has(textOf(c, r)!)) {
+          why[r] = 5;
+          whyColumn[r] = j;
+        }
+  });
+  for (let r = 0; r < N; r++) {
+    const w = why[r];
+    if (w === 0) keep[k++] = r;
+    else if (w === 1) skip(r, 'missing-date', names.date);
+    else if (w === 2) skip(r, 'missing-outcome', outcome.name);
+    else if (w === 3) skip(r, 'missing-unit', names.unit ?? '(unit)');
+    else if (w === 4) skip(r, 'missing-value', predictors[whyColumn[r]].name);
+    else {
+      const c = categorical[whyColumn[r]];
+      skip(r, 'unknown-category', c.name, textOf(c, r));
     }
-    if (missing(outcome, r)) {
-      skip(r, 'missing-outcome', outcome.name);
-      continue;
-    }
-    if (units && units.codes[r] < 0) {
-      skip(r, 'missing-unit', names.unit ?? '(unit)');
-      continue;
-    }
-    for (const c of predictors)
-      if (missing(c, r)) {
-        skip(r, 'missing-value', c.name);
-        continue rows;
-      }
-    for (const c of categorical) {
-      const v = textOf(c, r)!;
-      if (!known.get(c.name)!.has(v)) {
-        skip(r, 'unknown-category', c.name, v);
-        continue rows;
-      }
-    }
-    keep[k++] = r;
   }
   const enc = linearPredictorFromRecipe(
     recipe,
@@ -146,6 +172,9 @@ export function scoreMonitoring(
     row = new Int32Array(n);
   const unit = units ? new Int32Array(n) : null;
   const ey = enc.y!;
+  // sheetRow(data, r), without a call per case
+  const listed = data.rowNumbers ?? null;
+  const first = data.firstRow ?? 2;
   for (let i = 0; i < n; i++) {
     const j = order[i],
       r = src[j];
@@ -153,7 +182,7 @@ export function scoreMonitoring(
     eta[i] = enc.eta[j];
     risk[i] = sigmoid(enc.eta[j]);
     date[i] = dates[r];
-    row[i] = sheetRow(data, r);
+    row[i] = listed ? listed[r] : first + r;
     if (unit) unit[i] = units!.codes[r];
   }
   return {
