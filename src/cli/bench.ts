@@ -114,8 +114,8 @@ async function main(): Promise<void> {
     m.push(monitoringCost(q ? 1e5 : 1e6, o.seed));
     log('· the whole job: npm run fit and R, each a fresh process');
     const small = ensureSynth(o.out, 1e4, 20, o.seed);
-    m.push(...wholeJob(small.csv, 1e4, 20, o.references));
-    if (!q) m.push(...wholeJob(ensureSynth(o.out, 1e5, 50, o.seed).csv, 1e5, 50, false));
+    m.push(...wholeJob(small.csv, 1e4, 20, o.references, o.references));
+    if (!q) m.push(...wholeJob(ensureSynth(o.out, 1e5, 50, o.seed).csv, 1e5, 50, false, o.references));
     log('· per-row diagnostics');
     m.push(diagnosticsCost(o.out, 1e5, 50, o.seed));
     if (!q) m.push(diagnosticsCost(o.out, 1e6, 50, o.seed));

@@ -8,9 +8,12 @@ import type { Measurement } from './extras';
  * built command line, `node .ci/cli.mjs fit`) on the synthetic CSV — reading it, the fit, profile-likelihood
  * limits and term tests where the size rule keeps them, the apparent evaluation and the printed JSON record —
  * and, when Rscript is installed, R reading the same CSV and running glm + confint (profile) + drop1 (LR tests)
- * (reference/glm_whole.R). Wall seconds; the child's CPU seconds come from the operating system's accounting.
+ * (reference/glm_whole.R), and, when Debian's /usr/bin/python3 has pandas with scikit-learn or statsmodels, what
+ * an analyst would run there: read_csv plus LogisticRegression (estimates only), or plus statsmodels Logit and its
+ * summary (Wald intervals, no profile limits or term tests) (reference/pandas_whole.py). Wall seconds; the child's
+ * CPU seconds come from the operating system's accounting.
  */
-export function wholeJob(csv: string, n: number, p: number, withR: boolean): Measurement[] {
+export function wholeJob(csv: string, n: number, p: number, withR: boolean, withPython = true): Measurement[] {
   const out: Measurement[] = [];
   // An up-to-date build first, so the timed run measures the command, not its one-off build.
   spawnSync('node', ['.ci/cli.mjs', 'fit', '--help'], { stdio: 'ignore' });
@@ -42,7 +45,28 @@ export function wholeJob(csv: string, n: number, p: number, withR: boolean): Mea
         detail: `read.csv, glm, profile intervals (MASS), LR test per term: ${r.stdout.trim()}`,
       });
   }
+  if (withPython && existsSync(PY))
+    for (const [mode, label, what] of [
+      ['sklearn', 'pandas + scikit-learn', 'read_csv, LogisticRegression newton-cholesky: estimates only'],
+      ['statsmodels', 'pandas + statsmodels Logit', 'read_csv, Logit Newton + summary: Wald intervals only'],
+    ] as const) {
+      const name = `${label}, whole process, at ${n} × ${p}`;
+      if (!pythonHas(mode)) {
+        out.push({ name, value: NaN, unit: 's', detail: `not run: ${PY} has no pandas or ${mode}` });
+        continue;
+      }
+      const r = timed(PY, [join(process.cwd(), 'src', 'cli', 'bench', 'reference', 'pandas_whole.py'), mode, csv]);
+      if ('error' in r) out.push(failed(name, r.error));
+      else out.push({ name, value: r.wall, unit: 's', cpuSeconds: r.cpu, detail: `${what} (${r.stdout.trim()})` });
+    }
   return out;
+}
+
+const PY = '/usr/bin/python3';
+
+/** Whether Debian's Python can import pandas and the library `mode` names. */
+function pythonHas(mode: 'sklearn' | 'statsmodels'): boolean {
+  return spawnSync(PY, ['-c', `import pandas, ${mode}`], { stdio: 'ignore' }).status === 0;
 }
 
 function failed(name: string, error: string): Measurement {
