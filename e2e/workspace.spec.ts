@@ -131,12 +131,13 @@ test('the model-summary PDF has its sections and the AUC and odds ratios the pag
   expect(text).toMatch(/Positive likelihood ratio\s+\d+\.\d+ \(95% CI \d+\.\d+ to \d+\.\d+, log method\)/);
   if (process.env.FULCRA_KEEP_PDF) await download.saveAs(process.env.FULCRA_KEEP_PDF);
 
-  execFileSync('pdftoppm', ['-r', '50', '-png', '-f', '1', '-l', '1', pdf, join(dir, 'page')]);
-  const png = join(dir, 'page-1.png');
+  // -singlefile: one page, named page.png whatever the page count (pdftoppm pads page numbers to the count's width)
+  execFileSync('pdftoppm', ['-r', '50', '-png', '-f', '1', '-l', '1', '-singlefile', pdf, join(dir, 'page')]);
+  const png = join(dir, 'page.png');
   // A blank A4 page at 50 dpi is a ~1 KB PNG; text and tables make it many times larger.
   expect(statSync(png).size).toBeGreaterThan(15_000);
-  execFileSync('pdftoppm', ['-r', '50', '-gray', '-f', '1', '-l', '1', pdf, join(dir, 'gray')]);
-  const pgm = readFileSync(join(dir, 'gray-1.pgm'));
+  execFileSync('pdftoppm', ['-r', '50', '-gray', '-f', '1', '-l', '1', '-singlefile', pdf, join(dir, 'gray')]);
+  const pgm = readFileSync(join(dir, 'gray.pgm'));
   const header = pgm
     .subarray(0, 40)
     .toString('latin1')

@@ -13,6 +13,8 @@ export interface ReportRecords {
   source: ReportInput['source'];
   freeText?: ReportInput['freeText'];
   fit: FitResult;
+  /** The outcome layout of the analysis (tables of counts, frequency weights). */
+  layout?: ReportInput['layout'];
   /** evaluate() on the development data (apparent performance, plots, threshold). */
   evaluation?: EvaluationRecord;
   /** bootstrapValidation() or repeatedCrossValidation(). */
@@ -35,6 +37,8 @@ export interface ReportRecords {
   monitoring?: ReportInput['monitoring'];
   /** Influential rows (the record's diagnostics summary, the rows left out, Cook's distance by row for the plot). */
   diagnostics?: ReportInput['diagnostics'];
+  /** The bedside points score, when one was built for this fit. */
+  points?: ReportInput['points'];
   /** Odds ratios per these units, by numeric predictor (the page's choice). */
   oddsUnits?: ReportInput['oddsUnits'];
 }
@@ -53,6 +57,7 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
     source: r.source,
     freeText: r.freeText,
     model: r.fit,
+    layout: r.layout,
     lambdaChoice: r.lambdaChoice,
     missingData: r.missingData,
     imputation: r.imputation,
@@ -144,6 +149,7 @@ export function reportInputFromRecords(r: ReportRecords): ReportInput {
   if (r.external) input.external = externalSummary(r.external, r.fit.level);
   if (r.monitoring) input.monitoring = r.monitoring;
   if (r.diagnostics) input.diagnostics = r.diagnostics;
+  if (r.points) input.points = r.points;
   const s = r.sampleSize;
   if (s) {
     input.sampleSize = {

@@ -46,18 +46,21 @@ export function dataSection(L: PdfLayout, input: ReportInput): void {
   ];
   if (s.dateRange)
     rows.push(['Date range', `${s.dateRange.from} to ${s.dateRange.to} (column "${s.dateRange.column}")`]);
-  rows.push(
-    ['Outcome', `"${m.recipe.outcome}"; the event is "${m.recipe.event}"`],
-    [
-      'Rows used',
-      `${formatCount(m.nUsed)}: ${formatCount(m.events)} ${m.events === 1 ? 'event' : 'events'} ` +
-        `(${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
-    ],
-    [
-      'Rows left out',
-      m.nDropped === 0 ? 'none' : `${formatCount(m.nDropped)} with a missing value in the outcome or a predictor`,
-    ],
-  );
+  const lay = input.layout;
+  if (lay && (lay.kind !== 'binary' || lay.weights)) rows.push(...layoutRows(lay, m));
+  else
+    rows.push(
+      ['Outcome', `"${m.recipe.outcome}"; the event is "${m.recipe.event}"`],
+      [
+        'Rows used',
+        `${formatCount(m.nUsed)}: ${formatCount(m.events)} ${m.events === 1 ? 'event' : 'events'} ` +
+          `(${formatPercent(m.nUsed > 0 ? m.events / m.nUsed : NaN)}) and ${formatCount(m.nonEvents)} non-events`,
+      ],
+      [
+        'Rows left out',
+        m.nDropped === 0 ? 'none' : `${formatCount(m.nDropped)} with a missing value in the outcome or a predictor`,
+      ],
+    );
   const dropped = Object.entries(m.droppedByColumn).filter(([, n]) => n > 0);
   if (dropped.length > 0)
     rows.push(['Missing by column', dropped.map(([c, n]) => `${c}: ${formatCount(n)}`).join('; ')]);
@@ -385,4 +388,41 @@ export function imputation(L: PdfLayout, input: ReportInput): void {
   L.paragraph('FMI: fraction of missing information. Intervals: Wald with Barnard\u2013Rubin degrees of freedom.', {
     size: 8.5,
   });
+}
+
+/** The data-and-outcome rows of a table of counts or frequency-weighted rows: what was counted and how. */
+function layoutRows(lay: NonNullable<ReportInput['layout']>, m: ReportInput['model']): [string, string][] {
+  const out: [string, string][] = [];
+  out.push([
+    'Outcome',
+    lay.kind === 'binary'
+      ? `"${m.recipe.outcome}"; the event is "${m.recipe.event}"; each row weighted by "${lay.weights}"`
+      : `events "${lay.outcome}" ${lay.kind === 'events-trials' ? 'out of the trials' : 'with the non-events'} ` +
+        `"${lay.counts}" per row${lay.weights ? `, each row weighted by "${lay.weights}"` : ''}`,
+  ]);
+  out.push([
+    'Cases used',
+    `${formatCount(lay.cases)} from ${formatCount(lay.tableRowsUsed)} of ${formatCount(lay.tableRows)} rows: ` +
+      `${formatCount(lay.events)} events (${formatPercent(lay.cases > 0 ? lay.events / lay.cases : NaN)}) and ` +
+      `${formatCount(lay.nonEvents)} non-events`,
+  ]);
+  out.push(['Counting', lay.convention]);
+  if (lay.deviance)
+    out.push([
+      'Deviance',
+      `per case ${lay.deviance.perCase.toFixed(2)} (AIC and BIC use it); grouped ${lay.deviance.grouped.toFixed(2)} ` +
+        `on ${lay.deviance.groupedDf} df, relative to the saturated model of the table rows; they differ by a ` +
+        'constant and give the same likelihood-ratio tests',
+    ]);
+  const g = lay.goodnessOfFit;
+  if (g)
+    out.push([
+      'Fit by covariate pattern',
+      `${formatCount(g.patterns)} patterns, ${g.df} df: Pearson \u03c7\u00b2 ${g.pearson.toFixed(2)}, p ` +
+        `${formatP(g.pearsonP)}; deviance \u03c7\u00b2 ${g.deviance.toFixed(2)}, p ${formatP(g.devianceP)}` +
+        (g.reliable
+          ? ''
+          : ` — not trustworthy: ${Math.round(g.smallExpectedShare * 100)} % of the expected counts are below 5`),
+    ]);
+  return out;
 }

@@ -1,6 +1,6 @@
 import type { Dataset } from '../engine/core';
 import { generateDemo, type DemoId } from '../engine/demo';
-import { proposeOutcomeEvent } from '../io';
+import { proposeCountLayout, proposeOutcomeEvent } from '../io';
 import type { ColumnInfo, ImportResult } from '../io/types';
 import { MAX_LEVELS, profileColumn, viewBins } from './profile';
 import type { CautionSetting } from '../report';
@@ -8,7 +8,7 @@ import type { ColumnView, DataSummary } from './protocol';
 import type { Session } from './session';
 
 /** The setting each invented demo stands for: a surgical registry, a packaging plant. */
-const DEMO_CAUTIONS: Record<DemoId, CautionSetting> = { ssi: 'clinical', seals: 'quality' };
+const DEMO_CAUTIONS: Record<DemoId, CautionSetting> = { ssi: 'clinical', seals: 'quality', 'ssi-counts': 'clinical' };
 
 /** Loads an invented demo into the session. */
 export function loadDemo(s: Session, id: DemoId): DataSummary {
@@ -34,6 +34,7 @@ export function loadImported(s: Session, result: ImportResult, kind: 'file' | 'p
     columns,
     warnings: result.warnings,
     suggestedSpec: null,
+    countLayout: proposeCountLayout(result.dataset),
     truth: null,
     format: result.format,
     firstRow: result.dataset.firstRow ?? 2,
@@ -54,6 +55,7 @@ export function loadHeld(s: Session, data: Dataset, summary: DataSummary | null,
       columns: data.columns.map((c) => ({ ...profileColumn(c), proposedEvent: proposedEvent(c) })),
       warnings: [],
       suggestedSpec: null,
+      countLayout: proposeCountLayout(data),
       truth: null,
       format: null,
       firstRow: data.firstRow ?? 2,

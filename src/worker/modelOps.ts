@@ -38,6 +38,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks, fitted
     typical: typicalValues(data, record.fit, scores.rowsUsed),
     rowsUsed: n,
     threads: n > CHUNK_ROWS ? rowPoolThreads() : 1,
+    layout: record.layout ?? null,
     warnings: record.warnings,
   };
 }

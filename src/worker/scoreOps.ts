@@ -62,6 +62,36 @@ function subset(data: Dataset, keep: Int32Array): Dataset {
 const rowList = (rows: number[], total: number) => rows.slice(0, FIRST).join(', ') + (total > FIRST ? ', …' : '');
 
 /**
+ * Expected events per scored row (trials × risk) when the model was fitted on a table of counts and the file has
+ * its counts (trials, or events and non-events); null otherwise.
+ */
+function expectedEvents(
+  recipe: FitResult['recipe'],
+  data: Dataset,
+  rowsUsed: Int32Array,
+  risk: Float64Array,
+): Float64Array | null {
+  const layout = recipe.layout;
+  if (!layout || layout.kind === 'binary') return null;
+  const col = (name: string) => data.columns.find((c) => c.name === name);
+  const value = (name: string) => {
+    const c = col(name);
+    if (!c) return null;
+    return (r: number) => (c.kind === 'numeric' ? c.values[r] : c.codes[r] < 0 ? NaN : Number(c.levels[c.codes[r]]));
+  };
+  const trials =
+    layout.kind === 'events-trials'
+      ? value(layout.trials)
+      : (() => {
+          const e = value(recipe.outcome);
+          const ne = value(layout.nonEvents);
+          return e && ne ? (r: number) => e(r) + ne(r) : null;
+        })();
+  if (!trials) return null;
+  return Float64Array.from(rowsUsed, (row, i) => trials(row) * risk[i]);
+}
+
+/**
  * Scores every complete row of an imported file. Rows with a missing predictor, or with a category the model was
  * not fitted with, are skipped and reported by spreadsheet row; scored rows with a numeric value outside the fitted
  * data are counted, named, and marked in the CSV's `outside_data` column.
@@ -82,10 +112,11 @@ export function scoreImported(s: Session, imported: ImportResult, threshold: num
     ranges.filter((c) => c.values[row] < c.min || c.values[row] > c.max).map((c) => c.name),
   );
   const hasCi = r.lower.some((x) => !Number.isNaN(x));
+  const expected = expectedEvents(f.recipe, data, rowsUsed, r.risk);
   const csvParts = [
     ...predictionsCsvChunks(
       data,
-      { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed, outside },
+      { risk: r.risk, lower: hasCi ? r.lower : null, upper: hasCi ? r.upper : null, rowsUsed, outside, expected },
       { threshold, level: f.level },
     ),
   ];
@@ -138,6 +169,7 @@ export function scoreImported(s: Session, imported: ImportResult, threshold: num
       upper: r.upper[i],
     })),
     outsideRows,
+    expectedEvents: expected ? expected.reduce((a, b) => (Number.isNaN(b) ? a : a + b), 0) : null,
     outsideFirst,
     unknownRows: unknown.size,
     unknownFirst,

@@ -1,5 +1,5 @@
 import { lossSurface as engineLossSurface } from '../engine/fitting';
-import { externalValidationStep, internalValidation, type AnalysisRequest } from '../engine/workflow';
+import { analysedRows, externalValidationStep, internalValidation, type AnalysisRequest } from '../engine/workflow';
 import type { ImportResult } from '../io/types';
 import { SAME_CASES_CODE } from '../engine/validation';
 import { toView } from './performance';
@@ -51,7 +51,9 @@ export function lossSurface(
   const method = requireRecord(s).request.method;
   const ridgeOnly = method === 'ridge' || method === 'ml' || method === 'firth';
   const span = choice.window === 'estimate' ? 4 : 3;
-  const r = engineLossSurface(ridgeOnly ? f : { ...f, method: 'ml' }, requireData(s), {
+  // on the rows the model was fitted on: a table of counts as its weighted case rows
+  const fitted = analysedRows(requireData(s), requireRecord(s).request).data;
+  const r = engineLossSurface(ridgeOnly ? f : { ...f, method: 'ml' }, fitted, {
     i: a,
     j: b,
     grid: 41,

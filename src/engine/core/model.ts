@@ -13,6 +13,12 @@ export type TermSpec =
 export type OutcomeLayout =
   { kind: 'binary' } | { kind: 'events-trials'; trials: string } | { kind: 'events-nonevents'; nonEvents: string };
 
+/** The second column of a grouped layout (trials or non-events), or null for a yes/no outcome. */
+export function countsColumn(layout: OutcomeLayout | undefined): string | null {
+  if (layout?.kind === 'events-trials') return layout.trials;
+  return layout?.kind === 'events-nonevents' ? layout.nonEvents : null;
+}
+
 export interface ModelSpec {
   /** The yes/no outcome column; in a grouped layout, the column of event counts. */
   outcome: string;
@@ -115,6 +121,11 @@ export interface DesignRecipe {
    * Absent in recipes that predate it.
    */
   ranges?: Record<string, [number, number]>;
+  /**
+   * A model fitted on a table of counts: its layout (the outcome column holds event counts; scoring and monitoring
+   * files of counts are read the same way). Absent: one yes/no outcome per row.
+   */
+  layout?: OutcomeLayout;
   /**
    * The column of case counts each row stands for (frequency weights), when the model was fitted on weighted rows
    * (grouped tables are fitted as two weighted rows per table row: events and non-events). Absent: one case per row.

@@ -1,5 +1,5 @@
 import { FulcraError, getColumn, sheetRow, type Column, type Dataset } from '../core/data';
-import type { ModelSpec, OutcomeLayout } from '../core/model';
+import { countsColumn, type ModelSpec, type OutcomeLayout } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { plural } from '../core/wording';
 import { parseDecimal } from './levels';
@@ -59,9 +59,7 @@ export function layoutOf(spec: ModelSpec): OutcomeLayout {
   return spec.layout ?? { kind: 'binary' };
 }
 
-export function countsColumn(layout: OutcomeLayout): string | null {
-  return layout.kind === 'events-trials' ? layout.trials : layout.kind === 'events-nonevents' ? layout.nonEvents : null;
-}
+export { countsColumn };
 
 const LAYOUT_WORDS: Record<OutcomeLayout['kind'], string> = {
   binary: 'one yes/no outcome per row',

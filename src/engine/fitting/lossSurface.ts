@@ -94,6 +94,8 @@ export function lossSurface(
   const d = designFromRecipe(result.recipe, data);
   const { X, n, p } = d;
   const y = d.y!;
+  // Frequency weights (grouped tables, weighted rows): every sum below is over cases, w per row.
+  const caseWeights = d.weights ?? new Float64Array(n).fill(1);
   const beta = coefs.map((c) => c.estimate);
   const { Z, scale, center, centerOverScale } = standardise(X, n, p);
   const std = axisScale === 'standardised';
@@ -112,6 +114,7 @@ export function lossSurface(
       n,
       p: keep.length,
       y,
+      ...(d.weights ? { weights: d.weights } : {}),
       firth: result.method === 'firth',
       penalty: ridge ? Float64Array.from(keep, (c) => (c === 0 ? 0 : result.lambda)) : undefined,
     },
@@ -150,27 +153,30 @@ export function lossSurface(
   let ev = etaBase,
     Xi = axisColumns.subarray(i * n, (i + 1) * n),
     Xj = axisColumns.subarray(j * n, (j + 1) * n),
-    yv = y;
+    yv = y,
+    wv = caseWeights;
   // Subsample z = value and slope at the estimate from every row + the subsample's change beyond the linear term:
   // shift[0] + shift[1]·(bᵢ − β̂ᵢ) + shift[2]·(bⱼ − β̂ⱼ) is added, so the grid's minimum stays at the estimate.
   const shift = [0, 0, 0];
   if (m < n) {
-    const moments = (e: Float64Array, a: Float64Array, b: Float64Array, yy: Float64Array): number[] => {
+    const moments = (e: Float64Array, a: Float64Array, b: Float64Array, yy: Float64Array, ww: Float64Array) => {
       const k = e.length,
         v = [0, 0, 0];
+      let sw = 0;
       for (let r = 0; r < k; r++) {
-        const res = sigmoid(e[r]) - yy[r];
-        v[0] += caseLoss(e[r], yy[r]);
+        const res = ww[r] * (sigmoid(e[r]) - yy[r]);
+        v[0] += ww[r] * caseLoss(e[r], yy[r]);
         v[1] += res * a[r];
         v[2] += res * b[r];
+        sw += ww[r];
       }
-      return v.map((t) => t / k);
+      return v.map((t) => t / sw);
     };
-    const full = moments(ev, Xi, Xj, yv);
+    const full = moments(ev, Xi, Xj, yv, wv);
     const idx = Int32Array.from({ length: m }, (_, k) => Math.floor((k * n) / m));
     const pick = (v: Float64Array) => Float64Array.from(idx, (r) => v[r]);
-    [ev, Xi, Xj, yv] = [pick(ev), pick(Xi), pick(Xj), pick(yv)];
-    const part = moments(ev, Xi, Xj, yv);
+    [ev, Xi, Xj, yv, wv] = [pick(ev), pick(Xi), pick(Xj), pick(yv), pick(wv)];
+    const part = moments(ev, Xi, Xj, yv, wv);
     for (let t = 0; t < 3; t++) shift[t] = full[t] - part[t];
   }
   const shifted = (bi: number, bj: number): number => shift[0] + shift[1] * (bi - ci) + shift[2] * (bj - cj);
@@ -181,19 +187,22 @@ export function lossSurface(
     let s = 0;
     for (let r = 0; r < m; r++) {
       const e = ev[r] + di * Xi[r] + dj * Xj[r];
-      s += caseLoss(e, yv[r]);
-      if (w) w[r] = sigmoid(e) * sigmoid(-e);
+      s += wv[r] * caseLoss(e, yv[r]);
+      if (w) w[r] = wv[r] * sigmoid(e) * sigmoid(-e);
     }
     return s;
   };
+  let casesInSum = 0;
+  for (let r = 0; r < m; r++) casesInSum += wv[r];
+  const casesAll = caseWeights.reduce((a, b) => a + b, 0);
   const perSd = (k: number, b: number): number => (k === 0 ? 0 : std ? b : b * scale[k]);
   const penalty = (bi: number, bj: number): number =>
     ridge ? 0.5 * result.lambda * (penBase + perSd(i, bi) ** 2 + perSd(j, bj) ** 2) : 0;
   const objective = (bi: number, bj: number): number => {
     const s = lossSum(bi, bj);
     let pen = penalty(bi, bj);
-    if (w) pen -= (0.5 * choleskyLogDet(cholesky(crossProductWeighted(Zk, n, pk, w, info, work), pk))) / n;
-    return s / m + pen + shifted(bi, bj);
+    if (w) pen -= (0.5 * choleskyLogDet(cholesky(crossProductWeighted(Zk, n, pk, w, info, work), pk))) / casesAll;
+    return s / casesInSum + pen + shifted(bi, bj);
   };
   let binary = true;
   for (let r = 0; r < m && binary; r++) binary = yv[r] === 0 || yv[r] === 1;
@@ -230,7 +239,7 @@ export function lossSurface(
   const x = axis(0),
     yy = axis(1);
   const z: number[] = [];
-  if (firth || !binary) {
+  if (firth || !binary || d.weights) {
     for (const bj of yy) for (const bi of x) z.push(objective(bi, bj));
   } else {
     const sums = gridLossSums(

@@ -248,6 +248,8 @@ export async function runAnalysis(
   const rows = analysedRows(all, r);
   data = rows.data;
   const step = fitted ?? (await fitStep(data, rows.request, hooks));
+  const layout = r.spec.layout;
+  if (layout && layout.kind !== 'binary') step.fit.recipe.layout = layout;
   const { evaluation, scores } = apparentEvaluation(data, step.fit, r);
   const diag = diagnose(step.fit, data);
   if (rows.index) {
@@ -276,6 +278,7 @@ export async function runAnalysis(
     diagnostics: diag.summary,
     layout: layoutRecord(rows, step.fit, scores, all),
   };
+  for (const w of record.layout?.goodnessOfFit?.warnings ?? []) record.warnings.push(w);
   if (r.validation) record.validation = await internalValidation(all, r, hooks);
   if (testData) record.external = externalValidationStep(record, testData, data);
   return { record, scores, diagnostics: diag.rows };

@@ -10,6 +10,7 @@ import {
   type UnitCodes,
   unitsFromColumn,
 } from '../monitoring';
+import { writeOutCounts } from '../monitoring/writeOutCounts';
 import type { ScoringModel } from '../validation/recalibration';
 
 /** A model to monitor with: anything that scores (a fit or a model file's coefficients) and where it came from. */
@@ -34,7 +35,14 @@ export function monitorScored(
   options: MonitoringOptionsInput,
 ): { record: MonitoringRecord; cases: MonitoringCases } {
   const o = resolveMonitoringOptions(options);
-  const u = units ?? (o.unitColumn !== null ? unitsFromColumn(data, o.unitColumn) : null);
+  let u = units ?? (o.unitColumn !== null ? unitsFromColumn(data, o.unitColumn) : null);
+  const layout = model.recipe.layout;
+  let written: ReturnType<typeof writeOutCounts> | null = null;
+  if (layout && layout.kind !== 'binary') {
+    // a table of counts (ward-months): one row per case, so that every chart counts cases
+    written = writeOutCounts(data, model.recipe.outcome, layout, dates, u);
+    ({ data, dates, units: u } = written);
+  }
   const { cases, summary } = scoreMonitoring(model, data, dates, u, { date: o.dateColumn, unit: o.unitColumn });
   const info: MonitoringModelInfo = {
     source: model.source,
@@ -42,7 +50,9 @@ export function monitorScored(
     outcome: model.recipe.outcome,
     event: model.recipe.event,
   };
-  return { record: monitorCases(cases, o, info, summary), cases };
+  const record = monitorCases(cases, o, info, summary);
+  if (written) record.warnings.unshift(...written.warnings);
+  return { record, cases };
 }
 
 /** monitorScored's record alone. */

@@ -12,6 +12,11 @@ export interface PredictionsForCsv {
    * model was fitted on. When given, an `outside_data` column lists them ("; " between names, empty otherwise).
    */
   outside?: readonly (readonly string[])[] | null;
+  /**
+   * Per scored row (same order as rowsUsed): expected events = trials × risk, for a file of counts scored with a
+   * model fitted on counts; an `expected events` column when given (NaN: no count in that row).
+   */
+  expected?: Float64Array | null;
 }
 
 export interface PredictionsCsvOptions {
@@ -113,6 +118,8 @@ export function predictionsCsvChunks(
   if (hasCi) extra.push(unique(`risk lower ${pct} CI`), unique(`risk upper ${pct} CI`));
   if (t !== undefined && t !== null) extra.push(unique(`flagged at risk >= ${num(t, decimal)}`));
   if (outside) extra.push(unique('outside_data'));
+  const expected = pred.expected ?? null;
+  if (expected) extra.push(unique('expected events (trials × risk)'));
 
   const cell = (s: string) => quoteField(neutraliseCell(s, decimal), delimiter);
   const header = [...data.columns.map((c) => c.name), ...extra].map(cell).join(delimiter);
@@ -128,6 +135,7 @@ export function predictionsCsvChunks(
     if (t !== undefined && t !== null)
       out.push(i < 0 || Number.isNaN(pred.risk[i]) ? '' : pred.risk[i] >= t ? '1' : '0');
     if (outside) out.push(i < 0 ? '' : cell(outside[i].join('; ')));
+    if (expected) out.push(i < 0 ? '' : num(expected[i], decimal));
     return out.join(delimiter);
   };
   return (function* () {

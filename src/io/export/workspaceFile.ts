@@ -1,5 +1,5 @@
 import { FulcraError, type Column, type Costs, type Dataset } from '../../engine/core';
-import type { FitOptions, ModelSpec, TermSpec } from '../../engine/core';
+import type { FitOptions, ModelSpec, OutcomeLayout, TermSpec } from '../../engine/core';
 import { base64ToBytes, bytesToBase64 } from './base64';
 import { datasetChecksum } from './checksum';
 import { FieldChecker, parseJsonFile } from './validate';
@@ -141,7 +141,18 @@ export function checkSpec(c: FieldChecker, v: unknown, at = 'workspace.spec'): M
   });
   const spec: ModelSpec = { outcome: c.string(s.outcome, `${at}.outcome`), terms };
   if (s.event !== undefined) spec.event = c.string(s.event, `${at}.event`);
+  if (s.layout !== undefined) spec.layout = checkLayout(c, s.layout, `${at}.layout`);
+  if (s.weights !== undefined) spec.weights = c.string(s.weights, `${at}.weights`);
   return spec;
+}
+
+/** An outcome layout: binary, events with trials, or events with non-events (the column named). */
+export function checkLayout(c: FieldChecker, v: unknown, at: string): OutcomeLayout {
+  const l = c.object(v, at);
+  const kind = c.oneOf(l.kind, ['binary', 'events-trials', 'events-nonevents'] as const, `${at}.kind`);
+  if (kind === 'events-trials') return { kind, trials: c.string(l.trials, `${at}.trials`) };
+  if (kind === 'events-nonevents') return { kind, nonEvents: c.string(l.nonEvents, `${at}.nonEvents`) };
+  return { kind };
 }
 
 function checkFitOptions(c: FieldChecker, v: unknown): Partial<FitOptions> {

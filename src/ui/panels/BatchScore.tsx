@@ -40,6 +40,13 @@ export function BatchScore() {
           <p>
             {count(batch.scored)} of {plural(batch.n, 'row')} scored
             {batch.skipped ? `; ${count(batch.skipped)} skipped for missing or unknown values` : ''}.
+            {batch.expectedEvents != null && (
+              <span data-testid="expected-events">
+                {' '}
+                Expected events in the scored rows: {batch.expectedEvents.toFixed(1)} (each row&apos;s trials × its
+                risk; the CSV lists them per row).
+              </span>
+            )}
           </p>
           {batch.unknownRows > 0 && (
             <p className="outside-data" data-testid="batch-unknown">

@@ -62,6 +62,8 @@ function FitSummary({ view }: { view: FitView }) {
   }[view.request.method];
   const how = f.converged ? ` in ${f.iterations} iterations` : ' — did NOT converge';
   const heading = useResultFocus<HTMLHeadingElement>('model');
+  const lay = view.layout ?? null;
+  const weighted = !!lay && (lay.kind !== 'binary' || lay.weights !== null);
   return (
     <section className="summary" aria-label="Fit summary" data-testid="fit-summary">
       <h2 className="result-heading" ref={heading} tabIndex={-1}>
@@ -69,10 +71,12 @@ function FitSummary({ view }: { view: FitView }) {
       </h2>
       <p>
         Fitted by <strong>{methodName}</strong>
-        {how} on <strong>{count(f.nUsed)}</strong> {f.nUsed === 1 ? 'row' : 'rows'} ({plural(f.events, 'event')},{' '}
-        {plural(f.nonEvents, 'non-event')}
-        {f.nDropped > 0 ? `; ${plural(f.nDropped, 'row')} left out for missing values` : ''}). {f.parameters}{' '}
-        {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per parameter.
+        {how} on <strong>{count(f.nUsed)}</strong> {weighted ? 'cases' : f.nUsed === 1 ? 'row' : 'rows'}
+        {weighted && lay ? ` from ${count(lay.tableRowsUsed)} of ${count(lay.tableRows)} rows` : ''} (
+        {plural(f.events, 'event')}, {plural(f.nonEvents, 'non-event')}
+        {!weighted && f.nDropped > 0 ? `; ${plural(f.nDropped, 'row')} left out for missing values` : ''}).{' '}
+        {f.parameters} {f.parameters === 1 ? 'parameter' : 'parameters'}: {num(f.eventsPerParameter, 1)} events per
+        parameter.
         {view.threads > 1 && (
           <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>
         )}
@@ -103,7 +107,38 @@ function FitSummary({ view }: { view: FitView }) {
           BIC {num(f.bic, 1)}.
         </p>
       )}
+      {weighted && lay && <LayoutNote layout={lay} />}
     </section>
+  );
+}
+
+/** How a table of counts or weighted rows was counted: the convention, both deviances, fit by covariate pattern. */
+function LayoutNote({ layout }: { layout: NonNullable<FitView['layout']> }) {
+  const d = layout.deviance;
+  const g = layout.goodnessOfFit;
+  return (
+    <div className="layout-note" data-testid="layout-note">
+      <p>{layout.convention}</p>
+      {d && (
+        <p>
+          {`Deviance per case ${num(d.perCase, 2)} (as the table written out one row per case; AIC and BIC use it); `}
+          grouped {num(d.grouped, 2)} on {d.groupedDf} df, relative to the saturated model of the table rows (the
+          convention of statistics packages that fit events out of trials). The two differ by a constant (
+          {num(d.saturated, 2)}) and give the same likelihood-ratio tests.
+        </p>
+      )}
+      {g && (
+        <p>
+          Goodness of fit by covariate pattern ({count(g.patterns)} patterns, {g.df} df): Pearson χ² {num(g.pearson, 2)}
+          , p {pValue(g.pearsonP ?? NaN)}; deviance χ² {num(g.deviance, 2)}, p {pValue(g.devianceP ?? NaN)}.{' '}
+          {g.reliable
+            ? 'Most expected counts are 5 or more.'
+            : `Not trustworthy here: ${Math.round(g.smallExpectedShare * 100)} % of the expected counts are ` +
+              'below 5.'}{' '}
+          <span className="hint">{g.rule}</span>
+        </p>
+      )}
+    </div>
   );
 }
 

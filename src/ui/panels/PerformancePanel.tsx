@@ -27,6 +27,8 @@ function Validation() {
   const [raw, setRaw] = useState('200');
   const b = Math.max(20, Math.min(2000, Math.round(Number(raw)) || 200));
   const status = useApp((s) => s.validationStatus);
+  const layout = useApp((s) => s.fit?.layout ?? null);
+  const weighted = !!layout && (layout.kind !== 'binary' || layout.weights !== null);
   return (
     <section className="validation" aria-labelledby={`${id}-h`}>
       <h3 id={`${id}-h`}>Internal validation</h3>
@@ -37,6 +39,13 @@ function Validation() {
       <button type="button" disabled={status === 'running'} onClick={() => void ctl.validate(b)}>
         Run bootstrap validation
       </button>
+      {weighted && (
+        <p className="hint" data-testid="bootstrap-cases">
+          Each resample draws {layout!.cases.toLocaleString('en')} cases with replacement from the cases the table
+          stands for (not its {layout!.tableRowsUsed.toLocaleString('en')} rows), as if the table were written out one
+          row per case.
+        </p>
+      )}
       <JobsHere view="performance" />
       <span role="status" data-testid="validation-status">
         {status === 'running' && ' Running: the whole fitting procedure is repeated on each resample.'}

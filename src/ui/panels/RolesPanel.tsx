@@ -1,3 +1,4 @@
+import { countsColumn, type OutcomeLayout } from '../../engine/core';
 import { KNOT_RULE, REFERENCE_RULE } from '../../report/rules';
 import { useId } from 'react';
 import * as A from '../../state/actions';
@@ -5,7 +6,14 @@ import { useApp, useEnv } from '../context';
 import { Interactions } from './Interactions';
 import { RoleRow } from './RoleRow';
 
-/** Outcome, event level, predictors with reference levels and spline options, interactions. */
+/** The layout for a choice in the layout list, keeping the count column already chosen. */
+function layoutOf(kind: string, counts: string | null): OutcomeLayout {
+  if (kind === 'events-trials') return { kind, trials: counts ?? '' };
+  if (kind === 'events-nonevents') return { kind, nonEvents: counts ?? '' };
+  return { kind: 'binary' };
+}
+
+/** Outcome layout, outcome or counts, event, weights, predictors with reference levels and splines, interactions. */
 export function RolesPanel() {
   const { ctl } = useEnv();
   const id = useId();
@@ -14,21 +22,41 @@ export function RolesPanel() {
   const event = useApp((s) => s.event);
   const roles = useApp((s) => s.roles);
   const interactions = useApp((s) => s.interactions);
+  const layout = useApp((s) => s.layout);
+  const weights = useApp((s) => s.weights);
   const outcomeCol = data.columns.find((c) => c.name === outcome);
-  const candidates = data.columns.filter((c) => c.name !== outcome);
+  const counts = countsColumn(layout);
+  const grouped = layout.kind !== 'binary';
+  const roleColumns = new Set([outcome, counts, weights]);
+  const candidates = data.columns.filter((c) => !roleColumns.has(c.name));
+  const numeric = data.columns.filter((c) => c.kind === 'numeric' && c.modelling);
+  const countWord = layout.kind === 'events-trials' ? 'Trials' : 'Non-events';
   return (
     <section className="roles" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Roles</h2>
       <div className="row">
         <label>
-          Outcome (yes/no)
+          Outcome layout
           <select
-            value={outcome ?? ''}
-            onChange={(e) => void ctl.act(A.changeOutcome, { column: e.target.value || null })}
+            value={layout.kind}
+            data-testid="outcome-layout"
+            onChange={(e) => void ctl.act(A.changeLayout, layoutOf(e.target.value, counts))}
           >
-            <option value="">— choose —</option>
-            {data.columns
-              .filter((c) => c.modelling)
+            <option value="binary">one yes/no value per row</option>
+            <option value="events-trials">counts: events and trials per row</option>
+            <option value="events-nonevents">counts: events and non-events per row</option>
+          </select>
+        </label>
+        <label>
+          Case weights
+          <select
+            value={weights ?? ''}
+            data-testid="case-weights"
+            onChange={(e) => void ctl.act(A.changeWeights, e.target.value || null)}
+          >
+            <option value="">none: one case per row</option>
+            {numeric
+              .filter((c) => c.name !== outcome && c.name !== counts)
               .map((c) => (
                 <option key={c.name} value={c.name}>
                   {c.name}
@@ -36,32 +64,100 @@ export function RolesPanel() {
               ))}
           </select>
         </label>
-        <label>
-          Counts as the event
-          <select
-            value={event ?? ''}
-            disabled={!outcomeCol}
-            onChange={(e) => void ctl.act(A.changeEvent, e.target.value || null)}
-          >
-            <option value="">— choose —</option>
-            {(outcomeCol?.levels ?? []).map((l) => (
-              <option key={l} value={l}>
-                {l}
-              </option>
-            ))}
-          </select>
-        </label>
-        {outcomeCol && A.outcomeHasOneValue(outcomeCol) && (
-          <span className="hint" role="status" data-testid="outcome-one-value">
-            {A.outcomeHasOneValue(outcomeCol)}
-          </span>
-        )}
-        {outcomeCol && outcomeCol.levels.length > 2 && (
-          <span className="hint">
-            {outcomeCol.levels.length} values: rows not equal to the event count as non-events.
-          </span>
-        )}
       </div>
+      {grouped ? (
+        <div className="row">
+          <label>
+            Events (count)
+            <select
+              value={outcome ?? ''}
+              data-testid="events-column"
+              onChange={(e) => void ctl.act(A.changeOutcome, { column: e.target.value || null })}
+            >
+              <option value="">— choose —</option>
+              {numeric
+                .filter((c) => c.name !== counts && c.name !== weights)
+                .map((c) => (
+                  <option key={c.name} value={c.name}>
+                    {c.name}
+                  </option>
+                ))}
+            </select>
+          </label>
+          <label>
+            {countWord} (count)
+            <select
+              value={counts ?? ''}
+              data-testid="counts-column"
+              onChange={(e) => void ctl.act(A.changeLayout, layoutOf(layout.kind, e.target.value || null))}
+            >
+              <option value="">— choose —</option>
+              {numeric
+                .filter((c) => c.name !== outcome && c.name !== weights)
+                .map((c) => (
+                  <option key={c.name} value={c.name}>
+                    {c.name}
+                  </option>
+                ))}
+            </select>
+          </label>
+          <span className="hint">
+            Each row stands for its {layout.kind === 'events-trials' ? 'trials' : 'events and non-events'}
+            {weights ? `, times its weight in "${weights}"` : ''}: counts, measures and the bootstrap are per case, as
+            if the table were written out one row per case. Every row is checked when the model is fitted (whole counts,
+            none negative{layout.kind === 'events-trials' ? ', events no more than trials' : ''}).
+          </span>
+        </div>
+      ) : (
+        <div className="row">
+          <label>
+            Outcome (yes/no)
+            <select
+              value={outcome ?? ''}
+              onChange={(e) => void ctl.act(A.changeOutcome, { column: e.target.value || null })}
+            >
+              <option value="">— choose —</option>
+              {data.columns
+                .filter((c) => c.modelling)
+                .map((c) => (
+                  <option key={c.name} value={c.name}>
+                    {c.name}
+                  </option>
+                ))}
+            </select>
+          </label>
+          <label>
+            Counts as the event
+            <select
+              value={event ?? ''}
+              disabled={!outcomeCol}
+              onChange={(e) => void ctl.act(A.changeEvent, e.target.value || null)}
+            >
+              <option value="">— choose —</option>
+              {(outcomeCol?.levels ?? []).map((l) => (
+                <option key={l} value={l}>
+                  {l}
+                </option>
+              ))}
+            </select>
+          </label>
+          {outcomeCol && A.outcomeHasOneValue(outcomeCol) && (
+            <span className="hint" role="status" data-testid="outcome-one-value">
+              {A.outcomeHasOneValue(outcomeCol)}
+            </span>
+          )}
+          {outcomeCol && outcomeCol.levels.length > 2 && (
+            <span className="hint">
+              {outcomeCol.levels.length} values: rows not equal to the event count as non-events.
+            </span>
+          )}
+          {weights && (
+            <span className="hint">
+              Each row stands for as many identical cases as its weight in "{weights}" (whole numbers of at least 1).
+            </span>
+          )}
+        </div>
+      )}
       <table className="role-table">
         <thead>
           <tr>

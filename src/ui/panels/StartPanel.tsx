@@ -8,7 +8,7 @@ export function StartPanel() {
     <div className="start">
       <h2>Start with an invented example, or open your own spreadsheet</h2>
       <p>
-        Both examples are invented by a seeded simulation with known true coefficients, so you can see whether the
+        All three examples are invented by a seeded simulation with known true coefficients, so you can see whether the
         fitted model recovers them. No real patients, no real plant.
       </p>
       <div className="demo-cards">
@@ -24,6 +24,13 @@ export function StartPanel() {
           <span>
             A fictional packaging plant: 5,000 invented seals — temperature, dwell time, pressure, film lot, line,
             humidity; outcome: seal failure.
+          </span>
+        </button>
+        <button type="button" className="demo" onClick={() => void ctl.startDemo('ssi-counts')}>
+          <strong>Infections by ward and month</strong>
+          <span>
+            The same fictional hospital as a table of counts: 144 invented ward-month rows with the number of operations
+            and of infections — ward, month, wound class; one row stands for many operations.
           </span>
         </button>
       </div>
