@@ -1,4 +1,6 @@
 import { FulcraError, type Costs } from '../engine/core';
+import { parsePointsBase } from './pointsCli';
+import { checkSubgroupArgs, parseSubgroupCuts } from './subgroupsCli';
 import type { LambdaRule } from '../engine/workflow';
 
 /** Parsed command line of `npm run fit`. */
@@ -58,6 +60,14 @@ export interface FitArgs {
   nonEvents?: string;
   /** `--weights COL`: frequency weights (whole numbers ≥ 1), any layout. */
   weights?: string;
+  /** `--compare-with a,b,c`: a second model with these predictors, compared with the main one on the same rows. */
+  compareWith?: string[];
+  /** `--points` (or `--points-base X`): the bedside points score of the fitted model; `pointsBase` its base unit. */
+  points?: boolean;
+  pointsBase?: import('../engine/points').PointsBaseUnit;
+  /** `--subgroups COL`: the model's performance per group of COL; `--subgroup-cuts 40,60,80` bands a numeric COL. */
+  subgroups?: string;
+  subgroupCuts?: number[];
   help: boolean;
 }
 
@@ -114,6 +124,18 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --unit COL               the unit column of the --monitor file (ward, team, ...) for the funnel plot
   --period month|quarter   calibration-drift period of --monitor (default month)
   --arl0 N                 target in-control average run length of the CUSUMs, in cases (default 5000)
+  --compare-with a,b,c     fit a second model with these predictors (same outcome, method and rows) and compare it
+                           with the main one: LR test when nested, AUC difference (paired DeLong), Brier,
+                           calibration, net benefit, who changes side of the cut-off; on different rows (missing
+                           values) both are refitted on the rows they share, and the output says so
+  --points                 the bedside points score (Sullivan et al. 2004): points per category of each predictor,
+                           total points to risk, the score's AUC and calibration beside the model's
+  --points-base X          its base unit: auto (default: the strongest predictor spans 10 points), a number (log
+                           odds per point) or COLUMN:INCREASE (one point = that increase, e.g. age:5); implies --points
+  --subgroups COL          performance per group of COL (each category, or each value of a numeric column): n,
+                           events, O/E, AUC, calibration, sensitivity/specificity/flagged at --threshold, with
+                           the too-small rule (not with --events or --weights)
+  --subgroup-cuts 40,60,80 cut a numeric --subgroups column into bands (< 40, 40 to < 60, 60 to < 80, >= 80)
   --help                   this text
 `;
 
@@ -317,6 +339,24 @@ export function parseFitArgs(argv: string[]): FitArgs {
       case '--weights':
         a.weights = value();
         break;
+      case '--compare-with':
+        a.compareWith = list(value());
+        if (a.compareWith.length === 0)
+          throw new FulcraError('bad-argument', '--compare-with needs predictor columns, e.g. --compare-with age,asa.');
+        break;
+      case '--points':
+        a.points = true;
+        break;
+      case '--points-base':
+        a.points = true;
+        a.pointsBase = parsePointsBase(value());
+        break;
+      case '--subgroups':
+        a.subgroups = value();
+        break;
+      case '--subgroup-cuts':
+        a.subgroupCuts = parseSubgroupCuts(value());
+        break;
       case '--date':
         a.date = value();
         break;
@@ -359,6 +399,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
   }
   checkLambda(a);
   checkMonitor(a);
+  checkSubgroupArgs(a);
   return a;
 }
 

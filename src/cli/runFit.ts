@@ -4,7 +4,11 @@ import { FulcraError, getColumn } from '../engine/core';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
 import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
 import type { RowDiagnostics } from '../engine/diagnostics';
-import { runAnalysis, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
+import { pointsStep, runAnalysis, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
+import type { PointsRecord } from '../engine/workflow';
+import { compareWithPredictors, type PredictorComparison } from '../engine/workflow';
+import { subgroupStep } from '../engine/workflow';
+import type { SubgroupPerformance } from '../engine/subgroups';
 import { importFile } from '../io/importFile';
 import { monitorImported } from '../io';
 import type { MonitoringRecord } from '../engine/monitoring';
@@ -34,6 +38,12 @@ export type FitRun = {
   rowDiagnostics?: RowDiagnostics;
   /** `--monitor FILE`: how the monitoring file was read and the engine's MonitoringRecord (as the page's). */
   monitoring?: MonitoringRecord & { file: DataBlock };
+  /** `--points` / `--points-base X`: the bedside points score and its evaluation (the page's record). */
+  points?: PointsRecord;
+  /** `--compare-with a,b,c`: the second model and its comparison with the main one (workflow/compareStep). */
+  comparison?: PredictorComparison;
+  /** `--subgroups COL [--subgroup-cuts …]`: performance per group (workflow/subgroupStep, the page's record). */
+  subgroups?: SubgroupPerformance;
 } & AnalysisRecord;
 
 export async function loadTable(file: string, args: FitArgs, progress?: Progress): Promise<ImportResult> {
@@ -204,14 +214,27 @@ async function runFitOn(
   if (warn) progress?.say(warn);
   progress?.stage('Fitting and checking the model');
   const hooks = { onProgress: (done: number, total: number) => progress?.update(done, total) };
-  const { record, diagnostics } = await runAnalysis(table.dataset, request, hooks, test?.dataset);
+  const { record, scores, diagnostics } = await runAnalysis(table.dataset, request, hooks, test?.dataset);
+  if (args.compareWith) progress?.stage('Fitting and comparing the second model');
+  const comparison = args.compareWith
+    ? await compareWithPredictors(table.dataset, { record, scores }, args.compareWith, hooks)
+    : undefined;
+  const subgroups = args.subgroups
+    ? subgroupStep(table.dataset, record, scores, { column: args.subgroups, cutPoints: args.subgroupCuts })
+    : undefined;
   const monitoring = args.monitor ? await monitorRun(args, record, progress) : undefined;
+  const points = args.points
+    ? pointsStep(record, table.dataset, args.pointsBase ? { baseUnit: args.pointsBase } : {})
+    : undefined;
   return {
     fulcra: { version, command: argv },
     data: { ...dataBlock(args.file, table), test: test ? dataBlock(args.test!, test) : null },
     ...record,
     ...(args.diagnostics ? { rowDiagnostics: diagnostics } : {}),
     ...(monitoring ? { monitoring } : {}),
+    ...(points ? { points } : {}),
+    ...(comparison ? { comparison } : {}),
+    ...(subgroups ? { subgroups } : {}),
   };
 }
 

@@ -3,6 +3,9 @@ import type { FitMethod } from '../engine/core';
 import type { FitRun } from './runFit';
 import { fmt, fmtP, pct, table } from './format';
 import { monitoringLines } from './monitorSummary';
+import { comparisonSummaryLines } from './compareSummary';
+import { pointsLines } from './pointsCli';
+import { subgroupLines } from './subgroupsCli';
 
 const METHOD: Record<FitMethod, string> = {
   ml: 'maximum likelihood',
@@ -160,12 +163,17 @@ export function summarise(r: FitRun): string {
   else if (r.sampleSizeNote) out.push('', r.sampleSizeNote);
   if (r.rowDiagnostics && r.diagnostics) out.push('', ...diagnosticsLines(r));
   if (r.monitoring) out.push('', ...monitoringLines(r.monitoring));
+  if (r.subgroups) out.push('', ...subgroupLines(r.subgroups));
+  if (r.points) out.push('', ...pointsLines(r.points));
+  if (r.comparison) out.push('', ...comparisonSummaryLines(r.comparison));
   const warnings = [
     ...r.data.warnings,
     ...r.warnings,
     ...(r.validation?.warnings ?? []),
     ...(r.diagnostics?.warnings ?? []),
     ...(r.monitoring?.warnings ?? []),
+    ...(r.subgroups?.warnings ?? []),
+    ...(r.points ? [...r.points.score.warnings, ...r.points.evaluation.warnings] : []),
   ];
   if (warnings.length) {
     out.push('', 'Warnings');

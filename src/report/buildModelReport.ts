@@ -13,8 +13,12 @@ import {
 import { cautions, cautionsHeight, performance, plots, threshold, warningsSection } from './reportSectionsResults';
 import { externalSection } from './reportSectionExternal';
 import { diagnosticsSection } from './reportSectionDiagnostics';
+import { comparisonSection } from './reportSectionComparison';
+import { subgroupsSection } from './reportSectionSubgroups';
 import { glossarySection } from './reportSectionGlossary';
 import { monitoringSection } from './reportSectionMonitoring';
+import { pointsSection } from './pointsCardPdf';
+import { tripodSection } from './reportSectionTripod';
 
 export { REPORT_CAUTIONS } from './reportSectionsResults';
 
@@ -49,11 +53,15 @@ export function buildModelReport(input: ReportInput): Uint8Array {
   plots(L, input);
   externalSection(L, input.external);
   diagnosticsSection(L, input.diagnostics);
+  comparisonSection(L, input.comparison);
+  subgroupsSection(L, input.subgroups);
   monitoringSection(L, input.monitoring, input.cautionSetting ?? 'clinical');
+  pointsSection(L, input.points, input.meta);
   threshold(L, input);
   warningsSection(L, [...m.warnings, ...(input.warnings ?? [])], cautionsHeight(L, input.cautionSetting));
   cautions(L, input.cautionSetting);
   glossarySection(L);
+  tripodSection(L, input); // last: it names the sections drawn above
 
   L.footer(
     `Fulcra ${input.meta.fulcraVersion} \u00b7 model summary \u00b7 ${dateText(input.meta.created)} \u00b7 ` +
@@ -71,7 +79,13 @@ function titleBlock(L: PdfLayout, input: ReportInput): void {
   const m = input.model;
   L.setFont(17, true);
   L.doc.setTextColor(20, 50, 90);
-  L.doc.text(input.meta.title ?? `Risk model for "${m.recipe.outcome}" = ${m.recipe.event}`, L.left, L.y + 6);
+  const lay = m.recipe.layout;
+  const title =
+    lay && lay.kind !== 'binary'
+      ? `Risk model for "${m.recipe.outcome}" ${lay.kind === 'events-trials' ? 'out of' : 'against'} ` +
+        `"${lay.kind === 'events-trials' ? lay.trials : lay.nonEvents}"`
+      : `Risk model for "${m.recipe.outcome}" = ${m.recipe.event}`;
+  L.doc.text(input.meta.title ?? title, L.left, L.y + 6);
   L.doc.setTextColor(0, 0, 0);
   L.y += 10;
   L.paragraph('Logistic regression model summary, prepared with Fulcra for review by a governance committee.', {

@@ -71,10 +71,14 @@ export class PdfLayout {
 
   private sections = 0;
 
+  /** The numbered sections drawn so far, in order, with the page each heading is on (read by the checklist page). */
+  readonly drawnSections: { number: number; title: string; page: number }[] = [];
+
   /** A heading numbered in order of appearance ("3. Title"), so omitted sections leave no gaps. */
   section(title: string, keepWith?: number): void {
     this.sections += 1;
     this.heading(`${this.sections}. ${title}`, keepWith);
+    this.drawnSections.push({ number: this.sections, title, page: this.doc.getCurrentPageInfo().pageNumber });
   }
 
   /** A bold sub-heading, kept with about three lines (a table header and its first rows) of what follows. */

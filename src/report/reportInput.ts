@@ -119,6 +119,8 @@ export interface ReportInput {
   /** User's free text (TRIPOD items 3–5: purpose, setting, population). */
   freeText?: { purpose?: string; setting?: string; population?: string; notes?: string };
   model: FitResult;
+  /** How the outcome was laid out (a table of counts, frequency weights) and counted; absent: one case per row. */
+  layout?: import('../engine/workflow').AnalysisRecord['layout'];
   /** How λ was chosen for penalised fits, in words (e.g. "10-fold cross-validation, minimum deviance"). */
   lambdaChoice?: string;
   /** How missing values were handled, in words (default: complete-case analysis). */
@@ -140,6 +142,12 @@ export interface ReportInput {
   monitoring?: MonitoringReport;
   /** Influential rows and the rows left out on request (reportSectionDiagnostics.ts). */
   diagnostics?: import('./reportSectionDiagnostics').DiagnosticsReport;
+  /** Two kept models compared on the page, when a comparison was made (reportSectionComparison.ts). */
+  comparison?: import('../engine/comparison').ModelComparison;
+  /** Performance by subgroup of one column, when the user computed it (reportSectionSubgroups.ts). */
+  subgroups?: import('../engine/subgroups').SubgroupPerformance;
+  /** The bedside points score, when one was built (pointsCardPdf.ts: a section and the card page). */
+  points?: import('../engine/workflow').PointsRecord;
   /** Warnings from evaluation, validation, imputation… (the fit's own warnings are read from `model`). */
   warnings?: EngineWarning[];
   /** Which cautions apply (default clinical); see src/report/cautions.ts. */

@@ -4,7 +4,8 @@
  */
 import type { MissingReport } from '../engine/imputation';
 import type { ColumnType } from '../io/types';
-import type { EngineWarning, ModelSpec } from '../engine/core';
+import { countsColumn, type EngineWarning, type ModelSpec } from '../engine/core';
+import { modelFitted, restoredModels } from './modelsState';
 import type {
   BatchScoreView,
   Costs,
@@ -88,9 +89,13 @@ function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState
   for (const c of data.columns) roles[c.name] = { include: false, reference: null, knots: 0 };
   let outcome: string | null = null;
   let event: string | null = null;
+  let layout: AppState['layout'] = { kind: 'binary' };
+  let weights: string | null = null;
   if (data.suggestedSpec) {
     outcome = data.suggestedSpec.outcome;
     event = data.suggestedSpec.event ?? null;
+    layout = data.suggestedSpec.layout ?? layout;
+    weights = data.suggestedSpec.weights ?? null;
     for (const t of data.suggestedSpec.terms) {
       if (t.type === 'main') roles[t.column] = { include: true, reference: t.reference ?? null, knots: 0 };
       if (t.type === 'spline') roles[t.column] = { include: true, reference: null, knots: t.knots };
@@ -107,13 +112,23 @@ function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState
     if (s.outcome && names.has(s.outcome)) {
       outcome = s.outcome;
       event = s.event;
+      const counts = countsColumn(s.layout);
+      if (counts === null || names.has(counts)) layout = s.layout;
     }
+    if (s.weights && names.has(s.weights)) weights = s.weights;
   }
   const fresh = propose && data.source.kind !== 'demo' && !data.suggestedSpec && !reread;
-  const proposal = fresh ? proposeOutcomeColumn(data.columns) : null;
-  if (proposal?.status === 'proposed') {
-    outcome = proposal.column;
-    event = proposal.event;
+  const column = fresh ? proposeOutcomeColumn(data.columns) : null;
+  let proposal: { hint: string } | null = column;
+  if (column?.status === 'proposed') {
+    outcome = column.column;
+    event = column.event;
+  } else if (fresh && data.countLayout) {
+    // no yes/no column, but two count columns that read as events and trials (or non-events)
+    outcome = data.countLayout.events;
+    event = null;
+    layout = data.countLayout.layout;
+    proposal = { hint: data.countLayout.hint };
   }
   const base: AppState = {
     ...initialState,
@@ -131,6 +146,8 @@ function loadSummary(s: AppState, data: DataSummary, propose: boolean): AppState
     roles,
     outcome,
     event,
+    layout,
+    weights,
     interactions: reread ? s.interactions.filter(([a, b]) => roles[a]?.include && roles[b]?.include) : [],
   };
   const hinted = proposal ? notify(base, { kind: 'info', text: proposal.hint, code: 'outcome-proposal' }) : base;
@@ -141,15 +158,41 @@ export const chooseOutcome: Perform<{ column: string | null; event?: string | nu
   if (!s.data || column === null) return { ...s, outcome: null, event: null };
   const col = s.data.columns.find((c) => c.name === column);
   if (!col) return s;
-  const ev = event ?? col.proposedEvent ?? (col.levels.length === 2 ? col.levels[1] : null);
+  const ev =
+    s.layout.kind !== 'binary'
+      ? null
+      : (event ?? col.proposedEvent ?? (col.levels.length === 2 ? col.levels[1] : null));
   const roles = { ...s.roles, [column]: { ...s.roles[column], include: false } };
   return { ...s, outcome: column, event: ev, roles };
+};
+
+/**
+ * The outcome layout chosen: one yes/no column, or a table of counts (events with trials or non-events). The count
+ * and weight columns are taken out of the predictors; switching back to yes/no asks for the event again.
+ */
+export const chooseLayout: Perform<AppState['layout']> = (s, layout) => {
+  const roles = { ...s.roles };
+  const counts = countsColumn(layout);
+  if (counts) roles[counts] = { ...(roles[counts] ?? { reference: null, knots: 0 }), include: false };
+  const outcomeCol = s.data?.columns.find((c) => c.name === s.outcome);
+  const event =
+    layout.kind === 'binary' && outcomeCol
+      ? (outcomeCol.proposedEvent ?? (outcomeCol.levels.length === 2 ? outcomeCol.levels[1] : null))
+      : null;
+  return { ...s, layout, event, roles };
+};
+
+/** The frequency-weight column chosen (null: one case per row); it is taken out of the predictors. */
+export const chooseWeights: Perform<string | null> = (s, weights) => {
+  const roles = { ...s.roles };
+  if (weights) roles[weights] = { ...(roles[weights] ?? { reference: null, knots: 0 }), include: false };
+  return { ...s, weights, roles };
 };
 
 export const chooseEvent: Perform<string | null> = (s, event) => ({ ...s, event });
 
 export const setPredictor: Perform<{ column: string; role: Partial<PredictorRole> }> = (s, { column, role }) => {
-  if (column === s.outcome && role.include) return s;
+  if ((column === s.outcome || column === s.weights || column === countsColumn(s.layout)) && role.include) return s;
   const prev = s.roles[column] ?? { include: false, reference: null, knots: 0 };
   const roles = { ...s.roles, [column]: { ...prev, ...role } };
   const interactions = roles[column].include ? s.interactions : s.interactions.filter((p) => !p.includes(column));
@@ -177,6 +220,7 @@ export const fitDone: Perform<FitView> = (s, fit) => {
   const cleared: AppState = {
     ...s,
     fit,
+    models: modelFitted(s.models, fit),
     thresholdView: null,
     costView: null,
     imputed: null,
@@ -316,6 +360,11 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
     roles,
     outcome,
     event: outcome ? w.event : null,
+    layout:
+      outcome && w.layout && (countsColumn(w.layout) === null || names.has(countsColumn(w.layout)!))
+        ? w.layout
+        : { kind: 'binary' },
+    weights: known(w.weights ?? null),
     interactions: w.interactions.filter(([a, b]) => names.has(a) && names.has(b)),
     method: w.method,
     alpha: w.alpha,
@@ -332,6 +381,7 @@ export const workspaceRestored: Perform<{ summary: DataSummary; settings: Workbe
     oddsUnits: w.oddsUnits,
     importSettings: w.importSettings,
     view: w.view,
+    models: restoredModels(w.keptModels),
   };
 };
 
@@ -343,7 +393,13 @@ export const startAfresh: Perform<void> = (s) => ({ ...initialState, nextNoticeI
 
 /** The rows a model drops depend on its outcome, event, predictors and interactions. */
 const modelChanged = (b: AppState, a: AppState): Effect[] =>
-  a.data && (a.outcome !== b.outcome || a.event !== b.event || a.roles !== b.roles || a.interactions !== b.interactions)
+  a.data &&
+  (a.outcome !== b.outcome ||
+    a.event !== b.event ||
+    a.layout !== b.layout ||
+    a.weights !== b.weights ||
+    a.roles !== b.roles ||
+    a.interactions !== b.interactions)
     ? ['refresh-drop-report']
     : [];
 
@@ -352,6 +408,10 @@ export const changeOutcome: Intent<Parameters<typeof chooseOutcome>[1]> = {
   perform: chooseOutcome,
   follows: modelChanged,
 };
+/** Outcome layout chosen (yes/no, events and trials, events and non-events): the drop report follows. */
+export const changeLayout: Intent<AppState['layout']> = { perform: chooseLayout, follows: modelChanged };
+/** Frequency-weight column chosen: the drop report follows. */
+export const changeWeights: Intent<string | null> = { perform: chooseWeights, follows: modelChanged };
 /** Event level chosen: the drop report follows. */
 export const changeEvent: Intent<string | null> = { perform: chooseEvent, follows: modelChanged };
 /** A predictor's role changed: the drop report follows. */
@@ -438,15 +498,22 @@ export function outcomeHasOneValue(col: DataSummary['columns'][number]): string 
 /** The model as the engine reads it, or the reason it cannot be fitted yet. */
 export function buildSpec(s: AppState): { spec: ModelSpec } | { problem: string } {
   if (!s.data) return { problem: 'Open a file or a demo first.' };
-  if (!s.outcome) return { problem: 'Choose the outcome column.' };
+  const grouped = s.layout.kind !== 'binary';
+  if (!s.outcome) return { problem: grouped ? 'Choose the column of event counts.' : 'Choose the outcome column.' };
   const outcomeCol = s.data.columns.find((c) => c.name === s.outcome);
-  const one = outcomeCol ? outcomeHasOneValue(outcomeCol) : null;
+  const counts = countsColumn(s.layout);
+  if (grouped && !counts)
+    return {
+      problem: `Choose the column of ${s.layout.kind === 'events-trials' ? 'trials' : 'non-events'} per row.`,
+    };
+  const one = outcomeCol && !grouped ? outcomeHasOneValue(outcomeCol) : null;
   if (one) return { problem: one };
-  if (!s.event) return { problem: `Choose which value of ${s.outcome} counts as the event.` };
+  if (!grouped && !s.event) return { problem: `Choose which value of ${s.outcome} counts as the event.` };
+  const roleColumns = new Set([s.outcome, counts, s.weights]);
   const terms: ModelSpec['terms'] = [];
   for (const c of s.data.columns) {
     const r = s.roles[c.name];
-    if (!r?.include || c.name === s.outcome) continue;
+    if (!r?.include || roleColumns.has(c.name)) continue;
     if (r.knots > 0 && c.kind === 'numeric')
       terms.push({ type: 'spline', column: c.name, knots: r.knots as 3 | 4 | 5 });
     else
@@ -458,5 +525,9 @@ export function buildSpec(s: AppState): { spec: ModelSpec } | { problem: string 
   for (const [a, b] of s.interactions) {
     if (s.roles[a]?.include && s.roles[b]?.include) terms.push({ type: 'interaction', columns: [a, b] });
   }
-  return { spec: { outcome: s.outcome, event: s.event, terms } };
+  const spec: ModelSpec = grouped
+    ? { outcome: s.outcome, layout: s.layout, terms }
+    : { outcome: s.outcome, event: s.event!, terms };
+  if (s.weights) spec.weights = s.weights;
+  return { spec };
 }

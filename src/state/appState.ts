@@ -1,6 +1,6 @@
 import type { MissingReport } from '../engine/imputation';
 import type { ColumnType, ImportOptions } from '../io/types';
-import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
+import type { EngineWarning, ModelSpec, OutcomeLayout, TermSpec } from '../engine/core';
 import type {
   BatchScoreView,
   Costs,
@@ -22,8 +22,20 @@ import type {
 import type { OddsUnits } from '../report/oddsUnits';
 import { initialMonitor, type MonitorState } from './monitorState';
 import { initialInfluence, type InfluenceState } from './influenceState';
+import { initialModels, type ModelsState } from './modelsState';
 
-export type ViewId = 'data' | 'model' | 'influence' | 'shape' | 'performance' | 'cutoff' | 'score' | 'monitor';
+export type ViewId =
+  | 'data'
+  | 'model'
+  | 'models'
+  | 'influence'
+  | 'shape'
+  | 'performance'
+  | 'subgroups'
+  | 'cutoff'
+  | 'score'
+  | 'points'
+  | 'monitor';
 
 export interface PredictorRole {
   include: boolean;
@@ -76,6 +88,10 @@ export interface AppState {
   data: DataSummary | null;
   outcome: string | null;
   event: string | null;
+  /** How the outcome is laid out: one yes/no column, or events with trials / non-events (a table of counts). */
+  layout: OutcomeLayout;
+  /** A column of frequency weights (cases per row), or null. */
+  weights: string | null;
   roles: Record<string, PredictorRole>;
   interactions: [string, string][];
   method: FitMethod;
@@ -114,6 +130,8 @@ export interface AppState {
   monitor: MonitorState;
   /** Which rows drive the model: the diagnostics view, ticked rows, the all-rows odds ratios (influenceState.ts). */
   influence: InfluenceState;
+  /** The models kept in this session, the one shown, and the comparison of two (modelsState.ts). */
+  models: ModelsState;
   /** When the workspace was last kept in this browser (ISO 8601), or null. */
   savedAt: string | null;
   jobs: Job[];
@@ -127,6 +145,8 @@ export const initialState: AppState = {
   data: null,
   outcome: null,
   event: null,
+  layout: { kind: 'binary' },
+  weights: null,
   roles: {},
   interactions: [],
   method: 'ml',
@@ -155,6 +175,7 @@ export const initialState: AppState = {
   openedModel: null,
   monitor: initialMonitor,
   influence: initialInfluence,
+  models: initialModels,
   savedAt: null,
   jobs: [],
   notices: [],

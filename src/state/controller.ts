@@ -14,6 +14,9 @@ import { dataLoading, type DataEffects } from './effects/data';
 import { filesOut, type ExportEffects } from './effects/exports';
 import { fitting, type FittingEffects } from './effects/fitting';
 import { influenceEffects, type InfluenceEffects } from './effects/influence';
+import { modelsEffects, type ModelsEffects } from './effects/models';
+import { subgroupEffects, type SubgroupEffects } from './effects/subgroups';
+import { pointsEffects, type PointsEffects } from './effects/points';
 import { monitoring, type MonitoringEffects } from './effects/monitoring';
 import { engineEmptied } from './monitorActions';
 import { restoring, type RestoreEffects } from './effects/restore';
@@ -29,7 +32,10 @@ export interface Controller
     ExportEffects,
     RestoreEffects,
     MonitoringEffects,
-    InfluenceEffects {
+    InfluenceEffects,
+    SubgroupEffects,
+    PointsEffects,
+    ModelsEffects {
   /** Applies a user's change, then runs the effects it says follow (see `Intent` in actions.ts). */
   act<I>(intent: A.Intent<I>, input: I): Promise<void>;
   /** Runs a notice's one-click remedy; `fromNotice` is the notice it came from, which goes away. */
@@ -43,7 +49,8 @@ export function createController(store: Store, client: WorkerClient): Controller
   const cutoff = cutoffEffects(ctx);
   const { fitWith, ...fit } = fitting(ctx, cutoff);
   const { setHeld, ...data } = dataLoading(ctx, fit.fitModel);
-  const restore = restoring(ctx, { ...data, setHeld }, { fitWith });
+  const { refitKept, ...models } = modelsEffects(ctx, cutoff, { fitWith, ...fit });
+  const restore = restoring(ctx, { ...data, setHeld }, { fitWith }, refitKept);
   const { refitWithoutRows, ...influence } = influenceEffects(ctx, { fitWith });
 
   const run: Record<A.Effect, () => Promise<void>> = {
@@ -65,6 +72,9 @@ export function createController(store: Store, client: WorkerClient): Controller
     // A restarted engine has lost the opened model file and the monitoring file: the page forgets them too.
     recover: (text) => (store.apply(engineEmptied, undefined), restore.recover(text)),
     ...influence,
+    ...subgroupEffects(ctx),
+    ...pointsEffects(ctx),
+    ...models,
     async act(intent, input) {
       const before = store.get();
       store.apply(intent.perform, input);

@@ -10,6 +10,7 @@ import type { DataSummary, FitRequest } from '../worker/protocol';
 import { buildSpec } from './actions';
 import { defaultImportSettings, initialState, type AppState, type PredictorRole } from './appState';
 import { checkWorkspace, type CheckedWorkspace } from './workspaceCheck';
+import { savedModels, type SavedModel } from './modelsState';
 
 /** The part of the state a workspace keeps (the same fields as AppState), plus whether a model had been fitted. */
 export interface WorkbenchSettings extends Pick<
@@ -34,6 +35,9 @@ export interface WorkbenchSettings extends Pick<
   cutoffHow?: AppState['cutoffHow'];
   /** The costs were set by the user; absent in workspaces saved before it was kept (then judged from the costs). */
   costsSetByUser?: boolean;
+  /** Outcome layout and frequency-weight column; absent in workspaces saved before they existed (yes/no, none). */
+  layout?: AppState['layout'];
+  weights?: string | null;
   /** A model had been fitted: fit it again on restore so the results reappear. */
   fitted: boolean;
   /**
@@ -42,6 +46,11 @@ export interface WorkbenchSettings extends Pick<
    * workspaces saved before it was kept (then the settings are fitted).
    */
   fittedRequest?: FitRequest | null;
+  /**
+   * The models kept in the session, each by its name and request (modelsState.ts): restoring refits each of them
+   * (the shown one first, as `fittedRequest`). Absent in workspaces saved before models were kept.
+   */
+  keptModels?: SavedModel[];
 }
 
 /** The data the page keeps (fetched back from the worker after each load), with an id per load. */
@@ -55,6 +64,8 @@ export function settingsOf(s: AppState): WorkbenchSettings {
   return {
     outcome: s.outcome,
     event: s.event,
+    layout: s.layout,
+    weights: s.weights,
     roles: s.roles,
     interactions: s.interactions,
     method: s.method,
@@ -72,6 +83,7 @@ export function settingsOf(s: AppState): WorkbenchSettings {
     view: s.view,
     fitted: s.fit !== null,
     fittedRequest: s.fit?.request ?? null,
+    keptModels: savedModels(s.models),
   };
 }
 
@@ -125,6 +137,8 @@ export function settingsFromWorkspace(
     ...base,
     outcome: ws.spec?.outcome ?? null,
     event: ws.spec?.event ?? null,
+    layout: ws.spec?.layout ?? { kind: 'binary' },
+    weights: ws.spec?.weights ?? null,
     roles,
     interactions,
     method: ws.fitOptions.method ?? 'ml',

@@ -8,17 +8,33 @@
  * default (workspaces saved before the field existed); a field that is present must be valid. The data summary
  * (`extra.summary`) must describe the data it came with, column for column.
  */
-import type { Dataset, FitMethod } from '../engine/core';
+import { countsColumn, type Dataset, type FitMethod } from '../engine/core';
 import { analysisRequestTable, resolveRequest } from '../engine/workflow';
 import { FieldChecker } from '../io/export/validate';
-import { checkSpec, type Workspace } from '../io/export/workspaceFile';
+import { checkLayout, checkSpec, type Workspace } from '../io/export/workspaceFile';
 import type { ColumnType } from '../io/types';
 import type { DataSummary, FitRequest } from '../worker/protocol';
 import type { WorkbenchSettings } from './workspace';
 
 const CODE = 'workspace-file-invalid';
 const METHODS: readonly FitMethod[] = ['ml', 'firth', 'ridge', 'lasso', 'elastic-net'];
-const VIEWS = ['data', 'model', 'shape', 'performance', 'cutoff', 'score', 'monitor'] as const;
+const VIEWS = [
+  'data',
+  'model',
+  'models',
+  'influence',
+  'shape',
+  'performance',
+  'subgroups',
+  'cutoff',
+  'score',
+  'points',
+  'monitor',
+] as const;
+// Every view the page has must be restorable: a view missing here would make a saved workspace unreadable.
+type MissingView = Exclude<import('./appState').ViewId, (typeof VIEWS)[number]>;
+const everyView: MissingView extends never ? true : never = true;
+void everyView;
 const COLUMN_TYPES: readonly ColumnType[] = ['numeric', 'binary', 'categorical', 'date', 'identifier', 'text', 'empty'];
 
 /** One row of the table: checks a present value at `path` and returns it as the page keeps it. */
@@ -121,6 +137,8 @@ const fittedRequest: Check<FitRequest> = (c, v, path) => {
 export const workbenchChecks: { [K in keyof WorkbenchSettings]-?: Check<NonNullable<WorkbenchSettings[K]> | null> } = {
   outcome: nullable(text),
   event: nullable(text),
+  layout: (c, v, path) => checkLayout(c, v, path),
+  weights: nullable(text),
   roles: record(role),
   interactions: (c, v, path) =>
     c.array(v, path).map((x, i) => {
@@ -143,6 +161,15 @@ export const workbenchChecks: { [K in keyof WorkbenchSettings]-?: Check<NonNulla
   costsSetByUser: flag,
   fitted: flag,
   fittedRequest: nullable(fittedRequest),
+  keptModels: (c, v, path) =>
+    c.array(v, path).map((x, i) => {
+      const o = c.object(x, `${path}[${i}]`);
+      return {
+        name: c.string(o.name, `${path}[${i}].name`),
+        named: c.boolean(o.named, `${path}[${i}].named`),
+        request: fittedRequest(c, o.request, `${path}[${i}].request`),
+      };
+    }),
 };
 
 /** The saved page settings, checked; absent fields are left out (the caller fills its defaults). */
@@ -246,7 +273,11 @@ export function checkWorkspace(ws: Workspace, kind = 'workspace file'): CheckedW
   const fitted = workbench?.fittedRequest;
   if (fitted && ws.data) {
     const names = new Set(ws.data.columns.map((col) => col.name));
-    const used = [fitted.spec.outcome, ...fitted.spec.terms.flatMap((t) => ('columns' in t ? t.columns : [t.column]))];
+    const used = [
+      fitted.spec.outcome,
+      ...fitted.spec.terms.flatMap((t) => ('columns' in t ? t.columns : [t.column])),
+      ...[countsColumn(fitted.spec.layout), fitted.spec.weights ?? null].filter((x): x is string => x !== null),
+    ];
     const missing = used.find((n) => !names.has(n));
     if (missing !== undefined)
       c.fail(

@@ -10,12 +10,15 @@ import { NoticeArea } from './NoticeArea';
 import { CutoffPanel } from './panels/CutoffPanel';
 import { DataPanel } from './panels/DataPanel';
 import { ModelPanel } from './panels/ModelPanel';
+import { ModelsPanel } from './panels/ModelsPanel';
 import { InfluencePanel } from './panels/InfluencePanel';
 import { PerformancePanel } from './panels/PerformancePanel';
 import { MonitorPanel } from './panels/MonitorPanel';
 import { ScorePanel } from './panels/ScorePanel';
 import { ShapePanel } from './panels/ShapePanel';
 import { StartPanel } from './panels/StartPanel';
+import { SubgroupPanel } from './panels/SubgroupPanel';
+import { PointsPanel } from './panels/PointsPanel';
 import { FULCRA_VERSION } from '../report/version';
 import { createWorkerClient } from '../bridge/workerClient';
 
@@ -76,11 +79,14 @@ function Shell() {
           {!hasData && !monitorOnly && <StartPanel />}
           {hasData && view === 'data' && <DataPanel />}
           {hasData && view === 'model' && <ModelPanel />}
+          {hasData && view === 'models' && <ModelsPanel />}
           {hasData && view === 'influence' && <InfluencePanel />}
           {hasData && view === 'shape' && <ShapePanel />}
           {hasData && view === 'performance' && <PerformancePanel />}
+          {hasData && view === 'subgroups' && <SubgroupPanel />}
           {hasData && view === 'cutoff' && <CutoffPanel />}
           {hasData && view === 'score' && <ScorePanel />}
+          {hasData && view === 'points' && <PointsPanel />}
           {(hasData || monitorOnly) && view === 'monitor' && <MonitorPanel />}
         </main>
       </div>

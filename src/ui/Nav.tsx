@@ -4,11 +4,14 @@ import { useApp, useEnv } from './context';
 const VIEWS: { id: ViewId; label: string; needsFit: boolean }[] = [
   { id: 'data', label: 'Data & roles', needsFit: false },
   { id: 'model', label: 'Odds ratios', needsFit: false },
+  { id: 'models', label: 'Models & comparison', needsFit: true },
   { id: 'influence', label: 'Influential rows', needsFit: true },
   { id: 'shape', label: 'Risk curve & loss', needsFit: true },
   { id: 'performance', label: 'Discrimination & calibration', needsFit: true },
+  { id: 'subgroups', label: 'Subgroups', needsFit: true },
   { id: 'cutoff', label: 'Cut-off & costs', needsFit: true },
   { id: 'score', label: 'Score & validate', needsFit: true },
+  { id: 'points', label: 'Bedside points card', needsFit: true },
   { id: 'monitor', label: 'Monitor later cases', needsFit: false },
 ];
 

@@ -19,6 +19,9 @@ import { idbBackend, type KeyValueBackend } from '../io/export/persist';
 import { fitWithImputation } from './imputeOps';
 import { fitModel } from './modelOps';
 import { diagnosticsView } from './diagnosticsOps';
+import { compareKeptModels, forgetModels, keepFittedModel, showKeptModel, type KeptKey } from './compareOps';
+import { subgroupChoiceOf, subgroupsView } from './subgroupOps';
+import type { SubgroupChoice } from '../engine/workflow';
 import { rowsWindow } from './profile';
 import type {
   Costs,
@@ -34,6 +37,7 @@ import { createSession, openJob, requireData, requireRecord, tick, type Session 
 import { closeModelFile, openModelFile } from './modelFileOps';
 import { loadDemoMonitoring, monitor, openMonitoringFile, recalibrateMonitored } from './monitorOps';
 import type { MonitoringOptionsInput } from '../engine/monitoring';
+import type { PointsOptions } from '../engine/points';
 import type { FitStep, MonitoringModel } from '../engine/workflow';
 import type { MonitoringReport } from '../report/reportSectionMonitoring';
 import { buildMonitoringReport } from '../report/buildMonitoringReport';
@@ -42,6 +46,7 @@ import { FULCRA_VERSION } from '../report/version';
 import { modelFileText, modelReport, pmmlText } from './reportOps';
 import { scoreImported, scoreOne } from './scoreOps';
 import { riskCurve } from './shapeOps';
+import { buildPoints, currentPoints, pointsCardPdf } from './pointsOps';
 import { externalValidate, lossSurface, validate } from './validateOps';
 
 async function guarded<T>(
@@ -167,8 +172,19 @@ export function createApi(pool: Promise<number> = Promise.resolve(1), storage: K
       guard(jobId, async () => {
         const view = await fitModel(session, req, hooksFor(jobId, onProgress), fitted);
         typical = view.typical;
-        return view;
+        return { ...view, modelKey: keepFittedModel(session, view.typical) };
       }),
+    /** Shows a kept model again (no refit): false when the engine no longer holds it. */
+    showKeptModel: (key: number) =>
+      guard(null, () => {
+        const kept = showKeptModel(session, key);
+        if (kept) typical = kept;
+        return kept !== null;
+      }),
+    forgetModels: (keys: number[]) => guard(null, () => forgetModels(session, keys)),
+    /** Two kept models compared at the page's cut-off and costs (workflow/compareStep), kept for the PDF. */
+    compareModels: (a: KeptKey, b: KeptKey, threshold: number, costs: Costs) =>
+      guard(null, () => compareKeptModels(session, a, b, threshold, costs)),
     /** The current analysis record (request, fit, evaluation, sample size, validations), as `npm run fit --json`. */
     analysisRecord: () => guard(null, () => requireRecord(session)),
     /** Leverage, residuals and influence of the current fit: the record's summary and the plots' per-row points. */
@@ -189,6 +205,10 @@ export function createApi(pool: Promise<number> = Promise.resolve(1), storage: K
           arrays.map((a) => a.buffer as ArrayBuffer),
         );
       }),
+    /** Performance of the current fit by subgroup of one column (workflow/subgroupStep); kept for the PDF. */
+    subgroups: (choice: SubgroupChoice) => guard(null, () => subgroupsView(session, choice)),
+    /** The subgroup choice last computed for the current fit, or null. */
+    subgroupChoice: () => guard(null, () => subgroupChoiceOf(session)),
     fitImputed: (req: FitRequest, jobId: string, onProgress?: Progress) =>
       guard(jobId, () => fitWithImputation(session, req, hooksFor(jobId, onProgress))),
     threshold: (t: number, costs: Costs) => guard(null, () => thresholdAt(session, t, costs)),
@@ -234,6 +254,15 @@ export function createApi(pool: Promise<number> = Promise.resolve(1), storage: K
     modelFile: (costs: Costs, threshold: number, created: string, text: ReportText) =>
       guard(null, () => modelFileText(session, costs, threshold, created, text)),
     pmml: (created: string) => guard(null, () => pmmlText(session, created)),
+    /** The bedside points score of the current fit (kept for the PDF and the model file), and its card as a PDF. */
+    pointsScore: (options: Partial<PointsOptions>) => guard(null, () => buildPoints(session, options)),
+    /** The points score built for the current fit (the page restores its view from it), or null. */
+    currentPoints: () => guard(null, () => currentPoints(session) ?? null),
+    pointsCard: (created: string) =>
+      guard(null, () => {
+        const bytes = pointsCardPdf(session, created);
+        return Comlink.transfer(bytes, [bytes.buffer as ArrayBuffer]);
+      }),
     /** "Open model": reads and keeps a Fulcra model file beside the current fit (for monitoring with it). */
     openModelFile: (bytes: ArrayBuffer, name: string) => guard(null, () => openModelFile(session, bytes, name)),
     closeModelFile: () => guard(null, () => closeModelFile(session)),

@@ -4,7 +4,8 @@
  */
 import type { CoefficientRow, Costs, EngineWarning, FitResult, ModelSpec } from '../engine/core';
 import type { CostThresholds, ThresholdMetrics } from '../engine/evaluation';
-import type { AnalysisRequest, AnalysisRequestInput, LambdaRecord } from '../engine/workflow';
+import type { AnalysisRecord, AnalysisRequest, AnalysisRequestInput, LambdaRecord } from '../engine/workflow';
+import type { CountLayoutProposal } from '../io/countLayout';
 import type { ImportFormat } from '../io/types';
 import type { CautionSetting } from '../report';
 
@@ -37,6 +38,8 @@ export interface DataSummary {
   warnings: EngineWarning[];
   /** The model the demo was generated from (demos only). */
   suggestedSpec: ModelSpec | null;
+  /** A table-of-counts layout the columns suggest (events with trials or non-events), or null/absent. */
+  countLayout?: CountLayoutProposal | null;
   /** The setting a demo is invented for, whose cautions apply (demos only). */
   cautions?: CautionSetting;
   truth: { column: string | null; level?: string; value: number }[] | null;
@@ -122,7 +125,11 @@ export interface FitView {
   rowsUsed: number;
   /** Threads the row passes of this fit ran on (1 below two chunks of rows or without a pool). */
   threads: number;
+  /** The outcome layout, the cases it stands for, deviance conventions, fit by covariate pattern (the record's). */
+  layout?: AnalysisRecord['layout'] | null;
   warnings: EngineWarning[];
+  /** The key under which the worker keeps this model (src/worker/compareOps.ts); showing it again needs no refit. */
+  modelKey?: number;
 }
 
 export interface ThresholdView {
@@ -233,6 +240,8 @@ export interface BatchScoreView {
   /** Scored rows with a value outside the fitted data, and the first of them by spreadsheet row. */
   outsideRows: number;
   outsideFirst: { row: number; columns: string[] }[];
+  /** A file of counts scored with a model fitted on counts: Σ trials × risk over the scored rows; else null. */
+  expectedEvents?: number | null;
   /** Rows skipped because a category was not seen when the model was fitted, and the first of them. */
   unknownRows: number;
   unknownFirst: { row: number; column: string; value: string }[];

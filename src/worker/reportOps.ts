@@ -11,6 +11,9 @@ import { cooksForReport } from '../report/reportSectionDiagnostics';
 import { FULCRA_VERSION } from '../report/version';
 import type { Costs, CutoffOrigin, ReportRequestText, ReportText } from './protocol';
 import { requireData, requireFit, requireRecord, type Session } from './session';
+import { currentPoints } from './pointsOps';
+import { subgroupsForReport } from './subgroupOps';
+import { comparisonForReport } from './compareOps';
 
 /**
  * The model-summary PDF of the current model, built in the worker from the engine's own records (fit,
@@ -55,6 +58,7 @@ export function modelReport(
     cautionSetting: cautionSettingOf(text.cautions),
     oddsUnits: text.oddsUnits,
     fit: record.fit,
+    layout: record.layout ?? undefined,
     evaluation,
     validation: record.validation ?? undefined,
     sampleSize: record.sampleSize ?? undefined,
@@ -81,9 +85,12 @@ export function modelReport(
       : undefined,
     external: record.external ?? undefined,
     monitoring,
+    points: currentPoints(s),
     warnings: s.imputed?.warnings,
   });
-  return buildModelReport(input);
+  const subgroups = subgroupsForReport(s, threshold);
+  const comparison = comparisonForReport(s);
+  return buildModelReport({ ...input, ...(subgroups ? { subgroups } : {}), ...(comparison ? { comparison } : {}) });
 }
 
 /** The versioned model file (JSON) of the current model, with the cut-off and costs chosen on the page. */
@@ -106,6 +113,7 @@ export function modelFileText(
       threshold: { value: threshold, costMissedCase: costs.missedCase, costFalseAlarm: costs.falseAlarm },
       notes: { purpose: text.purpose, setting: text.setting, population: text.population, notes: text.notes },
       rowsLeftOut: requireRecord(s).request.leaveOut ?? [],
+      points: currentPoints(s)?.score,
     }),
   );
 }

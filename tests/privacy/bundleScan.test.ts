@@ -132,6 +132,13 @@ describe('built bundle privacy scan', () => {
     for (const f of page) expect(readFileSync(f, 'utf8').match(/(?<![\w$.])eval(?![\w$])/g), f).toBeNull();
   });
 
+  it("keeps jsPDF out of the page's own script: every PDF is drawn in the engine worker", () => {
+    // A page import of a PDF section once pulled jsPDF (and its optional-module stubs) into the page chunk, which
+    // broke the single-file build; text helpers shared with the page live apart from the jsPDF drawing code.
+    const page = files.filter((f) => /[\\/]index-[^\\/]*\.js$/.test(f));
+    for (const f of page) expect(readFileSync(f, 'utf8').includes('jsPDF'), f).toBe(false);
+  });
+
   it('loads nothing from another origin in its HTML (scripts, styles, fonts, images)', () => {
     for (const f of files.filter((x) => x.endsWith('.html'))) {
       const html = readFileSync(f, 'utf8');

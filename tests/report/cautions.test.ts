@@ -15,7 +15,9 @@ function cautionsText(bytes: Uint8Array, name: string): string {
   const path = join(dir, `${name}.pdf`);
   writeFileSync(path, bytes);
   const text = execFileSync('pdftotext', ['-enc', 'UTF-8', path, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
-  return text.slice(text.lastIndexOf('Cautions'));
+  // up to the TRIPOD+AI checklist page, which names the Cautions section
+  const body = text.split(/\d+\. TRIPOD\+AI checklist/)[0];
+  return body.slice(body.lastIndexOf('Cautions'));
 }
 
 let input: ReportInput;

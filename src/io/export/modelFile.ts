@@ -1,6 +1,7 @@
 import { FulcraError } from '../../engine/core';
 import type { CoefficientRow, DesignRecipe, FitMethod, FitResult, TermRow } from '../../engine/core';
 import type { EngineWarning } from '../../engine/core';
+import type { PointsScore } from '../../engine/points';
 
 /** Current model-file schema version (the value of the `fulcraModel` field). */
 export const MODEL_FILE_VERSION = 1;
@@ -26,6 +27,9 @@ export const MODEL_FILE_VERSION = 1;
  * - `threshold`: chosen risk threshold with its two costs, or null.
  * - `notes`: the user's purpose / setting / population text and free notes (each optional).
  * - `warnings`: the fit's warnings at the time of saving.
+ * - `points` (optional; absent when no bedside points score was built, and in older files): the points score of
+ *   the model (the engine's PointsScore: points per category or range of each predictor, the table from total points
+ *   to risk, the base unit), checked on reading by readPointsScore and against the recipe's terms.
  * Risk for a row is 1 / (1 + exp(−Σ_j coefficients[j].estimate · x_j)) with x the recipe's design row.
  */
 export interface ModelFile {
@@ -71,6 +75,8 @@ export interface ModelFile {
   /** The committee's words for the summary; `notes` (free text) was added later, so older files lack it. */
   notes: { purpose?: string; setting?: string; population?: string; notes?: string };
   warnings: EngineWarning[];
+  /** The bedside points score built from this model, when one was; absent otherwise (and in older files). */
+  points?: PointsScore;
 }
 
 export interface ModelFileCoefficient {
@@ -98,6 +104,8 @@ export interface ModelFileInfo {
   threshold?: ModelFile['threshold'];
   notes?: ModelFile['notes'];
   rowsLeftOut?: number[];
+  /** The bedside points score of this fit, when one was built. */
+  points?: PointsScore;
 }
 
 const finiteOrNull = (x: number | null): number | null => (x === null || !Number.isFinite(x) ? null : x);
@@ -171,6 +179,7 @@ export function createModelFile(fit: FitResult, info: ModelFileInfo): ModelFile 
     threshold: info.threshold ?? null,
     notes: { ...(info.notes ?? {}) },
     warnings: fit.warnings.map((w) => ({ ...w })),
+    ...(info.points ? { points: JSON.parse(JSON.stringify(info.points)) as PointsScore } : {}),
   };
 }
 

@@ -3,6 +3,8 @@ import type { DesignRecipe } from '../../engine/core';
 import type { EngineWarning } from '../../engine/core';
 import { MODEL_FILE_VERSION, type ModelFile } from './modelFile';
 import { FieldChecker, parseJsonFile } from './validate';
+import { readModelPoints } from './readModelPoints';
+import { checkLayout } from './workspaceFile';
 
 /**
  * Reads and validates a model file. Throws FulcraError 'model-file-invalid' (not JSON, or a field missing or of
@@ -150,6 +152,8 @@ export function readModelFile(text: string): ModelFile {
       : null,
     notes: Object.fromEntries(Object.entries(notes).map(([k, v]) => [k, c.string(v, `notes.${k}`)])),
     warnings,
+    // Optional: files saved without a points score (and before it existed) lack it.
+    ...(o.points === undefined ? {} : { points: readModelPoints(o.points, recipe) }),
   };
 }
 
@@ -187,6 +191,8 @@ function checkRecipe(c: FieldChecker, v: unknown): DesignRecipe {
     terms,
     columnNames: c.stringArray(r.columnNames, 'recipe.columnNames'),
     ...(r.ranges === undefined ? {} : { ranges: checkRanges(c, r.ranges) }),
+    ...(r.layout === undefined ? {} : { layout: checkLayout(c, r.layout, 'recipe.layout') }),
+    ...(r.weights === undefined ? {} : { weights: c.string(r.weights, 'recipe.weights') }),
   };
 }
 

@@ -48,7 +48,12 @@ export function savedTime(iso: string): string {
   });
 }
 
-export function restoring(ctx: EffectContext, data: DataLoading, fit: Pick<Fitting, 'fitWith'>): RestoreEffects {
+export function restoring(
+  ctx: EffectContext,
+  data: DataLoading,
+  fit: Pick<Fitting, 'fitWith'>,
+  refitKept: () => Promise<void> = async () => {},
+): RestoreEffects {
   const { store, client, s, job } = ctx;
   let recovering = false;
 
@@ -102,6 +107,7 @@ export function restoring(ctx: EffectContext, data: DataLoading, fit: Pick<Fitti
     const built = requestOf(s());
     const request = settings.fittedRequest ?? (settings.fitted && 'request' in built ? built.request : null);
     if (request) await fit.fitWith(request, true);
+    await refitKept(); // the other models kept in the workspace (modelsState.ts), then the shown one again
   }
 
   type CheckedSettings = ReturnType<typeof settingsFromWorkspace>;
