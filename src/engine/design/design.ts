@@ -87,7 +87,15 @@ function partEncoding(recipe: DesignRecipe, part: string): { names: string[]; le
   return { names: [part] };
 }
 
-type RecipeOptions = { rows?: Int32Array; outcome?: 'if-present' | 'ignore' };
+type RecipeOptions = {
+  rows?: Int32Array;
+  outcome?: 'if-present' | 'ignore';
+  /**
+   * The caller has checked that every row of `rows` has a value in every column the recipe reads (outcome and
+   * weights included): the missing-value scan is skipped and `rows` are used as they are.
+   */
+  complete?: boolean;
+};
 
 /** The rows a recipe uses on `data` (complete cases among `opts.rows`) and the columns it reads. */
 interface RecipeRows {
@@ -114,6 +122,8 @@ function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): R
       ? getColumn(data, recipe.weights)
       : null;
   const droppedByColumn: Record<string, number> = {};
+  if (opts.complete && rows)
+    return { cols, outcomeCol, weightsCol, rowsUsed: rows, n: rows.length, nDropped: 0, droppedByColumn };
   let candidate = rows;
   if (!candidate) {
     candidate = new Int32Array(data.nRows);

@@ -154,7 +154,8 @@ export function scoreMonitoring(
     recipe,
     model.coefficients.map((c) => c.estimate),
     data,
-    { rows: keep.subarray(0, k) },
+    // every kept row has its outcome and predictors (checked above, with the reasons listed)
+    { rows: keep.subarray(0, k), complete: true },
   );
   const n = enc.n;
   const src = enc.rowsUsed;
@@ -175,15 +176,34 @@ export function scoreMonitoring(
   // sheetRow(data, r), without a call per case
   const listed = data.rowNumbers ?? null;
   const first = data.firstRow ?? 2;
-  for (let i = 0; i < n; i++) {
-    const j = order[i],
-      r = src[j];
-    y[i] = ey[j];
-    eta[i] = enc.eta[j];
-    risk[i] = sigmoid(enc.eta[j]);
-    date[i] = dates[r];
-    row[i] = listed ? listed[r] : first + r;
-    if (unit) unit[i] = units!.codes[r];
+  // Typed loops with their arrays in locals; when the file is already in date order (and, for the row-indexed
+  // arrays, every row was scored) the copies are bulk copies, which cost little even on a first, unoptimised call.
+  const ee = enc.eta;
+  if (sorted) {
+    y.set(ey);
+    eta.set(ee);
+  } else
+    for (let i = 0; i < n; i++) {
+      const j = order[i];
+      y[i] = ey[j];
+      eta[i] = ee[j];
+    }
+  for (let i = 0; i < n; i++) risk[i] = sigmoid(eta[i]);
+  const identity = sorted && n === data.nRows; // case i is data row i
+  let srcRow: Int32Array;
+  if (identity) srcRow = src;
+  else {
+    srcRow = new Int32Array(n);
+    for (let i = 0; i < n; i++) srcRow[i] = src[order[i]];
+  }
+  if (identity) date.set(dates);
+  else for (let i = 0; i < n; i++) date[i] = dates[srcRow[i]];
+  if (listed) for (let i = 0; i < n; i++) row[i] = listed[srcRow[i]];
+  else for (let i = 0; i < n; i++) row[i] = first + srcRow[i];
+  if (unit && units) {
+    const uc = units.codes;
+    if (identity) unit.set(uc);
+    else for (let i = 0; i < n; i++) unit[i] = uc[srcRow[i]];
   }
   return {
     cases: { y, eta, risk, date, unit, unitLevels: units ? units.levels : [], row },
