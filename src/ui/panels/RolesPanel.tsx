@@ -6,6 +6,37 @@ import { useApp, useEnv } from '../context';
 import { Interactions } from './Interactions';
 import { RoleRow } from './RoleRow';
 
+/** The names of `columns` other than the ones already taking another role. */
+function names(columns: { name: string }[], ...taken: (string | null)[]): string[] {
+  return columns.filter((c) => !taken.includes(c.name)).map((c) => c.name);
+}
+
+/** A list of names to choose one from, with an empty first entry (`none`) that chooses nothing (null). */
+function ChoiceSelect(props: {
+  value: string | null;
+  choices: string[];
+  onChoose: (value: string | null) => void;
+  none?: string;
+  testId?: string;
+  disabled?: boolean;
+}) {
+  return (
+    <select
+      value={props.value ?? ''}
+      data-testid={props.testId}
+      disabled={props.disabled}
+      onChange={(e) => props.onChoose(e.target.value || null)}
+    >
+      <option value="">{props.none ?? '— choose —'}</option>
+      {props.choices.map((name) => (
+        <option key={name} value={name}>
+          {name}
+        </option>
+      ))}
+    </select>
+  );
+}
+
 /** The layout for a choice in the layout list, keeping the count column already chosen. */
 function layoutOf(kind: string, counts: string | null): OutcomeLayout {
   if (kind === 'events-trials') return { kind, trials: counts ?? '' };
@@ -49,57 +80,34 @@ export function RolesPanel() {
         </label>
         <label>
           Case weights
-          <select
-            value={weights ?? ''}
-            data-testid="case-weights"
-            onChange={(e) => void ctl.act(A.changeWeights, e.target.value || null)}
-          >
-            <option value="">none: one case per row</option>
-            {numeric
-              .filter((c) => c.name !== outcome && c.name !== counts)
-              .map((c) => (
-                <option key={c.name} value={c.name}>
-                  {c.name}
-                </option>
-              ))}
-          </select>
+          <ChoiceSelect
+            value={weights}
+            testId="case-weights"
+            none="none: one case per row"
+            choices={names(numeric, outcome, counts)}
+            onChoose={(v) => void ctl.act(A.changeWeights, v)}
+          />
         </label>
       </div>
       {grouped ? (
         <div className="row">
           <label>
             Events (count)
-            <select
-              value={outcome ?? ''}
-              data-testid="events-column"
-              onChange={(e) => void ctl.act(A.changeOutcome, { column: e.target.value || null })}
-            >
-              <option value="">— choose —</option>
-              {numeric
-                .filter((c) => c.name !== counts && c.name !== weights)
-                .map((c) => (
-                  <option key={c.name} value={c.name}>
-                    {c.name}
-                  </option>
-                ))}
-            </select>
+            <ChoiceSelect
+              value={outcome}
+              testId="events-column"
+              choices={names(numeric, counts, weights)}
+              onChoose={(v) => void ctl.act(A.changeOutcome, { column: v })}
+            />
           </label>
           <label>
             {countWord} (count)
-            <select
-              value={counts ?? ''}
-              data-testid="counts-column"
-              onChange={(e) => void ctl.act(A.changeLayout, layoutOf(layout.kind, e.target.value || null))}
-            >
-              <option value="">— choose —</option>
-              {numeric
-                .filter((c) => c.name !== outcome && c.name !== weights)
-                .map((c) => (
-                  <option key={c.name} value={c.name}>
-                    {c.name}
-                  </option>
-                ))}
-            </select>
+            <ChoiceSelect
+              value={counts || null}
+              testId="counts-column"
+              choices={names(numeric, outcome, weights)}
+              onChoose={(v) => void ctl.act(A.changeLayout, layoutOf(layout.kind, v))}
+            />
           </label>
           <span className="hint">
             Each row stands for its {layout.kind === 'events-trials' ? 'trials' : 'events and non-events'}
@@ -112,34 +120,20 @@ export function RolesPanel() {
         <div className="row">
           <label>
             Outcome (yes/no)
-            <select
-              value={outcome ?? ''}
-              onChange={(e) => void ctl.act(A.changeOutcome, { column: e.target.value || null })}
-            >
-              <option value="">— choose —</option>
-              {data.columns
-                .filter((c) => c.modelling)
-                .map((c) => (
-                  <option key={c.name} value={c.name}>
-                    {c.name}
-                  </option>
-                ))}
-            </select>
+            <ChoiceSelect
+              value={outcome}
+              choices={data.columns.filter((c) => c.modelling).map((c) => c.name)}
+              onChoose={(v) => void ctl.act(A.changeOutcome, { column: v })}
+            />
           </label>
           <label>
             Counts as the event
-            <select
-              value={event ?? ''}
+            <ChoiceSelect
+              value={event}
               disabled={!outcomeCol}
-              onChange={(e) => void ctl.act(A.changeEvent, e.target.value || null)}
-            >
-              <option value="">— choose —</option>
-              {(outcomeCol?.levels ?? []).map((l) => (
-                <option key={l} value={l}>
-                  {l}
-                </option>
-              ))}
-            </select>
+              choices={outcomeCol?.levels ?? []}
+              onChoose={(v) => void ctl.act(A.changeEvent, v)}
+            />
           </label>
           {outcomeCol && A.outcomeHasOneValue(outcomeCol) && (
             <span className="hint" role="status" data-testid="outcome-one-value">
