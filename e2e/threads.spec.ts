@@ -3,7 +3,7 @@ import { createRng } from '../src/engine/numerics/rng';
 import { importText } from '../src/io';
 import { expect, shot, test } from './guard';
 
-/** 40 000 invented rows (seeded): more than one chunk of 32 768 rows, so that the row pool shares the passes. */
+/** 40 000 invented rows (seeded): at least POOL_MIN_ROWS = 32 768, so that the row pool shares the passes. */
 function bigCsv(rows: number): string {
   const rng = createRng(21);
   const lines = ['dose,age,shift,fault'];
@@ -17,9 +17,7 @@ function bigCsv(rows: number): string {
   return lines.join('\n');
 }
 
-test('a fit on more rows than one chunk runs on the helper threads and gives the one-thread numbers', async ({
-  page,
-}) => {
+test('a fit of 32 768 rows or more runs on the helper threads and gives the one-thread numbers', async ({ page }) => {
   const csv = bigCsv(40_000);
   await page.goto('/');
   expect(await page.evaluate(() => crossOriginIsolated)).toBe(true);

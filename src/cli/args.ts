@@ -38,7 +38,7 @@ export interface FitArgs {
   json: boolean;
   /** `--no-profile`: Wald intervals only (no profile-likelihood refits). */
   noProfile: boolean;
-  /** `--no-term-tests`: no likelihood-ratio test of each term (one refit per term). */
+  /** `--no-term-tests`: no likelihood-ratio test of each term (one constrained solve per term). */
   noTermTests: boolean;
   /** `--diagnostics`: add the per-row leverage, residuals and influence to the output. */
   diagnostics: boolean;
@@ -111,10 +111,11 @@ Fits a logistic-regression model to FILE (.csv, .tsv, .txt or .xlsx) with the sa
   --delimiter D            override the detected delimiter (, ; tab |)
   --decimal . | ,          override the detected decimal mark
   --sheet NAME             sheet of an .xlsx file
-  --threads T              threads for fits above 32 768 rows (default: all cores, at most 8); same numbers on any T
+  --threads T              threads for fits of 32 768 rows or more (default: all cores, at most 8);
+                           the same numbers on any T
   --json                   print the full result record as JSON
-  --no-profile             skip the profile-likelihood intervals (about 8 refits per coefficient); Wald intervals stay
-  --no-term-tests          skip the likelihood-ratio test of each term (one refit per term); Wald p-values stay
+  --no-profile             skip the profile-likelihood intervals (two solves per coefficient); Wald intervals stay
+  --no-term-tests          skip the likelihood-ratio test of each term (one solve per term); Wald p-values stay
   --diagnostics            add per-row leverage, standardised residuals, Cook's distance and DFBETAS (with
                            spreadsheet row numbers) and the most influential rows to the output
   --leave-out 12,45        leave these spreadsheet rows out of the fit (recorded in the output); the file is unchanged

@@ -4,7 +4,7 @@
  */
 import type { Dataset, ModelSpec } from '../engine/core';
 import { designColumnCount } from '../engine/fitting';
-import { largeDataPlan, resolveRequest, type AnalysisRequestInput } from '../engine/workflow';
+import { inferenceSeconds, largeDataPlan, resolveRequest, type AnalysisRequestInput } from '../engine/workflow';
 
 /** Quiet for this long; then progress lines. */
 export const QUIET_MS = 2000;
@@ -44,16 +44,13 @@ export function createProgress(write: (line: string) => void, now: () => number 
 
 /** Multiply-adds a second on one thread (measured ~1.3·10⁹ on the development machine; see DEVELOPERS.md, Speed). */
 const RATE = 1e9;
-/** Newton iterations of a fit, of one profile-limit search (about 2×4 refits per coefficient) and of a term test. */
+/** Newton iterations of a fit. */
 const FIT_ITERATIONS = 8;
-const PROFILE_ITERATIONS = 2 * 4 * 4;
-const TERM_ITERATIONS = 5;
 
 /**
- * A rough estimate of the fit's seconds (one thread): each Newton iteration costs about n·p² multiply-adds for X'WX;
- * profile limits take ~32 iterations per coefficient, term tests ~5 per term. Only what the request will run
- * counts (the large-data rule skips profile limits and term tests above its sizes). Null when the request is bad
- * (the analysis then says why).
+ * A rough estimate of the fit's seconds (one thread): each Newton iteration of the fit costs about n·p² multiply-adds
+ * for X'WX; profile limits and term tests cost what the large-data rule estimates for them (inferenceSeconds), and
+ * count only when the request will run them. Null when the request is bad (the analysis then says why).
  */
 export function estimateFit(
   data: Dataset,
@@ -71,10 +68,11 @@ export function estimateFit(
   const profile = inference && plan.profile;
   const termTests = inference && plan.termTests;
   const terms = r.spec.terms.length;
-  const iterations =
-    FIT_ITERATIONS + (profile ? PROFILE_ITERATIONS * p : 0) + (termTests ? TERM_ITERATIONS * terms : 0);
+  const cost = inferenceSeconds(data.nRows, p, terms, r.method === 'firth');
   const perIteration = data.nRows * p * p + (p * p * p) / 3;
-  return { seconds: (iterations * perIteration) / RATE, p, profile, termTests, terms };
+  const seconds =
+    (FIT_ITERATIONS * perIteration) / RATE + (profile ? cost.profile : 0) + (termTests ? cost.termTests : 0);
+  return { seconds, p, profile, termTests, terms };
 }
 
 /** The up-front warning for a fit estimated at a minute or more, naming what takes the time and how to skip it. */
@@ -82,8 +80,8 @@ export function minutesWarning(e: NonNullable<ReturnType<typeof estimateFit>>): 
   if (e.seconds < 60) return null;
   const minutes = Math.round(e.seconds / 60);
   const parts: string[] = [];
-  if (e.profile) parts.push(`profile-likelihood intervals (about 8 refits for each of ${e.p} coefficients)`);
-  if (e.termTests) parts.push(`a likelihood-ratio test of each of ${e.terms} terms (one refit each)`);
+  if (e.profile) parts.push(`profile-likelihood intervals (two limits for each of ${e.p} coefficients)`);
+  if (e.termTests) parts.push(`a likelihood-ratio test of each of ${e.terms} terms`);
   const skip = [e.profile ? '--no-profile' : null, e.termTests ? '--no-term-tests' : null].filter(Boolean);
   return (
     `This fit will take minutes (roughly ${minutes < 1 ? 1 : minutes} min on one thread)` +

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { FulcraError, getColumn } from '../engine/core';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
-import { CHUNK_ROWS, installRowPool } from '../engine/numerics';
+import { POOL_MIN_ROWS, installRowPool } from '../engine/numerics';
 import type { RowDiagnostics } from '../engine/diagnostics';
 import { pointsStep, runAnalysis, type AnalysisRecord, type AnalysisRequestInput } from '../engine/workflow';
 import type { PointsRecord } from '../engine/workflow';
@@ -147,7 +147,7 @@ export async function runFit(args: FitArgs, argv: string[], version: string, pro
   const table = await loadTable(args.file, args, progress);
   // Large data: a pool of threads for the row passes, as the page starts one (the same numbers on any count).
   const threads = args.threads ?? defaultThreads();
-  const pool = threads > 1 && table.dataset.nRows > CHUNK_ROWS ? await startNodeRowPool(threads) : null;
+  const pool = threads > 1 && table.dataset.nRows >= POOL_MIN_ROWS ? await startNodeRowPool(threads) : null;
   if (pool) installRowPool(pool.pool);
   try {
     return await runFitOn(table, args, argv, version, progress);

@@ -1,5 +1,5 @@
 import type { Dataset, FitResult } from '../engine/core';
-import { CHUNK_ROWS, rowPoolThreads } from '../engine/numerics';
+import { POOL_MIN_ROWS, rowPoolThreads } from '../engine/numerics';
 import { runAnalysis, type FitStep } from '../engine/workflow';
 import { select } from '../io/numericSummary';
 import { checkFitBudget } from './budget';
@@ -37,7 +37,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks, fitted
     },
     typical: typicalValues(data, record.fit, scores.rowsUsed),
     rowsUsed: n,
-    threads: n > CHUNK_ROWS ? rowPoolThreads() : 1,
+    threads: n >= POOL_MIN_ROWS ? rowPoolThreads() : 1,
     layout: record.layout ?? null,
     warnings: record.warnings,
   };

@@ -63,9 +63,9 @@ describe('npm run fit', () => {
   }, 60_000);
 });
 
-describe('npm run fit on more rows than one chunk', () => {
+describe('npm run fit on 32 768 rows or more', () => {
   it('prints the same record on 1 and on 2 threads (the row pool changes no number)', () => {
-    // 40 000 invented rows (seeded), more than CHUNK_ROWS = 32 768, so that two threads share the passes.
+    // 40 000 invented rows (seeded), at least POOL_MIN_ROWS = 32 768, so that two threads share the passes.
     const dir = mkdtempSync(join(tmpdir(), 'fulcra-threads-'));
     const file = join(dir, 'rows.csv');
     const rng = createRng(4);

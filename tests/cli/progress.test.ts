@@ -60,17 +60,38 @@ describe('npm run fit says how long and how far', () => {
     expect(run.fit.coefficients.map((c) => c.estimate)).toEqual(full.fit.coefficients.map((c) => c.estimate));
   });
 
-  it('says up front that 500 predictors × 1000 rows will take minutes, and what to skip', () => {
-    const { data } = invented(1000, 500);
+  it('says up front when a fit will take minutes; profile limits and term tests never make it so', () => {
+    // 10⁶ rows × 100 predictors: the fit alone is ~8 Newton iterations of n·p² (columns without values: the
+    // estimate reads only the sizes).
+    const wide: Dataset = {
+      nRows: 1_000_000,
+      columns: [
+        ...Array.from({ length: 100 }, (_, j) => ({
+          kind: 'numeric' as const,
+          name: `x${j + 1}`,
+          values: new Float64Array(0),
+        })),
+        { kind: 'numeric' as const, name: 'y', values: new Float64Array(0) },
+      ],
+    };
     const argsOf = (extra: string[]) => parseFitArgs(['f.csv', '--outcome', 'y', ...extra]);
-    const e = estimateFit(data, requestFromArgs(argsOf([]), specOf(500)))!;
-    const line = minutesWarning(e);
-    expect(line).toMatch(/^This fit will take minutes \(roughly \d+ min on one thread\)/);
-    expect(line).toMatch(/profile-likelihood intervals \(about 8 refits for each of 501 coefficients\)/);
-    expect(line).toMatch(/--no-profile and --no-term-tests skip that/);
-    const quick = estimateFit(data, requestFromArgs(argsOf(['--no-profile', '--no-term-tests']), specOf(500)))!;
-    expect(minutesWarning(quick)).toBeNull();
-    // A small fit says nothing.
+    const e = estimateFit(wide, requestFromArgs(argsOf([]), specOf(100)))!;
+    // the large-data rule drops both at this size (each would take over its budget)
+    expect([e.profile, e.termTests]).toEqual([false, false]);
+    expect(minutesWarning(e)).toMatch(/^This fit will take minutes \(roughly \d+ min on one thread\)\.$/);
+    // 1000 rows × 500 predictors: profile limits and term tests within their budgets, and no warning.
+    const { data } = invented(1000, 500);
+    const mid = estimateFit(data, requestFromArgs(argsOf([]), specOf(500)))!;
+    expect([mid.profile, mid.termTests]).toEqual([true, true]);
+    expect(mid.seconds).toBeLessThan(60);
+    expect(minutesWarning(mid)).toBeNull();
+    // The words for what takes the time, when a long estimate does include them.
+    expect(minutesWarning({ ...mid, seconds: 600 })).toMatch(
+      new RegExp(
+        'profile-likelihood intervals \\(two limits for each of 501 coefficients\\).*' +
+          '--no-profile and --no-term-tests skip that',
+      ),
+    );
     const small = invented(2000, 10).data;
     expect(minutesWarning(estimateFit(small, requestFromArgs(argsOf([]), specOf(10)))!)).toBeNull();
   });

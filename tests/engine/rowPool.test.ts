@@ -11,6 +11,7 @@ import {
   helperRun,
   installRowPool,
   messagePool,
+  POOL_MIN_ROWS,
   takeBuffer,
   type RowJob,
 } from '../../src/engine/numerics/rowPool';
@@ -112,9 +113,18 @@ describe('createRowPasses (one thread, by chunks)', () => {
 });
 
 describe('row pool: the same numbers on any number of threads', () => {
-  // n spans 4 chunks and takes the subsampled-Hessian path (n > 20 000 and n > 16·p²).
-  const n = 3 * CHUNK_ROWS + 123,
+  // n reaches the pool (≥ POOL_MIN_ROWS), spans 7 chunks and takes the subsampled-Hessian path (n > 20 000 and
+  // n > 16·p²).
+  const n = POOL_MIN_ROWS + 2 * CHUNK_ROWS + 123,
     p = 6;
+
+  it('runs on the pool from POOL_MIN_ROWS rows and on this thread below (same chunks either way)', () => {
+    installRowPool(inlinePool(2));
+    const big = problem(n, p, 3),
+      small = problem(POOL_MIN_ROWS - 1, p, 3);
+    expect(createRowPasses(big.X, big.n, p, big.y, undefined, undefined).pooled).toBe(true);
+    expect(createRowPasses(small.X, small.n, p, small.y, undefined, undefined).pooled).toBe(false);
+  });
 
   it('gives bit-for-bit the fit of one thread with 2, 3 and 5 threads (helpers run inline)', () => {
     const serial = fitAll(problem(n, p, 5));

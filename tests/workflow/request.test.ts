@@ -2,11 +2,11 @@ import { describe, expect, it } from 'vitest';
 import { FulcraError, type Dataset } from '../../src/engine/core';
 import {
   defaultAnalysisRequest,
+  INFERENCE_BUDGET_S,
+  inferenceSeconds,
   largeDataPlan,
   pipelineOf,
-  PROFILE_MAX_CELLS,
   resolveRequest,
-  TERM_TESTS_MAX_CELLS,
 } from '../../src/engine/workflow';
 
 const spec = { outcome: 'y', terms: [{ type: 'main' as const, column: 'x' }] };
@@ -59,17 +59,35 @@ describe('the large-data rule (the same for the page and npm run fit)', () => {
   });
   const r = resolveRequest({ spec });
 
-  it('keeps profile intervals up to 3·10⁶ design cells and term tests up to 5·10⁶', () => {
-    expect(largeDataPlan(data(PROFILE_MAX_CELLS / 2), r)).toEqual({ profile: true, termTests: true, warnings: [] });
+  // One predictor: 2 design columns, 1 term. The largest row counts whose estimated cost fits the budget.
+  const fits = (part: 'profile' | 'termTests') => {
+    const perRow = inferenceSeconds(1e6, 2, 1)[part] / 1e6;
+    return Math.floor(INFERENCE_BUDGET_S / perRow);
+  };
+
+  it('keeps profile intervals and term tests while each costs at most the budget', () => {
+    expect(fits('profile')).toBeLessThan(fits('termTests'));
+    expect(largeDataPlan(data(fits('profile')), r)).toEqual({ profile: true, termTests: true, warnings: [] });
   });
 
-  it('drops profile intervals above 3·10⁶ cells and term tests above 5·10⁶, each with a notice', () => {
-    const mid = largeDataPlan(data(PROFILE_MAX_CELLS / 2 + 1), r);
+  it('drops each above the budget, with a notice', () => {
+    const mid = largeDataPlan(data(fits('profile') + 10), r);
     expect([mid.profile, mid.termTests]).toEqual([false, true]);
     expect(mid.warnings.map((w) => w.code)).toEqual(['large-data-wald-only']);
-    expect(mid.warnings[0].message).toContain('With 1,500,001 rows, profile-likelihood intervals were not computed');
-    const big = largeDataPlan(data(TERM_TESTS_MAX_CELLS / 2 + 1), { ...r, profile: false });
+    expect(mid.warnings[0].message).toContain(
+      `With ${(fits('profile') + 10).toLocaleString('en')} rows, profile-likelihood intervals were not computed`,
+    );
+    const big = largeDataPlan(data(fits('termTests') + 10), { ...r, profile: false });
     expect([big.profile, big.termTests]).toEqual([false, false]);
     expect(big.warnings.map((w) => w.code)).toEqual(['large-data-no-term-tests']);
+  });
+
+  it('keeps both at 10⁵ rows × 50 design columns (the speed target) and skips profile limits at 10⁶ × 21', () => {
+    const at = (n: number, p: number) => inferenceSeconds(n, p, p - 1);
+    expect(at(1e5, 51).profile).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
+    expect(at(1e5, 51).termTests).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
+    expect(at(1e6, 21).profile).toBeGreaterThan(INFERENCE_BUDGET_S);
+    // Firth's passes also take X'WX and the hat values: far dearer at the same size.
+    expect(inferenceSeconds(1e5, 51, 50, true).profile).toBeGreaterThan(10 * at(1e5, 51).profile);
   });
 });

@@ -24,6 +24,97 @@ export interface ChordBase {
 /** The points of a coefficient's two profile limits (standardised coordinates), by kept coordinate. */
 export type ProfileTraces = Map<number, { lower: Float64Array; upper: Float64Array }>;
 
+/** What a solver asks for: the objective and score at b, or the information (penalty included) at b. */
+export type ChordRequest = { kind: 'at'; b: Float64Array } | { kind: 'information'; b: Float64Array };
+type Evaluation = { obj: number; g: Float64Array };
+/**
+ * A solve written as a generator: each pass over the rows it needs is a request (yield), answered by the driver
+ * (runChordSolvers), so that several solves can share one pass. Its return value is the solve's result.
+ */
+export type ChordSolver<T> = Generator<ChordRequest, T, Evaluation | Float64Array>;
+
+function* at(b: Float64Array): Generator<ChordRequest, Evaluation, Evaluation | Float64Array> {
+  return (yield { kind: 'at', b }) as Evaluation;
+}
+
+function* information(b: Float64Array): Generator<ChordRequest, Float64Array, Evaluation | Float64Array> {
+  return (yield { kind: 'information', b }) as Float64Array;
+}
+
+/**
+ * Solves sharing passes: at most this many step together, each pass evaluating all of their points (the kernel
+ * takes them two per load of X; four per pass halves the hand-overs to a row pool's helpers).
+ */
+export const SOLVE_WIDTH = 4;
+
+/**
+ * Runs solvers in lockstep, `width` at a time in the order given (a finished one is replaced by the next at once):
+ * every round evaluates the points all active solvers ask for in one pass (objectiveEvaluator atMany), so each
+ * solver sees exactly the numbers it would see alone and its result does not depend on the width or on the
+ * other solvers. An information request is answered at once (one pass at its point unless that was the last point
+ * evaluated alone, then X'WX). `onDone(i, result)` is called as solver i finishes (progress, follow-up work).
+ */
+export function runChordSolvers<T>(
+  problem: LogisticProblem,
+  solvers: ((N: number) => ChordSolver<T>)[],
+  width = SOLVE_WIDTH,
+  onDone?: (i: number, result: T) => void,
+): T[] {
+  const ev = objectiveEvaluator(problem);
+  try {
+    const out: T[] = new Array(solvers.length);
+    /** The point whose pass the evaluator's slot holds (its weights give the information), if any. */
+    let slotAt: Float64Array | null = null;
+    const alone = (b: Float64Array): Evaluation => {
+      const e = ev.at(b);
+      slotAt = Float64Array.from(b);
+      return e;
+    };
+    /** Resumes solver i with `reply` until it asks for a point (returned) or finishes (null). */
+    const advance = (i: number, gen: ChordSolver<T>, reply: Evaluation | Float64Array | undefined) => {
+      let r = gen.next(reply as Evaluation);
+      while (!r.done && r.value.kind === 'information') {
+        const b = r.value.b;
+        if (!slotAt || slotAt.some((v, j) => v !== b[j])) alone(b);
+        r = gen.next(ev.information());
+      }
+      if (!r.done) return r.value.b;
+      out[i] = r.value;
+      onDone?.(i, r.value);
+      return null;
+    };
+    const active: { i: number; gen: ChordSolver<T>; b: Float64Array }[] = [];
+    let next = 0;
+    const fill = () => {
+      while (active.length < width && next < solvers.length) {
+        const i = next++,
+          gen = solvers[i](ev.N);
+        const b = advance(i, gen, undefined);
+        if (b) active.push({ i, gen, b });
+      }
+    };
+    fill();
+    while (active.length > 0) {
+      let evals: Evaluation[];
+      if (active.length === 1) evals = [alone(active[0].b)];
+      else {
+        evals = ev.atMany(active.map((a) => a.b));
+        slotAt = null;
+      }
+      const still = active.filter((a, q) => {
+        const b = advance(a.i, a.gen, evals[q]);
+        if (b) a.b = b;
+        return b !== null;
+      });
+      active.splice(0, active.length, ...still);
+      fill();
+    }
+    return out;
+  } finally {
+    ev.release();
+  }
+}
+
 /** Steps before a solve gives up (the caller then refits). */
 const MAX_STEPS = 60;
 /** Matrix refreshes before a solve gives up. */
@@ -34,6 +125,16 @@ const SLOW = 0.2;
 const factor = (H: Float64Array, p: number): Cholesky | null => {
   const ch = cholesky(H, p, 1e-12);
   return ch.dropped.some((d) => d === 1) ? null : ch;
+};
+
+/**
+ * The factor of a base's information, taken once for all the solves that start from it (p³/3 each: at 500
+ * columns, a factor per limit would cost more than the passes).
+ */
+const baseFactors = new WeakMap<Float64Array, Cholesky | null>();
+const factorOfBase = (H: Float64Array, p: number): Cholesky | null => {
+  if (!baseFactors.has(H)) baseFactors.set(H, factor(H, p));
+  return baseFactors.get(H)!;
 };
 
 const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
@@ -54,12 +155,20 @@ const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
  * wrong side).
  */
 export function chordProfileBound(base: ChordBase, k: number, crit: number, dir: 1 | -1): Float64Array | null {
-  const { problem } = base;
-  const p = problem.p;
-  const ev = objectiveEvaluator(problem);
-  try {
-    const N = ev.N;
-    let ch = factor(base.H, p);
+  return runChordSolvers(base.problem, [(N) => profileBoundSolver(base, k, crit, dir, N)], 1)[0];
+}
+
+/** chordProfileBound as a solver for runChordSolvers (N: the case total, the objective's divisor). */
+export function* profileBoundSolver(
+  base: ChordBase,
+  k: number,
+  crit: number,
+  dir: 1 | -1,
+  N: number,
+): ChordSolver<Float64Array | null> {
+  const p = base.problem.p;
+  {
+    let ch = factorOfBase(base.H, p);
     if (!ch) return null;
     const ek = new Float64Array(p),
       v = new Float64Array(p),
@@ -76,7 +185,7 @@ export function chordProfileBound(base: ChordBase, k: number, crit: number, dir:
       refreshes = 0,
       fresh = false;
     for (let step = 0; step < MAX_STEPS; step++) {
-      const e = ev.at(b);
+      const e = yield* at(b);
       const F = 2 * N * (e.obj - base.objective) - crit;
       if (!Number.isFinite(F)) return null;
       gt.set(e.g);
@@ -97,7 +206,7 @@ export function chordProfileBound(base: ChordBase, k: number, crit: number, dir:
         if (residual > SLOW * lastResidual && !fresh) {
           // slow (or no) contraction: recompute the matrix here and take this step with it
           if (++refreshes > MAX_REFRESH) return null;
-          ch = factor(ev.information(), p);
+          ch = factor(yield* information(b), p);
           if (!ch) return null;
           choleskySolve(ch, ek, v);
           if (!(v[k] > 0)) return null;
@@ -112,8 +221,6 @@ export function chordProfileBound(base: ChordBase, k: number, crit: number, dir:
       }
     }
     return null;
-  } finally {
-    ev.release();
   }
 }
 
@@ -126,14 +233,23 @@ export function chordProfileBound(base: ChordBase, k: number, crit: number, dir:
  * a step raises the objective.
  */
 export function chordConstrainedObjective(base: ChordBase, zero: number[], start?: Float64Array): number | null {
+  return runChordSolvers(base.problem, [(N) => constrainedSolver(base, zero, N, start)], 1)[0];
+}
+
+/** chordConstrainedObjective as a solver for runChordSolvers (N: the case total, the objective's divisor). */
+export function* constrainedSolver(
+  base: ChordBase,
+  zero: number[],
+  N: number,
+  start?: Float64Array,
+): ChordSolver<number | null> {
   const { problem } = base;
   const p = problem.p,
     m = zero.length;
-  const ev = objectiveEvaluator(problem);
-  try {
+  {
     /** VK = H⁻¹ columns of K (p×m, column-major), MK = Cholesky of V_KK. */
     const setup = (H: Float64Array) => {
-      const ch = factor(H, p);
+      const ch = H === base.H ? factorOfBase(H, p) : factor(H, p);
       if (!ch) return null;
       const VK = new Float64Array(p * m),
         e = new Float64Array(p);
@@ -170,7 +286,7 @@ export function chordConstrainedObjective(base: ChordBase, zero: number[], start
       refreshes = 0,
       fresh = false;
     for (let step = 0; step < MAX_STEPS; step++) {
-      const e = ev.at(b);
+      const e = yield* at(b);
       if (!Number.isFinite(e.obj) || e.obj > lastObj + 1e-13 * Math.abs(lastObj)) return null;
       gt.set(e.g);
       for (const k of zero) gt[k] = 0;
@@ -183,11 +299,11 @@ export function chordConstrainedObjective(base: ChordBase, zero: number[], start
         // The next step would lower the objective by decrement/(2N) up to a relative error ≈ the chord's
         // contraction √(decrement / previous decrement): taken without a pass once that error is below 1e-10.
         const ratio = decrement / last;
-        if (decrement < 1e-6 && Math.sqrt(ratio) * decrement < 1e-10) return e.obj - decrement / (2 * ev.N);
+        if (decrement < 1e-6 && Math.sqrt(ratio) * decrement < 1e-10) return e.obj - decrement / (2 * N);
         const chordLeft = ratio < 1 ? Math.log(1e-10 / decrement) / Math.log(ratio) : Infinity;
         if ((decrement > SLOW * last || chordLeft > 3 + refreshCost) && !fresh) {
           if (++refreshes > MAX_REFRESH) return null;
-          const next = setup(ev.information());
+          const next = setup(yield* information(b));
           if (!next) return null;
           s = next;
           fresh = true;
@@ -201,8 +317,6 @@ export function chordConstrainedObjective(base: ChordBase, zero: number[], start
       }
     }
     return null;
-  } finally {
-    ev.release();
   }
 }
 

@@ -239,7 +239,7 @@ function createWorkspace(pr: LogisticProblem, N: number) {
     }
     s.obj = obj;
   };
-  return { newSlot, evaluate, computeInfo, passes };
+  return { newSlot, evaluate, computeInfo, passes, penaltyTerm };
 }
 
 /** Adds N·diag(penalty) to H and takes the fixed coordinates out of the step system (their row, column and U). */
@@ -560,6 +560,29 @@ export function objectiveEvaluator(problem: LogisticProblem) {
       const H = Float64Array.from(slot.info);
       if (penalty) for (let j = 0; j < p; j++) H[j * p + j] += N * penalty[j];
       return H;
+    },
+    /**
+     * The objective and score at each of several points in one pass over the rows (two points per load of X:
+     * rowPool.ts logisticMany), bit-for-bit what `at` gives at each; Firth's objective needs the information at
+     * every point, so there the points are taken one by one.
+     */
+    atMany(bs: Float64Array[]): { obj: number; g: Float64Array }[] {
+      if (problem.firth || bs.length === 1)
+        return bs.map((b) => {
+          ws.evaluate(b, slot, false);
+          return { obj: slot.obj, g: Float64Array.from(slot.g) };
+        });
+      const m = bs.length,
+        B = new Float64Array(m * p),
+        losses = new Float64Array(m),
+        G = new Float64Array(m * p);
+      bs.forEach((b, q) => B.set(b, q * p));
+      ws.passes.logisticMany(B, m, losses, G);
+      return bs.map((b, q) => {
+        const g = G.subarray(q * p, (q + 1) * p);
+        if (penalty) for (let j = 0; j < p; j++) g[j] -= N * penalty[j] * b[j];
+        return { obj: losses[q] / N + ws.penaltyTerm(b), g };
+      });
     },
     release(): void {
       giveBackBuffers(slot.eta, slot.w);

@@ -1,5 +1,5 @@
 import { qchisq } from '../numerics/distributions';
-import { chordProfileBound, type ChordBase, type ProfileTraces } from './chordSolve';
+import { profileBoundSolver, runChordSolvers, SOLVE_WIDTH, type ChordBase, type ProfileTraces } from './chordSolve';
 import type { NewtonResult } from './newton';
 import { caseTotal, type PreparedFit } from './prepareFit';
 import { profileInterval } from './profileCi';
@@ -15,13 +15,20 @@ export type Limits = {
 
 /**
  * Runs `each(k, j)` for every kept coefficient: slopes on the standardised columns (θ = coordinate / scale), then
- * the intercept, which is a coordinate only of the uncentred design, so the columns are shifted back in place
- * (x/s = z + m/s), coordinate 0 is profiled, and they are centred again.
+ * the intercept (withInterceptCoordinate).
  */
 function forEachCoordinate(prep: PreparedFit, each: (k: number, j: number, shifted: boolean) => void): void {
+  prep.keep.forEach((j, k) => j > 0 && each(k, j, false));
+  withInterceptCoordinate(prep, () => each(0, 0, true));
+}
+
+/**
+ * Runs `fn` with coordinate 0 of the problem being the intercept, which is a coordinate only of the uncentred
+ * design: the standardised columns are shifted back in place (x/s = z + m/s) and centred again afterwards.
+ */
+function withInterceptCoordinate(prep: PreparedFit, fn: () => void): void {
   const { std, keep, problem } = prep;
   const n = prep.design.n;
-  keep.forEach((j, k) => j > 0 && each(k, j, false));
   const Zk = problem.X;
   const shift = (sign: 1 | -1) =>
     keep.forEach((j, k) => {
@@ -31,7 +38,7 @@ function forEachCoordinate(prep: PreparedFit, each: (k: number, j: number, shift
     });
   shift(1);
   try {
-    each(0, 0, true);
+    fn();
   } finally {
     shift(-1);
   }
@@ -61,22 +68,49 @@ export function profileLimits(
   const target = { problem, objective: nr.objective, maxIter };
   const crit = qchisq(level, 1);
   const H = nr.information;
-  const Hshift = exact ? H : shiftedInformation(prep, H);
-  forEachCoordinate(prep, (k, j, shifted) => {
-    const b = shifted ? Float64Array.from(nr.beta) : nr.beta;
-    if (shifted) b[0] = beta[0];
-    const scale = shifted ? 1 : std.scale[j];
+  /** The limits of coordinate k (column j) from its two chord solutions (null: not found, or `exact`). */
+  const finish = (k: number, j: number, b: Float64Array, lo: Float64Array | null, up: Float64Array | null) => {
+    const scale = j === 0 ? 1 : std.scale[j];
     const known: { lower?: number; upper?: number } = {};
-    if (!exact) {
-      const base: ChordBase = { problem, beta: b, objective: nr.objective, H: shifted ? Hshift : H };
-      const lo = chordProfileBound(base, k, crit, -1),
-        up = chordProfileBound(base, k, crit, 1);
-      if (lo !== null) known.lower = lo[k] / scale;
-      if (up !== null) known.upper = up[k] / scale;
-      if (lo && up && !shifted) traces?.set(k, { lower: lo, upper: up });
-    }
+    if (lo !== null) known.lower = lo[k] / scale;
+    if (up !== null) known.upper = up[k] / scale;
+    if (lo && up && j !== 0) traces?.set(k, { lower: lo, upper: up });
     profiles[j] = profileInterval({ ...target, beta: b, index: k, scale, estimate: beta[j], se: se(j), known }, level);
     step?.();
+  };
+  /** Both limits of each coordinate by chord solves sharing passes (runChordSolvers), finished as each pair is. */
+  const solveAll = (coords: { k: number; j: number }[], base: ChordBase) => {
+    if (exact) {
+      for (const { k, j } of coords) finish(k, j, base.beta, null, null);
+      return;
+    }
+    const found: (Float64Array | null | undefined)[] = [];
+    runChordSolvers(
+      problem,
+      coords.flatMap(({ k }) => [
+        (N: number) => profileBoundSolver(base, k, crit, -1, N),
+        (N: number) => profileBoundSolver(base, k, crit, 1, N),
+      ]),
+      SOLVE_WIDTH,
+      (i, point) => {
+        found[i] = point;
+        const c = i >> 1;
+        if (found[2 * c] !== undefined && found[2 * c + 1] !== undefined)
+          finish(coords[c].k, coords[c].j, base.beta, found[2 * c]!, found[2 * c + 1]!);
+      },
+    );
+  };
+  const slopes = prep.keep.flatMap((j, k) => (j > 0 ? [{ k, j }] : []));
+  solveAll(slopes, { problem, beta: nr.beta, objective: nr.objective, H });
+  withInterceptCoordinate(prep, () => {
+    const b = Float64Array.from(nr.beta);
+    b[0] = beta[0];
+    solveAll([{ k: 0, j: 0 }], {
+      problem,
+      beta: b,
+      objective: nr.objective,
+      H: exact ? H : shiftedInformation(prep, H),
+    });
   });
   return profiles;
 }

@@ -1,6 +1,13 @@
 import type { FitOptions, TermRow } from '../core/model';
 import { pchisqUpper } from '../numerics/distributions';
-import { chordConstrainedObjective, traceStart, type ProfileTraces } from './chordSolve';
+import {
+  chordConstrainedObjective,
+  constrainedSolver,
+  runChordSolvers,
+  SOLVE_WIDTH,
+  traceStart,
+  type ProfileTraces,
+} from './chordSolve';
 import { newtonLogistic, type NewtonResult } from './newton';
 import { caseTotal, type PreparedFit } from './prepareFit';
 import { limitFromStarts, neutralStart } from './separation';
@@ -70,13 +77,44 @@ export function termTests(
   traces?: ProfileTraces,
 ): TermRow[] {
   const kIndex = new Map(prep.keep.map((j, k) => [j, k]));
-  return prep.design.termColumns.map((t) => {
-    const kept = t.columns.filter((j) => kIndex.has(j)).map((j) => kIndex.get(j)!);
-    if (!run || kept.length === 0)
-      return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
-    const chi2 = constrainedStat(prep, nr, kept, o, separated, exact, traces);
-    step?.();
-    return { name: t.name, columns: t.columns, df: kept.length, lrChi2: chi2, lrP: pchisqUpper(chi2, kept.length) };
+  const terms = prep.design.termColumns.map((t) => ({
+    t,
+    kept: t.columns.filter((j) => kIndex.has(j)).map((j) => kIndex.get(j)!),
+  }));
+  const tested = run ? terms.filter((x) => x.kept.length > 0) : [];
+  const chi2 = new Map<(typeof terms)[number], number>();
+  if (!separated && !exact) {
+    // The constrained optima by chord solves sharing passes (runChordSolvers); a solve that does not converge is
+    // refitted as it finishes.
+    const base = { problem: prep.problem, beta: nr.beta, objective: nr.objective, H: nr.information };
+    const N = caseTotal(prep.problem);
+    runChordSolvers(
+      prep.problem,
+      tested.map((x) => {
+        const trace = x.kept.length === 1 ? traces?.get(x.kept[0]) : undefined;
+        const start = trace ? traceStart(nr.beta, x.kept[0], trace.lower, trace.upper) : null;
+        return (n: number) => constrainedSolver(base, x.kept, n, start ?? undefined);
+      }),
+      SOLVE_WIDTH,
+      (i, obj) => {
+        const x = tested[i];
+        chi2.set(
+          x,
+          obj !== null ? Math.max(0, 2 * N * (obj - nr.objective)) : constrainedStat(prep, nr, x.kept, o, false, true),
+        );
+        step?.();
+      },
+    );
+  } else
+    for (const x of tested) {
+      chi2.set(x, constrainedStat(prep, nr, x.kept, o, separated, exact, traces));
+      step?.();
+    }
+  return terms.map((x) => {
+    const { t, kept } = x;
+    const c = chi2.get(x);
+    if (c === undefined) return { name: t.name, columns: t.columns, df: kept.length, lrChi2: null, lrP: null };
+    return { name: t.name, columns: t.columns, df: kept.length, lrChi2: c, lrP: pchisqUpper(c, kept.length) };
   });
 }
 

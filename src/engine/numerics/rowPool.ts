@@ -12,7 +12,7 @@
  * Node; never on a page's main thread, where the engine does not run).
  */
 import { FulcraError } from '../core/data';
-import { accumulateXtWX, logisticRows, ROW_BLOCK } from './kernels';
+import { accumulateXtWX, logisticRows, logisticRowsPair, ROW_BLOCK } from './kernels';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
 const BLOCK_GROUPS = 4;
@@ -20,12 +20,23 @@ const BLOCK_GROUPS = 4;
 /** Seconds without any helper finishing after which a pooled pass gives up. */
 const HELPER_TIMEOUT_S = 120;
 
-/** Rows per chunk (a multiple of the kernels' row blocks, 256 and 512). */
-export const CHUNK_ROWS = 32_768;
+/**
+ * Rows per chunk (a multiple of the kernels' row blocks, 256 and 512). Small enough that the chunks of a fit of
+ * 10⁵ rows split evenly over two threads (13 chunks: 6 and 7; with 32 768-row chunks one thread took 2 of 4 and
+ * the other 1 plus a sliver, so a pass on 2 threads took 0.65 of one thread's time instead of 0.5), large enough
+ * that the per-chunk partial sums cost nothing beside the pass.
+ */
+export const CHUNK_ROWS = 8_192;
+
+/**
+ * Rows from which a pool shares the passes: below, one pass takes less than a millisecond and the hand-over to the
+ * helpers would cost more than it saves. Only where the chunks run changes, not their sums, so not the numbers.
+ */
+export const POOL_MIN_ROWS = 32_768;
 
 /** One full-data pass, as sent to the pool's helpers (typed arrays over SharedArrayBuffers; beta is copied). */
 export interface RowJob {
-  op: 'logistic' | 'information';
+  op: 'logistic' | 'information' | 'logisticMany';
   X: Float64Array;
   n: number;
   p: number;
@@ -37,11 +48,17 @@ export interface RowJob {
   offset?: Float64Array;
   beta?: Float64Array;
   eta?: Float64Array;
+  /**
+   * logisticMany: m coefficient vectors (m·p, vector q at q·p), taken in pairs (an odd last one paired with itself);
+   * only the losses (partLoss K·m) and scores (partG K·m·p, chunk k's vector q at (k·m + q)·p) come out.
+   */
+  betas?: Float64Array;
+  m?: number;
   /** information on a row subsample: starts of blocks of `blockRows` rows; chunk k takes blocks [k·chunkRows, …). */
   blocks?: Int32Array;
   blockRows?: number;
-  /** logistic: written (case weight × μ(1 − μ)); information: read. */
-  w: Float64Array;
+  /** logistic: written (case weight × μ(1 − μ)); information: read; logisticMany: not used. */
+  w?: Float64Array;
   /**
    * Per-chunk partials: loss (length K) and X'r (K·p) for 'logistic'; X'WX (K·p·p, row-major, both triangles) for
    * 'information'.
@@ -70,14 +87,41 @@ export function runChunks(
       H.fill(0);
       for (let q = k * chunkRows; q < Math.min(job.blocks.length, (k + 1) * chunkRows); q++) {
         const s = job.blocks[q];
-        accumulateXtWX(X, n, p, job.w, one, work, s, Math.min(n, s + B));
+        accumulateXtWX(X, n, p, job.w!, one, work, s, Math.min(n, s + B));
         for (let t = 0; t < p * p; t++) H[t] += one[t];
       }
       continue;
     }
     const a = k * chunkRows,
       b = Math.min(n, a + chunkRows);
-    if (job.op === 'logistic') {
+    if (job.op === 'logisticMany') {
+      const m = job.m!,
+        B = job.betas!,
+        loss = new Float64Array(2),
+        spare = new Float64Array(p);
+      for (let q = 0; q < m; q += 2) {
+        const r = Math.min(q + 1, m - 1),
+          gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
+          gr = r === q ? spare : job.partG.subarray((k * m + r) * p, (k * m + r + 1) * p);
+        logisticRowsPair(
+          X,
+          n,
+          p,
+          job.y!,
+          B.subarray(q * p, (q + 1) * p),
+          B.subarray(r * p, (r + 1) * p),
+          job.c,
+          job.offset,
+          gq,
+          gr,
+          loss,
+          a,
+          b,
+        );
+        job.partLoss[k * m + q] = loss[0];
+        if (r !== q) job.partLoss[k * m + r] = loss[1];
+      }
+    } else if (job.op === 'logistic') {
       job.partLoss[k] = logisticRows(
         X,
         n,
@@ -88,13 +132,13 @@ export function runChunks(
         job.offset,
         job.eta!,
         undefined,
-        job.w,
+        job.w!,
         job.partG.subarray(k * p, (k + 1) * p),
         a,
         b,
       );
     } else {
-      accumulateXtWX(X, n, p, job.w, job.partH!.subarray(k * p * p, (k + 1) * p * p), work, a, b);
+      accumulateXtWX(X, n, p, job.w!, job.partH!.subarray(k * p * p, (k + 1) * p * p), work, a, b);
     }
   }
 }
@@ -178,7 +222,7 @@ export function createRowPasses(
   if (chunkRows % 512 !== 0)
     throw new FulcraError('bad-argument', `chunkRows must be a multiple of 512, got ${chunkRows}.`);
   const K = Math.max(1, Math.ceil(n / chunkRows));
-  const pool = installed && K > 1 && [X, y, c, offset].every(isShared) ? installed : null;
+  const pool = installed && K > 1 && n >= POOL_MIN_ROWS && [X, y, c, offset].every(isShared) ? installed : null;
   const alloc = (len: number) => f64(len, pool !== null);
   const partLoss = alloc(K),
     partG = alloc(K * p);
@@ -226,6 +270,31 @@ export function createRowPasses(
       for (let k = 0; k < K; k++) loss += partLoss[k];
       sumParts(partG, K, p, g);
       return loss;
+    },
+    /**
+     * The losses −Σ cᵢ·loglikᵢ (into losses[q]) and scores X'(c(y − μ)) (into G, vector q at q·p) of m coefficient
+     * vectors (betas, vector q at q·p) in one pass over the rows (logisticRowsPair), each summed over the chunks in
+     * order: bit-for-bit what `logistic` gives for each vector alone. No η or weights are kept.
+     */
+    logisticMany(betas: Float64Array, m: number, losses: Float64Array, G: Float64Array): void {
+      if (!y) throw new FulcraError('bad-argument', 'These row passes were set up without an outcome.');
+      const pl = alloc(K * m),
+        pg = alloc(K * m * p),
+        b = alloc(m * p);
+      b.set(betas.subarray(0, m * p));
+      exec(
+        { op: 'logisticMany', X, n, p, chunkRows, y, c, offset, betas: b, m, partLoss: pl, partG: pg, done },
+        K,
+        true,
+      );
+      for (let q = 0; q < m; q++) {
+        let loss = 0;
+        for (let k = 0; k < K; k++) loss += pl[k * m + q];
+        losses[q] = loss;
+        const g = G.subarray(q * p, (q + 1) * p);
+        g.fill(0);
+        for (let k = 0; k < K; k++) for (let j = 0; j < p; j++) g[j] += pg[(k * m + q) * p + j];
+      }
     },
     /** X'WX (row-major, both triangles) into out, summing the chunks in order. */
     information(w: Float64Array, out: Float64Array): Float64Array {

@@ -11,15 +11,34 @@ import { fitPipeline, type Pipeline } from '../validation/pipeline';
 import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
 
 /**
- * Above these design sizes (rows × design columns) profile-likelihood intervals and term tests (one constrained
- * solve per limit and per term, by chord-Newton steps from the fit's information, fitting/chordSolve.ts) are
- * skipped with a notice. Measured CPU on this 2-core machine (single thread, 2026-12-04, seeded 10⁵-row file):
- * at 10⁵ × 25 (2.6·10⁶ cells) the profile limits add 1.1 s and the term tests 0.3 s; at 10⁵ × 50 (5.1·10⁶ cells)
- * 6.0 s and 1.8 s. So the limits stop near where their cost passes 2–3 s. Wald intervals agree closely with
- * profile ones at such sample sizes.
+ * The seconds profile-likelihood limits and term tests take on one thread, from their passes over the rows: every
+ * limit and every term's constrained fit is solved by chord-Newton steps from the fit's information
+ * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. Measured on the 2-core
+ * development machine (2026-12-04, seeded 10⁵ × 50 file, one thread): 2.8 passes per limit and 3.3 per term
+ * test, a pass costing about 3·10⁻⁸ s per row (exp and log1p) plus 10⁻⁹ s per design cell. A Firth pass also
+ * takes X'WX and the hat values, about p/2 passes more.
  */
-export const PROFILE_MAX_CELLS = 3e6;
-export const TERM_TESTS_MAX_CELLS = 5e6;
+const PASS_ROW_S = 3e-8;
+const PASS_CELL_S = 1e-9;
+const PASSES_PER_LIMIT = 3;
+const PASSES_PER_TERM = 3.5;
+
+export function inferenceSeconds(
+  n: number,
+  p: number,
+  terms: number,
+  firth = false,
+): { profile: number; termTests: number } {
+  const pass = n * (PASS_ROW_S + p * PASS_CELL_S) * (firth ? 1 + p / 2 : 1);
+  return { profile: 2 * p * PASSES_PER_LIMIT * pass, termTests: terms * PASSES_PER_TERM * pass };
+}
+
+/**
+ * Profile limits, and term tests, are computed when each takes at most this long on one thread (about 2 s each on
+ * the development machine's two threads; 10⁵ rows × 50 columns: 2.5 s and 1.4 s), else skipped with a notice.
+ * The rule depends only on the data's size, never on the threads at hand, so every host gives the same record.
+ */
+export const INFERENCE_BUDGET_S = 4;
 
 /** How λ of a penalised fit was set, with the cross-validation path when it was chosen by CV. */
 export interface LambdaRecord {
@@ -65,16 +84,17 @@ export function largeDataPlan(
   data: Dataset,
   r: AnalysisRequest,
 ): { profile: boolean; termTests: boolean; warnings: EngineWarning[] } {
-  const size = data.nRows * designColumnCount(data, r.spec);
-  const profile = r.profile && size <= PROFILE_MAX_CELLS;
-  const termTests = r.termTests && size <= TERM_TESTS_MAX_CELLS;
+  const cost = inferenceSeconds(data.nRows, designColumnCount(data, r.spec), r.spec.terms.length, r.method === 'firth');
+  const profile = r.profile && cost.profile <= INFERENCE_BUDGET_S;
+  const termTests = r.termTests && cost.termTests <= INFERENCE_BUDGET_S;
   const rows = data.nRows.toLocaleString('en');
   const warnings: EngineWarning[] = [];
   if (!profile && r.profile) {
     warnings.push(
       warning(
         'large-data-wald-only',
-        `With ${rows} rows, profile-likelihood intervals were not computed (they would take minutes); ` +
+        `With ${rows} rows, profile-likelihood intervals were not computed ` +
+          `(they would take over ${INFERENCE_BUDGET_S} s of computing); ` +
           'the Wald intervals shown agree closely with them at this sample size.',
         'Fit a random sample of rows if you need profile-likelihood intervals.',
       ),
@@ -84,7 +104,8 @@ export function largeDataPlan(
     warnings.push(
       warning(
         'large-data-no-term-tests',
-        `With ${rows} rows, the likelihood-ratio test of each term was not computed (one refit per term).`,
+        `With ${rows} rows, the likelihood-ratio test of each term was not computed (they would take over ` +
+          `${INFERENCE_BUDGET_S} s of computing).`,
         'Use the Wald p-values, or fit a random sample of rows for the term tests.',
       ),
     );

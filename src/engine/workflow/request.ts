@@ -20,9 +20,9 @@ export interface AnalysisRequest {
   method: FitMethod;
   /** Confidence level of every interval. */
   level: number;
-  /** Profile-likelihood intervals (ML and Firth; skipped above PROFILE_MAX_CELLS design cells). */
+  /** Profile-likelihood intervals (ML and Firth; skipped above INFERENCE_BUDGET_S of estimated computing). */
   profile: boolean;
-  /** Likelihood-ratio test of each term, one refit per term (ML and Firth; skipped above TERM_TESTS_MAX_CELLS). */
+  /** Likelihood-ratio test of each term (ML and Firth; skipped above INFERENCE_BUDGET_S). */
   termTests: boolean;
   /** Elastic-net mixing for 'elastic-net' (lasso is always 1, ridge 0). */
   alpha: number;
