@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import { defineConfig } from 'vitest/config';
 import type { Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
+import { asScriptComment, noticeCollector, noticesText } from './buildNotices.js';
 
 type Target = 'served' | 'single' | 'dev';
 
@@ -138,12 +139,15 @@ const inlineScript = (code: string) => code.replace(/\r\n?/g, '\n').replace(/<(?
 const inlineStyle = (css: string) => css.replace(/<(?=\/style)/gi, '\\3c ');
 const sha256 = (text: string) => createHash('sha256').update(text, 'utf8').digest('base64');
 
+type Notices = ReturnType<typeof noticeCollector>;
+
 /**
  * `vite build --mode single`: inlines the entry script and stylesheet into one HTML file (dist-single/fulcra.html)
- * that works from file://, then adds the policy with the sha256 of each inline script so script-src needs no
- * 'unsafe-inline'. Fails the build if anything would still be loaded from a separate file.
+ * that works from file://, with the third-party notices as one comment at the end of the entry script, then adds
+ * the policy with the sha256 of each inline script (notices included) so script-src needs no 'unsafe-inline'.
+ * Fails the build if anything would still be loaded from a separate file.
  */
-function singleFilePlugin(): Plugin {
+function singleFilePlugin(notices: Notices): Plugin {
   return {
     name: 'fulcra:single-file',
     apply: 'build',
@@ -168,7 +172,10 @@ function singleFilePlugin(): Plugin {
         let html = String(page.source)
           .replace(/<script\b[^>]*\bsrc="([^"]+)"[^>]*><\/script>/g, (tag, src: string) => {
             if (!/\btype="module"/.test(tag)) this.error(`single-file build: unexpected classic script ${src}`);
-            const code = inlineScript(take(src));
+            // The notices once, after the entry script's code (the builds drop every comment from the code itself).
+            const code = inlineScript(
+              take(src) + (hashes.length ? '' : `\n${asScriptComment(noticesText(notices))}\n`),
+            );
             hashes.push(sha256(code));
             return `<script type="module">${code}</script>`;
           })
@@ -196,17 +203,34 @@ function singleFilePlugin(): Plugin {
   };
 }
 
+/** Normal build: the third-party notices as one text file beside index.html. */
+function noticesFilePlugin(notices: Notices): Plugin {
+  return {
+    name: 'fulcra:notices-file',
+    apply: 'build',
+    generateBundle: {
+      order: 'post',
+      handler() {
+        this.emitFile({ type: 'asset', fileName: 'third-party-notices.txt', source: noticesText(notices) });
+      },
+    },
+  };
+}
+
 /** Modules of the @stdlib distribution packages. */
 const STDLIB = /[\\/]node_modules[\\/]@stdlib[\\/]/;
 
 export default defineConfig(({ mode }) => {
   const single = mode === 'single';
+  // The packages whose code the page and its workers carry, gathered over the page build and each worker build.
+  const notices = noticeCollector();
   return {
     plugins: [
       react(),
       jspdfOptionalStubs(),
-      single ? singleFilePlugin() : inlineWorkerStub(),
-      ...(single ? [] : [cspMetaPlugin()]),
+      notices.plugin(),
+      single ? singleFilePlugin(notices) : inlineWorkerStub(),
+      ...(single ? [] : [cspMetaPlugin(), noticesFilePlugin(notices)]),
     ],
     base: './',
     // public/ (robots.txt for a hosted copy) is copied into the served build only: the single file is one file.
@@ -215,7 +239,10 @@ export default defineConfig(({ mode }) => {
     // worker; iife also folds the worker's dynamic imports (jsPDF's optional modules) into the one worker script.
     worker: {
       format: single ? 'iife' : 'es',
-      plugins: () => [jspdfOptionalStubs(), ...(single ? [noRowPoolInSingleFile()] : [])],
+      plugins: () => [jspdfOptionalStubs(), notices.plugin(), ...(single ? [noRowPoolInSingleFile()] : [])],
+      // No comments in the worker code (Vite's worker build keeps legal and JSDoc comments by default, where the
+      // page build drops them): their licence texts are in the notices, once.
+      rolldownOptions: { output: { comments: false } },
     },
     build: {
       ...(single
