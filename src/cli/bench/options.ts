@@ -9,6 +9,8 @@ export interface BenchOptions {
   references: boolean;
   extras: boolean;
   browser: boolean;
+  /** Also the measurements that take many minutes (R's whole job at 10⁵ × 50, about 9 minutes). */
+  slow: boolean;
   out: string;
   seed: number;
   help: boolean;
@@ -18,14 +20,19 @@ export const benchUsage = `Usage: npm run bench -- [options]
 
 Times Fulcra's logistic fit (the worker's engine, in Node) against scikit-learn and R's glm.fit on seeded
 synthetic data, plus CSV import, threshold queries, bootstrap, loss surface, peak memory and (with --browser)
-import + fit in the page. Data and results go to bench-out/.
+import + fit in the page and the single file's size and first paint. Data and results go to bench-out/.
 
   --sizes 1e4x10,1e5x50   fit sizes as rows x predictors (default 1e4,1e5,1e6 x 10,50)
   --quick                 small sizes only (1e4x10,1e4x50,1e5x10) and small side measurements (about a minute)
   --repeats R             timed repeats per fit, each in the same process; the median counts (default 3)
   --no-reference          skip scikit-learn and R
   --no-extras             skip import / threshold / bootstrap / loss surface
-  --browser               also run the browser measurement (Playwright + /usr/bin/chromium)
+  --browser               also run the browser measurements (Playwright + /usr/bin/chromium): import + fit in the
+                          page, and the single file (npm run build:single) built afresh: its size, gzip size,
+                          first contentful paint and first heading from file:// (median of 3 fresh pages)
+  --slow                  also time R glm + confint + drop1 as a whole process at 1e5x50 (about 9 minutes;
+                          without it R's whole job runs at 1e4x20 only); no effect with --quick, --no-extras
+                          or --no-reference
   --out DIR               output folder (default bench-out)
   --seed S                data seed (default 20261202)
   --json                  print the full result record as JSON
@@ -51,6 +58,7 @@ export function parseBenchArgs(argv: string[]): BenchOptions {
     references: true,
     extras: true,
     browser: false,
+    slow: false,
     out: 'bench-out',
     seed: 20261202,
     help: false,
@@ -69,6 +77,7 @@ export function parseBenchArgs(argv: string[]): BenchOptions {
     else if (a === '--no-reference') o.references = false;
     else if (a === '--no-extras') o.extras = false;
     else if (a === '--browser') o.browser = true;
+    else if (a === '--slow') o.slow = true;
     else if (a === '--out') o.out = value();
     else if (a === '--help' || a === '-h') o.help = true;
     else if (a === '--repeats' || a === '--seed') {

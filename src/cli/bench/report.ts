@@ -165,6 +165,49 @@ export function judgeTargets(r: BenchRecord): Target[] {
     (v) => v <= 1,
     (v) => `${v.toFixed(2)} s`,
   );
+  // The whole job at 10⁵ × 50: the full record (profile limits and term tests included) within 6 s, ≤ 1.5 × pandas +
+  // statsmodels Logit (Wald only) and, when R's whole job ran there (--slow), ≤ 0.012 × R glm + confint + drop1.
+  const whole = r.extras.find((e) => e.name === 'npm run fit, whole process, at 100000 × 50');
+  const full = whole && !/skipped by the size rule/.test(whole.detail ?? '');
+  const ref = (label: string) =>
+    r.extras.find((e) => e.name === `${label}, whole process, at 100000 × 50` && Number.isFinite(e.value));
+  const wholeTarget = (goal: string, ok: (v: number) => boolean, measured: (v: number) => string) =>
+    t.push({
+      name: 'npm run fit, full record, whole process, at 10⁵ × 50',
+      goal,
+      measured: whole
+        ? `${measured(whole.value)}${full ? '' : ' (profile limits or term tests skipped)'}`
+        : 'not run (--quick or --no-extras)',
+      met: whole && Number.isFinite(whole.value) ? full === true && ok(whole.value) : null,
+    });
+  wholeTarget(
+    '≤ 6 s',
+    (v) => v <= 6,
+    (v) => `${v.toFixed(2)} s`,
+  );
+  for (const [label, factor] of [
+    ['pandas + statsmodels Logit', 1.5],
+    ['R glm + confint + drop1', 0.012],
+  ] as const) {
+    const m = ref(label);
+    if (!m) {
+      t.push({
+        name: `npm run fit, full record, against ${label} at 10⁵ × 50`,
+        goal: `≤ ${factor} ×`,
+        measured: label.startsWith('R') ? 'not run (--slow)' : 'not run',
+        met: null,
+      });
+      continue;
+    }
+    t.push({
+      name: `npm run fit, full record, against ${label} at 10⁵ × 50`,
+      goal: `≤ ${factor} ×`,
+      measured: whole
+        ? `${(whole.value / m.value).toFixed(3)} × (${whole.value.toFixed(2)} s against ${m.value.toFixed(2)} s)`
+        : 'not run',
+      met: whole && full ? whole.value / m.value <= factor : null,
+    });
+  }
   const b = r.browser;
   t.push({
     name: 'longest main-thread task (browser import + fit)',
