@@ -137,13 +137,26 @@ export function rowDiagnostics(f: FitResult, data: Dataset): RowDiagnostics {
       }
       if (!C || !leverage) continue;
       // V = X_sub·C (column-major SUB×p, the sub-block stays in cache): row t is ((X'WX)⁻¹xᵢ)'.
+      // Four design columns per sweep of an output column: one load and store of V per four multiply-adds.
       V.fill(0);
-      for (let j = 0; j < p; j++) {
-        const o = j * m + r0;
-        for (let c = 0; c < p; c++) {
-          const cjc = C[j * p + c];
+      for (let c = 0; c < p; c++) {
+        const oc = c * SUB;
+        let j = 0;
+        for (; j + 3 < p; j += 4) {
+          const c0 = C[j * p + c],
+            c1 = C[(j + 1) * p + c],
+            c2 = C[(j + 2) * p + c],
+            c3 = C[(j + 3) * p + c];
+          const o0 = j * m + r0,
+            o1 = o0 + m,
+            o2 = o1 + m,
+            o3 = o2 + m;
+          for (let t = 0; t < b; t++) V[oc + t] += X[o0 + t] * c0 + X[o1 + t] * c1 + X[o2 + t] * c2 + X[o3 + t] * c3;
+        }
+        for (; j < p; j++) {
+          const cjc = C[j * p + c],
+            o = j * m + r0;
           if (cjc === 0) continue;
-          const oc = c * SUB;
           for (let t = 0; t < b; t++) V[oc + t] += X[o + t] * cjc;
         }
       }
