@@ -47,9 +47,9 @@ export interface Controller
 export function createController(store: Store, client: WorkerClient): Controller {
   const ctx = effectContext(store, client);
   const cutoff = cutoffEffects(ctx);
-  const { fitWith, ...fit } = fitting(ctx, cutoff);
+  const { fitWith, fitKept, ...fit } = fitting(ctx, cutoff);
   const { setHeld, ...data } = dataLoading(ctx, fit.fitModel);
-  const { refitKept, ...models } = modelsEffects(ctx, cutoff, { fitWith, ...fit });
+  const { refitKept, ...models } = modelsEffects(ctx, cutoff, { fitWith, fitKept, ...fit });
   const restore = restoring(ctx, { ...data, setHeld }, { fitWith }, refitKept);
   const { refitWithoutRows, ...influence } = influenceEffects(ctx, { fitWith });
 

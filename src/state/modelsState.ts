@@ -94,6 +94,16 @@ export function modelFitted(m: ModelsState, view: FitView): ModelsState {
   return dropMissing({ ...m, kept, shown: id, nextId: id + 1 });
 }
 
+/**
+ * A kept model that is not shown was fitted (fitKept: a restored workspace's other models): the kept model with the
+ * same request gets the fit; the shown model and every view stay as they are.
+ */
+export const keptModelFitted: Perform<FitView> = (s, view) => {
+  const fitted = modelFitted(s.models, view);
+  const shown = s.models.shown !== null && fitted.kept.some((k) => k.id === s.models.shown) ? s.models.shown : null;
+  return { ...s, models: { ...fitted, shown } };
+};
+
 /** Picks and the comparison that name a model no longer kept are cleared. */
 function dropMissing(m: ModelsState): ModelsState {
   const has = (id: number | null) => id !== null && m.kept.some((k) => k.id === id);

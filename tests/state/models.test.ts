@@ -122,6 +122,18 @@ describe('kept models: every fit kept by its request, named, shown again, saved 
     };
     expect(() => checkWorkbench(checker(), bad, 'workbench')).toThrow(/keptModels\[0\]\.request\.level/);
   });
+
+  it('gives a restored model that is not shown its fit without showing it (the views keep their numbers)', () => {
+    let s = fitted(fitted(initialState, request(['age', 'asa']), 1), request(['age']), 2);
+    const restored = M.restoredModels(JSON.parse(JSON.stringify(settingsOf(s))).keptModels);
+    // the shown model (Model 2) is refitted first, as a restore does
+    s = A.fitDone({ ...initialState, models: restored }, view(request(['age']), 5));
+    const shownFit = s.fit;
+    const quiet = M.keptModelFitted(s, view(request(['age', 'asa']), 6));
+    expect(quiet.fit).toBe(shownFit);
+    expect(quiet.models.shown).toBe(2);
+    expect(quiet.models.kept.map((k) => k.view?.modelKey)).toEqual([6, 5]);
+  });
 });
 
 describe('savedModels', () => {

@@ -1,6 +1,7 @@
 /** Fitting: the model from the current roles and options, then the views every fit refreshes. */
 import type { FitRequest, FitView, LossSurfaceChoice } from '../../worker/protocol';
 import * as A from '../actions';
+import * as M from '../modelsState';
 import type { AppState } from '../appState';
 import type { EffectContext } from './context';
 import type { CutoffEffects } from './cutoff';
@@ -20,6 +21,12 @@ export interface Fitting extends FittingEffects {
    * False when the fit did not finish.
    */
   fitWith(request: FitRequest, keep: boolean, held?: FitView): Promise<boolean>;
+  /**
+   * Fits a kept model that is not the one shown (a restored workspace's other models): it goes into the list of
+   * kept models only, and the views go on showing the model they show. The engine's current model is then this
+   * one: the caller shows the shown model again (showModel). False when the fit did not finish.
+   */
+  fitKept(request: FitRequest): Promise<boolean>;
 }
 
 /** What the worker is asked to fit for `s`, or the reason it cannot be fitted yet. */
@@ -89,6 +96,16 @@ export function fitting(ctx: EffectContext, cutoff: CutoffEffects): Fitting {
 
   return {
     fitWith,
+    async fitKept(request) {
+      const yields = request.method !== 'ml' && request.method !== 'firth' && typeof request.lambda !== 'number';
+      const view = await job('Fitting a kept model', true, (id, onProgress) => {
+        if (!yields) ctx.stopsEngine.add(id);
+        return client.call((api) => api.fitModel(request, id, onProgress)).finally(() => ctx.stopsEngine.delete(id));
+      });
+      if (!view) return false;
+      store.apply(M.keptModelFitted, view);
+      return true;
+    },
     async fitModel() {
       const built = requestOf(s());
       if ('problem' in built) store.apply(A.notify, { kind: 'error', text: built.problem });

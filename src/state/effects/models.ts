@@ -18,7 +18,7 @@ export interface ModelsEffects {
 export function modelsEffects(
   ctx: EffectContext,
   cutoff: CutoffEffects,
-  fit: Pick<Fitting, 'fitWith' | 'riskCurve' | 'lossSurface'>,
+  fit: Pick<Fitting, 'fitWith' | 'fitKept' | 'riskCurve' | 'lossSurface'>,
 ): ModelsEffects & { refitKept(): Promise<void> } {
   const { store, client, s, job } = ctx;
   const kept = (id: number | null) => s().models.kept.find((k) => k.id === id) ?? null;
@@ -114,11 +114,19 @@ export function modelsEffects(
       store.apply(M.pickForComparison, { slot: 'b', id: ids[1] });
       await compareModels();
     },
-    /** After a workspace is restored (its shown model refitted): refits every other kept model, then shows it again. */
+    /**
+     * After a workspace is restored (its shown model refitted): fits every other kept model without showing it (the
+     * views never show another model's numbers meanwhile), then makes the shown one the engine's current model again.
+     */
     async refitKept() {
       const shown = s().models.shown;
-      for (const m of s().models.kept) if (!m.view && !(await fit.fitWith(m.request, true))) return;
-      if (shown !== null && s().models.shown !== shown) await showModel(shown);
+      let fitted = false;
+      for (const m of s().models.kept) {
+        if (m.view) continue;
+        if (!(await fit.fitKept(m.request))) return;
+        fitted = true;
+      }
+      if (fitted && shown !== null) await showModel(shown);
     },
   };
 }
