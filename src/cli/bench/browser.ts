@@ -21,7 +21,8 @@ export async function browserBench(o: {
 }): Promise<BrowserResult> {
   const how =
     'vite build + vite preview of src/cli/bench/page (real worker facade via Comlink), Chromium /usr/bin/chromium ' +
-    `headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile CIs off)`;
+    `headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile CIs off; ` +
+    'term tests as the size rule decides: computed at 10⁶ × 20 since 2026-12-04)';
   const base: BrowserResult = {
     n: o.n,
     p: o.p,
