@@ -15,10 +15,10 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
  * limit and every term's constrained fit is solved by chord-Newton steps from the fit's information
  * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. Measured on the 2-core
  * development machine (2026-12-04, seeded 10⁵ × 50 file, one thread): 2.8 passes per limit and 3.3 per term
- * test, a pass costing about 3·10⁻⁸ s per row (exp and log1p) plus 10⁻⁹ s per design cell. A Firth pass also
- * takes X'WX and the hat values, about p/2 passes more.
+ * test, a pass costing about 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05)
+ * plus 10⁻⁹ s per design cell. A Firth pass also takes X'WX and the hat values, about p/2 passes more.
  */
-const PASS_ROW_S = 3e-8;
+const PASS_ROW_S = 1.2e-8;
 const PASS_CELL_S = 1e-9;
 const PASSES_PER_LIMIT = 3;
 const PASSES_PER_TERM = 3.5;
