@@ -35,7 +35,7 @@ export function inferenceSeconds(
 
 /**
  * Profile limits, and term tests, are computed when each takes at most this long on one thread (about 2 s each on
- * the development machine's two threads; 10⁵ rows × 50 columns: 2.5 s and 1.4 s), else skipped with a notice.
+ * the development machine's two threads; 10⁵ rows × 50 columns: 1.9 s and 1.1 s), else skipped with a notice.
  * The rule depends only on the data's size, never on the threads at hand, so every host gives the same record.
  */
 export const INFERENCE_BUDGET_S = 4;
