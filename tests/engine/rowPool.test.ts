@@ -16,6 +16,10 @@ import {
   type RowJob,
 } from '../../src/engine/numerics/rowPool';
 import { createRng } from '../../src/engine/numerics/rng';
+import type { Dataset } from '../../src/engine/core/data';
+import type { ModelSpec } from '../../src/engine/core/model';
+import { rowDiagnostics } from '../../src/engine/diagnostics';
+import { fit } from '../../src/engine/fitting/fit';
 
 afterEach(() => installRowPool(null));
 
@@ -134,6 +138,51 @@ describe('row pool: the same numbers on any number of threads', () => {
       installRowPool(null);
       expect(pooled).toEqual(serial);
     }
+  });
+
+  it('gives bit-for-bit the per-row influence measures of one thread with 3 threads (rowDiagnostics)', () => {
+    // 150 000 rows: two full diagnostics blocks and a partial one; a missing value every 997 rows, a categorical
+    // predictor, DFBETAS kept (n·p under DFBETAS_MAX_CELLS).
+    const N = 150_000,
+      rng = createRng(31);
+    const cols = ['a', 'b', 'c'].map((name) => ({
+      kind: 'numeric' as const,
+      name,
+      values: Float64Array.from({ length: N }, (_, i) => (i % 997 === 5 && name === 'b' ? NaN : rng.normal())),
+    }));
+    const g = {
+      kind: 'categorical' as const,
+      name: 'g',
+      levels: ['u', 'v', 'w'],
+      codes: Int32Array.from({ length: N }, (_, i) => i % 3),
+    };
+    const y = Float64Array.from({ length: N }, (_, i) => {
+      const eta = -0.8 + 0.7 * cols[0].values[i] - 0.4 * (cols[2].values[i] || 0) + 0.5 * g.codes[i];
+      return rng.next() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
+    });
+    const data: Dataset = { nRows: N, columns: [...cols, g, { kind: 'numeric', name: 'y', values: y }] };
+    const spec: ModelSpec = {
+      outcome: 'y',
+      event: '1',
+      terms: ['a', 'b', 'c', 'g'].map((column) => ({ type: 'main', column })),
+    };
+    const f = fit(data, spec, { profile: false, termTests: false });
+    const serial = rowDiagnostics(f, data);
+    let posts = 0;
+    const pool = inlinePool(3);
+    installRowPool({
+      threads: pool.threads,
+      run: (job, chunks, work) => ((posts += job.op === 'influence' ? 1 : 0), pool.run(job, chunks, work)),
+    });
+    const pooled = rowDiagnostics(f, data);
+    installRowPool(null);
+    expect(posts).toBe(2); // the two full blocks; the partial one (< POOL_MIN_ROWS rows) runs on this thread
+    expect(serial.dfbetas).not.toBeNull();
+    // byte for byte (toEqual walks 10⁶ typed-array elements one by one: seconds)
+    const bytes = (a: unknown) =>
+      ArrayBuffer.isView(a) ? Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64') : a;
+    for (const key of Object.keys(serial) as (keyof typeof serial)[])
+      expect(bytes(pooled[key]), key).toEqual(bytes(serial[key]));
   });
 
   it('gives bit-for-bit the fit of one thread with 2 worker_threads, with case weights and an offset', async () => {

@@ -1,5 +1,5 @@
 import { cholesky, choleskySolve } from '../numerics/linalg';
-import { crossProductWeighted } from '../numerics/loss';
+import { allocF64, createRowPasses } from '../numerics/rowPool';
 import { warning, type EngineWarning } from '../core/warnings';
 
 export interface Aliasing {
@@ -12,7 +12,8 @@ export interface Aliasing {
  * Finds aliased design columns by a Cholesky factorisation of X'X in column order (intercept first): a column is
  * aliased when 1 − R² of its regression on the earlier kept columns is below `tol`. X should be centred and
  * scaled (standardise.ts) so that the tolerance is scale free. Each aliased column gets an 'aliased' warning
- * naming the columns it duplicates (or saying it is constant).
+ * naming the columns it duplicates (or saying it is constant). X'X is the row passes' information pass with unit
+ * weights (fixed chunks summed in order, shared by the row pool's threads when X is in its memory).
  */
 export function findAliased(
   X: Float64Array,
@@ -22,8 +23,8 @@ export function findAliased(
   terms: string[],
   tol = 1e-9,
 ): Aliasing {
-  const w = new Float64Array(n).fill(1);
-  const xtx = crossProductWeighted(X, n, p, w, new Float64Array(p * p), new Float64Array(n));
+  const w = allocF64(n).fill(1);
+  const xtx = createRowPasses(X, n, p, undefined, undefined, undefined).information(w, new Float64Array(p * p));
   const ch = cholesky(xtx, p, tol);
   const aliased = Array.from(ch.dropped, (d) => d === 1);
   const warnings: EngineWarning[] = [];

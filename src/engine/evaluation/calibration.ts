@@ -4,6 +4,7 @@ import { qnorm } from '../numerics/distributions';
 import { logit, RISK_CLIP, sigmoid } from '../numerics/loss';
 import { cholesky, choleskyInverse } from '../numerics/linalg';
 import { newtonLogistic } from '../fitting/newton';
+import { allocF64, POOL_MIN_ROWS, rowPoolThreads } from '../numerics/rowPool';
 import { warning, type EngineWarning } from '../core/warnings';
 
 /** An estimate with its Wald standard error and interval. */
@@ -59,7 +60,23 @@ export function riskToLinearPredictor(p: Float64Array): {
   return { eta, clipped, warnings };
 }
 
-/** Fits a small logistic model and returns beta with its covariance (inverse information), or null on failure. */
+/**
+ * A copy in the row pool's shared memory when a pool with helpers is installed and the rows are enough for it to
+ * share the passes (POOL_MIN_ROWS); else the array itself. The pool sums in fixed chunks: the same numbers either way.
+ */
+function forPool(a: Float64Array, n: number): Float64Array;
+function forPool(a: Float64Array | undefined, n: number): Float64Array | undefined;
+function forPool(a: Float64Array | undefined, n: number): Float64Array | undefined {
+  if (!a || n < POOL_MIN_ROWS || rowPoolThreads() < 2 || a.buffer instanceof SharedArrayBuffer) return a;
+  const s = allocF64(a.length);
+  s.set(a);
+  return s;
+}
+
+/**
+ * Fits a small logistic model and returns beta with its covariance (inverse information), or null on failure.
+ * On the row pool from POOL_MIN_ROWS rows (the calibration fits of a 10⁶-row evaluation share its threads).
+ */
 export function fitSmallLogistic(
   X: Float64Array,
   n: number,
@@ -69,7 +86,10 @@ export function fitSmallLogistic(
   offset?: Float64Array,
   start?: Float64Array,
 ) {
-  const fit = newtonLogistic({ X, n, p, y, weights, offset, start }, { tol: 1e-12, maxIter: 100 });
+  const fit = newtonLogistic(
+    { X: forPool(X, n), n, p, y: forPool(y, n), weights: forPool(weights, n), offset: forPool(offset, n), start },
+    { tol: 1e-12, maxIter: 100 },
+  );
   const ch = cholesky(fit.information, p);
   const cov = ch.rank === p ? choleskyInverse(ch) : null;
   return { beta: fit.beta, cov, converged: fit.converged, fitted: fit.fitted, logLik: fit.logLik };

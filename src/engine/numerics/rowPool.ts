@@ -12,6 +12,7 @@
  * Node; never on a page's main thread, where the engine does not run).
  */
 import { FulcraError } from '../core/data';
+import { influenceRows, type InfluenceBlock } from './influenceKernel';
 import { accumulateXtWX, logisticRows, logisticRowsPair, ROW_BLOCK } from './kernels';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
@@ -36,7 +37,7 @@ export const POOL_MIN_ROWS = 32_768;
 
 /** One full-data pass, as sent to the pool's helpers (typed arrays over SharedArrayBuffers; beta is copied). */
 export interface RowJob {
-  op: 'logistic' | 'information' | 'logisticMany';
+  op: 'logistic' | 'information' | 'logisticMany' | 'influence';
   X: Float64Array;
   n: number;
   p: number;
@@ -66,6 +67,8 @@ export interface RowJob {
   partLoss: Float64Array;
   partG: Float64Array;
   partH?: Float64Array;
+  /** influence: one block of rows of the influence measures (every array in it shared), rows split by chunk. */
+  influence?: InfluenceBlock;
   /** Shared Int32Array(2): helpers that finished, and helpers that failed. */
   done: Int32Array;
 }
@@ -94,7 +97,8 @@ export function runChunks(
     }
     const a = k * chunkRows,
       b = Math.min(n, a + chunkRows);
-    if (job.op === 'logisticMany') {
+    if (job.op === 'influence') influenceRows(job.influence!, a, b);
+    else if (job.op === 'logisticMany') {
       const m = job.m!,
         B = job.betas!,
         loss = new Float64Array(2),
@@ -178,6 +182,11 @@ const f64 = (length: number, shared: boolean): Float64Array =>
 /** A zeroed Float64Array, in shared memory while a pool is installed (so that the pool can read it). */
 export function allocF64(length: number): Float64Array {
   return f64(length, installed !== null);
+}
+
+/** A zeroed Int32Array, in shared memory while a pool is installed. */
+export function allocI32(length: number): Int32Array {
+  return new Int32Array(installed && sharedMemory() ? new SharedArrayBuffer(length * 4) : new ArrayBuffer(length * 4));
 }
 
 /**
@@ -318,6 +327,18 @@ export function createRowPasses(
         isShared(w) && blocks.buffer instanceof SharedArrayBuffer,
       );
       return sumParts(partB, groups, p * p, out);
+    },
+    /**
+     * The influence measures of the rows of one block (this problem's X is the block's design; influenceRows): on
+     * the pool when every array of the block is shared. Per-row results: the same bits on any number of threads.
+     */
+    influence(block: Omit<InfluenceBlock, 'X' | 'n' | 'p'>): void {
+      const full: InfluenceBlock = { ...block, X, n, p };
+      const arrays = [full.y, full.beta, full.risk, full.pearson, full.deviance, full.leverage, full.maxD, full.maxS];
+      const shared =
+        [...arrays, full.C ?? undefined, full.sd ?? undefined, full.dfbetas ?? undefined].every(isShared) &&
+        [full.maxDJ, full.maxSJ].every((a) => sharedMemory() && a.buffer instanceof SharedArrayBuffer);
+      exec({ op: 'influence', X, n, p, chunkRows, influence: full, partLoss, partG, done }, K, shared);
     },
     /** An Int32Array the pool can read. */
     allocInt32: (len: number) => new Int32Array(pool ? new SharedArrayBuffer(len * 4) : new ArrayBuffer(len * 4)),
