@@ -1,4 +1,5 @@
 import { cholesky, choleskySolve, type Cholesky } from '../numerics/linalg';
+import { rowShards, type RowShards } from '../numerics/rowShards';
 import { objectiveEvaluator, type LogisticProblem } from './newton';
 
 /**
@@ -62,57 +63,107 @@ export function runChordSolvers<T>(
 ): T[] {
   const ev = objectiveEvaluator(problem);
   try {
-    const out: T[] = new Array(solvers.length);
-    /** The point whose pass the evaluator's slot holds (its weights give the information), if any. */
-    let slotAt: Float64Array | null = null;
-    const alone = (b: Float64Array): Evaluation => {
-      const e = ev.at(b);
-      slotAt = Float64Array.from(b);
-      return e;
-    };
-    /** Resumes solver i with `reply` until it asks for a point (returned) or finishes (null). */
-    const advance = (i: number, gen: ChordSolver<T>, reply: Evaluation | Float64Array | undefined) => {
-      let r = gen.next(reply as Evaluation);
-      while (!r.done && r.value.kind === 'information') {
-        const b = r.value.b;
-        if (!slotAt || slotAt.some((v, j) => v !== b[j])) alone(b);
-        r = gen.next(ev.information());
-      }
-      if (!r.done) return r.value.b;
-      out[i] = r.value;
-      onDone?.(i, r.value);
-      return null;
-    };
-    const active: { i: number; gen: ChordSolver<T>; b: Float64Array }[] = [];
-    let next = 0;
-    const fill = () => {
-      while (active.length < width && next < solvers.length) {
-        const i = next++,
-          gen = solvers[i](ev.N);
-        const b = advance(i, gen, undefined);
-        if (b) active.push({ i, gen, b });
-      }
-    };
-    fill();
-    while (active.length > 0) {
-      let evals: Evaluation[];
-      if (active.length === 1) evals = [alone(active[0].b)];
-      else {
-        evals = ev.atMany(active.map((a) => a.b));
-        slotAt = null;
-      }
-      const still = active.filter((a, q) => {
-        const b = advance(a.i, a.gen, evals[q]);
-        if (b) a.b = b;
-        return b !== null;
-      });
-      active.splice(0, active.length, ...still);
-      fill();
+    const rounds = lockstep(ev, solvers, width, onDone);
+    let r = rounds.next();
+    while (!r.done) {
+      const points = r.value;
+      r = rounds.next(
+        points.length === 1 ? { evals: [ev.at(points[0])], alone: true } : { evals: ev.atMany(points), alone: false },
+      );
     }
-    return out;
+    return r.value;
   } finally {
     ev.release();
   }
+}
+
+/**
+ * runChordSolvers with each round's pass shared with row shards (rowShards.ts) when they take the problem (not
+ * Firth, whose objective needs the information at every point); the same numbers bit for bit, as the shards' sums
+ * are the row pool's. Information requests are answered on this thread.
+ */
+export async function runChordSolversAsync<T>(
+  problem: LogisticProblem,
+  solvers: ((N: number) => ChordSolver<T>)[],
+  width = SOLVE_WIDTH,
+  onDone?: (i: number, result: T) => void,
+  shards: RowShards | null = rowShards(),
+): Promise<T[]> {
+  if (!shards || problem.firth || !shards.use(problem)) return runChordSolvers(problem, solvers, width, onDone);
+  const ev = objectiveEvaluator(problem);
+  const p = problem.p;
+  try {
+    const rounds = lockstep(ev, solvers, width, onDone);
+    let r = rounds.next();
+    while (!r.done) {
+      const points = r.value,
+        m = points.length;
+      const B = new Float64Array(m * p),
+        losses = new Float64Array(m),
+        G = new Float64Array(m * p);
+      points.forEach((b, q) => B.set(b, q * p));
+      await shards.logisticMany(problem, B, m, losses, G);
+      r = rounds.next({ evals: ev.fromSums(points, losses, G), alone: false });
+    }
+    return r.value;
+  } finally {
+    ev.release();
+  }
+}
+
+/**
+ * The lockstep rounds of runChordSolvers as a generator: yields each round's points, is answered with their
+ * evaluations (`alone`: the evaluator's slot now holds the single point's pass, whose weights give the information).
+ */
+function* lockstep<T>(
+  ev: ReturnType<typeof objectiveEvaluator>,
+  solvers: ((N: number) => ChordSolver<T>)[],
+  width: number,
+  onDone?: (i: number, result: T) => void,
+): Generator<Float64Array[], T[], { evals: Evaluation[]; alone: boolean }> {
+  const out: T[] = new Array(solvers.length);
+  /** The point whose pass the evaluator's slot holds (its weights give the information), if any. */
+  let slotAt: Float64Array | null = null;
+  /** Resumes solver i with `reply` until it asks for a point (returned) or finishes (null). */
+  const advance = (i: number, gen: ChordSolver<T>, reply: Evaluation | Float64Array | undefined) => {
+    let r = gen.next(reply as Evaluation);
+    while (!r.done && r.value.kind === 'information') {
+      const b = r.value.b;
+      if (!slotAt || slotAt.some((v, j) => v !== b[j])) {
+        ev.at(b);
+        slotAt = Float64Array.from(b);
+      }
+      r = gen.next(ev.information());
+    }
+    if (!r.done) return r.value.b;
+    out[i] = r.value;
+    onDone?.(i, r.value);
+    return null;
+  };
+  const active: { i: number; gen: ChordSolver<T>; b: Float64Array }[] = [];
+  let next = 0;
+  const fill = () => {
+    while (active.length < width && next < solvers.length) {
+      const i = next++,
+        gen = solvers[i](ev.N);
+      const b = advance(i, gen, undefined);
+      if (b) active.push({ i, gen, b });
+    }
+  };
+  fill();
+  while (active.length > 0) {
+    const points = active.map((a) => a.b);
+    const { evals, alone } = yield points;
+    slotAt = alone ? Float64Array.from(points[0]) : null;
+    const still = active.filter((a, q) => {
+      const b = advance(a.i, a.gen, evals[q]);
+      if (b) a.b = b;
+      return b !== null;
+    });
+    active.splice(0, active.length, ...still);
+    fill();
+  }
+  return out;
 }
 
 /** Steps before a solve gives up (the caller then refits). */
@@ -343,4 +394,60 @@ export function traceStart(
   for (let j = 0; j < beta.length; j++) out[j] = l0 * beta[j] + l1 * lower[j] + l2 * upper[j];
   out[k] = 0;
   return out;
+}
+
+/**
+ * A round of chord solves that a step of a fit asks its driver to run: runSteps runs it here, runStepsAsync shares
+ * its passes with row shards unless `local` (the intercept's profile, solved on a design shifted in place).
+ */
+export interface ChordBatch {
+  problem: LogisticProblem;
+  solvers: ((N: number) => ChordSolver<unknown>)[];
+  width: number;
+  onDone?: (i: number, result: unknown) => void;
+  local?: boolean;
+}
+
+/** A computation that yields its chord rounds (profile limits, term tests, a whole fit) and returns R. */
+export type ChordSteps<R> = Generator<ChordBatch, R, void>;
+
+/** A round for ChordSteps, typed by its solvers' result. */
+export function chordBatch<T>(
+  problem: LogisticProblem,
+  solvers: ((N: number) => ChordSolver<T>)[],
+  onDone?: (i: number, result: T) => void,
+  local = false,
+): ChordBatch {
+  return { problem, solvers, width: SOLVE_WIDTH, onDone: onDone as ChordBatch['onDone'], local };
+}
+
+/** Runs the steps with every round on this thread (runChordSolvers). */
+export function runSteps<R>(steps: ChordSteps<R>): R {
+  try {
+    let r = steps.next();
+    while (!r.done) {
+      const b = r.value;
+      runChordSolvers(b.problem, b.solvers, b.width, b.onDone);
+      r = steps.next();
+    }
+    return r.value;
+  } finally {
+    steps.return(undefined as never); // a round that threw still undoes the steps' in-place changes (finally blocks)
+  }
+}
+
+/** Runs the steps with each round's passes shared with `shards` (runChordSolversAsync): the same numbers. */
+export async function runStepsAsync<R>(steps: ChordSteps<R>, shards: RowShards | null): Promise<R> {
+  try {
+    let r = steps.next();
+    while (!r.done) {
+      const b = r.value;
+      if (b.local) runChordSolvers(b.problem, b.solvers, b.width, b.onDone);
+      else await runChordSolversAsync(b.problem, b.solvers, b.width, b.onDone, shards);
+      r = steps.next();
+    }
+    return r.value;
+  } finally {
+    steps.return(undefined as never);
+  }
 }

@@ -6,10 +6,11 @@ import { validateFitOptions, type EngineFitOptions } from './fitOptions';
 import { informationCriteria, nullDeviance, originalCovariance, waldTable, type WaldRow } from './inference';
 import { newtonLogistic, type NewtonResult } from './newton';
 import { caseTotal, eventCounts, originalScaleBeta, prepareFit, type PreparedFit } from './prepareFit';
-import type { ProfileTraces } from './chordSolve';
-import { profileLimits, separatedProfileLimits, type Limits } from './profileLimits';
+import { runSteps, runStepsAsync, type ChordSteps, type ProfileTraces } from './chordSolve';
+import { rowShards, type RowShards } from '../numerics/rowShards';
+import { profileLimitSteps, separatedProfileLimits, type Limits } from './profileLimits';
 import { detectSeparation, fitToLimit, noSeparation, separationWarning } from './separation';
-import { modelTest, termTests } from './termTests';
+import { modelTest, termTestSteps } from './termTests';
 
 /**
  * Fits a logistic regression of `spec.outcome` on `spec.terms` by maximum likelihood, ridge (glmnet's objective
@@ -28,6 +29,30 @@ export function fit(
   options: Partial<EngineFitOptions> = {},
   progress?: (done: number, total: number) => void,
 ): FitResult {
+  return runSteps(fitSteps(data, spec, options, progress));
+}
+
+/**
+ * fit with the passes of its profile limits and term tests shared with row shards (rowShards.ts: helper threads
+ * without shared memory, e.g. in the single file); the same FitResult bit for bit. Without shards, fit.
+ */
+export async function fitAsync(
+  data: Dataset,
+  spec: ModelSpec,
+  options: Partial<EngineFitOptions> = {},
+  progress?: (done: number, total: number) => void,
+  shards: RowShards | null = rowShards(),
+): Promise<FitResult> {
+  return shards ? runStepsAsync(fitSteps(data, spec, options, progress), shards) : fit(data, spec, options, progress);
+}
+
+/** fit as steps that yield their rounds of chord solves (profile limits, term tests). */
+function* fitSteps(
+  data: Dataset,
+  spec: ModelSpec,
+  options: Partial<EngineFitOptions>,
+  progress?: (done: number, total: number) => void,
+): ChordSteps<FitResult> {
   const o = validateFitOptions(options);
   const prep = prepareFit(data, spec, o);
   const { design, keep, warnings } = prep;
@@ -67,7 +92,7 @@ export function fit(
   const traces: ProfileTraces = new Map();
   if (o.profile && separated) profiles = separatedProfileLimits(prep, nr, sep, o.level, Math.min(o.tol, 1e-12));
   else if (o.profile && covariance)
-    profiles = profileLimits(
+    profiles = yield* profileLimitSteps(
       prep,
       nr,
       beta,
@@ -87,6 +112,14 @@ export function fit(
   const { aic, bic } = informationCriteria(deviance, keep.length, cases);
   const counts = eventCounts(y, keep.length - 1, warnings, w);
   if (ridge) warnings.push(ridgeWarning(o.lambda));
+  const coefficients = coefficientRows(
+    prep.design,
+    beta,
+    prep.aliased,
+    (j) => (sepCols.has(j) ? null : wald[j]),
+    profiles,
+  );
+  const terms = yield* termTestSteps(prep, nr, o, !ridge && o.termTests, separated, step, o.refitInference, traces);
 
   return {
     method: o.method,
@@ -94,8 +127,8 @@ export function fit(
     level: o.level,
     converged: nrPath.converged,
     iterations: nrPath.iterations,
-    coefficients: coefficientRows(prep.design, beta, prep.aliased, (j) => (sepCols.has(j) ? null : wald[j]), profiles),
-    terms: termTests(prep, nr, o, !ridge && o.termTests, separated, step, o.refitInference, traces),
+    coefficients,
+    terms,
     deviance,
     nullDeviance: nullDev,
     logLik: nr.logLik,

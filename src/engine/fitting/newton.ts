@@ -578,6 +578,10 @@ export function objectiveEvaluator(problem: LogisticProblem) {
         G = new Float64Array(m * p);
       bs.forEach((b, q) => B.set(b, q * p));
       ws.passes.logisticMany(B, m, losses, G);
+      return this.fromSums(bs, losses, G);
+    },
+    /** The objectives and scores at bs from their passes' sums (losses, G as logisticMany gives them). */
+    fromSums(bs: Float64Array[], losses: Float64Array, G: Float64Array): { obj: number; g: Float64Array }[] {
       return bs.map((b, q) => {
         const g = G.subarray(q * p, (q + 1) * p);
         if (penalty) for (let j = 0; j < p; j++) g[j] -= N * penalty[j] * b[j];

@@ -1,5 +1,12 @@
 import { qchisq } from '../numerics/distributions';
-import { profileBoundSolver, runChordSolvers, SOLVE_WIDTH, type ChordBase, type ProfileTraces } from './chordSolve';
+import {
+  chordBatch,
+  profileBoundSolver,
+  runSteps,
+  type ChordBase,
+  type ChordSteps,
+  type ProfileTraces,
+} from './chordSolve';
 import type { NewtonResult } from './newton';
 import { caseTotal, type PreparedFit } from './prepareFit';
 import { profileInterval } from './profileCi';
@@ -27,21 +34,24 @@ function forEachCoordinate(prep: PreparedFit, each: (k: number, j: number, shift
  * design: the standardised columns are shifted back in place (x/s = z + m/s) and centred again afterwards.
  */
 function withInterceptCoordinate(prep: PreparedFit, fn: () => void): void {
-  const { std, keep, problem } = prep;
-  const n = prep.design.n;
-  const Zk = problem.X;
-  const shift = (sign: 1 | -1) =>
-    keep.forEach((j, k) => {
-      if (j === 0) return;
-      const c = sign * std.centerOverScale[j];
-      for (let i = 0; i < n; i++) Zk[k * n + i] += c;
-    });
-  shift(1);
+  shiftColumns(prep, 1);
   try {
     fn();
   } finally {
-    shift(-1);
+    shiftColumns(prep, -1);
   }
+}
+
+/** Shifts the standardised columns back (sign 1: x/s = z + m/s) or centres them again (sign −1), in place. */
+function shiftColumns(prep: PreparedFit, sign: 1 | -1): void {
+  const { std, keep, problem } = prep;
+  const n = prep.design.n;
+  const Zk = problem.X;
+  keep.forEach((j, k) => {
+    if (j === 0) return;
+    const c = sign * std.centerOverScale[j];
+    for (let i = 0; i < n; i++) Zk[k * n + i] += c;
+  });
 }
 
 /**
@@ -63,6 +73,21 @@ export function profileLimits(
   exact = false,
   traces?: ProfileTraces,
 ): Limits[] {
+  return runSteps(profileLimitSteps(prep, nr, beta, se, level, maxIter, step, exact, traces));
+}
+
+/** profileLimits as steps that yield their rounds of chord solves (fit.ts fitSteps). */
+export function* profileLimitSteps(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  beta: Float64Array,
+  se: (j: number) => number,
+  level: number,
+  maxIter = 100,
+  step?: () => void,
+  exact = false,
+  traces?: ProfileTraces,
+): ChordSteps<Limits[]> {
   const { std, problem } = prep;
   const profiles: Limits[] = new Array(prep.design.p).fill(null);
   const target = { problem, objective: nr.objective, maxIter };
@@ -79,39 +104,42 @@ export function profileLimits(
     step?.();
   };
   /** Both limits of each coordinate by chord solves sharing passes (runChordSolvers), finished as each pair is. */
-  const solveAll = (coords: { k: number; j: number }[], base: ChordBase) => {
+  function* solveAll(coords: { k: number; j: number }[], base: ChordBase, local: boolean): ChordSteps<void> {
     if (exact) {
       for (const { k, j } of coords) finish(k, j, base.beta, null, null);
       return;
     }
     const found: (Float64Array | null | undefined)[] = [];
-    runChordSolvers(
+    yield chordBatch(
       problem,
       coords.flatMap(({ k }) => [
         (N: number) => profileBoundSolver(base, k, crit, -1, N),
         (N: number) => profileBoundSolver(base, k, crit, 1, N),
       ]),
-      SOLVE_WIDTH,
       (i, point) => {
         found[i] = point;
         const c = i >> 1;
         if (found[2 * c] !== undefined && found[2 * c + 1] !== undefined)
           finish(coords[c].k, coords[c].j, base.beta, found[2 * c]!, found[2 * c + 1]!);
       },
+      local,
     );
-  };
+  }
   const slopes = prep.keep.flatMap((j, k) => (j > 0 ? [{ k, j }] : []));
-  solveAll(slopes, { problem, beta: nr.beta, objective: nr.objective, H });
-  withInterceptCoordinate(prep, () => {
+  yield* solveAll(slopes, { problem, beta: nr.beta, objective: nr.objective, H }, false);
+  // the intercept's coordinate (withInterceptCoordinate): its solves run where the shifted design is
+  shiftColumns(prep, 1);
+  try {
     const b = Float64Array.from(nr.beta);
     b[0] = beta[0];
-    solveAll([{ k: 0, j: 0 }], {
-      problem,
-      beta: b,
-      objective: nr.objective,
-      H: exact ? H : shiftedInformation(prep, H),
-    });
-  });
+    yield* solveAll(
+      [{ k: 0, j: 0 }],
+      { problem, beta: b, objective: nr.objective, H: exact ? H : shiftedInformation(prep, H) },
+      true,
+    );
+  } finally {
+    shiftColumns(prep, -1);
+  }
   return profiles;
 }
 

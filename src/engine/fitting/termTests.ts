@@ -1,11 +1,12 @@
 import type { FitOptions, TermRow } from '../core/model';
 import { pchisqUpper } from '../numerics/distributions';
 import {
+  chordBatch,
   chordConstrainedObjective,
   constrainedSolver,
-  runChordSolvers,
-  SOLVE_WIDTH,
+  runSteps,
   traceStart,
+  type ChordSteps,
   type ProfileTraces,
 } from './chordSolve';
 import { newtonLogistic, type NewtonResult } from './newton';
@@ -76,6 +77,20 @@ export function termTests(
   exact = false,
   traces?: ProfileTraces,
 ): TermRow[] {
+  return runSteps(termTestSteps(prep, nr, o, run, separated, step, exact, traces));
+}
+
+/** termTests as steps that yield their round of chord solves (fit.ts fitSteps). */
+export function* termTestSteps(
+  prep: PreparedFit,
+  nr: NewtonResult,
+  o: FitOptions,
+  run: boolean,
+  separated = false,
+  step?: () => void,
+  exact = false,
+  traces?: ProfileTraces,
+): ChordSteps<TermRow[]> {
   const kIndex = new Map(prep.keep.map((j, k) => [j, k]));
   const terms = prep.design.termColumns.map((t) => ({
     t,
@@ -88,14 +103,13 @@ export function termTests(
     // refitted as it finishes.
     const base = { problem: prep.problem, beta: nr.beta, objective: nr.objective, H: nr.information };
     const N = caseTotal(prep.problem);
-    runChordSolvers(
+    yield chordBatch(
       prep.problem,
       tested.map((x) => {
         const trace = x.kept.length === 1 ? traces?.get(x.kept[0]) : undefined;
         const start = trace ? traceStart(nr.beta, x.kept[0], trace.lower, trace.upper) : null;
         return (n: number) => constrainedSolver(base, x.kept, n, start ?? undefined);
       }),
-      SOLVE_WIDTH,
       (i, obj) => {
         const x = tested[i];
         chi2.set(

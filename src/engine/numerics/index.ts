@@ -8,3 +8,4 @@ export * from './rng';
 export * from './rowPool';
 export * from './searchSorted';
 export * from './standardise';
+export * from './rowShards';

@@ -2,7 +2,7 @@ import { FulcraError, type Dataset } from '../core/data';
 import type { FitResult } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { linearPredictorFromRecipe } from '../design/design';
-import { fit } from '../fitting/fit';
+import { fit, fitAsync } from '../fitting/fit';
 import { designColumnCount } from '../fitting/memoryBudget';
 import { oddsRatio } from '../fitting/oddsRatio';
 import { sumCrossEntropy } from '../numerics/loss';
@@ -124,7 +124,8 @@ export async function fitStep(data: Dataset, r: AnalysisRequest, hooks?: LongRun
   const warnings = [...plan.warnings];
   const { level, maxIter } = r;
   if (r.method === 'ml' || r.method === 'firth') {
-    const f = fit(
+    // fitAsync: profile limits and term tests share their passes with row shards when the host installed any
+    const f = await fitAsync(
       data,
       r.spec,
       { method: r.method, level, maxIter, profile: plan.profile, termTests: plan.termTests },
