@@ -1,11 +1,12 @@
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import os, { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { expect, test, type Page } from '@playwright/test';
 import { generateDemo } from '../src/engine/demo';
 import { fit } from '../src/engine/fitting/fit';
+import { createRng } from '../src/engine/numerics/rng';
 import { makeXlsx, type XCell } from '../tests/fixtures/bad-input/xlsxWriter';
 
 /**
@@ -187,4 +188,60 @@ test('from file:// it imports a large Excel workbook (its unzipper starts a nest
     'requests beyond file:/blob:/data:',
   ).toEqual([]);
   expect(seen.errors, 'console errors').toEqual([]);
+});
+
+/** 40 000 invented rows (seeded): at least POOL_MIN_ROWS = 32 768, so that the shard helpers share the passes. */
+function bigCsv(rows: number): string {
+  const rng = createRng(22);
+  const lines = ['dose,age,shift,fault'];
+  for (let i = 0; i < rows; i++) {
+    const dose = rng.normal(),
+      age = 40 + 10 * rng.normal(),
+      shift = rng.next() < 0.3 ? 1 : 0;
+    const eta = -1.5 + 0.7 * dose + 0.02 * (age - 40) + 0.4 * shift;
+    lines.push(`${dose.toFixed(3)},${age.toFixed(1)},${shift},${rng.next() < 1 / (1 + Math.exp(-eta)) ? 'yes' : 'no'}`);
+  }
+  return lines.join('\n');
+}
+
+test('from file:// its profile limits and term tests use every core and give the one-thread numbers', async ({
+  browser,
+}) => {
+  test.setTimeout(180_000);
+  const csv = Buffer.from(bigCsv(40_000));
+  /** The odds table and the term tests as shown, and the threads line, with `?threads=` set or not. */
+  const run = async (query: string) => {
+    const page = await browser.newPage();
+    const seen = watch(page);
+    await page.goto(pageUrl + query);
+    expect(await page.evaluate(() => crossOriginIsolated)).toBe(false);
+    await page.getByTestId('file-input').setInputFiles({ name: 'big.csv', mimeType: 'text/csv', buffer: csv });
+    await expect(page.getByText('40,000 rows × 4 columns')).toBeVisible({ timeout: 60_000 });
+    await page.getByLabel('Outcome (yes/no)').selectOption('fault');
+    for (const name of ['dose', 'age', 'shift']) await page.getByRole('checkbox', { name }).check();
+    await page.getByRole('button', { name: 'Fit the model' }).click();
+    const terms = page.getByRole('table', { name: 'Likelihood-ratio test per term' });
+    await expect(terms).toBeVisible({ timeout: 120_000 });
+    const shown = {
+      odds: await page.getByTestId('odds-table').innerText(),
+      terms: await terms.innerText(),
+      threads: (await page.getByTestId('fit-threads').count()) ? await page.getByTestId('fit-threads').innerText() : '',
+      workers: seen.workers.length,
+    };
+    expect(seen.errors, 'console errors').toEqual([]);
+    await page.close();
+    return shown;
+  };
+  const one = await run('?threads=1');
+  const all = await run('');
+  const cores = Math.min(8, os.availableParallelism());
+  expect(one.threads).toBe('');
+  expect(one.workers).toBe(1);
+  if (cores > 1) {
+    expect(all.threads).toContain(`term tests ran on ${cores} threads`);
+    expect(all.workers).toBe(cores);
+  }
+  expect(all.odds).toContain('1.0'); // a table of numbers, not a message
+  expect(all.odds).toBe(one.odds);
+  expect(all.terms).toBe(one.terms);
 });

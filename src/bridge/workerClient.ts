@@ -5,7 +5,7 @@
  */
 import * as Comlink from 'comlink';
 import type { FulcraApi } from '../worker/api';
-import { createEngineWorker } from './engineWorker';
+import { createEngineWorker, shardThreads, startShardHelpers } from './engineWorker';
 
 export type Api = Comlink.Remote<FulcraApi>;
 
@@ -33,6 +33,8 @@ export interface WorkerClient {
 
 export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
   let worker: Worker;
+  /** Shard helpers of the engine worker (pages without shared memory: engineWorker.ts). */
+  let helpers: Worker[] = [];
   let api: Api;
   /** Settles every call still waiting on a worker that died. */
   let lost: (reason: unknown) => void = () => {};
@@ -46,6 +48,8 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
   /** Ends the engine worker (its helper threads end with it) and settles every call waiting on it. */
   const stop = (code: string) => {
     worker.terminate();
+    for (const h of helpers) h.terminate();
+    helpers = [];
     lost({ code });
   };
   const start = () => {
@@ -60,6 +64,21 @@ export function createWorkerClient(hooks: WorkerClientHooks): WorkerClient {
       );
     });
     api = Comlink.wrap<FulcraApi>(worker);
+    const threads = shardThreads();
+    if (threads > 1) {
+      const started = startShardHelpers(threads);
+      helpers = started.helpers;
+      // a helper that dies takes the engine down with it: both restart, as after an engine crash
+      for (const h of helpers)
+        h.addEventListener('error', (e) => {
+          e.preventDefault();
+          if (!helpers.includes(h)) return;
+          stop('worker-lost');
+          start();
+          hooks.onCrash(`A helper thread of the calculation engine stopped unexpectedly; the engine was restarted.`);
+        });
+      api.attachShards(Comlink.transfer(started.ports, started.ports)).catch(() => {});
+    }
   };
   start();
   const guard = <T>(p: Promise<T>): Promise<T> => Promise.race([p, lostPromise]);

@@ -9,6 +9,7 @@ import type { DemoId } from '../engine/demo';
 import type { ModelSpec } from '../engine/core';
 import type { ImportOptions } from '../io/types';
 import { missingReport } from '../engine/imputation';
+import { installRowShards, messageShards, portOf } from '../engine/numerics';
 import { costView, thresholdAt } from './cutoffOps';
 import { heldCopy, loadDemo, loadHeld, loadImported } from './dataOps';
 import type { Dataset } from '../engine/core';
@@ -88,6 +89,20 @@ export function createApi(pool: Promise<number> = Promise.resolve(1), storage: K
     onProgress: onProgress ? (done: number, total: number) => void onProgress(done, total) : undefined,
   });
   return {
+    /**
+     * Helper threads the page started for this worker (without cross-origin isolation, so without the row pool):
+     * one MessagePort to each. Profile limits and term tests then share their passes with them (rowShards.ts).
+     * Resolves to the threads they give (1: not used, because the row pool runs).
+     */
+    attachShards: async (ports: MessagePort[]) => {
+      if ((await ready) !== 1 || ports.length === 0) {
+        for (const port of ports) port.close();
+        return 1;
+      }
+      const shards = messageShards(ports.map(portOf));
+      installRowShards(shards);
+      return shards.threads;
+    },
     loadDemo: (id: DemoId) => guard(null, () => loadDemo(session, id)),
     importFile: (bytes: ArrayBuffer, name: string, options: ImportOptions, jobId: string, onProgress?: Progress) => {
       const h = hooksFor(jobId, onProgress);

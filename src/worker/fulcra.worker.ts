@@ -1,8 +1,24 @@
-/** Worker entry: starts the row pool when the page allows one, and exposes the api through Comlink. */
+/**
+ * Worker entry. As the engine (every worker the page starts but its shard helpers): starts the row pool when the
+ * page allows one, and exposes the api through Comlink. As a shard helper (name "fulcra-shard-…", started by the
+ * page beside the engine when there is no shared memory: src/bridge/shardHelpers.ts): waits for the MessagePort to
+ * the engine and answers its row passes (src/engine/numerics/rowShards.ts). One script for both, so the single
+ * file carries the engine once.
+ */
 import * as Comlink from 'comlink';
+import { shardHelper } from '../engine/numerics';
 import { createApi } from './api';
 import { startBrowserRowPool } from './rowPoolBrowser';
 
 export type { FulcraApi } from './api';
 
-Comlink.expose(createApi(startBrowserRowPool()));
+const scope = self as unknown as { name?: string; onmessage: ((e: MessageEvent) => void) | null };
+if (scope.name?.startsWith('fulcra-shard')) {
+  scope.onmessage = (e: MessageEvent<{ port?: MessagePort }>) => {
+    const port = e.data?.port;
+    if (!port) return;
+    scope.onmessage = null;
+    const answer = shardHelper((reply, transfer) => port.postMessage(reply, transfer));
+    port.onmessage = (m) => answer(m.data);
+  };
+} else Comlink.expose(createApi(startBrowserRowPool()));

@@ -1,5 +1,5 @@
 import type { Dataset, FitResult } from '../engine/core';
-import { POOL_MIN_ROWS, rowPoolThreads } from '../engine/numerics';
+import { POOL_MIN_ROWS, rowPoolThreads, rowShards } from '../engine/numerics';
 import { runAnalysis, type FitStep } from '../engine/workflow';
 import { select } from '../io/numericSummary';
 import { checkFitBudget } from './budget';
@@ -38,6 +38,7 @@ export async function fitModel(s: Session, req: FitRequest, hooks: Hooks, fitted
     typical: typicalValues(data, record.fit, scores.rowsUsed),
     rowsUsed: n,
     threads: n >= POOL_MIN_ROWS ? rowPoolThreads() : 1,
+    inferenceThreads: shardThreadsOf(record.fit, n),
     layout: record.layout ?? null,
     warnings: record.warnings,
   };
@@ -87,4 +88,12 @@ function typicalValues(data: Dataset, f: FitResult, rows: Int32Array): Record<st
     out[t.column] = rows.length ? select(v.subarray(0, rows.length), Math.floor((rows.length - 1) / 2)) : NaN;
   }
   return out;
+}
+
+/** Threads the shard helpers gave this fit's profile limits and term tests (rowShards.ts use: ML, ≥ POOL_MIN_ROWS). */
+function shardThreadsOf(f: FitResult, n: number): number {
+  const shards = rowShards();
+  if (!shards || n < POOL_MIN_ROWS || f.method !== 'ml' || f.covariance === null) return 1;
+  const solved = f.coefficients.some((c) => c.profileLower !== null) || f.terms.some((t) => t.lrChi2 !== null);
+  return solved ? shards.threads : 1;
 }

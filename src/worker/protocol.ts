@@ -125,6 +125,11 @@ export interface FitView {
   rowsUsed: number;
   /** Threads the row passes of this fit ran on (1 below two chunks of rows or without a pool). */
   threads: number;
+  /**
+   * Threads the passes of its profile limits and term tests ran on through shard helpers (pages without shared
+   * memory, such as the single file; 1 when none ran there).
+   */
+  inferenceThreads: number;
   /** The outcome layout, the cases it stands for, deviance conventions, fit by covariate pattern (the record's). */
   layout?: AnalysisRecord['layout'] | null;
   warnings: EngineWarning[];

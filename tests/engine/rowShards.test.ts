@@ -12,26 +12,29 @@ import { messageShards, shardHelper, type ShardPort } from '../../src/engine/num
  */
 function messagePorts(helpers: number, log: string[]): ShardPort[] {
   return Array.from({ length: helpers }, (_, i) => {
-    const caller: ShardPort = {
-      onmessage: null,
+    let onReply: (data: unknown) => void = () => {};
+    const onHelper = shardHelper((reply) => setTimeout(() => onReply(structuredClone(reply)), 0));
+    return {
       postMessage: (m) => {
         log.push(`${i + 1}:${(m as { type: string }).type}`);
         setTimeout(() => onHelper(structuredClone(m)), 0);
       },
+      listen: (f) => (onReply = f),
     };
-    const onHelper = shardHelper((reply) => setTimeout(() => caller.onmessage?.({ data: structuredClone(reply) }), 0));
-    return caller;
   });
 }
 
-/** 45 000 rows (6 chunks): three numeric predictors, one with a missing value every 499 rows, and a 3-level factor. */
+/** 45 000 rows (6 chunks): three numeric predictors (one missing every 499 rows) and a 3-level factor. */
 function data(): { d: Dataset; spec: ModelSpec } {
   const N = POOL_MIN_ROWS + CHUNK_ROWS + 4_000,
     rng = createRng(17);
   const cols = ['a', 'b', 'c'].map((name) => ({
     kind: 'numeric' as const,
     name,
-    values: Float64Array.from({ length: N }, (_, i) => (name === 'b' && i % 499 === 7 ? NaN : rng.normal())),
+    // centres and scales far from 0 and 1, as in real data: the intercept's profile shifts these columns in place
+    values: Float64Array.from({ length: N }, (_, i) =>
+      name === 'b' && i % 499 === 7 ? NaN : name === 'a' ? 1000 + 3 * rng.normal() : 40 + 10 * rng.normal(),
+    ),
   }));
   const g = {
     kind: 'categorical' as const,
@@ -40,7 +43,7 @@ function data(): { d: Dataset; spec: ModelSpec } {
     codes: Int32Array.from({ length: N }, (_, i) => (i * 7) % 3),
   };
   const y = Float64Array.from({ length: N }, (_, i) => {
-    const eta = -1 + 0.5 * cols[0].values[i] + 0.2 * cols[2].values[i] + 0.4 * g.codes[i];
+    const eta = -1 + 0.5 * (cols[0].values[i] - 1000) + 0.02 * (cols[2].values[i] - 40) + 0.4 * g.codes[i];
     return rng.next() < 1 / (1 + Math.exp(-eta)) ? 1 : 0;
   });
   return {
@@ -63,6 +66,8 @@ describe('row shards: profile limits and term tests over helpers that share no m
       const mine = log.filter((l) => l.startsWith(`${h}:`));
       expect(mine[0]).toBe(`${h}:load`);
       expect(mine.filter((l) => l.endsWith(':load'))).toHaveLength(1);
+      expect(mine.at(-1)).toBe(`${h}:drop`); // the rows are let go when the fit ends
+      expect(mine.filter((l) => l.endsWith(':add'))).toHaveLength(2); // the intercept's shift there and back
       expect(mine.length).toBeGreaterThan(5); // rounds of up to four solves (10 limits, 4 term tests)
     }
     expect(alone.coefficients.every((c) => c.profileLower !== null && c.profileUpper !== null)).toBe(true);
@@ -85,12 +90,7 @@ describe('row shards: profile limits and term tests over helpers that share no m
   it('say which pass failed when a helper cannot answer', async () => {
     const ports = messagePorts(1, []);
     const broken: ShardPort = {
-      get onmessage() {
-        return ports[0].onmessage;
-      },
-      set onmessage(f) {
-        ports[0].onmessage = f;
-      },
+      listen: (f) => ports[0].listen(f),
       // the rows never reach the helper
       postMessage: (m, t) => ((m as { type: string }).type === 'load' ? undefined : ports[0].postMessage(m, t)),
     };

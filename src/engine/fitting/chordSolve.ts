@@ -1,5 +1,5 @@
 import { cholesky, choleskySolve, type Cholesky } from '../numerics/linalg';
-import { rowShards, type RowShards } from '../numerics/rowShards';
+import { rowShards, setActiveShards, type RowShards } from '../numerics/rowShards';
 import { objectiveEvaluator, type LogisticProblem } from './newton';
 
 /**
@@ -438,6 +438,7 @@ export function runSteps<R>(steps: ChordSteps<R>): R {
 
 /** Runs the steps with each round's passes shared with `shards` (runChordSolversAsync): the same numbers. */
 export async function runStepsAsync<R>(steps: ChordSteps<R>, shards: RowShards | null): Promise<R> {
+  setActiveShards(shards);
   try {
     let r = steps.next();
     while (!r.done) {
@@ -449,5 +450,7 @@ export async function runStepsAsync<R>(steps: ChordSteps<R>, shards: RowShards |
     return r.value;
   } finally {
     steps.return(undefined as never);
+    setActiveShards(null);
+    shards?.release();
   }
 }

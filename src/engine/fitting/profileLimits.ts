@@ -1,4 +1,5 @@
 import { qchisq } from '../numerics/distributions';
+import { columnsAdded } from '../numerics/rowShards';
 import {
   chordBatch,
   profileBoundSolver,
@@ -42,16 +43,19 @@ function withInterceptCoordinate(prep: PreparedFit, fn: () => void): void {
   }
 }
 
-/** Shifts the standardised columns back (sign 1: x/s = z + m/s) or centres them again (sign −1), in place. */
+/**
+ * Shifts the standardised columns back (sign 1: x/s = z + m/s) or centres them again (sign −1), in place; row
+ * shards holding the problem's rows make the same additions (the round trip is not exact, so theirs must match).
+ */
 function shiftColumns(prep: PreparedFit, sign: 1 | -1): void {
   const { std, keep, problem } = prep;
   const n = prep.design.n;
   const Zk = problem.X;
-  keep.forEach((j, k) => {
-    if (j === 0) return;
-    const c = sign * std.centerOverScale[j];
-    for (let i = 0; i < n; i++) Zk[k * n + i] += c;
+  const add = Float64Array.from(keep, (j) => (j === 0 ? 0 : sign * std.centerOverScale[j]));
+  add.forEach((c, k) => {
+    if (c !== 0) for (let i = 0; i < n; i++) Zk[k * n + i] += c;
   });
+  columnsAdded(problem, add);
 }
 
 /**
@@ -135,7 +139,7 @@ export function* profileLimitSteps(
     yield* solveAll(
       [{ k: 0, j: 0 }],
       { problem, beta: b, objective: nr.objective, H: exact ? H : shiftedInformation(prep, H) },
-      true,
+      false,
     );
   } finally {
     shiftColumns(prep, -1);

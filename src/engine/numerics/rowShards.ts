@@ -15,10 +15,21 @@ import { FulcraError } from '../core/data';
 import { CHUNK_ROWS, chunkRange, POOL_MIN_ROWS, runChunks, type RowJob } from './rowPool';
 import { ROW_BLOCK } from './kernels';
 
-/** One helper as the caller sees it: a worker, or a MessagePort connected to one. */
+/** One helper as the caller sees it (a MessagePort connected to a worker: portOf). */
 export interface ShardPort {
-  postMessage(message: unknown, transfer?: Transferable[]): void;
-  onmessage: ((e: { data: unknown }) => void) | null;
+  postMessage(message: unknown, transfer: Transferable[]): void;
+  /** Sets the one listener for the helper's replies. */
+  listen(onReply: (data: unknown) => void): void;
+}
+
+/** A MessagePort as a ShardPort. */
+export function portOf(port: MessagePort): ShardPort {
+  return {
+    postMessage: (message, transfer) => port.postMessage(message, transfer),
+    listen: (onReply) => {
+      port.onmessage = (e) => onReply(e.data);
+    },
+  };
 }
 
 /** The rows of one problem, as the caller holds them. */
@@ -45,6 +56,8 @@ type LoadMessage = {
   offset?: Float64Array;
 };
 type PassMessage = { type: 'pass'; id: number; pass: number; betas: Float64Array; m: number };
+/** A constant added to columns of the held rows, as the caller adds it to its own (add[k] to column k). */
+type AddMessage = { type: 'add'; id: number; add: Float64Array };
 type Reply =
   | { type: 'pass'; pass: number; partLoss: Float64Array; partG: Float64Array }
   | { type: 'failed'; pass: number; message: string };
@@ -56,9 +69,17 @@ const HELPER_TIMEOUT_S = 120;
 export function shardHelper(post: (reply: Reply, transfer: Transferable[]) => void): (message: unknown) => void {
   let held: LoadMessage | null = null;
   return (message) => {
-    const msg = message as LoadMessage | PassMessage;
-    if (msg.type === 'load') {
-      held = msg;
+    const msg = message as LoadMessage | PassMessage | AddMessage | { type: 'drop' };
+    if (msg.type === 'load' || msg.type === 'drop') {
+      held = msg.type === 'load' ? msg : null;
+      return;
+    }
+    if (msg.type === 'add') {
+      if (!held || held.id !== msg.id) return;
+      const { X, rows } = held;
+      msg.add.forEach((c, k) => {
+        if (c !== 0) for (let i = 0; i < rows; i++) X[k * rows + i] += c;
+      });
       return;
     }
     try {
@@ -98,6 +119,14 @@ export interface RowShards {
   /** Whether the passes of this problem go to the shards (enough rows, and each helper holds its rows). */
   use(problem: ShardProblem): boolean;
   /**
+   * The caller added add[k] to every row of column k of the problem's X in place: the helpers holding its rows do
+   * the same additions, so that their rows stay bit for bit the caller's (profileLimits shifts the columns for the
+   * intercept's coordinate and back, which does not give back the same bits).
+   */
+  added(problem: ShardProblem, add: Float64Array): void;
+  /** The helpers let the rows they hold go (the steps that used them ended). */
+  release(): void;
+  /**
    * Losses −Σ cᵢ·loglikᵢ (losses[q]) and scores X'(c(y − μ)) (G, vector q at q·p) of m coefficient vectors: what
    * rowPool's logisticMany gives, bit for bit.
    */
@@ -111,6 +140,8 @@ export interface RowShards {
 }
 
 let installed: RowShards | null = null;
+/** The shards of the steps running now (runStepsAsync), told of in-place changes to a problem's X (added). */
+let active: RowShards | null = null;
 
 /** Makes fitAsync share the chord solves' passes with these shards (null: none). */
 export function installRowShards(shards: RowShards | null): void {
@@ -119,6 +150,16 @@ export function installRowShards(shards: RowShards | null): void {
 
 export function rowShards(): RowShards | null {
   return installed;
+}
+
+/** Sets the shards of the steps running now (null when they end); see active. */
+export function setActiveShards(shards: RowShards | null): void {
+  active = shards;
+}
+
+/** The caller added add[k] to column k of the problem's X: the active shards holding its rows do the same. */
+export function columnsAdded(problem: ShardProblem, add: Float64Array): void {
+  active?.added(problem, add);
 }
 
 /** The caller's side over helpers reached by messages (`ports`, one per helper). */
@@ -130,13 +171,13 @@ export function messageShards(ports: ShardPort[]): RowShards {
   let loaded: { problem: ShardProblem; X: Float64Array; id: number } | null = null;
   const waiting = new Map<number, { left: number; fail: (e: Error) => void; got: (t: number, r: Reply) => void }>();
   ports.forEach((port, i) => {
-    port.onmessage = (e) => {
-      const r = e.data as Reply;
+    port.listen((data) => {
+      const r = data as Reply;
       const w = waiting.get(r.pass);
       if (!w) return;
       if (r.type === 'failed') w.fail(new Error(r.message));
       else w.got(i + 1, r);
-    };
+    });
   });
   const slice = (a: Float64Array | undefined, from: number, to: number) => (a ? a.slice(from, to) : undefined);
   const load = (problem: ShardProblem) => {
@@ -172,11 +213,20 @@ export function messageShards(ports: ShardPort[]): RowShards {
   return {
     threads,
     use(problem) {
-      if (problem.n < POOL_MIN_ROWS || Math.ceil(problem.n / CHUNK_ROWS) < threads) return false;
+      if (problem.n < POOL_MIN_ROWS) return false;
       // the same arrays as the rows last sent (a problem's X is changed in place only around the intercept's
       // profile, whose solves do not come here)
       if (!loaded || loaded.problem !== problem || loaded.X !== problem.X) load(problem);
       return true;
+    },
+    release() {
+      if (!loaded) return;
+      loaded = null;
+      for (const port of ports) port.postMessage({ type: 'drop' }, []);
+    },
+    added(problem, add) {
+      if (!loaded || loaded.problem !== problem) return;
+      for (const port of ports) port.postMessage({ type: 'add', id: loaded.id, add: Float64Array.from(add) }, []);
     },
     async logisticMany(problem, betas, m, losses, G) {
       if (!loaded || loaded.problem !== problem)
@@ -210,7 +260,7 @@ export function messageShards(ports: ShardPort[]): RowShards {
         });
       });
       for (const port of ports)
-        port.postMessage({ type: 'pass', id: loaded.id, pass, betas: betas.slice(0, m * p), m });
+        port.postMessage({ type: 'pass', id: loaded.id, pass, betas: betas.slice(0, m * p), m }, []);
       // this thread's chunks while the helpers work theirs
       const [k0, k1] = chunkRange(K, threads, 0);
       runChunks(

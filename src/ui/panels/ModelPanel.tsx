@@ -80,6 +80,13 @@ function FitSummary({ view }: { view: FitView }) {
         {view.threads > 1 && (
           <span data-testid="fit-threads"> Sums over the rows ran on {view.threads} threads of this computer.</span>
         )}
+        {view.threads === 1 && view.inferenceThreads > 1 && (
+          <span data-testid="fit-threads">
+            {' '}
+            The sums over the rows for the profile-likelihood limits and term tests ran on {view.inferenceThreads}{' '}
+            threads of this computer.
+          </span>
+        )}
         <Explain term="eventsPerParameter" label />
       </p>
       {view.lambda && (
