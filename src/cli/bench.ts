@@ -130,9 +130,10 @@ async function main(): Promise<void> {
     log('· browser');
     const { browserBench } = await import('./bench/browser');
     record.browser = await browserBench({ out: o.out, n: o.quick ? 1e5 : 1e6, p: 20, seed: o.seed, log });
-    log('· the single file: size, first paint from file://');
+    log('· the single file: size, first paint and the full record from file://');
     const { singleFileBench } = await import('./bench/singleFile');
-    record.extras.push(...(await singleFileBench({ out: o.out, log })));
+    const job = o.quick ? null : { n: 1e5, p: 50, seed: o.seed };
+    record.extras.push(...(await singleFileBench({ out: o.out, log, job })));
   }
   record.targets = judgeTargets(record);
   record.loadAverageAtEnd = loadavg()[0];

@@ -7,7 +7,7 @@ import {
 } from '../../src/engine/fitting/chordSolve';
 import { newtonLogistic, type LogisticProblem } from '../../src/engine/fitting/newton';
 import { qchisq } from '../../src/engine/numerics/distributions';
-import { logisticRows, logisticRowsPair } from '../../src/engine/numerics/kernels';
+import { logisticRows, logisticRowsOne, logisticRowsPair } from '../../src/engine/numerics/kernels';
 import { createRng } from '../../src/engine/numerics/rng';
 import {
   allocF64,
@@ -86,13 +86,19 @@ describe('logisticRowsPair', () => {
         );
         expect(l).toBe(l0);
         expect(Array.from(g)).toEqual(Array.from(g0));
+        // and alone (logisticRowsOne: the odd vector of a round)
+        const g1 = new Float64Array(p),
+          l1 = new Float64Array(1);
+        logisticRowsOne(X, n, p, y, b, pr.weights, pr.offset, g1, l1, 5, n - 3);
+        expect(l1[0]).toBe(l0);
+        expect(Array.from(g1)).toEqual(Array.from(g0));
       }
     }
   });
 });
 
 describe('createRowPasses logisticMany', () => {
-  it('equals `logistic` at each point, on one thread and on a pool of 3 (the fifth point pairs with itself)', () => {
+  it('equals `logistic` at each point, on one thread and on a pool of 3 (the fifth point alone)', () => {
     const n = POOL_MIN_ROWS + 5000,
       p = 5;
     const points = Array.from({ length: 5 }, (_, q) => Float64Array.from({ length: p }, (_, j) => (q - 2) * 0.1 * j));

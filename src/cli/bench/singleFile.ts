@@ -11,6 +11,7 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { gzipSync } from 'node:zlib';
 import type { Measurement } from './extras';
+import { ensureSynth } from './synth';
 
 const CHROMIUM = '/usr/bin/chromium';
 const RUNS = 3;
@@ -25,7 +26,12 @@ export interface PaintRun {
   heading: number | null;
 }
 
-export async function singleFileBench(o: { out: string; log: (s: string) => void }): Promise<Measurement[]> {
+export async function singleFileBench(o: {
+  out: string;
+  log: (s: string) => void;
+  /** The full record at this size from file:// on one thread and on all (null: not measured). */
+  job?: { n: number; p: number; seed: number } | null;
+}): Promise<Measurement[]> {
   const outDir = resolve(o.out, 'single');
   const file = join(outDir, 'fulcra.html');
   o.log('  vite build --mode single');
@@ -68,7 +74,39 @@ export async function singleFileBench(o: { out: string; log: (s: string) => void
     return [...rows, failed(FCP, why), failed(HEADING, why)];
   }
   const how = `median of ${RUNS} fresh pages (a new context each), file://, headless Chromium ${CHROMIUM}`;
+  const jobs: Measurement[] = [];
+  if (o.job) {
+    const { n, p, seed } = o.job;
+    const csv = ensureSynth(o.out, n, p, seed).csv;
+    o.log(`  the full record at ${n}×${p} from file://, on one thread and on all`);
+    for (const [label, query] of [
+      ['one thread', '?threads=1'],
+      ['all threads', ''],
+    ] as const) {
+      const name = `single file full record ${n}×${p}, ${label}`;
+      try {
+        const t = await wholeJobRun(pathToFileURL(file).href + query, csv, p);
+        jobs.push({
+          name,
+          value: t.fitSeconds,
+          unit: 's',
+          detail:
+            `"Fit the model" to the term tests shown (ML, profile limits and term tests, evaluation, diagnostics); ` +
+            `import ${t.importSeconds.toFixed(2)} s (the file chosen by path to the data summary shown); ` +
+            `${t.threads || 'no threads line'}; file://, headless Chromium ${CHROMIUM}`,
+        });
+      } catch (e) {
+        jobs.push({
+          name,
+          value: NaN,
+          unit: 's',
+          detail: `failed: ${e instanceof Error ? e.message.split('\n')[0] : e}`,
+        });
+      }
+    }
+  }
   return [
+    ...jobs,
     ...rows,
     timing(
       FCP,
@@ -143,6 +181,39 @@ export async function paintRuns(url: string, runs = RUNS): Promise<PaintRun[]> {
   }
 }
 
+/** The single file from `url` (file://): imports `csv`, fits y on x1..xp with the page's defaults, times both. */
+export async function wholeJobRun(
+  url: string,
+  csv: string,
+  p: number,
+): Promise<{ importSeconds: number; fitSeconds: number; threads: string }> {
+  const { chromium } = await import('@playwright/test');
+  const browser = await chromium.launch({ executablePath: CHROMIUM, args: ['--no-sandbox', '--disable-gpu'] });
+  try {
+    const page = await browser.newPage({ viewport: { width: 1300, height: 1000 } });
+    await page.goto(url);
+    const t0 = Date.now();
+    // by path: the local browser reads the file itself, as from a file dialog (a buffer would cross the protocol)
+    await page.getByTestId('file-input').setInputFiles(csv);
+    await page
+      .getByText(/rows × \d+ columns/)
+      .first()
+      .waitFor({ timeout: 300_000 });
+    const t1 = Date.now();
+    await page.getByLabel('Outcome (yes/no)').selectOption('y');
+    for (let j = 1; j <= p; j++) await page.getByRole('checkbox', { name: `x${j}`, exact: true }).check();
+    const t2 = Date.now();
+    await page.getByRole('button', { name: 'Fit the model' }).click();
+    await page.getByRole('table', { name: 'Likelihood-ratio test per term' }).waitFor({ timeout: 600_000 });
+    const t3 = Date.now();
+    const line = page.getByTestId('fit-threads');
+    const threads = (await line.count()) ? (await line.innerText()).trim() : '';
+    return { importSeconds: (t1 - t0) / 1e3, fitSeconds: (t3 - t2) / 1e3, threads };
+  } finally {
+    await browser.close();
+  }
+}
+
 function timing(name: string, values: (number | null)[], how: string): Measurement {
   const ok = values.filter((v): v is number => v !== null).sort((a, b) => a - b);
   if (ok.length < values.length) return failed(name, `a page recorded no time (${values.join(' / ')}); ${how}`);
@@ -159,7 +230,8 @@ function failed(name: string, why: string): Measurement {
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === resolve('src/cli/bench/singleFile.ts')) {
-  singleFileBench({ out: 'bench-out', log: (s) => process.stderr.write(s + '\n') }).then((r) =>
+  const job = process.argv.includes('--quick') ? null : { n: 1e5, p: 50, seed: 20261202 };
+  singleFileBench({ out: 'bench-out', log: (s) => process.stderr.write(s + '\n'), job }).then((r) =>
     process.stdout.write(JSON.stringify(r, null, 1) + '\n'),
   );
 }

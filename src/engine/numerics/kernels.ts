@@ -117,6 +117,7 @@ function addEtaBlock(
   r0: number,
   r1: number,
   eta: Float64Array,
+  eOff = 0,
 ): void {
   let j = 0;
   for (; j + 3 < p; j += 4) {
@@ -128,12 +129,12 @@ function addEtaBlock(
       o1 = o0 + n,
       o2 = o1 + n,
       o3 = o2 + n;
-    for (let i = r0; i < r1; i++) eta[i] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
+    for (let i = r0; i < r1; i++) eta[i - eOff] += b0 * X[o0 + i] + b1 * X[o1 + i] + b2 * X[o2 + i] + b3 * X[o3 + i];
   }
   for (; j < p; j++) {
     const b = beta[j],
       o = j * n;
-    for (let i = r0; i < r1; i++) eta[i] += b * X[o + i];
+    for (let i = r0; i < r1; i++) eta[i - eOff] += b * X[o + i];
   }
 }
 
@@ -333,6 +334,55 @@ export function logisticRowsPair(
   }
   loss[0] = la;
   loss[1] = lb;
+}
+
+/**
+ * logisticRowsPair for one vector (the odd one out of a lockstep round): the same arithmetic as either half of a
+ * pair, so the same bits, for half the work. Loss into loss[0], score into ga (cleared first).
+ */
+export function logisticRowsOne(
+  X: Float64Array,
+  n: number,
+  p: number,
+  y: Float64Array,
+  ba: ArrayLike<number>,
+  c: Float64Array | undefined,
+  offset: Float64Array | undefined,
+  ga: Float64Array,
+  loss: Float64Array,
+  rowStart = 0,
+  rowEnd = n,
+): void {
+  const R = 512;
+  const [ea, , ra] = pairScratch;
+  let la = 0;
+  ga.fill(0, 0, p);
+  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
+    const r1 = Math.min(rowEnd, r0 + R),
+      m = r1 - r0;
+    if (offset) for (let i = 0; i < m; i++) ea[i] = offset[r0 + i];
+    else ea.fill(0, 0, m);
+    addEtaBlock(X, n, p, ba, r0, r1, ea, r0);
+    let pa = 1;
+    for (let i = 0; i < m; i++) {
+      const yi = y[r0 + i],
+        ci = c ? c[r0 + i] : 1;
+      const t = ea[i],
+        a = Math.exp(-Math.abs(t));
+      const e = 1 + a,
+        d = 1 / e;
+      const mu = t >= 0 ? d : a * d,
+        mc = t >= 0 ? a * d : d;
+      ra[i] = ci * (yi === 1 ? mc : yi - mu);
+      if (ci === 1) {
+        pa *= e;
+        la += t > 0 ? (1 - yi) * t : -yi * t;
+      } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+    }
+    la += Math.log(pa);
+    addXtrBlock(X, n, p, ra, r0, r1, ga, r0);
+  }
+  loss[0] = la;
 }
 
 /** ea[0..m) += X[r0..r1, ·]·ba and eb likewise (block-relative), with addEtaBlock's grouping of four columns. */

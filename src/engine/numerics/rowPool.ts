@@ -13,7 +13,7 @@
  */
 import { FulcraError } from '../core/data';
 import { influenceRows, type InfluenceBlock } from './influenceKernel';
-import { accumulateXtWX, logisticRows, logisticRowsPair, ROW_BLOCK } from './kernels';
+import { accumulateXtWX, logisticRows, logisticRowsOne, logisticRowsPair, ROW_BLOCK } from './kernels';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
 const BLOCK_GROUPS = 4;
@@ -50,7 +50,7 @@ export interface RowJob {
   beta?: Float64Array;
   eta?: Float64Array;
   /**
-   * logisticMany: m coefficient vectors (m·p, vector q at q·p), taken in pairs (an odd last one paired with itself);
+   * logisticMany: m coefficient vectors (m·p, vector q at q·p), taken in pairs (an odd last one alone);
    * only the losses (partLoss K·m) and scores (partG K·m·p, chunk k's vector q at (k·m + q)·p) come out.
    */
   betas?: Float64Array;
@@ -101,12 +101,29 @@ export function runChunks(
     else if (job.op === 'logisticMany') {
       const m = job.m!,
         B = job.betas!,
-        loss = new Float64Array(2),
-        spare = new Float64Array(p);
+        loss = new Float64Array(2);
       for (let q = 0; q < m; q += 2) {
-        const r = Math.min(q + 1, m - 1),
+        if (q === m - 1) {
+          // an odd last vector alone (the same bits as in a pair, half the work)
+          logisticRowsOne(
+            X,
+            n,
+            p,
+            job.y!,
+            B.subarray(q * p, (q + 1) * p),
+            job.c,
+            job.offset,
+            job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
+            loss,
+            a,
+            b,
+          );
+          job.partLoss[k * m + q] = loss[0];
+          continue;
+        }
+        const r = q + 1,
           gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
-          gr = r === q ? spare : job.partG.subarray((k * m + r) * p, (k * m + r + 1) * p);
+          gr = job.partG.subarray((k * m + r) * p, (k * m + r + 1) * p);
         logisticRowsPair(
           X,
           n,
@@ -123,7 +140,7 @@ export function runChunks(
           b,
         );
         job.partLoss[k * m + q] = loss[0];
-        if (r !== q) job.partLoss[k * m + r] = loss[1];
+        job.partLoss[k * m + r] = loss[1];
       }
     } else if (job.op === 'logistic') {
       job.partLoss[k] = logisticRows(
