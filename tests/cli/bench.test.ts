@@ -118,4 +118,37 @@ describe('targets', () => {
     expect(t.find((x) => x.name === 'Fulcra engine 1e+5×50 / sklearn newton-cholesky')?.met).toBe(true);
     expect(t.some((x) => x.name.startsWith(ONE_THREAD))).toBe(false);
   });
+
+  it('judges the page at 10⁶ × 20 on import plus fit against 3 s, and leaves it unjudged without --browser', () => {
+    const page = (importSeconds: number, fitSeconds: number): BenchRecord['browser'] => ({
+      n: 1e6,
+      p: 20,
+      importSeconds,
+      fitSeconds,
+      longestTaskMs: 0,
+      longTasks: 0,
+      how: '',
+    });
+    const rec = (browser: BenchRecord['browser']): BenchRecord => ({
+      date: '',
+      node: '',
+      cpu: '',
+      cores: 2,
+      loadAverageAtStart: 0,
+      quick: false,
+      seed: 1,
+      referenceThreads: {},
+      timing: '',
+      extras: [],
+      browser,
+      targets: [],
+      sizes: [],
+    });
+    const judged = (b: BenchRecord['browser']) =>
+      judgeTargets(rec(b)).find((x) => x.name.startsWith('the page at 10⁶'));
+    expect(judged(page(2, 7.3))?.met).toBe(false);
+    expect(judged(page(1, 1.5))?.met).toBe(true);
+    expect(judged(page(1, 1.5))?.measured).toMatch(/^2\.50 s \(import 1\.00 s/);
+    expect(judged(null)?.met).toBeNull();
+  });
 });

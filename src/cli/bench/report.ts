@@ -100,6 +100,12 @@ const LIMITS: [RegExp, string][] = [
       '(stated in the record).',
   ],
   [/main-thread task/, 'rendering of a large table or plot on the main thread.'],
+  [
+    /^the page at 10⁶/,
+    'the CSV is parsed on one thread (about 2 s for 150 MB); the fit, the term tests, the evaluation and the ' +
+      'per-row diagnostics at 10⁶ rows are ~6 s of passes on 2 threads (each pass is computed in plain TypeScript; ' +
+      'the WebAssembly SIMD kernels are not wired into the fit yet).',
+  ],
   [/peak memory/, 'working copies of the design made by the solver.'],
 ];
 
@@ -218,6 +224,17 @@ export function judgeTargets(r: BenchRecord): Target[] {
         : `${b.longestTaskMs.toFixed(0)} ms (${b.longTasks} long tasks)`
       : 'not run (--browser)',
     met: b && b.longestTaskMs !== null && !r.quick ? b.longestTaskMs <= 50 : null,
+  });
+  t.push({
+    name: `the page at 10⁶ × 20: open the CSV, fit and evaluate`,
+    goal: '≤ 3 s',
+    measured:
+      b && b.importSeconds !== null && b.fitSeconds !== null
+        ? `${(b.importSeconds + b.fitSeconds).toFixed(2)} s (import ${b.importSeconds.toFixed(2)} s, fit with term ` +
+          `tests, evaluation and diagnostics ${b.fitSeconds.toFixed(2)} s; profile limits skipped by the size rule)`
+        : 'not run (--browser)',
+    met:
+      b && b.importSeconds !== null && b.fitSeconds !== null && b.n >= 1e6 ? b.importSeconds + b.fitSeconds <= 3 : null,
   });
   const big = [...r.sizes].sort((x, y) => y.n * y.p - x.n * x.p)[0];
   for (const who of whos) {
