@@ -74,6 +74,18 @@ describe('row shards: profile limits and term tests over helpers that share no m
     expect(alone.terms.every((t) => t.lrChi2 !== null)).toBe(true);
   });
 
+  it('serve one fit at a time: a second fit started meanwhile runs on this thread; both as one thread', async () => {
+    const log: string[] = [];
+    const shards = messageShards(messagePorts(2, log));
+    const [first, second] = await Promise.all([
+      fitAsync(d, spec, {}, undefined, shards),
+      fitAsync(d, spec, {}, undefined, shards),
+    ]);
+    expect(JSON.stringify(first)).toBe(JSON.stringify(alone));
+    expect(JSON.stringify(second)).toBe(JSON.stringify(alone));
+    expect(log.filter((l) => l.endsWith(':load'))).toHaveLength(2); // one per helper, for one of the two fits
+  });
+
   it('leave data below POOL_MIN_ROWS rows on this thread', async () => {
     const log: string[] = [];
     const shards = messageShards(messagePorts(2, log));

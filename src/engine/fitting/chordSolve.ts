@@ -1,5 +1,5 @@
 import { cholesky, choleskySolve, type Cholesky } from '../numerics/linalg';
-import { rowShards, setActiveShards, type RowShards } from '../numerics/rowShards';
+import { activeShards, rowShards, setActiveShards, type RowShards } from '../numerics/rowShards';
 import { objectiveEvaluator, type LogisticProblem } from './newton';
 
 /**
@@ -436,8 +436,12 @@ export function runSteps<R>(steps: ChordSteps<R>): R {
   }
 }
 
-/** Runs the steps with each round's passes shared with `shards` (runChordSolversAsync): the same numbers. */
+/**
+ * Runs the steps with each round's passes shared with `shards` (runChordSolversAsync): the same numbers. The
+ * shards hold one problem's rows at a time: steps started while others use them run on this thread (runSteps).
+ */
 export async function runStepsAsync<R>(steps: ChordSteps<R>, shards: RowShards | null): Promise<R> {
+  if (!shards || activeShards() !== null) return runSteps(steps);
   setActiveShards(shards);
   try {
     let r = steps.next();

@@ -152,6 +152,11 @@ export function rowShards(): RowShards | null {
   return installed;
 }
 
+/** The shards of the steps running now, if any (another fit meanwhile keeps to its own thread). */
+export function activeShards(): RowShards | null {
+  return active;
+}
+
 /** Sets the shards of the steps running now (null when they end); see active. */
 export function setActiveShards(shards: RowShards | null): void {
   active = shards;
