@@ -6,7 +6,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { expect, test, type Page } from '@playwright/test';
 import { generateDemo } from '../src/engine/demo';
 import { fit } from '../src/engine/fitting/fit';
-import { createRng } from '../src/engine/numerics/rng';
+import { faultLogCsv } from './helpers';
 import { makeXlsx, type XCell } from '../tests/fixtures/bad-input/xlsxWriter';
 
 /**
@@ -190,25 +190,11 @@ test('from file:// it imports a large Excel workbook (its unzipper starts a nest
   expect(seen.errors, 'console errors').toEqual([]);
 });
 
-/** 40 000 invented rows (seeded): at least POOL_MIN_ROWS = 32 768, so that the shard helpers share the passes. */
-function bigCsv(rows: number): string {
-  const rng = createRng(22);
-  const lines = ['dose,age,shift,fault'];
-  for (let i = 0; i < rows; i++) {
-    const dose = rng.normal(),
-      age = 40 + 10 * rng.normal(),
-      shift = rng.next() < 0.3 ? 1 : 0;
-    const eta = -1.5 + 0.7 * dose + 0.02 * (age - 40) + 0.4 * shift;
-    lines.push(`${dose.toFixed(3)},${age.toFixed(1)},${shift},${rng.next() < 1 / (1 + Math.exp(-eta)) ? 'yes' : 'no'}`);
-  }
-  return lines.join('\n');
-}
-
 test('from file:// its profile limits and term tests use every core and give the one-thread numbers', async ({
   browser,
 }) => {
   test.setTimeout(180_000);
-  const csv = Buffer.from(bigCsv(40_000));
+  const csv = Buffer.from(faultLogCsv(40_000, 22));
   /** The odds table and the term tests as shown, and the threads line, with `?threads=` set or not. */
   const run = async (query: string) => {
     const page = await browser.newPage();

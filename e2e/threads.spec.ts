@@ -1,24 +1,10 @@
 import { fit } from '../src/engine/fitting/fit';
-import { createRng } from '../src/engine/numerics/rng';
+import { faultLogCsv } from './helpers';
 import { importText } from '../src/io';
 import { expect, shot, test } from './guard';
 
-/** 40 000 invented rows (seeded): at least POOL_MIN_ROWS = 32 768, so that the row pool shares the passes. */
-function bigCsv(rows: number): string {
-  const rng = createRng(21);
-  const lines = ['dose,age,shift,fault'];
-  for (let i = 0; i < rows; i++) {
-    const dose = rng.normal(),
-      age = 40 + 10 * rng.normal(),
-      shift = rng.next() < 0.3 ? 1 : 0;
-    const eta = -1.5 + 0.7 * dose + 0.02 * (age - 40) + 0.4 * shift;
-    lines.push(`${dose.toFixed(3)},${age.toFixed(1)},${shift},${rng.next() < 1 / (1 + Math.exp(-eta)) ? 'yes' : 'no'}`);
-  }
-  return lines.join('\n');
-}
-
 test('a fit of 32 768 rows or more runs on the helper threads and gives the one-thread numbers', async ({ page }) => {
-  const csv = bigCsv(40_000);
+  const csv = faultLogCsv(40_000, 21);
   await page.goto('/');
   expect(await page.evaluate(() => crossOriginIsolated)).toBe(true);
   const cores = await page.evaluate(() => navigator.hardwareConcurrency);

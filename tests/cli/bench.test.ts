@@ -30,6 +30,24 @@ describe('synthetic data', () => {
   });
 });
 
+/** A bench record with nothing measured, but `over`. */
+const record = (over: Partial<BenchRecord>): BenchRecord => ({
+  date: '',
+  node: '',
+  cpu: '',
+  cores: 2,
+  loadAverageAtStart: 0,
+  quick: false,
+  seed: 1,
+  referenceThreads: {},
+  timing: '',
+  extras: [],
+  browser: null,
+  targets: [],
+  sizes: [],
+  ...over,
+});
+
 describe('targets', () => {
   it('judges a fit ratio only when both fits reached 1e-8 precision', () => {
     const fit = (who: string, median: number, gap: number) => ({
@@ -43,19 +61,7 @@ describe('targets', () => {
       gap,
       notes: [],
     });
-    const rec: BenchRecord = {
-      date: '',
-      node: '',
-      cpu: '',
-      cores: 2,
-      loadAverageAtStart: 0,
-      quick: false,
-      seed: 1,
-      referenceThreads: {},
-      timing: '',
-      extras: [],
-      browser: null,
-      targets: [],
+    const rec = record({
       sizes: [
         {
           n: 1e6,
@@ -68,7 +74,7 @@ describe('targets', () => {
           fits: [fit('Fulcra engine', 2, 1e-12), fit('sklearn newton-cholesky', 4, 1e-12), fit('R glm.fit', 4, 1e-6)],
         },
       ],
-    };
+    });
     const t = judgeTargets(rec);
     expect(t.find((x) => x.name === 'Fulcra engine 1e+6×50 / sklearn newton-cholesky')?.met).toBe(true);
     const glm = t.find((x) => x.name === 'Fulcra engine 1e+6×50 / R glm.fit');
@@ -88,19 +94,7 @@ describe('targets', () => {
       gap: 0,
       notes: [],
     });
-    const rec: BenchRecord = {
-      date: '',
-      node: '',
-      cpu: '',
-      cores: 2,
-      loadAverageAtStart: 0,
-      quick: false,
-      seed: 1,
-      referenceThreads: {},
-      timing: '',
-      extras: [],
-      browser: null,
-      targets: [],
+    const rec = record({
       sizes: [
         {
           n: 1e5,
@@ -113,7 +107,7 @@ describe('targets', () => {
           fits: [fit('Fulcra engine', 2), fit(ONE_THREAD, 3), fit('sklearn newton-cholesky', 2.5)],
         },
       ],
-    };
+    });
     const t = judgeTargets(rec);
     expect(t.find((x) => x.name === 'Fulcra engine 1e+5×50 / sklearn newton-cholesky')?.met).toBe(true);
     expect(t.some((x) => x.name.startsWith(ONE_THREAD))).toBe(false);
@@ -129,23 +123,8 @@ describe('targets', () => {
       longTasks: 0,
       how: '',
     });
-    const rec = (browser: BenchRecord['browser']): BenchRecord => ({
-      date: '',
-      node: '',
-      cpu: '',
-      cores: 2,
-      loadAverageAtStart: 0,
-      quick: false,
-      seed: 1,
-      referenceThreads: {},
-      timing: '',
-      extras: [],
-      browser,
-      targets: [],
-      sizes: [],
-    });
-    const judged = (b: BenchRecord['browser']) =>
-      judgeTargets(rec(b)).find((x) => x.name.startsWith('the page at 10⁶'));
+    const judged = (browser: BenchRecord['browser']) =>
+      judgeTargets(record({ browser })).find((x) => x.name.startsWith('the page at 10⁶'));
     expect(judged(page(2, 7.3))?.met).toBe(false);
     expect(judged(page(1, 1.5))?.met).toBe(true);
     expect(judged(page(1, 1.5))?.measured).toMatch(/^2\.50 s \(import 1\.00 s/);

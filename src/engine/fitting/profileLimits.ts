@@ -66,18 +66,8 @@ function shiftColumns(prep: PreparedFit, sign: 1 | -1): void {
  * for every side (tests and the bench compare the two). The points of both limits of each slope go into `traces`
  * (termTests starts from them).
  */
-export function profileLimits(
-  prep: PreparedFit,
-  nr: NewtonResult,
-  beta: Float64Array,
-  se: (j: number) => number,
-  level: number,
-  maxIter = 100,
-  step?: () => void,
-  exact = false,
-  traces?: ProfileTraces,
-): Limits[] {
-  return runSteps(profileLimitSteps(prep, nr, beta, se, level, maxIter, step, exact, traces));
+export function profileLimits(...args: Parameters<typeof profileLimitSteps>): Limits[] {
+  return runSteps(profileLimitSteps(...args));
 }
 
 /** profileLimits as steps that yield their rounds of chord solves (fit.ts fitSteps). */

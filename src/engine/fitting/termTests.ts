@@ -66,18 +66,8 @@ function constrainedStat(
  * is the penalised-likelihood ratio (the penalty keeps the full model's information, Heinze & Schemper 2002);
  * under separation (`separated`, ML) it is the limiting deviance difference.
  */
-export function termTests(
-  prep: PreparedFit,
-  nr: NewtonResult,
-  o: FitOptions,
-  run: boolean,
-  separated = false,
-  /** Called after each term's refit (progress). */
-  step?: () => void,
-  exact = false,
-  traces?: ProfileTraces,
-): TermRow[] {
-  return runSteps(termTestSteps(prep, nr, o, run, separated, step, exact, traces));
+export function termTests(...args: Parameters<typeof termTestSteps>): TermRow[] {
+  return runSteps(termTestSteps(...args));
 }
 
 /** termTests as steps that yield their round of chord solves (fit.ts fitSteps). */
@@ -87,6 +77,7 @@ export function* termTestSteps(
   o: FitOptions,
   run: boolean,
   separated = false,
+  /** Called after each term's refit (progress). */
   step?: () => void,
   exact = false,
   traces?: ProfileTraces,

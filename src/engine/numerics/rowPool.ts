@@ -313,14 +313,7 @@ export function createRowPasses(
         K,
         true,
       );
-      for (let q = 0; q < m; q++) {
-        let loss = 0;
-        for (let k = 0; k < K; k++) loss += pl[k * m + q];
-        losses[q] = loss;
-        const g = G.subarray(q * p, (q + 1) * p);
-        g.fill(0);
-        for (let k = 0; k < K; k++) for (let j = 0; j < p; j++) g[j] += pg[(k * m + q) * p + j];
-      }
+      sumVectorParts(pl, pg, K, m, p, losses, G);
     },
     /** X'WX (row-major, both triangles) into out, summing the chunks in order. */
     information(w: Float64Array, out: Float64Array): Float64Array {
@@ -360,6 +353,30 @@ export function createRowPasses(
     /** An Int32Array the pool can read. */
     allocInt32: (len: number) => new Int32Array(pool ? new SharedArrayBuffer(len * 4) : new ArrayBuffer(len * 4)),
   };
+}
+
+/**
+ * The losses (losses[q]) and scores (G, vector q at q·p) of m vectors from per-chunk partials (partLoss K·m,
+ * partG K·m·p, as runChunks' logisticMany writes them), each summed over the K chunks in order: the one reduction of
+ * the row pool and of row shards (rowShards.ts), so both give the same bits.
+ */
+export function sumVectorParts(
+  partLoss: Float64Array,
+  partG: Float64Array,
+  K: number,
+  m: number,
+  p: number,
+  losses: Float64Array,
+  G: Float64Array,
+): void {
+  for (let q = 0; q < m; q++) {
+    let loss = 0;
+    for (let k = 0; k < K; k++) loss += partLoss[k * m + q];
+    losses[q] = loss;
+    const g = G.subarray(q * p, (q + 1) * p);
+    g.fill(0);
+    for (let k = 0; k < K; k++) for (let j = 0; j < p; j++) g[j] += partG[(k * m + q) * p + j];
+  }
 }
 
 /** What a helper does with one message: its chunks of the job, then the count and a wake-up for the caller. */

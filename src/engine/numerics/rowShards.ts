@@ -12,7 +12,7 @@
  * (chordSolve.ts runChordSolversAsync, through fitAsync). Everything else runs on the caller's thread.
  */
 import { FulcraError } from '../core/data';
-import { CHUNK_ROWS, chunkRange, POOL_MIN_ROWS, runChunks, type RowJob } from './rowPool';
+import { CHUNK_ROWS, chunkRange, POOL_MIN_ROWS, runChunks, sumVectorParts, type RowJob } from './rowPool';
 import { ROW_BLOCK } from './kernels';
 
 /** One helper as the caller sees it (a MessagePort connected to a worker: portOf). */
@@ -298,14 +298,7 @@ export function messageShards(ports: ShardPort[]): RowShards {
         );
       }
       // as rowPool's logisticMany: each vector's sums over the chunks in order
-      for (let q = 0; q < m; q++) {
-        let loss = 0;
-        for (let k = 0; k < K; k++) loss += partLoss[k * m + q];
-        losses[q] = loss;
-        const g = G.subarray(q * p, (q + 1) * p);
-        g.fill(0);
-        for (let k = 0; k < K; k++) for (let j = 0; j < p; j++) g[j] += partG[(k * m + q) * p + j];
-      }
+      sumVectorParts(partLoss, partG, K, m, p, losses, G);
     },
   };
 }
