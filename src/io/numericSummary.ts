@@ -1,3 +1,5 @@
+import { select } from '../engine/numerics';
+
 /** Summary of a numeric column's present (non-NaN) values, computed in O(n) without sorting. */
 export interface NumericSummary {
   count: number;
@@ -51,33 +53,7 @@ function slot(v: number, mask: number, keys: Float64Array): number {
   }
 }
 
-/** k-th smallest (0-based) of a scratch array, reordering it in place (Hoare's selection, median-of-three). */
-export function select(a: Float64Array, k: number): number {
-  let lo = 0,
-    hi = a.length - 1;
-  while (hi > lo) {
-    const mid = (lo + hi) >> 1;
-    const x = a[lo],
-      y = a[mid],
-      z = a[hi];
-    const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
-    let i = lo,
-      j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const t = a[i];
-        a[i++] = a[j];
-        a[j--] = t;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return a[k];
-  }
-  return a[k];
-}
+export { select };
 
 const FEW = 8;
 

@@ -60,12 +60,52 @@ function numericGetter(col: Column): Getter {
 }
 
 /** 1 where the column's value is missing, for every row of the dataset. */
-function missingMask(col: Column): Uint8Array {
-  const m = new Uint8Array(col.kind === 'numeric' ? col.values.length : col.codes.length);
-  if (col.kind === 'numeric') {
-    for (let r = 0; r < m.length; r++) if (Number.isNaN(col.values[r])) m[r] = 1;
-  } else for (let r = 0; r < m.length; r++) if (col.codes[r] < 0) m[r] = 1;
-  return m;
+/**
+ * Complete cases of `cols` among `candidate` (every row when null), counting per column (in `cols` order) the
+ * candidate rows it leaves out. One scan per column; the per-row mask is made only once a value is missing, so data
+ * without missing values cost one read of each column. `identity`: the rows are 0 … nRows − 1 in order.
+ */
+function completeRows(cols: Column[], nRows: number, candidate: Int32Array | null) {
+  const droppedByColumn: Record<string, number> = {};
+  let missing: Uint8Array | null = null;
+  const m = candidate ? candidate.length : nRows;
+  for (const c of cols) {
+    let k = 0;
+    if (c.kind === 'numeric') {
+      const v = c.values;
+      for (let i = 0; i < m; i++) {
+        const r = candidate ? candidate[i] : i;
+        if (v[r] !== v[r]) {
+          k++;
+          (missing ??= new Uint8Array(nRows))[r] = 1;
+        }
+      }
+    } else {
+      const codes = c.codes;
+      for (let i = 0; i < m; i++) {
+        const r = candidate ? candidate[i] : i;
+        if (codes[r] < 0) {
+          k++;
+          (missing ??= new Uint8Array(nRows))[r] = 1;
+        }
+      }
+    }
+    if (k > 0) droppedByColumn[c.name] = (droppedByColumn[c.name] ?? 0) + k;
+  }
+  let rowsUsed: Int32Array;
+  if (!missing) {
+    rowsUsed = candidate ? candidate.slice() : new Int32Array(nRows);
+    if (!candidate) for (let i = 0; i < nRows; i++) rowsUsed[i] = i;
+  } else {
+    let n = 0;
+    for (let i = 0; i < m; i++) if (!missing[candidate ? candidate[i] : i]) n++;
+    rowsUsed = new Int32Array(n);
+    for (let i = 0, k = 0; i < m; i++) {
+      const r = candidate ? candidate[i] : i;
+      if (!missing[r]) rowsUsed[k++] = r;
+    }
+  }
+  return { rowsUsed, droppedByColumn, nDropped: m - rowsUsed.length, identity: !candidate && !missing };
 }
 
 /** Level string per row (numbers are written as strings), null when missing. */
@@ -95,6 +135,11 @@ type RecipeOptions = {
    * weights included): the missing-value scan is skipped and `rows` are used as they are.
    */
   complete?: boolean;
+  /**
+   * Storage to write the design into when it is large enough (a caller encoding block after block reuses one
+   * buffer instead of touching fresh memory each time); X is then a view of it.
+   */
+  scratch?: Float64Array;
 };
 
 /** The rows a recipe uses on `data` (complete cases among `opts.rows`) and the columns it reads. */
@@ -106,6 +151,8 @@ interface RecipeRows {
   n: number;
   nDropped: number;
   droppedByColumn: Record<string, number>;
+  /** rowsUsed is 0 … nRows − 1 in order: a numeric column is copied as a block. */
+  identity: boolean;
 }
 
 function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): RecipeRows {
@@ -121,33 +168,20 @@ function recipeRows(recipe: DesignRecipe, data: Dataset, opts: RecipeOptions): R
     outcomeCol && recipe.weights && data.columns.some((c) => c.name === recipe.weights)
       ? getColumn(data, recipe.weights)
       : null;
-  const droppedByColumn: Record<string, number> = {};
   if (opts.complete && rows)
-    return { cols, outcomeCol, weightsCol, rowsUsed: rows, n: rows.length, nDropped: 0, droppedByColumn };
-  let candidate = rows;
-  if (!candidate) {
-    candidate = new Int32Array(data.nRows);
-    for (let i = 0; i < data.nRows; i++) candidate[i] = i;
-  }
+    return {
+      cols,
+      outcomeCol,
+      weightsCol,
+      rowsUsed: rows,
+      n: rows.length,
+      nDropped: 0,
+      droppedByColumn: {},
+      identity: false,
+    };
   const checked = [...(outcomeCol ? [outcomeCol] : []), ...(weightsCol ? [weightsCol] : []), ...cols.values()];
-  const anyMissing = new Uint8Array(data.nRows);
-  for (const c of checked) {
-    const m = missingMask(c);
-    let k = 0;
-    for (let i = 0; i < candidate.length; i++) {
-      const r = candidate[i];
-      if (m[r]) {
-        k++;
-        anyMissing[r] = 1;
-      }
-    }
-    if (k > 0) droppedByColumn[c.name] = (droppedByColumn[c.name] ?? 0) + k;
-  }
-  let n = 0;
-  for (let i = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) n++;
-  const rowsUsed = new Int32Array(n);
-  for (let i = 0, k = 0; i < candidate.length; i++) if (!anyMissing[candidate[i]]) rowsUsed[k++] = candidate[i];
-  return { cols, outcomeCol, weightsCol, rowsUsed, n, nDropped: candidate.length - n, droppedByColumn };
+  const sel = completeRows(checked, data.nRows, rows ?? null);
+  return { cols, outcomeCol, weightsCol, ...sel, n: sel.rowsUsed.length };
 }
 
 /** Number of design columns of a recipe, intercept included. */
@@ -202,7 +236,8 @@ function termEncoder(recipe: DesignRecipe, data: Dataset, sel: RecipeRows) {
       return out;
     }
     const x = alloc();
-    if (col.kind === 'numeric') {
+    if (col.kind === 'numeric' && sel.identity) x.set(col.values.subarray(0, n));
+    else if (col.kind === 'numeric') {
       const v = col.values;
       for (let i = 0; i < n; i++) x[i] = v[rowsUsed[i]];
     } else {
@@ -343,7 +378,7 @@ export function designFromRecipe(recipe: DesignRecipe, data: Dataset, opts: Reci
   const { n } = sel;
   const p = recipeWidth(recipe);
   // X in shared memory while a row pool is installed, so that its threads can read it; written column by column.
-  const X = allocF64(n * p);
+  const X = opts.scratch && opts.scratch.length >= n * p ? opts.scratch.subarray(0, n * p).fill(0) : allocF64(n * p);
   X.fill(1, 0, n);
   let next = 1;
   const names = encodeTerms(
@@ -427,17 +462,29 @@ function termName(t: ModelSpec['terms'][number]): string {
 }
 
 /** The event level and warnings for the outcome column, or a FulcraError naming it. */
-function outcomeEvent(col: Column, event: string | undefined, rows: number[], warnings: EngineWarning[]): string {
+function outcomeEvent(col: Column, event: string | undefined, rows: Int32Array, warnings: EngineWarning[]): string {
   const counts = new Map<string, number>();
   if (col.kind === 'categorical') {
     const byCode = new Array<number>(col.levels.length).fill(0);
-    for (const r of rows) byCode[col.codes[r]]++;
+    const codes = col.codes;
+    for (let i = 0; i < rows.length; i++) byCode[codes[rows[i]]]++;
     col.levels.forEach((l, k) => {
       if (byCode[k] > 0) counts.set(l, byCode[k]);
     });
   } else {
+    // 0 and 1 counted in a plain loop (the usual case); any other value through the map
     const byValue = new Map<number, number>();
-    for (const r of rows) byValue.set(col.values[r], (byValue.get(col.values[r]) ?? 0) + 1);
+    const v = col.values;
+    let zeros = 0,
+      ones = 0;
+    for (let i = 0; i < rows.length; i++) {
+      const x = v[rows[i]];
+      if (x === 0) zeros++;
+      else if (x === 1) ones++;
+      else byValue.set(x, (byValue.get(x) ?? 0) + 1);
+    }
+    if (ones > 0) byValue.set(1, ones);
+    if (zeros > 0) byValue.set(0, zeros);
     for (const [v, k] of byValue) counts.set(String(v), k);
   }
   const seen = [...counts.keys()];
@@ -491,16 +538,16 @@ function outcomeEvent(col: Column, event: string | undefined, rows: number[], wa
 }
 
 /** The weights of `rows` (complete rows), each a whole number ≥ 1 (weightsVector checks them with its message). */
-function rowWeights(data: Dataset, name: string, rows: number[]): number[] {
+function rowWeights(data: Dataset, name: string, rows: Int32Array): number[] {
   const get = numericGetter(getColumn(data, name));
-  return rows.map((r) => {
+  return Array.from(rows, (r) => {
     const v = get(r);
     return Number.isInteger(v) && v >= 1 ? v : 1;
   });
 }
 
 /** [min, max] over `rows` of every column the terms read as numbers (numeric, spline, numeric interaction part). */
-function numericRanges(data: Dataset, terms: RecipeTerm[], rows: number[]): Record<string, [number, number]> {
+function numericRanges(data: Dataset, terms: RecipeTerm[], rows: Int32Array): Record<string, [number, number]> {
   const names = new Set<string>();
   for (const t of terms) {
     if (t.type === 'numeric' || t.type === 'spline') names.add(t.column);
@@ -508,14 +555,23 @@ function numericRanges(data: Dataset, terms: RecipeTerm[], rows: number[]): Reco
   }
   const out: Record<string, [number, number]> = {};
   for (const name of names) {
-    const get = numericGetter(getColumn(data, name));
+    const col = getColumn(data, name);
+    const get = numericGetter(col);
     let lo = Infinity,
       hi = -Infinity;
-    for (const r of rows) {
-      const v = get(r);
-      if (v < lo) lo = v;
-      if (v > hi) hi = v;
-    }
+    if (col.kind === 'numeric') {
+      const v = col.values;
+      for (let i = 0; i < rows.length; i++) {
+        const x = v[rows[i]];
+        if (x < lo) lo = x;
+        if (x > hi) hi = x;
+      }
+    } else
+      for (let i = 0; i < rows.length; i++) {
+        const x = get(rows[i]);
+        if (x < lo) lo = x;
+        if (x > hi) hi = x;
+      }
     out[name] = [lo, hi];
   }
   return out;
@@ -558,11 +614,10 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     }
   }
   const cols = [...usedCols].map((c) => getColumn(data, c));
-  const rows: number[] = [];
-  const masks = cols.map(missingMask);
-  for (let r = 0; r < data.nRows; r++) if (masks.every((m) => !m[r])) rows.push(r);
+  const complete = completeRows(cols, data.nRows, null);
+  const rows = complete.rowsUsed;
   if (rows.length === 0) {
-    const miss = cols.map((c, k) => ({ c: c.name, k: masks[k].reduce((a, b) => a + b, 0) }));
+    const miss = cols.map((c) => ({ c: c.name, k: complete.droppedByColumn[c.name] ?? 0 }));
     miss.sort((a, b) => b.k - a.k);
     throw new FulcraError(
       'no-complete-rows',
@@ -607,7 +662,9 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
     if (t.type === 'spline') {
       const get = numericGetter(col);
       const knots = rcsKnots(
-        caseCount ? rows.flatMap((r, k) => new Array<number>(caseCount[k]).fill(get(r))) : rows.map((r) => get(r)),
+        caseCount
+          ? Array.from(rows).flatMap((r, k) => new Array<number>(caseCount[k]).fill(get(r)))
+          : Float64Array.from(rows, (r) => get(r)),
         t.knots,
         t.column,
       );
@@ -630,7 +687,7 @@ export function buildDesign(data: Dataset, spec: ModelSpec): Design {
       continue;
     }
     const counts = new Array<number>(col.levels.length).fill(0);
-    rows.forEach((r, k) => (counts[col.codes[r]] += caseCount ? caseCount[k] : 1));
+    for (let k = 0; k < rows.length; k++) counts[col.codes[rows[k]]] += caseCount ? caseCount[k] : 1;
     const levels = col.levels.filter((_, k) => counts[k] > 0);
     let reference = t.reference;
     if (reference === undefined) {

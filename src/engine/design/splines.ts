@@ -34,17 +34,14 @@ export function harrellKnots(sorted: ArrayLike<number>, k: 3 | 4 | 5): number[] 
   const x = sorted instanceof Float64Array ? sorted : Float64Array.from(sorted);
   const n = x.length;
   if (n < 6) return [];
-  const values: number[] = [],
-    counts: number[] = [];
-  for (let i = 0; i < n; i++) {
-    if (i > 0 && x[i] === x[i - 1]) counts[counts.length - 1]++;
-    else {
-      values.push(x[i]);
-      counts.push(1);
-    }
-  }
-  const m = values.length;
-  if (m - 2 <= k) return values.slice(1, -1);
+  // runs of tied values: run j starts at starts[j] (typed, as 10⁶ values may be distinct)
+  const starts = new Int32Array(n + 1);
+  let m = 0;
+  for (let i = 0; i < n; i++) if (i === 0 || x[i] !== x[i - 1]) starts[m++] = i;
+  starts[m] = n;
+  const values = (j: number) => x[starts[j]],
+    counts = (j: number) => starts[j + 1] - starts[j];
+  if (m - 2 <= k) return Array.from({ length: Math.max(0, m - 2) }, (_, j) => values(j + 1));
   const outer = k > 3 ? 0.05 : 0.1;
   let first: number | null = null,
     last: number | null = null,
@@ -52,16 +49,16 @@ export function harrellKnots(sorted: ArrayLike<number>, k: 3 | 4 | 5): number[] 
     hi = n,
     nke: number = k;
   let inner = 0;
-  for (let j = 1; j < m - 1; j++) inner = Math.max(inner, counts[j]);
+  for (let j = 1; j < m - 1; j++) inner = Math.max(inner, counts(j));
   if (inner / n < FRACTIED) {
-    if (counts[0] / n >= FRACTIED) {
-      first = values[1];
-      lo = counts[0] + counts[1];
+    if (counts(0) / n >= FRACTIED) {
+      first = values(1);
+      lo = counts(0) + counts(1);
       nke--;
     }
-    if (counts[m - 1] / n >= FRACTIED) {
-      last = values[m - 2];
-      hi = n - counts[m - 1] - counts[m - 2];
+    if (counts(m - 1) / n >= FRACTIED) {
+      last = values(m - 2);
+      hi = n - counts(m - 1) - counts(m - 2);
       nke--;
     }
   }

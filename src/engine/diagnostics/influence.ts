@@ -122,10 +122,11 @@ export function rowDiagnostics(f: FitResult, data: Dataset): RowDiagnostics {
   out.beta.set(beta);
   if (C && out.C) out.C.set(C);
   if (sdBeta && out.sd) out.sd.set(sdBeta);
+  const scratch = allocF64(B * p); // one block's design, reused block after block
   let k = 0;
   for (let start = 0; start < data.nRows; start += DIAGNOSTICS_BLOCK) {
     const end = Math.min(data.nRows, start + DIAGNOSTICS_BLOCK);
-    const enc = designFromRecipe(f.recipe, sliceRows(data, start, end));
+    const enc = designFromRecipe(f.recipe, sliceRows(data, start, end), { scratch });
     const m = enc.n;
     if (m === 0) continue;
     const k0 = k;

@@ -140,6 +140,13 @@ export function topIndices(score: ArrayLike<number>, k: number): number[] {
   return top;
 }
 
+/** |x| of each value, in a plain loop (Float64Array.from with a map callback took 0.1 s at 10⁶ rows). */
+function absolute(x: Float64Array): Float64Array {
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = Math.abs(x[i]);
+  return out;
+}
+
 /** Indices whose score exceeds `limit`, largest first (few rows pass, so the sort is cheap). */
 function above(score: ArrayLike<number>, limit: number): number[] {
   const out: number[] = [];
@@ -164,7 +171,7 @@ export function summariseDiagnostics(f: FitResult, data: Dataset, d: RowDiagnost
   const names = f.coefficients.map((c) => c.name);
   const applicability = measureApplicability(f.method, d.leverage !== null);
   const thresholds = referenceLines(n, p);
-  const absDev = Float64Array.from(d.deviance, Math.abs);
+  const absDev = absolute(d.deviance);
   const rankedBy = d.cooks ? 'cooks' : 'deviance residual';
   const order = topIndices(d.cooks ?? absDev, TOP_ROWS);
   const shiftOf = (i: number): InfluentialRow['shift'] => {
@@ -206,7 +213,7 @@ export function summariseDiagnostics(f: FitResult, data: Dataset, d: RowDiagnost
     }
   }
   const resid = d.stdDeviance ?? d.deviance;
-  const large = above(Float64Array.from(resid, Math.abs), LARGE_RESIDUAL);
+  const large = above(absolute(resid), LARGE_RESIDUAL);
   if (large.length > 0) {
     const shown = large.slice(0, LISTED).map((i) => d.sheetRows[i]);
     const more = large.length > LISTED ? ` and ${large.length - LISTED} more` : '';

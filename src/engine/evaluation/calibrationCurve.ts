@@ -3,7 +3,7 @@ import { checkLevel, checkOutcomeAndPredictor } from '../core/vectors';
 import { harrellKnots, rcsBasis } from '../design/splines';
 import { qnorm } from '../numerics/distributions';
 import { clampRisk, logit, sigmoid } from '../numerics/loss';
-import { quantileSorted, weightedQuantile } from '../numerics/quantile';
+import { quantileBySelection, quantileSorted, weightedQuantile } from '../numerics/quantile';
 import { fitSmallLogistic } from './calibration';
 import { warning, type EngineWarning } from '../core/warnings';
 
@@ -172,7 +172,21 @@ export function calibrationCurve(
     sw += wi;
     sum += wi * absErr[i];
   }
-  const errSorted = absErr.slice().sort();
+  // E50, E90 and Emax without sorting the n errors: two selections and a maximum give the same numbers
+  let emax = -Infinity,
+    nan = false;
+  for (let i = 0; i < n; i++) {
+    if (absErr[i] > emax) emax = absErr[i];
+    if (absErr[i] !== absErr[i]) nan = true;
+  }
+  const errSorted = nan ? absErr.slice().sort() : null;
+  const scratch = w || nan ? null : absErr.slice();
+  const errQuantile = (q: number) =>
+    w
+      ? weightedQuantile(absErr, w, q)
+      : errSorted
+        ? quantileSorted(errSorted, q)
+        : quantileBySelection(absErr, q, scratch!);
   const z = qnorm(1 - (1 - level) / 2);
   const pLo = sigmoid(quantileSorted(sorted, 0.01));
   const pHi = sigmoid(quantileSorted(sorted, 0.99));
@@ -210,9 +224,9 @@ export function calibrationCurve(
     upper,
     level,
     ici: sum / sw,
-    e50: w ? weightedQuantile(absErr, w, 0.5) : quantileSorted(errSorted, 0.5),
-    e90: w ? weightedQuantile(absErr, w, 0.9) : quantileSorted(errSorted, 0.9),
-    emax: errSorted[n - 1],
+    e50: errQuantile(0.5),
+    e90: errQuantile(0.9),
+    emax: errSorted ? errSorted[n - 1] : emax,
     method:
       knots.length > 0
         ? `Logistic regression of the outcome on a restricted cubic spline of the linear predictor with ` +

@@ -79,6 +79,20 @@ function casesWrittenOut(y: Float64Array, p: Float64Array, w: Float64Array, case
   return { y: oy, p: op };
 }
 
+/** The risks behind an unweighted threshold structure, sorted: each distinct risk as often as cases hold it. */
+function sortedFromPrepared(prep: PreparedThresholds): Float64Array {
+  const { risks, eventsAtOrAbove: e, nonEventsAtOrAbove: ne } = prep;
+  const out = new Float64Array(prep.total);
+  let at = 0;
+  for (let k = 0; k < risks.length; k++) {
+    const next = k + 1 < risks.length ? e[k + 1] + ne[k + 1] : 0;
+    const count = e[k] + ne[k] - next;
+    out.fill(risks[k], at, at + count);
+    at += count;
+  }
+  return out;
+}
+
 /**
  * All evaluation measures of predicted risks p for a 0/1 outcome y in one plain record: ROC (thinned) and
  * AUC with DeLong CI, PR curve and average precision, Brier, calibration intercept/slope, flexible calibration
@@ -130,7 +144,9 @@ export function evaluate(y: Float64Array, p: Float64Array, options: EvaluateOpti
   }
   let hl: HosmerLemeshowResult | null = null;
   const cases = w ? prep.total : y.length;
-  if (!w) hl = hosmerLemeshow(y, p, options.hlGroups ?? 10);
+  // Without weights, the threshold structure holds the risks' sorted values and counts: the risks sorted, in O(n).
+  const sortedRisks = w ? null : sortedFromPrepared(prep);
+  if (!w) hl = hosmerLemeshow(y, p, options.hlGroups ?? 10, sortedRisks ?? undefined);
   else if (prep.frequencyWeights && cases <= HL_MAX_CASES) {
     const one = casesWrittenOut(y, p, w, cases);
     hl = hosmerLemeshow(one.y, one.p, options.hlGroups ?? 10);

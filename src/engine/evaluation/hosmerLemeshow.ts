@@ -39,7 +39,12 @@ const CAVEAT =
  * (R: cut(p, unique(quantile(p, 0:g/g)), include.lowest = TRUE)); empty groups are dropped.
  * C = Σ_groups Σ_{events, non-events} (O − E)²/E on G − 2 df. Unweighted.
  */
-export function hosmerLemeshow(y: Float64Array, p: Float64Array, g = 10): HosmerLemeshowResult {
+export function hosmerLemeshow(
+  y: Float64Array,
+  p: Float64Array,
+  g = 10,
+  sortedRisks?: Float64Array,
+): HosmerLemeshowResult {
   if (!(Number.isInteger(g) && g >= 3))
     throw new FulcraError('bad-groups', `The number of groups must be an integer ≥ 3, got ${g}.`);
   checkScoredOutcome(y, p, undefined, true);
@@ -48,7 +53,7 @@ export function hosmerLemeshow(y: Float64Array, p: Float64Array, g = 10): Hosmer
     `tied cut points merged; each group runs from above the previous cut up to and including its own). Empty ` +
     `groups are dropped; df = number of groups − 2.`;
   const warnings: EngineWarning[] = [];
-  const sorted = p.slice().sort();
+  const sorted = sortedRisks && sortedRisks.length === p.length ? sortedRisks : p.slice().sort();
   const breaks = Array.from(new Set(Array.from({ length: g + 1 }, (_, j) => quantileSorted(sorted, j / g))));
   const G = Math.max(1, breaks.length - 1);
   const n = new Float64Array(G);

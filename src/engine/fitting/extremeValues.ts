@@ -25,14 +25,24 @@ export function checkExtremeValues(data: Dataset, spec: ModelSpec, rowsUsed: Int
     const col = getColumn(data, name);
     if (col.kind !== 'numeric') continue;
     const v = col.values;
-    let M = 0;
-    for (const r of rowsUsed) M = Math.max(M, Math.abs(v[r]));
-    if (!(M > 0) || !Number.isFinite(M)) continue;
+    // One pass for the largest size and the smallest non-zero one: the count pass runs only when that smallest
+    // size is below the last bit of the largest (NaN compares false and is skipped, as Math.max would not).
+    let M = 0,
+      least = Infinity,
+      nan = false;
+    for (let i = 0; i < rowsUsed.length; i++) {
+      const a = Math.abs(v[rowsUsed[i]]);
+      if (a > M) M = a;
+      if (a > 0 && a < least) least = a;
+      if (a !== a) nan = true;
+    }
+    if (nan || !(M > 0) || !Number.isFinite(M)) continue;
     const floor = M / LOST;
+    if (least > floor) continue;
     let nonZero = 0,
       lost = 0;
-    for (const r of rowsUsed) {
-      const a = Math.abs(v[r]);
+    for (let i = 0; i < rowsUsed.length; i++) {
+      const a = Math.abs(v[rowsUsed[i]]);
       if (a === 0) continue;
       nonZero++;
       if (a <= floor) lost++;

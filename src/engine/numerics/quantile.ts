@@ -26,3 +26,48 @@ export function weightedQuantile(v: Float64Array, w: Float64Array, q: number): n
   }
   return v[idx[idx.length - 1]];
 }
+
+/** k-th smallest (0-based) of a scratch array, reordering it in place (Hoare's selection, median-of-three). */
+export function select(a: Float64Array, k: number): number {
+  let lo = 0,
+    hi = a.length - 1;
+  while (hi > lo) {
+    const mid = (lo + hi) >> 1;
+    const x = a[lo],
+      y = a[mid],
+      z = a[hi];
+    const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
+    let i = lo,
+      j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const t = a[i];
+        a[i++] = a[j];
+        a[j--] = t;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
+/**
+ * quantileSorted(sorted copy of v, q) without sorting: two O(n) selections in a scratch copy, so the result is the
+ * same number. NaN for no data; values must not be NaN (the caller checks).
+ */
+export function quantileBySelection(v: Float64Array, q: number, scratch: Float64Array = v.slice()): number {
+  const n = scratch.length;
+  if (n === 0) return NaN;
+  const h = (n - 1) * q;
+  const lo = Math.floor(h);
+  const a = select(scratch, lo);
+  if (lo + 1 >= n) return a + (h - lo) * (a - a); // the last value: as quantileSorted with hi = lo
+  // after the selection every value right of `lo` is ≥ a: the next order statistic is their minimum
+  let b = Infinity;
+  for (let i = lo + 1; i < n; i++) if (scratch[i] < b) b = scratch[i];
+  return a + (h - lo) * (b - a);
+}

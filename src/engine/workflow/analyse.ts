@@ -93,7 +93,8 @@ export function apparentEvaluation(
     data,
   );
   if (!d.y) throw new FulcraError('no-outcome', `The outcome column "${f.recipe.outcome}" is missing.`);
-  const risk = d.eta.map(sigmoid);
+  const risk = new Float64Array(d.eta.length);
+  for (let i = 0; i < risk.length; i++) risk[i] = sigmoid(d.eta[i]);
   const evaluation = evaluate(d.y, risk, {
     weights: d.weights ?? undefined,
     eta: d.eta,
