@@ -12,10 +12,12 @@ import {
   installRowPool,
   messagePool,
   POOL_MIN_ROWS,
+  standardiseInPlace,
   takeBuffer,
   type RowJob,
 } from '../../src/engine/numerics/rowPool';
 import { createRng } from '../../src/engine/numerics/rng';
+import { standardise } from '../../src/engine/numerics/standardise';
 import type { Dataset } from '../../src/engine/core/data';
 import type { ModelSpec } from '../../src/engine/core/model';
 import { rowDiagnostics } from '../../src/engine/diagnostics';
@@ -137,6 +139,25 @@ describe('row pool: the same numbers on any number of threads', () => {
       const pooled = fitAll(problem(n, p, 5));
       installRowPool(null);
       expect(pooled).toEqual(serial);
+    }
+  });
+
+  it('standardises the columns on the pool to the same bits as standardise() on this thread', () => {
+    const base = problem(n, p, 11);
+    base.X.fill(0, 3 * n, 4 * n); // an all-zero column keeps scale 1 and becomes 0
+    for (let i = 0; i < n; i++) base.X[4 * n + i] = 1e300 * (i % 7); // a column in units of 1e300
+    const want = standardise(Float64Array.from(base.X), n, p, true);
+    for (const threads of [2, 3]) {
+      installRowPool(inlinePool(threads));
+      const X = allocF64(n * p);
+      X.set(base.X);
+      const got = standardiseInPlace(X, n, p);
+      installRowPool(null);
+      expect(got.Z).toBe(X);
+      expect(Array.from(got.Z)).toEqual(Array.from(want.Z));
+      expect([got.center, got.scale, got.centerOverScale].map((a) => Array.from(a))).toEqual(
+        [want.center, want.scale, want.centerOverScale].map((a) => Array.from(a)),
+      );
     }
   });
 

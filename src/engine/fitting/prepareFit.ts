@@ -3,9 +3,9 @@ import type { FitOptions, ModelSpec } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { findAliased } from '../design/aliasing';
 import { buildDesign, type Design } from '../design/design';
-import { allocF64 } from '../numerics/rowPool';
+import { allocF64, standardiseInPlace } from '../numerics/rowPool';
 import { checkExtremeValues } from './extremeValues';
-import { standardise, type Standardised } from '../numerics/standardise';
+import type { Standardised } from '../numerics/standardise';
 import type { LogisticProblem } from './newton';
 
 /**
@@ -70,7 +70,7 @@ export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): Prepa
       'Check the outcome column and the event level.',
     );
   }
-  const std = standardise(X, n, p, true);
+  const std = standardiseInPlace(X, n, p);
   const ali = findAliased(std.Z, n, p, design.columnNames, design.columnTerms);
   warnings.push(...ali.warnings);
   const keep = ali.aliased.flatMap((a, j) => (a ? [] : [j]));

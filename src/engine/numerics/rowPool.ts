@@ -14,6 +14,7 @@
 import { FulcraError } from '../core/data';
 import { influenceRows, type InfluenceBlock } from './influenceKernel';
 import { accumulateXtWX, logisticRows, logisticRowsOne, logisticRowsPair, ROW_BLOCK } from './kernels';
+import { standardise, standardiseColumn, type Standardised } from './standardise';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
 const BLOCK_GROUPS = 4;
@@ -37,7 +38,7 @@ export const POOL_MIN_ROWS = 32_768;
 
 /** One full-data pass, as sent to the pool's helpers (typed arrays over SharedArrayBuffers; beta is copied). */
 export interface RowJob {
-  op: 'logistic' | 'information' | 'logisticMany' | 'influence';
+  op: 'logistic' | 'information' | 'logisticMany' | 'influence' | 'standardise';
   X: Float64Array;
   n: number;
   p: number;
@@ -69,6 +70,8 @@ export interface RowJob {
   partH?: Float64Array;
   /** influence: one block of rows of the influence measures (every array in it shared), rows split by chunk. */
   influence?: InfluenceBlock;
+  /** standardise: chunk k is design column k + 1; its centre, scale, centre/scale go to [0, p), [p, 2p), [2p, 3p). */
+  moments?: Float64Array;
   /** Shared Int32Array(2): helpers that finished, and helpers that failed. */
   done: Int32Array;
 }
@@ -81,6 +84,12 @@ export function runChunks(
   work: Float64Array = new Float64Array(ROW_BLOCK * job.p),
 ): void {
   const { X, n, p, chunkRows } = job;
+  if (job.op === 'standardise') {
+    const M = job.moments!;
+    const [center, scale, cos] = [0, 1, 2].map((q) => M.subarray(q * p, (q + 1) * p));
+    for (let k = k0; k < k1; k++) standardiseColumn(X, X, n, k + 1, center, scale, cos);
+    return;
+  }
   for (let k = k0; k < k1; k++) {
     if (job.blocks) {
       // A row subsample: chunk k is the group of blocks [k·chunkRows, (k + 1)·chunkRows).
@@ -229,6 +238,30 @@ export function giveBackBuffers(...arrays: Float64Array[]): void {
 
 const isShared = (a: Float64Array | undefined): boolean =>
   !a || (sharedMemory() && a.buffer instanceof SharedArrayBuffer);
+
+/**
+ * standardise(X, n, p, true) with the columns shared out over the pool (a column is worked through by one thread, as
+ * on its own, so the numbers are the same on any number of threads); on this thread when X is not shared or small.
+ */
+export function standardiseInPlace(X: Float64Array, n: number, p: number): Standardised {
+  const pool = installed && n >= POOL_MIN_ROWS && p > 2 && isShared(X) ? installed : null;
+  if (!pool) return standardise(X, n, p, true);
+  const moments = f64(3 * p, true);
+  moments.fill(1, p, 2 * p); // scale 1 for the intercept and for columns that are all 0
+  const none = f64(0, true);
+  const done = new Int32Array(new SharedArrayBuffer(8));
+  pool.run(
+    { op: 'standardise', X, n, p, chunkRows: n, partLoss: none, partG: none, moments, done },
+    p - 1,
+    new Float64Array(ROW_BLOCK * p),
+  );
+  return {
+    Z: X,
+    center: moments.slice(0, p),
+    scale: moments.slice(p, 2 * p),
+    centerOverScale: moments.slice(2 * p, 3 * p),
+  };
+}
 
 /**
  * Runs the passes of one problem (fixed X, y, weights, offset; eta/r/w buffers given per call): on the pool when

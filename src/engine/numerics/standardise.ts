@@ -51,6 +51,32 @@ export function columnMoments(X: Float64Array, o: number, n: number, w?: Float64
   return { M, mean: m, sd, varying: sd > 1e-12 * Math.abs(m), scaled };
 }
 
+/**
+ * Centres and scales column j of the column-major X into Z (which may be X), writing its centre, scale and
+ * centre/scale: the work of one column of standardise, on whichever thread runs it.
+ */
+export function standardiseColumn(
+  X: Float64Array,
+  Z: Float64Array,
+  n: number,
+  j: number,
+  center: Float64Array,
+  scale: Float64Array,
+  centerOverScale: Float64Array,
+): void {
+  const o = j * n;
+  const { M, mean: m, sd: s, varying, scaled: u } = columnMoments(X, o, n);
+  if (M === 0) {
+    for (let i = 0; i < n; i++) Z[o + i] = 0;
+    return;
+  }
+  center[j] = m * M;
+  scale[j] = varying ? s * M : M;
+  centerOverScale[j] = varying ? m / s : m;
+  const d = varying ? s : 1;
+  for (let i = 0; i < n; i++) Z[o + i] = (u(i) - m) / d;
+}
+
 /** Centres and scales columns 1…p−1 of the column-major X into a new array, or into X itself when `inPlace`. */
 export function standardise(X: Float64Array, n: number, p: number, inPlace = false): Standardised {
   const Z = inPlace ? X : new Float64Array(n * p);
@@ -58,19 +84,7 @@ export function standardise(X: Float64Array, n: number, p: number, inPlace = fal
     scale = new Float64Array(p).fill(1),
     centerOverScale = new Float64Array(p);
   if (!inPlace) Z.set(X.subarray(0, n));
-  for (let j = 1; j < p; j++) {
-    const o = j * n;
-    const { M, mean: m, sd: s, varying, scaled: u } = columnMoments(X, o, n);
-    if (M === 0) {
-      for (let i = 0; i < n; i++) Z[o + i] = 0;
-      continue;
-    }
-    center[j] = m * M;
-    scale[j] = varying ? s * M : M;
-    centerOverScale[j] = varying ? m / s : m;
-    const d = varying ? s : 1;
-    for (let i = 0; i < n; i++) Z[o + i] = (u(i) - m) / d;
-  }
+  for (let j = 1; j < p; j++) standardiseColumn(X, Z, n, j, center, scale, centerOverScale);
   return { Z, center, scale, centerOverScale };
 }
 
