@@ -82,11 +82,14 @@ describe('the large-data rule (the same for the page and npm run fit)', () => {
     expect(big.warnings.map((w) => w.code)).toEqual(['large-data-no-term-tests']);
   });
 
-  it('keeps both at 10⁵ rows × 50 design columns (the speed target) and skips profile limits at 10⁶ × 21', () => {
+  it('keeps both at 10⁵ × 50 and at 10⁶ × 20 (the speed targets) and skips profile limits at 10⁶ × 50', () => {
     const at = (n: number, p: number) => inferenceSeconds(n, p, p - 1);
     expect(at(1e5, 51).profile).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
     expect(at(1e5, 51).termTests).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
-    expect(at(1e6, 21).profile).toBeGreaterThan(INFERENCE_BUDGET_S);
+    // measured 2026-12-05 on one thread of the development machine: 3.0 s and 3.5 s
+    expect(at(1e6, 21).profile).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
+    expect(at(1e6, 21).termTests).toBeLessThanOrEqual(INFERENCE_BUDGET_S);
+    expect(at(1e6, 51).profile).toBeGreaterThan(INFERENCE_BUDGET_S);
     // Firth's passes also take X'WX and the hat values: far dearer at the same size.
     expect(inferenceSeconds(1e5, 51, 50, true).profile).toBeGreaterThan(10 * at(1e5, 51).profile);
   });

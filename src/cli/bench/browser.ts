@@ -21,8 +21,8 @@ export async function browserBench(o: {
 }): Promise<BrowserResult> {
   const how =
     'vite build + vite preview of src/cli/bench/page (real worker facade via Comlink), Chromium /usr/bin/chromium ' +
-    `headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile CIs off; ` +
-    'term tests as the size rule decides: computed at 10⁶ × 20 since 2026-12-04)';
+    `headless; ${o.n}×${o.p} CSV fetched first, then importFile + fitModel (ML, profile limits and term tests ` +
+    'asked for, as the app asks; the size rule decides: both computed at 10⁶ × 20 since 2026-12-05)';
   const base: BrowserResult = {
     n: o.n,
     p: o.p,
@@ -76,6 +76,9 @@ export async function browserBench(o: {
         (window as unknown as { runBench: (u: string, p: number) => Promise<PageResult> }).runBench('./bench.csv', p),
       [o.p] as const,
     );
+    const inference =
+      [r.profiled ? 'profile limits' : '', r.termTested ? 'term tests' : ''].filter(Boolean).join(' and ') ||
+      'Wald intervals only (the size rule skipped profile limits and term tests)';
     const threads =
       `${r.threads} thread${r.threads === 1 ? '' : 's'} for the fit's row passes ` +
       `(page ${r.isolated ? '' : 'not '}cross-origin isolated)`;
@@ -92,6 +95,7 @@ export async function browserBench(o: {
       how: `${how}; ${threads}; long-task observer verified with an 80 ms probe`,
       importSeconds: r.importSeconds,
       fitSeconds: r.fitSeconds,
+      inference,
       longestTaskMs: Math.max(0, ...r.longTasksMs),
       longTasks: r.longTasksMs.length,
     };

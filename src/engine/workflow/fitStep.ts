@@ -13,15 +13,24 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
 /**
  * The seconds profile-likelihood limits and term tests take on one thread, from their passes over the rows: every
  * limit and every term's constrained fit is solved by chord-Newton steps from the fit's information
- * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. Measured on the 2-core
- * development machine (2026-12-04, seeded 10⁵ × 50 file, one thread): 2.8 passes per limit and 3.3 per term
- * test, a pass costing about 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05)
- * plus 10⁻⁹ s per design cell. A Firth pass also takes X'WX and the hat values, about p/2 passes more.
+ * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. A pass costs about
+ * 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05) plus 10⁻⁹ s per design cell.
+ * Passes per limit fall as the rows grow, since the profile log-likelihood is closer to its quadratic: measured on
+ * the 2-core development machine on the seeded synthetic files (src/cli/bench/synth.ts), 2.8 per limit at
+ * 10⁵ × 50 (2026-12-04) and 2.0 at 10⁶ × 20 (84 points for 42 limits, 2026-12-05; 3.0 s on one thread); taken as 3
+ * up to 10⁵ rows, 2 from 10⁶, in between linear in log₁₀ n. Term tests: 3.3 passes per term at 10⁵ × 50 and 4.0 at
+ * 10⁶ × 20 (80 points and 2 information passes for 20 terms, 3.5 s on one thread; the constrained fits lie further
+ * from the estimate as the rows grow), taken as 4. A Firth pass also takes X'WX and the hat values, about p/2 passes
+ * more.
  */
 const PASS_ROW_S = 1.2e-8;
 const PASS_CELL_S = 1e-9;
-const PASSES_PER_LIMIT = 3;
-const PASSES_PER_TERM = 3.5;
+const PASSES_PER_TERM = 4;
+
+/** Passes per profile limit at n rows (see above). */
+function passesPerLimit(n: number): number {
+  return 3 - Math.min(1, Math.max(0, Math.log10(n) - 5));
+}
 
 export function inferenceSeconds(
   n: number,
@@ -30,12 +39,13 @@ export function inferenceSeconds(
   firth = false,
 ): { profile: number; termTests: number } {
   const pass = n * (PASS_ROW_S + p * PASS_CELL_S) * (firth ? 1 + p / 2 : 1);
-  return { profile: 2 * p * PASSES_PER_LIMIT * pass, termTests: terms * PASSES_PER_TERM * pass };
+  return { profile: 2 * p * passesPerLimit(n) * pass, termTests: terms * PASSES_PER_TERM * pass };
 }
 
 /**
  * Profile limits, and term tests, are computed when each takes at most this long on one thread (about 2 s each on
- * the development machine's two threads; 10⁵ rows × 50 columns: 1.9 s and 1.1 s), else skipped with a notice.
+ * the development machine's two threads; 10⁵ rows × 50 columns: 1.9 s and 1.1 s; 10⁶ × 20: 1.3 s and 1.8 s), else
+ * skipped with a notice.
  * The rule depends only on the data's size, never on the threads at hand, so every host gives the same record.
  */
 export const INFERENCE_BUDGET_S = 4;

@@ -23,6 +23,9 @@ export interface PageResult {
   /** Threads of the engine's row pool in this page (1 when the page is not cross-origin isolated). */
   threads: number;
   isolated: boolean;
+  /** Whether the record has profile-likelihood limits and term tests (the size rule may skip either). */
+  profiled: boolean;
+  termTested: boolean;
 }
 
 async function runBench(url: string, predictors: number): Promise<PageResult> {
@@ -43,7 +46,7 @@ async function runBench(url: string, predictors: number): Promise<PageResult> {
     event: '1',
     terms: Array.from({ length: predictors }, (_, j) => ({ type: 'main' as const, column: `x${j + 1}` })),
   };
-  const view = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, profile: false }, 'bench-fit');
+  const view = await api.fitModel({ spec, method: 'ml', level: 0.95, alpha: 1, profile: true }, 'bench-fit');
   const t2 = performance.now();
   await new Promise((r) => setTimeout(r, 200));
   document.getElementById('status')!.textContent = 'done';
@@ -56,6 +59,8 @@ async function runBench(url: string, predictors: number): Promise<PageResult> {
     coefficients: view.fit.coefficients.map((c) => c.estimate),
     threads: view.threads,
     isolated: crossOriginIsolated,
+    profiled: view.fit.coefficients.some((c) => c.profileLower !== null),
+    termTested: view.fit.terms.some((t) => t.lrChi2 !== null),
   };
 }
 
