@@ -418,7 +418,7 @@ export function linearPredictorFromRecipe(
       `The data give ${p} design columns but the model has ${beta.length} coefficients.`,
     );
   }
-  const eta = new Float64Array(n);
+  const eta = allocF64(n); // shared while a row pool is installed: the calibration fits read it as their offset
   if (beta[0] !== 0) for (let i = 0; i < n; i++) eta[i] += beta[0] * 1;
   const spare: Float64Array[] = [];
   const names = encodeTerms(

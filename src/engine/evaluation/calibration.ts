@@ -144,9 +144,10 @@ export function calibrationRegression(
   }
   const warnings: EngineWarning[] = [];
   const z = qnorm(1 - (1 - level) / 2);
-  const ones = new Float64Array(n).fill(1);
+  // written straight into shared memory when a row pool is installed (forPool then has nothing to copy)
+  const ones = allocF64(n).fill(1);
   const citl = fitSmallLogistic(ones, n, 1, y, w, eta);
-  const X = new Float64Array(2 * n);
+  const X = allocF64(2 * n);
   X.set(ones);
   X.set(eta, n);
   const sl = fitSmallLogistic(X, n, 2, y, w, undefined, new Float64Array([0, 1]));
