@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+  FAST_PATH_MIN_COLUMNS,
   FAST_PATH_MIN_ROWS,
   newtonLogistic,
   type LogisticProblem,
@@ -69,6 +70,14 @@ describe('newtonLogistic subsampled-Hessian start for large n', () => {
     const exact = newtonLogistic(base, { recordPath: true, exactHessian: true });
     // Exact Newton converges quadratically in a few steps; the subsampled phase takes more, cheaper ones.
     expect(fast.iterations).toBeGreaterThan(exact.iterations);
+  });
+
+  it('is not used below FAST_PATH_MIN_COLUMNS design columns: the route is exact Newton step for step', () => {
+    const narrow = simulate(n, FAST_PATH_MIN_COLUMNS - 1, 5);
+    const plain = newtonLogistic(narrow, { recordPath: true });
+    const exact = newtonLogistic(narrow, { recordPath: true, exactHessian: true });
+    expect(plain.iterations).toBe(exact.iterations);
+    expect(plain.path!.map((b) => Array.from(b))).toEqual(exact.path!.map((b) => Array.from(b)));
   });
 
   it("gives the exact-Newton β, X'WX, log-likelihood and fitted risks to 1e-10 relative (unweighted)", () => {
