@@ -6,9 +6,12 @@ import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { messagePool, type RowPool } from '../engine/numerics';
+import { messagePartReaders, type PartReaders } from '../io/parallelParse';
 
 export interface NodeRowPool {
   pool: RowPool;
+  /** The same helpers reading parts of a large delimited file (src/io/parallelParse.ts). */
+  partReaders: PartReaders;
   close(): Promise<void>;
 }
 
@@ -42,6 +45,13 @@ export async function startNodeRowPool(threads = defaultThreads()): Promise<Node
   );
   return {
     pool: messagePool(workers),
+    partReaders: messagePartReaders(
+      workers.map((w) => ({
+        postMessage: (m, transfer) => w.postMessage(m, transfer),
+        onReply: (f) => w.on('message', f),
+        busy: (on) => (on ? w.ref() : w.unref()),
+      })),
+    ),
     close: async () => {
       await Promise.all(workers.map((w) => w.terminate()));
     },

@@ -1,4 +1,4 @@
-import { readFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { FulcraError, getColumn } from '../engine/core';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
@@ -10,6 +10,7 @@ import { compareWithPredictors, type PredictorComparison } from '../engine/workf
 import { subgroupStep } from '../engine/workflow';
 import type { SubgroupPerformance } from '../engine/subgroups';
 import { importFile } from '../io/importFile';
+import { installPartReaders, PARALLEL_MIN_BYTES } from '../io/parallelParse';
 import { monitorImported } from '../io';
 import type { MonitoringRecord } from '../engine/monitoring';
 import { proposeOutcomeEvent } from '../io/outcome';
@@ -80,6 +81,15 @@ function columnOf(table: ImportResult, name: string) {
   }
 }
 
+/** The file's size in bytes (0 when it cannot be read: loadTable then says why). */
+function fileBytes(file: string): number {
+  try {
+    return statSync(file).size;
+  } catch {
+    return 0;
+  }
+}
+
 /** Builds the model specification from the arguments and the imported columns. */
 export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
   const { dataset, columns } = table;
@@ -144,14 +154,24 @@ export function buildSpec(args: FitArgs, table: ImportResult): ModelSpec {
  * `npm run fit`) hears each stage, its progress, and up front whether the fit will take minutes.
  */
 export async function runFit(args: FitArgs, argv: string[], version: string, progress?: Progress): Promise<FitRun> {
-  const table = await loadTable(args.file, args, progress);
-  // Large data: a pool of threads for the row passes, as the page starts one (the same numbers on any count).
+  // Large data: a pool of threads for the row passes, as the page starts one (the same numbers on any count); for a
+  // large file started first, so that its helpers also read parts of the file.
   const threads = args.threads ?? defaultThreads();
-  const pool = threads > 1 && table.dataset.nRows >= POOL_MIN_ROWS ? await startNodeRowPool(threads) : null;
-  if (pool) installRowPool(pool.pool);
+  const large = threads > 1 && fileBytes(args.file) >= PARALLEL_MIN_BYTES;
+  let pool = large ? await startNodeRowPool(threads) : null;
+  if (pool) installPartReaders(pool.partReaders);
   try {
+    const table = await loadTable(args.file, args, progress);
+    installPartReaders(null);
+    if (pool && table.dataset.nRows < POOL_MIN_ROWS) {
+      await pool.close();
+      pool = null;
+    }
+    if (!pool && threads > 1 && table.dataset.nRows >= POOL_MIN_ROWS) pool = await startNodeRowPool(threads);
+    if (pool) installRowPool(pool.pool);
     return await runFitOn(table, args, argv, version, progress);
   } finally {
+    installPartReaders(null);
     if (pool) {
       installRowPool(null);
       await pool.close();

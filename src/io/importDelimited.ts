@@ -7,6 +7,7 @@ import { CHUNK_BYTES, decodeChunks, detectBom, firstInvalidUtf8 } from './decode
 import { detectDecimal, detectDelimiter, detectHeader } from './detectFormat';
 import { afterChunk, checkCancelled, finishImport } from './finishImport';
 import type { ResolvedOptions } from './options';
+import { appendPart, cutPoints, partReaders } from './parallelParse';
 import { TableBuilder } from './tableBuilder';
 import type { DecimalMark, Delimiter, Encoding, ImportFormat, ImportHooks, ImportResult } from './types';
 
@@ -131,6 +132,70 @@ async function readPass(
   return tok;
 }
 
+/**
+ * The first pass in parts (parallelParse.ts) when helpers are installed and the file allows it: this thread reads
+ * the header and the first part, the helpers the others, and their rows are appended in file order. Null when the
+ * file is read on one thread instead (nothing installed, too small, no header, not cut safely, parts that do not
+ * line up, a helper that failed); invalid UTF-8 in any part throws as the one-thread pass does.
+ */
+async function readInParts(
+  bytes: Uint8Array,
+  s: Settings,
+  fatal: boolean,
+  o: ResolvedOptions,
+  hooks: ImportHooks,
+): Promise<{ tb: TableBuilder; tok: ByteTokenizer } | null> {
+  const inst = partReaders();
+  if (!inst || bytes.length < inst.minBytes || !s.header) return null;
+  if (s.encoding !== 'utf-8' && s.encoding !== 'windows-1252') return null;
+  const tb = new TableBuilder(new CellReader(s.decimal === ',', o.missingTokens), s.header, new Set(o.stripUnits));
+  const dec = new TextDecoder(s.encoding, { fatal, ignoreBOM: true });
+  const decode = (b: Uint8Array) => dec.decode(b);
+  const tok = new ByteTokenizer(bytes, s.bom, s.delimiter, decode, (r) => tb.addBytes(r, decode));
+  tb.expectedRecords = countLines(bytes, s.bom);
+  // the header: records one at a time until the first non-blank one
+  let headerStart = tok.pos;
+  while (tb.headerRow === 0 && !tok.done) {
+    headerStart = tok.pos;
+    tok.step(tok.pos + 1);
+  }
+  const cuts = tb.headerRow === 0 ? null : cutPoints(bytes, tok.pos, inst.readers.helpers + 1);
+  if (!cuts) return null;
+  const header = bytes.slice(headerStart, tok.pos);
+  const ends = [...cuts.slice(1), bytes.length];
+  const parts = cuts.map((a, k) =>
+    inst.readers.read(
+      {
+        header,
+        part: bytes.slice(a, ends[k]),
+        encoding: s.encoding,
+        delimiter: s.delimiter,
+        decimalComma: s.decimal === ',',
+        missingTokens: o.missingTokens,
+        stripUnits: o.stripUnits,
+        fatal,
+      },
+      k,
+    ),
+  );
+  const settled = Promise.allSettled(parts);
+  const end = cuts[0],
+    span = Math.max(1, end - s.bom);
+  while (tok.pos < end) {
+    tok.step(Math.min(end, tok.pos + CHUNK_BYTES));
+    await afterChunk(hooks, PASS1 * ((tok.pos - s.bom) / span), tb.records);
+  }
+  const read = await settled;
+  if (read.some((r) => r.status === 'fulfilled' && r.value.invalidUtf8)) throw new TypeError('invalid UTF-8');
+  for (const r of read) {
+    if (r.status === 'rejected' || !appendPart(tb, r.value)) return null;
+    tok.lineEnds.lf += r.value.lineEnds.lf;
+    tok.lineEnds.crlf += r.value.lineEnds.crlf;
+    tok.lineEnds.cr += r.value.lineEnds.cr;
+  }
+  return { tb, tok };
+}
+
 function tokenizerWarnings(tok: CsvTokenizer | ByteTokenizer, names: string[]): EngineWarning[] {
   const w: EngineWarning[] = [];
   const where = (i: { record: number; field: number }) =>
@@ -191,6 +256,8 @@ export async function importDelimited(
   const bomLength = bom && bom.encoding === wanted ? bom.length : 0;
   let s = settle(bytes, o, wanted, bomLength, warnings, fileName === PASTED_TEXT);
   const run = async (fatal: boolean) => {
+    const inParts = await readInParts(bytes, s, fatal, o, hooks);
+    if (inParts) return inParts;
     const tb = new TableBuilder(new CellReader(s.decimal === ',', o.missingTokens), s.header, new Set(o.stripUnits));
     const tok = await readPass(bytes, s, fatal, tb, hooks, 0, PASS1);
     return { tb, tok };

@@ -215,6 +215,11 @@ export class TableBuilder {
     this.sourceRows[this.nRows++] = row;
   }
 
+  /** Appends the spreadsheet rows of kept rows read elsewhere (parallelParse.ts), moved on by `offset`. */
+  appendRows(rows: Int32Array, offset: number): void {
+    for (let i = 0; i < rows.length; i++) this.pushRow(rows[i] + offset);
+  }
+
   /** Starts the second pass: the caller then feeds the same records again. */
   beginTextPass(columns: number[]): void {
     this.pass2 = new Map(

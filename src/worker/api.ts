@@ -9,7 +9,8 @@ import type { DemoId } from '../engine/demo';
 import type { ModelSpec } from '../engine/core';
 import type { ImportOptions } from '../io/types';
 import { missingReport } from '../engine/imputation';
-import { installRowShards, messageShards, portOf } from '../engine/numerics';
+import { installRowShards, messageShards, portOf, type ShardPort } from '../engine/numerics';
+import { installPartReaders, messagePartReaders, type PartEndpoint } from '../io/parallelParse';
 import { costView, thresholdAt } from './cutoffOps';
 import { heldCopy, loadDemo, loadHeld, loadImported } from './dataOps';
 import type { Dataset } from '../engine/core';
@@ -99,8 +100,23 @@ export function createApi(pool: Promise<number> = Promise.resolve(1), storage: K
         for (const port of ports) port.close();
         return 1;
       }
-      const shards = messageShards(ports.map(portOf));
+      // each port carries the shards' passes and the parts of a large file to read (src/io/parallelParse.ts)
+      const endpoints = ports.map((port) => {
+        const shard = portOf(port),
+          handlers: ((data: unknown) => void)[] = [];
+        shard.listen((data) => {
+          for (const h of handlers) h(data);
+        });
+        const endpoint: ShardPort & PartEndpoint = {
+          postMessage: shard.postMessage,
+          listen: (f) => void handlers.push(f),
+          onReply: (f) => void handlers.push(f),
+        };
+        return endpoint;
+      });
+      const shards = messageShards(endpoints);
       installRowShards(shards);
+      installPartReaders(messagePartReaders(endpoints));
       return shards.threads;
     },
     loadDemo: (id: DemoId) => guard(null, () => loadDemo(session, id)),

@@ -6,6 +6,7 @@
  * thread, with the same numbers. The single-file build replaces this module by a stub (vite.config.ts).
  */
 import { installRowPool, messagePool } from '../engine/numerics';
+import { installPartReaders, messagePartReaders } from '../io/parallelParse';
 
 /** Threads at most (helpers + the engine worker). */
 const MAX_THREADS = 8;
@@ -47,12 +48,22 @@ export async function startBrowserRowPool(): Promise<number> {
     });
     const helpers = await Promise.race([ready, late]).finally(() => clearTimeout(timer));
     installRowPool(messagePool(helpers));
+    // the same helpers read the parts of a large delimited file
+    installPartReaders(
+      messagePartReaders(
+        helpers.map((w) => ({
+          postMessage: (m, transfer) => w.postMessage(m, transfer),
+          onReply: (f) => w.addEventListener('message', (e) => f(e.data)),
+        })),
+      ),
+    );
     // A helper that dies (out of memory, say) ends the pool: the pass it was in fails with a message, and every
     // later fit runs on the engine worker's own thread.
     for (const w of helpers) {
       w.onerror = (e) => {
         e.preventDefault();
         installRowPool(null);
+        installPartReaders(null);
         for (const h of helpers) h.terminate();
       };
     }
