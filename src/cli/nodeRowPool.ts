@@ -50,6 +50,10 @@ export async function startNodeRowPool(threads = defaultThreads()): Promise<Node
         postMessage: (m, transfer) => w.postMessage(m, transfer),
         onReply: (f) => w.on('message', f),
         busy: (on) => (on ? w.ref() : w.unref()),
+        onFailure: (f) => {
+          w.on('error', f);
+          w.on('exit', f);
+        },
       })),
     ),
     close: async () => {

@@ -287,31 +287,50 @@ export interface PartEndpoint {
   onReply(handler: (data: unknown) => void): void;
   /** Node: keep the process alive while the helper reads a part (its worker is otherwise unref'd). */
   busy?(on: boolean): void;
+  /** Registers what to do when the helper dies: its parts in reading then fail (and the file goes to one thread). */
+  onFailure?(handler: () => void): void;
 }
+
+/** A part not answered by then fails (the file is then read on one thread): a helper that hangs must not. */
+export const PART_TIMEOUT_MS = 120_000;
 
 type PartReply = { partId: number; part?: TablePart; error?: string };
 
 /** Part readers over helpers that take messages ({partId, part: job}) and answer with answerPart. */
-export function messagePartReaders(endpoints: PartEndpoint[]): PartReaders {
-  const waiting = new Map<number, (r: PartReply) => void>();
+export function messagePartReaders(endpoints: PartEndpoint[], timeoutMs = PART_TIMEOUT_MS): PartReaders {
+  /** Parts in reading: their helper, and how to settle them. */
+  const waiting = new Map<number, { helper: number; settle: (r: PartReply) => void }>();
   let next = 0;
-  for (const e of endpoints) {
+  endpoints.forEach((e, helper) => {
     e.onReply((data) => {
       const r = data as PartReply | null;
-      if (r && typeof r === 'object' && typeof r.partId === 'number') waiting.get(r.partId)?.(r);
+      if (r && typeof r === 'object' && typeof r.partId === 'number') waiting.get(r.partId)?.settle(r);
     });
-  }
+    e.onFailure?.(() => {
+      for (const [partId, w] of [...waiting])
+        if (w.helper === helper) w.settle({ partId, error: 'the helper reading this part stopped' });
+    });
+  });
   return {
     helpers: endpoints.length,
-    read: (job, helper) =>
+    read: (job, k) =>
       new Promise<TablePart>((resolve, reject) => {
-        const e = endpoints[helper % endpoints.length],
+        const helper = k % endpoints.length,
+          e = endpoints[helper],
           partId = ++next;
-        waiting.set(partId, (r) => {
-          waiting.delete(partId);
-          e.busy?.(false);
-          if (r.part) resolve(r.part);
-          else reject(new Error(r.error ?? 'a helper could not read its part of the file'));
+        const timer = setTimeout(
+          () => waiting.get(partId)?.settle({ partId, error: `no answer from a helper in ${timeoutMs / 1000} s` }),
+          timeoutMs,
+        );
+        waiting.set(partId, {
+          helper,
+          settle: (r) => {
+            waiting.delete(partId);
+            clearTimeout(timer);
+            e.busy?.(false);
+            if (r.part) resolve(r.part);
+            else reject(new Error(r.error ?? 'a helper could not read its part of the file'));
+          },
         });
         e.busy?.(true);
         e.postMessage({ partId, part: job }, [job.part.buffer as ArrayBuffer]);

@@ -54,6 +54,7 @@ export async function startBrowserRowPool(): Promise<number> {
         helpers.map((w) => ({
           postMessage: (m, transfer) => w.postMessage(m, transfer),
           onReply: (f) => w.addEventListener('message', (e) => f(e.data)),
+          onFailure: (f) => w.addEventListener('error', f),
         })),
       ),
     );

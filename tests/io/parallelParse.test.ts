@@ -214,6 +214,27 @@ describe('part readers over messages (helpers as the page and npm run fit start 
     expect(parts).toEqual(one);
   });
 
+  it('fails the parts of a helper that stops or does not answer, and the file is read on one thread', async () => {
+    let failed: () => void = () => {};
+    const silent = (onFailure?: (f: () => void) => void) =>
+      messagePartReaders(
+        [{ postMessage: () => {}, onReply: () => {}, onFailure }],
+        onFailure ? 60_000 : 50, // the first is told the helper stopped; the second times out
+      );
+    const bytes = new TextEncoder().encode(registry(2000, 31));
+    const one = await importFile(bytes, 'r.csv', options);
+    installPartReaders(
+      silent((f) => (failed = f)),
+      1,
+    );
+    const stopped = importFile(bytes, 'r.csv', options);
+    await new Promise((r) => setTimeout(r, 20));
+    failed();
+    expect(await stopped).toEqual(one);
+    installPartReaders(silent(), 1);
+    expect(await importFile(bytes, 'r.csv', options)).toEqual(one);
+  });
+
   it('answers only part messages, and a part it cannot read with an error', () => {
     const replies: unknown[] = [];
     expect(answerPart({ job: {}, k0: 0, k1: 1 }, (r) => replies.push(r))).toBe(false);
