@@ -151,6 +151,11 @@ export class ColumnBuilder {
   }
 
   addText(s: string, row: number): void {
+    this.addLevel(this.levelCode(s), s, row);
+  }
+
+  /** The code of text level `s`, a new one (count 0) when it has not been seen. */
+  levelCode(s: string): number {
     let code = this.dict.get(s);
     if (code === undefined) {
       code = this.levels.length;
@@ -158,7 +163,16 @@ export class ColumnBuilder {
       this.levels.push(s);
       this.levelCounts.push(0);
     }
-    this.addLevel(code, s, row);
+    return code;
+  }
+
+  /** Codes for the cells so far, made when the first text cell arrives (−1 missing, −2 a number). */
+  ensureCodes(): Int32Array {
+    if (this.codes === null) {
+      this.codes = new Int32Array(this.values.length);
+      for (let i = 0; i < this.n; i++) this.codes[i] = Number.isNaN(this.values[i]) ? -1 : -2;
+    }
+    return this.codes;
   }
 
   /**
@@ -229,10 +243,7 @@ export class ColumnBuilder {
     this.levelCounts[code]++;
     this.textCount++;
     note(this.textCells, row, s);
-    if (this.codes === null) {
-      this.codes = new Int32Array(this.values.length);
-      for (let i = 0; i < this.n; i++) this.codes[i] = Number.isNaN(this.values[i]) ? -1 : -2;
-    }
+    this.ensureCodes();
     this.push(NaN, code);
   }
 

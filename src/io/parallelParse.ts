@@ -225,21 +225,12 @@ function appendColumn(b: ColumnBuilder, c: ColumnPart, offset: number): void {
     }
   }
   b.values.set(c.values, n0);
-  if (c.codes && !b.codes) {
-    // the first text cell of the column is in this part: codes for the cells before it, as addLevel makes them
-    b.codes = new Int32Array(b.values.length);
-    for (let i = 0; i < n0; i++) b.codes[i] = Number.isNaN(b.values[i]) ? -1 : -2;
-  }
+  // the first text cell of the column may be in this part: codes for the cells before it, as addLevel makes them
+  if (c.codes) b.ensureCodes();
   if (b.codes) {
     if (c.codes) {
       const map = c.levels.map((l, k) => {
-        let code = b.dict.get(l);
-        if (code === undefined) {
-          code = b.levels.length;
-          b.dict.set(l, code);
-          b.levels.push(l);
-          b.levelCounts.push(0);
-        }
+        const code = b.levelCode(l);
         b.levelCounts[code] += c.levelCounts[k];
         return code;
       });
