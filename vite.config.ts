@@ -10,6 +10,8 @@ type Target = 'served' | 'single' | 'dev';
  * Content-Security-Policy. Built app ('served', 'single'): a <meta> written at build time; nothing may be fetched
  * or sent (connect-src 'none', even to the page's own server, so a copy hosted on an intranet server cannot post
  * data back to it either), no eval, scripts only from the app's own files or, in the single file, by sha256.
+ * 'wasm-unsafe-eval' lets the engine compile its WebAssembly kernels (bytes written by src/engine/numerics/
+ * wasmSimd.ts, nothing fetched); it allows no eval of JavaScript text.
  * 'dev': sent as a header by the dev server, which needs an inline React-refresh preamble and its HMR websocket.
  * style-src keeps 'unsafe-inline': React's `style` props go through the CSSOM and need no permission, but
  * style="" attributes written as markup and the single file's inlined <style> do; CSS cannot leak anything
@@ -24,7 +26,13 @@ function policy(target: Target, scriptHashes: string[] = []): string {
     ['default-src', ["'none'"]],
     [
       'script-src',
-      [...self, ...(target === 'dev' ? ["'unsafe-inline'"] : []), ...scriptHashes.map((h) => `'sha256-${h}'`)],
+      [
+        ...self,
+        ...(target === 'dev' ? ["'unsafe-inline'"] : []),
+        // compiling WebAssembly (the row passes' SIMD kernels, built from bytes inside the bundle): not eval of text
+        "'wasm-unsafe-eval'",
+        ...scriptHashes.map((h) => `'sha256-${h}'`),
+      ],
     ],
     // blob: also for the unzipper of .xlsx files (fflate), which inflates large parts in a worker made from a blob.
     ['worker-src', [...self, 'blob:']],

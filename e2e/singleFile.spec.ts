@@ -61,7 +61,9 @@ test('is one HTML file that loads nothing but itself', () => {
     .map((m) => m[1])
     .filter((u) => !u.startsWith('data:'));
   expect(outsideOfItself).toEqual([]);
-  expect(html).toMatch(/<meta http-equiv="Content-Security-Policy" content="default-src 'none'; script-src 'sha256-/);
+  expect(html).toMatch(
+    /<meta http-equiv="Content-Security-Policy" content="default-src 'none'; script-src 'wasm-unsafe-eval' 'sha256-/,
+  );
 });
 
 test('from file:// it fits the demo in a blob worker, asking only file:/blob:/data:, logging no error', async ({

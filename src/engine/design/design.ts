@@ -4,7 +4,7 @@ import type { DesignRecipe, ModelSpec } from '../core/model';
 import { absenceLevel, parseDecimal } from './levels';
 import { rcsBasis, rcsKnots } from './splines';
 import { warning, type EngineWarning } from '../core/warnings';
-import { allocF64 } from '../numerics/rowPool';
+import { allocDesign, allocF64 } from '../numerics/rowPool';
 
 export interface EncodedDesign {
   /** Column-major n×p, intercept first. */
@@ -377,8 +377,9 @@ export function designFromRecipe(recipe: DesignRecipe, data: Dataset, opts: Reci
   const sel = recipeRows(recipe, data, opts);
   const { n } = sel;
   const p = recipeWidth(recipe);
-  // X in shared memory while a row pool is installed, so that its threads can read it; written column by column.
-  const X = opts.scratch && opts.scratch.length >= n * p ? opts.scratch.subarray(0, n * p).fill(0) : allocF64(n * p);
+  // X in shared memory while a row pool is installed, so that its threads can read it, and in a WebAssembly memory
+  // where the SIMD kernels run (allocDesign); written column by column.
+  const X = opts.scratch && opts.scratch.length >= n * p ? opts.scratch.subarray(0, n * p).fill(0) : allocDesign(n, p);
   X.fill(1, 0, n);
   let next = 1;
   const names = encodeTerms(

@@ -4,7 +4,7 @@ import { qnorm } from '../numerics/distributions';
 import { logit, RISK_CLIP, sigmoid } from '../numerics/loss';
 import { cholesky, choleskyInverse } from '../numerics/linalg';
 import { newtonLogistic } from '../fitting/newton';
-import { allocF64, POOL_MIN_ROWS, rowPoolThreads } from '../numerics/rowPool';
+import { allocDesign, allocF64, POOL_MIN_ROWS, rowPoolThreads } from '../numerics/rowPool';
 import { warning, type EngineWarning } from '../core/warnings';
 
 /** An estimate with its Wald standard error and interval. */
@@ -147,7 +147,7 @@ export function calibrationRegression(
   // written straight into shared memory when a row pool is installed (forPool then has nothing to copy)
   const ones = allocF64(n).fill(1);
   const citl = fitSmallLogistic(ones, n, 1, y, w, eta);
-  const X = allocF64(2 * n);
+  const X = allocDesign(n, 2);
   X.set(ones);
   X.set(eta, n);
   const sl = fitSmallLogistic(X, n, 2, y, w, undefined, new Float64Array([0, 1]));

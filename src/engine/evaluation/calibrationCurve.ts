@@ -5,7 +5,7 @@ import { qnorm } from '../numerics/distributions';
 import { clampRisk, logit, sigmoid } from '../numerics/loss';
 import { quantileBySelection, quantileSorted, weightedQuantile } from '../numerics/quantile';
 import { fitSmallLogistic } from './calibration';
-import { allocF64 } from '../numerics/rowPool';
+import { allocDesign } from '../numerics/rowPool';
 import { warning, type EngineWarning } from '../core/warnings';
 
 export interface CalibrationCurve {
@@ -128,7 +128,7 @@ export function calibrationCurve(
     if (knots.length < 3) knots = [];
   }
   const p = knots.length > 0 ? knots.length : 2;
-  const X = allocF64(n * p); // shared when a row pool is installed, as the fit reads it there
+  const X = allocDesign(n, p); // shared when a row pool is installed, as the fit reads it there
   const terms = new Float64Array(Math.max(0, p - 2));
   for (let i = 0; i < n; i++) {
     X[i] = 1;

@@ -3,7 +3,7 @@ import type { FitOptions, ModelSpec } from '../core/model';
 import { warning, type EngineWarning } from '../core/warnings';
 import { findAliased } from '../design/aliasing';
 import { buildDesign, type Design } from '../design/design';
-import { allocF64, standardiseInPlace } from '../numerics/rowPool';
+import { allocDesign, standardiseInPlace } from '../numerics/rowPool';
 import { checkExtremeValues } from './extremeValues';
 import type { Standardised } from '../numerics/standardise';
 import type { LogisticProblem } from './newton';
@@ -76,7 +76,7 @@ export function prepareFit(data: Dataset, spec: ModelSpec, o: FitOptions): Prepa
   const keep = ali.aliased.flatMap((a, j) => (a ? [] : [j]));
   let Zk = std.Z;
   if (keep.length < p) {
-    Zk = allocF64(n * keep.length);
+    Zk = allocDesign(n, keep.length);
     keep.forEach((j, k) => Zk.set(std.Z.subarray(j * n, (j + 1) * n), k * n));
   }
   const problem: LogisticProblem = { X: Zk, n, p: keep.length, y };

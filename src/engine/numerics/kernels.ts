@@ -176,6 +176,81 @@ export function addXtrBlock(
   }
 }
 
+/**
+ * g += X[r0..r1, ·]'r[r0..r1) as two interleaved sums per column: the block's even rows (r0, r0 + 2, …) and its odd
+ * rows, each in row order, added (even + odd) onto g[j] at the block's end. This is exactly the order of the
+ * WebAssembly SIMD kernel (wasmSimd.ts xtr: one sum per f64x2 lane, the odd last row in lane 0 with 0 in lane 1),
+ * so the logistic passes give the same bits with or without it (wasmPasses.ts). Row i of r at r[i − rOff].
+ */
+export function addXtrBlockLanes(
+  X: Float64Array,
+  n: number,
+  p: number,
+  r: Float64Array,
+  r0: number,
+  r1: number,
+  g: Float64Array,
+  rOff = 0,
+): void {
+  const e = r0 + ((r1 - r0) & ~1);
+  let j = 0;
+  for (; j + 3 < p; j += 4) {
+    const o0 = j * n,
+      o1 = o0 + n,
+      o2 = o1 + n,
+      o3 = o2 + n;
+    let s0 = 0,
+      s1 = 0,
+      s2 = 0,
+      s3 = 0,
+      t0 = 0,
+      t1 = 0,
+      t2 = 0,
+      t3 = 0;
+    for (let i = r0; i < e; i += 2) {
+      const u = r[i - rOff],
+        v = r[i + 1 - rOff];
+      s0 += X[o0 + i] * u;
+      t0 += X[o0 + i + 1] * v;
+      s1 += X[o1 + i] * u;
+      t1 += X[o1 + i + 1] * v;
+      s2 += X[o2 + i] * u;
+      t2 += X[o2 + i + 1] * v;
+      s3 += X[o3 + i] * u;
+      t3 += X[o3 + i + 1] * v;
+    }
+    if (e < r1) {
+      const u = r[e - rOff];
+      s0 += X[o0 + e] * u;
+      s1 += X[o1 + e] * u;
+      s2 += X[o2 + e] * u;
+      s3 += X[o3 + e] * u;
+      t0 += 0;
+      t1 += 0;
+      t2 += 0;
+      t3 += 0;
+    }
+    g[j] += s0 + t0;
+    g[j + 1] += s1 + t1;
+    g[j + 2] += s2 + t2;
+    g[j + 3] += s3 + t3;
+  }
+  for (; j < p; j++) {
+    const o = j * n;
+    let s = 0,
+      t = 0;
+    for (let i = r0; i < e; i += 2) {
+      s += X[o + i] * r[i - rOff];
+      t += X[o + i + 1] * r[i + 1 - rOff];
+    }
+    if (e < r1) {
+      s += X[o + e] * r[e - rOff];
+      t += 0;
+    }
+    g[j] += s + t;
+  }
+}
+
 /** g = X'r (length p) into `out`, row-blocked, four columns per pass over the block of r. */
 export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Array, out: Float64Array): Float64Array {
   const R = 2048;
@@ -246,7 +321,7 @@ export function logisticRows(
       } else if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
     }
     loss += Math.log(prod);
-    addXtrBlock(X, n, p, res, r0, r1, g, ro);
+    addXtrBlockLanes(X, n, p, res, r0, r1, g, ro);
   }
   return loss;
 }
@@ -380,7 +455,7 @@ export function logisticRowsOne(
       } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
     }
     la += Math.log(pa);
-    addXtrBlock(X, n, p, ra, r0, r1, ga, r0);
+    addXtrBlockLanes(X, n, p, ra, r0, r1, ga, r0);
   }
   loss[0] = la;
 }
@@ -432,7 +507,10 @@ function addEtaBlockPair(
   }
 }
 
-/** ga += X[r0..r1, ·]'ra and gb likewise (ra, rb block-relative), with addXtrBlock's grouping of four columns. */
+/**
+ * ga += X[r0..r1, ·]'ra and gb likewise (ra, rb block-relative): per vector exactly addXtrBlockLanes' sums (even and
+ * odd rows apart, added at the block's end), with each load of X used for both vectors.
+ */
 function addXtrBlockPair(
   X: Float64Array,
   n: number,
@@ -444,55 +522,74 @@ function addXtrBlockPair(
   ga: Float64Array,
   gb: Float64Array,
 ): void {
-  const m = r1 - r0;
+  const m = r1 - r0,
+    e = m & ~1;
   let j = 0;
-  for (; j + 3 < p; j += 4) {
+  for (; j + 1 < p; j += 2) {
     const o0 = j * n + r0,
-      o1 = o0 + n,
-      o2 = o1 + n,
-      o3 = o2 + n;
+      o1 = o0 + n;
     let s0 = 0,
       s1 = 0,
-      s2 = 0,
-      s3 = 0,
       t0 = 0,
       t1 = 0,
-      t2 = 0,
-      t3 = 0;
-    for (let i = 0; i < m; i++) {
-      const u = ra[i],
-        v = rb[i];
+      u0 = 0,
+      u1 = 0,
+      v0 = 0,
+      v1 = 0;
+    for (let i = 0; i < e; i += 2) {
+      const a0 = ra[i],
+        a1 = ra[i + 1],
+        b0 = rb[i],
+        b1 = rb[i + 1];
       const x0 = X[o0 + i],
-        x1 = X[o1 + i],
-        x2 = X[o2 + i],
-        x3 = X[o3 + i];
-      s0 += x0 * u;
-      s1 += x1 * u;
-      s2 += x2 * u;
-      s3 += x3 * u;
-      t0 += x0 * v;
-      t1 += x1 * v;
-      t2 += x2 * v;
-      t3 += x3 * v;
+        x1 = X[o0 + i + 1],
+        z0 = X[o1 + i],
+        z1 = X[o1 + i + 1];
+      s0 += x0 * a0;
+      t0 += x1 * a1;
+      s1 += z0 * a0;
+      t1 += z1 * a1;
+      u0 += x0 * b0;
+      v0 += x1 * b1;
+      u1 += z0 * b0;
+      v1 += z1 * b1;
     }
-    ga[j] += s0;
-    ga[j + 1] += s1;
-    ga[j + 2] += s2;
-    ga[j + 3] += s3;
-    gb[j] += t0;
-    gb[j + 1] += t1;
-    gb[j + 2] += t2;
-    gb[j + 3] += t3;
+    if (e < m) {
+      s0 += X[o0 + e] * ra[e];
+      s1 += X[o1 + e] * ra[e];
+      u0 += X[o0 + e] * rb[e];
+      u1 += X[o1 + e] * rb[e];
+      t0 += 0;
+      t1 += 0;
+      v0 += 0;
+      v1 += 0;
+    }
+    ga[j] += s0 + t0;
+    ga[j + 1] += s1 + t1;
+    gb[j] += u0 + v0;
+    gb[j + 1] += u1 + v1;
   }
   for (; j < p; j++) {
     const o = j * n + r0;
     let s = 0,
-      t = 0;
-    for (let i = 0; i < m; i++) {
-      s += X[o + i] * ra[i];
-      t += X[o + i] * rb[i];
+      t = 0,
+      u = 0,
+      v = 0;
+    for (let i = 0; i < e; i += 2) {
+      const x0 = X[o + i],
+        x1 = X[o + i + 1];
+      s += x0 * ra[i];
+      t += x1 * ra[i + 1];
+      u += x0 * rb[i];
+      v += x1 * rb[i + 1];
     }
-    ga[j] += s;
-    gb[j] += t;
+    if (e < m) {
+      s += X[o + e] * ra[e];
+      u += X[o + e] * rb[e];
+      t += 0;
+      v += 0;
+    }
+    ga[j] += s + t;
+    gb[j] += u + v;
   }
 }

@@ -15,6 +15,7 @@ import { FulcraError } from '../core/data';
 import { influenceRows, type InfluenceBlock } from './influenceKernel';
 import { accumulateXtWX, logisticRows, logisticRowsOne, logisticRowsPair, ROW_BLOCK } from './kernels';
 import { standardise, standardiseColumn, type Standardised } from './standardise';
+import { createWasmDesign, wasmLogisticRows, wasmLogisticRowsMany, wasmUsable, type WasmLayout } from './wasmPasses';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
 const BLOCK_GROUPS = 4;
@@ -74,6 +75,8 @@ export interface RowJob {
   moments?: Float64Array;
   /** Shared Int32Array(2): helpers that finished, and helpers that failed. */
   done: Int32Array;
+  /** X's WebAssembly memory when it has one (allocDesign): the logistic passes then use the SIMD kernels. */
+  wasm?: WasmLayout;
 }
 
 /** The kernel work of chunks [k0, k1) of a job (on whichever thread runs them). */
@@ -82,8 +85,11 @@ export function runChunks(
   k0: number,
   k1: number,
   work: Float64Array = new Float64Array(ROW_BLOCK * job.p),
+  slot = 0,
 ): void {
   const { X, n, p, chunkRows } = job;
+  // The SIMD kernels when X lives in a WebAssembly memory with a scratch slot for this thread: the same bits.
+  const L = wasmUsable(job.wasm, slot) ? job.wasm : null;
   if (job.op === 'standardise') {
     const M = job.moments!;
     const [center, scale, cos] = [0, 1, 2].map((q) => M.subarray(q * p, (q + 1) * p));
@@ -114,43 +120,55 @@ export function runChunks(
       for (let q = 0; q < m; q += 2) {
         if (q === m - 1) {
           // an odd last vector alone (the same bits as in a pair, half the work)
-          logisticRowsOne(
-            X,
-            n,
-            p,
-            job.y!,
-            B.subarray(q * p, (q + 1) * p),
-            job.c,
-            job.offset,
-            job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
-            loss,
-            a,
-            b,
-          );
+          const gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p);
+          if (L)
+            wasmLogisticRowsMany(
+              L,
+              slot,
+              job.y!,
+              B.subarray(q * p, (q + 1) * p),
+              null,
+              job.c,
+              job.offset,
+              gq,
+              null,
+              loss,
+              a,
+              b,
+            );
+          else logisticRowsOne(X, n, p, job.y!, B.subarray(q * p, (q + 1) * p), job.c, job.offset, gq, loss, a, b);
           job.partLoss[k * m + q] = loss[0];
           continue;
         }
         const r = q + 1,
           gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
           gr = job.partG.subarray((k * m + r) * p, (k * m + r + 1) * p);
-        logisticRowsPair(
-          X,
-          n,
-          p,
-          job.y!,
-          B.subarray(q * p, (q + 1) * p),
-          B.subarray(r * p, (r + 1) * p),
-          job.c,
-          job.offset,
-          gq,
-          gr,
-          loss,
-          a,
-          b,
-        );
+        if (L) {
+          const ba = B.subarray(q * p, (q + 1) * p),
+            bb = B.subarray(r * p, (r + 1) * p);
+          wasmLogisticRowsMany(L, slot, job.y!, ba, bb, job.c, job.offset, gq, gr, loss, a, b);
+        } else
+          logisticRowsPair(
+            X,
+            n,
+            p,
+            job.y!,
+            B.subarray(q * p, (q + 1) * p),
+            B.subarray(r * p, (r + 1) * p),
+            job.c,
+            job.offset,
+            gq,
+            gr,
+            loss,
+            a,
+            b,
+          );
         job.partLoss[k * m + q] = loss[0];
         job.partLoss[k * m + r] = loss[1];
       }
+    } else if (job.op === 'logistic' && L) {
+      const gk = job.partG.subarray(k * p, (k + 1) * p);
+      job.partLoss[k] = wasmLogisticRows(L, slot, job.y!, job.beta!, job.c, job.offset, job.eta!, job.w!, gk, a, b);
     } else if (job.op === 'logistic') {
       job.partLoss[k] = logisticRows(
         X,
@@ -208,6 +226,41 @@ const f64 = (length: number, shared: boolean): Float64Array =>
 /** A zeroed Float64Array, in shared memory while a pool is installed (so that the pool can read it). */
 export function allocF64(length: number): Float64Array {
   return f64(length, installed !== null);
+}
+
+/** Designs placed in a WebAssembly memory (allocDesign), by their buffer. */
+const designs = new WeakMap<ArrayBufferLike, WasmLayout>();
+let wasmWanted = true;
+/** Rows from which a design goes into a WebAssembly memory (below, a pass takes microseconds either way). */
+export const WASM_MIN_ROWS = 2_048;
+
+/** Whether allocDesign may use WebAssembly memory (tests and the bench compare the two; the numbers are the same). */
+export function setWasmPasses(on: boolean): void {
+  wasmWanted = on;
+}
+
+/**
+ * A zeroed column-major n×p design for row passes: in a WebAssembly memory with a scratch slot per pool thread when
+ * the SIMD kernels can run here (wasmPasses.ts; shared while a pool is installed), else as allocF64. Either way the
+ * passes give the same bits; only their speed differs.
+ */
+export function allocDesign(n: number, p: number): Float64Array {
+  if (wasmWanted && n >= WASM_MIN_ROWS) {
+    const shared = installed !== null && sharedMemory();
+    const L = createWasmDesign(n, p, shared, shared ? installed!.threads : 1);
+    if (L) {
+      const X = new Float64Array(L.memory.buffer, 0, n * p);
+      designs.set(X.buffer, L);
+      return X;
+    }
+  }
+  return allocF64(n * p);
+}
+
+/** The WebAssembly layout of a design from allocDesign (X the whole design, as allocDesign gave it). */
+export function wasmLayoutOf(X: Float64Array, n: number, p: number): WasmLayout | undefined {
+  const L = designs.get(X.buffer);
+  return L && X.byteOffset === 0 && L.n === n && L.p === p ? L : undefined;
 }
 
 /** A zeroed Int32Array, in shared memory while a pool is installed. */
@@ -288,6 +341,7 @@ export function createRowPasses(
   let partH: Float64Array | null = null;
   const done = new Int32Array(pool ? new SharedArrayBuffer(8) : new ArrayBuffer(8));
   const work = new Float64Array(ROW_BLOCK * p);
+  const wasm = wasmLayoutOf(X, n, p);
   /** Runs `chunks` chunks of the job, on the pool when every array it touches is shared. */
   const exec = (job: RowJob, chunks: number, shared: boolean): void => {
     if (pool && shared) pool.run(job, chunks, work);
@@ -321,6 +375,7 @@ export function createRowPasses(
           partLoss,
           partG,
           done,
+          wasm,
         },
         K,
         isShared(eta) && isShared(w),
@@ -342,7 +397,7 @@ export function createRowPasses(
         b = alloc(m * p);
       b.set(betas.subarray(0, m * p));
       exec(
-        { op: 'logisticMany', X, n, p, chunkRows, y, c, offset, betas: b, m, partLoss: pl, partG: pg, done },
+        { op: 'logisticMany', X, n, p, chunkRows, y, c, offset, betas: b, m, partLoss: pl, partG: pg, done, wasm },
         K,
         true,
       );
@@ -413,11 +468,14 @@ export function sumVectorParts(
 }
 
 /** What a helper does with one message: its chunks of the job, then the count and a wake-up for the caller. */
-export function helperRun(msg: { job: RowJob; k0: number; k1: number }, work: { buf?: Float64Array }): void {
+export function helperRun(
+  msg: { job: RowJob; k0: number; k1: number; slot?: number },
+  work: { buf?: Float64Array },
+): void {
   const need = ROW_BLOCK * msg.job.p;
   if (!work.buf || work.buf.length < need) work.buf = new Float64Array(need);
   try {
-    runChunks(msg.job, msg.k0, msg.k1, work.buf);
+    runChunks(msg.job, msg.k0, msg.k1, work.buf, msg.slot ?? 0);
   } catch {
     Atomics.add(msg.job.done, 1, 1);
   } finally {
@@ -439,7 +497,7 @@ export function messagePool(helpers: { postMessage(m: unknown): void }[]): RowPo
       Atomics.store(job.done, 1, 0);
       helpers.forEach((h, i) => {
         const [k0, k1] = chunkRange(chunks, threads, i + 1);
-        h.postMessage({ job, k0, k1 });
+        h.postMessage({ job, k0, k1, slot: i + 1 });
       });
       const [k0, k1] = chunkRange(chunks, threads, 0);
       runChunks(job, k0, k1, work);

@@ -12,7 +12,16 @@
  * (chordSolve.ts runChordSolversAsync, through fitAsync). Everything else runs on the caller's thread.
  */
 import { FulcraError } from '../core/data';
-import { CHUNK_ROWS, chunkRange, POOL_MIN_ROWS, runChunks, sumVectorParts, type RowJob } from './rowPool';
+import {
+  allocDesign,
+  CHUNK_ROWS,
+  chunkRange,
+  POOL_MIN_ROWS,
+  runChunks,
+  sumVectorParts,
+  wasmLayoutOf,
+  type RowJob,
+} from './rowPool';
 import { ROW_BLOCK } from './kernels';
 
 /** One helper as the caller sees it (a MessagePort connected to a worker: portOf). */
@@ -72,6 +81,14 @@ export function shardHelper(post: (reply: Reply, transfer: Transferable[]) => vo
     const msg = message as LoadMessage | PassMessage | AddMessage | { type: 'drop' };
     if (msg.type === 'load' || msg.type === 'drop') {
       held = msg.type === 'load' ? msg : null;
+      if (held) {
+        // The rows into a WebAssembly memory where the SIMD kernels can run (the same bits as without).
+        const X = allocDesign(held.rows, held.p);
+        if (wasmLayoutOf(X, held.rows, held.p)) {
+          X.set(held.X.subarray(0, held.rows * held.p));
+          held = { ...held, X };
+        }
+      }
       return;
     }
     if (msg.type === 'add') {
@@ -101,6 +118,7 @@ export function shardHelper(post: (reply: Reply, transfer: Transferable[]) => vo
         partLoss: new Float64Array(chunks * m),
         partG: new Float64Array(chunks * m * p),
         done: new Int32Array(2),
+        wasm: wasmLayoutOf(held.X, held.rows, p),
       };
       runChunks(job, 0, chunks, new Float64Array(ROW_BLOCK * p));
       post({ type: 'pass', pass: msg.pass, partLoss: job.partLoss, partG: job.partG }, [
@@ -283,6 +301,7 @@ export function messageShards(ports: ShardPort[]): RowShards {
           partLoss,
           partG,
           done: new Int32Array(2),
+          wasm: wasmLayoutOf(X, n, p),
         },
         k0,
         k1,

@@ -135,7 +135,10 @@ const pairs = (o: number, m8: number, e8: number, body: (load: typeof vload) => 
   ...when(ltU(get(e8), get(m8)), [...set(o, get(e8)), ...body(vload0)]),
 ];
 
-/** xbeta(X, n8, p, beta, eta, a, b): eta[a..b) = Xβ (n8 = 8n, addresses in bytes). */
+/**
+ * xbeta(X, n8, p, beta, eta, a, b): eta[a..b) += Xβ (n8 = 8n, addresses in bytes); the caller sets eta first (0, or
+ * the offset), as kernels.ts does.
+ */
 function xbetaFunc(): Code {
   const f = new Func(7);
   const [X, n8, p, beta, eta, a, b] = [0, 1, 2, 3, 4, 5, 6];
@@ -164,7 +167,6 @@ function xbetaFunc(): Code {
   return f.encode(
     blocks(f, a, b, ETA_ROWS, (r0, m8, e8) => [
       ...set(eb, add(get(eta), shl(get(r0), int(3)))),
-      ...forUp(o, int(0), get(m8), int(8), fstore(at(eb), [0x44, 0, 0, 0, 0, 0, 0, 0, 0])),
       ...set(xb, add(get(X), shl(get(r0), int(3)))),
       ...set(j, int(0)),
       ...whileDo(leU(add(get(j), int(4)), get(p)), columns(4, m8, e8)),
@@ -290,22 +292,32 @@ function xtwxFunc(): Code {
   );
 }
 
-/** The module: memory imported as env.memory; exports xbeta, xtr, xtwx (all parameters i32). */
-export function wasmRowKernelBytes(): Uint8Array<ArrayBuffer> {
+/**
+ * The module: memory imported as env.memory; exports xbeta, xtr, xtwx (all parameters i32). `shared`: the import is
+ * a shared memory (limits 1 … 65 536 pages), as a row pool's threads instantiate it on one memory; a module can only
+ * import the kind of memory it declares.
+ */
+export function wasmRowKernelBytes(shared = false): Uint8Array<ArrayBuffer> {
   const fns = [xbetaFunc(), xtrFunc(), xtwxFunc()];
   const sig = (k: number): Code => [0x60, ...vec(new Array<Code>(k).fill([I32])), 0];
   return Uint8Array.from([
     ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
     ...section(1, vec([sig(7), sig(8)])),
-    ...section(2, vec([[...name('env'), ...name('memory'), 0x02, 0x00, 1]])),
+    ...section(
+      2,
+      vec([[...name('env'), ...name('memory'), 0x02, ...(shared ? [0x03, 1, ...uleb128(65536)] : [0x00, 1])]]),
+    ),
     ...section(3, vec([[0], [0], [1]])),
     ...section(7, vec(['xbeta', 'xtr', 'xtwx'].map((s, i) => [...name(s), 0x00, i]))),
     ...section(10, vec(fns)),
   ]);
 }
 
-let compiled: WebAssembly.Module | null = null;
-const moduleOnce = (): WebAssembly.Module => (compiled ??= new WebAssembly.Module(wasmRowKernelBytes()));
+const compiled: (WebAssembly.Module | null)[] = [null, null];
+/** The compiled module (compiled once per thread and kind of memory). */
+export const wasmRowModule = (shared = false): WebAssembly.Module =>
+  (compiled[+shared] ??= new WebAssembly.Module(wasmRowKernelBytes(shared)));
+const moduleOnce = (): WebAssembly.Module => wasmRowModule(false);
 
 /** Whether this JavaScript engine compiles the module (WebAssembly with SIMD). */
 export function wasmSimdSupported(): boolean {
@@ -377,6 +389,7 @@ export function createWasmRowKernels(Xsrc: Float64Array, n: number, p: number): 
     xbeta(bv, a = 0, b = n) {
       range(a, b);
       for (let j = 0; j < p; j++) beta[j] = bv[j];
+      eta.fill(0, a, b);
       ex.xbeta(oX, n8, p, oBeta, oEta, a, b);
       return eta;
     },

@@ -1,0 +1,267 @@
+/**
+ * The logistic row passes of kernels.ts (logisticRows, logisticRowsPair, logisticRowsOne) with Xβ and X'r done by
+ * the WebAssembly SIMD kernels of wasmSimd.ts, for a design that lives in a WebAssembly memory (rowPool.ts
+ * allocDesign). The row maths between the two (e^−|η|, μ, residuals, weights, loss) is the same JavaScript in the
+ * same order, Xβ adds the columns in kernels.ts's order, and X'r keeps even and odd rows apart as kernels.ts
+ * addXtrBlockLanes does, so every loss, score, η and weight is bit-for-bit what kernels.ts gives: the kernels change
+ * the speed only (tests/engine/wasmPasses.test.ts). A host without WebAssembly SIMD, or whose policy forbids
+ * compiling it, gets plain arrays and kernels.ts, with the same numbers.
+ *
+ * Memory: the design X (column-major n×p) at byte 0, then one scratch slot per thread (512-row blocks of η and
+ * residuals for two vectors, two coefficient vectors and two scores). A row pool's threads instantiate the module on
+ * the same shared memory and each works in its own slot (its index in the pool).
+ */
+import { wasmRowModule } from './wasmSimd';
+
+/** Rows per block, as kernels.ts's logistic passes. */
+const R = 512;
+
+/** A design in a WebAssembly memory, as it travels with a row pool's job (the memory is shared then). */
+export interface WasmLayout {
+  memory: WebAssembly.Memory;
+  shared: boolean;
+  /** Tells the designs apart in a thread's cache of instances. */
+  id: number;
+  n: number;
+  p: number;
+  /** Byte offset of slot 0 and bytes per slot. */
+  scratch: number;
+  slotBytes: number;
+  slots: number;
+}
+
+type Exports = { xbeta: (...a: number[]) => void; xtr: (...a: number[]) => void };
+interface Instance {
+  id: number;
+  ex: Exports;
+  heap: Float64Array;
+}
+
+let support: boolean | null = null;
+
+/** Whether this thread can compile the kernels (WebAssembly SIMD, and a policy that allows WebAssembly). */
+export function wasmPassesSupported(): boolean {
+  if (support === null) {
+    try {
+      support = typeof WebAssembly === 'object' && wasmRowModule(false) instanceof WebAssembly.Module;
+    } catch {
+      support = false;
+    }
+  }
+  return support;
+}
+
+const pad16 = (bytes: number) => Math.ceil(bytes / 16) * 16;
+const slotBytesOf = (p: number) => 4 * R * 8 + 4 * pad16(8 * p);
+
+/** Largest design placed in a WebAssembly memory: addresses stay below 2³¹ (the kernels' i32 arithmetic). */
+const MAX_BYTES = 2 ** 31 - 65536;
+
+/**
+ * A zeroed n×p design in a new WebAssembly memory with `slots` scratch slots (shared: for a row pool's threads),
+ * or null when it cannot be had (no SIMD, too large, the engine refuses the memory).
+ */
+export function createWasmDesign(n: number, p: number, shared: boolean, slots: number): WasmLayout | null {
+  if (!wasmPassesSupported() || n < 1 || p < 1 || 8 * n > MAX_BYTES) return null;
+  const scratch = pad16(8 * n * p),
+    slotBytes = slotBytesOf(p);
+  const bytes = scratch + slots * slotBytes;
+  if (bytes > MAX_BYTES) return null;
+  const pages = Math.ceil(bytes / 65536);
+  try {
+    const memory = shared
+      ? new WebAssembly.Memory({ initial: pages, maximum: pages, shared: true })
+      : new WebAssembly.Memory({ initial: pages });
+    const L: WasmLayout = { memory, shared, id: Math.random(), n, p, scratch, slotBytes, slots };
+    instanceFor(L);
+    return L;
+  } catch {
+    // Out of address space for another memory, or shared memory not allowed here: plain arrays instead.
+    return null;
+  }
+}
+
+/** This thread's instances of the last few designs it worked on (older ones are let go with their memory). */
+const cache: Instance[] = [];
+const CACHE = 3;
+
+function instanceFor(L: WasmLayout): Instance {
+  const k = cache.findIndex((c) => c.id === L.id);
+  if (k >= 0) return cache[k];
+  const inst = new WebAssembly.Instance(wasmRowModule(L.shared), { env: { memory: L.memory } });
+  const c: Instance = {
+    id: L.id,
+    ex: inst.exports as unknown as Exports,
+    heap: new Float64Array(L.memory.buffer),
+  };
+  cache.unshift(c);
+  if (cache.length > CACHE) cache.length = CACHE;
+  return c;
+}
+
+/** The slot's arrays as views (f64 indices into the heap) and byte offsets. */
+function slotOf(L: WasmLayout, slot: number) {
+  const base = L.scratch + slot * L.slotBytes,
+    vb = pad16(8 * L.p);
+  const bytes = {
+    ea: base,
+    eb: base + R * 8,
+    ra: base + 2 * R * 8,
+    rb: base + 3 * R * 8,
+    ba: base + 4 * R * 8,
+    bb: base + 4 * R * 8 + vb,
+    ga: base + 4 * R * 8 + 2 * vb,
+    gb: base + 4 * R * 8 + 3 * vb,
+  };
+  return bytes;
+}
+
+/**
+ * kernels.ts logisticRows over rows [rowStart, rowEnd) in `slot`: fills eta and w there, g (cleared first) with
+ * X'r, returns the loss. Same bits.
+ */
+export function wasmLogisticRows(
+  L: WasmLayout,
+  slot: number,
+  y: Float64Array,
+  beta: ArrayLike<number>,
+  c: Float64Array | undefined,
+  offset: Float64Array | undefined,
+  eta: Float64Array,
+  w: Float64Array,
+  g: Float64Array,
+  rowStart: number,
+  rowEnd: number,
+): number {
+  const { n, p } = L;
+  const { ex, heap } = instanceFor(L);
+  const s = slotOf(L, slot);
+  const e0 = s.ea / 8,
+    r0f = s.ra / 8,
+    g0 = s.ga / 8;
+  for (let j = 0; j < p; j++) heap[s.ba / 8 + j] = beta[j];
+  heap.fill(0, g0, g0 + p);
+  let loss = 0;
+  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
+    const r1 = Math.min(rowEnd, r0 + R),
+      m = r1 - r0;
+    if (offset) for (let i = 0; i < m; i++) heap[e0 + i] = offset[r0 + i];
+    else heap.fill(0, e0, e0 + m);
+    ex.xbeta(r0 * 8, n * 8, p, s.ba, s.ea, 0, m);
+    let prod = 1;
+    for (let i = 0; i < m; i++) {
+      const t = heap[e0 + i],
+        a = Math.exp(-Math.abs(t)),
+        yi = y[r0 + i],
+        ci = c ? c[r0 + i] : 1;
+      eta[r0 + i] = t;
+      const e = 1 + a,
+        d = 1 / e;
+      const mu = t >= 0 ? d : a * d,
+        mc = t >= 0 ? a * d : d;
+      w[r0 + i] = ci * mu * mc;
+      heap[r0f + i] = ci * (yi === 1 ? mc : yi - mu);
+      if (ci === 1) {
+        prod *= e;
+        loss += t > 0 ? (1 - yi) * t : -yi * t;
+      } else if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+    }
+    loss += Math.log(prod);
+    ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m, s.ga);
+  }
+  for (let j = 0; j < p; j++) g[j] = heap[g0 + j];
+  return loss;
+}
+
+/**
+ * kernels.ts logisticRowsPair (bb given) or logisticRowsOne (bb null) over rows [rowStart, rowEnd) in `slot`: the
+ * losses into loss[0] (and loss[1]), the scores into ga (and gb), cleared first. Same bits.
+ */
+export function wasmLogisticRowsMany(
+  L: WasmLayout,
+  slot: number,
+  y: Float64Array,
+  ba: ArrayLike<number>,
+  bb: ArrayLike<number> | null,
+  c: Float64Array | undefined,
+  offset: Float64Array | undefined,
+  ga: Float64Array,
+  gb: Float64Array | null,
+  loss: Float64Array,
+  rowStart: number,
+  rowEnd: number,
+): void {
+  const { n, p } = L;
+  const { ex, heap } = instanceFor(L);
+  const s = slotOf(L, slot);
+  const ea = s.ea / 8,
+    eb = s.eb / 8,
+    ra = s.ra / 8,
+    rb = s.rb / 8;
+  for (let j = 0; j < p; j++) heap[s.ba / 8 + j] = ba[j];
+  if (bb) for (let j = 0; j < p; j++) heap[s.bb / 8 + j] = bb[j];
+  heap.fill(0, s.ga / 8, s.ga / 8 + p);
+  heap.fill(0, s.gb / 8, s.gb / 8 + p);
+  let la = 0,
+    lb = 0;
+  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
+    const r1 = Math.min(rowEnd, r0 + R),
+      m = r1 - r0;
+    if (offset)
+      for (let i = 0; i < m; i++) {
+        heap[ea + i] = offset[r0 + i];
+        if (bb) heap[eb + i] = offset[r0 + i];
+      }
+    else {
+      heap.fill(0, ea, ea + m);
+      if (bb) heap.fill(0, eb, eb + m);
+    }
+    ex.xbeta(r0 * 8, n * 8, p, s.ba, s.ea, 0, m);
+    if (bb) ex.xbeta(r0 * 8, n * 8, p, s.bb, s.eb, 0, m);
+    let pa = 1,
+      pb = 1;
+    for (let i = 0; i < m; i++) {
+      const yi = y[r0 + i],
+        ci = c ? c[r0 + i] : 1;
+      {
+        const t = heap[ea + i],
+          a = Math.exp(-Math.abs(t));
+        const e = 1 + a,
+          d = 1 / e;
+        const mu = t >= 0 ? d : a * d,
+          mc = t >= 0 ? a * d : d;
+        heap[ra + i] = ci * (yi === 1 ? mc : yi - mu);
+        if (ci === 1) {
+          pa *= e;
+          la += t > 0 ? (1 - yi) * t : -yi * t;
+        } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+      }
+      if (bb) {
+        const t = heap[eb + i],
+          a = Math.exp(-Math.abs(t));
+        const e = 1 + a,
+          d = 1 / e;
+        const mu = t >= 0 ? d : a * d,
+          mc = t >= 0 ? a * d : d;
+        heap[rb + i] = ci * (yi === 1 ? mc : yi - mu);
+        if (ci === 1) {
+          pb *= e;
+          lb += t > 0 ? (1 - yi) * t : -yi * t;
+        } else if (ci !== 0) lb += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+      }
+    }
+    la += Math.log(pa);
+    if (bb) lb += Math.log(pb);
+    ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m, s.ga);
+    if (bb) ex.xtr(r0 * 8, n * 8, p, s.rb, 0, m, s.gb);
+  }
+  for (let j = 0; j < p; j++) ga[j] = heap[s.ga / 8 + j];
+  if (gb) for (let j = 0; j < p; j++) gb[j] = heap[s.gb / 8 + j];
+  loss[0] = la;
+  if (bb) loss[1] = lb;
+}
+
+/** A thread's use of a design: the layout when this thread has a slot in it. */
+export function wasmUsable(L: WasmLayout | undefined, slot: number): L is WasmLayout {
+  return L !== undefined && slot < L.slots && wasmPassesSupported();
+}
