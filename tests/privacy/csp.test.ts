@@ -93,7 +93,8 @@ describe('served build (npm run build)', () => {
     expect(metas[0].index).toBeLessThan(html.search(/<script|<link rel="stylesheet"/));
     const d = directives(metas[0].policy);
     expectNoNetworkAndNoEval(d);
-    expect(d.get('script-src')).toEqual(["'self'"]);
+    // 'wasm-unsafe-eval': the engine compiles its own WebAssembly kernels (wasmSimd.ts bytes); no eval of text
+    expect(d.get('script-src')).toEqual(["'self'", "'wasm-unsafe-eval'"]);
     expect(d.get('worker-src')).toEqual(["'self'", 'blob:']);
     expect(d.get('img-src')).toEqual(["'self'", 'data:', 'blob:']);
     expect(d.get('font-src')).toEqual(["'self'", 'data:']);
@@ -146,7 +147,7 @@ describe('single-file build (npm run build:single)', () => {
     const scripts = [...html.matchAll(/<script\b[^>]*>([\s\S]*?)<\/script>/gi)].map((m) => m[1]);
     expect(scripts.length).toBeGreaterThanOrEqual(1);
     const hashes = scripts.map((s) => `'sha256-${createHash('sha256').update(s, 'utf8').digest('base64')}'`);
-    expect([...d.get('script-src')!].sort()).toEqual([...hashes].sort());
+    expect([...d.get('script-src')!].sort()).toEqual([...hashes, "'wasm-unsafe-eval'"].sort());
     expect(d.get('worker-src')).toEqual(['blob:']);
     expect(d.get('img-src')).toEqual(['data:', 'blob:']);
     expect(d.get('font-src')).toEqual(['data:']);
@@ -180,7 +181,7 @@ describe('servers (vite.config.ts)', () => {
     expect(d.get('default-src')).toEqual(["'none'"]);
     expect(d.get('connect-src')).toEqual(["'self'"]);
     // The dev server's React-refresh preamble is an inline script; the built app needs no inline permission.
-    expect(d.get('script-src')).toEqual(["'self'", "'unsafe-inline'"]);
+    expect(d.get('script-src')).toEqual(["'self'", "'unsafe-inline'", "'wasm-unsafe-eval'"]);
     for (const [name, sources] of d) expect(sources, name).not.toContain("'unsafe-eval'");
   });
 

@@ -32,6 +32,9 @@ export function accumulateXtWX(
         ob = j * R;
       for (let i = 0; i < m; i++) work[ob + i] = w[r0 + i] * X[o + i];
     }
+    // Every sum keeps the block's even rows and its odd rows apart and adds (even + odd) at the block's end: the
+    // order of the WebAssembly SIMD kernel (wasmSimd.ts xtwx, one sum per f64x2 lane), so both give the same bits.
+    const e = m & ~1;
     let j = 0;
     for (; j + 1 < p; j += 2) {
       const a0 = j * R,
@@ -49,10 +52,20 @@ export function accumulateXtWX(
           s10 = 0,
           s11 = 0,
           s12 = 0,
-          s13 = 0;
-        for (let i = 0; i < m; i++) {
+          s13 = 0,
+          t00 = 0,
+          t01 = 0,
+          t02 = 0,
+          t03 = 0,
+          t10 = 0,
+          t11 = 0,
+          t12 = 0,
+          t13 = 0;
+        for (let i = 0; i < e; i += 2) {
           const u = work[a0 + i],
-            v = work[a1 + i];
+            v = work[a1 + i],
+            uo = work[a0 + i + 1],
+            vo = work[a1 + i + 1];
           const b0 = X[x0 + i],
             b1 = X[x1 + i],
             b2 = X[x2 + i],
@@ -65,37 +78,89 @@ export function accumulateXtWX(
           s11 += v * b1;
           s12 += v * b2;
           s13 += v * b3;
+          const c0 = X[x0 + i + 1],
+            c1 = X[x1 + i + 1],
+            c2 = X[x2 + i + 1],
+            c3 = X[x3 + i + 1];
+          t00 += uo * c0;
+          t01 += uo * c1;
+          t02 += uo * c2;
+          t03 += uo * c3;
+          t10 += vo * c0;
+          t11 += vo * c1;
+          t12 += vo * c2;
+          t13 += vo * c3;
+        }
+        if (e < m) {
+          const u = work[a0 + e],
+            v = work[a1 + e];
+          s00 += u * X[x0 + e];
+          s01 += u * X[x1 + e];
+          s02 += u * X[x2 + e];
+          s03 += u * X[x3 + e];
+          s10 += v * X[x0 + e];
+          s11 += v * X[x1 + e];
+          s12 += v * X[x2 + e];
+          s13 += v * X[x3 + e];
+          t00 += 0;
+          t01 += 0;
+          t02 += 0;
+          t03 += 0;
+          t10 += 0;
+          t11 += 0;
+          t12 += 0;
+          t13 += 0;
         }
         const c0 = j * p + k,
           c1 = c0 + p;
-        acc[c0] += s00;
-        acc[c0 + 1] += s01;
-        acc[c0 + 2] += s02;
-        acc[c0 + 3] += s03;
-        acc[c1] += s10;
-        acc[c1 + 1] += s11;
-        acc[c1 + 2] += s12;
-        acc[c1 + 3] += s13;
+        acc[c0] += s00 + t00;
+        acc[c0 + 1] += s01 + t01;
+        acc[c0 + 2] += s02 + t02;
+        acc[c0 + 3] += s03 + t03;
+        acc[c1] += s10 + t10;
+        acc[c1 + 1] += s11 + t11;
+        acc[c1 + 2] += s12 + t12;
+        acc[c1 + 3] += s13 + t13;
       }
       for (; k < p; k++) {
         const x0 = k * n + r0;
         let s0 = 0,
-          s1 = 0;
-        for (let i = 0; i < m; i++) {
-          const b = X[x0 + i];
+          s1 = 0,
+          t0 = 0,
+          t1 = 0;
+        for (let i = 0; i < e; i += 2) {
+          const b = X[x0 + i],
+            c = X[x0 + i + 1];
           s0 += work[a0 + i] * b;
           s1 += work[a1 + i] * b;
+          t0 += work[a0 + i + 1] * c;
+          t1 += work[a1 + i + 1] * c;
         }
-        acc[j * p + k] += s0;
-        acc[(j + 1) * p + k] += s1;
+        if (e < m) {
+          const b = X[x0 + e];
+          s0 += work[a0 + e] * b;
+          s1 += work[a1 + e] * b;
+          t0 += 0;
+          t1 += 0;
+        }
+        acc[j * p + k] += s0 + t0;
+        acc[(j + 1) * p + k] += s1 + t1;
       }
     }
     if (j < p) {
       const a0 = j * R,
         x0 = j * n + r0;
-      let s = 0;
-      for (let i = 0; i < m; i++) s += work[a0 + i] * X[x0 + i];
-      acc[j * p + j] += s;
+      let s = 0,
+        t = 0;
+      for (let i = 0; i < e; i += 2) {
+        s += work[a0 + i] * X[x0 + i];
+        t += work[a0 + i + 1] * X[x0 + i + 1];
+      }
+      if (e < m) {
+        s += work[a0 + e] * X[x0 + e];
+        t += 0;
+      }
+      acc[j * p + j] += s + t;
     }
   }
   for (let j = 0; j < p; j++) {

@@ -15,7 +15,15 @@ import { FulcraError } from '../core/data';
 import { influenceRows, type InfluenceBlock } from './influenceKernel';
 import { accumulateXtWX, logisticRows, logisticRowsOne, logisticRowsPair, ROW_BLOCK } from './kernels';
 import { standardise, standardiseColumn, type Standardised } from './standardise';
-import { createWasmDesign, wasmLogisticRows, wasmLogisticRowsMany, wasmUsable, type WasmLayout } from './wasmPasses';
+import {
+  createWasmDesign,
+  WASM_XTWX_ROWS,
+  wasmInformation,
+  wasmLogisticRows,
+  wasmLogisticRowsMany,
+  wasmUsable,
+  type WasmLayout,
+} from './wasmPasses';
 
 /** Groups of blocks in a subsample pass (fixed, so that the sums do not depend on the number of threads). */
 const BLOCK_GROUPS = 4;
@@ -104,8 +112,10 @@ export function runChunks(
         one = new Float64Array(p * p);
       H.fill(0);
       for (let q = k * chunkRows; q < Math.min(job.blocks.length, (k + 1) * chunkRows); q++) {
-        const s = job.blocks[q];
-        accumulateXtWX(X, n, p, job.w!, one, work, s, Math.min(n, s + B));
+        const s = job.blocks[q],
+          e = Math.min(n, s + B);
+        if (L && e - s <= WASM_XTWX_ROWS) wasmInformation(L, slot, job.w!, s, e, one);
+        else accumulateXtWX(X, n, p, job.w!, one, work, s, e);
         for (let t = 0; t < p * p; t++) H[t] += one[t];
       }
       continue;
@@ -186,7 +196,9 @@ export function runChunks(
         b,
       );
     } else {
-      accumulateXtWX(X, n, p, job.w!, job.partH!.subarray(k * p * p, (k + 1) * p * p), work, a, b);
+      const H = job.partH!.subarray(k * p * p, (k + 1) * p * p);
+      if (L && b - a <= WASM_XTWX_ROWS) wasmInformation(L, slot, job.w!, a, b, H);
+      else accumulateXtWX(X, n, p, job.w!, H, work, a, b);
     }
   }
 }
@@ -405,9 +417,12 @@ export function createRowPasses(
     },
     /** X'WX (row-major, both triangles) into out, summing the chunks in order. */
     information(w: Float64Array, out: Float64Array): Float64Array {
-      if (K === 1) return accumulateXtWX(X, n, p, w, out, work);
+      if (K === 1)
+        return wasm && wasmUsable(wasm, 0) && n <= WASM_XTWX_ROWS
+          ? wasmInformation(wasm, 0, w, 0, n, out)
+          : accumulateXtWX(X, n, p, w, out, work);
       partH ??= alloc(K * p * p);
-      exec({ op: 'information', X, n, p, chunkRows, w, partLoss, partG, partH, done }, K, isShared(w));
+      exec({ op: 'information', X, n, p, chunkRows, w, partLoss, partG, partH, done, wasm }, K, isShared(w));
       return sumParts(partH, K, p * p, out);
     },
     /**
@@ -420,7 +435,7 @@ export function createRowPasses(
       partH ??= alloc(K * p * p);
       const partB = groups <= K ? partH : alloc(groups * p * p);
       exec(
-        { op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done },
+        { op: 'information', X, n, p, chunkRows: per, w, blocks, blockRows, partLoss, partG, partH: partB, done, wasm },
         groups,
         isShared(w) && blocks.buffer instanceof SharedArrayBuffer,
       );

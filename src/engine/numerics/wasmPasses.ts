@@ -7,14 +7,20 @@
  * the speed only (tests/engine/wasmPasses.test.ts). A host without WebAssembly SIMD, or whose policy forbids
  * compiling it, gets plain arrays and kernels.ts, with the same numbers.
  *
+ * The information X'WX likewise (kernels.ts accumulateXtWX's tiles and blocks, its sums kept by lanes as here).
+ *
  * Memory: the design X (column-major n×p) at byte 0, then one scratch slot per thread (512-row blocks of η and
- * residuals for two vectors, two coefficient vectors and two scores). A row pool's threads instantiate the module on
+ * residuals for two vectors, two coefficient vectors and two scores; a chunk's weights, w∘X of a row block and a
+ * p×p sum for X'WX). A row pool's threads instantiate the module on
  * the same shared memory and each works in its own slot (its index in the pool).
  */
+import { ROW_BLOCK } from './kernels';
 import { wasmRowModule } from './wasmSimd';
 
 /** Rows per block, as kernels.ts's logistic passes. */
 const R = 512;
+/** Most rows of one X'WX call (a row pool's chunk): their weights are copied into the slot first. */
+export const WASM_XTWX_ROWS = 8_192;
 
 /** A design in a WebAssembly memory, as it travels with a row pool's job (the memory is shared then). */
 export interface WasmLayout {
@@ -30,7 +36,7 @@ export interface WasmLayout {
   slots: number;
 }
 
-type Exports = { xbeta: (...a: number[]) => void; xtr: (...a: number[]) => void };
+type Exports = { xbeta: (...a: number[]) => void; xtr: (...a: number[]) => void; xtwx: (...a: number[]) => void };
 interface Instance {
   id: number;
   ex: Exports;
@@ -52,7 +58,8 @@ export function wasmPassesSupported(): boolean {
 }
 
 const pad16 = (bytes: number) => Math.ceil(bytes / 16) * 16;
-const slotBytesOf = (p: number) => 4 * R * 8 + 4 * pad16(8 * p);
+const slotBytesOf = (p: number) =>
+  4 * R * 8 + 4 * pad16(8 * p) + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * p + pad16(8 * p * p);
 
 /** Largest design placed in a WebAssembly memory: addresses stay below 2³¹ (the kernels' i32 arithmetic). */
 const MAX_BYTES = 2 ** 31 - 65536;
@@ -112,6 +119,9 @@ function slotOf(L: WasmLayout, slot: number) {
     bb: base + 4 * R * 8 + vb,
     ga: base + 4 * R * 8 + 2 * vb,
     gb: base + 4 * R * 8 + 3 * vb,
+    w: base + 4 * R * 8 + 4 * vb,
+    work: base + 4 * R * 8 + 4 * vb + 8 * WASM_XTWX_ROWS,
+    acc: base + 4 * R * 8 + 4 * vb + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * L.p,
   };
   return bytes;
 }
@@ -259,6 +269,35 @@ export function wasmLogisticRowsMany(
   if (gb) for (let j = 0; j < p; j++) gb[j] = heap[s.gb / 8 + j];
   loss[0] = la;
   if (bb) loss[1] = lb;
+}
+
+/**
+ * kernels.ts accumulateXtWX over rows [rowStart, rowEnd) (at most WASM_XTWX_ROWS) in `slot`: out (row-major p×p,
+ * both triangles) = X'WX of those rows. Same bits.
+ */
+export function wasmInformation(
+  L: WasmLayout,
+  slot: number,
+  w: Float64Array,
+  rowStart: number,
+  rowEnd: number,
+  out: Float64Array,
+): Float64Array {
+  const { n, p } = L;
+  const { ex, heap } = instanceFor(L);
+  const s = slotOf(L, slot);
+  const m = rowEnd - rowStart,
+    acc = s.acc / 8;
+  heap.set(w.subarray(rowStart, rowEnd), s.w / 8);
+  heap.fill(0, acc, acc + p * p);
+  ex.xtwx(rowStart * 8, n * 8, p, s.w, 0, m, s.work, s.acc);
+  for (let j = 0; j < p; j++)
+    for (let k = j; k < p; k++) {
+      const v = heap[acc + j * p + k];
+      out[j * p + k] = v;
+      out[k * p + j] = v;
+    }
+  return out;
 }
 
 /** A thread's use of a design: the layout when this thread has a slot in it. */
