@@ -14,7 +14,9 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
  * The seconds profile-likelihood limits and term tests take on one thread, from their passes over the rows: every
  * limit and every term's constrained fit is solved by chord-Newton steps from the fit's information
  * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. A pass costs about
- * 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05) plus 10⁻⁹ s per design cell.
+ * 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05) plus 5·10⁻¹⁰ s per design
+ * cell with the WebAssembly SIMD kernels (wasmPasses.ts; measured 2026-12-05: 3.65 ms a point at 10⁵ × 51, 21 ms at
+ * 10⁶ × 21, one thread). A host without them gives the same record, at up to twice the time (10⁻⁹ s per cell).
  * Passes per limit fall as the rows grow, since the profile log-likelihood is closer to its quadratic: measured on
  * the 2-core development machine on the seeded synthetic files (src/cli/bench/synth.ts), 2.8 per limit at
  * 10⁵ × 50 (2026-12-04) and 2.0 at 10⁶ × 20 (84 points for 42 limits, 2026-12-05; 3.0 s on one thread); taken as 3
@@ -24,7 +26,7 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
  * more.
  */
 const PASS_ROW_S = 1.2e-8;
-const PASS_CELL_S = 1e-9;
+const PASS_CELL_S = 5e-10;
 const PASSES_PER_TERM = 4;
 
 /** Passes per profile limit at n rows (see above). */
