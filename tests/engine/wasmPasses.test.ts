@@ -102,8 +102,8 @@ describe('the logistic passes with WebAssembly SIMD kernels (wasmPasses.ts)', ()
           expect(bits(one.wasm.partG)).toEqual(bits(one.js.partG));
           expect(bits(one.wasm.eta!)).toEqual(bits(one.js.eta!));
           expect(bits(one.wasm.w!)).toEqual(bits(one.js.w!));
-          // three vectors in one pass: a pair and one alone
-          const m = 3;
+          // several vectors in one pass: pairs (and one alone) in kernels.ts, all on each block here (8 at a time)
+          const m = fractionalY ? 11 : 3;
           const betas = Float64Array.from({ length: m * p }, (_, k) => beta[k % p] * (1 + 0.1 * Math.floor(k / p)));
           const many = both(n, p, X, {
             op: 'logisticMany',

@@ -20,7 +20,7 @@ import {
   WASM_XTWX_ROWS,
   wasmInformation,
   wasmLogisticRows,
-  wasmLogisticRowsMany,
+  wasmLogisticRowsAll,
   wasmUsable,
   type WasmLayout,
 } from './wasmPasses';
@@ -123,7 +123,13 @@ export function runChunks(
     const a = k * chunkRows,
       b = Math.min(n, a + chunkRows);
     if (job.op === 'influence') influenceRows(job.influence!, a, b);
-    else if (job.op === 'logisticMany') {
+    else if (job.op === 'logisticMany' && L) {
+      // every vector on each block of rows while it is in cache: X is read from memory once per pass
+      const m = job.m!;
+      const G = job.partG.subarray(k * m * p, (k + 1) * m * p),
+        loss = job.partLoss.subarray(k * m, (k + 1) * m);
+      wasmLogisticRowsAll(L, slot, job.y!, job.betas!, m, job.c, job.offset, G, loss, a, b);
+    } else if (job.op === 'logisticMany') {
       const m = job.m!,
         B = job.betas!,
         loss = new Float64Array(2);
@@ -131,48 +137,28 @@ export function runChunks(
         if (q === m - 1) {
           // an odd last vector alone (the same bits as in a pair, half the work)
           const gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p);
-          if (L)
-            wasmLogisticRowsMany(
-              L,
-              slot,
-              job.y!,
-              B.subarray(q * p, (q + 1) * p),
-              null,
-              job.c,
-              job.offset,
-              gq,
-              null,
-              loss,
-              a,
-              b,
-            );
-          else logisticRowsOne(X, n, p, job.y!, B.subarray(q * p, (q + 1) * p), job.c, job.offset, gq, loss, a, b);
+          logisticRowsOne(X, n, p, job.y!, B.subarray(q * p, (q + 1) * p), job.c, job.offset, gq, loss, a, b);
           job.partLoss[k * m + q] = loss[0];
           continue;
         }
         const r = q + 1,
           gq = job.partG.subarray((k * m + q) * p, (k * m + q + 1) * p),
           gr = job.partG.subarray((k * m + r) * p, (k * m + r + 1) * p);
-        if (L) {
-          const ba = B.subarray(q * p, (q + 1) * p),
-            bb = B.subarray(r * p, (r + 1) * p);
-          wasmLogisticRowsMany(L, slot, job.y!, ba, bb, job.c, job.offset, gq, gr, loss, a, b);
-        } else
-          logisticRowsPair(
-            X,
-            n,
-            p,
-            job.y!,
-            B.subarray(q * p, (q + 1) * p),
-            B.subarray(r * p, (r + 1) * p),
-            job.c,
-            job.offset,
-            gq,
-            gr,
-            loss,
-            a,
-            b,
-          );
+        logisticRowsPair(
+          X,
+          n,
+          p,
+          job.y!,
+          B.subarray(q * p, (q + 1) * p),
+          B.subarray(r * p, (r + 1) * p),
+          job.c,
+          job.offset,
+          gq,
+          gr,
+          loss,
+          a,
+          b,
+        );
         job.partLoss[k * m + q] = loss[0];
         job.partLoss[k * m + r] = loss[1];
       }

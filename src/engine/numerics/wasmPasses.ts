@@ -21,6 +21,8 @@ import { wasmRowModule } from './wasmSimd';
 const R = 512;
 /** Most rows of one X'WX call (a row pool's chunk): their weights are copied into the slot first. */
 export const WASM_XTWX_ROWS = 8_192;
+/** Coefficient vectors taken together on each block of rows (more go in groups of this many). */
+const MAX_VEC = 8;
 
 /** A design in a WebAssembly memory, as it travels with a row pool's job (the memory is shared then). */
 export interface WasmLayout {
@@ -115,13 +117,15 @@ function slotOf(L: WasmLayout, slot: number) {
     eb: base + R * 8,
     ra: base + 2 * R * 8,
     rb: base + 3 * R * 8,
+    /** coefficient vector q at ba + q·vb, its score at ga + q·vb (q < MAX_VEC) */
     ba: base + 4 * R * 8,
     bb: base + 4 * R * 8 + vb,
-    ga: base + 4 * R * 8 + 2 * vb,
-    gb: base + 4 * R * 8 + 3 * vb,
-    w: base + 4 * R * 8 + 4 * vb,
-    work: base + 4 * R * 8 + 4 * vb + 8 * WASM_XTWX_ROWS,
-    acc: base + 4 * R * 8 + 4 * vb + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * L.p,
+    ga: base + 4 * R * 8 + MAX_VEC * vb,
+    gb: base + 4 * R * 8 + (MAX_VEC + 1) * vb,
+    w: base + 4 * R * 8 + 2 * MAX_VEC * vb,
+    work: base + 4 * R * 8 + 2 * MAX_VEC * vb + 8 * WASM_XTWX_ROWS,
+    acc: base + 4 * R * 8 + 2 * MAX_VEC * vb + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * L.p,
+    vb,
   };
   return bytes;
 }
@@ -184,19 +188,20 @@ export function wasmLogisticRows(
 }
 
 /**
- * kernels.ts logisticRowsPair (bb given) or logisticRowsOne (bb null) over rows [rowStart, rowEnd) in `slot`: the
- * losses into loss[0] (and loss[1]), the scores into ga (and gb), cleared first. Same bits.
+ * kernels.ts logisticRowsPair / logisticRowsOne for m coefficient vectors (B, vector q at q·p) over rows
+ * [rowStart, rowEnd) in `slot`, all of them on each block of rows while it is in cache (in groups of MAX_VEC): the
+ * losses into loss[q], the scores into G (vector q at q·p, cleared first). Per vector the same arithmetic as a pair's
+ * half, so the same bits.
  */
-export function wasmLogisticRowsMany(
+export function wasmLogisticRowsAll(
   L: WasmLayout,
   slot: number,
   y: Float64Array,
-  ba: ArrayLike<number>,
-  bb: ArrayLike<number> | null,
+  B: Float64Array,
+  m: number,
   c: Float64Array | undefined,
   offset: Float64Array | undefined,
-  ga: Float64Array,
-  gb: Float64Array | null,
+  G: Float64Array,
   loss: Float64Array,
   rowStart: number,
   rowEnd: number,
@@ -205,70 +210,45 @@ export function wasmLogisticRowsMany(
   const { ex, heap } = instanceFor(L);
   const s = slotOf(L, slot);
   const ea = s.ea / 8,
-    eb = s.eb / 8,
     ra = s.ra / 8,
-    rb = s.rb / 8;
-  for (let j = 0; j < p; j++) heap[s.ba / 8 + j] = ba[j];
-  if (bb) for (let j = 0; j < p; j++) heap[s.bb / 8 + j] = bb[j];
-  heap.fill(0, s.ga / 8, s.ga / 8 + p);
-  heap.fill(0, s.gb / 8, s.gb / 8 + p);
-  let la = 0,
-    lb = 0;
-  for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
-    const r1 = Math.min(rowEnd, r0 + R),
-      m = r1 - r0;
-    if (offset)
-      for (let i = 0; i < m; i++) {
-        heap[ea + i] = offset[r0 + i];
-        if (bb) heap[eb + i] = offset[r0 + i];
-      }
-    else {
-      heap.fill(0, ea, ea + m);
-      if (bb) heap.fill(0, eb, eb + m);
+    vb8 = s.vb / 8;
+  for (let q0 = 0; q0 < m; q0 += MAX_VEC) {
+    const mq = Math.min(MAX_VEC, m - q0);
+    for (let q = 0; q < mq; q++) {
+      heap.set(B.subarray((q0 + q) * p, (q0 + q + 1) * p), s.ba / 8 + q * vb8);
+      heap.fill(0, s.ga / 8 + q * vb8, s.ga / 8 + q * vb8 + p);
+      loss[q0 + q] = 0;
     }
-    ex.xbeta(r0 * 8, n * 8, p, s.ba, s.ea, 0, m);
-    if (bb) ex.xbeta(r0 * 8, n * 8, p, s.bb, s.eb, 0, m);
-    let pa = 1,
-      pb = 1;
-    for (let i = 0; i < m; i++) {
-      const yi = y[r0 + i],
-        ci = c ? c[r0 + i] : 1;
-      {
-        const t = heap[ea + i],
-          a = Math.exp(-Math.abs(t));
-        const e = 1 + a,
-          d = 1 / e;
-        const mu = t >= 0 ? d : a * d,
-          mc = t >= 0 ? a * d : d;
-        heap[ra + i] = ci * (yi === 1 ? mc : yi - mu);
-        if (ci === 1) {
-          pa *= e;
-          la += t > 0 ? (1 - yi) * t : -yi * t;
-        } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-      }
-      if (bb) {
-        const t = heap[eb + i],
-          a = Math.exp(-Math.abs(t));
-        const e = 1 + a,
-          d = 1 / e;
-        const mu = t >= 0 ? d : a * d,
-          mc = t >= 0 ? a * d : d;
-        heap[rb + i] = ci * (yi === 1 ? mc : yi - mu);
-        if (ci === 1) {
-          pb *= e;
-          lb += t > 0 ? (1 - yi) * t : -yi * t;
-        } else if (ci !== 0) lb += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+    for (let r0 = rowStart; r0 < rowEnd; r0 += R) {
+      const r1 = Math.min(rowEnd, r0 + R),
+        m8 = r1 - r0;
+      for (let q = 0; q < mq; q++) {
+        if (offset) for (let i = 0; i < m8; i++) heap[ea + i] = offset[r0 + i];
+        else heap.fill(0, ea, ea + m8);
+        ex.xbeta(r0 * 8, n * 8, p, s.ba + q * s.vb, s.ea, 0, m8);
+        let la = loss[q0 + q],
+          pa = 1;
+        for (let i = 0; i < m8; i++) {
+          const yi = y[r0 + i],
+            ci = c ? c[r0 + i] : 1;
+          const t = heap[ea + i],
+            a = Math.exp(-Math.abs(t));
+          const e = 1 + a,
+            d = 1 / e;
+          const mu = t >= 0 ? d : a * d,
+            mc = t >= 0 ? a * d : d;
+          heap[ra + i] = ci * (yi === 1 ? mc : yi - mu);
+          if (ci === 1) {
+            pa *= e;
+            la += t > 0 ? (1 - yi) * t : -yi * t;
+          } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+        }
+        loss[q0 + q] = la + Math.log(pa);
+        ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m8, s.ga + q * s.vb);
       }
     }
-    la += Math.log(pa);
-    if (bb) lb += Math.log(pb);
-    ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m, s.ga);
-    if (bb) ex.xtr(r0 * 8, n * 8, p, s.rb, 0, m, s.gb);
+    for (let q = 0; q < mq; q++) for (let j = 0; j < p; j++) G[(q0 + q) * p + j] = heap[s.ga / 8 + q * vb8 + j];
   }
-  for (let j = 0; j < p; j++) ga[j] = heap[s.ga / 8 + j];
-  if (gb) for (let j = 0; j < p; j++) gb[j] = heap[s.gb / 8 + j];
-  loss[0] = la;
-  if (bb) loss[1] = lb;
 }
 
 /**
