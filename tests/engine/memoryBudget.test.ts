@@ -35,11 +35,13 @@ describe('estimateFitBytes', () => {
   });
 
   it('takes the larger of the fit and evaluation phases', () => {
-    // p = 1: evaluation (53·8n) outweighs fitting (2·8n + 160n)
+    // p = 1: evaluation (53·8n, a design and the calibration designs not yet freed: 8n + 56n, a diagnostics
+    // block: 8n) outweighs fitting (2·8n + 160n)
     const thin = estimateFitBytes({ rows: 1000, designColumns: 1, evaluate: true });
-    expect(thin.bytes).toBe(8 * 53 * 1000 + 32 * MiB);
-    const wide = estimateFitBytes({ rows: 1000, designColumns: 40, evaluate: true });
-    expect(wide.bytes).toBe(8 * 1000 * 40 * 2 + 8 * 20 * 1000 + 32 * MiB);
+    expect(thin.bytes).toBe(8 * (53 + 1 + 7 + 1) * 1000 + 32 * MiB);
+    // wide and long: fitting's two designs outweigh the evaluation (whose diagnostics block stops at 65 536 rows)
+    const wide = estimateFitBytes({ rows: 1e6, designColumns: 100, evaluate: true });
+    expect(wide.bytes).toBe(8 * 1e6 * 100 * 2 + 8 * 20 * 1e6 + 32 * MiB);
   });
 
   it('refuses a negative or non-finite row count with a FulcraError', () => {

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { startNodeRowPool } from '../../src/cli/nodeRowPool';
 import type { Dataset } from '../../src/engine/core/data';
 import type { ModelSpec } from '../../src/engine/core/model';
+import { rowDiagnostics } from '../../src/engine/diagnostics';
 import { fit } from '../../src/engine/fitting/fit';
 import { createRng } from '../../src/engine/numerics/rng';
 import {
@@ -211,6 +212,17 @@ describe('the logistic passes with WebAssembly SIMD kernels (wasmPasses.ts)', ()
       await np.close();
     }
   }, 60_000);
+
+  it('give the per-row influence measures of the TypeScript loops bit for bit (V = X·C by the Xβ kernel)', () => {
+    const { d, spec } = data();
+    const f = fit(d, spec, { profile: false, termTests: false });
+    setWasmPasses(false);
+    const plain = rowDiagnostics(f, d);
+    setWasmPasses(true);
+    // the diagnostics' block design is in WebAssembly memory now, and smaller blocks are written into its room
+    expect(wasmLayoutOf(allocDesign(40_000, 6), 1000, 6)).toBeDefined();
+    expect(rowDiagnostics(f, d)).toEqual(plain);
+  });
 
   it('fall back to kernels.ts for a thread without a slot, with the same numbers', () => {
     const n = 3000,

@@ -2,7 +2,7 @@ import { FulcraError, sheetRow, type Dataset } from '../core/data';
 import type { FitResult } from '../core/model';
 import { designFromRecipe } from '../design/design';
 import { caseDeviance, sigmoid } from '../numerics/loss';
-import { allocF64, allocI32, createRowPasses } from '../numerics/rowPool';
+import { allocDesign, allocF64, allocI32, createRowPasses } from '../numerics/rowPool';
 
 /** Rows per pass block: the block's design (block × p) is built, used and dropped, so memory stays O(block·p). */
 export const DIAGNOSTICS_BLOCK = 65_536;
@@ -122,7 +122,7 @@ export function rowDiagnostics(f: FitResult, data: Dataset): RowDiagnostics {
   out.beta.set(beta);
   if (C && out.C) out.C.set(C);
   if (sdBeta && out.sd) out.sd.set(sdBeta);
-  const scratch = allocF64(B * p); // one block's design, reused block after block
+  const scratch = allocDesign(B, p); // one block's design, reused block after block (SIMD kernels where they run)
   let k = 0;
   for (let start = 0; start < data.nRows; start += DIAGNOSTICS_BLOCK) {
     const end = Math.min(data.nRows, start + DIAGNOSTICS_BLOCK);

@@ -4,6 +4,7 @@
  * (rowPool.ts) can split a block's rows over its threads: every row's numbers come from that row alone.
  */
 import { caseDeviance, sigmoid } from './loss';
+import { wasmInfluenceV, type WasmLayout } from './wasmPasses';
 
 /** One block of rows: every per-row array block-relative (row t at index t; dfbetas row-major, row t at t·p). */
 export interface InfluenceBlock {
@@ -41,9 +42,9 @@ const SUB = 512;
  * residuals; then V = X_sub·C (two output columns per sweep of four design columns), hᵢ = wᵢ·xᵢ'Cxᵢ, and each row's
  * DFBETAS and one-step shifts.
  */
-export function influenceRows(b: InfluenceBlock, rowStart: number, rowEnd: number): void {
+export function influenceRows(b: InfluenceBlock, rowStart: number, rowEnd: number, wasm?: WasmLayout, slot = 0): void {
   const { X, n: m, p, C, sd, beta } = b;
-  const V = new Float64Array(SUB * p);
+  const Vjs = new Float64Array(SUB * p);
   const [eta, wSub, q, scaleSub, shiftSub, bestD, bestS] = Array.from({ length: 7 }, () => new Float64Array(SUB));
   const [bestDJ, bestSJ] = [new Int32Array(SUB), new Int32Array(SUB)];
   for (let r0 = rowStart; r0 < rowEnd; r0 += SUB) {
@@ -65,8 +66,10 @@ export function influenceRows(b: InfluenceBlock, rowStart: number, rowEnd: numbe
       b.deviance[r0 + t] = Math.sign(yi - mu) * Math.sqrt(caseDeviance(eta[t], yi));
     }
     if (!C || !sd) continue;
-    V.fill(0);
-    let c = 0;
+    // With X in WebAssembly memory the SIMD kernels give V, one column of C at a time: the same sums, same order.
+    const V = wasm ? wasmInfluenceV(wasm, slot, C, r0, nb) : Vjs;
+    if (!wasm) V.fill(0);
+    let c = wasm ? p : 0;
     // two output columns per sweep of four design columns: each load of X feeds two multiply-adds
     for (; c + 1 < p; c += 2) {
       const oc = c * SUB,

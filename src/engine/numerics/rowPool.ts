@@ -122,7 +122,7 @@ export function runChunks(
     }
     const a = k * chunkRows,
       b = Math.min(n, a + chunkRows);
-    if (job.op === 'influence') influenceRows(job.influence!, a, b);
+    if (job.op === 'influence') influenceRows(job.influence!, a, b, L ?? undefined, slot);
     else if (job.op === 'logisticMany' && L) {
       // every vector on each block of rows while it is in cache: X is read from memory once per pass
       const m = job.m!;
@@ -255,10 +255,14 @@ export function allocDesign(n: number, p: number): Float64Array {
   return allocF64(n * p);
 }
 
-/** The WebAssembly layout of a design from allocDesign (X the whole design, as allocDesign gave it). */
+/**
+ * The WebAssembly layout of an n×p design in memory from allocDesign: X must start where that design starts and fit
+ * in it, with no more columns (a smaller design written into a larger one's room, as the diagnostics' blocks are).
+ */
 export function wasmLayoutOf(X: Float64Array, n: number, p: number): WasmLayout | undefined {
   const L = designs.get(X.buffer);
-  return L && X.byteOffset === 0 && L.n === n && L.p === p ? L : undefined;
+  if (!L || X.byteOffset !== 0 || p > L.p || n * p > L.n * L.p) return undefined;
+  return L.n === n && L.p === p ? L : { ...L, n, p };
 }
 
 /** A zeroed Int32Array, in shared memory while a pool is installed. */
@@ -437,7 +441,7 @@ export function createRowPasses(
       const shared =
         [...arrays, full.C ?? undefined, full.sd ?? undefined, full.dfbetas ?? undefined].every(isShared) &&
         [full.maxDJ, full.maxSJ].every((a) => sharedMemory() && a.buffer instanceof SharedArrayBuffer);
-      exec({ op: 'influence', X, n, p, chunkRows, influence: full, partLoss, partG, done }, K, shared);
+      exec({ op: 'influence', X, n, p, chunkRows, influence: full, partLoss, partG, done, wasm }, K, shared);
     },
     /** An Int32Array the pool can read. */
     allocInt32: (len: number) => new Int32Array(pool ? new SharedArrayBuffer(len * 4) : new ArrayBuffer(len * 4)),

@@ -60,8 +60,33 @@ export function wasmPassesSupported(): boolean {
 }
 
 const pad16 = (bytes: number) => Math.ceil(bytes / 16) * 16;
-const slotBytesOf = (p: number) =>
-  4 * R * 8 + 4 * pad16(8 * p) + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * p + pad16(8 * p * p);
+/**
+ * A slot's areas (byte offsets from its start) for p columns, and its size: one layout for both, so they cannot
+ * disagree. η and residual blocks of 512 rows (two each); MAX_VEC coefficient vectors and their scores; a chunk's
+ * weights, w∘X of a row block and a p×p sum for X'WX (also Cᵀ for the influence measures); V = X·C, 512 rows a
+ * column.
+ */
+function slotAreas(p: number) {
+  const vb = pad16(8 * p);
+  let at = 0;
+  const take = (bytes: number) => {
+    const o = at;
+    at += pad16(bytes);
+    return o;
+  };
+  const ea = take(R * 8),
+    eb = take(R * 8),
+    ra = take(R * 8),
+    rb = take(R * 8),
+    ba = take(MAX_VEC * vb),
+    ga = take(MAX_VEC * vb),
+    w = take(8 * WASM_XTWX_ROWS),
+    work = take(8 * ROW_BLOCK * p),
+    acc = take(8 * p * p),
+    v = take(8 * R * p);
+  return { ea, eb, ra, rb, ba, bb: ba + vb, ga, gb: ga + vb, w, work, acc, v, vb, bytes: at };
+}
+const slotBytesOf = (p: number) => slotAreas(p).bytes;
 
 /** Largest design placed in a WebAssembly memory: addresses stay below 2³¹ (the kernels' i32 arithmetic). */
 const MAX_BYTES = 2 ** 31 - 65536;
@@ -90,20 +115,25 @@ export function createWasmDesign(n: number, p: number, shared: boolean, slots: n
   }
 }
 
-/** This thread's instances of the last few designs it worked on (older ones are let go with their memory). */
-const cache: Instance[] = [];
+/**
+ * This thread's instances of the last few designs it worked on, held weakly: a cached instance must not keep a
+ * design's memory (tens of megabytes) alive after the engine has let the design go; a collected one is made again.
+ */
+const cache: { id: number; ref: WeakRef<Instance> }[] = [];
 const CACHE = 3;
 
 function instanceFor(L: WasmLayout): Instance {
   const k = cache.findIndex((c) => c.id === L.id);
-  if (k >= 0) return cache[k];
+  const hit = k >= 0 ? cache[k].ref.deref() : undefined;
+  if (hit) return hit;
+  if (k >= 0) cache.splice(k, 1);
   const inst = new WebAssembly.Instance(wasmRowModule(L.shared), { env: { memory: L.memory } });
   const c: Instance = {
     id: L.id,
     ex: inst.exports as unknown as Exports,
     heap: new Float64Array(L.memory.buffer),
   };
-  cache.unshift(c);
+  cache.unshift({ id: L.id, ref: new WeakRef(c) });
   if (cache.length > CACHE) cache.length = CACHE;
   return c;
 }
@@ -111,23 +141,24 @@ function instanceFor(L: WasmLayout): Instance {
 /** The slot's arrays as views (f64 indices into the heap) and byte offsets. */
 function slotOf(L: WasmLayout, slot: number) {
   const base = L.scratch + slot * L.slotBytes,
-    vb = pad16(8 * L.p);
-  const bytes = {
-    ea: base,
-    eb: base + R * 8,
-    ra: base + 2 * R * 8,
-    rb: base + 3 * R * 8,
+    r = slotAreas(L.p);
+  if (r.bytes > L.slotBytes) throw new Error(`A ${L.p}-column slot does not fit the design's slots.`);
+  return {
+    ea: base + r.ea,
+    eb: base + r.eb,
+    ra: base + r.ra,
+    rb: base + r.rb,
     /** coefficient vector q at ba + q·vb, its score at ga + q·vb (q < MAX_VEC) */
-    ba: base + 4 * R * 8,
-    bb: base + 4 * R * 8 + vb,
-    ga: base + 4 * R * 8 + MAX_VEC * vb,
-    gb: base + 4 * R * 8 + (MAX_VEC + 1) * vb,
-    w: base + 4 * R * 8 + 2 * MAX_VEC * vb,
-    work: base + 4 * R * 8 + 2 * MAX_VEC * vb + 8 * WASM_XTWX_ROWS,
-    acc: base + 4 * R * 8 + 2 * MAX_VEC * vb + 8 * WASM_XTWX_ROWS + 8 * ROW_BLOCK * L.p,
-    vb,
+    ba: base + r.ba,
+    bb: base + r.bb,
+    ga: base + r.ga,
+    gb: base + r.gb,
+    w: base + r.w,
+    work: base + r.work,
+    acc: base + r.acc,
+    v: base + r.v,
+    vb: r.vb,
   };
-  return bytes;
 }
 
 /**
@@ -278,6 +309,23 @@ export function wasmInformation(
       out[k * p + j] = v;
     }
   return out;
+}
+
+/**
+ * V = X[r0..r0 + rows, ·]·C (rows ≤ 512; column c of V at c·512 of the returned view, as influenceKernel.ts keeps
+ * it), one Xβ kernel call per column of C: the same sums, in the same order, as influenceRows' loops.
+ */
+export function wasmInfluenceV(L: WasmLayout, slot: number, C: Float64Array, r0: number, rows: number): Float64Array {
+  const { n, p } = L;
+  const { ex, heap } = instanceFor(L);
+  const s = slotOf(L, slot);
+  const ct = s.acc / 8,
+    v = s.v / 8;
+  // Cᵀ: row c holds column c of C, the coefficients of V's column c
+  for (let c = 0; c < p; c++) for (let j = 0; j < p; j++) heap[ct + c * p + j] = C[j * p + c];
+  heap.fill(0, v, v + R * p);
+  for (let c = 0; c < p; c++) ex.xbeta(r0 * 8, n * 8, p, s.acc + 8 * c * p, s.v + 8 * c * R, 0, rows);
+  return heap.subarray(v, v + R * p);
 }
 
 /** A thread's use of a design: the layout when this thread has a slot in it. */
