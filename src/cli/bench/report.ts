@@ -88,7 +88,8 @@ const LIMITS: [RegExp, string][] = [
     /sklearn newton-cholesky/,
     "X'WX and the per-iteration passes over X run at about 1.3·10⁹ multiply-adds per second per thread in plain " +
       'TypeScript, where BLAS uses SIMD; a second thread adds about 1.5×, not 2×, on this machine ' +
-      "(a pass over a 10⁵×51 X: 10.8 → 7.4 ms; X'WX: 85 → 55 ms); WebAssembly SIMD kernels are the next step.",
+      "(a pass over a 10⁵×51 X: 10.8 → 7.4 ms; X'WX: 85 → 55 ms); with the WebAssembly SIMD kernels (f64x2) the " +
+      'products run two rows an instruction, but the exp and division per row stay scalar JavaScript.',
   ],
   [
     /^CSV import/,
@@ -104,9 +105,21 @@ const LIMITS: [RegExp, string][] = [
   [/main-thread task/, 'rendering of a large table or plot on the main thread.'],
   [
     /^the page at 10⁶/,
-    'the CSV is parsed on one thread (about 2 s for 150 MB); the fit, the term tests, the evaluation and the ' +
-      'per-row diagnostics at 10⁶ rows are ~6 s of passes on 2 threads (each pass is computed in plain TypeScript; ' +
-      'the WebAssembly SIMD kernels are not wired into the fit yet).',
+    'the CSV takes ~1.5–2 s to read on 2 threads (150 MB; its type inference and column summaries on one); the fit ' +
+      'with profile limits and term tests (~170 passes over 10⁶ × 21, ~16 ms each on 2 threads even with the ' +
+      'WebAssembly SIMD kernels: half of a pass is the exp and division per row), the evaluation and the per-row ' +
+      'diagnostics take ~5 s.',
+  ],
+  [
+    /^npm run fit, full record, against pandas \+ statsmodels/,
+    'statsmodels gives the estimates and Wald intervals only; the full record adds profile limits for 51 ' +
+      'coefficients and 50 likelihood-ratio tests (~450 passes over 10⁵ × 51, ~1.3 s on 2 threads), the apparent ' +
+      'evaluation and per-row diagnostics (~0.8 s), and reads the CSV into typed, summarised columns (~0.4 s).',
+  ],
+  [
+    /^npm run fit, full record, against R glm/,
+    'R glm + confint + drop1 took 193 s here on 2026-12-05 (534 s where the target was set), so the ratio ' +
+      'asks for ~2.3 s; the full record takes ~3–4 s (see the statsmodels row).',
   ],
   [/peak memory/, 'working copies of the design made by the solver.'],
 ];
