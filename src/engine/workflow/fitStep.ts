@@ -45,8 +45,9 @@ export function inferenceSeconds(
 }
 
 /**
- * Profile limits, and term tests, are computed when each takes at most this long on one thread (about 2 s each on
- * the development machine's two threads; 10⁵ rows × 50 columns: 1.9 s and 1.1 s; 10⁶ × 20: 1.3 s and 1.8 s), else
+ * Profile limits, and term tests, are computed when each is estimated to take at most this long on one thread
+ * (about 2 s each on the development machine's two threads; estimated at 10⁵ rows × 50 columns 1.1 s and 0.75 s,
+ * at 10⁶ × 20 1.9 s and 1.8 s; measured there with the SIMD kernels 2.6 s for both together on 2 threads), else
  * skipped with a notice.
  * The rule depends only on the data's size, never on the threads at hand, so every host gives the same record.
  */
