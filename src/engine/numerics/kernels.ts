@@ -327,6 +327,46 @@ export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Arra
   return out;
 }
 
+/**
+ * The row maths of one block of a logistic pass, for rows i < m: η at eta[eo + i], outcome y[yo + i], case weight
+ * c[yo + i] (1 without c). From one a = e^−|η| per row: the residual c∘(y − μ) (1 − μ taken directly for y = 1) into
+ * r[ro + i], the weight c∘μ(1 − μ) into w[wo + i] when w is given. Returns `loss` plus the block's case losses, the
+ * log1p(e^−|η|) of rows of weight 1 as one log of their product, added last (see logisticRows). The one copy of this
+ * arithmetic: the TypeScript passes here and the SIMD ones (wasmPasses.ts) call it, so both give the same bits.
+ */
+export function blockRowMaths(
+  eta: Float64Array,
+  eo: number,
+  y: Float64Array,
+  yo: number,
+  c: Float64Array | undefined,
+  m: number,
+  r: Float64Array,
+  ro: number,
+  w: Float64Array | null,
+  wo: number,
+  loss: number,
+): number {
+  let prod = 1;
+  for (let i = 0; i < m; i++) {
+    const t = eta[eo + i],
+      a = Math.exp(-Math.abs(t)),
+      yi = y[yo + i],
+      ci = c ? c[yo + i] : 1;
+    const e = 1 + a,
+      d = 1 / e;
+    const mu = t >= 0 ? d : a * d,
+      mc = t >= 0 ? a * d : d;
+    if (w) w[wo + i] = ci * mu * mc;
+    r[ro + i] = ci * (yi === 1 ? mc : yi - mu);
+    if (ci === 1) {
+      prod *= e;
+      loss += t > 0 ? (1 - yi) * t : -yi * t;
+    } else if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
+  }
+  return loss + Math.log(prod);
+}
+
 /** Residuals of one 512-row block when the caller keeps none (each thread has its own copy of this module). */
 const rowScratch = new Float64Array(512);
 
@@ -368,24 +408,7 @@ export function logisticRows(
     if (offset) for (let i = r0; i < r1; i++) eta[i] = offset[i];
     else for (let i = r0; i < r1; i++) eta[i] = 0;
     addEtaBlock(X, n, p, beta, r0, r1, eta);
-    let prod = 1;
-    for (let i = r0; i < r1; i++) {
-      const t = eta[i],
-        a = Math.exp(-Math.abs(t)),
-        yi = y[i],
-        ci = c ? c[i] : 1;
-      const e = 1 + a,
-        d = 1 / e;
-      const m = t >= 0 ? d : a * d,
-        mc = t >= 0 ? a * d : d;
-      w[i] = ci * m * mc;
-      res[i - ro] = ci * (yi === 1 ? mc : yi - m);
-      if (ci === 1) {
-        prod *= e;
-        loss += t > 0 ? (1 - yi) * t : -yi * t;
-      } else if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-    }
-    loss += Math.log(prod);
+    loss = blockRowMaths(eta, r0, y, r0, c, r1 - r0, res, r0 - ro, w, r0, loss);
     addXtrBlockLanes(X, n, p, res, r0, r1, g, ro);
   }
   return loss;
@@ -436,40 +459,8 @@ export function logisticRowsPair(
       eb.fill(0, 0, m);
     }
     addEtaBlockPair(X, n, p, ba, bb, r0, r1, ea, eb);
-    let pa = 1,
-      pb = 1;
-    for (let i = 0; i < m; i++) {
-      const yi = y[r0 + i],
-        ci = c ? c[r0 + i] : 1;
-      {
-        const t = ea[i],
-          a = Math.exp(-Math.abs(t));
-        const e = 1 + a,
-          d = 1 / e;
-        const mu = t >= 0 ? d : a * d,
-          mc = t >= 0 ? a * d : d;
-        ra[i] = ci * (yi === 1 ? mc : yi - mu);
-        if (ci === 1) {
-          pa *= e;
-          la += t > 0 ? (1 - yi) * t : -yi * t;
-        } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-      }
-      {
-        const t = eb[i],
-          a = Math.exp(-Math.abs(t));
-        const e = 1 + a,
-          d = 1 / e;
-        const mu = t >= 0 ? d : a * d,
-          mc = t >= 0 ? a * d : d;
-        rb[i] = ci * (yi === 1 ? mc : yi - mu);
-        if (ci === 1) {
-          pb *= e;
-          lb += t > 0 ? (1 - yi) * t : -yi * t;
-        } else if (ci !== 0) lb += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-      }
-    }
-    la += Math.log(pa);
-    lb += Math.log(pb);
+    la = blockRowMaths(ea, 0, y, r0, c, m, ra, 0, null, 0, la);
+    lb = blockRowMaths(eb, 0, y, r0, c, m, rb, 0, null, 0, lb);
     addXtrBlockPair(X, n, p, ra, rb, r0, r1, ga, gb);
   }
   loss[0] = la;
@@ -503,23 +494,7 @@ export function logisticRowsOne(
     if (offset) for (let i = 0; i < m; i++) ea[i] = offset[r0 + i];
     else ea.fill(0, 0, m);
     addEtaBlock(X, n, p, ba, r0, r1, ea, r0);
-    let pa = 1;
-    for (let i = 0; i < m; i++) {
-      const yi = y[r0 + i],
-        ci = c ? c[r0 + i] : 1;
-      const t = ea[i],
-        a = Math.exp(-Math.abs(t));
-      const e = 1 + a,
-        d = 1 / e;
-      const mu = t >= 0 ? d : a * d,
-        mc = t >= 0 ? a * d : d;
-      ra[i] = ci * (yi === 1 ? mc : yi - mu);
-      if (ci === 1) {
-        pa *= e;
-        la += t > 0 ? (1 - yi) * t : -yi * t;
-      } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-    }
-    la += Math.log(pa);
+    la = blockRowMaths(ea, 0, y, r0, c, m, ra, 0, null, 0, la);
     addXtrBlockLanes(X, n, p, ra, r0, r1, ga, r0);
   }
   loss[0] = la;

@@ -14,7 +14,7 @@
  * p×p sum for X'WX). A row pool's threads instantiate the module on
  * the same shared memory and each works in its own slot (its index in the pool).
  */
-import { ROW_BLOCK } from './kernels';
+import { blockRowMaths, ROW_BLOCK } from './kernels';
 import { wasmRowModule } from './wasmSimd';
 
 /** Rows per block, as kernels.ts's logistic passes. */
@@ -193,25 +193,8 @@ export function wasmLogisticRows(
     if (offset) for (let i = 0; i < m; i++) heap[e0 + i] = offset[r0 + i];
     else heap.fill(0, e0, e0 + m);
     ex.xbeta(r0 * 8, n * 8, p, s.ba, s.ea, 0, m);
-    let prod = 1;
-    for (let i = 0; i < m; i++) {
-      const t = heap[e0 + i],
-        a = Math.exp(-Math.abs(t)),
-        yi = y[r0 + i],
-        ci = c ? c[r0 + i] : 1;
-      eta[r0 + i] = t;
-      const e = 1 + a,
-        d = 1 / e;
-      const mu = t >= 0 ? d : a * d,
-        mc = t >= 0 ? a * d : d;
-      w[r0 + i] = ci * mu * mc;
-      heap[r0f + i] = ci * (yi === 1 ? mc : yi - mu);
-      if (ci === 1) {
-        prod *= e;
-        loss += t > 0 ? (1 - yi) * t : -yi * t;
-      } else if (ci !== 0) loss += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-    }
-    loss += Math.log(prod);
+    eta.set(heap.subarray(e0, e0 + m), r0);
+    loss = blockRowMaths(heap, e0, y, r0, c, m, heap, r0f, w, r0, loss);
     ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m, s.ga);
   }
   for (let j = 0; j < p; j++) g[j] = heap[g0 + j];
@@ -257,24 +240,7 @@ export function wasmLogisticRowsAll(
         if (offset) for (let i = 0; i < m8; i++) heap[ea + i] = offset[r0 + i];
         else heap.fill(0, ea, ea + m8);
         ex.xbeta(r0 * 8, n * 8, p, s.ba + q * s.vb, s.ea, 0, m8);
-        let la = loss[q0 + q],
-          pa = 1;
-        for (let i = 0; i < m8; i++) {
-          const yi = y[r0 + i],
-            ci = c ? c[r0 + i] : 1;
-          const t = heap[ea + i],
-            a = Math.exp(-Math.abs(t));
-          const e = 1 + a,
-            d = 1 / e;
-          const mu = t >= 0 ? d : a * d,
-            mc = t >= 0 ? a * d : d;
-          heap[ra + i] = ci * (yi === 1 ? mc : yi - mu);
-          if (ci === 1) {
-            pa *= e;
-            la += t > 0 ? (1 - yi) * t : -yi * t;
-          } else if (ci !== 0) la += ci * (Math.log1p(a) + (t > 0 ? (1 - yi) * t : -yi * t));
-        }
-        loss[q0 + q] = la + Math.log(pa);
+        loss[q0 + q] = blockRowMaths(heap, ea, y, r0, c, m8, heap, ra, null, 0, loss[q0 + q]);
         ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m8, s.ga + q * s.vb);
       }
     }
