@@ -328,11 +328,55 @@ export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Arra
 }
 
 /**
+ * e^x for x ≤ 0 by operations that WebAssembly's f64x2 instructions repeat exactly (wasmSimd.ts rowMathsFunc), so
+ * the TypeScript and SIMD passes give the same bits: k = ⌊x·log₂e + ½⌋, r = (x − k·ln2_hi) − k·ln2_lo (Cody–Waite;
+ * fdlibm e_exp.c's split of ln 2, whose high part has 21 low zero bits, so k·ln2_hi is exact), e^r by its Taylor
+ * polynomial to r¹³ in Horner form (|r| ≤ ½ln 2: the first term left out is below 5·10⁻¹⁸ relative), times 2^k
+ * exactly. 0 below −708 (where e^x would be ≈ 3·10⁻³⁰⁸: 1 + e^x is 1 there either way). Within 2 ulp of Math.exp
+ * (tests/engine/kernels.test.ts); used for the unweighted rows of the logistic passes only.
+ */
+export function expNonPositive(x: number): number {
+  if (x < EXP_MIN) return 0;
+  if (x !== x) return x;
+  const k = Math.floor(x * LOG2E + 0.5),
+    r = x - k * LN2_HI - k * LN2_LO;
+  const q =
+    ((((((((((((T13 * r + T12) * r + T11) * r + T10) * r + T9) * r + T8) * r + T7) * r + T6) * r + T5) * r + T4) * r +
+      T3) *
+      r +
+      T2) *
+      r +
+      1) *
+      r +
+    1;
+  return q * POW2_NEG[-k];
+}
+/** fdlibm e_exp.c: ln2HI[0], ln2LO[0], invln2. */
+export const LN2_HI = 6.9314718036912381649e-1,
+  LN2_LO = 1.90821492927058770002e-10,
+  LOG2E = 1.442695040888963387;
+/** Below this, expNonPositive is 0. */
+export const EXP_MIN = -708;
+/** 1/i! for i = 0 … 13, each rounded once from the exact rational (Horner coefficients of expNonPositive). */
+export const EXP_TAYLOR: readonly number[] = Array.from({ length: 14 }, (_, i) => {
+  let f = 1;
+  for (let j = 2; j <= i; j++) f *= j; // exact: 13! < 2⁵³
+  return 1 / f;
+});
+const [, , T2, T3, T4, T5, T6, T7, T8, T9, T10, T11, T12, T13] = EXP_TAYLOR;
+/** 2^−i for i = 0 … 1021 (k ≥ −1021 above EXP_MIN), exact: halving a normal double is exact. */
+const POW2_NEG = new Float64Array(1022);
+POW2_NEG[0] = 1;
+for (let i = 1; i < POW2_NEG.length; i++) POW2_NEG[i] = POW2_NEG[i - 1] / 2;
+
+/**
  * The row maths of one block of a logistic pass, for rows i < m: η at eta[eo + i], outcome y[yo + i], case weight
  * c[yo + i] (1 without c). From one a = e^−|η| per row: the residual c∘(y − μ) (1 − μ taken directly for y = 1) into
  * r[ro + i], the weight c∘μ(1 − μ) into w[wo + i] when w is given. Returns `loss` plus the block's case losses, the
  * log1p(e^−|η|) of rows of weight 1 as one log of their product, added last (see logisticRows). The one copy of this
  * arithmetic: the TypeScript passes here and the SIMD ones (wasmPasses.ts) call it, so both give the same bits.
+ * Without case weights (unitRows): e^−|η| by expNonPositive, and the losses and products kept apart for even and
+ * odd rows, in the order of the SIMD kernel's two lanes.
  */
 export function blockRowMaths(
   eta: Float64Array,
@@ -347,12 +391,18 @@ export function blockRowMaths(
   wo: number,
   loss: number,
 ): number {
+  if (!c) {
+    unitLanes[0] = unitLanes[1] = 0;
+    unitLanes[2] = unitLanes[3] = 1;
+    unitRows(eta, eo, y, yo, 0, m, r, ro, w, wo, unitLanes, 0);
+    return closeLanes(unitLanes, 0, loss);
+  }
   let prod = 1;
   for (let i = 0; i < m; i++) {
     const t = eta[eo + i],
       a = Math.exp(-Math.abs(t)),
       yi = y[yo + i],
-      ci = c ? c[yo + i] : 1;
+      ci = c[yo + i];
     const e = 1 + a,
       d = 1 / e;
     const mu = t >= 0 ? d : a * d,
@@ -366,6 +416,61 @@ export function blockRowMaths(
   }
   return loss + Math.log(prod);
 }
+
+const unitLanes = new Float64Array(4);
+
+/**
+ * The unweighted rows [from, to) of a block (offsets as blockRowMaths): residuals, weights when w is given, and the
+ * linear loss terms and the products of 1 + e^−|η| added into lanes (at L[lo]: loss of even rows, of odd rows,
+ * product of even rows, of odd rows; a row's lane is the parity of its index in the block). The SIMD kernel does
+ * the whole pairs of rows and this the odd last one.
+ */
+export function unitRows(
+  eta: Float64Array,
+  eo: number,
+  y: Float64Array,
+  yo: number,
+  from: number,
+  to: number,
+  r: Float64Array,
+  ro: number,
+  w: Float64Array | null,
+  wo: number,
+  L: Float64Array,
+  lo: number,
+): void {
+  let l0 = L[lo],
+    l1 = L[lo + 1],
+    p0 = L[lo + 2],
+    p1 = L[lo + 3];
+  for (let i = from; i < to; i++) {
+    const t = eta[eo + i],
+      a = expNonPositive(-Math.abs(t)),
+      yi = y[yo + i];
+    const e = 1 + a,
+      d = 1 / e;
+    const mu = t >= 0 ? d : a * d,
+      mc = t >= 0 ? a * d : d;
+    if (w) w[wo + i] = mu * mc;
+    r[ro + i] = yi === 1 ? mc : yi - mu;
+    const lin = t > 0 ? (1 - yi) * t : -yi * t;
+    if (i & 1) {
+      l1 += lin;
+      p1 *= e;
+    } else {
+      l0 += lin;
+      p0 *= e;
+    }
+  }
+  L[lo] = l0;
+  L[lo + 1] = l1;
+  L[lo + 2] = p0;
+  L[lo + 3] = p1;
+}
+
+/** `loss` plus a block's lanes (unitRows): the linear terms, then the log of the products. */
+export const closeLanes = (L: Float64Array, lo: number, loss: number): number =>
+  loss + (L[lo] + L[lo + 1]) + Math.log(L[lo + 2] * L[lo + 3]);
 
 /** Residuals of one 512-row block when the caller keeps none (each thread has its own copy of this module). */
 const rowScratch = new Float64Array(512);

@@ -1,8 +1,9 @@
 /**
  * The logistic row passes of kernels.ts (logisticRows, logisticRowsPair, logisticRowsOne) with Xβ and X'r done by
  * the WebAssembly SIMD kernels of wasmSimd.ts, for a design that lives in a WebAssembly memory (rowPool.ts
- * allocDesign). The row maths between the two (e^−|η|, μ, residuals, weights, loss) is the same JavaScript in the
- * same order, Xβ adds the columns in kernels.ts's order, and X'r keeps even and odd rows apart as kernels.ts
+ * allocDesign). The row maths between the two (e^−|η|, μ, residuals, weights, loss) of unweighted rows is the SIMD
+ * kernel rowmaths, which repeats kernels.ts unitRows operation for operation (its e^x included); case-weighted rows
+ * keep the TypeScript. Xβ adds the columns in kernels.ts's order, and X'r keeps even and odd rows apart as kernels.ts
  * addXtrBlockLanes does, so every loss, score, η and weight is bit-for-bit what kernels.ts gives: the kernels change
  * the speed only (tests/engine/wasmPasses.test.ts). A host without WebAssembly SIMD, or whose policy forbids
  * compiling it, gets plain arrays and kernels.ts, with the same numbers.
@@ -11,10 +12,10 @@
  *
  * Memory: the design X (column-major n×p) at byte 0, then one scratch slot per thread (512-row blocks of η and
  * residuals for two vectors, two coefficient vectors and two scores; a chunk's weights, w∘X of a row block and a
- * p×p sum for X'WX). A row pool's threads instantiate the module on
+ * p×p sum for X'WX; a block of y and the row maths' four lane sums). A row pool's threads instantiate the module on
  * the same shared memory and each works in its own slot (its index in the pool).
  */
-import { blockRowMaths, ROW_BLOCK } from './kernels';
+import { blockRowMaths, closeLanes, ROW_BLOCK, unitRows } from './kernels';
 import { wasmRowModule } from './wasmSimd';
 
 /** Rows per block, as kernels.ts's logistic passes. */
@@ -38,7 +39,8 @@ export interface WasmLayout {
   slots: number;
 }
 
-type Exports = { xbeta: (...a: number[]) => void; xtr: (...a: number[]) => void; xtwx: (...a: number[]) => void };
+type Kernel = (...a: number[]) => void;
+type Exports = { xbeta: Kernel; xtr: Kernel; xtwx: Kernel; rowmaths: Kernel };
 interface Instance {
   id: number;
   ex: Exports;
@@ -83,8 +85,10 @@ function slotAreas(p: number) {
     w = take(8 * WASM_XTWX_ROWS),
     work = take(8 * ROW_BLOCK * p),
     acc = take(8 * p * p),
-    v = take(8 * R * p);
-  return { ea, eb, ra, rb, ba, bb: ba + vb, ga, gb: ga + vb, w, work, acc, v, vb, bytes: at };
+    v = take(8 * R * p),
+    y = take(R * 8),
+    lanes = take(32);
+  return { ea, eb, ra, rb, ba, bb: ba + vb, ga, gb: ga + vb, w, work, acc, v, y, lanes, vb, bytes: at };
 }
 const slotBytesOf = (p: number) => slotAreas(p).bytes;
 
@@ -157,8 +161,39 @@ function slotOf(L: WasmLayout, slot: number) {
     work: base + r.work,
     acc: base + r.acc,
     v: base + r.v,
+    y: base + r.y,
+    lanes: base + r.lanes,
     vb: r.vb,
   };
+}
+
+/**
+ * kernels.ts blockRowMaths for the block of rows [r0, r0 + m) whose η is at byte `ea` of the slot's memory: residuals
+ * to byte `ra`, weights into w (rows r0 …) when given. Unweighted rows by the SIMD kernel (its whole pairs of rows,
+ * then unitRows for an odd last one); case-weighted ones by the TypeScript. Same bits either way.
+ */
+function rowMaths(
+  { ex, heap }: Instance,
+  s: ReturnType<typeof slotOf>,
+  ea: number,
+  y: Float64Array,
+  r0: number,
+  m: number,
+  c: Float64Array | undefined,
+  ra: number,
+  w: Float64Array | null,
+  loss: number,
+): number {
+  if (c) return blockRowMaths(heap, ea / 8, y, r0, c, m, heap, ra / 8, w, r0, loss);
+  const yo = s.y / 8,
+    wo = s.w / 8,
+    lo = s.lanes / 8,
+    pairs = m & ~1;
+  heap.set(y.subarray(r0, r0 + m), yo);
+  ex.rowmaths(ea, s.y, ra, w ? s.w : 0, 8 * pairs, s.lanes);
+  unitRows(heap, ea / 8, heap, yo, pairs, m, heap, ra / 8, w ? heap : null, wo, heap, lo);
+  if (w) w.set(heap.subarray(wo, wo + m), r0);
+  return closeLanes(heap, lo, loss);
 }
 
 /**
@@ -179,10 +214,10 @@ export function wasmLogisticRows(
   rowEnd: number,
 ): number {
   const { n, p } = L;
-  const { ex, heap } = instanceFor(L);
+  const inst = instanceFor(L),
+    { ex, heap } = inst;
   const s = slotOf(L, slot);
   const e0 = s.ea / 8,
-    r0f = s.ra / 8,
     g0 = s.ga / 8;
   for (let j = 0; j < p; j++) heap[s.ba / 8 + j] = beta[j];
   heap.fill(0, g0, g0 + p);
@@ -194,7 +229,7 @@ export function wasmLogisticRows(
     else heap.fill(0, e0, e0 + m);
     ex.xbeta(r0 * 8, n * 8, p, s.ba, s.ea, 0, m);
     eta.set(heap.subarray(e0, e0 + m), r0);
-    loss = blockRowMaths(heap, e0, y, r0, c, m, heap, r0f, w, r0, loss);
+    loss = rowMaths(inst, s, s.ea, y, r0, m, c, s.ra, w, loss);
     ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m, s.ga);
   }
   for (let j = 0; j < p; j++) g[j] = heap[g0 + j];
@@ -221,10 +256,10 @@ export function wasmLogisticRowsAll(
   rowEnd: number,
 ): void {
   const { n, p } = L;
-  const { ex, heap } = instanceFor(L);
+  const inst = instanceFor(L),
+    { ex, heap } = inst;
   const s = slotOf(L, slot);
   const ea = s.ea / 8,
-    ra = s.ra / 8,
     vb8 = s.vb / 8;
   for (let q0 = 0; q0 < m; q0 += MAX_VEC) {
     const mq = Math.min(MAX_VEC, m - q0);
@@ -240,7 +275,7 @@ export function wasmLogisticRowsAll(
         if (offset) for (let i = 0; i < m8; i++) heap[ea + i] = offset[r0 + i];
         else heap.fill(0, ea, ea + m8);
         ex.xbeta(r0 * 8, n * 8, p, s.ba + q * s.vb, s.ea, 0, m8);
-        loss[q0 + q] = blockRowMaths(heap, ea, y, r0, c, m8, heap, ra, null, 0, loss[q0 + q]);
+        loss[q0 + q] = rowMaths(inst, s, s.ea, y, r0, m8, c, s.ra, null, loss[q0 + q]);
         ex.xtr(r0 * 8, n * 8, p, s.ra, 0, m8, s.ga + q * s.vb);
       }
     }

@@ -1,15 +1,16 @@
 /**
- * A trial (issue 17, item 5): the three row passes of kernels.ts — Xβ, X'r and X'WX over a column-major n×p
- * design (column j at j·n) — as WebAssembly SIMD (f64x2: two rows per instruction). The module's bytes are
- * written here by a small emitter (no .wasm file, no fetch, no eval) and compiled synchronously. Not used by the
- * fit, the row pool or the worker: `npm run bench` measures it against the TypeScript kernels (src/cli/bench/
- * wasmTrial.ts). Same maths and loop structure as kernels.ts: Xβ in 512-row blocks, four columns per pass and the
- * same order of additions (bit-for-bit equal); X'r in 2048-row blocks, four columns per pass; X'WX in 256-row
- * blocks of w∘X, upper triangle in 2×4 tiles. Sums of X'r and X'WX keep even and odd rows apart until each
- * block's end (one sum per SIMD lane), so they differ from kernels.ts by rounding only.
+ * The row passes of kernels.ts — Xβ, X'r and X'WX over a column-major n×p design (column j at j·n), and the
+ * logistic row maths between them — as WebAssembly SIMD (f64x2: two rows per instruction). The module's bytes are
+ * written here by a small emitter (no .wasm file, no fetch, no eval) and compiled synchronously. The fit's passes
+ * use them through wasmPasses.ts; `npm run bench` also times them alone against the TypeScript kernels
+ * (src/cli/bench/wasmTrial.ts). Same maths and loop structure as kernels.ts: Xβ in 512-row blocks, four columns per
+ * pass and the same order of additions (bit-for-bit equal); X'r in 2048-row blocks, four columns per pass; X'WX in
+ * 256-row blocks of w∘X, upper triangle in 2×4 tiles. Sums of X'r and X'WX keep even and odd rows apart until each
+ * block's end (one sum per SIMD lane), as kernels.ts's addXtrBlockLanes and accumulateXtWX do; the row maths
+ * repeats unitRows's operations.
  */
 import { FulcraError } from '../core/data';
-import { ROW_BLOCK } from './kernels';
+import { EXP_MIN, EXP_TAYLOR, LN2_HI, LN2_LO, LOG2E, ROW_BLOCK } from './kernels';
 
 type Code = number[];
 
@@ -73,6 +74,24 @@ const splat = (v: Code): Code => [...v, ...simd(0x14)];
 const lane = (v: Code, k: number): Code => [...v, ...simd(0x21), k];
 const vzero: Code = [...simd(0x0c), ...new Array<number>(16).fill(0)];
 const hsum = (v: Code): Code => fadd(lane(v, 0), lane(v, 1));
+const vop =
+  (o: number) =>
+  (a: Code, b: Code): Code => [...a, ...b, ...simd(o)];
+const vsub = vop(0xf1),
+  vdiv = vop(0xf3),
+  vlt = vop(0x49),
+  vgt = vop(0x4a),
+  vge = vop(0x4c),
+  veq = vop(0x47);
+const vabs = (a: Code): Code => [...a, ...simd(0xec)],
+  vneg = (a: Code): Code => [...a, ...simd(0xed)],
+  vfloor = (a: Code): Code => [...a, ...simd(0x75)];
+/** Lanes of `a` where the mask is set, of `b` elsewhere (v128.bitselect). */
+const pick = (mask: Code, a: Code, b: Code): Code => [...a, ...b, ...mask, ...simd(0x52)];
+/** Each 64-bit lane shifted left by `bits` (i64x2.shl). */
+const shl64 = (a: Code, bits: number): Code => [...a, ...int(bits), ...simd(0xcb)];
+/** Both lanes the double v. */
+const vconst = (v: number): Code => [...simd(0x0c), ...new Uint8Array(new Float64Array([v, v]).buffer)];
 const min = (a: Code, b: Code): Code => [...a, ...b, ...ltU(a, b), 0x1b];
 const when = (cond: Code, body: Code): Code => [...cond, 0x04, 0x40, ...body, 0x0b];
 const whileDo = (cond: Code, body: Code): Code => [
@@ -293,22 +312,72 @@ function xtwxFunc(): Code {
 }
 
 /**
+ * rowmaths(eta, y, r, w, e16, out): kernels.ts unitRows over the whole pairs of a block's rows (e16 bytes of them,
+ * from byte 0 of eta, y, r and w), two rows per instruction, even rows in lane 0: e^−|η| by expNonPositive's
+ * operations in its order, μ, residuals into r, weights μ(1 − μ) into w unless w is 0, and at out the lanes' linear
+ * loss terms (out, out + 8) and products of 1 + e^−|η| (out + 16, out + 24), begun from 0 and 1 here. Every
+ * operation is one IEEE f64 operation of the TypeScript's, in the same order, so the bits are the same.
+ */
+function rowMathsFunc(): Code {
+  const f = new Func(6);
+  const [eta, y, r, w, e16, out] = [0, 1, 2, 3, 4, 5];
+  const [o] = f.locals(I32, 1);
+  const [t, x, k, q, a, e, d, ad, ge, mu, mc, yv, loss, prod] = f.locals(V128, 14);
+  const ONE = vconst(1);
+  let horner = vconst(EXP_TAYLOR[13]);
+  for (let i = 12; i >= 0; i--) horner = vadd(vmul(horner, get(q)), vconst(EXP_TAYLOR[i]));
+  return f.encode([
+    ...set(loss, vzero),
+    ...set(prod, ONE),
+    ...forUp(o, int(0), get(e16), int(16), [
+      ...set(t, vload(add(get(eta), get(o)))),
+      ...set(x, vneg(vabs(get(t)))),
+      ...set(k, vfloor(vadd(vmul(get(x), vconst(LOG2E)), vconst(0.5)))),
+      // q holds r = (x − k·ln2_hi) − k·ln2_lo, then e^r by Horner
+      ...set(q, vsub(vsub(get(x), vmul(get(k), vconst(LN2_HI))), vmul(get(k), vconst(LN2_LO)))),
+      ...set(q, horner),
+      // 2^k: k + 2⁵² + 1023 holds k + 1023 in its low mantissa bits; shifted into the exponent field
+      ...set(
+        a,
+        pick(vlt(get(x), vconst(EXP_MIN)), vzero, vmul(get(q), shl64(vadd(get(k), vconst(2 ** 52 + 1023)), 52))),
+      ),
+      ...set(e, vadd(ONE, get(a))),
+      ...set(d, vdiv(ONE, get(e))),
+      ...set(ad, vmul(get(a), get(d))),
+      ...set(ge, vge(get(t), vzero)),
+      ...set(mu, pick(get(ge), get(d), get(ad))),
+      ...set(mc, pick(get(ge), get(ad), get(d))),
+      ...when(get(w), vstore(add(get(w), get(o)), vmul(get(mu), get(mc)))),
+      ...set(yv, vload(add(get(y), get(o)))),
+      ...vstore(add(get(r), get(o)), pick(veq(get(yv), ONE), get(mc), vsub(get(yv), get(mu)))),
+      ...set(prod, vmul(get(prod), get(e))),
+      ...set(
+        loss,
+        vadd(get(loss), pick(vgt(get(t), vzero), vmul(vsub(ONE, get(yv)), get(t)), vmul(vneg(get(yv)), get(t)))),
+      ),
+    ]),
+    ...vstore(get(out), get(loss)),
+    ...vstore(add(get(out), int(16)), get(prod)),
+  ]);
+}
+
+/**
  * The module: memory imported as env.memory; exports xbeta, xtr, xtwx (all parameters i32). `shared`: the import is
  * a shared memory (limits 1 … 65 536 pages), as a row pool's threads instantiate it on one memory; a module can only
  * import the kind of memory it declares.
  */
 export function wasmRowKernelBytes(shared = false): Uint8Array<ArrayBuffer> {
-  const fns = [xbetaFunc(), xtrFunc(), xtwxFunc()];
+  const fns = [xbetaFunc(), xtrFunc(), xtwxFunc(), rowMathsFunc()];
   const sig = (k: number): Code => [0x60, ...vec(new Array<Code>(k).fill([I32])), 0];
   return Uint8Array.from([
     ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
-    ...section(1, vec([sig(7), sig(8)])),
+    ...section(1, vec([sig(7), sig(8), sig(6)])),
     ...section(
       2,
       vec([[...name('env'), ...name('memory'), 0x02, ...(shared ? [0x03, 1, ...uleb128(65536)] : [0x00, 1])]]),
     ),
-    ...section(3, vec([[0], [0], [1]])),
-    ...section(7, vec(['xbeta', 'xtr', 'xtwx'].map((s, i) => [...name(s), 0x00, i]))),
+    ...section(3, vec([[0], [0], [1], [2]])),
+    ...section(7, vec(['xbeta', 'xtr', 'xtwx', 'rowmaths'].map((s, i) => [...name(s), 0x00, i]))),
     ...section(10, vec(fns)),
   ]);
 }
