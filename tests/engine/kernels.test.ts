@@ -195,8 +195,9 @@ describe('expNonPositive (the e^x of the logistic passes, repeated exactly by th
     return Math.abs(Number(i[0] - i[1]));
   };
 
-  it('is within 1 ulp of Math.exp on [−708, 0] and exact at 0, and 0 below −708', () => {
-    // Reference: Math.exp (V8's fdlibm port, itself < 1 ulp); tolerance 1 ulp is this kernel's own claim, checked
+  it('is within 2 ulp of Math.exp on [−708, 0] and exact at 0, and 0 below −708', () => {
+    // Reference: Math.exp (V8's port of fdlibm e_exp.c, itself < 1 ulp from e^x: fdlibm's own comment); tolerance
+    // 2 ulp (1 ulp each side of the true value) is this kernel's own claim, checked
     // on 200 000 points evenly spread and at the reduction's seams (k·ln 2 ± ½ ln 2).
     let worst = 0;
     const check = (x: number) => {
@@ -204,7 +205,7 @@ describe('expNonPositive (the e^x of the logistic passes, repeated exactly by th
     };
     for (let i = 0; i <= 200_000; i++) check((-708 * i) / 200_000);
     for (let k = 0; k < 1021; k++) for (const d of [-1e-12, 0, 1e-12]) check(Math.max(-708, -(k + 0.5) * Math.LN2 + d));
-    expect(worst).toBeLessThanOrEqual(1);
+    expect(worst).toBeLessThanOrEqual(2);
     expect(expNonPositive(0)).toBe(1);
     expect(expNonPositive(-0)).toBe(1);
     expect(expNonPositive(-708)).toBeGreaterThan(0);

@@ -331,24 +331,26 @@ export function blockedXtr(X: Float64Array, n: number, p: number, r: Float64Arra
  * e^x for x ≤ 0 by operations that WebAssembly's f64x2 instructions repeat exactly (wasmSimd.ts rowMathsFunc), so
  * the TypeScript and SIMD passes give the same bits: k = ⌊x·log₂e + ½⌋, r = (x − k·ln2_hi) − k·ln2_lo (Cody–Waite;
  * fdlibm e_exp.c's split of ln 2, whose high part has 21 low zero bits, so k·ln2_hi is exact), e^r by its Taylor
- * polynomial to r¹³ in Horner form (|r| ≤ ½ln 2: the first term left out is below 5·10⁻¹⁸ relative), times 2^k
- * exactly. 0 below −708 (where e^x would be ≈ 3·10⁻³⁰⁸: 1 + e^x is 1 there either way). Within 2 ulp of Math.exp
- * (tests/engine/kernels.test.ts); used for the unweighted rows of the logistic passes only.
+ * polynomial to r¹³ by Estrin's scheme (|r| ≤ ½ln 2: the first term left out is below 5·10⁻¹⁸ relative; products of
+ * independent pairs of terms keep the SIMD kernel's pipeline full, where Horner's chain of 13 dependent steps made
+ * it 1.4× slower), times 2^k exactly. 0 below −708 (where e^x would be ≈ 3·10⁻³⁰⁸: 1 + e^x is 1 there either way).
+ * Within 2 ulp of Math.exp (tests/engine/kernels.test.ts); used for the unweighted rows of the logistic passes only.
  */
 export function expNonPositive(x: number): number {
   if (x < EXP_MIN) return 0;
   if (x !== x) return x;
   const k = Math.floor(x * LOG2E + 0.5),
     r = x - k * LN2_HI - k * LN2_LO;
+  const r2 = r * r,
+    r4 = r2 * r2,
+    r8 = r4 * r4;
+  // the terms after 1 summed first, so that 1 + … is the one rounding at the scale of 1
   const q =
-    ((((((((((((T13 * r + T12) * r + T11) * r + T10) * r + T9) * r + T8) * r + T7) * r + T6) * r + T5) * r + T4) * r +
-      T3) *
-      r +
-      T2) *
-      r +
-      1) *
-      r +
-    1;
+    1 +
+    (r +
+      (T2 + T3 * r) * r2 +
+      (T4 + T5 * r + (T6 + T7 * r) * r2) * r4 +
+      (T8 + T9 * r + (T10 + T11 * r) * r2 + (T12 + T13 * r) * r4) * r8);
   return q * POW2_NEG[-k];
 }
 /** fdlibm e_exp.c: ln2HI[0], ln2LO[0], invln2. */
@@ -357,7 +359,7 @@ export const LN2_HI = 6.9314718036912381649e-1,
   LOG2E = 1.442695040888963387;
 /** Below this, expNonPositive is 0. */
 export const EXP_MIN = -708;
-/** 1/i! for i = 0 … 13, each rounded once from the exact rational (Horner coefficients of expNonPositive). */
+/** 1/i! for i = 0 … 13, each rounded once from the exact rational (the coefficients of expNonPositive). */
 export const EXP_TAYLOR: readonly number[] = Array.from({ length: 14 }, (_, i) => {
   let f = 1;
   for (let j = 2; j <= i; j++) f *= j; // exact: 13! < 2⁵³

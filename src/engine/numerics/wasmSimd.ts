@@ -322,40 +322,58 @@ function rowMathsFunc(): Code {
   const f = new Func(6);
   const [eta, y, r, w, e16, out] = [0, 1, 2, 3, 4, 5];
   const [o] = f.locals(I32, 1);
-  const [t, x, k, q, a, e, d, ad, ge, mu, mc, yv, loss, prod] = f.locals(V128, 14);
-  const ONE = vconst(1);
-  let horner = vconst(EXP_TAYLOR[13]);
-  for (let i = 12; i >= 0; i--) horner = vadd(vmul(horner, get(q)), vconst(EXP_TAYLOR[i]));
+  const [t, x, k, q, a, e, d, ad, ge, mu, mc, yv, loss, prod, r2, r4, r8] = f.locals(V128, 17);
+  // each constant once in a local, set before the loop
+  const consts = new Map<number, number>();
+  const c = (v: number): Code => {
+    let l = consts.get(v);
+    if (l === undefined) consts.set(v, (l = f.local(V128)));
+    return get(l);
+  };
+  const T = (i: number) => c(EXP_TAYLOR[i]);
+  const lin = (i: number) => vadd(T(i), vmul(T(i + 1), get(q)));
+  const loop = forUp(o, int(0), get(e16), int(16), [
+    ...set(t, vload(add(get(eta), get(o)))),
+    ...set(x, vneg(vabs(get(t)))),
+    ...set(k, vfloor(vadd(vmul(get(x), c(LOG2E)), c(0.5)))),
+    // q holds r = (x − k·ln2_hi) − k·ln2_lo
+    ...set(q, vsub(vsub(get(x), vmul(get(k), c(LN2_HI))), vmul(get(k), c(LN2_LO)))),
+    ...set(r2, vmul(get(q), get(q))),
+    ...set(r4, vmul(get(r2), get(r2))),
+    ...set(r8, vmul(get(r4), get(r4))),
+    // e^r (Estrin's scheme; the terms after 1 summed first), times 2^k: k + 2⁵² + 1023 holds k + 1023 in its low
+    // mantissa bits, shifted into the exponent field
+    ...set(
+      q,
+      vadd(
+        c(1),
+        vadd(
+          vadd(vadd(get(q), vmul(lin(2), get(r2))), vmul(vadd(lin(4), vmul(lin(6), get(r2))), get(r4))),
+          vmul(vadd(vadd(lin(8), vmul(lin(10), get(r2))), vmul(lin(12), get(r4))), get(r8)),
+        ),
+      ),
+    ),
+    ...set(a, pick(vlt(get(x), c(EXP_MIN)), vzero, vmul(get(q), shl64(vadd(get(k), c(2 ** 52 + 1023)), 52)))),
+    ...set(e, vadd(c(1), get(a))),
+    ...set(d, vdiv(c(1), get(e))),
+    ...set(ad, vmul(get(a), get(d))),
+    ...set(ge, vge(get(t), vzero)),
+    ...set(mu, pick(get(ge), get(d), get(ad))),
+    ...set(mc, pick(get(ge), get(ad), get(d))),
+    ...when(get(w), vstore(add(get(w), get(o)), vmul(get(mu), get(mc)))),
+    ...set(yv, vload(add(get(y), get(o)))),
+    ...vstore(add(get(r), get(o)), pick(veq(get(yv), c(1)), get(mc), vsub(get(yv), get(mu)))),
+    ...set(prod, vmul(get(prod), get(e))),
+    ...set(
+      loss,
+      vadd(get(loss), pick(vgt(get(t), vzero), vmul(vsub(c(1), get(yv)), get(t)), vmul(vneg(get(yv)), get(t)))),
+    ),
+  ]);
   return f.encode([
+    ...[...consts].flatMap(([v, l]) => set(l, vconst(v))),
     ...set(loss, vzero),
-    ...set(prod, ONE),
-    ...forUp(o, int(0), get(e16), int(16), [
-      ...set(t, vload(add(get(eta), get(o)))),
-      ...set(x, vneg(vabs(get(t)))),
-      ...set(k, vfloor(vadd(vmul(get(x), vconst(LOG2E)), vconst(0.5)))),
-      // q holds r = (x − k·ln2_hi) − k·ln2_lo, then e^r by Horner
-      ...set(q, vsub(vsub(get(x), vmul(get(k), vconst(LN2_HI))), vmul(get(k), vconst(LN2_LO)))),
-      ...set(q, horner),
-      // 2^k: k + 2⁵² + 1023 holds k + 1023 in its low mantissa bits; shifted into the exponent field
-      ...set(
-        a,
-        pick(vlt(get(x), vconst(EXP_MIN)), vzero, vmul(get(q), shl64(vadd(get(k), vconst(2 ** 52 + 1023)), 52))),
-      ),
-      ...set(e, vadd(ONE, get(a))),
-      ...set(d, vdiv(ONE, get(e))),
-      ...set(ad, vmul(get(a), get(d))),
-      ...set(ge, vge(get(t), vzero)),
-      ...set(mu, pick(get(ge), get(d), get(ad))),
-      ...set(mc, pick(get(ge), get(ad), get(d))),
-      ...when(get(w), vstore(add(get(w), get(o)), vmul(get(mu), get(mc)))),
-      ...set(yv, vload(add(get(y), get(o)))),
-      ...vstore(add(get(r), get(o)), pick(veq(get(yv), ONE), get(mc), vsub(get(yv), get(mu)))),
-      ...set(prod, vmul(get(prod), get(e))),
-      ...set(
-        loss,
-        vadd(get(loss), pick(vgt(get(t), vzero), vmul(vsub(ONE, get(yv)), get(t)), vmul(vneg(get(yv)), get(t)))),
-      ),
-    ]),
+    ...set(prod, c(1)),
+    ...loop,
     ...vstore(get(out), get(loss)),
     ...vstore(add(get(out), int(16)), get(prod)),
   ]);
