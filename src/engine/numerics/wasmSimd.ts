@@ -323,21 +323,14 @@ function rowMathsFunc(): Code {
   const [eta, y, r, w, e16, out] = [0, 1, 2, 3, 4, 5];
   const [o] = f.locals(I32, 1);
   const [t, x, k, q, a, e, d, ad, ge, mu, mc, yv, loss, prod, r2, r4, r8] = f.locals(V128, 17);
-  // each constant once in a local, set before the loop
-  const consts = new Map<number, number>();
-  const c = (v: number): Code => {
-    let l = consts.get(v);
-    if (l === undefined) consts.set(v, (l = f.local(V128)));
-    return get(l);
-  };
-  const T = (i: number) => c(EXP_TAYLOR[i]);
+  const T = (i: number) => vconst(EXP_TAYLOR[i]);
   const lin = (i: number) => vadd(T(i), vmul(T(i + 1), get(q)));
-  const loop = forUp(o, int(0), get(e16), int(16), [
-    ...set(t, vload(add(get(eta), get(o)))),
+  const pair = (at: Code): Code => [
+    ...set(t, vload(add(get(eta), at))),
     ...set(x, vneg(vabs(get(t)))),
-    ...set(k, vfloor(vadd(vmul(get(x), c(LOG2E)), c(0.5)))),
+    ...set(k, vfloor(vadd(vmul(get(x), vconst(LOG2E)), vconst(0.5)))),
     // q holds r = (x − k·ln2_hi) − k·ln2_lo
-    ...set(q, vsub(vsub(get(x), vmul(get(k), c(LN2_HI))), vmul(get(k), c(LN2_LO)))),
+    ...set(q, vsub(vsub(get(x), vmul(get(k), vconst(LN2_HI))), vmul(get(k), vconst(LN2_LO)))),
     ...set(r2, vmul(get(q), get(q))),
     ...set(r4, vmul(get(r2), get(r2))),
     ...set(r8, vmul(get(r4), get(r4))),
@@ -346,33 +339,39 @@ function rowMathsFunc(): Code {
     ...set(
       q,
       vadd(
-        c(1),
+        vconst(1),
         vadd(
           vadd(vadd(get(q), vmul(lin(2), get(r2))), vmul(vadd(lin(4), vmul(lin(6), get(r2))), get(r4))),
           vmul(vadd(vadd(lin(8), vmul(lin(10), get(r2))), vmul(lin(12), get(r4))), get(r8)),
         ),
       ),
     ),
-    ...set(a, pick(vlt(get(x), c(EXP_MIN)), vzero, vmul(get(q), shl64(vadd(get(k), c(2 ** 52 + 1023)), 52)))),
-    ...set(e, vadd(c(1), get(a))),
-    ...set(d, vdiv(c(1), get(e))),
+    ...set(a, pick(vlt(get(x), vconst(EXP_MIN)), vzero, vmul(get(q), shl64(vadd(get(k), vconst(2 ** 52 + 1023)), 52)))),
+    ...set(e, vadd(vconst(1), get(a))),
+    ...set(d, vdiv(vconst(1), get(e))),
     ...set(ad, vmul(get(a), get(d))),
     ...set(ge, vge(get(t), vzero)),
     ...set(mu, pick(get(ge), get(d), get(ad))),
     ...set(mc, pick(get(ge), get(ad), get(d))),
-    ...when(get(w), vstore(add(get(w), get(o)), vmul(get(mu), get(mc)))),
-    ...set(yv, vload(add(get(y), get(o)))),
-    ...vstore(add(get(r), get(o)), pick(veq(get(yv), c(1)), get(mc), vsub(get(yv), get(mu)))),
+    ...when(get(w), vstore(add(get(w), at), vmul(get(mu), get(mc)))),
+    ...set(yv, vload(add(get(y), at))),
+    ...vstore(add(get(r), at), pick(veq(get(yv), vconst(1)), get(mc), vsub(get(yv), get(mu)))),
     ...set(prod, vmul(get(prod), get(e))),
     ...set(
       loss,
-      vadd(get(loss), pick(vgt(get(t), vzero), vmul(vsub(c(1), get(yv)), get(t)), vmul(vneg(get(yv)), get(t)))),
+      vadd(get(loss), pick(vgt(get(t), vzero), vmul(vsub(vconst(1), get(yv)), get(t)), vmul(vneg(get(yv)), get(t)))),
     ),
-  ]);
+  ];
+  // two pairs of rows an iteration (independent work for the pipeline: 6.6 → 5.5 ns a row), then an odd pair
+  const [e32] = f.locals(I32, 1);
+  const loop = [
+    ...set(e32, and(get(e16), int(-32))),
+    ...forUp(o, int(0), get(e32), int(32), [...pair(get(o)), ...pair(add(get(o), int(16)))]),
+    ...when(ltU(get(e32), get(e16)), pair(get(e32))),
+  ];
   return f.encode([
-    ...[...consts].flatMap(([v, l]) => set(l, vconst(v))),
     ...set(loss, vzero),
-    ...set(prod, c(1)),
+    ...set(prod, vconst(1)),
     ...loop,
     ...vstore(get(out), get(loss)),
     ...vstore(add(get(out), int(16)), get(prod)),
