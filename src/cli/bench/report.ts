@@ -89,7 +89,8 @@ const LIMITS: [RegExp, string][] = [
     "X'WX and the per-iteration passes over X run at about 1.3·10⁹ multiply-adds per second per thread in plain " +
       'TypeScript, where BLAS uses SIMD; a second thread adds about 1.5×, not 2×, on this machine ' +
       "(a pass over a 10⁵×51 X: 10.8 → 7.4 ms; X'WX: 85 → 55 ms); with the WebAssembly SIMD kernels (f64x2) the " +
-      'products run two rows an instruction, but the exp and division per row stay scalar JavaScript.',
+      'products and the row maths run two rows an instruction, without fused multiply-adds (the TypeScript must ' +
+      'give the same bits), and at 10⁵ rows the fixed costs of a fit (checks, standardising, the aliasing test) weigh.',
   ],
   [
     /^CSV import/,
@@ -106,20 +107,21 @@ const LIMITS: [RegExp, string][] = [
   [
     /^the page at 10⁶/,
     'the CSV takes ~1.5–2 s to read on 2 threads (150 MB; its type inference and column summaries on one); the fit ' +
-      'with profile limits and term tests (~170 passes over 10⁶ × 21, ~16 ms each on 2 threads even with the ' +
-      'WebAssembly SIMD kernels: half of a pass is the exp and division per row), the evaluation and the per-row ' +
-      'diagnostics take ~5 s.',
+      'with profile limits and term tests (~170 passes over 10⁶ × 21, ~13 ms each on one thread with the ' +
+      'WebAssembly SIMD kernels, row maths included), the evaluation (~1.2 s: spline calibration curve, calibration ' +
+      'fits, sorts of 10⁶ numbers) and the per-row diagnostics (~0.8 s) take ~4.5 s.',
   ],
   [
     /^npm run fit, full record, against pandas \+ statsmodels/,
     'statsmodels gives the estimates and Wald intervals only; the full record adds profile limits for 51 ' +
-      'coefficients and 50 likelihood-ratio tests (~450 passes over 10⁵ × 51, ~1.3 s on 2 threads), the apparent ' +
-      'evaluation and per-row diagnostics (~0.8 s), and reads the CSV into typed, summarised columns (~0.4 s).',
+      'coefficients and 50 likelihood-ratio tests (~450 passes over 10⁵ × 51, ~0.8 s on 2 threads), the apparent ' +
+      'evaluation and per-row diagnostics (~0.5 s), and reads the CSV into typed, summarised columns (~0.5 s).',
   ],
   [
     /^npm run fit, full record, against R glm/,
-    'R glm + confint + drop1 took 193 s here on 2026-12-05 (534 s where the target was set), so the ratio ' +
-      'asks for ~2.3 s; the full record takes ~3–4 s (see the statsmodels row).',
+    'R glm + confint + drop1 took 193–198 s here on 2026-12-05 (534 s where the target was set), so the ratio ' +
+      'asks for ~2.3–2.4 s; the full record takes 2.3–2.5 s run alone, ~2.8 s inside the bench (see the ' +
+      'statsmodels row).',
   ],
   [/peak memory/, 'working copies of the design made by the solver.'],
 ];

@@ -14,9 +14,10 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
  * The seconds profile-likelihood limits and term tests take on one thread, from their passes over the rows: every
  * limit and every term's constrained fit is solved by chord-Newton steps from the fit's information
  * (fitting/chordSolve.ts), one pass over the rows per step, two points per load of X. A pass costs about
- * 1.2·10⁻⁸ s per row (an exp; the log once per block of rows: kernels.ts, 2026-12-05) plus 5·10⁻¹⁰ s per design
- * cell with the WebAssembly SIMD kernels (wasmPasses.ts; measured 2026-12-05: 3.65 ms a point at 10⁵ × 51, 21 ms at
- * 10⁶ × 21, one thread). A host without them gives the same record, at up to twice the time (10⁻⁹ s per cell).
+ * 7·10⁻⁹ s per row (the row maths: one e^x, a division; the log once per block of rows) plus 3.5·10⁻¹⁰ s per design
+ * cell with the WebAssembly SIMD kernels, the row maths included (wasmPasses.ts; measured 2026-12-05 in lockstep
+ * rounds of 8, one thread: 7.4 ms a point at 10⁶ × 2, 13.1 ms at 10⁶ × 21, 2.4–2.9 ms at 10⁵ × 51; before the row
+ * maths were SIMD, 1.2·10⁻⁸ and 5·10⁻¹⁰). A host without them gives the same record, at two to three times the time.
  * Passes per limit fall as the rows grow, since the profile log-likelihood is closer to its quadratic: measured on
  * the 2-core development machine on the seeded synthetic files (src/cli/bench/synth.ts), 2.8 per limit at
  * 10⁵ × 50 (2026-12-04) and 2.0 at 10⁶ × 20 (84 points for 42 limits, 2026-12-05; 3.0 s on one thread); taken as 3
@@ -25,8 +26,8 @@ import { alphaOf, type AnalysisRequest, type LambdaRule } from './request';
  * from the estimate as the rows grow), taken as 4. A Firth pass also takes X'WX and the hat values, about p/2 passes
  * more.
  */
-const PASS_ROW_S = 1.2e-8;
-const PASS_CELL_S = 5e-10;
+const PASS_ROW_S = 7e-9;
+const PASS_CELL_S = 3.5e-10;
 const PASSES_PER_TERM = 4;
 
 /** Passes per profile limit at n rows (see above). */
@@ -46,9 +47,10 @@ export function inferenceSeconds(
 
 /**
  * Profile limits, and term tests, are computed when each is estimated to take at most this long on one thread
- * (about 2 s each on the development machine's two threads; estimated at 10⁵ rows × 50 columns 1.1 s and 0.75 s,
- * at 10⁶ × 20 1.9 s and 1.8 s; measured there with the SIMD kernels 2.6 s for both together on 2 threads), else
- * skipped with a notice.
+ * (estimated at 10⁵ rows × 50 columns 0.76 s and 0.50 s, at 10⁶ × 20 1.2 s and 1.15 s, at 10⁶ × 40 3.5 s and
+ * 3.4 s; measured 2026-12-05 on the development machine's two threads with the SIMD row maths: the profile limits
+ * at 10⁶ × 40 2.7 s, so at this budget's edge, about 10⁶ × 44, they take about 3 s there), else skipped with a
+ * notice. At 10⁶ rows the edge was about 34 columns before the row maths were SIMD.
  * The rule depends only on the data's size, never on the threads at hand, so every host gives the same record.
  */
 export const INFERENCE_BUDGET_S = 4;
