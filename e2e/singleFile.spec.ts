@@ -253,6 +253,8 @@ test('from file:// a large CSV is read in parts on every core, to what one threa
     await page.goto(pageUrl + query);
     await page.getByTestId('file-input').setInputFiles(file);
     await expect(page.getByText('400,000 rows × 5 columns')).toBeVisible({ timeout: 90_000 });
+    // the grid fetches its visible rows from the worker after the summary shows ("…" until they arrive)
+    await expect(page.getByRole('grid', { name: 'Data rows' })).not.toContainText('…');
     const shown = await page.locator('main').innerText();
     expect(seen.errors, 'console errors').toEqual([]);
     await page.close();
