@@ -115,9 +115,12 @@ async function main(): Promise<void> {
     m.push(monitoringCost(q ? 1e5 : 1e6, o.seed));
     log('· the whole job: npm run fit and R, each a fresh process');
     const small = ensureSynth(o.out, 1e4, 20, o.seed);
-    m.push(...wholeJob(small.csv, 1e4, 20, o.references, o.references));
+    m.push(...wholeJob(small.csv, 1e4, 20, o.references, o.references, o.repeats));
     // R at 10⁵ × 50 takes about 9 minutes: only with --slow.
-    if (!q) m.push(...wholeJob(ensureSynth(o.out, 1e5, 50, o.seed).csv, 1e5, 50, o.slow && o.references, o.references));
+    if (!q)
+      m.push(
+        ...wholeJob(ensureSynth(o.out, 1e5, 50, o.seed).csv, 1e5, 50, o.slow && o.references, o.references, o.repeats),
+      );
     log('· per-row diagnostics');
     m.push(diagnosticsCost(o.out, 1e5, 50, o.seed));
     if (!q) m.push(diagnosticsCost(o.out, 1e6, 50, o.seed));

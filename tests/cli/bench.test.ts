@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseBenchArgs, parseSize } from '../../src/cli/bench/options';
 import { judgeTargets, ONE_THREAD, type BenchRecord } from '../../src/cli/bench/report';
 import { synthesise, trueCoefficients } from '../../src/cli/bench/synth';
+import { medianRun } from '../../src/cli/bench/wholeJob';
 
 describe('benchmark options', () => {
   it('reads sizes like 1e5x50 and rejects malformed ones', () => {
@@ -13,6 +14,19 @@ describe('benchmark options', () => {
     expect(parseBenchArgs(['--quick']).sizes.every((s) => s.n <= 1e5)).toBe(true);
     expect(() => parseSize('1e5')).toThrow(/ROWSxPREDICTORS/);
     expect(() => parseBenchArgs(['--bogus'])).toThrow(/Unknown option/);
+  });
+});
+
+describe('whole-process runs', () => {
+  it('count the run of median wall time, and a failed run fails the measurement', () => {
+    const run = (wall: number) => ({ wall, cpu: wall * 1.2, stdout: `run ${wall}` });
+    expect(medianRun([run(3.1), run(2.7), run(2.9)])).toEqual(run(2.9));
+    expect(medianRun([run(2.8)])).toEqual(run(2.8));
+    // an even count takes the lower middle run (a real run, not an average of two)
+    expect(medianRun([run(4), run(1), run(3), run(2)])).toEqual(run(2));
+    expect(medianRun([run(2.7), { error: 'exit 1: no such file' }, run(2.9)])).toEqual({
+      error: 'exit 1: no such file',
+    });
   });
 });
 

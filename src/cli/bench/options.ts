@@ -4,7 +4,7 @@ export interface BenchOptions {
   sizes: { n: number; p: number }[];
   quick: boolean;
   json: boolean;
-  /** Timed repeats per fit (the median counts); default 3. */
+  /** Timed repeats per fit and per fast whole-process run (the median counts); default 3. */
   repeats?: number;
   references: boolean;
   extras: boolean;
@@ -24,7 +24,8 @@ import + fit in the page and the single file's size and first paint. Data and re
 
   --sizes 1e4x10,1e5x50   fit sizes as rows x predictors (default 1e4,1e5,1e6 x 10,50)
   --quick                 small sizes only (1e4x10,1e4x50,1e5x10) and small side measurements (about a minute)
-  --repeats R             timed repeats per fit, each in the same process; the median counts (default 3)
+  --repeats R             timed repeats per fit, each in the same process, and of the fast whole-process runs
+                          (npm run fit and the pandas ones, in turn); the median counts (default 3)
   --no-reference          skip scikit-learn and R
   --no-extras             skip import / threshold / bootstrap / loss surface
   --browser               also run the browser measurements (Playwright + /usr/bin/chromium): import + fit in the
