@@ -1,4 +1,4 @@
-import { readFileSync, statSync } from 'node:fs';
+import { closeSync, fstatSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { FulcraError, getColumn } from '../engine/core';
 import type { EngineWarning, ModelSpec, TermSpec } from '../engine/core';
@@ -47,10 +47,30 @@ export type FitRun = {
   subgroups?: SubgroupPerformance;
 } & AnalysisRecord;
 
-/** The file's bytes, or a message naming the file when it cannot be read. */
-function readBytes(file: string): Uint8Array {
+/** The first bytes of a zip archive (an Excel workbook). */
+const ZIP = [0x50, 0x4b, 0x03, 0x04];
+
+/**
+ * The file's bytes, or a message naming the file when it cannot be read. `shared`: a delimited file that will be read
+ * in parts goes into shared memory, where the helpers read their parts in place instead of each getting a copy.
+ */
+function readBytes(file: string, shared = false): Uint8Array {
   try {
-    return readFileSync(file);
+    if (!shared) return readFileSync(file);
+    const fd = openSync(file, 'r');
+    try {
+      const size = fstatSync(fd).size;
+      const bytes = new Uint8Array(new SharedArrayBuffer(size));
+      for (let at = 0; at < size;) {
+        const got = readSync(fd, bytes, at, size - at, at);
+        if (got === 0) throw new Error('the file became shorter while it was read');
+        at += got;
+      }
+      // a workbook is unzipped from ordinary memory
+      return ZIP.every((b, k) => bytes[k] === b) ? bytes.slice() : bytes;
+    } finally {
+      closeSync(fd);
+    }
   } catch (e) {
     throw new FulcraError('file-not-read', `Cannot read "${file}": ${(e as Error).message}.`);
   }
@@ -170,7 +190,7 @@ export async function runFit(args: FitArgs, argv: string[], version: string, pro
   const starting = large ? startNodeRowPool(threads) : null;
   let bytes: Uint8Array;
   try {
-    bytes = readBytes(args.file);
+    bytes = readBytes(args.file, large);
   } catch (e) {
     await starting?.then((p) => p.close()).catch(() => undefined);
     throw e;

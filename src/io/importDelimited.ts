@@ -167,7 +167,8 @@ async function readInParts(
     inst.readers.read(
       {
         header,
-        part: bytes.slice(a, ends[k]),
+        // bytes in shared memory (the command line's large files) are read in place; others are copied and moved
+        part: bytes.buffer instanceof ArrayBuffer ? bytes.slice(a, ends[k]) : bytes.subarray(a, ends[k]),
         encoding: s.encoding,
         delimiter: s.delimiter,
         decimalComma: s.decimal === ',',

@@ -324,7 +324,8 @@ export function messagePartReaders(endpoints: PartEndpoint[], timeoutMs = PART_T
           },
         });
         e.busy?.(true);
-        e.postMessage({ partId, part: job }, [job.part.buffer as ArrayBuffer]);
+        // a part in shared memory is shared, not moved (a SharedArrayBuffer cannot be transferred)
+        e.postMessage({ partId, part: job }, job.part.buffer instanceof ArrayBuffer ? [job.part.buffer] : []);
       }),
   };
 }

@@ -148,6 +148,18 @@ describe('reading a delimited file in parts', () => {
   });
 });
 
+describe('a file in shared memory (npm run fit reads a large file so)', () => {
+  it('is read in parts in place, the parts being views of its bytes, to the one-thread result', async () => {
+    const text = new TextEncoder().encode(registry(3000, 31));
+    const shared = new Uint8Array(new SharedArrayBuffer(text.length));
+    shared.set(text);
+    const { one, parts, jobs } = await bothWays(shared, 2);
+    expect(jobs.map((j) => j.part.buffer === shared.buffer)).toEqual([true, true]);
+    expect(parts).toEqual(one);
+    expect(parts).toEqual(await importFile(text, 'registry.csv', options));
+  });
+});
+
 describe('cutPoints and appendPart', () => {
   it('cuts just after line feeds, and not at all with a quote or without line feeds', () => {
     const b = new TextEncoder().encode('h\n1\n22\n333\n4444\n');
