@@ -1,4 +1,5 @@
 import { FulcraError } from '../engine/core';
+import { countByte } from './countByte';
 import { warning, type EngineWarning } from '../engine/core';
 import { CellReader } from './cellReader';
 import { CsvTokenizer } from './csvTokenizer';
@@ -96,9 +97,8 @@ function settle(
 
 /** Line ends (LF, or CR when there is no LF) from `start`, plus an unterminated last line: about the record count. */
 function countLines(b: Uint8Array, start: number): number {
-  let n = 0;
-  for (let i = b.indexOf(10, start); i >= 0; i = b.indexOf(10, i + 1)) n++;
-  if (n === 0) for (let i = b.indexOf(13, start); i >= 0; i = b.indexOf(13, i + 1)) n++;
+  let n = countByte(b, 10, start);
+  if (n === 0) n = countByte(b, 13, start);
   const last = b[b.length - 1];
   return last === 10 || last === 13 ? n : n + 1;
 }

@@ -12,6 +12,7 @@
  * sends the whole file back to one thread.
  */
 import { ByteTokenizer } from './byteTokenizer';
+import { countByte } from './countByte';
 import { CellReader } from './cellReader';
 import type { ColumnBuilder, RowSample } from './columnBuilder';
 import type { TableBuilder } from './tableBuilder';
@@ -125,9 +126,7 @@ function emptyPart(): TablePart {
 }
 
 function countLineFeeds(b: Uint8Array): number {
-  let n = 0;
-  for (let i = b.indexOf(LF); i >= 0; i = b.indexOf(LF, i + 1)) n++;
-  return n;
+  return countByte(b, LF);
 }
 
 function tablePart(tb: TableBuilder, lineEnds: TablePart['lineEnds']): TablePart {
