@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createRng } from '../../src/engine/numerics/rng';
@@ -201,6 +201,41 @@ describe('the iteration limit and a fixed λ in npm run fit', () => {
     const source = execFileSync('npx', ['tsx', 'src/cli/fit.ts', ...argv], { encoding: 'utf8', maxBuffer: 64 << 20 });
     expect(strip(built)).toEqual(strip(source));
     expect(execFileSync('node', ['.ci/cli.mjs', 'fit', '--help'], { encoding: 'utf8' })).toMatch(/^Usage: npm run fit/);
+  }, 120_000);
+
+  it('on a file of 16 MB or more (a child with huge pages on Linux) prints the same record, passes its status', () => {
+    // 90 000 invented rows (seeded) of 24 numbers: about 18 MB, so .ci/cli.mjs runs the fit in a child process
+    const dir = mkdtempSync(join(tmpdir(), 'fulcra-large-'));
+    const file = join(dir, 'large.csv');
+    const rng = createRng(16);
+    const lines = [[...Array.from({ length: 23 }, (_, j) => `x${j + 1}`), 'y'].join(',')];
+    for (let i = 0; i < 90_000; i++) {
+      const x = Array.from({ length: 23 }, () => rng.normal());
+      lines.push([...x.map((v) => v.toFixed(5)), rng.next() < 1 / (1 + Math.exp(1 - 0.5 * x[0])) ? 1 : 0].join(','));
+    }
+    writeFileSync(file, lines.join('\n') + '\n');
+    expect(statSync(file).size).toBeGreaterThanOrEqual(16 * 2 ** 20);
+    const run = (env: Record<string, string>) => {
+      const r = JSON.parse(
+        execFileSync('node', ['.ci/cli.mjs', 'fit', file, '--outcome', 'y', '--predictors', 'x1,x2,x3', '--json'], {
+          encoding: 'utf8',
+          maxBuffer: 64 << 20,
+          env: { ...process.env, ...env },
+        }),
+      );
+      delete r.created;
+      return r;
+    };
+    expect(run({})).toEqual(run({ FULCRA_NO_HUGE_PAGES: '1' }));
+    // a failure in the child reaches the caller with its status and message
+    try {
+      execFileSync('node', ['.ci/cli.mjs', 'fit', file, '--outcome', 'nope'], { encoding: 'utf8', stdio: 'pipe' });
+      expect.unreachable('an unknown outcome column must fail');
+    } catch (e) {
+      expect((e as { status: number }).status).toBe(2);
+      expect((e as { stderr: string }).stderr).toContain('"nope"');
+    }
+    rmSync(dir, { recursive: true, force: true });
   }, 120_000);
 
   it('states the penalised objective and the new options in --help', () => {
