@@ -76,9 +76,11 @@ function hugePagesChild() {
   } catch {
     return false;
   }
+  // 16 MB: PARALLEL_MIN_BYTES (src/io/parallelParse.ts), where a file is also read in parts
   return rest.some((a) => {
     try {
-      return statSync(a).isFile() && statSync(a).size >= 16 * 2 ** 20;
+      const st = statSync(a);
+      return st.isFile() && st.size >= 16 * 2 ** 20;
     } catch {
       return false;
     }

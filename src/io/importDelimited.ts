@@ -1,9 +1,9 @@
 import { FulcraError } from '../engine/core';
-import { countByte } from './countByte';
 import { warning, type EngineWarning } from '../engine/core';
 import { CellReader } from './cellReader';
 import { CsvTokenizer } from './csvTokenizer';
 import { ByteTokenizer } from './byteTokenizer';
+import { countByte } from './countByte';
 import { CHUNK_BYTES, decodeChunks, detectBom, firstInvalidUtf8 } from './decode';
 import { detectDecimal, detectDelimiter, detectHeader } from './detectFormat';
 import { afterChunk, checkCancelled, finishImport } from './finishImport';
